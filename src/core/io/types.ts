@@ -1,0 +1,55 @@
+/**
+ * What every loader returns: traces plus a load report, or a problem the
+ * user can act on. Loaders never throw for bad input; they return
+ * `{ ok: false }` with the file, line and what to do.
+ */
+import type { Trace } from '../trace.ts';
+
+/** A row the loader did not use, with the reason (1-based line number in the file). */
+export interface SkippedRow {
+  line: number;
+  reason: string;
+  text: string;
+}
+
+export interface LoadReport {
+  fileName: string;
+  sha256: string;
+  /** Human-readable format, e.g. "delimited text (semicolon, decimal comma)". */
+  format: string;
+  rowsRead: number;
+  skipped: SkippedRow[];
+  /** Sentences for the notices area: sorting, duplicate x, index used as x, etc. */
+  notices: string[];
+  /** Metadata lines / labels kept from the file. */
+  metadata: Record<string, string>;
+  /** Column headers as read (for choosing x and y), with units parsed out. */
+  columns?: { name: string; unit: string }[];
+}
+
+export interface LoadProblem {
+  fileName: string;
+  /** 1-based line (text formats) when the problem is at a place in the file. */
+  line?: number;
+  /** What is wrong, in one sentence. */
+  problem: string;
+  /** What the user can do about it. */
+  advice: string;
+}
+
+export type LoadResult =
+  | { ok: true; traces: Trace[]; report: LoadReport }
+  | { ok: false; error: LoadProblem };
+
+/** Options the user may set when a file has several columns. */
+export interface LoadOptions {
+  /** 0-based column index used as x; -1 means point index. Default: first numeric column (or index when only one). */
+  xColumn?: number;
+  /** 0-based column indices loaded as y traces. Default: every numeric column but x. */
+  yColumns?: number[];
+  /** Called with a fraction 0..1 while parsing large files. */
+  onProgress?: (fraction: number) => void;
+}
+
+/** Largest file the page accepts, in bytes; bigger files are refused with a message. */
+export const MAX_FILE_BYTES = 400 * 1024 * 1024;
