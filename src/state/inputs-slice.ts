@@ -1,0 +1,84 @@
+import type { StateCreator } from 'zustand';
+import type { LoadReport } from '../core/io/types.ts';
+import type { Trace, TraceRole } from '../core/trace.ts';
+import type { AppState } from './store.ts';
+
+export type NoticeKind = 'info' | 'warning' | 'error';
+export interface Notice {
+  id: number;
+  kind: NoticeKind;
+  title: string;
+  lines: string[];
+}
+
+export interface InputsSlice {
+  traces: Trace[];
+  roles: Record<string, TraceRole>;
+  /** The trace being processed (role sample). */
+  sampleId: string | null;
+  reports: Record<string, LoadReport>;
+  notices: Notice[];
+  loading: { fileName: string; fraction: number } | null;
+  addTraces: (traces: Trace[], report: LoadReport, opts?: { replace?: boolean; roles?: TraceRole[] }) => void;
+  setRole: (id: string, role: TraceRole) => void;
+  setSample: (id: string) => void;
+  removeTrace: (id: string) => void;
+  notify: (kind: NoticeKind, title: string, lines?: string[]) => void;
+  dismissNotice: (id: number) => void;
+  setLoading: (l: { fileName: string; fraction: number } | null) => void;
+}
+
+let noticeId = 0;
+
+export const createInputsSlice: StateCreator<AppState, [], [], InputsSlice> = (set) => ({
+  traces: [],
+  roles: {},
+  sampleId: null,
+  reports: {},
+  notices: [],
+  loading: null,
+  addTraces: (incoming, report, opts) => set((s) => {
+    const traces = opts?.replace ? [...incoming] : [...s.traces, ...incoming];
+    const roles: Record<string, TraceRole> = opts?.replace ? {} : { ...s.roles };
+    const reports = opts?.replace ? {} : { ...s.reports };
+    incoming.forEach((t, i) => {
+      roles[t.id] = opts?.roles?.[i] ?? (i === 0 ? 'sample' : 'ignore');
+      reports[t.id] = report;
+    });
+    let sampleId = opts?.replace ? null : s.sampleId;
+    const firstSample = incoming.find((t) => roles[t.id] === 'sample');
+    if (firstSample) {
+      // A newly loaded sample becomes the one processed; the previous sample is kept, set aside.
+      if (sampleId && sampleId !== firstSample.id && roles[sampleId] === 'sample') roles[sampleId] = 'ignore';
+      sampleId = firstSample.id;
+    }
+    return { traces, roles, reports, sampleId };
+  }),
+  setRole: (id, role) => set((s) => {
+    const roles = { ...s.roles, [id]: role };
+    let sampleId = s.sampleId;
+    if (role === 'blank') for (const t of s.traces) if (t.id !== id && roles[t.id] === 'blank') roles[t.id] = 'ignore';
+    if (role === 'sample') {
+      if (sampleId && sampleId !== id) roles[sampleId] = 'ignore';
+      sampleId = id;
+    } else if (sampleId === id) sampleId = null;
+    return { roles, sampleId };
+  }),
+  setSample: (id) => set((s) => {
+    const roles = { ...s.roles };
+    if (s.sampleId && s.sampleId !== id) roles[s.sampleId] = 'ignore';
+    roles[id] = 'sample';
+    return { roles, sampleId: id };
+  }),
+  removeTrace: (id) => set((s) => {
+    const roles = { ...s.roles };
+    delete roles[id];
+    return { traces: s.traces.filter((t) => t.id !== id), roles, sampleId: s.sampleId === id ? null : s.sampleId };
+  }),
+  notify: (kind, title, lines = []) => set((s) => {
+    noticeId += 1;
+    return { notices: [{ id: noticeId, kind, title, lines }, ...s.notices].slice(0, 30) };
+  }),
+  dismissNotice: (id) => set((s) => ({ notices: s.notices.filter((n) => n.id !== id) })),
+  setLoading: (loading) => set({ loading }),
+});

@@ -1,0 +1,22 @@
+/**
+ * One store in slices: inputs (traces and roles), recipe (the step stack
+ * with undo/redo), results (what the worker computed), view (zoom and
+ * display choices). The store holds data only, never a Worker or a plot.
+ */
+import { create } from 'zustand';
+import { createInputsSlice, type InputsSlice } from './inputs-slice.ts';
+import { createRecipeSlice, type RecipeSlice } from './recipe-slice.ts';
+import { createResultsSlice, type ResultsSlice } from './results-slice.ts';
+import { createViewSlice, type ViewSlice } from './view-slice.ts';
+
+export type AppState = InputsSlice & RecipeSlice & ResultsSlice & ViewSlice;
+
+/** A fresh store (tests make one each). */
+export const createAppStore = () => create<AppState>()((...a) => ({
+  ...createInputsSlice(...a),
+  ...createRecipeSlice(...a),
+  ...createResultsSlice(...a),
+  ...createViewSlice(...a),
+}));
+
+export const useApp = createAppStore();

@@ -1,0 +1,98 @@
+import { useCallback, useEffect, useRef, useState } from 'react';
+import { useApp } from '../state/store.ts';
+import { loadDemo, openFiles } from './controller.ts';
+import { Notices } from './Notices.tsx';
+import { ResidualPanel } from './ResidualPanel.tsx';
+import { StepStack } from './StepStack.tsx';
+import { TraceList } from './TraceList.tsx';
+import { TracePlot } from './TracePlot.tsx';
+
+export function App() {
+  const fileInput = useRef<HTMLInputElement>(null);
+  const [dragging, setDragging] = useState(false);
+  const busy = useApp((s) => s.busy);
+  const markMode = useApp((s) => s.markMode);
+  const marked = useApp((s) => s.markedRange);
+  const showRaw = useApp((s) => s.showRaw);
+  const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
+  const { setMarkMode, setShowRaw, setXRange, undo, redo } = useApp.getState();
+  const figure = useRef<HTMLElement | null>(null);
+  const onFigure = useCallback((el: HTMLElement | null) => { figure.current = el; }, []);
+
+  useEffect(() => {
+    const onKey = (e: KeyboardEvent) => {
+      const target = e.target as HTMLElement | null;
+      if (target && (target.tagName === 'INPUT' || target.tagName === 'TEXTAREA' || target.tagName === 'SELECT')) return;
+      if ((e.ctrlKey || e.metaKey) && e.key.toLowerCase() === 'z') {
+        e.preventDefault();
+        if (e.shiftKey) redo(); else undo();
+      }
+    };
+    window.addEventListener('keydown', onKey);
+    return () => window.removeEventListener('keydown', onKey);
+  }, [undo, redo]);
+
+  return (
+    <div
+      className={`app ${dragging ? 'drop-active' : ''}`}
+      onDragOver={(e) => { if (e.dataTransfer.types.includes('Files')) { e.preventDefault(); setDragging(true); } }}
+      onDragLeave={(e) => { if (e.currentTarget === e.target) setDragging(false); }}
+      onDrop={(e) => {
+        if (!e.dataTransfer.files.length) return;
+        e.preventDefault();
+        setDragging(false);
+        void openFiles(Array.from(e.dataTransfer.files));
+      }}
+    >
+      <header className="topbar">
+        <div className="brand">
+          <span className="brand-name">Tracewright</span>
+          <span className="brand-tag">clean a trace, measure its peaks, see what the cleaning cost</span>
+        </div>
+        <div className="row">
+          <button type="button" className="primary" onClick={() => fileInput.current?.click()}>Open file…</button>
+          <input
+            ref={fileInput}
+            type="file"
+            multiple
+            className="sr-only"
+            data-testid="file-input"
+            aria-label="Open trace files"
+            onChange={(e) => {
+              const files = Array.from(e.target.files ?? []);
+              e.target.value = '';
+              void openFiles(files);
+            }}
+          />
+          <button type="button" onClick={() => void loadDemo()}>Reload demo</button>
+        </div>
+      </header>
+      <p className="caution" role="note">
+        Not a validated system. Results are for exploration and review; your laboratory’s procedures, validated methods and regulators’ requirements govern. Data stays on this computer.
+      </p>
+      <Notices />
+      <main className="layout">
+        <aside className="side">
+          <TraceList />
+          <StepStack />
+        </aside>
+        <div className="main">
+          <section className="panel plot-panel" aria-labelledby="plot-title">
+            <div className="panel-head">
+              <h2 id="plot-title">{sample ? sample.name : 'Trace'}{busy ? <span className="busy" aria-label="computing"> ·</span> : null}</h2>
+              <div className="row">
+                <label className="switch"><input type="checkbox" checked={showRaw} onChange={(e) => setShowRaw(e.target.checked)} /> raw</label>
+                <button type="button" aria-pressed={markMode} onClick={() => setMarkMode(!markMode)}>{markMode ? 'Marking: drag across the plot' : 'Mark a range'}</button>
+                {marked && <span className="muted small">marked {marked[0].toPrecision(4)} – {marked[1].toPrecision(4)}</span>}
+                <button type="button" onClick={() => setXRange(null)}>Whole trace</button>
+              </div>
+            </div>
+            <TracePlot onFigure={onFigure} />
+          </section>
+          <ResidualPanel />
+        </div>
+      </main>
+      {dragging && <div className="drop-hint" aria-hidden="true">Drop trace files to load them</div>}
+    </div>
+  );
+}

@@ -1,0 +1,24 @@
+import { useApp } from '../state/store.ts';
+
+/** What the processing removed, and whether it looks like noise. */
+export function ResidualPanel() {
+  const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
+  if (!result) return null;
+  const d = result.diagnostics;
+  return (
+    <section className="panel residual" aria-labelledby="residual-title" data-testid="residual-panel">
+      <h2 id="residual-title">What the processing removed</h2>
+      {result.residualNote && <p className="muted">{result.residualNote}</p>}
+      {d ? (
+        <>
+          <p className={d.looksLikeNoise ? 'verdict ok' : 'verdict warn'} data-testid="residual-verdict">{d.verdict}</p>
+          <dl className="figures-grid">
+            <dt>RMS of the residual</dt><dd>{d.rms.toPrecision(4)}</dd>
+            <dt>Lag-1 autocorrelation</dt><dd>{d.lag1.toFixed(3)} (white noise stays within ±{d.lag1Threshold.toFixed(3)})</dd>
+            <dt>Runs about the median</dt><dd>{d.runs.runs} (expected {d.runs.expected.toFixed(1)}, z = {d.runs.z.toFixed(2)}, p = {d.runs.p.toPrecision(2)})</dd>
+          </dl>
+        </>
+      ) : <p className="muted">No processing yet, so nothing was removed.</p>}
+    </section>
+  );
+}

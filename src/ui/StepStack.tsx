@@ -1,0 +1,105 @@
+import { useMemo, useState } from 'react';
+import { STEP_REGISTRY, stepDefinition } from '../core/steps/registry.ts';
+import { meanStep } from '../core/numeric/interpolate.ts';
+import { useApp } from '../state/store.ts';
+import { ParamControl } from './ParamControl.tsx';
+
+/** The user's processing stack: add, reorder (drag or keyboard), switch, remove, edit. */
+export function StepStack() {
+  const recipe = useApp((s) => s.recipe);
+  const runs = useApp((s) => s.result?.runs ?? []);
+  const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
+  const showUid = useApp((s) => s.showUid);
+  const { addStep, removeStep, moveStep, toggleStep, setParam, undo, redo, setShowUid } = useApp.getState();
+  const canUndo = useApp((s) => s.past.length > 0);
+  const canRedo = useApp((s) => s.future.length > 0);
+  const [choice, setChoice] = useState(STEP_REGISTRY[0]?.id ?? '');
+  const [dragFrom, setDragFrom] = useState<number | null>(null);
+  const [announce, setAnnounce] = useState('');
+  const dx = useMemo(() => (sample ? meanStep(sample.x) : null), [sample]);
+
+  const move = (from: number, to: number) => {
+    if (to < 0 || to >= recipe.steps.length) return;
+    moveStep(from, to);
+    const def = stepDefinition(recipe.steps[from].step);
+    setAnnounce(`${def?.label ?? 'Step'} moved to position ${to + 1} of ${recipe.steps.length}.`);
+  };
+
+  return (
+    <section className="panel" aria-labelledby="stack-title">
+      <div className="panel-head">
+        <h2 id="stack-title">Processing</h2>
+        <div className="row">
+          <button type="button" onClick={undo} disabled={!canUndo} title="Undo (Ctrl+Z)">Undo</button>
+          <button type="button" onClick={redo} disabled={!canRedo} title="Redo (Ctrl+Shift+Z)">Redo</button>
+        </div>
+      </div>
+      <div className="row add-step">
+        <label htmlFor="add-step-choice" className="sr-only">Step to add</label>
+        <select id="add-step-choice" value={choice} onChange={(e) => setChoice(e.target.value)}>
+          {STEP_REGISTRY.map((d) => <option key={d.id} value={d.id}>{d.label}</option>)}
+        </select>
+        <button type="button" className="primary" onClick={() => choice && addStep(choice)} disabled={!choice}>Add step</button>
+      </div>
+      {recipe.steps.length === 0 && <p className="muted">No steps: the raw trace is used as loaded. Add a step to clean it; each step shows what it changed in the residual below the plot.</p>}
+      <ol className="steps">
+        {recipe.steps.map((entry, i) => {
+          const def = stepDefinition(entry.step);
+          const run = runs.find((r) => r.uid === entry.uid);
+          if (!def) return <li key={entry.uid} className="step step-error">Unknown step {entry.step}</li>;
+          return (
+            <li
+              key={entry.uid}
+              className={`step ${entry.enabled ? '' : 'step-off'} ${dragFrom === i ? 'dragging' : ''}`}
+              draggable
+              onDragStart={(e) => { setDragFrom(i); e.dataTransfer.effectAllowed = 'move'; }}
+              onDragOver={(e) => { e.preventDefault(); }}
+              onDrop={(e) => { e.preventDefault(); if (dragFrom !== null) move(dragFrom, i); setDragFrom(null); }}
+              onDragEnd={() => setDragFrom(null)}
+              data-testid={`step-${entry.step}`}
+            >
+              <div className="step-head">
+                <button
+                  type="button"
+                  className="grip"
+                  aria-label={`Reorder ${def.label}, position ${i + 1} of ${recipe.steps.length}. Use the up and down arrow keys.`}
+                  onKeyDown={(e) => {
+                    if (e.key === 'ArrowUp') { e.preventDefault(); move(i, i - 1); }
+                    if (e.key === 'ArrowDown') { e.preventDefault(); move(i, i + 1); }
+                  }}
+                >⠿</button>
+                <span className="step-num">{i + 1}</span>
+                <h3 className="step-title">{def.label}</h3>
+                <label className="switch">
+                  <input type="checkbox" checked={entry.enabled} onChange={() => toggleStep(entry.uid)} aria-label={`${def.label} on`} />
+                  on
+                </label>
+                <button type="button" className="link" onClick={() => setShowUid(showUid === entry.uid ? null : entry.uid)} aria-pressed={showUid === entry.uid}>
+                  {showUid === entry.uid ? 'hide output' : 'show output'}
+                </button>
+                <button type="button" className="link danger" onClick={() => removeStep(entry.uid)} aria-label={`Remove ${def.label}`}>remove</button>
+              </div>
+              <p className="step-summary">{def.summary}</p>
+              <div className="params">
+                {def.params.map((spec) => (
+                  <ParamControl key={spec.key} spec={spec} value={entry.params[spec.key]} dx={dx} xUnit={sample?.xUnit ?? ''} onChange={(v) => setParam(entry.uid, spec.key, v)} />
+                ))}
+              </div>
+              {run?.status === 'error' && <p className="step-problem" role="alert">{run.message}</p>}
+              {run?.status === 'ok' && (
+                <div className="step-notes">
+                  {run.notes.map((n, k) => <p key={k}>{n}</p>)}
+                  {run.figures && Object.keys(run.figures).length > 0 && (
+                    <p className="figures">{Object.entries(run.figures).map(([k, v]) => `${k} ${Number.isFinite(v) ? Number(v.toPrecision(4)) : v}`).join(' · ')}</p>
+                  )}
+                  <p className="muted small">{run.points} points out{run.cached ? ' (from cache)' : ` in ${run.ms} ms`}</p>
+                </div>
+              )}
+            </li>
+          );
+        })}
+      </ol>
+      <p className="sr-only" aria-live="polite">{announce}</p>
+    </section>
+  );
+}

@@ -1,0 +1,109 @@
+import { useCallback, useMemo, useRef, useState, useEffect } from 'react';
+import type { PlotData, PlotLayout } from 'plotly.js-strict-dist-min';
+import { decimateMinMax } from '../core/numeric/decimate.ts';
+import { axisLabel } from '../core/trace.ts';
+import { useApp } from '../state/store.ts';
+import { COLOURS } from './palette.ts';
+import { PlotlyFigure } from './PlotlyFigure.tsx';
+
+/** Plot width in pixel columns used for decimation (two points per column). */
+function useWidth(): [React.RefObject<HTMLDivElement | null>, number] {
+  const ref = useRef<HTMLDivElement>(null);
+  const [w, setW] = useState(1000);
+  useEffect(() => {
+    const el = ref.current;
+    if (!el || typeof ResizeObserver === 'undefined') return;
+    const ro = new ResizeObserver(() => setW(Math.max(200, Math.round(el.clientWidth))));
+    ro.observe(el);
+    return () => ro.disconnect();
+  }, []);
+  return [ref, w];
+}
+
+function arr(a: Float64Array): number[] {
+  return Array.from(a);
+}
+
+export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) => void }) {
+  const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
+  const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
+  const xRange = useApp((s) => s.xRange);
+  const showRaw = useApp((s) => s.showRaw);
+  const setXRange = useApp((s) => s.setXRange);
+  const markMode = useApp((s) => s.markMode);
+  const setMarked = useApp((s) => s.setMarkedRange);
+  const marked = useApp((s) => s.markedRange);
+  const [boxRef, width] = useWidth();
+
+  const data = useMemo<PlotData[]>(() => {
+    if (!sample) return [];
+    const from = xRange ? xRange[0] : -Infinity;
+    const to = xRange ? xRange[1] : Infinity;
+    const cols = Math.max(200, width - 120);
+    const traces: PlotData[] = [];
+    if (showRaw || !result) {
+      const d = decimateMinMax(sample.x, sample.y, from, to, cols);
+      traces.push({ type: 'scatter', mode: 'lines', name: 'raw', x: arr(d.x), y: arr(d.y), line: { color: COLOURS.raw, width: 1 }, hoverinfo: 'x+y', xaxis: 'x', yaxis: 'y' });
+    }
+    if (result) {
+      if (result.baseline && result.baseline.length === result.processed.x.length) {
+        const d = decimateMinMax(result.processed.x, result.baseline, from, to, cols);
+        traces.push({ type: 'scatter', mode: 'lines', name: 'baseline', x: arr(d.x), y: arr(d.y), line: { color: COLOURS.baseline, width: 1.5, dash: 'dash' }, xaxis: 'x', yaxis: 'y' });
+      }
+      if (result.intermediate) {
+        const d = decimateMinMax(result.intermediate.x, result.intermediate.y, from, to, cols);
+        traces.push({ type: 'scatter', mode: 'lines', name: 'chosen step output', x: arr(d.x), y: arr(d.y), line: { color: COLOURS.intermediate, width: 1.2, dash: 'dot' }, xaxis: 'x', yaxis: 'y' });
+      }
+      const p = decimateMinMax(result.processed.x, result.processed.y, from, to, cols);
+      traces.push({ type: 'scatter', mode: 'lines', name: 'processed', x: arr(p.x), y: arr(p.y), line: { color: COLOURS.processed, width: 1.8 }, xaxis: 'x', yaxis: 'y' });
+      if (result.events.length) {
+        traces.push({
+          type: 'scatter', mode: 'markers', name: 'replaced points',
+          x: result.events.map((e) => e.x), y: result.events.map((e) => e.original),
+          marker: { color: COLOURS.spike, symbol: 'x', size: 10, line: { width: 2, color: COLOURS.spike } },
+          text: result.events.map((e) => `replaced ${e.original.toPrecision(5)} → ${e.replacement.toPrecision(5)}`),
+          hoverinfo: 'x+text', xaxis: 'x', yaxis: 'y',
+        });
+      }
+      const r = decimateMinMax(result.residual.x, result.residual.y, from, to, cols);
+      traces.push({ type: 'scatter', mode: 'lines', name: 'residual (raw − processed)', x: arr(r.x), y: arr(r.y), line: { color: COLOURS.residual, width: 1 }, xaxis: 'x', yaxis: 'y2' });
+    }
+    return traces;
+  }, [sample, result, xRange, showRaw, width]);
+
+  const layout = useMemo<PlotLayout>(() => {
+    const xTitle = sample ? axisLabel(sample.xName, sample.xUnit) : 'x';
+    const yTitle = sample ? axisLabel(sample.yName, sample.yUnit) : 'y';
+    const shapes = marked ? [{ type: 'rect', xref: 'x', yref: 'paper', x0: marked[0], x1: marked[1], y0: 0, y1: 1, fillcolor: 'rgba(0,158,115,0.10)', line: { width: 0 } }] : [];
+    return {
+      autosize: true,
+      height: 560,
+      margin: { l: 70, r: 20, t: 10, b: 50 },
+      showlegend: true,
+      legend: { orientation: 'h', y: 1.02, x: 0, yanchor: 'bottom' },
+      dragmode: markMode ? 'select' : 'zoom',
+      selectdirection: 'h',
+      hovermode: 'closest',
+      xaxis: { title: { text: xTitle }, anchor: 'y2', range: xRange ?? undefined, autorange: xRange ? false : true, gridcolor: COLOURS.grid, zeroline: false },
+      yaxis: { title: { text: yTitle }, domain: [0.3, 1], gridcolor: COLOURS.grid, zeroline: false },
+      yaxis2: { title: { text: 'residual' }, domain: [0, 0.22], gridcolor: COLOURS.grid, zeroline: true, zerolinecolor: '#b0b6bd' },
+      shapes,
+      uirevision: sample?.id ?? 'none',
+      paper_bgcolor: '#ffffff',
+      plot_bgcolor: '#ffffff',
+      font: { family: 'system-ui, sans-serif', size: 12, color: COLOURS.ink },
+    };
+  }, [sample, xRange, markMode, marked]);
+
+  const onXRange = useCallback((r: [number, number] | null) => setXRange(r), [setXRange]);
+  const onSelectX = useCallback((r: [number, number]) => setMarked(r), [setMarked]);
+
+  if (!sample) {
+    return <div className="plot-empty" ref={boxRef}>No trace yet. Drop a file here or choose one with “Open file”.</div>;
+  }
+  return (
+    <div ref={boxRef} className="plot-box">
+      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onReady={onFigure} />
+    </div>
+  );
+}
