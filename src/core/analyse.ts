@@ -7,7 +7,54 @@ import { PipelineCache, runPipeline, type StepStatus } from './pipeline.ts';
 import type { Recipe, Registry } from './recipe.ts';
 import type { Signal, SpikeEvent, StepContext } from './steps/types.ts';
 import type { Trace } from './trace.ts';
-import { interpolateLinear } from './numeric/interpolate.ts';
+import { meanStep } from './numeric/interpolate.ts';
+import { residual as residualOf, residualDiagnostics, type ResidualDiagnostics } from './diagnostics.ts';
+import { noisePeakToPeak, noiseRms, noiseRobust, type NoiseEstimate } from './noise.ts';
+import { applyPeakDecisions, defaultPeakOptions, detectPeaks, type Peak, type PeakDecisions, type PeakOptions, type SnrDefinition } from './peaks.ts';
+
+/** How noise is measured for S/N = H/σ. */
+export type NoiseMethod = 'robust' | 'rms';
+
+export interface NoiseSettings {
+  method: NoiseMethod;
+  /** Quiet baseline range the user marked (x-units); needed by 'rms' and for the peak-to-peak figure. */
+  quietRange: [number, number] | null;
+}
+
+/** Peak thresholds as the user sets them; prominence in multiples of σ so it scales with the data. */
+export interface PeakSettings {
+  /** 'processed' (default) or 'raw': the trace peaks and noise are measured on. */
+  measureOn: 'processed' | 'raw';
+  minProminenceSigma: number;
+  minSnr: number;
+  /** x-units; 0 = three sample spacings. */
+  minWidth: number;
+  /** x-units; 0 = off. */
+  minSeparation: number;
+  snrDefinition: SnrDefinition;
+  pharmacopoeialMultiplier: number;
+  negative: boolean;
+  detectionLimit: number;
+  quantitationLimit: number;
+}
+
+export const DEFAULT_NOISE_SETTINGS: NoiseSettings = { method: 'robust', quietRange: null };
+
+export const DEFAULT_PEAK_SETTINGS: PeakSettings = {
+  measureOn: 'processed', minProminenceSigma: 2, minSnr: 2, minWidth: 0, minSeparation: 0,
+  snrDefinition: 'rms', pharmacopoeialMultiplier: 5, negative: false, detectionLimit: 3, quantitationLimit: 10,
+};
+
+export interface NoiseReport {
+  /** σ used for H/σ on the measured trace. */
+  sigma: NoiseEstimate;
+  /** The same estimator on the raw trace, so the user sees what smoothing did to the noise. */
+  rawSigma: NoiseEstimate | null;
+  /** Peak-to-peak range over the quiet range, when one is marked. */
+  peakToPeak: NoiseEstimate | null;
+  /** Sentences: fallbacks and problems. */
+  notes: string[];
+}
 
 export interface AnalyseRequest {
   sampleId: string;
@@ -16,6 +63,9 @@ export interface AnalyseRequest {
   recipe: Recipe;
   /** uid of a step whose output the page wants to draw as well. */
   showUid?: string | null;
+  noise?: NoiseSettings;
+  peaks?: PeakSettings;
+  decisions?: PeakDecisions;
 }
 
 export interface StepRunSummary {
@@ -40,26 +90,48 @@ export interface AnalyseResult {
   residual: Signal;
   /** Sentence when the residual needed interpolation (the grid changed). */
   residualNote?: string;
+  /** Tests on the residual; null when no step ran. */
+  diagnostics: ResidualDiagnostics | null;
   baseline?: Float64Array;
   intermediate?: Signal | null;
   runs: StepRunSummary[];
   events: SpikeEvent[];
+  noise: NoiseReport | null;
+  peaks: Peak[];
+  /** The options the peaks were measured with (for the table header and exports). */
+  peakOptions: PeakOptions | null;
+  /** Why peaks could not be measured, when they could not. */
+  peakProblem?: string;
   ms: number;
 }
 
-/** Residual raw − processed on the processed grid (raw interpolated when the grids differ). */
-export function residualOf(raw: Signal, processed: Signal): { residual: Signal; note?: string } {
-  const n = processed.x.length;
-  const r = new Float64Array(n);
-  let same = raw.x.length === n;
-  if (same) for (let i = 0; i < n; i++) if (raw.x[i] !== processed.x[i]) { same = false; break; }
-  if (same) {
-    for (let i = 0; i < n; i++) r[i] = raw.y[i] - processed.y[i];
-    return { residual: { x: processed.x, y: r } };
+/** Measure noise on `sig` by the chosen method; `raw` gives the comparison figure. */
+export function measureNoise(sig: Signal, raw: Signal, settings: NoiseSettings): NoiseReport {
+  const notes: string[] = [];
+  const pick = (s: Signal): NoiseEstimate | null => {
+    if (settings.method === 'rms') {
+      if (settings.quietRange) {
+        const r = noiseRms(s.x, s.y, settings.quietRange[0], settings.quietRange[1]);
+        if (r.ok) return r;
+        notes.push(`${r.message} The automatic robust estimate is used instead.`);
+      } else {
+        notes.push('No quiet baseline range is marked, so the automatic robust estimate is used. Mark a range on the plot to use the RMS about a line.');
+      }
+    }
+    const r = noiseRobust(s.y);
+    return r.ok ? r : null;
+  };
+  const sigma = pick(sig);
+  const before = notes.length;
+  const rawSigma = sig === raw ? sigma : pick(raw);
+  notes.length = before; // fallback sentences for the raw comparison would repeat the same advice
+  let peakToPeak: NoiseEstimate | null = null;
+  if (settings.quietRange) {
+    const r = noisePeakToPeak(sig.x, sig.y, settings.quietRange[0], settings.quietRange[1]);
+    if (r.ok) peakToPeak = r; else notes.push(r.message);
   }
-  const rawOn = interpolateLinear(raw.x, raw.y, processed.x);
-  for (let i = 0; i < n; i++) r[i] = Number.isFinite(rawOn[i]) ? rawOn[i] - processed.y[i] : 0;
-  return { residual: { x: processed.x, y: r }, note: 'The processed trace has a different x grid, so the raw trace was interpolated linearly onto it to form the residual.' };
+  if (!sigma) throw new Error('noise could not be estimated on a valid trace');
+  return { sigma, rawSigma, peakToPeak, notes };
 }
 
 /** Run one analysis. `traces` holds every loaded trace by id. */
@@ -75,7 +147,18 @@ export function analyse(
   };
   const raw: Signal = { x: sample.x, y: sample.y };
   const run = runPipeline(raw, sample.id, request.recipe, registry, ctx, cache);
-  const { residual, note } = residualOf(raw, run.final);
+  let residual: Signal;
+  let note: string | undefined;
+  try {
+    const r = residualOf(raw, run.final);
+    residual = { x: r.x, y: r.y };
+    note = r.note ?? undefined;
+  } catch (e) {
+    residual = { x: run.final.x, y: new Float64Array(run.final.x.length) };
+    note = `${(e as Error).message} The residual is not shown.`;
+  }
+  const processedSomething = run.runs.some((r) => r.status === 'ok');
+  const diagnostics = processedSomething && residual.y.length >= 3 ? residualDiagnostics(residual.y) : null;
   const runs: StepRunSummary[] = run.runs.map((r) => ({
     uid: r.uid, step: r.step, status: r.status, message: r.message,
     notes: r.output?.notes ?? [], figures: r.output?.figures, cached: r.cached, ms: r.ms,
@@ -86,7 +169,44 @@ export function analyse(
     const hit = run.runs.find((r) => r.uid === request.showUid && r.output);
     if (hit?.output) intermediate = { x: hit.output.x, y: hit.output.y };
   }
+  let noise: NoiseReport | null = null;
+  let peaks: Peak[] = [];
+  let peakOptions: PeakOptions | null = null;
+  let peakProblem: string | undefined;
+  const ps = request.peaks ?? DEFAULT_PEAK_SETTINGS;
+  const measured = ps.measureOn === 'raw' ? raw : run.final;
+  if (measured.y.length >= 5) {
+    noise = measureNoise(measured, raw, request.noise ?? DEFAULT_NOISE_SETTINGS);
+    const sigma = noise.sigma.sigma;
+    if (!(sigma > 0)) {
+      peakProblem = 'The noise is zero (the trace is perfectly smooth or constant), so S/N cannot be measured. Mark a quiet range with some noise, or measure on the raw trace.';
+    } else {
+      const dx = meanStep(measured.x);
+      const base = defaultPeakOptions(sigma, dx);
+      peakOptions = {
+        ...base,
+        minProminence: ps.minProminenceSigma * sigma,
+        minSnr: ps.minSnr,
+        minWidth: ps.minWidth > 0 ? ps.minWidth : base.minWidth,
+        minSeparation: ps.minSeparation,
+        snrDefinition: ps.snrDefinition,
+        pharmacopoeialMultiplier: ps.pharmacopoeialMultiplier,
+        negative: ps.negative,
+        limits: { detection: ps.detectionLimit, quantitation: ps.quantitationLimit },
+        pharmacopoeialNoise: ctx.blank ? { x: ctx.blank.x, y: ctx.blank.y, fromBlank: true } : undefined,
+      };
+      try {
+        peaks = detectPeaks(measured.x, measured.y, peakOptions);
+        const d = request.decisions;
+        if (d && (d.added.length || d.removed.length)) peaks = applyPeakDecisions(peaks, d, measured.x, measured.y, peakOptions);
+      } catch (e) {
+        peakProblem = (e as Error).message;
+        peaks = [];
+      }
+    }
+  }
   return {
+    noise, peaks, peakOptions, peakProblem, diagnostics,
     sampleId: sample.id, processed: run.final, residual, residualNote: note, baseline: run.baseline,
     intermediate, runs, events: run.events, ms: Date.now() - t0,
   };

@@ -4,12 +4,13 @@
  * display choices). The store holds data only, never a Worker or a plot.
  */
 import { create } from 'zustand';
+import { createAnalysisSlice, type AnalysisSlice } from './analysis-slice.ts';
 import { createInputsSlice, type InputsSlice } from './inputs-slice.ts';
 import { createRecipeSlice, type RecipeSlice } from './recipe-slice.ts';
 import { createResultsSlice, type ResultsSlice } from './results-slice.ts';
 import { createViewSlice, type ViewSlice } from './view-slice.ts';
 
-export type AppState = InputsSlice & RecipeSlice & ResultsSlice & ViewSlice;
+export type AppState = InputsSlice & RecipeSlice & ResultsSlice & ViewSlice & AnalysisSlice;
 
 /** A fresh store (tests make one each). */
 export const createAppStore = () => create<AppState>()((...a) => ({
@@ -17,6 +18,7 @@ export const createAppStore = () => create<AppState>()((...a) => ({
   ...createRecipeSlice(...a),
   ...createResultsSlice(...a),
   ...createViewSlice(...a),
+  ...createAnalysisSlice(...a),
 }));
 
 export const useApp = createAppStore();

@@ -27,6 +27,6 @@ export const createViewSlice: StateCreator<AppState, [], [], ViewSlice> = (set) 
   setShowUid: (showUid) => set({ showUid }),
   markMode: false,
   markedRange: null,
-  setMarkMode: (markMode) => set({ markMode }),
+  setMarkMode: (markMode) => set({ markMode, addPeakMode: false }),
   setMarkedRange: (markedRange) => set({ markedRange }),
 });

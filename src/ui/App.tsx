@@ -2,6 +2,8 @@ import { useCallback, useEffect, useRef, useState } from 'react';
 import { useApp } from '../state/store.ts';
 import { loadDemo, openFiles } from './controller.ts';
 import { Notices } from './Notices.tsx';
+import { NoisePanel } from './NoisePanel.tsx';
+import { PeakTable } from './PeakTable.tsx';
 import { ResidualPanel } from './ResidualPanel.tsx';
 import { StepStack } from './StepStack.tsx';
 import { TraceList } from './TraceList.tsx';
@@ -90,6 +92,8 @@ export function App() {
             <TracePlot onFigure={onFigure} />
           </section>
           <ResidualPanel />
+          <PeakTable />
+          <NoisePanel />
         </div>
       </main>
       {dragging && <div className="drop-hint" aria-hidden="true">Drop trace files to load them</div>}

@@ -33,6 +33,9 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const markMode = useApp((s) => s.markMode);
   const setMarked = useApp((s) => s.setMarkedRange);
   const marked = useApp((s) => s.markedRange);
+  const selectedX = useApp((s) => s.selectedPeakX);
+  const addPeakMode = useApp((s) => s.addPeakMode);
+  const addPeakAt = useApp((s) => s.addPeakAt);
   const [boxRef, width] = useWidth();
 
   const data = useMemo<PlotData[]>(() => {
@@ -65,6 +68,21 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
           hoverinfo: 'x+text', xaxis: 'x', yaxis: 'y',
         });
       }
+      const live = result.peaks.filter((pk) => !pk.removedByUser);
+      if (live.length) {
+        const sym: Record<string, string> = { quantifiable: 'triangle-down', detectable: 'diamond', 'below-detection': 'circle-open', 'not-measured': 'circle-open' };
+        const col: Record<string, string> = { quantifiable: COLOURS.peak, detectable: COLOURS.baseline, 'below-detection': COLOURS.spike, 'not-measured': COLOURS.raw };
+        traces.push({
+          type: 'scatter', mode: 'text+markers', name: 'peaks (S/N)',
+          x: live.map((pk) => pk.x), y: live.map((pk) => pk.y),
+          text: live.map((pk) => (pk.snr === null ? '?' : pk.snr.toFixed(pk.snr < 10 ? 1 : 0))),
+          textposition: 'top center', textfont: { size: 11, color: COLOURS.ink },
+          hovertext: live.map((pk) => `apex ${pk.x.toPrecision(6)}<br>height ${pk.height.toPrecision(4)}<br>FWHM ${pk.fwhm.toPrecision(4)} (${pk.leftHalf.toPrecision(6)} – ${pk.rightHalf.toPrecision(6)})<br>bounds ${pk.start.toPrecision(6)} – ${pk.end.toPrecision(6)}<br>S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)}${pk.origin === 'added-by-user' ? '<br>added by hand' : ''}`),
+          hoverinfo: 'text',
+          marker: { symbol: live.map((pk) => sym[pk.flag]), color: live.map((pk) => col[pk.flag]), size: 10, line: { width: 1.5, color: live.map((pk) => col[pk.flag]) } },
+          xaxis: 'x', yaxis: 'y',
+        });
+      }
       const r = decimateMinMax(result.residual.x, result.residual.y, from, to, cols);
       traces.push({ type: 'scatter', mode: 'lines', name: 'residual (raw − processed)', x: arr(r.x), y: arr(r.y), line: { color: COLOURS.residual, width: 1 }, xaxis: 'x', yaxis: 'y2' });
     }
@@ -74,7 +92,16 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const layout = useMemo<PlotLayout>(() => {
     const xTitle = sample ? axisLabel(sample.xName, sample.xUnit) : 'x';
     const yTitle = sample ? axisLabel(sample.yName, sample.yUnit) : 'y';
-    const shapes = marked ? [{ type: 'rect', xref: 'x', yref: 'paper', x0: marked[0], x1: marked[1], y0: 0, y1: 1, fillcolor: 'rgba(0,158,115,0.10)', line: { width: 0 } }] : [];
+    const shapes: Record<string, unknown>[] = marked ? [{ type: 'rect', xref: 'x', yref: 'paper', x0: marked[0], x1: marked[1], y0: 0, y1: 1, fillcolor: 'rgba(0,158,115,0.10)', line: { width: 0 } }] : [];
+    const pk = selectedX === null ? undefined : result?.peaks.find((p) => Math.abs(p.x - selectedX) < 1e-12);
+    if (pk) {
+      const halfY = pk.y - pk.prominence / 2 * (pk.height < 0 ? -1 : 1);
+      shapes.push(
+        { type: 'line', xref: 'x', yref: 'y', x0: pk.leftHalf, x1: pk.rightHalf, y0: halfY, y1: halfY, line: { color: COLOURS.peak, width: 2 } },
+        { type: 'line', xref: 'x', yref: 'paper', x0: pk.start, x1: pk.start, y0: 0.3, y1: 1, line: { color: COLOURS.peak, width: 1, dash: 'dot' } },
+        { type: 'line', xref: 'x', yref: 'paper', x0: pk.end, x1: pk.end, y0: 0.3, y1: 1, line: { color: COLOURS.peak, width: 1, dash: 'dot' } },
+      );
+    }
     return {
       autosize: true,
       height: 560,
@@ -93,17 +120,18 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       plot_bgcolor: '#ffffff',
       font: { family: 'system-ui, sans-serif', size: 12, color: COLOURS.ink },
     };
-  }, [sample, xRange, markMode, marked]);
+  }, [sample, xRange, markMode, marked, selectedX, result]);
 
   const onXRange = useCallback((r: [number, number] | null) => setXRange(r), [setXRange]);
   const onSelectX = useCallback((r: [number, number]) => setMarked(r), [setMarked]);
+  const onClickPoint = useCallback((x: number) => { if (addPeakMode) addPeakAt(x); }, [addPeakMode, addPeakAt]);
 
   if (!sample) {
     return <div className="plot-empty" ref={boxRef}>No trace yet. Drop a file here or choose one with “Open file”.</div>;
   }
   return (
     <div ref={boxRef} className="plot-box">
-      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onReady={onFigure} />
+      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onReady={onFigure} />
     </div>
   );
 }

@@ -113,6 +113,9 @@ function buildRequest(): AnalyseRequest | null {
     scanIds: s.traces.filter((t) => s.roles[t.id] === 'scan').map((t) => t.id),
     recipe: s.recipe,
     showUid: s.showUid,
+    noise: s.noiseSettings,
+    peaks: s.peakSettings,
+    decisions: s.decisions,
   };
 }
 
@@ -149,7 +152,8 @@ export function startController(): () => void {
       requestAnalysis();
       return;
     }
-    if (s.recipe !== prev.recipe || s.sampleId !== prev.sampleId || s.roles !== prev.roles || s.showUid !== prev.showUid) requestAnalysis();
+    if (s.recipe !== prev.recipe || s.sampleId !== prev.sampleId || s.roles !== prev.roles || s.showUid !== prev.showUid
+      || s.noiseSettings !== prev.noiseSettings || s.peakSettings !== prev.peakSettings || s.decisions !== prev.decisions) requestAnalysis();
   });
   return unsub;
 }

@@ -1,0 +1,43 @@
+import type { StateCreator } from 'zustand';
+import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type NoiseSettings, type PeakSettings } from '../core/analyse.ts';
+import type { PeakDecisions } from '../core/peaks.ts';
+import type { AppState } from './store.ts';
+
+/** What the user chose about noise and peaks; kept apart from the recipe. */
+export interface AnalysisSlice {
+  noiseSettings: NoiseSettings;
+  peakSettings: PeakSettings;
+  decisions: PeakDecisions;
+  /** When on, a click on the plot adds a peak there. */
+  addPeakMode: boolean;
+  selectedPeakX: number | null;
+  setNoiseSettings: (s: Partial<NoiseSettings>) => void;
+  setPeakSettings: (s: Partial<PeakSettings>) => void;
+  addPeakAt: (x: number) => void;
+  removePeakAt: (x: number) => void;
+  restorePeakAt: (x: number, tolerance: number) => void;
+  clearDecisions: () => void;
+  setAddPeakMode: (v: boolean) => void;
+  selectPeak: (x: number | null) => void;
+}
+
+export const createAnalysisSlice: StateCreator<AppState, [], [], AnalysisSlice> = (set) => ({
+  noiseSettings: { ...DEFAULT_NOISE_SETTINGS },
+  peakSettings: { ...DEFAULT_PEAK_SETTINGS },
+  decisions: { added: [], removed: [] },
+  addPeakMode: false,
+  selectedPeakX: null,
+  setNoiseSettings: (p) => set((s) => ({ noiseSettings: { ...s.noiseSettings, ...p } })),
+  setPeakSettings: (p) => set((s) => ({ peakSettings: { ...s.peakSettings, ...p } })),
+  addPeakAt: (x) => set((s) => ({ decisions: { ...s.decisions, added: [...s.decisions.added, x] } })),
+  removePeakAt: (x) => set((s) => ({
+    // Removing a peak the user added undoes the addition; a detected one is kept as a decision.
+    decisions: s.decisions.added.some((a) => a === x)
+      ? { ...s.decisions, added: s.decisions.added.filter((a) => a !== x) }
+      : { ...s.decisions, removed: [...s.decisions.removed, x] },
+  })),
+  restorePeakAt: (x, tol) => set((s) => ({ decisions: { ...s.decisions, removed: s.decisions.removed.filter((r) => Math.abs(r - x) > tol) } })),
+  clearDecisions: () => set({ decisions: { added: [], removed: [] } }),
+  setAddPeakMode: (addPeakMode) => set({ addPeakMode, markMode: false }),
+  selectPeak: (selectedPeakX) => set({ selectedPeakX }),
+});

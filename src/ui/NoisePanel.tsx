@@ -1,0 +1,88 @@
+import type { PeakSettings } from '../core/analyse.ts';
+import { useApp } from '../state/store.ts';
+import { num, SNR_WORDS } from './format.ts';
+
+function NumberField({ label, value, min, max, step, unit, onChange }: { label: string; value: number; min: number; max: number; step: number; unit?: string; onChange: (v: number) => void }) {
+  const id = `nf-${label.replace(/\W+/g, '-')}`;
+  return (
+    <label className="param" htmlFor={id}>
+      <span className="param-label">{label}{unit ? ` (${unit})` : ''}</span>
+      <input id={id} type="number" className="param-number" value={value} min={min} max={max} step={step}
+        onChange={(e) => { const v = Number(e.target.value); if (Number.isFinite(v) && v >= min && v <= max) onChange(v); }} />
+    </label>
+  );
+}
+
+/** Noise method, quiet range and peak thresholds. */
+export function NoisePanel() {
+  const noise = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result.noise : null));
+  const settings = useApp((s) => s.noiseSettings);
+  const ps = useApp((s) => s.peakSettings);
+  const marked = useApp((s) => s.markedRange);
+  const hasBlank = useApp((s) => Object.values(s.roles).includes('blank'));
+  const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
+  const { setNoiseSettings, setPeakSettings } = useApp.getState();
+  const set = (p: Partial<PeakSettings>) => setPeakSettings(p);
+  const xu = sample?.xUnit ?? '';
+  return (
+    <section className="panel" aria-labelledby="noise-title" data-testid="noise-panel">
+      <h2 id="noise-title">Noise and peak finding</h2>
+      <div className="noise-grid">
+        <div>
+          <label className="param" htmlFor="noise-method">
+            <span className="param-label">Noise σ for S/N</span>
+            <select id="noise-method" value={settings.method} onChange={(e) => setNoiseSettings({ method: e.target.value as 'robust' | 'rms' })}>
+              <option value="robust">automatic: robust spread of point-to-point differences</option>
+              <option value="rms">RMS about a straight line over the quiet range</option>
+            </select>
+          </label>
+          <div className="row">
+            <button type="button" disabled={!marked} onClick={() => marked && setNoiseSettings({ quietRange: marked, method: 'rms' })}>Use the marked range as quiet baseline</button>
+            {settings.quietRange && <button type="button" className="link" onClick={() => setNoiseSettings({ quietRange: null, method: 'robust' })}>clear quiet range</button>}
+          </div>
+          {settings.quietRange && <p className="small">Quiet range: {num(settings.quietRange[0])} – {num(settings.quietRange[1])} {xu}</p>}
+          {noise && (
+            <dl className="figures-grid" data-testid="noise-figures">
+              <dt>σ on the {ps.measureOn} trace</dt><dd data-testid="noise-sigma">{num(noise.sigma.sigma)} ({noise.sigma.points} points)</dd>
+              {ps.measureOn === 'processed' && noise.rawSigma && <><dt>σ on the raw trace</dt><dd>{num(noise.rawSigma.sigma)}</dd></>}
+              {noise.peakToPeak && <><dt>Peak-to-peak h, quiet range</dt><dd>{num(noise.peakToPeak.sigma)} ({noise.peakToPeak.points} points)</dd></>}
+            </dl>
+          )}
+          {noise && <p className="hint">{noise.sigma.description}</p>}
+          {noise?.notes.map((n, i) => <p key={i} className="hint warn-text">{n}</p>)}
+        </div>
+        <div className="params">
+          <label className="param" htmlFor="snr-def">
+            <span className="param-label">S/N definition for the table and flags</span>
+            <select id="snr-def" value={ps.snrDefinition} onChange={(e) => set({ snrDefinition: e.target.value as PeakSettings['snrDefinition'] })}>
+              {Object.entries(SNR_WORDS).map(([k, v]) => <option key={k} value={k}>{v}</option>)}
+            </select>
+          </label>
+          {ps.snrDefinition === 'pharmacopoeial' && (
+            <p className="hint">h is the range of {hasBlank ? 'the blank' : 'the trace itself (no blank is loaded — a deviation from the pharmacopoeial method)'} over a window of {ps.pharmacopoeialMultiplier} × the peak’s half-height width centred on the peak.</p>
+          )}
+          <label className="param" htmlFor="measure-on">
+            <span className="param-label">Measure peaks and noise on</span>
+            <select id="measure-on" value={ps.measureOn} onChange={(e) => set({ measureOn: e.target.value as 'processed' | 'raw' })}>
+              <option value="processed">the processed trace</option>
+              <option value="raw">the raw trace</option>
+            </select>
+          </label>
+          <div className="field-pairs">
+            <NumberField label="Detection limit S/N" value={ps.detectionLimit} min={1} max={100} step={0.5} onChange={(v) => set({ detectionLimit: v })} />
+            <NumberField label="Quantitation limit S/N" value={ps.quantitationLimit} min={1} max={1000} step={1} onChange={(v) => set({ quantitationLimit: v })} />
+            <NumberField label="Smallest prominence" unit="× σ" value={ps.minProminenceSigma} min={0} max={1000} step={0.5} onChange={(v) => set({ minProminenceSigma: v })} />
+            <NumberField label="Smallest S/N kept" value={ps.minSnr} min={0} max={1000} step={0.5} onChange={(v) => set({ minSnr: v })} />
+            <NumberField label="Smallest half-height width" unit={xu ? `${xu}, 0 = 3 points` : '0 = 3 points'} value={ps.minWidth} min={0} max={1e9} step={0.001} onChange={(v) => set({ minWidth: v })} />
+            <NumberField label="Smallest separation" unit={xu ? `${xu}, 0 = off` : '0 = off'} value={ps.minSeparation} min={0} max={1e9} step={0.01} onChange={(v) => set({ minSeparation: v })} />
+            <NumberField label="Pharmacopoeial window" unit="× half-height width" value={ps.pharmacopoeialMultiplier} min={1} max={100} step={1} onChange={(v) => set({ pharmacopoeialMultiplier: v })} />
+          </div>
+          <label className="param param-check">
+            <input type="checkbox" checked={ps.negative} onChange={(e) => set({ negative: e.target.checked })} />
+            <span className="param-label">Look for dips (troughs) instead of peaks</span>
+          </label>
+        </div>
+      </div>
+    </section>
+  );
+}
