@@ -88,7 +88,12 @@ export interface Peak {
   readonly x: number;
   /** y at the apex sample (the data, not the parabola). */
   readonly y: number;
-  /** Apex y above the straight line joining the prominence bases, evaluated at the apex x; negative for troughs. */
+  /**
+   * Apex level above the local baseline, evaluated at the apex x; negative for troughs.
+   * Apex level: least-squares parabola through the samples within ±FWHM/6 (at least the
+   * three top points). Baseline: straight line through the prominence bases, each base's
+   * level averaged with the FWHM/2 samples beyond it so noise minima do not lower it.
+   */
   readonly height: number;
   /** SciPy prominence (always ≥ 0, on −y for troughs). */
   readonly prominence: number;
@@ -109,7 +114,7 @@ export interface Peak {
   readonly endIndex: number;
   readonly start: number;
   readonly end: number;
-  /** Area between the bounds above the straight line joining them (trapezoid rule); negative for troughs. */
+  /** Area between the bounds above the straight line joining their levels (averaged as for height; trapezoid rule); negative for troughs. */
   readonly area: number;
   /** |height| / noiseSigma. */
   readonly snrRms: number;
@@ -391,16 +396,75 @@ function apexParabola(x: Float64Array, s: Float64Array, i: number): number {
   return Math.min(x2, Math.max(x0, v));
 }
 
-function lineAt(x: Float64Array, s: Float64Array, i0: number, i1: number, at: number): number {
-  if (i1 === i0) return s[i0];
-  return s[i0] + ((s[i1] - s[i0]) * (at - x[i0])) / (x[i1] - x[i0]);
+/**
+ * Level of the trace at a base: the mean point (x and y) of the base sample
+ * and the q samples beyond it (away from the peak). A base is the lowest
+ * sample of a stretch, so on noisy data its own value sits a few σ low;
+ * averaging with its outer neighbours removes most of that bias. Using the
+ * mean x as well keeps a straight baseline exact.
+ */
+function baseLevel(x: Float64Array, s: Float64Array, b: number, dir: -1 | 1, q: number): [number, number] {
+  let sx = 0, sy = 0, cnt = 0;
+  for (let j = 0; j <= q; j++) {
+    const i = b + dir * j;
+    if (i < 0 || i >= s.length) break;
+    sx += x[i]; sy += s[i]; cnt++;
+  }
+  return [sx / cnt, sy / cnt];
 }
 
-/** Trapezoid area of s between samples i0..i1 minus the area under the chord joining them. */
-function areaAboveChord(x: Float64Array, s: Float64Array, i0: number, i1: number): number {
+/** The local baseline: straight line through the levels at two bases, evaluated at `at`. */
+function baselineAt(x: Float64Array, s: Float64Array, b0: number, b1: number, q: number, at: number): number {
+  const [x0, l0] = baseLevel(x, s, b0, -1, q);
+  const [x1, l1] = baseLevel(x, s, b1, 1, q);
+  return x1 === x0 ? (l0 + l1) / 2 : l0 + ((l1 - l0) * (at - x0)) / (x1 - x0);
+}
+
+/** Samples either side of a base averaged for its level: half the half-height width, in points. */
+function baseHalfWindow(fwhmPoints: number): number {
+  return Math.max(0, Math.round(fwhmPoints / 2));
+}
+
+/**
+ * Level of the apex: a least-squares parabola through the samples within
+ * ±max(1, floor(fwhmPoints/6)) of the apex sample, evaluated at the refined
+ * apex x. With three samples it is the parabola through the three top
+ * points; on a broad noisy peak it averages the noise instead of keeping
+ * the highest noise excursion. Over ±FWHM/6 a Gaussian departs from a
+ * parabola by under 0.03 % of its height.
+ */
+function apexLevel(x: Float64Array, s: Float64Array, i: number, fwhmPoints: number, at: number): number {
+  const q = Math.max(1, Math.floor(fwhmPoints / 6));
+  const i0 = Math.max(0, i - q), i1 = Math.min(s.length - 1, i + q);
+  if (i1 - i0 < 2) return s[i];
+  const xc = x[i];
+  // Normal equations for c0 + c1 t + c2 t², t = (x − x_apex) / span, kept small for conditioning.
+  const span = Math.max(x[i1] - xc, xc - x[i0]);
+  let n = 0, t1 = 0, t2 = 0, t3 = 0, t4 = 0, y0 = 0, y1 = 0, y2 = 0;
+  for (let k = i0; k <= i1; k++) {
+    const t = (x[k] - xc) / span, tt = t * t, v = s[k];
+    n++; t1 += t; t2 += tt; t3 += tt * t; t4 += tt * tt; y0 += v; y1 += v * t; y2 += v * tt;
+  }
+  const det = n * (t2 * t4 - t3 * t3) - t1 * (t1 * t4 - t3 * t2) + t2 * (t1 * t3 - t2 * t2);
+  if (!(Math.abs(det) > 1e-12)) return s[i];
+  const c0 = (y0 * (t2 * t4 - t3 * t3) - t1 * (y1 * t4 - t3 * y2) + t2 * (y1 * t3 - t2 * y2)) / det;
+  const c1 = (n * (y1 * t4 - t3 * y2) - y0 * (t1 * t4 - t3 * t2) + t2 * (t1 * y2 - y1 * t2)) / det;
+  const c2 = (n * (t2 * y2 - y1 * t3) - t1 * (t1 * y2 - y1 * t2) + y0 * (t1 * t3 - t2 * t2)) / det;
+  const t = (at - xc) / span;
+  return c0 + c1 * t + c2 * t * t;
+}
+
+/** Height of the apex level above the local baseline through the two bases' levels. */
+function heightAbove(x: Float64Array, s: Float64Array, i: number, xApex: number, fwhmPoints: number, b0: number, b1: number): number {
+  return apexLevel(x, s, i, fwhmPoints, xApex) - baselineAt(x, s, b0, b1, baseHalfWindow(fwhmPoints), xApex);
+}
+
+/** Trapezoid area of s over samples i0..i1 above the local baseline through the levels at i0 and i1. */
+function areaAboveBaseline(x: Float64Array, s: Float64Array, i0: number, i1: number, q: number): number {
   let a = 0;
   for (let i = i0; i < i1; i++) a += 0.5 * (s[i] + s[i + 1]) * (x[i + 1] - x[i]);
-  return a - 0.5 * (s[i0] + s[i1]) * (x[i1] - x[i0]);
+  const l0 = baselineAt(x, s, i0, i1, q, x[i0]), l1 = baselineAt(x, s, i0, i1, q, x[i1]);
+  return a - 0.5 * (l0 + l1) * (x[i1] - x[i0]);
 }
 
 function snrFlag(snr: number | null, limits: PeakOptions['limits']): PeakFlag {
@@ -504,11 +568,12 @@ function checkOptions(x: Float64Array, y: Float64Array, o: PeakOptions): void {
 
 function makePeak(x: Float64Array, y: Float64Array, s: Float64Array, sign: number, c: Candidate, o: PeakOptions): Peak {
   const i = c.index;
-  const baseLine = lineAt(x, s, c.leftBase, c.rightBase, x[i]);
-  const hs = s[i] - baseLine;
   const leftHalf = xAt(x, c.leftIp), rightHalf = xAt(x, c.rightIp);
   const fwhm = rightHalf - leftHalf;
+  const fwhmPoints = c.rightIp - c.leftIp;
   const xApex = apexParabola(x, s, i);
+  const hs = heightAbove(x, s, i, xApex, fwhmPoints, c.leftBase, c.rightBase);
+  const q = baseHalfWindow(fwhmPoints);
   const snrRms = Math.abs(hs) / o.noiseSigma;
   const pn = pharmacopoeialNoise(x, y, xApex, fwhm, o);
   const snrPharma = pn && pn.h > 0 ? (2 * Math.abs(hs)) / pn.h : null;
@@ -518,9 +583,9 @@ function makePeak(x: Float64Array, y: Float64Array, s: Float64Array, sign: numbe
   const peak: Peak = {
     index: i, x: xApex, y: y[i], height: sign * hs, prominence: c.prominence,
     leftBase: c.leftBase, rightBase: c.rightBase, leftBaseX: x[c.leftBase], rightBaseX: x[c.rightBase],
-    fwhm, fwhmPoints: c.rightIp - c.leftIp, leftHalf, rightHalf,
+    fwhm, fwhmPoints, leftHalf, rightHalf,
     startIndex: c.startIndex, endIndex: c.endIndex, start: x[c.startIndex], end: x[c.endIndex],
-    area: sign * areaAboveChord(x, s, c.startIndex, c.endIndex),
+    area: sign * areaAboveBaseline(x, s, c.startIndex, c.endIndex, q),
     snrRms, snrPharma, pharmaNoise: pn, snrRegion: snrRegionV, snr, snrDefinition: o.snrDefinition,
     flag: snrFlag(snr, o.limits), origin: c.origin,
   };
@@ -632,12 +697,13 @@ export function detectPeaks(x: Float64Array, y: Float64Array, options: PeakOptio
   for (let k = 0; k < m; k++) {
     const i = cIdx[k];
     if (minSnrOnTheFly && o.minSnr > 0) {
-      const hs = s[i] - lineAt(x, s, lb[k], rb[k], x[i]);
+      const xApex = apexParabola(x, s, i);
+      const hs = heightAbove(x, s, i, xApex, w.widths[k], lb[k], rb[k]);
       let snr: number | null;
       if (o.snrDefinition === 'rms') snr = Math.abs(hs) / o.noiseSigma;
       else {
         const fwhm = xAt(x, w.rightIps[k]) - xAt(x, w.leftIps[k]);
-        const pn = pharmacopoeialNoise(x, y, apexParabola(x, s, i), fwhm, o);
+        const pn = pharmacopoeialNoise(x, y, xApex, fwhm, o);
         snr = pn && pn.h > 0 ? (2 * Math.abs(hs)) / pn.h : null;
       }
       if (snr !== null && snr < o.minSnr) continue;
