@@ -1,0 +1,86 @@
+/**
+ * Our own conversion of text fields to numbers, so the decimal sign is the
+ * one the loader decided for the whole file and nothing is guessed per cell.
+ *
+ * Accepted grammar (after trimming spaces and tabs, and removing one pair of
+ * surrounding double quotes):
+ *
+ *     [+|-] digits [decimal digits] [(e|E) [+|-] digits]
+ *
+ * with at least one digit before or after the decimal sign, which is either
+ * "." or "," (never both in one file). Not accepted, so the row is skipped and
+ * listed: "NaN", "Inf"/"Infinity", empty fields, hexadecimal, "1_000", and
+ * thousands separators. Thousands separators are deliberately not guessed:
+ * "1,234.5" in a comma-delimited file is two fields, "1" and "234.5", and in a
+ * decimal-point file without comma delimiter it is not a number.
+ */
+
+/** The decimal sign used by a whole file. */
+export type DecimalSign = '.' | ',';
+
+const SPACE = 32, TAB = 9, QUOTE = 34, PLUS = 43, MINUS = 45, DOT = 46, COMMA = 44;
+const ZERO = 48, NINE = 57, LOWER_E = 101, UPPER_E = 69;
+
+function isDigit(c: number): boolean {
+  return c >= ZERO && c <= NINE;
+}
+
+/**
+ * Convert one field to a number with the given decimal sign.
+ *
+ * @param field the cell text as split from the line (may carry spaces or quotes)
+ * @param decimal "." (default) or ","; the other sign makes the field invalid
+ * @returns the value, or NaN when the field is not a number by the grammar
+ *   above or overflows to ±Infinity (callers treat NaN as "skip the row").
+ */
+export function parseNumber(field: string, decimal: DecimalSign = '.'): number {
+  let start = 0;
+  let end = field.length;
+  while (start < end && (field.charCodeAt(start) === SPACE || field.charCodeAt(start) === TAB)) start++;
+  while (end > start && (field.charCodeAt(end - 1) === SPACE || field.charCodeAt(end - 1) === TAB)) end--;
+  if (end - start >= 2 && field.charCodeAt(start) === QUOTE && field.charCodeAt(end - 1) === QUOTE) {
+    start++;
+    end--;
+    while (start < end && (field.charCodeAt(start) === SPACE || field.charCodeAt(start) === TAB)) start++;
+    while (end > start && (field.charCodeAt(end - 1) === SPACE || field.charCodeAt(end - 1) === TAB)) end--;
+  }
+  if (start >= end) return NaN;
+  const decimalCode = decimal === ',' ? COMMA : DOT;
+  let i = start;
+  let c = field.charCodeAt(i);
+  if (c === PLUS || c === MINUS) i++;
+  let digits = 0;
+  while (i < end && isDigit(field.charCodeAt(i))) { i++; digits++; }
+  let decimalAt = -1;
+  if (i < end && field.charCodeAt(i) === decimalCode) {
+    decimalAt = i;
+    i++;
+    while (i < end && isDigit(field.charCodeAt(i))) { i++; digits++; }
+  }
+  if (digits === 0) return NaN;
+  if (i < end) {
+    c = field.charCodeAt(i);
+    if (c !== LOWER_E && c !== UPPER_E) return NaN;
+    i++;
+    if (i < end && (field.charCodeAt(i) === PLUS || field.charCodeAt(i) === MINUS)) i++;
+    let expDigits = 0;
+    while (i < end && isDigit(field.charCodeAt(i))) { i++; expDigits++; }
+    if (expDigits === 0 || i < end) return NaN;
+  }
+  let text = start === 0 && end === field.length ? field : field.slice(start, end);
+  if (decimalAt >= 0 && decimal === ',') {
+    const at = decimalAt - start;
+    text = text.slice(0, at) + '.' + text.slice(at + 1);
+  }
+  // The grammar above is a subset of JavaScript's numeric literal syntax, so Number() rounds correctly.
+  const value = Number(text);
+  return Number.isFinite(value) ? value : NaN;
+}
+
+/**
+ * True when the field is a number by {@link parseNumber}'s grammar. Values
+ * that overflow (e.g. "1e999") count as not a number.
+ */
+export function isNumberField(field: string, decimal: DecimalSign = '.'): boolean {
+  return !Number.isNaN(parseNumber(field, decimal));
+}
