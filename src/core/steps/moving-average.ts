@@ -171,8 +171,8 @@ export function checkOddWindow(window: number, n: number, max: number, min = 3):
   if (!Number.isFinite(window)) return 'The window must be a finite odd whole number of points.';
   if (!Number.isInteger(window)) return `The window must be a whole number of points, not ${window}.`;
   if (window < min) return `The window must be at least ${min} points (got ${window}).`;
-  if (window % 2 === 0) return `The window must be an odd number of points so it is centred; try ${window + 1} or ${window - 1}.`;
   if (window > max) return `The window may be at most ${max} points (got ${window}).`;
+  if (window % 2 === 0) return `The window must be an odd number of points so it is centred; try ${window + 1} or ${window - 1}.`;
   if (window > n) return `The window (${window} points) is larger than the trace (${n} points); choose at most ${n % 2 === 1 ? n : n - 1}.`;
   return null;
 }
