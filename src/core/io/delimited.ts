@@ -1,0 +1,808 @@
+/**
+ * The delimited-text loader: CSV and its relatives (semicolon, tab or
+ * space separated), decimal point or comma, metadata lines before the table,
+ * a header row with units, one or several numeric columns.
+ *
+ * How a file is read:
+ * 1. Decode (UTF-8 with or without byte-order mark, UTF-16 with a mark,
+ *    Latin-1 fallback with a notice).
+ * 2. Take the first {@link SAMPLE_LINES} non-blank lines and try every
+ *    delimiter/decimal-sign pair on them; the pair under which the most lines
+ *    split into the same number of fields that are all numbers wins (ties:
+ *    more numeric fields, then more columns, then the order comma, semicolon,
+ *    tab, whitespace, and last comma with quoted decimal-comma numbers). PapaParse's own delimiter guess is not used, since it
+ *    takes the comma in "1,5;2,7" for the delimiter.
+ * 3. The table starts at the first line with the table's field count and
+ *    numbers in its numeric columns that has at least two more such lines
+ *    among the next four. The line before it, when it
+ *    holds text, is the header (a second text line before that: names, then
+ *    units). Lines above are metadata.
+ * 4. Data rows are split with PapaParse (when the data holds quote marks) or
+ *    a plain split (fast path, same result on plain files) and converted by
+ *    {@link parseNumber}; rows that are not numbers are skipped and listed.
+ * 5. Rows are sorted by x when needed (stable), y is averaged over repeated
+ *    x, both with a notice, and one trace is made per y column.
+ */
+import Papa from 'papaparse';
+import { createTrace, MIN_POINTS } from '../trace.ts';
+import type { Trace } from '../trace.ts';
+import { MAX_FILE_BYTES } from './types.ts';
+import type { LoadOptions, LoadProblem, LoadReport, LoadResult, SkippedRow } from './types.ts';
+import { parseNumber } from './numbers.ts';
+import type { DecimalSign } from './numbers.ts';
+import { decodeText } from './sniff.ts';
+import { sha256Hex } from './sha256.ts';
+
+/** Field separators the loader understands; "whitespace" means runs of spaces and tabs. */
+export type Delimiter = ',' | ';' | '\t' | 'whitespace';
+
+/** A delimiter and decimal sign decided for a whole file. */
+export interface Dialect {
+  delimiter: Delimiter;
+  decimal: DecimalSign;
+}
+
+/** How data rows are split: our plain split, PapaParse, or chosen by content (default). */
+export type RowSplitter = 'auto' | 'fast' | 'papa';
+
+/** Non-blank lines looked at to decide the delimiter, decimal sign and where the table starts. */
+export const SAMPLE_LINES = 500;
+
+/** Skipped rows listed one by one in the report; the rest are only counted. */
+export const MAX_LISTED_SKIPS = 1000;
+
+/** Longest text of a skipped row kept in the report. */
+const SKIP_TEXT_CHARS = 80;
+
+/** Lines between two progress calls. */
+const PROGRESS_EVERY = 65536;
+
+/** Share of the progress bar spent hashing the bytes. */
+const HASH_SHARE = 0.2;
+
+const CANDIDATES: readonly Dialect[] = [
+  { delimiter: ',', decimal: '.' },
+  { delimiter: ';', decimal: ',' },
+  { delimiter: ';', decimal: '.' },
+  { delimiter: '\t', decimal: '.' },
+  { delimiter: '\t', decimal: ',' },
+  { delimiter: 'whitespace', decimal: '.' },
+  { delimiter: 'whitespace', decimal: ',' },
+  // Comma-separated with decimal commas only works when the numbers are quoted ("1,5","2,7").
+  { delimiter: ',', decimal: ',' },
+];
+
+const DELIMITER_NAMES: Record<Delimiter, string> = {
+  ',': 'comma',
+  ';': 'semicolon',
+  '\t': 'tab',
+  whitespace: 'spaces',
+};
+
+/** Plain-words description of a dialect, e.g. "semicolon, decimal comma". */
+export function dialectLabel(d: Dialect): string {
+  return `${DELIMITER_NAMES[d.delimiter]}, decimal ${d.decimal === ',' ? 'comma' : 'point'}`;
+}
+
+function isSpaceOrTab(c: number): boolean {
+  return c === 32 || c === 9;
+}
+
+/** Trim spaces and tabs only (String.prototype.trim also removes other characters PapaParse keeps). */
+function trimSpaceTab(s: string): string {
+  let a = 0, b = s.length;
+  while (a < b && isSpaceOrTab(s.charCodeAt(a))) a++;
+  while (b > a && isSpaceOrTab(s.charCodeAt(b - 1))) b--;
+  return a === 0 && b === s.length ? s : s.slice(a, b);
+}
+
+function stripQuotes(s: string): string {
+  const t = trimSpaceTab(s);
+  if (t.length >= 2 && t.startsWith('"') && t.endsWith('"')) return t.slice(1, -1).replace(/""/g, '"').trim();
+  return t;
+}
+
+/**
+ * Reads lines one at a time without splitting the whole text: LF, CR LF and a
+ * lone CR each end a line. Line numbers are 1-based.
+ */
+class LineReader {
+  private pos: number;
+  private nextLf = -2;
+  private nextCr = -2;
+  /** Number of the line last read. */
+  line: number;
+  /** Text of the line last read, without its line break. */
+  current = '';
+  /** Character offset where the line last read starts. */
+  start = 0;
+
+  constructor(private readonly text: string, startOffset = 0, firstLine = 1) {
+    this.pos = startOffset;
+    this.line = firstLine - 1;
+  }
+
+  /** Offset of the next unread character. */
+  get offset(): number {
+    return this.pos;
+  }
+
+  next(): boolean {
+    const t = this.text;
+    const p = this.pos;
+    if (p >= t.length) return false;
+    // indexOf results are cached so a file without CR is not rescanned for CR on every line.
+    if (this.nextLf !== -1 && this.nextLf < p) this.nextLf = t.indexOf('\n', p);
+    if (this.nextCr !== -1 && this.nextCr < p) this.nextCr = t.indexOf('\r', p);
+    const lf = this.nextLf, cr = this.nextCr;
+    let end: number, after: number;
+    if (cr !== -1 && (lf === -1 || cr < lf)) {
+      end = cr;
+      after = lf === cr + 1 ? cr + 2 : cr + 1;
+    } else if (lf !== -1) {
+      end = lf;
+      after = lf + 1;
+    } else {
+      end = t.length;
+      after = t.length;
+    }
+    this.start = p;
+    this.current = t.slice(p, end);
+    this.pos = after;
+    this.line++;
+    return true;
+  }
+}
+
+/**
+ * Split one line into fields, honouring double quotes the way PapaParse does:
+ * a field is quoted only when its first character is a quote; "" inside a
+ * quoted field is one quote. Whitespace delimiting splits on runs of spaces
+ * and tabs and ignores them at both ends of the line.
+ */
+export function splitFields(line: string, delimiter: Delimiter): string[] {
+  const fields: string[] = [];
+  const n = line.length;
+  if (delimiter === 'whitespace') {
+    let i = 0;
+    for (;;) {
+      while (i < n && isSpaceOrTab(line.charCodeAt(i))) i++;
+      if (i >= n) break;
+      let field = '';
+      if (line.charCodeAt(i) === 34) {
+        i++;
+        while (i < n) {
+          if (line.charCodeAt(i) === 34) {
+            if (line.charCodeAt(i + 1) === 34) { field += '"'; i += 2; continue; }
+            i++;
+            break;
+          }
+          field += line[i++];
+        }
+      }
+      const from = i;
+      while (i < n && !isSpaceOrTab(line.charCodeAt(i))) i++;
+      fields.push(field + line.slice(from, i));
+    }
+    return fields;
+  }
+  const d = delimiter.charCodeAt(0);
+  let i = 0;
+  for (;;) {
+    if (i < n && line.charCodeAt(i) === 34) {
+      let field = '';
+      i++;
+      while (i < n) {
+        if (line.charCodeAt(i) === 34) {
+          if (line.charCodeAt(i + 1) === 34) { field += '"'; i += 2; continue; }
+          i++;
+          break;
+        }
+        field += line[i++];
+      }
+      const from = i;
+      while (i < n && line.charCodeAt(i) !== d) i++;
+      // PapaParse drops spaces between a closing quote and the delimiter.
+      const after = line.slice(from, i);
+      fields.push(trimSpaceTab(after) === '' ? field : field + after);
+    } else {
+      const end = line.indexOf(delimiter, i);
+      const stop = end === -1 ? n : end;
+      fields.push(line.slice(i, stop));
+      i = stop;
+    }
+    if (i >= n) break;
+    i++; // past the delimiter
+    if (i === n) { fields.push(''); break; }
+  }
+  return fields;
+}
+
+/** A column header split into name and unit. */
+export interface ColumnHeader {
+  name: string;
+  unit: string;
+}
+
+/**
+ * Split a column header into name and unit: "Time (min)", "Absorbance [AU]"
+ * and "Signal / mV" (slash with spaces around it, the quantity/unit style of
+ * the SI Brochure, 9th ed., 5.4.1) give a unit; anything else is all name.
+ * Surrounding quotes and spaces are removed.
+ */
+export function parseColumnHeader(raw: string): ColumnHeader {
+  const s = stripQuotes(raw);
+  let m = /^(.*?)\s*\(([^()]*)\)$/.exec(s);
+  if (!m) m = /^(.*?)\s*\[([^[\]]*)\]$/.exec(s);
+  if (!m) m = /^(.+?)\s+\/\s+(\S.*)$/.exec(s);
+  if (m) return { name: m[1].trim(), unit: m[2].trim() };
+  return { name: s, unit: '' };
+}
+
+interface SampleLine {
+  line: number;
+  text: string;
+  /** Character offset where the line starts. */
+  start: number;
+}
+
+interface SampleSplit {
+  fields: string[];
+  numeric: boolean[];
+  numericCount: number;
+}
+
+interface DialectScore {
+  dialect: Dialect;
+  fullRows: number;
+  numericFields: number;
+  columns: number;
+}
+
+function splitSample(sample: readonly SampleLine[], d: Dialect): SampleSplit[] {
+  return sample.map((s) => {
+    const fields = splitFields(s.text, d.delimiter);
+    const numeric = fields.map((f) => !Number.isNaN(parseNumber(f, d.decimal)));
+    return { fields, numeric, numericCount: numeric.reduce((a, b) => a + (b ? 1 : 0), 0) };
+  });
+}
+
+/** Most common field count among lines holding at least one number (ties: more fields). */
+function modalFieldCount(rows: readonly SampleSplit[]): number {
+  const counts = new Map<number, number>();
+  for (const r of rows) if (r.numericCount > 0) counts.set(r.fields.length, (counts.get(r.fields.length) ?? 0) + 1);
+  let best = 0, bestCount = 0;
+  for (const [k, c] of counts) if (c > bestCount || (c === bestCount && k > best)) { best = k; bestCount = c; }
+  return best;
+}
+
+function scoreDialect(sample: readonly SampleLine[], d: Dialect): DialectScore {
+  const rows = splitSample(sample, d);
+  const k = modalFieldCount(rows);
+  let fullRows = 0, numericFields = 0;
+  for (const r of rows) {
+    if (r.fields.length !== k || r.numericCount === 0) continue;
+    numericFields += r.numericCount;
+    if (r.numericCount === k) fullRows++;
+  }
+  return { dialect: d, fullRows, numericFields, columns: k };
+}
+
+/**
+ * Decide delimiter and decimal sign from sample lines by consistent field
+ * counts of numeric fields (see the module comment). Returns null when no
+ * line holds a number under any candidate.
+ */
+export function decideDialect(lines: readonly string[]): Dialect | null {
+  const sample = lines.map((text, i) => ({ line: i + 1, text, start: 0 }));
+  const best = bestDialect(sample);
+  return best ? best.dialect : null;
+}
+
+function bestDialect(sample: readonly SampleLine[]): DialectScore | null {
+  let best: DialectScore | null = null;
+  for (const d of CANDIDATES) {
+    const s = scoreDialect(sample, d);
+    if (s.numericFields === 0) continue;
+    if (
+      !best ||
+      s.fullRows > best.fullRows ||
+      (s.fullRows === best.fullRows && s.numericFields > best.numericFields) ||
+      (s.fullRows === best.fullRows && s.numericFields === best.numericFields && s.columns > best.columns)
+    ) best = s;
+  }
+  return best;
+}
+
+/** Growable Float64Array. */
+class Column {
+  data = new Float64Array(1024);
+  length = 0;
+  push(v: number): void {
+    if (this.length === this.data.length) {
+      const bigger = new Float64Array(this.data.length * 2);
+      bigger.set(this.data);
+      this.data = bigger;
+    }
+    this.data[this.length++] = v;
+  }
+  values(): Float64Array {
+    return this.data.subarray(0, this.length);
+  }
+}
+
+function problem(fileName: string, text: string, advice: string, line?: number): LoadResult {
+  const error: LoadProblem = line === undefined ? { fileName, problem: text, advice } : { fileName, line, problem: text, advice };
+  return { ok: false, error };
+}
+
+function truncate(text: string): string {
+  return text.length > SKIP_TEXT_CHARS ? `${text.slice(0, SKIP_TEXT_CHARS - 1)}…` : text;
+}
+
+/** Read a metadata line: "Key: value", "Key = value", "Key<delimiter>value", else "line N". */
+function metadataEntry(text: string, line: number, delimiter: Delimiter): [string, string] {
+  const t = trimSpaceTab(text).replace(/^(#|%|\/\/)\s*/, '');
+  const colon = /^([^:=]{1,60}?)\s*[:=]\s*(.*)$/.exec(t);
+  if (colon && colon[1].trim() !== '') return [stripQuotes(colon[1]), stripQuotes(colon[2])];
+  if (delimiter !== 'whitespace') {
+    const fields = splitFields(t, delimiter).map(stripQuotes);
+    const rest = fields.slice(1).filter((f) => f !== '');
+    if (fields.length >= 2 && fields[0] !== '' && rest.length > 0 && fields[0].length <= 60) return [fields[0], rest.join(', ')];
+  }
+  return [`line ${line}`, stripQuotes(t)];
+}
+
+interface Layout {
+  dialect: Dialect;
+  /** Field count of table rows. */
+  columns: number;
+  /** Columns numeric in more than half of the table-shaped sample lines. */
+  numericColumns: number[];
+  /** Index into the sample of the first table row. */
+  tableIndex: number;
+  headers: ColumnHeader[];
+  /** Index into the sample of the header line (names), or -1. */
+  headerIndex: number;
+  notices: string[];
+}
+
+type LayoutResult = { ok: true; layout: Layout } | { ok: false; result: LoadResult };
+
+function findLayout(sample: readonly SampleLine[], fileName: string): LayoutResult {
+  const best = bestDialect(sample);
+  if (!best) {
+    return {
+      ok: false,
+      result: problem(
+        fileName,
+        'The file holds only text: no line has a number that could be read.',
+        'Load the file with the measured values (columns of numbers, e.g. time and signal). Numbers must use digits with a decimal point or comma, without units in the same cell.',
+      ),
+    };
+  }
+  const { dialect } = best;
+  const K = best.columns;
+  const rows = splitSample(sample, dialect);
+  const shaped = rows.filter((r) => r.fields.length === K && r.numericCount > 0);
+  const numericColumns: number[] = [];
+  for (let c = 0; c < K; c++) {
+    let count = 0;
+    for (const r of shaped) if (r.numeric[c]) count++;
+    if (count * 2 > shaped.length) numericColumns.push(c);
+  }
+  const firstNumberLine = sample[rows.findIndex((r) => r.numericCount > 0)].line;
+  if (numericColumns.length === 0) {
+    return {
+      ok: false,
+      result: problem(
+        fileName,
+        `No column holds numbers in most rows: the numbers in this ${dialectLabel(dialect)} file are scattered across columns.`,
+        'Check that the file is a table with one value per cell and a column of numbers for each signal, then load it again.',
+        firstNumberLine,
+      ),
+    };
+  }
+  const good = (i: number) => {
+    const r = rows[i];
+    return r.fields.length === K && numericColumns.every((c) => r.numeric[c]);
+  };
+  // The table starts at the first good line that has at least two more good lines among the next four,
+  // so a cell of text near the top of the data does not push the start down.
+  let tableIndex = -1;
+  for (let i = 0; i < rows.length && tableIndex < 0; i++) {
+    if (!good(i)) continue;
+    const window = Math.min(5, rows.length - i);
+    let count = 0;
+    for (let j = 0; j < window; j++) if (good(i + j)) count++;
+    if (count >= Math.min(3, window)) tableIndex = i;
+  }
+  if (tableIndex < 0) {
+    return {
+      ok: false,
+      result: problem(
+        fileName,
+        `No table of numbers found in the first ${sample.length} non-blank lines: no three of five neighbouring lines have ${K} fields with numbers in the same columns.`,
+        'Check that the data rows all have the same number of fields; if the file has a very long text header, remove it or save only the table.',
+        firstNumberLine,
+      ),
+    };
+  }
+  const notices: string[] = [];
+  let headers: ColumnHeader[] = [];
+  let headerIndex = -1;
+  const above = tableIndex - 1;
+  if (above >= 0 && rows[above].numericCount < rows[above].fields.length) {
+    let fields = rows[above].fields;
+    if (fields.length !== K && dialect.delimiter === 'whitespace') {
+      // Space-separated headers often have spaces inside names; tabs or two or more spaces then separate columns.
+      const wide = trimSpaceTab(sample[above].text).split(/\t| {2,}/).filter((f) => f !== '');
+      if (wide.length === K) fields = wide;
+    }
+    if (fields.length === K) {
+      headerIndex = above;
+      headers = fields.map(parseColumnHeader);
+      // A second text line above the names, or a units line under them.
+      const twoAbove = above - 1;
+      if (twoAbove >= 0 && rows[twoAbove].fields.length === K && rows[twoAbove].numericCount === 0 && headers.every((h) => h.unit === '')) {
+        const names = rows[twoAbove].fields.map(parseColumnHeader);
+        headers = names.map((h, c) => ({ name: h.name, unit: h.unit || stripQuotes(fields[c]) }));
+        headerIndex = twoAbove;
+      }
+    } else {
+      notices.push(
+        `The line before the table (line ${sample[above].line}) has ${fields.length} fields but the table has ${K}, so it is kept as metadata and the columns are named by number.`,
+      );
+    }
+  }
+  for (let c = 0; c < K; c++) {
+    if (!headers[c]) headers[c] = { name: `Column ${c + 1}`, unit: '' };
+    else if (headers[c].name === '') headers[c] = { name: `Column ${c + 1}`, unit: headers[c].unit };
+  }
+  if (headerIndex < 0 && notices.length === 0) notices.push(`No header row: columns are named Column 1 to Column ${K}.`);
+  return { ok: true, layout: { dialect, columns: K, numericColumns, tableIndex, headers, headerIndex, notices } };
+}
+
+interface RowSink {
+  /** Called for each non-blank data row with its 1-based line number and its fields. */
+  row(line: number, fields: string[], rawText: () => string): void;
+}
+
+function readRowsFast(
+  text: string, startOffset: number, firstLine: number, delimiter: Delimiter, sink: RowSink, progress: (f: number) => void,
+): void {
+  const reader = new LineReader(text, startOffset, firstLine);
+  const total = text.length;
+  let sinceProgress = 0;
+  while (reader.next()) {
+    const line = reader.current;
+    const trimmed = trimSpaceTab(line);
+    if (trimmed !== '') {
+      const fields = delimiter === 'whitespace' ? trimmed.split(/[ \t]+/) : line.split(delimiter);
+      sink.row(reader.line, fields, () => line);
+    }
+    if (++sinceProgress === PROGRESS_EVERY) {
+      sinceProgress = 0;
+      progress(reader.offset / total);
+    }
+  }
+}
+
+function countNewlines(s: string): number {
+  let n = 0;
+  for (let i = s.indexOf('\n'); i !== -1; i = s.indexOf('\n', i + 1)) n++;
+  return n;
+}
+
+function readRowsPapa(
+  text: string, startOffset: number, firstLine: number, delimiter: Delimiter, sink: RowSink, progress: (f: number) => void,
+  notices: string[],
+): void {
+  let data = text.slice(startOffset).replace(/\r\n?/g, '\n');
+  if (delimiter === 'whitespace') {
+    // PapaParse splits on one character, so runs of spaces and tabs become one space and line ends are trimmed.
+    data = data.replace(/[ \t]+/g, ' ').replace(/^ | $/gm, '');
+  }
+  const raw = new LineReader(text, startOffset, firstLine);
+  let line = firstLine;
+  let sinceProgress = 0;
+  let quoteProblem = false;
+  Papa.parse<string[]>(data, {
+    delimiter: delimiter === 'whitespace' ? ' ' : delimiter,
+    newline: '\n',
+    quoteChar: '"',
+    dynamicTyping: false,
+    skipEmptyLines: false,
+    header: false,
+    step: (results) => {
+      const fields = results.data;
+      const rowLine = line;
+      let breaks = 0;
+      for (const f of fields) if (f.indexOf('\n') !== -1) breaks += countNewlines(f);
+      line += 1 + breaks;
+      if (!quoteProblem && results.errors.some((e) => e.code === 'MissingQuotes')) {
+        quoteProblem = true;
+        notices.push(`Line ${rowLine} opens a quoted field that is never closed, so the rest of the file was read as one cell.`);
+      }
+      const rawText = () => {
+        // PapaParse gives a row for the empty text after a final line break; the raw file has no such line.
+        while (raw.line < rowLine) if (!raw.next()) return '';
+        return raw.current;
+      };
+      // Only the raw line tells a blank line from one of empty fields (",,"), as the fast path sees it.
+      const blank = fields.every((f) => trimSpaceTab(f) === '') && trimSpaceTab(rawText()) === '';
+      if (!blank) sink.row(rowLine, fields, rawText);
+      if (++sinceProgress === PROGRESS_EVERY) {
+        sinceProgress = 0;
+        progress(results.meta.cursor / data.length);
+      }
+    },
+  });
+}
+
+/**
+ * Read a delimited text file (CSV, semicolon, tab or space separated) into
+ * one trace per y column. Synchronous and pure: `bytes` is only read.
+ *
+ * Defaults: x is the first numeric column and every other numeric column
+ * gives one trace; with a single numeric column x is the point index
+ * (0, 1, 2, …, xName "Point", no unit), stated in a notice. `options.xColumn`
+ * (0-based, -1 for the point index) and `options.yColumns` override this.
+ * `options.onProgress` gets fractions 0..1 about every 65 536 lines and 1 at
+ * the end.
+ *
+ * Never throws: every problem (empty, only text, no numeric column, fewer
+ * than {@link MIN_POINTS} points, too big, bad column choice) comes back as
+ * `{ ok: false, error }` naming the file, the line when there is one, the
+ * problem and what to do.
+ *
+ * @param splitter "auto" (default) uses the fast plain split when the data
+ *   rows hold no quote mark and PapaParse otherwise; "fast" and "papa" force
+ *   one, so tests can show both give the same result on plain files.
+ */
+export function parseDelimited(bytes: Uint8Array, fileName: string, options: LoadOptions = {}, splitter: RowSplitter = 'auto'): LoadResult {
+  try {
+    return parseDelimitedUnsafe(bytes, fileName, options, splitter);
+  } catch (e) {
+    return problem(
+      fileName,
+      `The loader stopped on an unexpected error (${e instanceof Error ? e.message : String(e)}).`,
+      'This is a fault in the page, not in your file alone: please report it with the file attached. Try saving the file again as plain comma-separated text.',
+    );
+  }
+}
+
+function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: LoadOptions, splitter: RowSplitter): LoadResult {
+  if (!(bytes instanceof Uint8Array)) {
+    return problem(fileName, 'No file content was given to the loader.', 'Choose the file again.');
+  }
+  if (bytes.length > MAX_FILE_BYTES) {
+    return problem(
+      fileName,
+      `The file is ${(bytes.length / 1048576).toFixed(0)} MB, more than the ${MAX_FILE_BYTES / 1048576} MB the page can hold.`,
+      'Cut the file into parts, or keep only the time range you need, and load that.',
+    );
+  }
+  if (bytes.length === 0) {
+    return problem(fileName, 'The file is empty (0 bytes).', 'Choose the file again; if it was exported from an instrument, check that the export finished.');
+  }
+  const onProgress = options.onProgress;
+  const report = (f: number) => { if (onProgress) onProgress(Math.min(1, Math.max(0, f))); };
+  const sha256 = sha256Hex(bytes, onProgress ? (f) => report(HASH_SHARE * f) : undefined);
+  const decoded = decodeText(bytes);
+  const text = decoded.text;
+
+  const sample: SampleLine[] = [];
+  const reader = new LineReader(text);
+  while (sample.length < SAMPLE_LINES && reader.next()) {
+    if (trimSpaceTab(reader.current) !== '') sample.push({ line: reader.line, text: reader.current, start: reader.start });
+  }
+  if (sample.length === 0) {
+    return problem(fileName, 'The file holds only blank lines and spaces.', 'Choose the file again; if it was exported from an instrument, check that the export finished.');
+  }
+
+  const found = findLayout(sample, fileName);
+  if (!found.ok) return found.result;
+  const layout = found.layout;
+  const { dialect, columns: K, headers, numericColumns } = layout;
+  const notices = [...decoded.notices];
+
+  // Column choice: defaults, then the user's override, checked.
+  let xColumn: number;
+  if (options.xColumn === undefined) xColumn = numericColumns.length >= 2 ? numericColumns[0] : -1;
+  else xColumn = options.xColumn;
+  const columnName = (c: number) => `column ${c + 1} (${headers[c].name})`;
+  if (!Number.isInteger(xColumn) || xColumn < -1 || xColumn >= K) {
+    return problem(fileName, `Column ${xColumn} cannot be x: the file has ${K} column(s), numbered from 0, or -1 for the point index.`, 'Choose x from the list of columns.');
+  }
+  if (xColumn >= 0 && !numericColumns.includes(xColumn)) {
+    return problem(fileName, `The chosen x, ${columnName(xColumn)}, does not hold numbers.`, 'Choose a column of numbers as x, or the point index.');
+  }
+  const yColumns = options.yColumns ?? numericColumns.filter((c) => c !== xColumn);
+  if (yColumns.length === 0) {
+    return problem(
+      fileName,
+      'No column is left for y: the only column of numbers is used as x.',
+      'Choose the point index as x so the column of numbers becomes y.',
+    );
+  }
+  for (const c of yColumns) {
+    if (!Number.isInteger(c) || c < 0 || c >= K) {
+      return problem(fileName, `Column ${c} cannot be y: the file has ${K} column(s), numbered from 0.`, 'Choose y from the list of columns.');
+    }
+    if (!numericColumns.includes(c)) {
+      return problem(fileName, `The chosen y, ${columnName(c)}, does not hold numbers.`, 'Choose a column of numbers as y.');
+    }
+    if (c === xColumn) return problem(fileName, `${columnName(c)} was chosen as both x and y.`, 'Choose a different column for y.');
+  }
+  const textColumns: number[] = [];
+  for (let c = 0; c < K; c++) if (!numericColumns.includes(c) && c !== xColumn && !yColumns.includes(c)) textColumns.push(c);
+
+  // Metadata from the lines above the header (or the table).
+  const metadata: Record<string, string> = {};
+  const preambleEnd = layout.headerIndex >= 0 ? layout.headerIndex : layout.tableIndex;
+  for (let i = 0; i < preambleEnd; i++) {
+    const [key, value] = metadataEntry(sample[i].text, sample[i].line, dialect.delimiter);
+    metadata[key in metadata ? `${key} (line ${sample[i].line})` : key] = value;
+  }
+
+  // Data rows.
+  const xs = new Column();
+  const ys = yColumns.map(() => new Column());
+  const lineOf = new Column();
+  const skipped: SkippedRow[] = [];
+  let skippedCount = 0;
+  const skip = (line: number, reason: string, raw: () => string) => {
+    skippedCount++;
+    if (skipped.length < MAX_LISTED_SKIPS) skipped.push({ line, reason, text: truncate(raw()) });
+  };
+  const sink: RowSink = {
+    row(line, fields, raw) {
+      if (fields.length !== K) {
+        skip(line, `has ${fields.length} field${fields.length === 1 ? '' : 's'}; the table has ${K}`, raw);
+        return;
+      }
+      let x = 0;
+      if (xColumn >= 0) {
+        x = parseNumber(fields[xColumn], dialect.decimal);
+        if (Number.isNaN(x)) { skip(line, `not a number in ${columnName(xColumn)}: "${truncate(stripQuotes(fields[xColumn]))}"`, raw); return; }
+      }
+      const rowY = new Array<number>(yColumns.length);
+      for (let j = 0; j < yColumns.length; j++) {
+        const v = parseNumber(fields[yColumns[j]], dialect.decimal);
+        if (Number.isNaN(v)) { skip(line, `not a number in ${columnName(yColumns[j])}: "${truncate(stripQuotes(fields[yColumns[j]]))}"`, raw); return; }
+        rowY[j] = v;
+      }
+      xs.push(x);
+      for (let j = 0; j < ys.length; j++) ys[j].push(rowY[j]);
+      lineOf.push(line);
+    },
+  };
+  const first = sample[layout.tableIndex];
+  const hasQuotes = text.indexOf('"', first.start) !== -1;
+  const useFast = splitter === 'fast' || (splitter === 'auto' && !hasQuotes);
+  const parseProgress = (f: number) => report(HASH_SHARE + (1 - HASH_SHARE) * f);
+  if (useFast) readRowsFast(text, first.start, first.line, dialect.delimiter, sink, parseProgress);
+  else readRowsPapa(text, first.start, first.line, dialect.delimiter, sink, parseProgress, notices);
+
+  const rowsRead = xs.length;
+  if (rowsRead < MIN_POINTS) {
+    return problem(
+      fileName,
+      `Only ${rowsRead} row${rowsRead === 1 ? '' : 's'} of numbers could be read${skippedCount ? ` (${skippedCount} skipped)` : ''}; a trace needs at least ${MIN_POINTS} points.`,
+      'Check that this is the whole file and that the data rows hold plain numbers; a longer recording is needed for any processing.',
+      first.line,
+    );
+  }
+  if (skippedCount > 0) {
+    notices.push(
+      `${skippedCount} row${skippedCount === 1 ? ' was' : 's were'} skipped because ${skippedCount === 1 ? 'it' : 'they'} could not be read as numbers (first at line ${skipped[0].line}); see the list of skipped rows.` +
+        (skippedCount > skipped.length ? ` Only the first ${skipped.length} are listed.` : ''),
+    );
+  }
+  if (textColumns.length > 0) {
+    notices.push(`Not loaded (they do not hold numbers): ${textColumns.map(columnName).join(', ')}.`);
+  }
+
+  // x: point index, or the chosen column sorted and made strictly ascending.
+  let x = xs.values();
+  let yValues = ys.map((c) => c.values());
+  let lines = lineOf.values();
+  if (xColumn < 0) {
+    x = new Float64Array(rowsRead);
+    for (let i = 0; i < rowsRead; i++) x[i] = i;
+    notices.push(
+      numericColumns.length === 1
+        ? 'The file has one column of numbers, so x is the point index (0, 1, 2, …), not a measured quantity.'
+        : 'x is the point index (0, 1, 2, …), as chosen.',
+    );
+  } else {
+    let drop = -1;
+    for (let i = 1; i < rowsRead; i++) if (x[i] < x[i - 1]) { drop = i; break; }
+    if (drop >= 0) {
+      const order = new Uint32Array(rowsRead);
+      for (let i = 0; i < rowsRead; i++) order[i] = i;
+      const xv = x;
+      order.sort((a, b) => xv[a] - xv[b] || a - b);
+      notices.push(
+        `x was not in ascending order (at line ${lines[drop]} it falls from ${x[drop - 1]} to ${x[drop]}), so the rows were sorted by x; rows with equal x keep their file order.`,
+      );
+      x = Float64Array.from(order, (i) => xv[i]);
+      yValues = yValues.map((y) => Float64Array.from(order, (i) => y[i]));
+      const lv = lines;
+      lines = Float64Array.from(order, (i) => lv[i]);
+    }
+    let repeats = 0, sets = 0, firstRepeat = -1;
+    for (let i = 1; i < rowsRead; i++) {
+      if (x[i] === x[i - 1]) {
+        repeats++;
+        if (i === 1 || x[i - 1] !== x[i - 2]) sets++;
+        if (firstRepeat < 0) firstRepeat = i;
+      }
+    }
+    if (repeats > 0) {
+      const outX = new Float64Array(rowsRead - repeats);
+      const outY = yValues.map(() => new Float64Array(rowsRead - repeats));
+      let o = 0;
+      for (let i = 0; i < rowsRead;) {
+        let j = i + 1;
+        while (j < rowsRead && x[j] === x[i]) j++;
+        outX[o] = x[i];
+        for (let k = 0; k < yValues.length; k++) {
+          let sum = 0;
+          for (let r = i; r < j; r++) sum += yValues[k][r];
+          outY[k][o] = sum / (j - i);
+        }
+        o++;
+        i = j;
+      }
+      notices.push(
+        `${repeats} row${repeats === 1 ? ' repeats' : 's repeat'} an x value already present, in ${sets} set${sets === 1 ? '' : 's'} ` +
+          `(first: x = ${x[firstRepeat]} at lines ${lines[firstRepeat - 1]} and ${lines[firstRepeat]}); ` +
+          'y was averaged over each set of equal x, since a trace needs x strictly rising.',
+      );
+      x = outX;
+      yValues = outY;
+    }
+  }
+  if (x.length < MIN_POINTS) {
+    return problem(
+      fileName,
+      `After averaging rows with the same x only ${x.length} distinct x value${x.length === 1 ? '' : 's'} remain; a trace needs at least ${MIN_POINTS}.`,
+      'Check that the x column is the right one (for example time, not a run number).',
+      first.line,
+    );
+  }
+
+  const xHeader = xColumn >= 0 ? headers[xColumn] : { name: 'Point', unit: '' };
+  const traces: Trace[] = yColumns.map((c, j) =>
+    createTrace({
+      name: `${fileName}: ${headers[c].name}`,
+      x,
+      y: yValues[j],
+      xName: xHeader.name,
+      xUnit: xHeader.unit,
+      yName: headers[c].name,
+      yUnit: headers[c].unit,
+      source: { fileName, sha256, rowsRead, rowsSkipped: skippedCount, yColumn: c },
+      metadata,
+    }),
+  );
+  notices.unshift(
+    `Read as ${dialectLabel(dialect)} (${decoded.encoding}), decided from ${sample.length} line${sample.length === 1 ? '' : 's'}; ` +
+      `the table starts at line ${first.line}.`,
+  );
+  notices.push(...layout.notices);
+  const loadReport: LoadReport = {
+    fileName,
+    sha256,
+    format: `delimited text (${dialectLabel(dialect)}, ${decoded.encoding})`,
+    rowsRead,
+    skipped,
+    notices,
+    metadata: { ...metadata },
+    columns: headers.map((h) => ({ ...h })),
+  };
+  report(1);
+  return { ok: true, traces, report: loadReport };
+}
