@@ -400,23 +400,31 @@ function apexParabola(x: Float64Array, s: Float64Array, i: number): number {
  * Level of the trace at a base: the mean point (x and y) of the base sample
  * and the q samples beyond it (away from the peak). A base is the lowest
  * sample of a stretch, so on noisy data its own value sits a few σ low;
- * averaging with its outer neighbours removes most of that bias. Using the
- * mean x as well keeps a straight baseline exact.
+ * averaging with its outer neighbours removes most of that bias, and using
+ * the mean x as well keeps a straight baseline exact. The raise is capped
+ * at 3σ (about the expected depth of the lowest of a few hundred normal
+ * samples): a base in a valley between two peaks has the other peak's
+ * flank beyond it, which must not lift the baseline.
  */
-function baseLevel(x: Float64Array, s: Float64Array, b: number, dir: -1 | 1, q: number): [number, number] {
+function baseLevel(x: Float64Array, s: Float64Array, b: number, dir: -1 | 1, q: number, sigma: number): [number, number] {
   let sx = 0, sy = 0, cnt = 0;
   for (let j = 0; j <= q; j++) {
     const i = b + dir * j;
     if (i < 0 || i >= s.length) break;
     sx += x[i]; sy += s[i]; cnt++;
   }
-  return [sx / cnt, sy / cnt];
+  const mean = sy / cnt;
+  const cap = s[b] + BASE_RAISE_CAP_SIGMA * sigma;
+  return mean > cap ? [x[b], cap] : [sx / cnt, mean];
 }
 
+/** Largest raise of a base level above its own sample, in noise σ. */
+const BASE_RAISE_CAP_SIGMA = 3;
+
 /** The local baseline: straight line through the levels at two bases, evaluated at `at`. */
-function baselineAt(x: Float64Array, s: Float64Array, b0: number, b1: number, q: number, at: number): number {
-  const [x0, l0] = baseLevel(x, s, b0, -1, q);
-  const [x1, l1] = baseLevel(x, s, b1, 1, q);
+function baselineAt(x: Float64Array, s: Float64Array, b0: number, b1: number, q: number, sigma: number, at: number): number {
+  const [x0, l0] = baseLevel(x, s, b0, -1, q, sigma);
+  const [x1, l1] = baseLevel(x, s, b1, 1, q, sigma);
   return x1 === x0 ? (l0 + l1) / 2 : l0 + ((l1 - l0) * (at - x0)) / (x1 - x0);
 }
 
@@ -455,15 +463,15 @@ function apexLevel(x: Float64Array, s: Float64Array, i: number, fwhmPoints: numb
 }
 
 /** Height of the apex level above the local baseline through the two bases' levels. */
-function heightAbove(x: Float64Array, s: Float64Array, i: number, xApex: number, fwhmPoints: number, b0: number, b1: number): number {
-  return apexLevel(x, s, i, fwhmPoints, xApex) - baselineAt(x, s, b0, b1, baseHalfWindow(fwhmPoints), xApex);
+function heightAbove(x: Float64Array, s: Float64Array, i: number, xApex: number, fwhmPoints: number, b0: number, b1: number, sigma: number): number {
+  return apexLevel(x, s, i, fwhmPoints, xApex) - baselineAt(x, s, b0, b1, baseHalfWindow(fwhmPoints), sigma, xApex);
 }
 
 /** Trapezoid area of s over samples i0..i1 above the local baseline through the levels at i0 and i1. */
-function areaAboveBaseline(x: Float64Array, s: Float64Array, i0: number, i1: number, q: number): number {
+function areaAboveBaseline(x: Float64Array, s: Float64Array, i0: number, i1: number, q: number, sigma: number): number {
   let a = 0;
   for (let i = i0; i < i1; i++) a += 0.5 * (s[i] + s[i + 1]) * (x[i + 1] - x[i]);
-  const l0 = baselineAt(x, s, i0, i1, q, x[i0]), l1 = baselineAt(x, s, i0, i1, q, x[i1]);
+  const l0 = baselineAt(x, s, i0, i1, q, sigma, x[i0]), l1 = baselineAt(x, s, i0, i1, q, sigma, x[i1]);
   return a - 0.5 * (l0 + l1) * (x[i1] - x[i0]);
 }
 
@@ -572,7 +580,7 @@ function makePeak(x: Float64Array, y: Float64Array, s: Float64Array, sign: numbe
   const fwhm = rightHalf - leftHalf;
   const fwhmPoints = c.rightIp - c.leftIp;
   const xApex = apexParabola(x, s, i);
-  const hs = heightAbove(x, s, i, xApex, fwhmPoints, c.leftBase, c.rightBase);
+  const hs = heightAbove(x, s, i, xApex, fwhmPoints, c.leftBase, c.rightBase, o.noiseSigma);
   const q = baseHalfWindow(fwhmPoints);
   const snrRms = Math.abs(hs) / o.noiseSigma;
   const pn = pharmacopoeialNoise(x, y, xApex, fwhm, o);
@@ -585,7 +593,7 @@ function makePeak(x: Float64Array, y: Float64Array, s: Float64Array, sign: numbe
     leftBase: c.leftBase, rightBase: c.rightBase, leftBaseX: x[c.leftBase], rightBaseX: x[c.rightBase],
     fwhm, fwhmPoints, leftHalf, rightHalf,
     startIndex: c.startIndex, endIndex: c.endIndex, start: x[c.startIndex], end: x[c.endIndex],
-    area: sign * areaAboveBaseline(x, s, c.startIndex, c.endIndex, q),
+    area: sign * areaAboveBaseline(x, s, c.startIndex, c.endIndex, q, o.noiseSigma),
     snrRms, snrPharma, pharmaNoise: pn, snrRegion: snrRegionV, snr, snrDefinition: o.snrDefinition,
     flag: snrFlag(snr, o.limits), origin: c.origin,
   };
@@ -698,7 +706,7 @@ export function detectPeaks(x: Float64Array, y: Float64Array, options: PeakOptio
     const i = cIdx[k];
     if (minSnrOnTheFly && o.minSnr > 0) {
       const xApex = apexParabola(x, s, i);
-      const hs = heightAbove(x, s, i, xApex, w.widths[k], lb[k], rb[k]);
+      const hs = heightAbove(x, s, i, xApex, w.widths[k], lb[k], rb[k], o.noiseSigma);
       let snr: number | null;
       if (o.snrDefinition === 'rms') snr = Math.abs(hs) / o.noiseSigma;
       else {
@@ -756,14 +764,20 @@ function candidateAt(s: Float64Array, index: number, origin: Peak['origin']): Ca
  * measures as {@link detectPeaks} and origin 'added-by-user'. The index is
  * used as given (snapping a click to an apex is the caller's choice); at a
  * sample that is not a local maximum the prominence is 0 and a note says
- * so. Bounds are the prominence bases (no neighbours are known here).
+ * so. The integration bounds stop at the peaks detection finds with the
+ * same options, as in the table. O(n).
  * @throws RangeError when index is not a sample, or the options are invalid.
  */
 export function measurePeakAt(x: Float64Array, y: Float64Array, index: number, options: PeakOptions): Peak {
   checkOptions(x, y, options);
   checkPeaks(x.length, [index]);
   const s = detectionSignal(y, options.negative);
-  return makePeak(x, y, s, options.negative ? -1 : 1, candidateAt(s, index, 'added-by-user'), options);
+  const c = candidateAt(s, index, 'added-by-user');
+  const set: Candidate[] = detectPeaks(x, y, options).filter((p) => p.index !== index).map((p) => ({ ...c, index: p.index, leftBase: p.leftBase, rightBase: p.rightBase }));
+  set.push(c);
+  set.sort((a, b) => a.index - b.index);
+  assignBounds(s, set);
+  return makePeak(x, y, s, options.negative ? -1 : 1, c, options);
 }
 
 function nearestIndex(x: Float64Array, v: number): number {
