@@ -1,0 +1,77 @@
+/**
+ * The one entry point for reading a file: checks the bytes, then hands them to
+ * the reader for what they contain. The choice is made from the content, never
+ * from the file name, so a CSV saved as ".txt" or a JCAMP-DX file saved as
+ * ".csv" is still read correctly.
+ */
+import { MAX_FILE_BYTES } from './types.ts';
+import type { LoadOptions, LoadResult } from './types.ts';
+import { binaryReason, decodeText, sniffBinaryFormat, UNDERSTOOD_FORMATS } from './sniff.ts';
+import { parseDelimited } from './delimited.ts';
+import { sha256Hex } from './sha256.ts';
+import { looksLikeJcamp, parseJcamp } from './jcamp.ts';
+import { looksLikeNetcdf, parseNetcdf } from './netcdf.ts';
+
+/** Bytes decoded to decide whether a text file is JCAMP-DX. */
+const JCAMP_SNIFF_BYTES = 4096;
+
+function refuse(fileName: string, problem: string, advice: string): LoadResult {
+  return { ok: false, error: { fileName, problem, advice } };
+}
+
+/**
+ * Read a file's bytes into traces, or explain why not. Never throws.
+ *
+ * Order of checks: size (at most {@link MAX_FILE_BYTES}), empty, known binary
+ * formats by magic number (PNG, JPEG, ZIP, older Office, PDF, gzip, HDF5),
+ * netCDF classic (read by the netCDF reader), other binary content (NUL bytes
+ * or many control characters), JCAMP-DX text, and otherwise delimited text.
+ * `bytes` is only read.
+ *
+ * @param options column choice and progress callback; only delimited text
+ *   uses the column choice.
+ */
+export function loadFile(bytes: Uint8Array, fileName: string, options: LoadOptions = {}): LoadResult {
+  try {
+    if (!(bytes instanceof Uint8Array)) return refuse(fileName, 'No file content was given to the loader.', 'Choose the file again.');
+    if (bytes.length > MAX_FILE_BYTES) {
+      return refuse(
+        fileName,
+        `The file is ${(bytes.length / 1048576).toFixed(0)} MB, more than the ${MAX_FILE_BYTES / 1048576} MB the page can hold.`,
+        'Cut the file into parts, or keep only the time range you need, and load that.',
+      );
+    }
+    if (bytes.length === 0) {
+      return refuse(fileName, 'The file is empty (0 bytes).', 'Choose the file again; if it was exported from an instrument, check that the export finished.');
+    }
+    const known = sniffBinaryFormat(bytes);
+    if (known) return refuse(fileName, `This is ${known.format}, not a file of measured values the page can read.`, known.advice);
+    if (looksLikeNetcdf(bytes)) return parseNetcdf(bytes, fileName, sha256Hex(bytes));
+
+    const utf16 = (bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff);
+    const why = utf16 ? null : binaryReason(bytes);
+    if (why) {
+      return refuse(
+        fileName,
+        `The file is binary, not text. ${why}`,
+        `Export the trace from the instrument software as text (CSV) or save it as UTF-8 text. The page reads ${UNDERSTOOD_FORMATS}.`,
+      );
+    }
+
+    // A cut at 4 kB may split a character; that only matters for the look, and JCAMP-DX labels are ASCII.
+    const head = decodeText(bytes.subarray(0, JCAMP_SNIFF_BYTES)).text;
+    if (looksLikeJcamp(head)) {
+      const decoded = decodeText(bytes);
+      const result = parseJcamp(decoded.text, fileName, sha256Hex(bytes));
+      if (result.ok && decoded.notices.length > 0) result.report.notices.unshift(...decoded.notices);
+      return result;
+    }
+    return parseDelimited(bytes, fileName, options);
+  } catch (e) {
+    return refuse(
+      fileName,
+      `The loader stopped on an unexpected error (${e instanceof Error ? e.message : String(e)}).`,
+      'This is a fault in the page, not in your file alone: please report it with the file attached.',
+    );
+  }
+}
