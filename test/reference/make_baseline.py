@@ -13,7 +13,7 @@ import sys
 
 import numpy as np
 import scipy
-from scipy import ndimage, signal, sparse, stats
+from scipy import ndimage, optimize, signal, sparse, stats
 from scipy.sparse.linalg import spsolve
 
 OUT = pathlib.Path(__file__).with_name("baseline.json")
@@ -157,6 +157,15 @@ ref["asls"] = {"lambda": 1e5, "p": 0.01, "maxIter": 30, "y": tolist(y_bl), "z": 
 ref["arpls"] = {"lambda": 1e5, "maxIter": 50, "tol": 1e-3, "z": tolist(z_ar),
                 "iterations": it_ar, "converged": bool(conv_ar)}
 
+# Asymmetric least squares with weight p above estimates the p-expectile (Newey & Powell 1987,
+# Econometrica 55:819). For N(0, 1) noise it solves p·E[(X − e)+] = (1 − p)·E[(e − X)+].
+def expectile(p):
+    f = lambda e: p * (stats.norm.pdf(e) - e * stats.norm.sf(e)) - (1 - p) * (stats.norm.pdf(e) + e * stats.norm.cdf(e))
+    return float(optimize.brentq(f, -6, 6, xtol=1e-14))
+
+
+ref["expectile"] = {str(p): expectile(p) for p in (0.001, 0.01, 0.1)}
+
 # --- polynomial baseline on uneven x: numpy.polynomial.polynomial.polyfit --------
 n = 300
 x_p = np.cumsum(0.5 + rng.random(n))
@@ -185,6 +194,9 @@ z = (runs - mu) / np.sqrt(var)
 c = e - e.mean()
 ref["runs"] = {"e": tolist(e), "runs": runs, "expected": mu, "z": z, "p": float(2 * stats.norm.sf(abs(z))),
                "lag1": float(np.sum(c[:-1] * c[1:]) / np.sum(c * c))}
+
+ref["twoSidedP"] = {"z": [0.0, 0.5, 1.0, 1.96, 3.0, 5.0],
+                    "p": [float(2 * stats.norm.sf(v)) for v in (0.0, 0.5, 1.0, 1.96, 3.0, 5.0)]}
 
 OUT.write_text(json.dumps(ref, separators=(",", ":")) + "\n")
 print(f"wrote {OUT} (SciPy {scipy.__version__}, NumPy {np.__version__})")

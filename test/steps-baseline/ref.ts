@@ -14,6 +14,8 @@ export interface BaselineRef {
   asls: { lambda: number; p: number; maxIter: number; y: number[]; z: number[]; iterations: number; converged: boolean };
   arpls: { lambda: number; maxIter: number; tol: number; z: number[]; iterations: number; converged: boolean };
   polynomial: { x: number[]; y: number[]; ranges: [number, number][]; order: number; baseline: number[] };
+  expectile: Record<string, number>;
+  twoSidedP: { z: number[]; p: number[] };
   runs: { e: number[]; runs: number; expected: number; z: number; p: number; lag1: number };
 }
 
