@@ -96,7 +96,12 @@ describe('ensemble average', () => {
     const y = Float64Array.from(x, (v) => v);
     const same = trace('itself', x, y);
     const shifted = trace('shifted', grid(60, -2.5, 1), Float64Array.from(grid(60, -2.5, 1), (v) => v + 2));
+    const xc = Float64Array.from(x), yc = Float64Array.from(y), sc = Float64Array.from(shifted.y);
     const out = ensembleAverageStep.apply({ x, y }, {}, { scans: [same, shifted] });
+    expect(x).toEqual(xc);
+    expect(y).toEqual(yc);
+    expect(shifted.y).toEqual(sc);
+    expect(out.y.every(Number.isFinite)).toBe(true);
     expect(out.figures!.n).toBe(2);
     // Mean of v and (v + 2) is v + 1; linear interpolation of a line is exact.
     for (let i = 0; i < x.length; i++) expect(out.y[i]).toBeCloseTo(x[i] + 1, 12);
