@@ -15,22 +15,41 @@ export function nextPowerOfTwo(n: number): number {
 }
 
 const plans = new Map<number, FFT>();
+let lastBig: FFT | null = null;
+/**
+ * fft.js plan for a power-of-two size. Small plans are kept; of the big ones
+ * (their tables take megabytes) only the latest, since a forward and an
+ * inverse transform of one size usually follow each other.
+ */
 function plan(size: number): FFT {
-  let f = plans.get(size);
-  if (!f) {
-    f = new FFT(size);
-    plans.set(size, f);
+  if (size <= 1 << 16) {
+    let f = plans.get(size);
+    if (!f) {
+      f = new FFT(size);
+      plans.set(size, f);
+    }
+    return f;
   }
-  return f;
+  if (!lastBig || lastBig.size !== size) lastBig = new FFT(size);
+  return lastBig;
 }
 
-/** In-place power-of-two transform on interleaved complex data. */
+/** Power-of-two transform of interleaved complex data into a new array. */
 function fftPow2(data: Float64Array, inverse: boolean): Float64Array {
   const size = data.length / 2;
   const f = plan(size);
   const out = new Float64Array(2 * size);
   if (inverse) f.inverseTransform(out, data);
   else f.transform(out, data);
+  return out;
+}
+
+/** Forward power-of-two transform of real data (fft.js realTransform, about 40 % faster), full spectrum. */
+function fftPow2Real(re: Float64Array): Float64Array {
+  const f = plan(re.length);
+  const out = new Float64Array(2 * re.length);
+  f.realTransform(out, re);
+  f.completeSpectrum(out);
   return out;
 }
 
@@ -49,12 +68,16 @@ export function dft(re: Float64Array, im: Float64Array, inverse = false): { re: 
   if (n === 0 || im.length !== n) throw new RangeError('The transform needs equal, non-empty real and imaginary parts.');
   if (n === 1) return { re: Float64Array.from(re), im: Float64Array.from(im) };
   if ((n & (n - 1)) === 0) {
-    const data = new Float64Array(2 * n);
-    for (let j = 0; j < n; j++) {
-      data[2 * j] = re[j];
-      data[2 * j + 1] = im[j];
+    let out: Float64Array;
+    if (!inverse && im.every((v) => v === 0)) out = fftPow2Real(re);
+    else {
+      const data = new Float64Array(2 * n);
+      for (let j = 0; j < n; j++) {
+        data[2 * j] = re[j];
+        data[2 * j + 1] = im[j];
+      }
+      out = fftPow2(data, inverse);
     }
-    const out = fftPow2(data, inverse);
     const r = new Float64Array(n);
     const i = new Float64Array(n);
     for (let k = 0; k < n; k++) {
