@@ -64,6 +64,13 @@ describe.each(all.map((s) => [s.id, s] as const))('%s', (_id, step) => {
     }
   });
 
+  it('steps that assume even spacing send the user to the resample step when x is uneven', () => {
+    const uneven = { x: Float64Array.from({ length: n }, (_, i) => i + 0.01 * i * i), y };
+    const msg = step.validate(step.defaults, uneven, {});
+    if (step.needsEvenSpacing) expect(msg).toMatch(/Resample to even spacing/);
+    else expect(msg).toBeNull();
+  });
+
   it('validate answers bad numbers with a sentence instead of throwing', () => {
     for (const p of step.params) {
       if (p.kind !== 'int' && p.kind !== 'number') continue;

@@ -53,6 +53,7 @@ export function padIndex(j: number, n: number, mode: PadMode): number {
  * @param c kernel, applied in dot order (c[0] meets the leftmost sample).
  * @param mode padding, default 'reflect'.
  * @param cval value used beyond the ends for 'constant', default 0.
+ * @param centre kernel index that lines up with out[i], default floor(len/2).
  * @throws RangeError when y or c is empty.
  */
 export function correlate(
