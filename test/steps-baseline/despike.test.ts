@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { readFileSync } from 'node:fs';
 import { despikeStep, type DespikeParams } from '../../src/core/steps/despike.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';
 
@@ -31,6 +32,7 @@ describe('despike step', () => {
     }
     for (let i = 0; i < n; i++) if (!spikes.includes(i)) expect(out.y[i]).toBe(y[i]);
     expect(out.notes[0]).toMatch(/3 points were/);
+    expect(out.notes.join(' ')).not.toMatch(/probably noise/);
   });
 
   it('running median: every changed value is an event', () => {
@@ -66,5 +68,42 @@ describe('despike step', () => {
     expect(v({ threshold: 0.5 })).toMatch(/from 1 to 10/);
     expect(v({ method: 'median', threshold: NaN })).toBeNull();
     expect(v({ method: 'x' as 'hampel' })).toMatch(/Unknown method/);
+  });
+});
+
+describe('despike on the demo sample (public/demo, written by scripts/make-demo.mjs)', () => {
+  // The demo's ground truth names the spike it planted (index, x, size); the CSV is read here with a
+  // plain split so this test does not depend on the loaders.
+  const truth = JSON.parse(readFileSync(new URL('../../public/demo/demo-truth.json', import.meta.url), 'utf8')) as {
+    noiseSd: number;
+    spike: { file: string; index: number; x: number; size: number };
+    peaks: { centre: number; sigma: number }[];
+  };
+  const rows = readFileSync(new URL(`../../public/demo/${truth.spike.file}`, import.meta.url), 'utf8')
+    .split(/\r?\n/)
+    .map((l) => l.split(','))
+    .filter((f) => f.length === 2 && f[0].trim() !== '' && Number.isFinite(Number(f[0])) && Number.isFinite(Number(f[1])));
+  const demo = { x: Float64Array.from(rows, (r) => Number(r[0])), y: Float64Array.from(rows, (r) => Number(r[1])) };
+
+  it('the default Hampel settings find the planted spike and put it back near the surrounding level', () => {
+    const out = despikeStep.apply(demo, despikeStep.defaults, {});
+    const hit = out.events!.find((e) => e.index === truth.spike.index);
+    expect(hit).toBeDefined();
+    expect(hit!.x).toBeCloseTo(truth.spike.x, 9);
+    // The replacement is a 7-point median of noisy neighbours: within 4 noise SDs of (spiked value − spike size).
+    expect(Math.abs(hit!.replacement - (hit!.original - truth.spike.size))).toBeLessThan(4 * truth.noiseSd);
+    // Defaults also replace ordinary noise points (≈ 5 % on pure noise, see the threshold help), and the page is told so.
+    expect(out.notes.join(' ')).toMatch(/probably noise/);
+  });
+
+  it('a wide window cuts the top of the sharpest demo peak: the cost the summary names', () => {
+    // The sharpest peak has σ = 2 points (FWHM ≈ 4.7 points); a 21-point window is more than 4 × that.
+    const sharp = truth.peaks.reduce((a, b) => (b.sigma < a.sigma ? b : a));
+    const narrow = despikeStep.apply(demo, { method: 'hampel', window: 7, threshold: 3 }, {});
+    const wide = despikeStep.apply(demo, { method: 'hampel', window: 21, threshold: 3 }, {});
+    const nearTop = (e: { x: number }) => Math.abs(e.x - sharp.centre) <= sharp.sigma;
+    expect(narrow.events!.some(nearTop)).toBe(false);
+    expect(wide.events!.some(nearTop)).toBe(true);
+    expect(wide.events!.some((e) => e.index === truth.spike.index)).toBe(true);
   });
 });

@@ -40,7 +40,7 @@ export const despikeStep: StepDefinition<DespikeParams> = {
   summary:
     'Compares each point with the median of its neighbours and replaces it by that median when it stands out too far (Hampel test), or replaces every point by the running median. ' +
     'It helps against one- or two-point spikes that no real peak could produce. ' +
-    'A real peak narrower than about half the window is treated as a spike and erased, and the running-median choice flattens peak tops; every replaced point is listed.',
+    'A real peak only a few points wide (half-height width under about a quarter of the window) can be taken for a spike and cut, and the running median flattens every peak top; every replaced point is listed.',
   params: [
     {
       key: 'method', label: 'Method', kind: 'choice', unit: 'none',
@@ -55,7 +55,7 @@ export const despikeStep: StepDefinition<DespikeParams> = {
     },
     {
       key: 'threshold', label: 'Threshold', kind: 'number', unit: 'ratio', min: 1, max: 10, step: 0.1,
-      help: 'A point is a spike when it is further than this many robust SDs (1.4826 × median absolute deviation in the window) from the window median. Used by the Hampel method only.',
+      help: 'A point is a spike when it is further than this many robust SDs (1.4826 × median absolute deviation in the window) from the window median. Used by the Hampel method only. The spread of a few points is itself uncertain, so on pure noise t = 3 with a 7-point window still replaces about 5 points in 100 (2 in 100 at t = 4, 1.4 at t = 5; 1.4 in 100 with a 21-point window at t = 3).',
     },
   ],
   defaults: { method: 'hampel', window: 7, threshold: 3 },
@@ -85,6 +85,12 @@ export const despikeStep: StepDefinition<DespikeParams> = {
           ? `No point was further than ${formatNumber(params.threshold)} robust SDs from its ${params.window}-point median; nothing was replaced.`
           : `${events.length} point${events.length === 1 ? ' was' : 's were'} further than ${formatNumber(params.threshold)} robust SDs from the ${params.window}-point median and replaced by it (listed).`,
       );
+      // Measured on 10^6 seeded normal values: a 7-point window at t = 3 replaces 4.8 % of pure noise.
+      if (events.length > 0.01 * y.length) {
+        notes.push(
+          `That is ${formatNumber((100 * events.length) / y.length)} % of the points. On pure noise a Hampel test with a small window already replaces a few points in a hundred, so many of these are probably noise rather than spikes; raise the threshold (4–5) or widen the window to keep only clear spikes.`,
+        );
+      }
     } else {
       out = slidingMedian(y, params.window, 'shrink');
       for (let i = 0; i < y.length; i++) {
