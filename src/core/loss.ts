@@ -1,0 +1,308 @@
+/**
+ * The loss check: which features survive each choice of processing, and
+ * what each choice cost. Peaks found on alternative processings of one
+ * trace are matched by position into features; the ledger reports, per
+ * feature and alternative, whether it was found, its S/N and flag, and its
+ * height, width, apex and area against the least-processed alternative,
+ * with a sentence for every limit a feature crosses.
+ *
+ * Also: the expected height kept by a smoothing filter on a Gaussian,
+ * computed from the filter's weights, and window advice from the narrowest
+ * peak's half-height width.
+ */
+import type { Peak, PeakFlag } from './peaks.ts';
+import { savgolCoefficients } from './numeric/savgol.ts';
+
+/** One processing alternative and the peak table measured on its output. */
+export interface Alternative {
+  readonly id: string;
+  /** Words used in sentences, e.g. "5-point moving average". */
+  readonly label: string;
+  readonly peaks: readonly Peak[];
+}
+
+/** Where a feature stands in one alternative: its flag, or 'lost' when not found. */
+export type Standing = PeakFlag | 'lost';
+
+export interface MatchOptions {
+  /** Sample spacing in x-units (for the tolerance floor and apex shifts in points). */
+  dx: number;
+  /** x unit for sentences, e.g. "min" (default none). */
+  xUnit?: string;
+  /** Tolerance as a fraction of the reference peak's FWHM (default 0.5). */
+  fwhmFraction?: number;
+  /** Tolerance floor in samples (default 2). */
+  minPoints?: number;
+  /** The S/N limits the flags were made with (default 3 and 10), for the sentences. */
+  limits?: { detection: number; quantitation: number };
+}
+
+/** One feature in one alternative. Percentages are against the first alternative's peak. */
+export interface LedgerCell {
+  readonly found: boolean;
+  /** Position of the matched peak in that alternative's `peaks` list, or -1. */
+  readonly peakIndex: number;
+  readonly x: number | null;
+  readonly snr: number | null;
+  readonly standing: Standing;
+  /** Height as % of the height in the first alternative. */
+  readonly heightKept: number | null;
+  /** FWHM change, % (positive = broader). */
+  readonly widthChange: number | null;
+  /** Apex shift in x-units and in samples (positive = later). */
+  readonly apexShift: number | null;
+  readonly apexShiftPoints: number | null;
+  /** Area change, %. */
+  readonly areaChange: number | null;
+  /** 'down' when the standing fell below the first alternative's, 'up' when it rose. */
+  readonly crossed: 'down' | 'up' | null;
+}
+
+export interface LedgerRow {
+  /** x of the peak that started the feature (first alternative where it was found). */
+  readonly position: number;
+  /** Matching tolerance used for this feature (x-units). */
+  readonly tolerance: number;
+  /** Index of the first alternative in which the feature was found. */
+  readonly firstFoundIn: number;
+  readonly cells: readonly LedgerCell[];
+  /** True when any alternative crossed a limit relative to the first. */
+  readonly crossed: boolean;
+  readonly sentences: readonly string[];
+}
+
+export interface Ledger {
+  readonly alternatives: readonly { id: string; label: string }[];
+  readonly rows: readonly LedgerRow[];
+  /** All sentences, in order of position. */
+  readonly sentences: readonly string[];
+  /** How features were matched, in words. */
+  readonly rule: string;
+}
+
+const LEVEL: Record<Standing, number> = { 'lost': 0, 'below-detection': 1, 'detectable': 2, 'quantifiable': 3, 'not-measured': -1 };
+
+function decimalsFor(dx: number): number {
+  return Math.min(8, Math.max(0, Math.ceil(-Math.log10(Math.abs(dx)) - 1e-9)));
+}
+
+function pct(a: number, b: number): number | null {
+  return b !== 0 && Number.isFinite(a / b) ? (100 * a) / b : null;
+}
+
+/**
+ * Match peaks across alternatives into features and write the survival
+ * ledger. The first alternative is the least processed (the reference).
+ *
+ * Matching: features start from the first alternative's peaks; each later
+ * alternative's peaks are paired with the features already known, nearest
+ * first, one peak per feature, when within the feature's tolerance
+ * max(fwhmFraction × FWHM of the peak that started it, minPoints × dx)
+ * (defaults 0.5 and 2; our choice: half a width keeps two resolved peaks
+ * apart while absorbing the apex shift smoothing causes). An unpaired peak
+ * starts a new feature. Peaks the user removed are left out.
+ *
+ * Sentences name every limit crossed against the first alternative, e.g.
+ * "The feature at 12.41 min drops below S/N 3 with 5-point moving average."
+ * @throws RangeError when there are no alternatives or dx is not positive.
+ */
+export function matchPeaks(alternatives: readonly Alternative[], options: MatchOptions): Ledger {
+  if (alternatives.length === 0) throw new RangeError('The loss check needs at least one alternative.');
+  const dx = Math.abs(options.dx);
+  if (!(dx > 0) || !Number.isFinite(dx)) throw new RangeError(`The sample spacing must be a positive number; got ${options.dx}.`);
+  const frac = options.fwhmFraction ?? 0.5;
+  const minPts = options.minPoints ?? 2;
+  if (!(frac >= 0) || !(minPts >= 0)) throw new RangeError('The matching tolerance settings must be 0 or more.');
+  const limits = options.limits ?? { detection: 3, quantitation: 10 };
+  const unit = options.xUnit ? ` ${options.xUnit}` : '';
+  const dec = decimalsFor(dx);
+
+  interface Feature { position: number; tolerance: number; first: number; match: number[] }
+  const features: Feature[] = [];
+  const nAlt = alternatives.length;
+
+  for (let a = 0; a < nAlt; a++) {
+    const peaks = alternatives[a].peaks;
+    const known = features.length;
+    const pairs: [number, number, number][] = [];
+    for (let p = 0; p < peaks.length; p++) {
+      if (peaks[p].removedByUser) continue;
+      for (let f = 0; f < known; f++) {
+        const d = Math.abs(peaks[p].x - features[f].position);
+        if (d <= features[f].tolerance) pairs.push([d, f, p]);
+      }
+    }
+    pairs.sort((u, v) => u[0] - v[0] || u[1] - v[1] || u[2] - v[2]);
+    const peakUsed = new Uint8Array(peaks.length);
+    for (const [, f, p] of pairs) {
+      if (features[f].match[a] >= 0 || peakUsed[p]) continue;
+      features[f].match[a] = p;
+      peakUsed[p] = 1;
+    }
+    for (let p = 0; p < peaks.length; p++) {
+      if (peakUsed[p] || peaks[p].removedByUser) continue;
+      const match = new Array<number>(nAlt).fill(-1);
+      match[a] = p;
+      features.push({ position: peaks[p].x, tolerance: Math.max(frac * peaks[p].fwhm, minPts * dx), first: a, match });
+    }
+  }
+  features.sort((u, v) => u.position - v.position);
+
+  const rows: LedgerRow[] = features.map((f) => {
+    const ref = f.match[0] >= 0 ? alternatives[0].peaks[f.match[0]] : null;
+    const refStanding: Standing = ref ? ref.flag : 'lost';
+    const where = `The feature at ${f.position.toFixed(dec)}${unit}`;
+    const sentences: string[] = [];
+    const cells: LedgerCell[] = f.match.map((p, a) => {
+      const pk = p >= 0 ? alternatives[a].peaks[p] : null;
+      const standing: Standing = pk ? pk.flag : 'lost';
+      let crossed: LedgerCell['crossed'] = null;
+      if (a > 0 && LEVEL[standing] >= 0 && LEVEL[refStanding] >= 0 && standing !== refStanding) {
+        crossed = LEVEL[standing] < LEVEL[refStanding] ? 'down' : 'up';
+        const label = alternatives[a].label;
+        if (crossed === 'down') {
+          if (standing === 'lost') sentences.push(`${where} is lost with ${label}.`);
+          else if (standing === 'below-detection') sentences.push(`${where} drops below S/N ${limits.detection} with ${label}.`);
+          else sentences.push(`${where} drops below S/N ${limits.quantitation} (quantitation limit) with ${label}.`);
+        } else if (refStanding === 'lost') {
+          sentences.push(`${where} is found only after processing, with ${label}; check that the processing did not make it.`);
+        } else {
+          const lim = standing === 'quantifiable' ? limits.quantitation : limits.detection;
+          sentences.push(`${where} rises above S/N ${lim} with ${label}.`);
+        }
+      }
+      const shift = pk && ref ? pk.x - ref.x : null;
+      return {
+        found: pk !== null, peakIndex: p, x: pk ? pk.x : null, snr: pk ? pk.snr : null, standing,
+        heightKept: pk && ref ? pct(pk.height, ref.height) : null,
+        widthChange: pk && ref ? (pct(pk.fwhm - ref.fwhm, ref.fwhm)) : null,
+        apexShift: shift, apexShiftPoints: shift === null ? null : shift / dx,
+        areaChange: pk && ref ? pct(pk.area - ref.area, ref.area) : null,
+        crossed,
+      };
+    });
+    return {
+      position: f.position, tolerance: f.tolerance, firstFoundIn: f.first, cells,
+      crossed: cells.some((c) => c.crossed !== null), sentences,
+    };
+  });
+
+  return {
+    alternatives: alternatives.map((a) => ({ id: a.id, label: a.label })),
+    rows,
+    sentences: rows.flatMap((r) => r.sentences),
+    rule: `Peaks are the same feature when their apexes lie within max(${frac} × FWHM, ${minPts} points) of the feature's first apex; nearest pairs first, one peak per feature. Changes are against ${alternatives[0].label}.`,
+  };
+}
+
+function checkSigma(sigmaPoints: number): void {
+  if (!(sigmaPoints > 0) || !Number.isFinite(sigmaPoints)) {
+    throw new RangeError(`The Gaussian's σ must be a positive number of points; got ${sigmaPoints}.`);
+  }
+}
+
+/**
+ * Height kept by an N-point moving average at the apex of a sampled
+ * Gaussian of standard deviation σ points:
+ * (1/N) Σ_{k=−(N−1)/2}^{(N−1)/2} exp(−k²/2σ²). Exact for an apex on a
+ * sample and odd N (even N: the apex midway between samples). For example
+ * N = 5, σ = 5 → 0.961326 (REFERENCES.md). Approximately
+ * 1/√(1 + (N² − 1)/(12σ²)).
+ * @throws RangeError unless N is a whole number ≥ 1 and σ > 0.
+ */
+export function gaussianHeightRatioMovingAverage(N: number, sigmaPoints: number): number {
+  if (!Number.isInteger(N) || N < 1) throw new RangeError(`The moving-average window must be a whole number of points, at least 1; got ${N}.`);
+  checkSigma(sigmaPoints);
+  let s = 0;
+  for (let j = 0; j < N; j++) {
+    const k = j - (N - 1) / 2;
+    s += Math.exp((-k * k) / (2 * sigmaPoints * sigmaPoints));
+  }
+  return s / N;
+}
+
+/**
+ * Height kept by any symmetric smoothing filter with weights c (centred,
+ * k = index − (len − 1)/2) at the apex of a sampled Gaussian of σ points:
+ * Σ c_k exp(−k²/2σ²). With Savitzky–Golay weights this is the SG height
+ * loss (quadratic, window 11 / 25, σ = 5 → 0.98827 / 0.8445, SciPy via
+ * REFERENCES.md).
+ * @throws RangeError for empty weights or σ ≤ 0.
+ */
+export function gaussianHeightRatioFromCoefficients(coeffs: ArrayLike<number>, sigmaPoints: number): number {
+  if (coeffs.length === 0) throw new RangeError('The filter needs at least one weight.');
+  checkSigma(sigmaPoints);
+  const mid = (coeffs.length - 1) / 2;
+  let s = 0;
+  for (let j = 0; j < coeffs.length; j++) {
+    const k = j - mid;
+    s += coeffs[j] * Math.exp((-k * k) / (2 * sigmaPoints * sigmaPoints));
+  }
+  return s;
+}
+
+/** FWHM / σ of a Gaussian, 2√(2 ln 2). */
+export const GAUSSIAN_FWHM_PER_SIGMA = 2 * Math.sqrt(2 * Math.LN2);
+
+export interface WindowAdvice {
+  /** Window in units of the narrowest peak's FWHM. */
+  readonly ratio: number;
+  /** Fraction of a Gaussian's height (of that FWHM) the step keeps, computed from its weights. */
+  readonly expectedHeightKept: number;
+  /** The rule of thumb applied, with its source. */
+  readonly rule: string;
+  /** Set when the window passes the rule: what it costs, in words. */
+  readonly warning?: string;
+}
+
+/**
+ * Advice on a smoothing window from the narrowest peak's half-height width
+ * (measured on the least-processed trace). Rules of thumb, marked as such:
+ * Savitzky–Golay quadratic/cubic window up to about 1 × FWHM (O'Haver,
+ * signal-processing notes; common practice), quartic and above up to
+ * 1–2 × FWHM (Press & Teukolsky 1990, Comput. Phys. 4:669), moving average
+ * (and SG of order 0–1, which is one) up to about 0.5 × FWHM (common
+ * practice). The expected height kept is computed for a Gaussian of that
+ * FWHM from the filter's own weights.
+ * @param windowPoints odd number of samples.
+ * @param order polynomial order (SG only; ignored for the moving average).
+ * @param narrowestFwhmPoints half-height width of the narrowest peak, in samples.
+ * @throws RangeError for windows or widths that are not positive, or an order the window cannot fit.
+ */
+export function windowAdvice(
+  stepKind: 'moving-average' | 'savitzky-golay', windowPoints: number, order: number, narrowestFwhmPoints: number,
+): WindowAdvice {
+  if (!Number.isInteger(windowPoints) || windowPoints < 1) throw new RangeError(`The window must be a whole number of points; got ${windowPoints}.`);
+  if (!(narrowestFwhmPoints > 0) || !Number.isFinite(narrowestFwhmPoints)) {
+    throw new RangeError(`The narrowest peak width must be a positive number of points; got ${narrowestFwhmPoints}.`);
+  }
+  const sigma = narrowestFwhmPoints / GAUSSIAN_FWHM_PER_SIGMA;
+  const ratio = windowPoints / narrowestFwhmPoints;
+  let kept: number, limit: number, rule: string, name: string;
+  if (stepKind === 'moving-average' || order <= 1) {
+    kept = stepKind === 'moving-average'
+      ? gaussianHeightRatioMovingAverage(windowPoints, sigma)
+      : gaussianHeightRatioFromCoefficients(savgolCoefficients(windowPoints, order), sigma);
+    limit = 0.5;
+    rule = 'Moving-average window up to about 0.5 × the narrowest FWHM (common practice).';
+    name = stepKind === 'moving-average' ? `${windowPoints}-point moving average` : `${windowPoints}-point Savitzky–Golay window (order ${order}, a moving average)`;
+  } else {
+    kept = gaussianHeightRatioFromCoefficients(savgolCoefficients(windowPoints, order), sigma);
+    if (order <= 3) {
+      limit = 1;
+      rule = "Savitzky–Golay quadratic/cubic window up to about 1 × the narrowest FWHM (O'Haver, signal-processing notes; common practice).";
+    } else {
+      limit = 2;
+      rule = 'Savitzky–Golay quartic or higher window up to 1–2 × the narrowest FWHM (Press & Teukolsky 1990, Comput. Phys. 4:669).';
+    }
+    name = `${windowPoints}-point Savitzky–Golay window (order ${order})`;
+  }
+  const advice: WindowAdvice = { ratio, expectedHeightKept: kept, rule };
+  if (ratio > limit) {
+    return {
+      ...advice,
+      warning: `The ${name} spans ${ratio.toFixed(2)} × the narrowest peak's half-height width (${narrowestFwhmPoints.toFixed(1)} points), above the usual limit of about ${limit} ×. A Gaussian peak that narrow keeps about ${(100 * kept).toFixed(1)} % of its height.`,
+    };
+  }
+  return advice;
+}
