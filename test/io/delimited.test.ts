@@ -69,6 +69,12 @@ const EXPECTED: Record<string, ExpectedOk | ExpectedError> = {
       T('Time', 'min', 'Signal', 'mV', range(5, 0.05), [5, 5.5, 20, 6, 5]),
     ],
   },
+  // "Rig,bench 2" has two text cells like a names line, but "Time,Signal" are not units, so it stays metadata.
+  'preamble-plain-header.csv': {
+    format: 'comma, decimal point',
+    traces: [T('Time', '', 'Signal', '', range(5, 0.5), [1.5, 2.5, 6.5, 2, 1])],
+    metadata: { Rig: 'bench 2' },
+  },
   'units-row.csv': { format: 'comma, decimal point', traces: [T('Time', 'min', 'Absorbance', 'mAU', range(5, 0.01), [0.5, 0.75, 3.5, 0.5, 0.25])] },
   'text-in-cells.csv': {
     format: 'comma, decimal point',
@@ -329,5 +335,12 @@ describe('column headers', () => {
     expect(parseColumnHeader('Absorbance 520 nm (mAU)')).toEqual({ name: 'Absorbance 520 nm', unit: 'mAU' });
     expect(parseColumnHeader('Ratio A/B')).toEqual({ name: 'Ratio A/B', unit: '' });
     expect(parseColumnHeader('Signal')).toEqual({ name: 'Signal', unit: '' });
+  });
+
+  it('takes units from a line under the names when they are bracketed or known units', () => {
+    const text = 'Time;Absorbance;Current\n(min);[mAU];nA\n0;1;7\n1;2;8\n2;3;9\n3;4;8\n4;5;7\n';
+    const r = parseDelimited(new TextEncoder().encode(text), 'u.csv');
+    if (!r.ok) throw new Error(r.error.problem);
+    expect(r.report.columns).toEqual([{ name: 'Time', unit: 'min' }, { name: 'Absorbance', unit: 'mAU' }, { name: 'Current', unit: 'nA' }]);
   });
 });

@@ -22,6 +22,12 @@
  *    {@link parseNumber}; rows that are not numbers are skipped and listed.
  * 5. Rows are sorted by x when needed (stable), y is averaged over repeated
  *    x, both with a notice, and one trace is made per y column.
+ *
+ * Known limits: a file with one column of unquoted decimal-comma numbers
+ * ("1,5" on every line) is read as two comma-separated integer columns,
+ * since nothing in the file tells the two apart; thousands separators are
+ * never guessed (see numbers.ts); the table must start within the first
+ * {@link SAMPLE_LINES} non-blank lines.
  */
 import Papa from 'papaparse';
 import { createTrace, MIN_POINTS } from '../trace.ts';
@@ -239,6 +245,20 @@ export function parseColumnHeader(raw: string): ColumnHeader {
   return { name: s, unit: '' };
 }
 
+/** Units recognised on a separate units line (lower case). Common practice in instrument exports; not exhaustive. */
+const KNOWN_UNITS = new Set([
+  's', 'sec', 'ms', 'min', 'h', 'nm', 'µm', 'um', 'cm-1', '1/cm', 'cm^-1', 'au', 'mau', 'µau', 'uau', 'abs', 'a.u.', 'v', 'mv', 'µv', 'uv',
+  'a', 'ma', 'µa', 'ua', 'na', 'pa', 'counts', 'cps', 'hz', '%', '°c', 'k', 'bar', 'psi', 'mpa', 'ml/min', 'µl/min', 'ul/min', 'riu', 'nriu',
+  'lsu', 'ppm', 'mg/l', 'µg/ml', 'ug/ml', 'm/z', 'da',
+]);
+
+/** True when a cell is a unit on its own: a known unit, or anything in parentheses or brackets. */
+function looksLikeUnit(cell: string): boolean {
+  const s = stripQuotes(cell);
+  if (/^\(.*\)$|^\[.*\]$/.test(s)) return true;
+  return KNOWN_UNITS.has(s.toLowerCase());
+}
+
 interface SampleLine {
   line: number;
   text: string;
@@ -442,11 +462,16 @@ function findLayout(sample: readonly SampleLine[], fileName: string): LayoutResu
     if (fields.length === K) {
       headerIndex = above;
       headers = fields.map(parseColumnHeader);
-      // A second text line above the names, or a units line under them.
+      // Names on one line and units on the next: only when every cell of the lower line is a known unit,
+      // so a preamble line such as "Rig,bench 2" above a plain header is never taken for names.
       const twoAbove = above - 1;
-      if (twoAbove >= 0 && rows[twoAbove].fields.length === K && rows[twoAbove].numericCount === 0 && headers.every((h) => h.unit === '')) {
+      if (
+        twoAbove >= 0 && rows[twoAbove].fields.length === K && rows[twoAbove].numericCount === 0 &&
+        headers.every((h) => h.unit === '') && fields.every((f) => stripQuotes(f) === '' || looksLikeUnit(f)) &&
+        fields.some((f) => stripQuotes(f) !== '')
+      ) {
         const names = rows[twoAbove].fields.map(parseColumnHeader);
-        headers = names.map((h, c) => ({ name: h.name, unit: h.unit || stripQuotes(fields[c]) }));
+        headers = names.map((h, c) => ({ name: h.name, unit: h.unit || stripQuotes(fields[c]).replace(/^[([](.*)[)\]]$/, '$1') }));
         headerIndex = twoAbove;
       }
     } else {
@@ -656,6 +681,7 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
     skippedCount++;
     if (skipped.length < MAX_LISTED_SKIPS) skipped.push({ line, reason, text: truncate(raw()) });
   };
+  const rowBuffer = new Float64Array(yColumns.length);
   const sink: RowSink = {
     row(line, fields, raw) {
       if (fields.length !== K) {
@@ -667,7 +693,7 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
         x = parseNumber(fields[xColumn], dialect.decimal);
         if (Number.isNaN(x)) { skip(line, `not a number in ${columnName(xColumn)}: "${truncate(stripQuotes(fields[xColumn]))}"`, raw); return; }
       }
-      const rowY = new Array<number>(yColumns.length);
+      const rowY = rowBuffer;
       for (let j = 0; j < yColumns.length; j++) {
         const v = parseNumber(fields[yColumns[j]], dialect.decimal);
         if (Number.isNaN(v)) { skip(line, `not a number in ${columnName(yColumns[j])}: "${truncate(stripQuotes(fields[yColumns[j]]))}"`, raw); return; }
