@@ -467,7 +467,7 @@ function findLayout(sample: readonly SampleLine[], fileName: string): LayoutResu
       const twoAbove = above - 1;
       if (
         twoAbove >= 0 && rows[twoAbove].fields.length === K && rows[twoAbove].numericCount === 0 &&
-        headers.every((h) => h.unit === '') && fields.every((f) => stripQuotes(f) === '' || looksLikeUnit(f)) &&
+        fields.every((f) => stripQuotes(f) === '' || looksLikeUnit(f)) &&
         fields.some((f) => stripQuotes(f) !== '')
       ) {
         const names = rows[twoAbove].fields.map(parseColumnHeader);
