@@ -489,8 +489,8 @@ function findLayout(sample: readonly SampleLine[], fileName: string): LayoutResu
 }
 
 interface RowSink {
-  /** Called for each non-blank data row with its 1-based line number and its fields. */
-  row(line: number, fields: string[], rawText: () => string): void;
+  /** Called for each non-blank data row with its 1-based line number, its fields and its raw text (or how to get it). */
+  row(line: number, fields: string[], rawText: string | (() => string)): void;
 }
 
 function readRowsFast(
@@ -504,7 +504,7 @@ function readRowsFast(
     const trimmed = trimSpaceTab(line);
     if (trimmed !== '') {
       const fields = delimiter === 'whitespace' ? trimmed.split(/[ \t]+/) : line.split(delimiter);
-      sink.row(reader.line, fields, () => line);
+      sink.row(reader.line, fields, line);
     }
     if (++sinceProgress === PROGRESS_EVERY) {
       sinceProgress = 0;
@@ -677,9 +677,9 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
   const lineOf = new Column();
   const skipped: SkippedRow[] = [];
   let skippedCount = 0;
-  const skip = (line: number, reason: string, raw: () => string) => {
+  const skip = (line: number, reason: string, raw: string | (() => string)) => {
     skippedCount++;
-    if (skipped.length < MAX_LISTED_SKIPS) skipped.push({ line, reason, text: truncate(raw()) });
+    if (skipped.length < MAX_LISTED_SKIPS) skipped.push({ line, reason, text: truncate(typeof raw === 'string' ? raw : raw()) });
   };
   const rowBuffer = new Float64Array(yColumns.length);
   const sink: RowSink = {
