@@ -7,13 +7,19 @@ import { PipelineCache, runPipeline, type StepStatus } from './pipeline.ts';
 import type { Recipe, Registry } from './recipe.ts';
 import type { Signal, SpikeEvent, StepContext } from './steps/types.ts';
 import type { Trace } from './trace.ts';
-import { meanStep } from './numeric/interpolate.ts';
+import { interpolateLinear, meanStep } from './numeric/interpolate.ts';
 import { residual as residualOf, residualDiagnostics, type ResidualDiagnostics } from './diagnostics.ts';
 import { noisePeakToPeak, noiseRms, noiseRobust, type NoiseEstimate } from './noise.ts';
+import { noiseWindowsMedian } from './noise-windows.ts';
 import { applyPeakDecisions, defaultPeakOptions, detectPeaks, type Peak, type PeakDecisions, type PeakOptions, type SnrDefinition } from './peaks.ts';
 
-/** How noise is measured for S/N = H/σ. */
-export type NoiseMethod = 'robust' | 'rms';
+/**
+ * How noise is measured for S/N = H/σ: 'windows' (automatic, median of
+ * local SDs; valid after smoothing), 'rms' (about a line over the quiet
+ * range the user marked), 'robust' (point-to-point differences; white noise
+ * only, so raw traces only).
+ */
+export type NoiseMethod = 'windows' | 'rms' | 'robust';
 
 export interface NoiseSettings {
   method: NoiseMethod;
@@ -38,7 +44,7 @@ export interface PeakSettings {
   quantitationLimit: number;
 }
 
-export const DEFAULT_NOISE_SETTINGS: NoiseSettings = { method: 'robust', quietRange: null };
+export const DEFAULT_NOISE_SETTINGS: NoiseSettings = { method: 'windows', quietRange: null };
 
 export const DEFAULT_PEAK_SETTINGS: PeakSettings = {
   measureOn: 'processed', minProminenceSigma: 2, minSnr: 2, minWidth: 0, minSeparation: 0,
@@ -79,6 +85,8 @@ export interface StepRunSummary {
   ms: number;
   points: number;
   eventCount: number;
+  /** Points this step replaced (despiking), listed so nothing is removed silently. */
+  events?: SpikeEvent[];
   /** Per-point extras a panel may draw, e.g. the local polynomial order. */
   extra?: Record<string, Float64Array>;
 }
@@ -113,13 +121,21 @@ export function measureNoise(sig: Signal, raw: Signal, settings: NoiseSettings):
       if (settings.quietRange) {
         const r = noiseRms(s.x, s.y, settings.quietRange[0], settings.quietRange[1]);
         if (r.ok) return r;
-        notes.push(`${r.message} The automatic robust estimate is used instead.`);
+        notes.push(`${r.message} The automatic estimate is used instead.`);
       } else {
-        notes.push('No quiet baseline range is marked, so the automatic robust estimate is used. Mark a range on the plot to use the RMS about a line.');
+        notes.push('No quiet baseline range is marked, so the automatic estimate is used. Mark a range on the plot to use the RMS about a line.');
       }
     }
+    if (settings.method === 'robust') {
+      if (s !== raw) notes.push('Point-to-point differences assume white noise; on a smoothed trace they understate σ and overstate S/N. Prefer the automatic estimate or a quiet range.');
+      const r = noiseRobust(s.y);
+      if (r.ok) return r;
+    }
+    const w = noiseWindowsMedian(s.x, s.y);
+    if (w.ok) return w;
     const r = noiseRobust(s.y);
-    return r.ok ? r : null;
+    if (r.ok) { notes.push(`${w.message} The point-to-point estimate is used.`); return r; }
+    return null;
   };
   const sigma = pick(sig);
   const before = notes.length;
@@ -132,6 +148,35 @@ export function measureNoise(sig: Signal, raw: Signal, settings: NoiseSettings):
   }
   if (!sigma) throw new Error('noise could not be estimated on a valid trace');
   return { sigma, rawSigma, peakToPeak, notes };
+}
+
+/** Steps whose change to the trace is a deliberate removal, not a loss. */
+const DELIBERATE = new Set(['baseline', 'blank-subtraction']);
+
+/**
+ * Sum of what the deliberate steps removed (their input minus their output),
+ * carried on the grid of the last such step; null when there were none.
+ */
+function deliberateRemovals(raw: Signal, run: ReturnType<typeof runPipeline>): Signal | null {
+  let input: Signal = raw;
+  let acc: Signal | null = null;
+  for (const r of run.runs) {
+    if (r.status !== 'ok' || !r.output) continue;
+    const out = r.output;
+    if (DELIBERATE.has(r.step) && out.x.length === input.x.length) {
+      const d = new Float64Array(out.y.length);
+      for (let i = 0; i < d.length; i++) d[i] = input.y[i] - out.y[i];
+      if (acc && acc.x.length !== out.x.length) {
+        const moved = interpolateLinear(acc.x, acc.y, out.x);
+        for (let i = 0; i < d.length; i++) d[i] += Number.isFinite(moved[i]) ? moved[i] : 0;
+      } else if (acc) {
+        for (let i = 0; i < d.length; i++) d[i] += acc.y[i];
+      }
+      acc = { x: out.x, y: d };
+    }
+    input = { x: out.x, y: out.y };
+  }
+  return acc;
 }
 
 /** Run one analysis. `traces` holds every loaded trace by id. */
@@ -153,6 +198,14 @@ export function analyse(
     const r = residualOf(raw, run.final);
     residual = { x: r.x, y: r.y };
     note = r.note ?? undefined;
+    const removed = deliberateRemovals(raw, run);
+    if (removed) {
+      const on = removed.x.length === r.x.length ? removed.y : interpolateLinear(removed.x, removed.y, r.x);
+      const y = new Float64Array(r.y.length);
+      for (let i = 0; i < y.length; i++) y[i] = r.y[i] - (Number.isFinite(on[i]) ? on[i] : 0);
+      residual = { x: r.x, y };
+      note = `${note ? `${note} ` : ''}What baseline correction and blank subtraction removed on purpose is left out of the residual, so it shows only what the other steps took away.`;
+    }
   } catch (e) {
     residual = { x: run.final.x, y: new Float64Array(run.final.x.length) };
     note = `${(e as Error).message} The residual is not shown.`;
@@ -162,7 +215,7 @@ export function analyse(
   const runs: StepRunSummary[] = run.runs.map((r) => ({
     uid: r.uid, step: r.step, status: r.status, message: r.message,
     notes: r.output?.notes ?? [], figures: r.output?.figures, cached: r.cached, ms: r.ms,
-    points: r.output?.y.length ?? 0, eventCount: r.output?.events?.length ?? 0, extra: r.output?.extra,
+    points: r.output?.y.length ?? 0, eventCount: r.output?.events?.length ?? 0, events: r.output?.events, extra: r.output?.extra,
   }));
   let intermediate: Signal | null = null;
   if (request.showUid) {

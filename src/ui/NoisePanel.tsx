@@ -1,4 +1,4 @@
-import type { PeakSettings } from '../core/analyse.ts';
+import type { NoiseMethod, PeakSettings } from '../core/analyse.ts';
 import { useApp } from '../state/store.ts';
 import { num, SNR_WORDS } from './format.ts';
 
@@ -31,14 +31,15 @@ export function NoisePanel() {
         <div>
           <label className="param" htmlFor="noise-method">
             <span className="param-label">Noise σ for S/N</span>
-            <select id="noise-method" value={settings.method} onChange={(e) => setNoiseSettings({ method: e.target.value as 'robust' | 'rms' })}>
-              <option value="robust">automatic: robust spread of point-to-point differences</option>
+            <select id="noise-method" value={settings.method} onChange={(e) => setNoiseSettings({ method: e.target.value as NoiseMethod })}>
+              <option value="windows">automatic: median of local SDs (valid after smoothing)</option>
               <option value="rms">RMS about a straight line over the quiet range</option>
+              <option value="robust">spread of point-to-point differences (raw white noise only)</option>
             </select>
           </label>
           <div className="row">
             <button type="button" disabled={!marked} onClick={() => marked && setNoiseSettings({ quietRange: marked, method: 'rms' })}>Use the marked range as quiet baseline</button>
-            {settings.quietRange && <button type="button" className="link" onClick={() => setNoiseSettings({ quietRange: null, method: 'robust' })}>clear quiet range</button>}
+            {settings.quietRange && <button type="button" className="link" onClick={() => setNoiseSettings({ quietRange: null, method: 'windows' })}>clear quiet range</button>}
           </div>
           {settings.quietRange && <p className="small">Quiet range: {num(settings.quietRange[0])} – {num(settings.quietRange[1])} {xu}</p>}
           {noise && (

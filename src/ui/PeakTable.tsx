@@ -42,8 +42,7 @@ export function PeakTable() {
               <th scope="col">Prominence{yu}</th>
               <th scope="col">FWHM{xu}</th>
               <th scope="col">Area</th>
-              <th scope="col">From{xu}</th>
-              <th scope="col">To{xu}</th>
+              <th scope="col">Bounds{xu}</th>
               <th scope="col">S/N ({def === 'rms' ? 'H/σ' : def === 'pharmacopoeial' ? '2H/h' : 'mean/SD'})</th>
               <th scope="col">H/σ</th>
               <th scope="col">2H/h</th>
@@ -71,8 +70,7 @@ export function PeakTable() {
                 <td>{num(p.prominence)}</td>
                 <td>{num(p.fwhm)}</td>
                 <td>{num(p.area)}</td>
-                <td>{num(p.start, 5)}</td>
-                <td>{num(p.end, 5)}</td>
+                <td>{num(p.start, 4)} – {num(p.end, 4)}</td>
                 <td><strong>{num(p.snr, 3)}</strong></td>
                 <td>{num(p.snrRms, 3)}</td>
                 <td title={p.pharmaNoise ? `h = ${num(p.pharmaNoise.h)} over ${p.pharmaNoise.points} points of ${p.pharmaNoise.source}` : ''}>{num(p.snrPharma, 3)}{p.pharmaNoise?.source === 'trace itself' ? '*' : ''}</td>
@@ -86,11 +84,14 @@ export function PeakTable() {
                 </td>
               </tr>
             ))}
-            {peaks.length === 0 && <tr><td colSpan={13} className="muted">No peaks pass the thresholds.</td></tr>}
+            {peaks.length === 0 && <tr><td colSpan={12} className="muted">No peaks pass the thresholds.</td></tr>}
           </tbody>
         </table>
       </div>
-      <p className="hint">Height is above the straight line joining the peak’s bases; area is above that line between the integration bounds (trapezoid rule). * 2H/h measured on the trace itself because no blank is loaded: a deviation from the pharmacopoeial method.</p>
+      <p className="hint">
+        Height is above the straight line joining the peak’s bases; area is above that line between the integration bounds (trapezoid rule); FWHM is the width at half height.
+        {' '}2H/h: h is the noise range {peaks.some((p) => p.pharmaNoise?.source === 'trace itself') ? 'of the trace itself (*), because no blank is loaded: a deviation from the pharmacopoeial method' : 'of the blank'} over {result.peakOptions?.pharmacopoeialMultiplier ?? 5} × FWHM centred on each peak.
+      </p>
     </section>
   );
 }

@@ -4,10 +4,12 @@ import { meanStep } from '../core/numeric/interpolate.ts';
 import { useApp } from '../state/store.ts';
 import { ParamControl } from './ParamControl.tsx';
 
+const NO_RUNS: never[] = [];
+
 /** The user's processing stack: add, reorder (drag or keyboard), switch, remove, edit. */
 export function StepStack() {
   const recipe = useApp((s) => s.recipe);
-  const runs = useApp((s) => s.result?.runs ?? []);
+  const runs = useApp((s) => s.result?.runs) ?? NO_RUNS;
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const showUid = useApp((s) => s.showUid);
   const { addStep, removeStep, moveStep, toggleStep, setParam, undo, redo, setShowUid } = useApp.getState();
@@ -91,6 +93,20 @@ export function StepStack() {
                   {run.notes.map((n, k) => <p key={k}>{n}</p>)}
                   {run.figures && Object.keys(run.figures).length > 0 && (
                     <p className="figures">{Object.entries(run.figures).map(([k, v]) => `${k} ${Number.isFinite(v) ? Number(v.toPrecision(4)) : v}`).join(' · ')}</p>
+                  )}
+                  {run.events && run.events.length > 0 && (
+                    <details className="events" open={run.events.length <= 5}>
+                      <summary>{run.events.length} point{run.events.length === 1 ? '' : 's'} replaced (marked × on the plot)</summary>
+                      <table className="data" data-testid="spike-events">
+                        <thead><tr><th scope="col">x</th><th scope="col">was</th><th scope="col">now</th></tr></thead>
+                        <tbody>
+                          {run.events.slice(0, 200).map((ev) => (
+                            <tr key={ev.index}><td>{Number(ev.x.toPrecision(6))}</td><td>{Number(ev.original.toPrecision(5))}</td><td>{Number(ev.replacement.toPrecision(5))}</td></tr>
+                          ))}
+                        </tbody>
+                      </table>
+                      {run.events.length > 200 && <p className="small">First 200 of {run.events.length}; all are in the exports.</p>}
+                    </details>
                   )}
                   <p className="muted small">{run.points} points out{run.cached ? ' (from cache)' : ` in ${run.ms} ms`}</p>
                 </div>

@@ -21,9 +21,11 @@ export function TraceList() {
       <ul className="trace-list">
         {traces.map((t) => (
           <li key={t.id} className={`trace-item role-${roles[t.id]}`}>
-            <div className="trace-name" title={`${t.source.fileName}\nSHA-256 ${t.source.sha256}`}>{t.name}</div>
-            <div className="trace-meta">{t.x.length.toLocaleString('en')} points · {t.source.rowsSkipped} skipped rows</div>
-            <div className="row">
+            <div className="trace-text">
+              <div className="trace-name" title={`${t.source.fileName}\nSHA-256 ${t.source.sha256}`}>{t.name}</div>
+              <div className="trace-meta">{t.x.length.toLocaleString('en')} points{t.source.rowsSkipped ? ` · ${t.source.rowsSkipped} rows skipped` : ''}</div>
+            </div>
+            <div className="row trace-controls">
               <label className="sr-only" htmlFor={`role-${t.id}`}>Role of {t.name}</label>
               <select id={`role-${t.id}`} value={roles[t.id] ?? 'ignore'} onChange={(e) => setRole(t.id, e.target.value as TraceRole)}>
                 {(Object.keys(ROLE_LABELS) as TraceRole[]).map((r) => <option key={r} value={r}>{ROLE_LABELS[r]}</option>)}

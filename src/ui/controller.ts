@@ -50,7 +50,7 @@ export async function loadBytes(bytes: Uint8Array, fileName: string, opts: { rol
     useApp.getState().addTraces(result.traces, result.report, { roles: opts.roles, replace: opts.replace });
     if (!opts.quiet) {
       const names = result.traces.map((t) => t.name).join(', ');
-      useApp.getState().notify(result.report.skipped.length || result.report.notices.length ? 'warning' : 'info', `Loaded ${names}`, describeLoad(result));
+      useApp.getState().notify(result.report.skipped.length ? 'warning' : 'info', `Loaded ${names}`, describeLoad(result));
     }
     return true;
   } catch (e) {
@@ -94,13 +94,14 @@ export async function loadDemo(): Promise<void> {
       const res = await fetch(new URL(d.file, base));
       if (!res.ok) throw new Error(`HTTP ${res.status}`);
       const bytes = new Uint8Array(await res.arrayBuffer());
-      await loadBytes(bytes, d.file, { roles: [d.role], replace: first, quiet: d.role === 'scan' });
+      await loadBytes(bytes, d.file, { roles: [d.role], replace: first, quiet: true });
       first = false;
     } catch (e) {
       useApp.getState().notify('error', `The demo file ${d.file} could not be fetched`, [(e as Error).message]);
     }
   }
-  useApp.getState().notify('info', 'Demo loaded: an invented teaching-rig run', ['The sample, its blank and eight repeated scans are synthetic data made by scripts/make-demo.mjs; their true peaks are in public/demo/demo-truth.json.']);
+  const n = useApp.getState().traces.length;
+  useApp.getState().notify('info', `Demo loaded: an invented teaching-rig run (${n} traces)`, ['A sample, its blank and eight repeated scans: synthetic data made by scripts/make-demo.mjs, with the true peaks in public/demo/demo-truth.json. Drop your own file to replace the sample.']);
 }
 
 function buildRequest(): AnalyseRequest | null {

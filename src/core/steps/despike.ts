@@ -55,10 +55,10 @@ export const despikeStep: StepDefinition<DespikeParams> = {
     },
     {
       key: 'threshold', label: 'Threshold', kind: 'number', unit: 'ratio', min: 1, max: 10, step: 0.1,
-      help: 'A point is a spike when it is further than this many robust SDs (1.4826 × median absolute deviation in the window) from the window median. Used by the Hampel method only. The spread of a few points is itself uncertain, so on pure noise t = 3 with a 7-point window still replaces about 5 points in 100 (2 in 100 at t = 4, 1.4 at t = 5; 1.4 in 100 with a 21-point window at t = 3).',
+      help: 'A point is a spike when it is further than this many robust SDs (1.4826 × median absolute deviation in the window) from the window median. Used by the Hampel method only. The spread of a few points is itself uncertain, so on pure noise t = 3 with a 7-point window still replaces about 5 points in 100 (2 in 100 at t = 4, 1.4 at t = 5; 1.4 in 100 with a 21-point window at t = 3). The default, 15 points at t = 5, keeps false replacements rare while still catching a spike many noise SDs tall; t = 3 is the textbook choice (Hampel 1974) when the window is wide.',
     },
   ],
-  defaults: { method: 'hampel', window: 7, threshold: 3 },
+  defaults: { method: 'hampel', window: 15, threshold: 5 },
   validate(params, input) {
     if (params.method !== 'hampel' && params.method !== 'median') return `Unknown method "${String(params.method)}"; choose the Hampel test or the running median.`;
     const w = despikeWindowProblem(params.window, input.y.length);

@@ -13,6 +13,7 @@ import { boxcarStep } from './boxcar.ts';
 import { savitzkyGolayStep } from './savitzky-golay.ts';
 import { localOrderStep } from './local-order.ts';
 import { resampleStep } from './resample.ts';
+import { frequencyFilterStep } from './frequency-filter.ts';
 
 export const STEP_REGISTRY: readonly StepDefinition[] = [
   savitzkyGolayStep,
@@ -23,6 +24,7 @@ export const STEP_REGISTRY: readonly StepDefinition[] = [
   baselineStep,
   blankSubtractionStep,
   ensembleAverageStep,
+  frequencyFilterStep,
   resampleStep,
 ] as unknown as readonly StepDefinition[];
 
