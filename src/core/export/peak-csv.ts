@@ -1,0 +1,155 @@
+/**
+ * The peak table as delimited text: the columns of the page's table with
+ * units in the header, and comment lines that state how S/N was defined,
+ * how and where the noise was measured, the detection and quantitation
+ * limits, and which peaks were added or removed by hand.
+ */
+import type { AnalyseResult } from '../analyse.ts';
+import { writeCsv, type CsvCellOptions } from '../io/csv-write.ts';
+import type { NoiseEstimate } from '../noise.ts';
+import type { Peak, PeakFlag, SnrDefinition } from '../peaks.ts';
+import type { Recipe, Registry } from '../recipe.ts';
+import type { Trace } from '../trace.ts';
+import { commentText, metadataLines, provenanceLines } from './cleaned-csv.ts';
+import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
+
+/** The words for each S/N definition, as exports state them. */
+export const SNR_DEFINITION_WORDS: Record<SnrDefinition, string> = {
+  rms: 'S/N = H/σ: the peak height above its local baseline divided by the standard deviation σ of the noise.',
+  pharmacopoeial: 'S/N = 2H/h: twice the peak height divided by the range h (largest minus smallest value) of the noise in a window around the peak (the pharmacopoeial definition).',
+  region: 'S/N = mean/SD of the samples between the peak’s integration bounds.',
+};
+
+/** Short column label for each S/N definition. */
+export const SNR_SHORT: Record<SnrDefinition, string> = { rms: 'H/σ', pharmacopoeial: '2H/h', region: 'mean/SD' };
+
+/** What each flag means, as exports state it. */
+export const FLAG_TEXT: Record<PeakFlag, string> = {
+  'below-detection': 'below detection limit',
+  detectable: 'detected, not quantifiable',
+  quantifiable: 'quantifiable',
+  'not-measured': 'S/N not measured',
+};
+
+/** The hand decision on a peak, in words; empty for a detected peak left alone. */
+export function peakDecisionText(p: Peak): string {
+  if (p.removedByUser) return 'removed by hand';
+  if (p.origin === 'added-by-user') return 'added by hand';
+  return '';
+}
+
+function unitSuffix(unit: string): string {
+  return unit ? ` (${unit})` : '';
+}
+
+/**
+ * Header and rows of the peak table (no comments); numbers stay numbers, a
+ * missing value is an empty cell. With `unitsInHeader` false the header
+ * says "(x unit)" and "(y unit)" instead of the trace's units.
+ */
+export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader = true): (string | number)[][] {
+  // A table that mixes files (batch) names the units in columns of their own instead.
+  const xu = unitsInHeader ? unitSuffix(trace.xUnit) : ' (x unit)';
+  const yu = unitsInHeader ? unitSuffix(trace.yUnit) : ' (y unit)';
+  const areaUnit = !unitsInHeader ? ' (y unit × x unit)'
+    : trace.xUnit || trace.yUnit ? ` (${trace.yUnit || 'y-units'} × ${trace.xUnit || 'x-units'})` : '';
+  const def = result.peakOptions?.snrDefinition ?? 'rms';
+  const header = [
+    'peak #', `apex${xu}`, `height${yu}`, `prominence${yu}`, `FWHM${xu}`, `FWHM (points)`, `area${areaUnit}`,
+    `from${xu}`, `to${xu}`, `S/N (${SNR_SHORT[def]}, definition in use)`, 'S/N H/σ', 'S/N 2H/h',
+    `noise range h for 2H/h${yu}`, 'h measured on', 'S/N mean/SD of region', 'status', 'decision', 'origin', 'note',
+  ];
+  const rows: (string | number)[][] = [header];
+  const opt = (v: number | null | undefined): string | number => (v === null || v === undefined ? '' : v);
+  result.peaks.forEach((p, i) => {
+    rows.push([
+      i + 1, p.x, p.height, p.prominence, p.fwhm, p.fwhmPoints, p.area, p.start, p.end,
+      opt(p.snr), p.snrRms, opt(p.snrPharma), opt(p.pharmaNoise?.h),
+      p.pharmaNoise ? `${p.pharmaNoise.source}, ${p.pharmaNoise.points} points${p.pharmaNoise.clipped ? ', window cut by the trace end' : ''}` : '',
+      opt(p.snrRegion), FLAG_TEXT[p.flag], peakDecisionText(p), p.origin, p.note ?? '',
+    ]);
+  });
+  return rows;
+}
+
+/** One sentence about a noise estimate: what, over how many points, where. */
+export function noiseSentence(e: NoiseEstimate): string {
+  const where = e.from !== undefined && e.to !== undefined ? ` over x ${e.from} to ${e.to}${e.clipped ? ' (cut by the trace end)' : ''}` : '';
+  return `${e.description} Method ${e.method}; ${e.measure === 'sd' ? 'standard deviation' : 'range'} ${e.sigma}; ${e.points} points${where}.`;
+}
+
+/** Comment lines on how S/N and the flags were obtained. */
+export function peakMethodLines(result: AnalyseResult): string[] {
+  const lines: string[] = [];
+  const o = result.peakOptions;
+  const def = o?.snrDefinition ?? 'rms';
+  lines.push(`S/N definition in use: ${SNR_DEFINITION_WORDS[def]}`);
+  if (result.noise) {
+    lines.push(`Noise σ on the measured trace: ${noiseSentence(result.noise.sigma)}`);
+    if (result.noise.rawSigma && result.noise.rawSigma !== result.noise.sigma) lines.push(`Noise on the raw trace (for comparison): ${noiseSentence(result.noise.rawSigma)}`);
+    if (result.noise.peakToPeak) lines.push(`Peak-to-peak noise in the quiet range: ${noiseSentence(result.noise.peakToPeak)}`);
+    for (const n of result.noise.notes) lines.push(`Noise note: ${n}`);
+  } else {
+    lines.push('Noise: not measured.');
+  }
+  if (o) {
+    lines.push(`Limits: detection S/N ${o.limits.detection}, quantitation S/N ${o.limits.quantitation}.`);
+    lines.push(`Flags: "${FLAG_TEXT['below-detection']}" when S/N < ${o.limits.detection}; "${FLAG_TEXT.detectable}" when ${o.limits.detection} ≤ S/N < ${o.limits.quantitation}; "${FLAG_TEXT.quantifiable}" when S/N ≥ ${o.limits.quantitation}; "${FLAG_TEXT['not-measured']}" when S/N could not be computed.`);
+    lines.push(`Thresholds: prominence at least ${o.minProminence} (y-units), S/N at least ${o.minSnr}, FWHM at least ${o.minWidth} (x-units), apex separation at least ${o.minSeparation} (x-units, 0 = off)${o.negative ? '; troughs detected (heights and areas negative)' : ''}.`);
+    if (def === 'pharmacopoeial') lines.push(`2H/h noise window: ${o.pharmacopoeialMultiplier} half-height widths.`);
+  }
+  lines.push('Height: above the straight line joining the peak’s bases. Area: above that line between the integration bounds (trapezoid rule).');
+  if (result.peakProblem) lines.push(`Peaks could not be measured: ${result.peakProblem}`);
+  const added = result.peaks.map((p, i) => ({ p, i })).filter(({ p }) => p.origin === 'added-by-user' && !p.removedByUser);
+  const removed = result.peaks.map((p, i) => ({ p, i })).filter(({ p }) => p.removedByUser);
+  lines.push(added.length ? `Added by hand: ${added.map(({ p, i }) => `peak ${i + 1} at ${p.x}`).join('; ')}.` : 'Added by hand: none.');
+  lines.push(removed.length
+    ? `Removed by hand (kept in the table, marked, and not counted): ${removed.map(({ p, i }) => `peak ${i + 1} at ${p.x}`).join('; ')}.`
+    : 'Removed by hand: none.');
+  return lines;
+}
+
+export interface PeakCsvInput {
+  trace: Trace;
+  result: AnalyseResult;
+  options: CsvCellOptions;
+  now: Date;
+  /** When given, the recipe (JSON and words) is written into the header too. */
+  recipe?: Recipe;
+  registry?: Registry;
+  version?: string;
+}
+
+/**
+ * The peak table as CSV text: comment lines (input file and SHA-256, tool
+ * version, time, caution, S/N definition, noise method with its points and
+ * window, limits, flags, hand decisions), a header row with units, one row
+ * per peak (peaks removed by hand stay, marked in the "decision" column).
+ * Formula-injection guard and round-trip numbers from {@link writeCsv}.
+ * @throws RangeError on a decimal comma with a comma delimiter, or an invalid `now`.
+ */
+export function peakTableCsv(input: PeakCsvInput): string {
+  const { trace, result, options, now } = input;
+  if (!trace || !result) throw new RangeError('There is no analysed trace to export yet; load a trace and wait for the analysis.');
+  const version = input.version ?? TOOL_LABEL;
+  const head = input.recipe && input.registry
+    ? provenanceLines(trace, input.recipe, input.registry, now, version)
+    : [
+      `Input file: ${commentText(trace.source.fileName)}`,
+      `Input SHA-256: ${commentText(trace.source.sha256)}`,
+      `Trace: ${commentText(trace.name)}`,
+      `Written by: ${version}`,
+      `Written at: ${exportTime(now)}`,
+      `Caution: ${CAUTION}`,
+    ];
+  const comments = [`${TOOL_NAME} peak table`, ...head, ...metadataLines(trace), `Peaks: ${result.peaks.length} rows.`, ...peakMethodLines(result)];
+  return writeCsv(peakTableRows(trace, result), { ...options, comments });
+}
+
+/**
+ * The peak table as tab-separated text without comment lines, for pasting
+ * into a spreadsheet (same guard and numbers as the CSV; decimal sign as given).
+ */
+export function peakTableTsv(trace: Trace, result: AnalyseResult, decimal: CsvCellOptions['decimal'] = '.'): string {
+  return writeCsv(peakTableRows(trace, result), { delimiter: '\t', decimal, newline: '\n' });
+}

@@ -1,0 +1,329 @@
+/**
+ * The report: one self-contained HTML file a reviewer can open offline and
+ * print to PDF. It holds the input's name and SHA-256, the recipe (in words
+ * and as JSON), what each step said, the noise method, the peak table, the
+ * residual checks, the loss ledger and the user's export confirmation, the
+ * replaced points, and the plots as images.
+ *
+ * Safety: every piece of text that came from a file or the user is escaped
+ * for HTML; the file has no scripts and no external addresses, and a
+ * Content-Security-Policy meta tag forbids both in case anything slipped
+ * through. Plot images are accepted only as PNG or SVG data and are shown
+ * through <img>, where an SVG cannot run scripts or fetch anything.
+ */
+import type { AnalyseResult } from '../analyse.ts';
+import { decimateMinMax } from '../numeric/decimate.ts';
+import { recipeInWords, recipeToJson, type Recipe, type Registry } from '../recipe.ts';
+import { axisLabel, type Trace } from '../trace.ts';
+import { noiseSentence, peakMethodLines, peakTableRows } from './peak-csv.ts';
+import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
+
+/** What the loss check hands over; only the sentences are written (rows are kept for later use). */
+export interface LossLedgerLike {
+  sentences: readonly string[];
+  rows?: readonly unknown[];
+}
+
+/** The user's confirmation, before exporting, that they saw the lost or weakened features. */
+export interface ExportConfirmation {
+  /** When the user confirmed. */
+  at: Date | string;
+  /** The sentences they were shown. */
+  sentences: readonly string[];
+}
+
+export interface ReportInput {
+  trace: Trace;
+  result: AnalyseResult;
+  recipe: Recipe;
+  registry: Registry;
+  ledger?: LossLedgerLike | null;
+  confirmation?: ExportConfirmation | null;
+  /** Pictures of the page's plots: a data: URL of a PNG or SVG, or SVG text. */
+  plotImages?: { main?: string; residual?: string };
+  now: Date;
+  /** Tool name and version; default {@link TOOL_LABEL}. */
+  version?: string;
+}
+
+/** Most replaced points listed one by one; the rest are counted. */
+export const REPORT_MAX_EVENTS = 2000;
+
+/**
+ * Escape text for HTML element content and double- or single-quoted
+ * attribute values (&, <, >, ", ' become character references).
+ */
+export function escapeHtml(text: unknown): string {
+  return String(text)
+    .replace(/&/g, '&amp;')
+    .replace(/</g, '&lt;')
+    .replace(/>/g, '&gt;')
+    .replace(/"/g, '&quot;')
+    .replace(/'/g, '&#39;');
+}
+
+/**
+ * Escape text for HTML element content (&, < and > become character
+ * references); quotes may stay, so text such as JSON reads as written.
+ * Never use it inside an attribute value: use {@link escapeHtml} there.
+ */
+export function escapeText(text: unknown): string {
+  return String(text).replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
+}
+
+/** Numbers for reading: six significant figures (the CSV exports hold every digit). */
+function fmt(v: unknown): string {
+  if (v === null || v === undefined || v === '') return '—';
+  if (typeof v !== 'number') return escapeText(v);
+  if (!Number.isFinite(v)) return escapeText(String(v));
+  const a = Math.abs(v);
+  if (a !== 0 && (a < 1e-4 || a >= 1e7)) return v.toExponential(5);
+  return String(Number(v.toPrecision(6)));
+}
+
+const PNG_DATA = /^data:image\/png;base64,[A-Za-z0-9+/]+=*$/;
+const SVG_BASE64 = /^data:image\/svg\+xml;base64,[A-Za-z0-9+/]+=*$/;
+const SVG_DATA = /^data:image\/svg\+xml(;charset=[\w-]+)?,/;
+
+/**
+ * An image source safe to put in the report, or null. Percent-encoded SVG is
+ * decoded and encoded again so that no character of it can close the
+ * attribute and no address appears as plain text.
+ */
+export function safeImageSource(image: string): string | null {
+  if (typeof image !== 'string' || image.length === 0) return null;
+  const text = image.trim();
+  if (PNG_DATA.test(text) || SVG_BASE64.test(text)) return text;
+  let svg: string | null = null;
+  const m = SVG_DATA.exec(text);
+  if (m) {
+    try { svg = decodeURIComponent(text.slice(m[0].length)); } catch { return null; }
+  } else if (/^(<\?xml[^>]*>\s*)?<svg[\s>]/i.test(text)) {
+    svg = text;
+  }
+  return svg === null ? null : `data:image/svg+xml;charset=utf-8,${encodeURIComponent(svg)}`;
+}
+
+interface Series { x: Float64Array; y: Float64Array; colour: string; label: string; dash?: boolean }
+
+/**
+ * A small line plot as inline SVG (drawn here, so a report made without the
+ * page, e.g. in a batch, still has its plots). Each series is thinned to the
+ * minimum and maximum per column so peaks and spikes stay visible.
+ */
+export function svgLinePlot(series: readonly Series[], xLabel: string, yLabel: string, title: string): string {
+  const W = 760, H = 260, L = 70, R = 12, T = 24, B = 40;
+  const thinned = series.map((s) => ({ ...s, d: decimateMinMax(s.x, s.y, -Infinity, Infinity, 700) }));
+  let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
+  for (const s of thinned) {
+    for (let i = 0; i < s.d.x.length; i++) {
+      const xv = s.d.x[i], yv = s.d.y[i];
+      if (!Number.isFinite(xv) || !Number.isFinite(yv)) continue;
+      if (xv < x0) x0 = xv; if (xv > x1) x1 = xv;
+      if (yv < y0) y0 = yv; if (yv > y1) y1 = yv;
+    }
+  }
+  if (!(x1 >= x0) || !(y1 >= y0)) return '<p>No finite values to draw.</p>';
+  if (x1 === x0) { x0 -= 0.5; x1 += 0.5; }
+  if (y1 === y0) { y0 -= 0.5; y1 += 0.5; }
+  const pad = (y1 - y0) * 0.05;
+  y0 -= pad; y1 += pad;
+  const px = (v: number) => L + ((v - x0) / (x1 - x0)) * (W - L - R);
+  const py = (v: number) => H - B - ((v - y0) / (y1 - y0)) * (H - T - B);
+  const parts: string[] = [];
+  parts.push(`<svg class="plot" viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-label="${escapeHtml(title)}">`);
+  parts.push(`<rect x="${L}" y="${T}" width="${W - L - R}" height="${H - T - B}" fill="#fff" stroke="#888"/>`);
+  for (let k = 0; k <= 4; k++) {
+    const xv = x0 + ((x1 - x0) * k) / 4, yv = y0 + ((y1 - y0) * k) / 4;
+    parts.push(`<text x="${px(xv).toFixed(1)}" y="${H - B + 16}" font-size="11" text-anchor="middle">${fmt(xv)}</text>`);
+    parts.push(`<text x="${L - 6}" y="${(py(yv) + 4).toFixed(1)}" font-size="11" text-anchor="end">${fmt(yv)}</text>`);
+    parts.push(`<line x1="${L}" x2="${W - R}" y1="${py(yv).toFixed(1)}" y2="${py(yv).toFixed(1)}" stroke="#eee"/>`);
+  }
+  parts.push(`<text x="${(L + W - R) / 2}" y="${H - 6}" font-size="12" text-anchor="middle">${escapeText(xLabel)}</text>`);
+  parts.push(`<text x="14" y="${(T + H - B) / 2}" font-size="12" text-anchor="middle" transform="rotate(-90 14 ${(T + H - B) / 2})">${escapeText(yLabel)}</text>`);
+  thinned.forEach((s, k) => {
+    const pts: string[] = [];
+    for (let i = 0; i < s.d.x.length; i++) {
+      if (Number.isFinite(s.d.x[i]) && Number.isFinite(s.d.y[i])) pts.push(`${px(s.d.x[i]).toFixed(1)},${py(s.d.y[i]).toFixed(1)}`);
+    }
+    parts.push(`<polyline fill="none" stroke="${s.colour}" stroke-width="1.2"${s.dash ? ' stroke-dasharray="5 3"' : ''} points="${pts.join(' ')}"/>`);
+    parts.push(`<text x="${L + 8 + k * 150}" y="${T - 8}" font-size="11" fill="${s.colour}">■ ${escapeText(s.label)}</text>`);
+  });
+  parts.push('</svg>');
+  return parts.join('');
+}
+
+function list(items: readonly string[]): string {
+  return items.length ? `<ul>${items.map((s) => `<li>${escapeText(s)}</li>`).join('')}</ul>` : '<p class="muted">None.</p>';
+}
+
+function table(rows: readonly (readonly unknown[])[], caption?: string): string {
+  if (!rows.length) return '';
+  const [head, ...body] = rows;
+  return `<table>${caption ? `<caption>${escapeText(caption)}</caption>` : ''}<thead><tr>${head.map((h) => `<th scope="col">${escapeText(h)}</th>`).join('')}</tr></thead><tbody>${
+    body.map((r) => `<tr>${r.map((c) => `<td>${fmt(c)}</td>`).join('')}</tr>`).join('')}</tbody></table>`;
+}
+
+function definitionList(pairs: readonly [string, unknown][]): string {
+  return `<dl>${pairs.map(([k, v]) => `<dt>${escapeText(k)}</dt><dd>${typeof v === 'number' ? fmt(v) : escapeText(v)}</dd>`).join('')}</dl>`;
+}
+
+const CSS = `
+body{font:14px/1.45 system-ui,-apple-system,"Segoe UI",sans-serif;color:#1d2329;max-width:1000px;margin:24px auto;padding:0 18px}
+h1{font-size:22px;margin:0 0 6px}h2{font-size:17px;margin:26px 0 8px;border-bottom:1px solid #ccd3da;padding-bottom:3px}
+.caution{border:2px solid #b36b00;background:#fff4e0;padding:10px 14px;font-weight:600;margin:12px 0}
+table{border-collapse:collapse;width:100%;font-size:12.5px;margin:6px 0}th,td{border:1px solid #ccd3da;padding:3px 6px;text-align:left;vertical-align:top}
+th{background:#eef2f5}caption{text-align:left;font-style:italic;padding:2px 0}
+dl{display:grid;grid-template-columns:max-content 1fr;gap:2px 14px;margin:6px 0}dt{font-weight:600}dd{margin:0;overflow-wrap:anywhere}
+pre{background:#f4f6f8;border:1px solid #ccd3da;padding:8px;white-space:pre-wrap;overflow-wrap:anywhere;font-size:12px}
+.muted{color:#5b6670}.hash{font-family:ui-monospace,monospace;overflow-wrap:anywhere}
+figure{margin:10px 0}figure img,svg.plot{max-width:100%;height:auto;border:1px solid #ccd3da}
+figcaption{font-size:12px;color:#5b6670}.confirm{border:1px solid #5b6670;padding:8px 12px;background:#f4f6f8}
+@media print{body{margin:0;max-width:none;font-size:11pt}h2{break-after:avoid}figure,tr,.caution,dl{break-inside:avoid}
+a{color:inherit;text-decoration:none}.caution{-webkit-print-color-adjust:exact;print-color-adjust:exact}}
+`;
+
+/**
+ * The report as one HTML document (UTF-8, inline CSS, no scripts, no
+ * external requests, a print stylesheet).
+ *
+ * Plots: the page's own pictures when given in `plotImages` (refused
+ * silently with a note unless PNG or SVG), and always two small SVG plots
+ * drawn here from the data (raw and processed with the baseline; the
+ * residual), so the file has its plots even without the page.
+ *
+ * @throws RangeError when there is no analysed trace or `now` is not a valid date.
+ */
+export function reportHtml(input: ReportInput): string {
+  const { trace, result, recipe, registry, ledger, confirmation, now } = input;
+  if (!trace || !result) throw new RangeError('There is no analysed trace to report yet; load a trace and wait for the analysis.');
+  const version = input.version ?? TOOL_LABEL;
+  const when = exportTime(now);
+  const xLabel = axisLabel(trace.xName, trace.xUnit);
+  const yLabel = axisLabel(trace.yName, trace.yUnit);
+  const s: string[] = [];
+  s.push('<!DOCTYPE html><html lang="en"><head><meta charset="utf-8">');
+  s.push('<meta http-equiv="Content-Security-Policy" content="default-src \'none\'; img-src data:; style-src \'unsafe-inline\'">');
+  s.push('<meta name="viewport" content="width=device-width, initial-scale=1">');
+  s.push(`<title>${escapeText(`${TOOL_NAME} report: ${trace.source.fileName}`)}</title><style>${CSS}</style></head><body>`);
+  s.push(`<h1>${escapeText(`${TOOL_NAME} report: ${trace.name}`)}</h1>`);
+  s.push(`<p class="caution" role="note" data-role="caution">${escapeText(CAUTION)}</p>`);
+
+  s.push('<h2>Input and this report</h2>');
+  s.push(definitionList([
+    ['Input file', trace.source.fileName],
+    ['Trace', trace.name],
+    ['Rows read / skipped', `${trace.source.rowsRead} / ${trace.source.rowsSkipped}`],
+    ['Points', `${trace.x.length} raw, ${result.processed.x.length} processed`],
+    ['x axis', xLabel],
+    ['y axis', yLabel],
+    ['Written by', version],
+    ['Written at (UTC)', when],
+  ]).replace('</dl>', `<dt>Input SHA-256</dt><dd class="hash">${escapeText(trace.source.sha256)}</dd></dl>`));
+  const meta = Object.entries(trace.metadata);
+  if (meta.length) {
+    s.push(table([['Label from the file', 'Value'], ...meta.map(([k, v]) => [k, v])], 'Metadata kept from the input file, as read'));
+  }
+
+  s.push('<h2>Plots</h2>');
+  const series: Series[] = [
+    { x: trace.x, y: trace.y, colour: '#8d969e', label: 'raw' },
+    { x: result.processed.x, y: result.processed.y, colour: '#1f5fa8', label: 'processed' },
+  ];
+  if (result.baseline && result.baseline.length === result.processed.x.length) {
+    series.push({ x: result.processed.x, y: result.baseline, colour: '#a0700b', label: 'fitted baseline', dash: true });
+  }
+  s.push(`<figure>${svgLinePlot(series, xLabel, yLabel, 'Raw and processed trace')}<figcaption>Raw and processed trace (thinned to the minimum and maximum per column for drawing).</figcaption></figure>`);
+  if (result.residual.y.length) {
+    s.push(`<figure>${svgLinePlot([{ x: result.residual.x, y: result.residual.y, colour: '#6d4391', label: 'raw − processed' }], xLabel, yLabel, 'Residual')}<figcaption>Residual: what the processing removed (raw − processed).</figcaption></figure>`);
+  }
+  for (const [key, caption] of [['main', 'The plot as shown on the page.'], ['residual', 'The residual plot as shown on the page.']] as const) {
+    const img = input.plotImages?.[key];
+    if (img === undefined) continue;
+    const src = safeImageSource(img);
+    s.push(src
+      ? `<figure><img src="${escapeHtml(src)}" alt="${escapeHtml(caption)}"><figcaption>${escapeText(caption)}</figcaption></figure>`
+      : '<p class="muted">A picture of the page’s plot was not embedded because it was not PNG or SVG data.</p>');
+  }
+
+  s.push('<h2>Recipe</h2>');
+  s.push(`<ol>${recipeInWords(recipe, registry).map((w) => `<li>${escapeText(w.replace(/^\d+\.\s*/, ''))}</li>`).join('')}</ol>`);
+  s.push(`<p>As JSON (load this into ${escapeText(TOOL_NAME)} to redo the processing):</p><pre data-role="recipe-json">${escapeText(recipeToJson(recipe))}</pre>`);
+
+  s.push('<h2>What each step did</h2>');
+  if (result.runs.length) {
+    s.push(table([
+      ['#', 'step', 'status', 'points out', 'points replaced', 'message and notes', 'figures'],
+      ...result.runs.map((r, i) => {
+        const label = registry.find((d) => d.id === r.step)?.label ?? r.step;
+        const words = [r.message, ...r.notes].filter((t): t is string => !!t).join(' ');
+        const figs = r.figures ? Object.entries(r.figures).map(([k, v]) => `${k} = ${fmt(v)}`).join('; ') : '';
+        return [i + 1, label, r.status === 'ok' ? 'applied' : r.status === 'off' ? 'switched off' : 'not applied', r.points, r.eventCount, words, figs];
+      }),
+    ]));
+  } else {
+    s.push('<p>No processing steps: the raw trace is used as loaded.</p>');
+  }
+
+  s.push('<h2>Residual checks</h2>');
+  if (result.residualNote) s.push(`<p>${escapeText(result.residualNote)}</p>`);
+  const d = result.diagnostics;
+  if (d) {
+    s.push(`<p data-role="residual-verdict"><strong>${escapeText(d.verdict)}</strong></p>`);
+    s.push(definitionList([
+      ['Points', d.n],
+      ['RMS of the residual', d.rms],
+      ['Lag-1 autocorrelation', `${fmt(d.lag1)} (white noise stays within ±${fmt(d.lag1Threshold)})`],
+      ['Runs about the median', `${d.runs.runs} (expected ${fmt(d.runs.expected)}, z = ${fmt(d.runs.z)}, p = ${fmt(d.runs.p)})`],
+    ]));
+  } else {
+    s.push('<p>No processing step ran, so nothing was removed.</p>');
+  }
+
+  s.push('<h2>Noise</h2>');
+  if (result.noise) {
+    const n = result.noise;
+    const pairs: [string, unknown][] = [
+      ['Method', n.sigma.method],
+      ['Description', n.sigma.description],
+      ['Noise figure', n.sigma.sigma],
+      ['Points used', n.sigma.points],
+    ];
+    if (n.sigma.from !== undefined && n.sigma.to !== undefined) pairs.push(['Window (x)', `${fmt(n.sigma.from)} to ${fmt(n.sigma.to)}${n.sigma.clipped ? ' (cut by the trace end)' : ''}`]);
+    if (n.rawSigma && n.rawSigma !== n.sigma) pairs.push(['Same estimate on the raw trace', noiseSentence(n.rawSigma)]);
+    if (n.peakToPeak) pairs.push(['Peak-to-peak in the quiet range', noiseSentence(n.peakToPeak)]);
+    s.push(definitionList(pairs));
+    if (n.notes.length) s.push(list(n.notes));
+  } else {
+    s.push('<p>Noise was not measured.</p>');
+  }
+
+  s.push('<h2>Peaks</h2>');
+  s.push(list(peakMethodLines(result)));
+  const rows = peakTableRows(trace, result);
+  if (rows.length > 1) s.push(table(rows, 'Peak table (six significant figures; the peak table CSV holds every digit)'));
+  else s.push('<p>No peaks pass the thresholds.</p>');
+
+  s.push('<h2>What the processing may have lost</h2>');
+  if (ledger && ledger.sentences.length) s.push(`<div data-role="loss-ledger">${list(ledger.sentences)}</div>`);
+  else s.push(`<p class="muted">${ledger ? 'The comparison found no lost or weakened features.' : 'No comparison with alternative processing was made for this report.'}</p>`);
+  if (confirmation) {
+    const at = confirmation.at instanceof Date ? exportTime(confirmation.at) : String(confirmation.at);
+    s.push(`<div class="confirm" data-role="confirmation"><p><strong>Export confirmed at ${escapeText(at)}</strong> after being shown:</p>${list(confirmation.sentences)}</div>`);
+  }
+
+  s.push('<h2>Replaced points</h2>');
+  if (result.events.length) {
+    const shown = result.events.slice(0, REPORT_MAX_EVENTS);
+    s.push(`<p>${result.events.length} point(s) were replaced by despiking; none was removed silently.</p>`);
+    s.push(table([['point #', 'x', 'original y', 'replacement y'], ...shown.map((e) => [e.index + 1, e.x, e.original, e.replacement])]));
+    if (result.events.length > shown.length) s.push(`<p>… and ${result.events.length - shown.length} more.</p>`);
+  } else {
+    s.push('<p>No points were replaced.</p>');
+  }
+
+  s.push(`<h2>About this report</h2><p>Written by ${escapeText(version)} at ${escapeText(when)} (UTC). The processing ran in the browser on the user’s computer; the input file was not uploaded anywhere.</p>`);
+  s.push(`<p class="caution" role="note">${escapeText(CAUTION)}</p>`);
+  s.push('</body></html>\n');
+  return s.join('\n');
+}
