@@ -154,6 +154,11 @@ export interface PeakDecisions {
  * @returns ascending sample indices.
  */
 export function findLocalMaxima(y: ArrayLike<number>): Int32Array {
+  return localMaxima(y).slice();
+}
+
+/** {@link findLocalMaxima} as a view on a larger scratch array (no copy), for internal use. */
+function localMaxima(y: ArrayLike<number>): Int32Array {
   const n = y.length;
   const out = new Int32Array(Math.max(0, (n >> 1) + 1));
   let m = 0;
@@ -170,7 +175,7 @@ export function findLocalMaxima(y: ArrayLike<number>): Int32Array {
     }
     i++;
   }
-  return out.slice(0, m);
+  return out.subarray(0, m);
 }
 
 function checkPeaks(n: number, peaks: ArrayLike<number>): void {
@@ -252,6 +257,67 @@ function prominenceSweep(y: ArrayLike<number>, peaks: ArrayLike<number>, out: { 
 }
 
 /**
+ * Prominences of every local maximum at once, on the chain of maxima and
+ * the valleys between them (about n/3 entries instead of n). Between two
+ * consecutive maxima no sample is higher than the higher of the two, and
+ * the valley's lowest sample is passed before any sample higher than the
+ * nearer maximum, so a walk from a peak meets exactly the valleys of the
+ * maxima it passes: the stack sweep over the chain gives the same bases and
+ * prominences as the sample-by-sample walk. `maxima` must be
+ * {@link findLocalMaxima}(y).
+ */
+function prominencesOfMaxima(y: ArrayLike<number>, maxima: Int32Array): ProminenceData {
+  const n = y.length, m = maxima.length;
+  const p = new Float64Array(m), l = new Int32Array(m), r = new Int32Array(m);
+  if (m === 0) return { prominences: p, leftBases: l, rightBases: r };
+  // Valley k lies between maximum k − 1 and maximum k (valley 0 and valley m touch the ends).
+  // For walks going left the nearest lowest sample is the last one; going right, the first.
+  // The left sweep finds each valley as it goes and keeps what the right sweep needs.
+  const vMin = new Float64Array(m + 1), vFirst = new Int32Array(m + 1);
+  const stVal = new Float64Array(m), stMin = new Float64Array(m), stArg = new Int32Array(m);
+  let top = -1;
+  for (let k = 0; k <= m; k++) {
+    const a = k === 0 ? 0 : maxima[k - 1] + 1;
+    const b = k === m ? n - 1 : maxima[k] - 1;
+    let vm = Infinity, first = -1, last = -1;
+    for (let i = a; i <= b; i++) {
+      const v = y[i];
+      if (v < vm) { vm = v; first = i; last = i; } else if (v === vm) last = i;
+    }
+    vMin[k] = vm; vFirst[k] = first;
+    if (k === m) break;
+    const pk = maxima[k], v = y[pk];
+    let mn = v, arg = pk;
+    if (vm < mn) { mn = vm; arg = last; }
+    while (top >= 0 && stVal[top] <= v) {
+      if (stMin[top] < mn) { mn = stMin[top]; arg = stArg[top]; }
+      top--;
+    }
+    p[k] = mn; l[k] = arg; // p holds the left minimum until the right sweep
+    top++; stVal[top] = v; stMin[top] = mn; stArg[top] = arg;
+  }
+  top = -1;
+  for (let k = m - 1; k >= 0; k--) {
+    const pk = maxima[k], v = y[pk];
+    let mn = v, arg = pk;
+    if (vMin[k + 1] < mn) { mn = vMin[k + 1]; arg = vFirst[k + 1]; }
+    while (top >= 0 && stVal[top] <= v) {
+      if (stMin[top] < mn) { mn = stMin[top]; arg = stArg[top]; }
+      top--;
+    }
+    r[k] = arg; p[k] = v - Math.max(p[k], mn);
+    top++; stVal[top] = v; stMin[top] = mn; stArg[top] = arg;
+  }
+  return { prominences: p, leftBases: l, rightBases: r };
+}
+
+function sameIndices(a: ArrayLike<number>, b: Int32Array): boolean {
+  if (a.length !== b.length) return false;
+  for (let k = 0; k < b.length; k++) if (a[k] !== b[k]) return false;
+  return true;
+}
+
+/**
  * Prominence of each peak and its bases, exactly as SciPy
  * `signal.peak_prominences(y, peaks, wlen)`: from the peak go left and
  * right until a strictly higher sample or the window edge; each side's base
@@ -275,6 +341,9 @@ export function peakProminences(y: ArrayLike<number>, peaks: ArrayLike<number>, 
   }
   // The sweeps cost O(n) whatever the number of peaks; a few peaks are cheaper walked.
   if (half < 0 && m >= 32) {
+    // Asked for every local maximum (the usual case): the faster chain sweep.
+    const maxima = localMaxima(y);
+    if (sameIndices(peaks, maxima)) return prominencesOfMaxima(y, maxima);
     prominenceSweep(y, peaks, { p, l, r });
   } else {
     for (let k = 0; k < m; k++) {
@@ -471,8 +540,12 @@ function heightAbove(x: Float64Array, s: Float64Array, i: number, xApex: number,
 function areaAboveBaseline(x: Float64Array, s: Float64Array, i0: number, i1: number, q: number, sigma: number): number {
   let a = 0;
   for (let i = i0; i < i1; i++) a += 0.5 * (s[i] + s[i + 1]) * (x[i + 1] - x[i]);
-  const l0 = baselineAt(x, s, i0, i1, q, sigma, x[i0]), l1 = baselineAt(x, s, i0, i1, q, sigma, x[i1]);
-  return a - 0.5 * (l0 + l1) * (x[i1] - x[i0]);
+  const [x0, l0] = baseLevel(x, s, i0, -1, q, sigma);
+  const [x1, l1] = baseLevel(x, s, i1, 1, q, sigma);
+  // Mean of the baseline at the two bounds = its value at their midpoint (it is a straight line).
+  const mid = (x[i0] + x[i1]) / 2;
+  const level = x1 === x0 ? (l0 + l1) / 2 : l0 + ((l1 - l0) * (mid - x0)) / (x1 - x0);
+  return a - level * (x[i1] - x[i0]);
 }
 
 function snrFlag(snr: number | null, limits: PeakOptions['limits']): PeakFlag {
@@ -494,7 +567,7 @@ const TRACE_NOISE_GAP_FWHM = 1.5;
  * of its height), as residuals about one straight line through both so the
  * baseline's slope across the gap is not counted as noise.
  */
-function pharmacopoeialNoise(x: Float64Array, y: Float64Array, xApex: number, fwhm: number, opts: PeakOptions): PharmacopoeialNoise | null {
+function pharmacopoeialNoise(x: Float64Array, y: Float64Array, xApex: number, fwhm: number, opts: PeakOptions, hint: number): PharmacopoeialNoise | null {
   const width = opts.pharmacopoeialMultiplier * fwhm;
   if (!(width > 0) || !Number.isFinite(width)) return null;
   const blank = opts.pharmacopoeialNoise;
@@ -507,8 +580,19 @@ function pharmacopoeialNoise(x: Float64Array, y: Float64Array, xApex: number, fw
   const n = tx.length;
   const gap = TRACE_NOISE_GAP_FWHM * fwhm;
   const lo = xApex - gap - width / 2, hi = xApex + gap + width / 2;
-  const [a0, a1] = indexRange(tx, lo, xApex - gap);
-  const [b0, b1] = indexRange(tx, xApex + gap, hi);
+  // The stretches lie a few widths from the apex: walk out to them rather than search the whole trace.
+  let c = blank ? indexRange(tx, xApex, xApex)[0] : hint;
+  if (c >= n) c = n - 1;
+  let a1 = c;
+  while (a1 >= 0 && tx[a1] > xApex - gap) a1--;
+  let a0 = a1;
+  while (a0 - 1 >= 0 && tx[a0 - 1] >= lo) a0--;
+  if (a1 < 0 || tx[a0] < lo) a0 = a1 + 1;
+  let b0 = c;
+  while (b0 < n && tx[b0] < xApex + gap) b0++;
+  let b1 = b0;
+  while (b1 + 1 < n && tx[b1 + 1] <= hi) b1++;
+  if (b0 >= n || tx[b1] > hi) b1 = b0 - 1;
   const na = Math.max(0, a1 - a0 + 1), nb = Math.max(0, b1 - b0 + 1);
   const cnt = na + nb;
   if (cnt < 3) return null;
@@ -553,6 +637,8 @@ interface Candidate {
   startIndex: number;
   endIndex: number;
   origin: Peak['origin'];
+  /** Height on the detection signal when already computed, else NaN. */
+  height: number;
   note?: string;
 }
 
@@ -580,10 +666,10 @@ function makePeak(x: Float64Array, y: Float64Array, s: Float64Array, sign: numbe
   const fwhm = rightHalf - leftHalf;
   const fwhmPoints = c.rightIp - c.leftIp;
   const xApex = apexParabola(x, s, i);
-  const hs = heightAbove(x, s, i, xApex, fwhmPoints, c.leftBase, c.rightBase, o.noiseSigma);
+  const hs = Number.isNaN(c.height) ? heightAbove(x, s, i, xApex, fwhmPoints, c.leftBase, c.rightBase, o.noiseSigma) : c.height;
   const q = baseHalfWindow(fwhmPoints);
   const snrRms = Math.abs(hs) / o.noiseSigma;
-  const pn = pharmacopoeialNoise(x, y, xApex, fwhm, o);
+  const pn = pharmacopoeialNoise(x, y, xApex, fwhm, o, i);
   const snrPharma = pn && pn.h > 0 ? (2 * Math.abs(hs)) / pn.h : null;
   const wantRegion = o.snrDefinition === 'region' || o.regionSnr === true;
   const snrRegionV = wantRegion ? regionSnr(s, c.startIndex, c.endIndex) : null;
@@ -687,36 +773,40 @@ export function detectPeaks(x: Float64Array, y: Float64Array, options: PeakOptio
   const sign = o.negative ? -1 : 1;
   const s = detectionSignal(y, o.negative);
 
-  const maxima = findLocalMaxima(s);
-  const prom = peakProminences(s, maxima);
+  const maxima = localMaxima(s);
+  const prom = prominencesOfMaxima(s, maxima);
+  // Compact the candidates that pass the prominence test in place: these arrays are our own.
+  const idx = maxima, pr = prom.prominences as Float64Array, lb = prom.leftBases as Int32Array, rb = prom.rightBases as Int32Array;
   let m = 0;
-  const idx = new Int32Array(maxima.length), pr = new Float64Array(maxima.length);
-  const lb = new Int32Array(maxima.length), rb = new Int32Array(maxima.length);
   for (let k = 0; k < maxima.length; k++) {
-    if (prom.prominences[k] >= o.minProminence) {
-      idx[m] = maxima[k]; pr[m] = prom.prominences[k]; lb[m] = prom.leftBases[k]; rb[m] = prom.rightBases[k]; m++;
+    if (pr[k] >= o.minProminence) {
+      idx[m] = idx[k]; pr[m] = pr[k]; lb[m] = lb[k]; rb[m] = rb[k]; m++;
     }
   }
   const cIdx = idx.subarray(0, m);
   const w = peakWidths(s, cIdx, 0.5, { prominences: pr.subarray(0, m), leftBases: lb.subarray(0, m), rightBases: rb.subarray(0, m) });
 
   const keep = new Uint8Array(m);
+  const heights = new Float64Array(m).fill(NaN);
   const minSnrOnTheFly = o.snrDefinition !== 'region';
   for (let k = 0; k < m; k++) {
     const i = cIdx[k];
+    // Width and S/N are independent tests on the same candidate, so the cheap one goes first;
+    // the result is the same as filtering by S/N and then by width.
+    const fwhm = xAt(x, w.rightIps[k]) - xAt(x, w.leftIps[k]);
+    if (o.minWidth > 0 && fwhm < o.minWidth) continue;
     if (minSnrOnTheFly && o.minSnr > 0) {
       const xApex = apexParabola(x, s, i);
       const hs = heightAbove(x, s, i, xApex, w.widths[k], lb[k], rb[k], o.noiseSigma);
+      heights[k] = hs;
       let snr: number | null;
       if (o.snrDefinition === 'rms') snr = Math.abs(hs) / o.noiseSigma;
       else {
-        const fwhm = xAt(x, w.rightIps[k]) - xAt(x, w.leftIps[k]);
-        const pn = pharmacopoeialNoise(x, y, xApex, fwhm, o);
+        const pn = pharmacopoeialNoise(x, y, xApex, fwhm, o, i);
         snr = pn && pn.h > 0 ? (2 * Math.abs(hs)) / pn.h : null;
       }
       if (snr !== null && snr < o.minSnr) continue;
     }
-    if (o.minWidth > 0 && xAt(x, w.rightIps[k]) - xAt(x, w.leftIps[k]) < o.minWidth) continue;
     keep[k] = 1;
   }
   if (o.minSeparation > 0) {
@@ -733,7 +823,7 @@ export function detectPeaks(x: Float64Array, y: Float64Array, options: PeakOptio
     if (!keep[k]) continue;
     cands.push({
       index: cIdx[k], prominence: pr[k], leftBase: lb[k], rightBase: rb[k],
-      leftIp: w.leftIps[k], rightIp: w.rightIps[k], startIndex: lb[k], endIndex: rb[k], origin: 'detected',
+      leftIp: w.leftIps[k], rightIp: w.rightIps[k], startIndex: lb[k], endIndex: rb[k], origin: 'detected', height: heights[k],
     });
   }
   assignBounds(s, cands);
@@ -753,7 +843,7 @@ function candidateAt(s: Float64Array, index: number, origin: Peak['origin']): Ca
   const w = peakWidths(s, [index], 0.5, pd);
   const c: Candidate = {
     index, prominence: p, leftBase: l, rightBase: r, leftIp: w.leftIps[0], rightIp: w.rightIps[0],
-    startIndex: l, endIndex: r, origin,
+    startIndex: l, endIndex: r, origin, height: NaN,
   };
   if (!(p > 0)) c.note = 'Not a local maximum here (a neighbouring sample is as high or higher): prominence, height, width and area are 0.';
   return c;
@@ -810,7 +900,7 @@ export function applyPeakDecisions(peaks: readonly Peak[], decisions: PeakDecisi
     const w = peakWidths(s, [p.index], 0.5, { prominences: Float64Array.of(p.prominence), leftBases: Int32Array.of(p.leftBase), rightBases: Int32Array.of(p.rightBase) });
     kept.push({
       index: p.index, prominence: p.prominence, leftBase: p.leftBase, rightBase: p.rightBase,
-      leftIp: w.leftIps[0], rightIp: w.rightIps[0], startIndex: p.startIndex, endIndex: p.endIndex, origin: p.origin, note: p.note,
+      leftIp: w.leftIps[0], rightIp: w.rightIps[0], startIndex: p.startIndex, endIndex: p.endIndex, origin: p.origin, height: NaN, note: p.note,
     });
   }
   for (const a of decisions.added) {
