@@ -47,7 +47,7 @@ export interface BatchError {
 }
 
 export interface BatchResult {
-  zip: Uint8Array;
+  zip: Uint8Array<ArrayBuffer>;
   errors: BatchError[];
   combinedCsv: string;
   /** Names of the entries in the ZIP, in order. */

@@ -1,0 +1,245 @@
+import { useRef, useState } from 'react';
+import Plotly from 'plotly.js-strict-dist-min';
+import { runBatch, zipBaseName, type BatchError, type BatchProgress } from '../../core/export/batch.ts';
+import { cleanedTraceCsv, recipeOneLine } from '../../core/export/cleaned-csv.ts';
+import { peakTableCsv, peakTableTsv } from '../../core/export/peak-csv.ts';
+import { reportHtml, type ExportConfirmation, type LossLedgerLike } from '../../core/export/report-html.ts';
+import { CAUTION, TOOL_LABEL } from '../../core/export/version.ts';
+import type { CsvDecimal, CsvDelimiter } from '../../core/io/csv-write.ts';
+import { jcampFromTrace } from '../../core/io/jcamp-write.ts';
+import { parseRecipeText, recipeToJson } from '../../core/recipe.ts';
+import { STEP_REGISTRY } from '../../core/steps/registry.ts';
+import { useApp } from '../../state/store.ts';
+import { downloadBlob, downloadCsv, downloadText } from './download.ts';
+import { clearSession } from './session-db.ts';
+
+type Guarded = 'cleaned' | 'peaks' | 'report';
+
+interface Props {
+  /** The main plot's element (for pictures); the first figure on the page is used when absent. */
+  figure?: HTMLElement | null;
+  getFigure?: () => HTMLElement | null;
+  /** Lost or weakened features from the loss check; exports ask for a confirmation when non-empty. */
+  lossSentences?: string[];
+  /** The loss ledger to write into the report. */
+  ledger?: LossLedgerLike | null;
+}
+
+const DELIMITERS: { value: CsvDelimiter; label: string }[] = [
+  { value: ',', label: 'comma' },
+  { value: ';', label: 'semicolon' },
+  { value: '\t', label: 'tab' },
+];
+
+function stamp(d: Date): string {
+  return d.toISOString().replace(/[:]/g, '-').replace(/\.\d+Z$/, 'Z');
+}
+
+/** Results out: files, clipboard, pictures, recipes, batches, and starting over. */
+export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props) {
+  const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
+  const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
+  const recipe = useApp((s) => s.recipe);
+  const [delimiter, setDelimiter] = useState<CsvDelimiter>(',');
+  const [decimal, setDecimal] = useState<CsvDecimal>('.');
+  const [pending, setPending] = useState<Guarded | null>(null);
+  const [confirmation, setConfirmation] = useState<ExportConfirmation | null>(null);
+  const [progress, setProgress] = useState<BatchProgress | null>(null);
+  const [batchErrors, setBatchErrors] = useState<BatchError[]>([]);
+  const [askStartOver, setAskStartOver] = useState(false);
+  const recipeInput = useRef<HTMLInputElement>(null);
+  const batchInput = useRef<HTMLInputElement>(null);
+  const ready = !!(sample && result);
+  const losses = lossSentences ?? [];
+  const stem = sample ? zipBaseName(sample.source.fileName) : 'trace';
+
+  const notify = (kind: 'info' | 'warning' | 'error', title: string, lines: string[] = []) => useApp.getState().notify(kind, title, lines);
+  const fail = (what: string, e: unknown) => notify('error', `${what} could not be made`, [e instanceof Error ? e.message : String(e)]);
+  const figureElement = (): HTMLElement | null => getFigure?.() ?? figure ?? document.querySelector<HTMLElement>('[data-testid="figure"]');
+
+  const exportNow = async (kind: Guarded, confirmed: ExportConfirmation | null) => {
+    if (!sample || !result) return;
+    const now = new Date();
+    try {
+      if (kind === 'cleaned') {
+        downloadCsv(cleanedTraceCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: { delimiter, decimal }, now }), `${stem}-cleaned.csv`);
+      } else if (kind === 'peaks') {
+        downloadCsv(peakTableCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: { delimiter, decimal }, now }), `${stem}-peaks.csv`);
+      } else {
+        let main: string | undefined;
+        const el = figureElement();
+        if (el) {
+          try { main = await Plotly.toImage(el, { format: 'svg', width: 1100, height: 560 }); } catch { main = undefined; }
+        }
+        const html = reportHtml({ trace: sample, result, recipe, registry: STEP_REGISTRY, ledger: ledger ?? null, confirmation: confirmed, plotImages: { main }, now });
+        downloadText(html, `${stem}-report.html`, 'text/html;charset=utf-8');
+      }
+    } catch (e) {
+      fail(kind === 'cleaned' ? 'The cleaned trace CSV' : kind === 'peaks' ? 'The peak table CSV' : 'The report', e);
+    }
+  };
+
+  const request = (kind: Guarded) => {
+    if (losses.length > 0) { setPending(kind); return; }
+    void exportNow(kind, null);
+  };
+
+  const confirmPending = () => {
+    if (!pending) return;
+    const c: ExportConfirmation = { at: new Date(), sentences: [...losses] };
+    setConfirmation(c);
+    const kind = pending;
+    setPending(null);
+    void exportNow(kind, c);
+  };
+
+  const exportJcamp = () => {
+    if (!sample || !result) return;
+    try {
+      const text = jcampFromTrace(
+        { x: result.processed.x, y: result.processed.y, xName: sample.xName, xUnit: sample.xUnit, yName: sample.yName, yUnit: sample.yUnit, name: `${sample.name} (processed)` },
+        {
+          $SOURCE_FILE: sample.source.fileName, $SOURCE_SHA256: sample.source.sha256, $RECIPE: recipeOneLine(recipe),
+          $WRITTEN_BY: TOOL_LABEL, $WRITTEN_AT: new Date().toISOString(), $CAUTION: CAUTION,
+        },
+      );
+      downloadText(text, `${stem}-cleaned.jdx`, 'chemical/x-jcamp-dx');
+    } catch (e) { fail('The JCAMP-DX file', e); }
+  };
+
+  const copyPeaks = async () => {
+    if (!sample || !result) return;
+    try {
+      await navigator.clipboard.writeText(peakTableTsv(sample, result, decimal));
+      notify('info', 'Peak table copied', [`${result.peaks.length} row(s) as tab-separated text; paste into a spreadsheet.`]);
+    } catch (e) { fail('The clipboard copy', e); }
+  };
+
+  const savePicture = async (format: 'png' | 'svg') => {
+    const el = figureElement();
+    if (!el) { notify('error', 'There is no plot to save yet'); return; }
+    try { await Plotly.downloadImage(el, { format, filename: `${stem}-plot`, width: 1400, height: 700 }); } catch (e) { fail(`The ${format.toUpperCase()} picture`, e); }
+  };
+
+  const loadRecipe = async (file: File | undefined) => {
+    if (!file) return;
+    let text: string;
+    try { text = await file.text(); } catch (e) { fail('Reading the recipe', e); return; }
+    const check = parseRecipeText(text, STEP_REGISTRY);
+    if (!check.ok) {
+      notify('error', `${file.name}: the recipe was not loaded`, [...check.problems, 'The current step stack is unchanged.']);
+      return;
+    }
+    useApp.getState().replaceRecipe(check.recipe);
+    notify('info', `Recipe loaded from ${file.name}`, [`${check.recipe.steps.length} step(s). Undo (Ctrl+Z) brings back the previous stack.`]);
+  };
+
+  const startBatch = async (list: File[]) => {
+    if (!list.length) return;
+    setBatchErrors([]);
+    setProgress({ done: 0, total: list.length, file: '' });
+    try {
+      const files = [];
+      for (const f of list) files.push({ name: f.name, bytes: new Uint8Array(await f.arrayBuffer()) });
+      const st = useApp.getState();
+      const now = new Date();
+      const out = await runBatch(files, recipe, STEP_REGISTRY, { noise: st.noiseSettings, peaks: st.peakSettings, csv: { delimiter, decimal }, now },
+        (p) => { setProgress(p); return new Promise<void>((r) => setTimeout(r, 0)); });
+      setBatchErrors(out.errors);
+      downloadBlob(out.zip, `tracewright-batch-${stamp(now)}.zip`, 'application/zip');
+      notify(out.errors.length ? 'warning' : 'info', `Batch of ${files.length} file(s) done`, out.errors.length ? [`${out.errors.length} problem(s); they are listed in the export panel and in problems.txt in the ZIP.`] : ['Every file was processed.']);
+    } catch (e) {
+      fail('The batch', e);
+    } finally {
+      setProgress(null);
+    }
+  };
+
+  const startOver = async () => {
+    const r = await clearSession();
+    if (!r.ok) { notify('error', 'Could not start over', [r.problem]); return; }
+    window.location.reload();
+  };
+
+  return (
+    <section className="panel export-panel" aria-labelledby="export-title" data-testid="export-panel">
+      <h2 id="export-title">Results out</h2>
+      <div className="row">
+        <label>Delimiter{' '}
+          <select value={delimiter} data-testid="csv-delimiter" onChange={(e) => {
+            const d = e.target.value as CsvDelimiter;
+            setDelimiter(d);
+            if (d === ',' && decimal === ',') setDecimal('.');
+          }}>
+            {DELIMITERS.map((d) => <option key={d.label} value={d.value}>{d.label}</option>)}
+          </select>
+        </label>
+        <label>Decimal sign{' '}
+          <select value={decimal} data-testid="csv-decimal" onChange={(e) => {
+            const d = e.target.value as CsvDecimal;
+            setDecimal(d);
+            // A decimal comma inside comma-separated cells would be ambiguous.
+            if (d === ',' && delimiter === ',') setDelimiter(';');
+          }}>
+            <option value=".">point (1.5)</option>
+            <option value=",">comma (1,5)</option>
+          </select>
+        </label>
+      </div>
+      <div className="row">
+        <button type="button" disabled={!ready} data-testid="export-cleaned-csv" onClick={() => request('cleaned')}>Cleaned trace (CSV)</button>
+        <button type="button" disabled={!ready} data-testid="export-peaks-csv" onClick={() => request('peaks')}>Peak table (CSV)</button>
+        <button type="button" disabled={!ready} data-testid="export-report" onClick={() => request('report')}>Report (HTML)</button>
+        <button type="button" disabled={!ready} data-testid="export-jcamp" onClick={exportJcamp}>Cleaned trace (JCAMP-DX)</button>
+        <button type="button" disabled={!ready} onClick={() => void copyPeaks()}>Copy peak table</button>
+        <button type="button" disabled={!ready} onClick={() => void savePicture('png')}>Plot as PNG</button>
+        <button type="button" disabled={!ready} onClick={() => void savePicture('svg')}>Plot as SVG</button>
+      </div>
+      {pending && (
+        <div role="alertdialog" aria-labelledby="loss-confirm-title" className="confirm-box" data-testid="loss-confirm" style={{ border: "1px solid var(--bad)", borderRadius: 6, padding: "6px 10px", margin: "6px 0" }}>
+          <p id="loss-confirm-title"><strong>The processing lost or weakened these features:</strong></p>
+          <ul>{losses.map((s, i) => <li key={i}>{s}</li>)}</ul>
+          <p className="small">If you export anyway, the time and this list are written into the report.</p>
+          <div className="row">
+            <button type="button" className="primary" onClick={confirmPending}>Export anyway</button>
+            <button type="button" onClick={() => setPending(null)}>Cancel</button>
+          </div>
+        </div>
+      )}
+      {confirmation && <p className="small muted">Confirmed at {confirmation.at instanceof Date ? confirmation.at.toLocaleTimeString() : confirmation.at}: {confirmation.sentences.length} lost or weakened feature(s) acknowledged.</p>}
+      <div className="row">
+        <button type="button" data-testid="save-recipe" onClick={() => downloadText(`${recipeToJson(recipe)}\n`, 'tracewright-recipe.json', 'application/json')}>Save recipe</button>
+        <button type="button" onClick={() => recipeInput.current?.click()}>Load recipe…</button>
+        <input ref={recipeInput} type="file" accept=".json,application/json" className="sr-only" data-testid="recipe-input" aria-label="Load a recipe file"
+          onChange={(e) => { const f = e.target.files?.[0]; e.target.value = ''; void loadRecipe(f); }} />
+        <button type="button" disabled={!!progress} onClick={() => batchInput.current?.click()}>Run the recipe on many files…</button>
+        <input ref={batchInput} type="file" multiple className="sr-only" data-testid="batch-input" aria-label="Files for a batch"
+          onChange={(e) => { const files = Array.from(e.target.files ?? []); e.target.value = ''; void startBatch(files); }} />
+      </div>
+      {progress && (
+        <div className="row" data-testid="batch-progress">
+          <progress max={progress.total} value={progress.done} aria-label="Batch progress" />
+          <span className="small">{progress.done} of {progress.total}{progress.file ? ` (last: ${progress.file})` : ''}</span>
+        </div>
+      )}
+      {batchErrors.length > 0 && (
+        <div role="status" data-testid="batch-errors">
+          <p className="small"><strong>Files with problems in the last batch:</strong></p>
+          <ul className="small">{batchErrors.map((e, i) => <li key={i}><strong>{e.file}</strong>: {e.message}</li>)}</ul>
+        </div>
+      )}
+      <div className="row">
+        {askStartOver ? (
+          <>
+            <span className="small">Empty the saved session (traces, stack, decisions) and reload the page?</span>
+            <button type="button" className="danger" data-testid="start-over-confirm" onClick={() => void startOver()}>Yes, start over</button>
+            <button type="button" onClick={() => setAskStartOver(false)}>Keep my session</button>
+          </>
+        ) : (
+          <button type="button" data-testid="start-over" onClick={() => setAskStartOver(true)}>Start over…</button>
+        )}
+      </div>
+      <p className="hint">Every file carries the input’s SHA-256, the recipe, the tool version and the time. Files are made in this browser; nothing is uploaded.</p>
+    </section>
+  );
+}

@@ -1,0 +1,391 @@
+/**
+ * The session kept in IndexedDB so a reload or a crash loses nothing: the
+ * loaded traces (their x and y in chunks), roles, the sample, load reports,
+ * the recipe, noise and peak settings, and the hand decisions on peaks.
+ *
+ * Safety of what is already saved: a save writes a new generation (its
+ * description plus any trace chunks not stored yet) in one transaction,
+ * and only after that transaction has completed is the pointer switched to
+ * it and the previous generation removed. A failed save (quota reached)
+ * aborts its own transaction and leaves the pointer, and so the last good
+ * session, as it was. Traces never change once made, so their chunks are
+ * keyed by trace id and shared between generations.
+ *
+ * The record shapes and the conversion to and from them are pure functions
+ * (tested without IndexedDB); only the functions at the bottom touch the
+ * database.
+ */
+import { deleteDB, openDB, type IDBPDatabase } from 'idb';
+import type { NoiseSettings, PeakSettings } from '../../core/analyse.ts';
+import type { LoadReport } from '../../core/io/types.ts';
+import type { PeakDecisions } from '../../core/peaks.ts';
+import { emptyRecipe, validateRecipe, type Recipe, type Registry } from '../../core/recipe.ts';
+import { STEP_REGISTRY } from '../../core/steps/registry.ts';
+import { createTrace, type Trace, type TraceRole, type TraceSource } from '../../core/trace.ts';
+import type { AppState } from '../../state/store.ts';
+
+export const SESSION_FORMAT = 'tracewright-session';
+export const SESSION_VERSION = 1;
+/** Values per stored chunk (8 MB of doubles): large traces are split so no single record is huge. */
+export const SESSION_CHUNK = 2 ** 20;
+/** Skipped-row entries kept per load report (the full list was shown when the file was loaded). */
+export const SESSION_MAX_SKIPPED = 1000;
+
+const DB_NAME = 'tracewright-session';
+const DB_VERSION = 1;
+
+/** The parts of the page state a session keeps. */
+export interface SessionSnapshot {
+  traces: Trace[];
+  roles: Record<string, TraceRole>;
+  sampleId: string | null;
+  reports: Record<string, LoadReport>;
+  recipe: Recipe;
+  noiseSettings: NoiseSettings;
+  peakSettings: PeakSettings;
+  decisions: PeakDecisions;
+}
+
+/** A trace without its numbers. */
+export interface TraceHead {
+  id: string;
+  name: string;
+  xName: string;
+  xUnit: string;
+  yName: string;
+  yUnit: string;
+  source: TraceSource;
+  metadata: Record<string, string>;
+  /** Points. */
+  length: number;
+  chunkSize: number;
+  /** Chunks per axis. */
+  chunks: number;
+}
+
+export type ChunkKey = [traceId: string, axis: 'x' | 'y', index: number];
+
+export interface ChunkRecord {
+  key: ChunkKey;
+  data: Float64Array;
+}
+
+/** One saved generation: everything but the trace numbers. */
+export interface SessionMeta {
+  format: typeof SESSION_FORMAT;
+  version: number;
+  generation: number;
+  savedAt: string;
+  heads: TraceHead[];
+  roles: Record<string, TraceRole>;
+  sampleId: string | null;
+  reports: Record<string, LoadReport>;
+  recipe: unknown;
+  noiseSettings: NoiseSettings;
+  peakSettings: PeakSettings;
+  decisions: PeakDecisions;
+}
+
+export type SessionProblem = { ok: false; problem: string };
+export type SaveOutcome = { ok: true; generation: number } | SessionProblem;
+export type LoadOutcome = { ok: true; snapshot: SessionSnapshot; notes: string[] } | SessionProblem | null;
+
+/** The session parts of the page state (same objects, nothing copied). */
+export function snapshotOf(state: Pick<AppState, keyof SessionSnapshot>): SessionSnapshot {
+  return {
+    traces: state.traces, roles: state.roles, sampleId: state.sampleId, reports: state.reports,
+    recipe: state.recipe, noiseSettings: state.noiseSettings, peakSettings: state.peakSettings, decisions: state.decisions,
+  };
+}
+
+/** Key of the last chunk of an axis: present only when the whole trace was stored (same transaction). */
+export function lastChunkKey(head: Pick<TraceHead, 'id' | 'chunks'>): ChunkKey {
+  return [head.id, 'y', Math.max(0, head.chunks - 1)];
+}
+
+/** The head of a trace: everything but its numbers, and how they are chunked. */
+export function traceHead(trace: Trace, chunkSize: number = SESSION_CHUNK): TraceHead {
+  if (!Number.isInteger(chunkSize) || chunkSize < 1) throw new RangeError('The chunk size must be a whole number of values, at least 1.');
+  const n = trace.x.length;
+  return {
+    id: trace.id, name: trace.name, xName: trace.xName, xUnit: trace.xUnit, yName: trace.yName, yUnit: trace.yUnit,
+    source: { ...trace.source }, metadata: { ...trace.metadata }, length: n, chunkSize, chunks: Math.max(1, Math.ceil(n / chunkSize)),
+  };
+}
+
+/**
+ * Split a trace into its head and chunks of at most `chunkSize` values per
+ * axis. Each chunk is a copy (a view would make IndexedDB store the whole
+ * underlying buffer with every chunk). The trace is only read.
+ */
+export function traceToRecords(trace: Trace, chunkSize: number = SESSION_CHUNK): { head: TraceHead; chunks: ChunkRecord[] } {
+  const head = traceHead(trace, chunkSize);
+  const n = head.length, count = head.chunks;
+  const chunks: ChunkRecord[] = [];
+  for (const axis of ['x', 'y'] as const) {
+    const a = trace[axis];
+    for (let k = 0; k < count; k++) chunks.push({ key: [trace.id, axis, k], data: a.slice(k * chunkSize, Math.min(n, (k + 1) * chunkSize)) });
+  }
+  return { head, chunks };
+}
+
+/**
+ * Join a head and its chunks back into a trace (invariants checked again by
+ * createTrace). `getChunk` returns undefined for a missing chunk.
+ * @throws RangeError when a chunk is missing or has the wrong length.
+ */
+export function traceFromRecords(head: TraceHead, getChunk: (key: ChunkKey) => Float64Array | undefined): Trace {
+  const x = new Float64Array(head.length), y = new Float64Array(head.length);
+  for (const [axis, out] of [['x', x], ['y', y]] as const) {
+    let at = 0;
+    for (let k = 0; k < head.chunks; k++) {
+      const data = getChunk([head.id, axis, k]);
+      const want = Math.min(head.chunkSize, head.length - k * head.chunkSize);
+      if (!data || data.length !== Math.max(0, want)) throw new RangeError(`The saved trace ${head.name} is incomplete (part ${k + 1} of its ${axis} values is missing or cut).`);
+      out.set(data, at);
+      at += data.length;
+    }
+  }
+  return createTrace({
+    id: head.id, name: head.name, x, y, xName: head.xName, xUnit: head.xUnit, yName: head.yName, yUnit: head.yUnit,
+    source: head.source, metadata: head.metadata,
+  });
+}
+
+function trimReport(r: LoadReport): LoadReport {
+  return r.skipped.length > SESSION_MAX_SKIPPED ? { ...r, skipped: r.skipped.slice(0, SESSION_MAX_SKIPPED) } : r;
+}
+
+/** The meta record of a snapshot (trace heads, no numbers). */
+export function sessionMeta(snapshot: SessionSnapshot, generation: number, savedAt: Date, chunkSize: number = SESSION_CHUNK): SessionMeta {
+  const heads = snapshot.traces.map((t) => traceHead(t, chunkSize));
+  const reports: Record<string, LoadReport> = {};
+  for (const [id, r] of Object.entries(snapshot.reports)) if (heads.some((h) => h.id === id)) reports[id] = trimReport(r);
+  return {
+    format: SESSION_FORMAT, version: SESSION_VERSION, generation, savedAt: savedAt.toISOString(), heads,
+    roles: { ...snapshot.roles }, sampleId: snapshot.sampleId, reports,
+    recipe: JSON.parse(JSON.stringify(snapshot.recipe)) as unknown,
+    noiseSettings: { ...snapshot.noiseSettings }, peakSettings: { ...snapshot.peakSettings },
+    decisions: { added: [...snapshot.decisions.added], removed: [...snapshot.decisions.removed] },
+  };
+}
+
+/** A snapshot as one meta record and the chunk records of all its traces. */
+export function sessionToRecords(snapshot: SessionSnapshot, generation: number, savedAt: Date, chunkSize: number = SESSION_CHUNK): { meta: SessionMeta; chunks: ChunkRecord[] } {
+  return { meta: sessionMeta(snapshot, generation, savedAt, chunkSize), chunks: snapshot.traces.flatMap((t) => traceToRecords(t, chunkSize).chunks) };
+}
+
+/**
+ * A snapshot from a meta record and a chunk lookup. A trace that cannot be
+ * rebuilt is left out with a note; a recipe that no longer validates (a
+ * step removed since) is replaced by an empty one with a note.
+ */
+export function sessionFromRecords(meta: SessionMeta, getChunk: (key: ChunkKey) => Float64Array | undefined, registry: Registry = STEP_REGISTRY): LoadOutcome {
+  if (!meta || meta.format !== SESSION_FORMAT) return { ok: false, problem: 'The saved session is not in a form this page knows.' };
+  if (meta.version > SESSION_VERSION) return { ok: false, problem: 'The saved session was written by a newer version of the page; it was left alone.' };
+  const notes: string[] = [];
+  const traces: Trace[] = [];
+  for (const h of meta.heads) {
+    try { traces.push(traceFromRecords(h, getChunk)); } catch (e) { notes.push((e as Error).message); }
+  }
+  const ids = new Set(traces.map((t) => t.id));
+  const roles: Record<string, TraceRole> = {};
+  for (const [id, role] of Object.entries(meta.roles ?? {})) if (ids.has(id)) roles[id] = role;
+  const reports: Record<string, LoadReport> = {};
+  for (const [id, r] of Object.entries(meta.reports ?? {})) if (ids.has(id)) reports[id] = r;
+  const check = validateRecipe(meta.recipe, registry);
+  let recipe = emptyRecipe();
+  if (check.ok) recipe = check.recipe;
+  else notes.push(`The saved recipe could not be restored: ${check.problems.join(' ')} The stack starts empty.`);
+  return {
+    ok: true,
+    notes,
+    snapshot: {
+      traces, roles, reports, recipe,
+      sampleId: meta.sampleId && ids.has(meta.sampleId) ? meta.sampleId : null,
+      noiseSettings: meta.noiseSettings, peakSettings: meta.peakSettings,
+      decisions: meta.decisions ?? { added: [], removed: [] },
+    },
+  };
+}
+
+/** A sentence for a failed save or load; quota errors get their own advice. */
+export function storageProblem(e: unknown, doing: 'save' | 'load'): SessionProblem {
+  const err = e as { name?: string; message?: string; inner?: { name?: string } } | null;
+  const text = `${err?.name ?? ''} ${err?.message ?? String(e)}`;
+  if (/quota/i.test(text)) {
+    return { ok: false, problem: 'The browser has no room left to keep this session (its storage quota is reached). The session saved before is kept unchanged; remove large traces you no longer need, or export your results now.' };
+  }
+  return { ok: false, problem: `The session could not be ${doing === 'save' ? 'saved' : 'read back'} (${err?.message ?? String(e)}). The session saved before is kept unchanged.` };
+}
+
+// ---------------------------------------------------------------------------
+// IndexedDB
+
+let dbPromise: Promise<IDBPDatabase> | null = null;
+/** Set by {@link clearSession}: no save may run afterwards (the page is about to reload). */
+let stopped = false;
+
+function db(): Promise<IDBPDatabase> {
+  if (!dbPromise) {
+    dbPromise = openDB(DB_NAME, DB_VERSION, {
+      upgrade(d) {
+        if (!d.objectStoreNames.contains('meta')) d.createObjectStore('meta');
+        if (!d.objectStoreNames.contains('chunks')) d.createObjectStore('chunks');
+      },
+      terminated() { dbPromise = null; },
+    });
+    dbPromise.catch(() => { dbPromise = null; });
+  }
+  return dbPromise;
+}
+
+/**
+ * Save the session as a new generation, then switch the pointer to it and
+ * remove what only older generations used. Never throws: problems come back
+ * as a value.
+ */
+export async function saveSession(state: SessionSnapshot): Promise<SaveOutcome> {
+  if (stopped) return { ok: false, problem: 'The session was cleared; nothing is saved until the page reloads.' };
+  if (typeof indexedDB === 'undefined') return { ok: false, problem: 'This browser keeps no local database, so the session cannot be saved.' };
+  try {
+    const d = await db();
+    const pointer = (await d.get('meta', 'pointer')) as { generation: number } | undefined;
+    const generation = (pointer?.generation ?? 0) + 1;
+    const meta = sessionMeta(state, generation, new Date());
+    const tx = d.transaction(['meta', 'chunks'], 'readwrite');
+    const store = tx.objectStore('chunks');
+    for (let i = 0; i < meta.heads.length; i++) {
+      // Traces never change, so a trace whose last chunk is stored is stored whole.
+      if (await store.getKey(lastChunkKey(meta.heads[i]))) continue;
+      for (const c of traceToRecords(state.traces[i]).chunks) await store.put(c.data, c.key);
+    }
+    await tx.objectStore('meta').put(meta, `gen-${generation}`);
+    await tx.done;
+    if (stopped) return { ok: false, problem: 'The session was cleared while saving.' };
+
+    const keep = new Set(meta.heads.map((h) => h.id));
+    const tx2 = d.transaction(['meta', 'chunks'], 'readwrite');
+    await tx2.objectStore('meta').put({ generation }, 'pointer');
+    const metaKeys = await tx2.objectStore('meta').getAllKeys();
+    for (const k of metaKeys) if (typeof k === 'string' && k.startsWith('gen-') && k !== `gen-${generation}`) await tx2.objectStore('meta').delete(k);
+    const chunkKeys = await tx2.objectStore('chunks').getAllKeys();
+    for (const k of chunkKeys) if (Array.isArray(k) && !keep.has(String(k[0]))) await tx2.objectStore('chunks').delete(k);
+    await tx2.done;
+    return { ok: true, generation };
+  } catch (e) {
+    return storageProblem(e, 'save');
+  }
+}
+
+/** The saved session, null when there is none, or a problem. Never throws. */
+export async function loadSession(): Promise<LoadOutcome> {
+  if (typeof indexedDB === 'undefined') return null;
+  try {
+    const d = await db();
+    const pointer = (await d.get('meta', 'pointer')) as { generation: number } | undefined;
+    if (!pointer) return null;
+    const meta = (await d.get('meta', `gen-${pointer.generation}`)) as SessionMeta | undefined;
+    if (!meta) return { ok: false, problem: 'The saved session is incomplete and was not restored.' };
+    const tx = d.transaction('chunks', 'readonly');
+    const found = new Map<string, Float64Array>();
+    for (const h of meta.heads) {
+      for (const axis of ['x', 'y'] as const) {
+        for (let k = 0; k < h.chunks; k++) {
+          const data = (await tx.store.get([h.id, axis, k])) as Float64Array | undefined;
+          if (data) found.set(`${h.id}\u0000${axis}\u0000${k}`, data);
+        }
+      }
+    }
+    await tx.done;
+    return sessionFromRecords(meta, (key) => found.get(key.join('\u0000')));
+  } catch (e) {
+    return storageProblem(e, 'load');
+  }
+}
+
+/** Empty the session database and stop any further saving (call before reloading the page). */
+export async function clearSession(): Promise<{ ok: true } | SessionProblem> {
+  stopped = true;
+  try {
+    if (dbPromise) (await dbPromise).close();
+    dbPromise = null;
+    if (typeof indexedDB !== 'undefined') await deleteDB(DB_NAME);
+    return { ok: true };
+  } catch (e) {
+    return { ok: false, problem: `The saved session could not be emptied (${(e as Error).message}).` };
+  }
+}
+
+/** The store as the session functions need it (the app's `useApp` fits). */
+export interface SessionStore {
+  getState(): AppState;
+  setState(partial: Partial<AppState>): void;
+  subscribe(listener: (state: AppState, prev: AppState) => void): () => void;
+}
+
+const SESSION_KEYS: readonly (keyof SessionSnapshot)[] = ['traces', 'roles', 'sampleId', 'reports', 'recipe', 'noiseSettings', 'peakSettings', 'decisions'];
+
+/**
+ * Save the session about `delayMs` after the last change to any part it
+ * keeps (one save at a time; a change during a save leads to one more).
+ * A failed save is reported once in the notices until a save succeeds.
+ * @returns a function that stops the autosave.
+ */
+export function startSessionAutosave(store: SessionStore, delayMs = 1000): () => void {
+  let timer: ReturnType<typeof setTimeout> | null = null;
+  let saving = false;
+  let again = false;
+  let reported: string | null = null;
+  const run = async () => {
+    timer = null;
+    if (saving) { again = true; return; }
+    saving = true;
+    const out = await saveSession(snapshotOf(store.getState()));
+    saving = false;
+    if (!out.ok && !stopped && out.problem !== reported) {
+      reported = out.problem;
+      store.getState().notify('warning', 'The session could not be kept for the next visit', [out.problem]);
+    } else if (out.ok) reported = null;
+    if (again) { again = false; schedule(); }
+  };
+  const schedule = () => {
+    if (timer !== null) clearTimeout(timer);
+    timer = setTimeout(() => { void run(); }, delayMs);
+  };
+  const unsub = store.subscribe((s, prev) => {
+    if (stopped) return;
+    if (SESSION_KEYS.some((k) => s[k] !== prev[k])) schedule();
+  });
+  return () => {
+    unsub();
+    if (timer !== null) clearTimeout(timer);
+  };
+}
+
+/**
+ * Put a saved session back into the store. Returns true when it restored
+ * at least one trace (the page then skips the demo); problems and notes go
+ * to the notices.
+ */
+export async function restoreSession(store: SessionStore): Promise<boolean> {
+  const out = await loadSession();
+  if (out === null) return false;
+  if (!out.ok) {
+    store.getState().notify('warning', 'The saved session was not restored', [out.problem]);
+    return false;
+  }
+  const s = out.snapshot;
+  if (s.traces.length === 0) {
+    if (out.notes.length) store.getState().notify('warning', 'The saved session was not restored', out.notes);
+    return false;
+  }
+  store.setState({
+    traces: s.traces, roles: s.roles, sampleId: s.sampleId, reports: s.reports,
+    recipe: s.recipe, past: [], future: [],
+    noiseSettings: s.noiseSettings, peakSettings: s.peakSettings, decisions: s.decisions,
+  });
+  store.getState().notify(out.notes.length ? 'warning' : 'info', 'Your previous session was restored',
+    [`${s.traces.length} trace(s), the step stack and your peak decisions are as you left them. Use “Start over” to empty it.`, ...out.notes]);
+  return true;
+}

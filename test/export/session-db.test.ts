@@ -1,0 +1,100 @@
+import { describe, expect, test } from 'vitest';
+import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS } from '../../src/core/analyse.ts';
+import { makeRng } from '../../src/core/numeric/random.ts';
+import { createTrace } from '../../src/core/trace.ts';
+import {
+  SESSION_CHUNK, sessionFromRecords, sessionToRecords, storageProblem, traceFromRecords, traceToRecords, type ChunkKey, type SessionSnapshot,
+} from '../../src/ui/export/session-db.ts';
+import { recipeOf } from './helpers.ts';
+
+function bigTrace(n: number) {
+  const rng = makeRng(99);
+  const x = new Float64Array(n), y = new Float64Array(n);
+  for (let i = 0; i < n; i++) { x[i] = i * 0.001 + 5; y[i] = rng.normal(); }
+  return createTrace({ id: 'big-1', name: 'big.csv: y', x, y, xUnit: 's', yUnit: 'V', source: { fileName: 'big.csv', sha256: 'cd'.repeat(32), rowsRead: n, rowsSkipped: 0 }, metadata: { Operator: 'A. N. Other' } });
+}
+
+const lookup = (chunks: { key: ChunkKey; data: Float64Array }[]) => {
+  const m = new Map(chunks.map((c) => [c.key.join('|'), c.data]));
+  return (k: ChunkKey) => m.get(k.join('|'));
+};
+
+describe('session records', () => {
+  test('a trace of 3·2^20 + 5 points splits into 4 chunks per axis and comes back identical', () => {
+    const n = 3 * 2 ** 20 + 5;
+    const t = bigTrace(n);
+    const { head, chunks } = traceToRecords(t);
+    expect(head.chunks).toBe(4);
+    expect(chunks).toHaveLength(8);
+    expect(chunks.map((c) => c.data.length)).toEqual([SESSION_CHUNK, SESSION_CHUNK, SESSION_CHUNK, 5, SESSION_CHUNK, SESSION_CHUNK, SESSION_CHUNK, 5]);
+    // Each chunk owns its buffer (a view would drag the whole trace into every record).
+    for (const c of chunks) expect(c.data.buffer.byteLength).toBe(c.data.length * 8);
+    const back = traceFromRecords(head, lookup(chunks));
+    // Element by element with Object.is (deep equality of 3 million elements is too slow in the matcher).
+    let differ = 0;
+    for (let i = 0; i < n; i++) if (!Object.is(back.x[i], t.x[i]) || !Object.is(back.y[i], t.y[i])) differ++;
+    expect(back.x.length).toBe(n);
+    expect(differ).toBe(0);
+    expect(back.id).toBe(t.id);
+    expect(back.source).toEqual(t.source);
+    expect(back.metadata).toEqual(t.metadata);
+  });
+
+  test('a missing chunk is named, not silently filled', () => {
+    const t = bigTrace(25);
+    const { head, chunks } = traceToRecords(t, 10);
+    expect(head.chunks).toBe(3);
+    const get = lookup(chunks.filter((c) => !(c.key[1] === 'y' && c.key[2] === 1)));
+    expect(() => traceFromRecords(head, get)).toThrow(/part 2 of its y values/);
+  });
+
+  test('a whole session round-trips: roles, sample, recipe, settings, decisions; a trace that cannot be rebuilt is left out with a note', () => {
+    const a = bigTrace(40);
+    const b = createTrace({ id: 'blank-1', name: 'blank', x: [1, 2, 3, 4, 5], y: [0, 0, 1, 0, 0], source: { fileName: 'b.csv', sha256: 'ef'.repeat(32), rowsRead: 5, rowsSkipped: 0 } });
+    const snap: SessionSnapshot = {
+      traces: [a, b], roles: { 'big-1': 'sample', 'blank-1': 'blank' }, sampleId: 'big-1', reports: {},
+      recipe: recipeOf('savitzky-golay', 'baseline'), noiseSettings: { method: 'rms', quietRange: [5, 5.01] },
+      peakSettings: { ...DEFAULT_PEAK_SETTINGS, minSnr: 4 }, decisions: { added: [5.02], removed: [5.03] },
+    };
+    const { meta, chunks } = sessionToRecords(snap, 3, new Date(0), 16);
+    // What is stored must survive structured cloning (IndexedDB) — JSON is stricter and also fine for meta.
+    const stored = JSON.parse(JSON.stringify(meta));
+    const out = sessionFromRecords(stored, lookup(chunks));
+    expect(out && out.ok).toBe(true);
+    if (!out || !out.ok) return;
+    expect(out.notes).toEqual([]);
+    expect(out.snapshot.traces.map((t) => t.id)).toEqual(['big-1', 'blank-1']);
+    expect(out.snapshot.traces[0].y).toEqual(a.y);
+    expect(out.snapshot.roles).toEqual(snap.roles);
+    expect(out.snapshot.sampleId).toBe('big-1');
+    expect(out.snapshot.recipe).toEqual(snap.recipe);
+    expect(out.snapshot.noiseSettings).toEqual(snap.noiseSettings);
+    expect(out.snapshot.peakSettings.minSnr).toBe(4);
+    expect(out.snapshot.decisions).toEqual(snap.decisions);
+
+    const partial = sessionFromRecords(stored, lookup(chunks.filter((c) => c.key[0] !== 'blank-1')));
+    expect(partial && partial.ok && partial.snapshot.traces.map((t) => t.id)).toEqual(['big-1']);
+    expect(partial && partial.ok && partial.snapshot.roles).toEqual({ 'big-1': 'sample' });
+    expect(partial && partial.ok && partial.notes.length).toBe(1);
+  });
+
+  test('a recipe with an unknown step is not restored; the rest is', () => {
+    const a = bigTrace(10);
+    const { meta, chunks } = sessionToRecords({
+      traces: [a], roles: { 'big-1': 'sample' }, sampleId: 'big-1', reports: {}, recipe: recipeOf('savitzky-golay'),
+      noiseSettings: DEFAULT_NOISE_SETTINGS, peakSettings: DEFAULT_PEAK_SETTINGS, decisions: { added: [], removed: [] },
+    }, 1, new Date(0));
+    (meta.recipe as { steps: { step: string }[] }).steps[0].step = 'no-such-step';
+    const out = sessionFromRecords(meta, lookup(chunks));
+    expect(out && out.ok && out.snapshot.recipe.steps).toEqual([]);
+    expect(out && out.ok && out.notes[0]).toMatch(/no-such-step/);
+    expect(sessionFromRecords({ ...meta, version: 99 }, lookup(chunks))).toEqual({ ok: false, problem: expect.stringMatching(/newer version/) });
+  });
+
+  test('a quota error becomes a problem value that says the earlier session is kept', () => {
+    const p = storageProblem({ name: 'QuotaExceededError', message: 'The quota has been exceeded.' }, 'save');
+    expect(p.ok).toBe(false);
+    expect(p.problem).toMatch(/storage quota/);
+    expect(p.problem).toMatch(/kept unchanged/);
+  });
+});
