@@ -503,32 +503,92 @@ function baseHalfWindow(fwhmPoints: number): number {
 }
 
 /**
- * Level of the apex: a least-squares parabola through the samples within
- * ±max(1, floor(fwhmPoints/6)) of the apex sample, evaluated at the refined
- * apex x. With three samples it is the parabola through the three top
- * points; on a broad noisy peak it averages the noise instead of keeping
- * the highest noise excursion. Over ±FWHM/6 a Gaussian departs from a
- * parabola by under 0.03 % of its height.
+ * Least-squares c0 + c1 t + c2 t², t = (x − xc)/span, through samples
+ * i0..i1. With a window [lo, hi] each sample is weighted by the part of its
+ * cell (midpoint to midpoint) inside the window, so the fit sees the window
+ * as a continuous stretch symmetric about its centre whatever the sampling.
+ * Null when degenerate.
  */
-function apexLevel(x: Float64Array, s: Float64Array, i: number, fwhmPoints: number, at: number): number {
-  const q = Math.max(1, Math.floor(fwhmPoints / 6));
-  const i0 = Math.max(0, i - q), i1 = Math.min(s.length - 1, i + q);
-  if (i1 - i0 < 2) return s[i];
-  const xc = x[i];
-  // Normal equations for c0 + c1 t + c2 t², t = (x − x_apex) / span, kept small for conditioning.
+function quadFit(x: Float64Array, s: Float64Array, i0: number, i1: number, xc: number, lo = -Infinity, hi = Infinity): { c0: number; c1: number; c2: number; span: number } | null {
   const span = Math.max(x[i1] - xc, xc - x[i0]);
+  if (!(span > 0)) return null;
+  const last = x.length - 1;
   let n = 0, t1 = 0, t2 = 0, t3 = 0, t4 = 0, y0 = 0, y1 = 0, y2 = 0;
   for (let k = i0; k <= i1; k++) {
-    const t = (x[k] - xc) / span, tt = t * t, v = s[k];
-    n++; t1 += t; t2 += tt; t3 += tt * t; t4 += tt * tt; y0 += v; y1 += v * t; y2 += v * tt;
+    let wgt = 1;
+    if (lo > -Infinity) {
+      const a = k > 0 ? (x[k - 1] + x[k]) / 2 : x[k], b = k < last ? (x[k] + x[k + 1]) / 2 : x[k];
+      wgt = Math.max(0, Math.min(b, hi) - Math.max(a, lo)) / (b - a || 1);
+      if (wgt === 0) continue;
+    }
+    const t = (x[k] - xc) / span, tt = t * t, v = s[k] * wgt;
+    n += wgt; t1 += wgt * t; t2 += wgt * tt; t3 += wgt * tt * t; t4 += wgt * tt * tt; y0 += v; y1 += v * t; y2 += v * tt;
   }
   const det = n * (t2 * t4 - t3 * t3) - t1 * (t1 * t4 - t3 * t2) + t2 * (t1 * t3 - t2 * t2);
-  if (!(Math.abs(det) > 1e-12)) return s[i];
+  if (!(Math.abs(det) > 1e-12)) return null;
   const c0 = (y0 * (t2 * t4 - t3 * t3) - t1 * (y1 * t4 - t3 * y2) + t2 * (y1 * t3 - t2 * y2)) / det;
   const c1 = (n * (y1 * t4 - t3 * y2) - y0 * (t1 * t4 - t3 * t2) + t2 * (t1 * y2 - y1 * t2)) / det;
   const c2 = (n * (t2 * y2 - y1 * t3) - t1 * (t1 * y2 - y1 * t2) + y0 * (t1 * t3 - t2 * t2)) / det;
-  const t = (at - xc) / span;
-  return c0 + c1 * t + c2 * t * t;
+  return { c0, c1, c2, span };
+}
+
+/** Sample nearest to v, searching out from index i (v is close to x[i]). */
+function nearestFrom(x: Float64Array, i: number, v: number): number {
+  let k = i;
+  while (k > 0 && Math.abs(x[k - 1] - v) < Math.abs(x[k] - v)) k--;
+  while (k < x.length - 1 && Math.abs(x[k + 1] - v) < Math.abs(x[k] - v)) k++;
+  return k;
+}
+
+/**
+ * Apex position. On a narrow peak (half-height width under 6 samples) the
+ * vertex of the parabola through the three top samples. On a broader peak
+ * three samples of a flat noisy top let the noise choose the apex, so the
+ * vertex of a least-squares parabola over a window of ±FWHM/3 centred on
+ * the current estimate is used, samples weighted by how much of their cell
+ * lies in the window, re-centred until it settles (at most 5 times). A
+ * window symmetric about a symmetric peak's apex has its vertex there, so
+ * the fixed point is unbiased for symmetric peaks.
+ */
+function apexPosition(x: Float64Array, s: Float64Array, i: number, fwhmPoints: number): number {
+  const q = Math.floor(fwhmPoints / 3);
+  const start = apexParabola(x, s, i);
+  if (fwhmPoints < 6 || i <= 0 || i >= x.length - 1) return start;
+  const half = (q * (x[i + 1] - x[i - 1])) / 2;
+  const lim0 = x[Math.max(0, i - q)], lim1 = x[Math.min(x.length - 1, i + q)];
+  let v = start;
+  for (let iter = 0; iter < 5; iter++) {
+    const lo = v - half, hi = v + half;
+    let i0 = i, i1 = i;
+    while (i0 > 0 && (x[i0 - 1] + x[i0]) / 2 > lo) i0--;
+    while (i1 < x.length - 1 && (x[i1] + x[i1 + 1]) / 2 < hi) i1++;
+    const f = quadFit(x, s, i0, i1, v, lo, hi);
+    if (!f || !(f.c2 < 0)) return start;
+    const nv = Math.min(lim1, Math.max(lim0, v - (f.c1 * f.span) / (2 * f.c2)));
+    const moved = Math.abs(nv - v);
+    v = nv;
+    if (moved < 1e-9 * half) break;
+  }
+  return v;
+}
+
+/**
+ * Level of the apex: a least-squares parabola through the samples within
+ * ±max(1, floor(fwhmPoints/6)) of the sample nearest the refined apex,
+ * evaluated there. With three samples it is the parabola through the three
+ * top points; on a broad noisy peak it averages the noise instead of
+ * keeping the highest noise excursion. Over ±FWHM/6 a Gaussian departs from
+ * a parabola by under 0.03 % of its height.
+ */
+function apexLevel(x: Float64Array, s: Float64Array, i: number, fwhmPoints: number, at: number): number {
+  const q = Math.max(1, Math.floor(fwhmPoints / 6));
+  const c = q > 1 ? nearestFrom(x, i, at) : i;
+  const i0 = Math.max(0, c - q), i1 = Math.min(s.length - 1, c + q);
+  if (i1 - i0 < 2) return s[i];
+  const f = quadFit(x, s, i0, i1, x[c]);
+  if (!f) return s[i];
+  const t = (at - x[c]) / f.span;
+  return f.c0 + f.c1 * t + f.c2 * t * t;
 }
 
 /** Height of the apex level above the local baseline through the two bases' levels. */
@@ -665,7 +725,7 @@ function makePeak(x: Float64Array, y: Float64Array, s: Float64Array, sign: numbe
   const leftHalf = xAt(x, c.leftIp), rightHalf = xAt(x, c.rightIp);
   const fwhm = rightHalf - leftHalf;
   const fwhmPoints = c.rightIp - c.leftIp;
-  const xApex = apexParabola(x, s, i);
+  const xApex = apexPosition(x, s, i, fwhmPoints);
   const hs = Number.isNaN(c.height) ? heightAbove(x, s, i, xApex, fwhmPoints, c.leftBase, c.rightBase, o.noiseSigma) : c.height;
   const q = baseHalfWindow(fwhmPoints);
   const snrRms = Math.abs(hs) / o.noiseSigma;
@@ -796,7 +856,7 @@ export function detectPeaks(x: Float64Array, y: Float64Array, options: PeakOptio
     const fwhm = xAt(x, w.rightIps[k]) - xAt(x, w.leftIps[k]);
     if (o.minWidth > 0 && fwhm < o.minWidth) continue;
     if (minSnrOnTheFly && o.minSnr > 0) {
-      const xApex = apexParabola(x, s, i);
+      const xApex = apexPosition(x, s, i, w.widths[k]);
       const hs = heightAbove(x, s, i, xApex, w.widths[k], lb[k], rb[k], o.noiseSigma);
       heights[k] = hs;
       let snr: number | null;
