@@ -10,7 +10,8 @@ import type { Trace } from './trace.ts';
 import { interpolateLinear, meanStep } from './numeric/interpolate.ts';
 import { residual as residualOf, residualDiagnostics, type ResidualDiagnostics } from './diagnostics.ts';
 import { noisePeakToPeak, noiseRms, noiseRobust, type NoiseEstimate } from './noise.ts';
-import { noiseWindowsMedian } from './noise-windows.ts';
+import { featureMask, noiseQuietWindows } from './noise-windows.ts';
+import { matchPeaks, windowAdvice, type Ledger, type WindowAdvice } from './loss.ts';
 import { applyPeakDecisions, defaultPeakOptions, detectPeaks, type Peak, type PeakDecisions, type PeakOptions, type SnrDefinition } from './peaks.ts';
 
 /**
@@ -72,6 +73,46 @@ export interface AnalyseRequest {
   noise?: NoiseSettings;
   peaks?: PeakSettings;
   decisions?: PeakDecisions;
+  /** Other stacks to compare with the current one (the loss check), at most {@link MAX_ALTERNATIVES}. */
+  alternatives?: AlternativeRequest[];
+}
+
+export const MAX_ALTERNATIVES = 6;
+
+export interface AlternativeRequest {
+  id: string;
+  /** Words used in sentences, e.g. "5-point moving average". */
+  label: string;
+  recipe: Recipe;
+}
+
+/** One alternative's outcome, for the overlay and the residual verdicts. */
+export interface AlternativeOutcome {
+  id: string;
+  label: string;
+  processed: Signal;
+  diagnostics: ResidualDiagnostics | null;
+  noiseSigma: number | null;
+  peakCount: number;
+  /** Steps that could not run, in words. */
+  problems: string[];
+}
+
+export interface WindowAdviceRow {
+  uid: string;
+  stepLabel: string;
+  advice: WindowAdvice;
+}
+
+export interface LossReport {
+  /** Column 0 is the raw trace (reference), column 1 the current stack, then the alternatives. */
+  ledger: Ledger;
+  outcomes: AlternativeOutcome[];
+  /** Narrowest half-height width among the reference's detectable peaks (points), when any. */
+  narrowestFwhmPoints: number | null;
+  advice: WindowAdviceRow[];
+  /** Features the current stack loses or weakens against the raw trace: what the export asks the user to confirm. */
+  currentWarnings: string[];
 }
 
 export interface StepRunSummary {
@@ -110,12 +151,27 @@ export interface AnalyseResult {
   peakOptions: PeakOptions | null;
   /** Why peaks could not be measured, when they could not. */
   peakProblem?: string;
+  /** The loss check; null when there is nothing to compare. */
+  loss: LossReport | null;
   ms: number;
 }
 
 /** Measure noise on `sig` by the chosen method; `raw` gives the comparison figure. */
 export function measureNoise(sig: Signal, raw: Signal, settings: NoiseSettings): NoiseReport {
   const notes: string[] = [];
+  let rawMask: Uint8Array | null = null;
+  // Features are found once on the raw trace and carried to the measured grid.
+  const maskOn = (s: Signal): Uint8Array => {
+    rawMask ??= featureMask(raw.x, raw.y);
+    if (s.x.length === raw.x.length) return rawMask;
+    const m = new Uint8Array(s.x.length);
+    let j = 0;
+    for (let i = 0; i < s.x.length; i++) {
+      while (j < raw.x.length - 1 && raw.x[j + 1] <= s.x[i]) j++;
+      m[i] = rawMask[j] | rawMask[Math.min(j + 1, raw.x.length - 1)];
+    }
+    return m;
+  };
   const pick = (s: Signal): NoiseEstimate | null => {
     if (settings.method === 'rms') {
       if (settings.quietRange) {
@@ -131,7 +187,7 @@ export function measureNoise(sig: Signal, raw: Signal, settings: NoiseSettings):
       const r = noiseRobust(s.y);
       if (r.ok) return r;
     }
-    const w = noiseWindowsMedian(s.x, s.y);
+    const w = noiseQuietWindows(s.x, s.y, maskOn(s));
     if (w.ok) return w;
     const r = noiseRobust(s.y);
     if (r.ok) { notes.push(`${w.message} The point-to-point estimate is used.`); return r; }
@@ -148,6 +204,128 @@ export function measureNoise(sig: Signal, raw: Signal, settings: NoiseSettings):
   }
   if (!sigma) throw new Error('noise could not be estimated on a valid trace');
   return { sigma, rawSigma, peakToPeak, notes };
+}
+
+interface Measured {
+  noise: NoiseReport | null;
+  peaks: Peak[];
+  peakOptions: PeakOptions | null;
+  peakProblem?: string;
+}
+
+/** Noise and peaks on one signal with the user's settings. */
+function measurePeaks(measured: Signal, raw: Signal, noiseSettings: NoiseSettings, ps: PeakSettings, ctx: StepContext, decisions?: PeakDecisions): Measured {
+  if (measured.y.length < 5) return { noise: null, peaks: [], peakOptions: null, peakProblem: 'Fewer than 5 points: no peaks can be measured.' };
+  const noise = measureNoise(measured, raw, noiseSettings);
+  const sigma = noise.sigma.sigma;
+  if (!(sigma > 0)) {
+    return { noise, peaks: [], peakOptions: null, peakProblem: 'The noise is zero (the trace is perfectly smooth or constant), so S/N cannot be measured. Mark a quiet range with some noise, or measure on the raw trace.' };
+  }
+  const dx = meanStep(measured.x);
+  const base = defaultPeakOptions(sigma, dx);
+  const peakOptions: PeakOptions = {
+    ...base,
+    minProminence: ps.minProminenceSigma * sigma,
+    minSnr: ps.minSnr,
+    minWidth: ps.minWidth > 0 ? ps.minWidth : base.minWidth,
+    minSeparation: ps.minSeparation,
+    snrDefinition: ps.snrDefinition,
+    pharmacopoeialMultiplier: ps.pharmacopoeialMultiplier,
+    negative: ps.negative,
+    limits: { detection: ps.detectionLimit, quantitation: ps.quantitationLimit },
+    pharmacopoeialNoise: ctx.blank ? { x: ctx.blank.x, y: ctx.blank.y, fromBlank: true } : undefined,
+  };
+  try {
+    let peaks = detectPeaks(measured.x, measured.y, peakOptions);
+    if (decisions && (decisions.added.length || decisions.removed.length)) peaks = applyPeakDecisions(peaks, decisions, measured.x, measured.y, peakOptions);
+    return { noise, peaks, peakOptions };
+  } catch (e) {
+    return { noise, peaks: [], peakOptions, peakProblem: (e as Error).message };
+  }
+}
+
+/** Smoothing steps whose window gets advice, and how to read it. */
+function adviceFor(step: string, params: Record<string, unknown>, narrowest: number): WindowAdvice | null {
+  const w = Number(params.window);
+  if (!Number.isInteger(w) || w < 1) return null;
+  try {
+    if (step === 'moving-average') return windowAdvice('moving-average', w, 0, narrowest);
+    if (step === 'savitzky-golay' && Number(params.derivative ?? 0) === 0) return windowAdvice('savitzky-golay', w, Number(params.order), narrowest);
+  } catch {
+    return null;
+  }
+  return null;
+}
+
+/**
+ * The loss check: the raw trace, the current stack and each alternative,
+ * measured with the same noise and peak settings, matched into one ledger.
+ */
+function lossCheck(
+  request: AnalyseRequest, raw: Signal, sample: Trace, run: ReturnType<typeof runPipeline>, main: Measured,
+  ctx: StepContext, registry: Registry, cache?: PipelineCache,
+): LossReport | null {
+  const alts = (request.alternatives ?? []).slice(0, MAX_ALTERNATIVES);
+  const currentRan = run.runs.some((r) => r.status === 'ok');
+  if (!currentRan && alts.length === 0) return null;
+  const ps = { ...(request.peaks ?? DEFAULT_PEAK_SETTINGS), measureOn: 'processed' as const };
+  const noiseSettings = request.noise ?? DEFAULT_NOISE_SETTINGS;
+  // Hand decisions belong to the current table only; the comparison uses what detection finds.
+  const reference = measurePeaks(raw, raw, noiseSettings, ps, ctx);
+  const reuse = (request.peaks ?? DEFAULT_PEAK_SETTINGS).measureOn === 'processed' && !request.decisions?.added.length && !request.decisions?.removed.length;
+  const current = reuse ? main : measurePeaks(run.final, raw, noiseSettings, ps, ctx);
+  const columns = [
+    { id: 'raw', label: 'no processing (raw)', peaks: reference.peaks },
+    { id: 'current', label: 'the current stack', peaks: current.peaks },
+  ];
+  const outcomes: AlternativeOutcome[] = [];
+  for (const alt of alts) {
+    const r = runPipeline(raw, sample.id, alt.recipe, registry, ctx, cache);
+    const m = measurePeaks(r.final, raw, noiseSettings, ps, ctx);
+    let diag: ResidualDiagnostics | null = null;
+    try {
+      const res = residualOf(raw, r.final);
+      const removed = deliberateRemovals(raw, r);
+      const y = res.y;
+      if (removed) {
+        const on = removed.x.length === res.x.length ? removed.y : interpolateLinear(removed.x, removed.y, res.x);
+        for (let i = 0; i < y.length; i++) y[i] -= Number.isFinite(on[i]) ? on[i] : 0;
+      }
+      if (r.runs.some((x) => x.status === 'ok')) diag = residualDiagnostics(y);
+    } catch {
+      diag = null;
+    }
+    outcomes.push({
+      id: alt.id, label: alt.label, processed: r.final, diagnostics: diag,
+      noiseSigma: m.noise?.sigma.sigma ?? null, peakCount: m.peaks.length,
+      problems: r.runs.filter((x) => x.status === 'error').map((x) => x.message ?? 'a step could not run'),
+    });
+    columns.push({ id: alt.id, label: alt.label, peaks: m.peaks });
+  }
+  const limits = { detection: ps.detectionLimit, quantitation: ps.quantitationLimit };
+  const ledger = matchPeaks(columns, { dx: meanStep(raw.x), xUnit: sample.xUnit, limits });
+  // Narrowest real peak: among the reference's peaks at or above the detection limit.
+  const real = reference.peaks.filter((p) => p.flag === 'detectable' || p.flag === 'quantifiable');
+  const dxRaw = meanStep(raw.x);
+  const narrowest = real.length ? Math.min(...real.map((p) => p.fwhm / dxRaw)) : null;
+  const advice: WindowAdviceRow[] = [];
+  if (narrowest) {
+    for (const st of request.recipe.steps) {
+      if (!st.enabled) continue;
+      const a = adviceFor(st.step, st.params, narrowest);
+      if (a) advice.push({ uid: st.uid, stepLabel: registry.find((d) => d.id === st.step)?.label ?? st.step, advice: a });
+    }
+  }
+  const currentWarnings: string[] = [];
+  const where = (x: number) => `${x.toPrecision(5)}${sample.xUnit ? ` ${sample.xUnit}` : ''}`;
+  for (const row of ledger.rows) {
+    const ref = row.cells[0], cur = row.cells[1];
+    if (!ref.found || (ref.standing !== 'quantifiable' && ref.standing !== 'detectable')) continue;
+    if (!cur.found) currentWarnings.push(`The feature at ${where(row.position)} (S/N ${ref.snr?.toFixed(1)} raw) is lost with the current stack.`);
+    else if (cur.crossed === 'down') currentWarnings.push(`The feature at ${where(row.position)} falls from ${ref.standing} (S/N ${ref.snr?.toFixed(1)}) to ${cur.standing.replace('-', ' ')} (S/N ${cur.snr?.toFixed(1)}) with the current stack.`);
+    else if (cur.heightKept !== null && cur.heightKept < 80) currentWarnings.push(`The feature at ${where(row.position)} keeps only ${cur.heightKept.toFixed(0)} % of its raw height with the current stack.`);
+  }
+  return { ledger, outcomes, narrowestFwhmPoints: narrowest, advice, currentWarnings };
 }
 
 /** Steps whose change to the trace is a deliberate removal, not a loss. */
@@ -222,44 +400,12 @@ export function analyse(
     const hit = run.runs.find((r) => r.uid === request.showUid && r.output);
     if (hit?.output) intermediate = { x: hit.output.x, y: hit.output.y };
   }
-  let noise: NoiseReport | null = null;
-  let peaks: Peak[] = [];
-  let peakOptions: PeakOptions | null = null;
-  let peakProblem: string | undefined;
   const ps = request.peaks ?? DEFAULT_PEAK_SETTINGS;
   const measured = ps.measureOn === 'raw' ? raw : run.final;
-  if (measured.y.length >= 5) {
-    noise = measureNoise(measured, raw, request.noise ?? DEFAULT_NOISE_SETTINGS);
-    const sigma = noise.sigma.sigma;
-    if (!(sigma > 0)) {
-      peakProblem = 'The noise is zero (the trace is perfectly smooth or constant), so S/N cannot be measured. Mark a quiet range with some noise, or measure on the raw trace.';
-    } else {
-      const dx = meanStep(measured.x);
-      const base = defaultPeakOptions(sigma, dx);
-      peakOptions = {
-        ...base,
-        minProminence: ps.minProminenceSigma * sigma,
-        minSnr: ps.minSnr,
-        minWidth: ps.minWidth > 0 ? ps.minWidth : base.minWidth,
-        minSeparation: ps.minSeparation,
-        snrDefinition: ps.snrDefinition,
-        pharmacopoeialMultiplier: ps.pharmacopoeialMultiplier,
-        negative: ps.negative,
-        limits: { detection: ps.detectionLimit, quantitation: ps.quantitationLimit },
-        pharmacopoeialNoise: ctx.blank ? { x: ctx.blank.x, y: ctx.blank.y, fromBlank: true } : undefined,
-      };
-      try {
-        peaks = detectPeaks(measured.x, measured.y, peakOptions);
-        const d = request.decisions;
-        if (d && (d.added.length || d.removed.length)) peaks = applyPeakDecisions(peaks, d, measured.x, measured.y, peakOptions);
-      } catch (e) {
-        peakProblem = (e as Error).message;
-        peaks = [];
-      }
-    }
-  }
+  const main = measurePeaks(measured, raw, request.noise ?? DEFAULT_NOISE_SETTINGS, ps, ctx, request.decisions);
+  const loss = lossCheck(request, raw, sample, run, main, ctx, registry, cache);
   return {
-    noise, peaks, peakOptions, peakProblem, diagnostics,
+    noise: main.noise, peaks: main.peaks, peakOptions: main.peakOptions, peakProblem: main.peakProblem, diagnostics, loss,
     sampleId: sample.id, processed: run.final, residual, residualNote: note, baseline: run.baseline,
     intermediate, runs, events: run.events, ms: Date.now() - t0,
   };

@@ -4,45 +4,92 @@
  * The difference-based robust estimate (noise.ts, noiseRobust) assumes the
  * noise is white; after any smoothing, neighbouring points are correlated,
  * their differences shrink, and σ comes out several times too small, which
- * would inflate every S/N. This estimate instead cuts the trace into
- * windows of W points, takes the standard deviation about a straight line
- * in each (noiseRms), and reports the median over the windows. Windows that
- * hold a peak or a step have a larger SD and sit above the median, so as
- * long as fewer than half of the windows hold features the median is a
- * noise figure. Correlated noise is measured as it is, within the window.
- * (The median-of-local-SDs idea is common practice; the window choice is ours.)
+ * would inflate every S/N. This estimate instead:
+ *
+ * 1. finds the features on the RAW trace (peak candidates whose prominence
+ *    and height above the line joining its bases are both at least 6 × the
+ *    difference-based σ of the raw trace (noise alone hardly ever is), each masked
+ *    over its half-height crossings widened by two half-height widths on
+ *    each side; candidates wider than n/20 points count as baseline wander, and single points more than 6 σ from their 7-point median);
+ * 2. cuts the trace being measured into windows of W points, keeps the
+ *    windows that touch no masked point, and takes in each the standard
+ *    deviation about a least-squares straight line (noiseRms);
+ * 3. reports the median over those quiet windows.
+ *
+ * Correlated noise is measured as it is, within each window. The recipe
+ * (mask the features, then take local SDs about a line) is common practice;
+ * the thresholds are ours and stated above.
  */
-import { noiseRms, type NoiseResult } from './noise.ts';
+import { noiseRms, noiseRobust, type NoiseResult } from './noise.ts';
+import { defaultPeakOptions, detectPeaks } from './peaks.ts';
+import { slidingMedian } from './numeric/sliding-median.ts';
+import { lowerBound } from './numeric/decimate.ts';
 
-/** Default window: n/20 points, kept between 30 and 400. */
+/** Default window: n/40 points, kept between 30 and 400 (long enough that a line fit takes little from smoothed noise). */
 export function defaultNoiseWindow(n: number): number {
-  return Math.max(30, Math.min(400, Math.floor(n / 20)));
+  return Math.max(30, Math.min(400, Math.floor(n / 40)));
 }
 
 /**
- * Median over consecutive windows of `windowPoints` points of the SD about a
- * straight line in each window (n − 2 degrees of freedom).
- * @returns σ in y-units with the number of points and windows, or a
- *   problem when the trace is shorter than three windows.
+ * Mark the points of a raw trace that belong to features (peaks, spikes),
+ * so noise is measured elsewhere. Returns 1 for masked points.
  */
-export function noiseWindowsMedian(x: Float64Array, y: Float64Array, windowPoints = defaultNoiseWindow(x.length)): NoiseResult {
+export function featureMask(x: Float64Array, yRaw: Float64Array): Uint8Array {
+  const n = x.length;
+  const mask = new Uint8Array(n);
+  const r = noiseRobust(yRaw);
+  if (!r.ok || !(r.sigma > 0)) return mask;
+  const sigma = r.sigma;
+  const dx = (x[n - 1] - x[0]) / (n - 1);
+  const opts = { ...defaultPeakOptions(sigma, dx), minProminence: 6 * sigma, minSnr: 0, minWidth: 0 };
+  for (const sign of [1, -1]) {
+    const peaks = detectPeaks(x, yRaw, { ...opts, negative: sign < 0 });
+    for (const p of peaks) {
+      // A "peak" wider than a twentieth of the trace is baseline wander (on a sloping baseline its bases lie far apart), not a feature.
+      if (p.fwhmPoints > n / 20) continue;
+      // Noise alone rarely stands 6 σ above the line joining its bases; requiring it keeps noise wiggles unmasked.
+      if (Math.abs(p.height) < 6 * sigma) continue;
+      const w = Math.max(p.rightHalf - p.leftHalf, dx);
+      const a = lowerBound(x, p.leftHalf - 2 * w);
+      const b = lowerBound(x, p.rightHalf + 2 * w);
+      mask.fill(1, a, Math.min(n, b + 1));
+    }
+  }
+  const med = slidingMedian(yRaw, Math.min(7, n % 2 ? n : n - 1), 'nearest');
+  for (let i = 0; i < n; i++) if (Math.abs(yRaw[i] - med[i]) > 6 * sigma) mask.fill(1, Math.max(0, i - 3), Math.min(n, i + 4));
+  return mask;
+}
+
+/**
+ * Median, over the windows of `windowPoints` points that touch no masked
+ * point, of the SD about a straight line in each window (n − 2 degrees of
+ * freedom). `mask` must have the length of x (use {@link featureMask} on
+ * the raw trace, mapped to this grid); without a mask every window counts.
+ * @returns σ in y-units, or a problem when fewer than three quiet windows remain.
+ */
+export function noiseQuietWindows(x: Float64Array, y: Float64Array, mask?: Uint8Array, windowPoints = defaultNoiseWindow(x.length)): NoiseResult {
   const n = x.length;
   const w = Math.max(5, Math.floor(windowPoints));
   const count = Math.floor(n / w);
-  if (count < 3) {
-    return { ok: false, message: `The trace has ${n} points, too few for three noise windows of ${w} points; mark a quiet range instead.` };
-  }
-  const sds = new Float64Array(count);
+  const sds: number[] = [];
   for (let k = 0; k < count; k++) {
-    const r = noiseRms(x, y, x[k * w], x[k * w + w - 1]);
-    sds[k] = r.ok ? r.sigma : NaN;
+    const a = k * w, b = a + w - 1;
+    if (mask) {
+      let hit = false;
+      for (let i = a; i <= b; i++) if (mask[i]) { hit = true; break; }
+      if (hit) continue;
+    }
+    const r = noiseRms(x, y, x[a], x[b]);
+    if (r.ok && Number.isFinite(r.sigma)) sds.push(r.sigma);
   }
-  const sorted = Array.from(sds).filter(Number.isFinite).sort((a, b) => a - b);
-  if (sorted.length < 3) return { ok: false, message: 'The noise windows could not be measured; mark a quiet range instead.' };
-  const m = sorted.length;
-  const sigma = m % 2 ? sorted[(m - 1) / 2] : (sorted[m / 2 - 1] + sorted[m / 2]) / 2;
+  if (sds.length < 3) {
+    return { ok: false, message: `Only ${sds.length} stretch(es) of ${w} points are free of peaks, too few for an automatic noise estimate; mark a quiet range instead.` };
+  }
+  sds.sort((p, q) => p - q);
+  const m = sds.length;
+  const sigma = m % 2 ? sds[(m - 1) / 2] : (sds[m / 2 - 1] + sds[m / 2]) / 2;
   return {
-    ok: true, sigma, measure: 'sd', points: count * w, method: 'median-of-window-sd',
-    description: `Median, over ${count} windows of ${w} points, of the standard deviation about a straight line fitted in each window (windows holding peaks sit above the median). Valid after smoothing, unlike point-to-point differences.`,
+    ok: true, sigma, measure: 'sd', points: m * w, method: 'median-of-quiet-window-sd',
+    description: `Median, over ${m} peak-free windows of ${w} points (of ${count}), of the standard deviation about a straight line fitted in each window; peaks and spikes were located on the raw trace and left out. Valid after smoothing, unlike point-to-point differences.`,
   };
 }

@@ -1,5 +1,5 @@
 import type { StateCreator } from 'zustand';
-import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type NoiseSettings, type PeakSettings } from '../core/analyse.ts';
+import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, MAX_ALTERNATIVES, type AlternativeRequest, type NoiseSettings, type PeakSettings } from '../core/analyse.ts';
 import type { PeakDecisions } from '../core/peaks.ts';
 import type { AppState } from './store.ts';
 
@@ -19,6 +19,16 @@ export interface AnalysisSlice {
   clearDecisions: () => void;
   setAddPeakMode: (v: boolean) => void;
   selectPeak: (x: number | null) => void;
+  /** Other stacks kept beside the current one for the loss check. */
+  alternatives: AlternativeRequest[];
+  showAlternatives: boolean;
+  /** Add alternatives (up to the limit); returns how many were added. */
+  addAlternatives: (alts: AlternativeRequest[]) => number;
+  removeAlternative: (id: string) => void;
+  setShowAlternatives: (v: boolean) => void;
+  /** The user's confirmation of what the export loses (goes into the report). */
+  exportConfirmation: { at: string; sentences: string[] } | null;
+  confirmExport: (sentences: string[]) => void;
 }
 
 export const createAnalysisSlice: StateCreator<AppState, [], [], AnalysisSlice> = (set) => ({
@@ -40,4 +50,20 @@ export const createAnalysisSlice: StateCreator<AppState, [], [], AnalysisSlice> 
   clearDecisions: () => set({ decisions: { added: [], removed: [] } }),
   setAddPeakMode: (addPeakMode) => set({ addPeakMode, markMode: false }),
   selectPeak: (selectedPeakX) => set({ selectedPeakX }),
+  alternatives: [],
+  showAlternatives: true,
+  addAlternatives: (alts) => {
+    let added = 0;
+    set((s) => {
+      const room = MAX_ALTERNATIVES - s.alternatives.length;
+      const fresh = alts.filter((a) => !s.alternatives.some((b) => b.label === a.label)).slice(0, Math.max(0, room));
+      added = fresh.length;
+      return { alternatives: [...s.alternatives, ...fresh] };
+    });
+    return added;
+  },
+  removeAlternative: (id) => set((s) => ({ alternatives: s.alternatives.filter((a) => a.id !== id) })),
+  setShowAlternatives: (showAlternatives) => set({ showAlternatives }),
+  exportConfirmation: null,
+  confirmExport: (sentences) => set({ exportConfirmation: { at: new Date().toISOString(), sentences } }),
 });

@@ -2,6 +2,7 @@ import { useCallback, useEffect, useRef, useState } from 'react';
 import { useApp } from '../state/store.ts';
 import { loadDemo, openFiles } from './controller.ts';
 import { Notices } from './Notices.tsx';
+import { LossPanel } from './LossPanel.tsx';
 import { NoisePanel } from './NoisePanel.tsx';
 import { PeakTable } from './PeakTable.tsx';
 import { ResidualPanel } from './ResidualPanel.tsx';
@@ -93,6 +94,7 @@ export function App() {
           </section>
           <ResidualPanel />
           <PeakTable />
+          <LossPanel />
           <NoisePanel />
         </div>
       </main>

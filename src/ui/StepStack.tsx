@@ -3,6 +3,7 @@ import { STEP_REGISTRY, stepDefinition } from '../core/steps/registry.ts';
 import { meanStep } from '../core/numeric/interpolate.ts';
 import { useApp } from '../state/store.ts';
 import { ParamControl } from './ParamControl.tsx';
+import { windowVariants } from './alternatives.ts';
 
 const NO_RUNS: never[] = [];
 
@@ -12,7 +13,8 @@ export function StepStack() {
   const runs = useApp((s) => s.result?.runs) ?? NO_RUNS;
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const showUid = useApp((s) => s.showUid);
-  const { addStep, removeStep, moveStep, toggleStep, setParam, undo, redo, setShowUid } = useApp.getState();
+  const { addStep, removeStep, moveStep, toggleStep, setParam, undo, redo, setShowUid, addAlternatives } = useApp.getState();
+  const advice = useApp((s) => s.result?.loss?.advice);
   const canUndo = useApp((s) => s.past.length > 0);
   const canRedo = useApp((s) => s.future.length > 0);
   const [choice, setChoice] = useState(STEP_REGISTRY[0]?.id ?? '');
@@ -87,6 +89,10 @@ export function StepStack() {
                   <ParamControl key={spec.key} spec={spec} value={entry.params[spec.key]} dx={dx} xUnit={sample?.xUnit ?? ''} onChange={(v) => setParam(entry.uid, spec.key, v)} />
                 ))}
               </div>
+              {def.params.some((p) => p.key === 'window') && (
+                <button type="button" className="link" onClick={() => addAlternatives(windowVariants(recipe, entry.uid))}>compare half and double window</button>
+              )}
+              {advice?.filter((a) => a.uid === entry.uid && a.advice.warning).map((a) => <p key={a.uid} className="step-problem">{a.advice.warning}</p>)}
               {run?.status === 'error' && <p className="step-problem" role="alert">{run.message}</p>}
               {run?.status === 'ok' && (
                 <div className="step-notes">

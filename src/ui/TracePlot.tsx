@@ -3,7 +3,8 @@ import type { PlotData, PlotLayout } from 'plotly.js-strict-dist-min';
 import { decimateMinMax } from '../core/numeric/decimate.ts';
 import { axisLabel } from '../core/trace.ts';
 import { useApp } from '../state/store.ts';
-import { COLOURS } from './palette.ts';
+import { ALTERNATIVE_COLOURS, COLOURS } from './palette.ts';
+import { interpolateLinear } from '../core/numeric/interpolate.ts';
 import { PlotlyFigure } from './PlotlyFigure.tsx';
 
 /** Plot width in pixel columns used for decimation (two points per column). */
@@ -29,6 +30,8 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
   const xRange = useApp((s) => s.xRange);
   const showRaw = useApp((s) => s.showRaw);
+  const showAlt = useApp((s) => s.showAlternatives);
+  const altList = useApp((s) => s.alternatives);
   const setXRange = useApp((s) => s.setXRange);
   const markMode = useApp((s) => s.markMode);
   const setMarked = useApp((s) => s.setMarkedRange);
@@ -56,6 +59,29 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       if (result.intermediate) {
         const d = decimateMinMax(result.intermediate.x, result.intermediate.y, from, to, cols);
         traces.push({ type: 'scatter', mode: 'lines', name: 'chosen step output', x: arr(d.x), y: arr(d.y), line: { color: COLOURS.intermediate, width: 1.2, dash: 'dot' }, xaxis: 'x', yaxis: 'y' });
+      }
+      if (showAlt && result.loss) {
+        result.loss.outcomes.forEach((o) => {
+          const i = altList.findIndex((a) => a.id === o.id);
+          const d = decimateMinMax(o.processed.x, o.processed.y, from, to, cols);
+          traces.push({ type: 'scatter', mode: 'lines', name: o.label, x: arr(d.x), y: arr(d.y), line: { color: ALTERNATIVE_COLOURS[(i < 0 ? 0 : i) % ALTERNATIVE_COLOURS.length], width: 1.2, dash: ['dash', 'dot', 'dashdot', 'longdash', 'longdashdot', 'solid'][(i < 0 ? 0 : i) % 6] }, xaxis: 'x', yaxis: 'y' });
+        });
+      }
+      if (result.loss) {
+        // Features detectable on the raw trace that some column loses: marked where they were found.
+        const lost = result.loss.ledger.rows.filter((r) => r.cells[0].found && (r.cells[0].standing === 'detectable' || r.cells[0].standing === 'quantifiable') && r.cells.some((c) => !c.found));
+        if (lost.length) {
+          const lx = Float64Array.from(lost.map((r) => r.position));
+          const ly = interpolateLinear(sample.x, sample.y, lx);
+          traces.push({
+            type: 'scatter', mode: 'markers', name: 'features lost by some choice',
+            x: arr(lx), y: arr(ly),
+            text: lost.map((r) => `lost with: ${r.cells.map((c, k) => (c.found ? null : result.loss!.ledger.alternatives[k].label)).filter(Boolean).join(', ')}`),
+            hoverinfo: 'x+text',
+            marker: { symbol: 'circle-open', size: 22, color: '#c0392b', line: { width: 2.5, color: '#c0392b' } },
+            xaxis: 'x', yaxis: 'y',
+          });
+        }
       }
       const p = decimateMinMax(result.processed.x, result.processed.y, from, to, cols);
       traces.push({ type: 'scatter', mode: 'lines', name: 'processed', x: arr(p.x), y: arr(p.y), line: { color: COLOURS.processed, width: 1.8 }, xaxis: 'x', yaxis: 'y' });
@@ -87,7 +113,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       traces.push({ type: 'scatter', mode: 'lines', name: 'residual (raw − processed)', x: arr(r.x), y: arr(r.y), line: { color: COLOURS.residual, width: 1 }, xaxis: 'x', yaxis: 'y2' });
     }
     return traces;
-  }, [sample, result, xRange, showRaw, width]);
+  }, [sample, result, xRange, showRaw, width, showAlt, altList]);
 
   const layout = useMemo<PlotLayout>(() => {
     const xTitle = sample ? axisLabel(sample.xName, sample.xUnit) : 'x';

@@ -117,6 +117,7 @@ function buildRequest(): AnalyseRequest | null {
     noise: s.noiseSettings,
     peaks: s.peakSettings,
     decisions: s.decisions,
+    alternatives: s.alternatives,
   };
 }
 
@@ -154,7 +155,7 @@ export function startController(): () => void {
       return;
     }
     if (s.recipe !== prev.recipe || s.sampleId !== prev.sampleId || s.roles !== prev.roles || s.showUid !== prev.showUid
-      || s.noiseSettings !== prev.noiseSettings || s.peakSettings !== prev.peakSettings || s.decisions !== prev.decisions) requestAnalysis();
+      || s.noiseSettings !== prev.noiseSettings || s.peakSettings !== prev.peakSettings || s.decisions !== prev.decisions || s.alternatives !== prev.alternatives) requestAnalysis();
   });
   return unsub;
 }

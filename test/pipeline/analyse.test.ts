@@ -21,10 +21,11 @@ describe('analyse', () => {
     const r = analyse({ sampleId: t.id, scanIds: [], recipe: emptyRecipe() }, new Map([[t.id, t]]), STEP_REGISTRY);
     expect(r.residual.y.every((v) => v === 0)).toBe(true);
     expect(r.diagnostics).toBeNull();
-    expect(r.noise!.sigma.method).toBe('median-of-window-sd');
+    expect(r.noise!.sigma.method).toBe('median-of-quiet-window-sd');
     expect(Math.abs(r.noise!.sigma.sigma - 0.1)).toBeLessThan(0.01);
     const big = r.peaks.find((p) => Math.abs(p.x - 7) < 0.02)!;
-    const small = r.peaks.find((p) => Math.abs(p.x - 14) < 0.02)!;
+    // The small peak is broad (σ = 10 points) and noisy at its top: its apex may wander a few points.
+    const small = r.peaks.find((p) => Math.abs(p.x - 14) < 0.05)!;
     // True S/N: 10/0.1 = 100 and 0.8/0.1 = 8; heights within 3σ of the noise, σ estimate within 10 %.
     expect(big.snrRms).toBeGreaterThan(85);
     expect(big.snrRms).toBeLessThan(115);

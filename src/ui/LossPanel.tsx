@@ -1,0 +1,135 @@
+import type { LedgerCell } from '../core/loss.ts';
+import { useApp } from '../state/store.ts';
+import { presetAlternative, PRESETS } from './alternatives.ts';
+import { num, FLAG_WORDS } from './format.ts';
+import { ALTERNATIVE_COLOURS } from './palette.ts';
+import { MAX_ALTERNATIVES } from '../core/analyse.ts';
+import { useState } from 'react';
+
+function standingText(c: LedgerCell): string {
+  if (!c.found) return 'lost';
+  return `${FLAG_WORDS[c.standing] ?? c.standing}, S/N ${num(c.snr, 3)}`;
+}
+
+function pct(v: number | null, signed = false): string {
+  if (v === null) return '—';
+  const s = v.toFixed(Math.abs(v) < 10 ? 1 : 0);
+  return `${signed && v > 0 ? '+' : ''}${s} %`;
+}
+
+/** The loss check: alternatives side by side, the survival ledger, window advice. */
+export function LossPanel() {
+  const loss = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result.loss : null));
+  const alternatives = useApp((s) => s.alternatives);
+  const recipe = useApp((s) => s.recipe);
+  const showAlt = useApp((s) => s.showAlternatives);
+  const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
+  const { addAlternatives, removeAlternative, setShowAlternatives, notify } = useApp.getState();
+  const [allRows, setAllRows] = useState(false);
+  const xu = sample?.xUnit ?? '';
+  const full = alternatives.length >= MAX_ALTERNATIVES;
+  const rows = loss ? loss.ledger.rows.filter((r) => allRows || r.cells.some((c) => c.standing === 'detectable' || c.standing === 'quantifiable')) : [];
+  const hidden = loss ? loss.ledger.rows.length - rows.length : 0;
+  return (
+    <section className="panel" aria-labelledby="loss-title" data-testid="loss-panel">
+      <div className="panel-head">
+        <h2 id="loss-title">What each choice keeps</h2>
+        <label className="switch"><input type="checkbox" checked={showAlt} onChange={(e) => setShowAlternatives(e.target.checked)} /> overlay alternatives</label>
+      </div>
+      <p className="small muted">
+        Compare the raw trace, the current stack and up to {MAX_ALTERNATIVES} alternative stacks, measured with the same noise and peak settings.
+        Features are matched by apex position; changes are against the raw trace.
+      </p>
+      <div className="row preset-row">
+        <span className="small">Add:</span>
+        {PRESETS.map((p) => (
+          <button key={p.label} type="button" disabled={full} onClick={() => {
+            const alt = presetAlternative(recipe, p);
+            if (alt && addAlternatives([alt]) === 0) notify('info', `“${alt.label}” is already in the comparison.`);
+          }}>{p.label}</button>
+        ))}
+      </div>
+      {alternatives.length > 0 && (
+        <ul className="alt-list">
+          {alternatives.map((a, i) => {
+            const o = loss?.outcomes.find((x) => x.id === a.id);
+            return (
+              <li key={a.id}>
+                <span className="chip" style={{ background: ALTERNATIVE_COLOURS[i % ALTERNATIVE_COLOURS.length] }} aria-hidden="true" />
+                <strong>{a.label}</strong>
+                {o && <span className="small"> · σ {num(o.noiseSigma)} · {o.peakCount} peaks · {o.diagnostics ? o.diagnostics.verdict : 'nothing removed'}</span>}
+                {o?.problems.map((p, k) => <span key={k} className="small warn-text"> · {p}</span>)}
+                <button type="button" className="link danger" onClick={() => removeAlternative(a.id)} aria-label={`Remove alternative ${a.label}`}>remove</button>
+              </li>
+            );
+          })}
+        </ul>
+      )}
+      {loss && loss.advice.length > 0 && (
+        <div className="advice">
+          <h3>Window advice</h3>
+          <p className="small muted">Narrowest detected peak: half-height width {num(loss.narrowestFwhmPoints, 3)} points on the raw trace.</p>
+          <ul>
+            {loss.advice.map((a) => (
+              <li key={a.uid} className={a.advice.warning ? 'warn-text' : ''}>
+                {a.stepLabel}: window = {a.advice.ratio.toFixed(2)} × that width; a Gaussian that narrow keeps {(100 * a.advice.expectedHeightKept).toFixed(1)} % of its height.
+                {a.advice.warning ? ` ${a.advice.warning}` : ''} <span className="muted">({a.advice.rule})</span>
+              </li>
+            ))}
+          </ul>
+        </div>
+      )}
+      {loss && (
+        <>
+          {loss.currentWarnings.length > 0 ? (
+            <div className="notice notice-warning" data-testid="loss-warnings">
+              <strong>The current stack loses or weakens {loss.currentWarnings.length} feature{loss.currentWarnings.length === 1 ? '' : 's'}:</strong>
+              <ul>{loss.currentWarnings.map((s, i) => <li key={i}>{s}</li>)}</ul>
+            </div>
+          ) : (
+            <p className="verdict ok">No feature found on the raw trace at or above the detection limit is lost or weakened by the current stack.</p>
+          )}
+          {loss.ledger.sentences.length > 0 && (
+            <details>
+              <summary>{loss.ledger.sentences.length} change{loss.ledger.sentences.length === 1 ? '' : 's'} across all columns</summary>
+              <ul className="small">{loss.ledger.sentences.map((s, i) => <li key={i}>{s}</li>)}</ul>
+            </details>
+          )}
+          <div className="table-wrap">
+            <table className="data ledger" data-testid="ledger">
+              <caption className="sr-only">Survival of each feature under each processing choice</caption>
+              <thead>
+                <tr>
+                  <th scope="col">Feature at{xu ? ` (${xu})` : ''}</th>
+                  {loss.ledger.alternatives.map((a) => <th scope="col" key={a.id}>{a.label}</th>)}
+                </tr>
+              </thead>
+              <tbody>
+                {rows.map((r) => (
+                  <tr key={r.position} className={r.crossed ? 'crossed' : ''}>
+                    <th scope="row">{num(r.position, 5)}</th>
+                    {r.cells.map((c, i) => (
+                      <td key={i} className={`cell-${c.found ? c.standing : 'lost'} ${c.crossed === 'down' ? 'down' : ''}`}>
+                        <div>{standingText(c)}</div>
+                        {i > 0 && c.found && r.cells[0].found && (
+                          <div className="small muted">height {pct(c.heightKept)} · width {pct(c.widthChange, true)} · shift {num(c.apexShiftPoints, 2)} pt · area {pct(c.areaChange, true)}</div>
+                        )}
+                      </td>
+                    ))}
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+          {hidden > 0 && (
+            <button type="button" className="link" onClick={() => setAllRows(!allRows)}>
+              {allRows ? 'hide' : 'show'} {hidden} noise-level candidate{hidden === 1 ? '' : 's'} (below the detection limit everywhere)
+            </button>
+          )}
+          <p className="hint">{loss.ledger.rule}</p>
+        </>
+      )}
+      {!loss && <p className="muted">Add a step or an alternative to see what each choice keeps.</p>}
+    </section>
+  );
+}
