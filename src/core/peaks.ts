@@ -84,7 +84,10 @@ export interface PeakOptions {
 export interface Peak {
   /** Sample index of the apex. */
   readonly index: number;
-  /** Apex position refined by a parabola through the three top samples (actual x values). */
+  /**
+   * Apex position: vertex of the parabola through the three top samples (actual x values);
+   * for peaks wider than 6 samples at half height, of a least-squares parabola over ±FWHM/3.
+   */
   readonly x: number;
   /** y at the apex sample (the data, not the parabola). */
   readonly y: number;
@@ -815,14 +818,20 @@ export function defaultPeakOptions(noiseSigma: number, dx = 1): PeakOptions {
  * prominence — here it comes last so noise wiggles cannot suppress a real
  * peak before they are themselves discarded).
  *
- * Per peak: apex refined by a parabola through the three top samples;
- * height above the line joining the prominence bases; FWHM at half
+ * Per peak: apex refined by a parabola through the three top samples (a
+ * least-squares parabola over ±FWHM/3 on peaks wider than 6 samples, where
+ * three noisy samples would let the noise pick the apex); height of the
+ * apex level above the line through the prominence bases' levels (each
+ * averaged with the samples beyond it, so noise minima do not lower it, by
+ * at most 3σ so a neighbouring peak's flank cannot lift it); FWHM at half
  * prominence (SciPy peak_widths, rel_height 0.5) converted to x by linear
  * interpolation; integration bounds from the apex to the lowest point
- * before the prominence base or the neighbouring peak, area above the chord
- * by the trapezoid rule; S/N as H/σ, 2H/h (USP <621>, Ph. Eur. 2.2.46; h on
- * the blank when given, else on the trace itself and labelled so) and, when
- * asked, region mean / SD. Candidates below the detection limit are kept
+ * before the prominence base or the neighbouring peak, area above the line
+ * through the bounds' levels by the trapezoid rule; S/N as H/σ, 2H/h (USP
+ * <621>, Ph. Eur. 2.2.46; h over multiplier × FWHM centred on the apex of
+ * the blank when given, else on the trace itself from two stretches
+ * starting 1.5 FWHM either side of the apex, detrended, and labelled so)
+ * and, when asked, region mean / SD. Candidates below the detection limit are kept
  * and flagged. Returns peaks in ascending x. Never changes x or y.
  * @throws RangeError for unequal lengths, fewer than 3 points, or
  *   thresholds that are negative or not numbers (message says which).
