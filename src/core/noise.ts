@@ -173,8 +173,8 @@ function select(a: Float64Array, k: number): number {
   return a[k];
 }
 
-/** Median of a scratch array (reorders it). Even length: mean of the two middle values. */
-export function medianInPlace(a: Float64Array): number {
+/** Median of a scratch array (reorders it, so only for arrays made here). Even length: mean of the two middle values. */
+function medianInPlace(a: Float64Array): number {
   const n = a.length;
   const hi = select(a, n >> 1);
   if (n % 2 === 1) return hi;

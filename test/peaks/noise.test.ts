@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { noisePeakToPeak, noiseRangeAround, noiseRms, noiseRobust, medianInPlace, type NoiseResult, type NoiseEstimate } from '../../src/core/noise.ts';
+import { noisePeakToPeak, noiseRangeAround, noiseRms, noiseRobust, type NoiseResult, type NoiseEstimate } from '../../src/core/noise.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';
 
 function ok(r: NoiseResult): NoiseEstimate {
@@ -100,10 +100,10 @@ describe('noiseRobust (1.4826 × MAD of first differences / √2)', () => {
     expect(Math.abs(ok(noiseRobust(peaky)).sigma / sigma - 1)).toBeLessThan(0.1);
   });
 
-  it('median helper: odd and even lengths', () => {
-    expect(medianInPlace(Float64Array.of(5, 1, 3))).toBe(3);
-    expect(medianInPlace(Float64Array.of(4, 1, 3, 2))).toBe(2.5);
-    expect(medianInPlace(Float64Array.of(2, 2, 2, 2, 2, 2))).toBe(2);
+  it('odd number of differences: y 0,2,3,7 → differences 2,1,4, median 2, deviations 0,1,2 → MAD 1', () => {
+    expect(ok(noiseRobust(Float64Array.of(0, 2, 3, 7))).sigma).toBeCloseTo(1.4826 / Math.SQRT2, 12);
+    // Constant differences (a straight line): MAD 0, no noise.
+    expect(ok(noiseRobust(Float64Array.of(1, 2, 3, 4, 5, 6))).sigma).toBe(0);
   });
 
   it('too short a trace is a problem, not a crash', () => {
