@@ -77,7 +77,8 @@ const PEAK_LIST = [
   { label: 'near quantitation limit', centre: 2.6, height: 0.5, sigma: 0.05 },
   { label: 'large isolated peak', centre: 4.3, height: 8.0, sigma: 0.08 },
   { label: 'main peak carrying the shoulder', centre: 6.0, height: 3.0, sigma: 0.1 },
-  { label: 'shoulder', centre: 6.25, height: 0.2, sigma: 0.06 },
+  // 3.5 main-peak σ out, on the main peak's tail: shallow enough there that the shoulder keeps a top of its own.
+  { label: 'shoulder', centre: 6.35, height: 0.22, sigma: 0.05 },
   { label: 'broad late peak', centre: 8.5, height: 1.2, sigma: 0.15 },
 ];
 
