@@ -330,6 +330,7 @@ const SESSION_KEYS: readonly (keyof SessionSnapshot)[] = ['traces', 'roles', 'sa
  * Save the session about `delayMs` after the last change to any part it
  * keeps (one save at a time; a change during a save leads to one more).
  * A failed save is reported once in the notices until a save succeeds.
+ * When the store already holds traces, a first save is scheduled at once.
  * @returns a function that stops the autosave.
  */
 export function startSessionAutosave(store: SessionStore, delayMs = 1000): () => void {
@@ -357,6 +358,8 @@ export function startSessionAutosave(store: SessionStore, delayMs = 1000): () =>
     if (stopped) return;
     if (SESSION_KEYS.some((k) => s[k] !== prev[k])) schedule();
   });
+  // Whatever was loaded before the autosave started is kept too.
+  if (store.getState().traces.length > 0) schedule();
   return () => {
     unsub();
     if (timer !== null) clearTimeout(timer);
