@@ -158,7 +158,8 @@ describe('demo data', () => {
     expect(shoulder.trueSn).toBeLessThanOrEqual(5);
     const host = truth.peaks.filter((p) => p !== shoulder).sort((a, b) => Math.abs(a.centre - shoulder.centre) - Math.abs(b.centre - shoulder.centre))[0];
     expect(host.height).toBeGreaterThan(5 * shoulder.height);
-    expect(Math.abs(host.centre - shoulder.centre)).toBeLessThan(3 * host.sigma);
+    // On the host peak's tail (within 4 host σ), where the host still lifts the baseline under it.
+    expect(Math.abs(host.centre - shoulder.centre)).toBeLessThan(4 * host.sigma);
     const nearLoq = truth.peaks.find((p) => p.label === 'near quantitation limit')!;
     // Detection S/N 3 and quantitation S/N 10 are the usual limits (ICH Q2(R1), from memory; USP <621>).
     expect(nearLoq.trueSn).toBeGreaterThanOrEqual(8);
