@@ -7,10 +7,15 @@ import { openWithDemo, trace } from './helpers.ts';
 const CAUTION = "This is not a validated system; the laboratory's own procedures, validated methods and regulators' requirements govern.";
 const DEMO_SHA = createHash('sha256').update(readFileSync('public/demo/demo-sample.csv')).digest('hex');
 
-async function download(page: Page, testId: string): Promise<{ d: Download; bytes: Buffer }> {
-  const [d] = await Promise.all([page.waitForEvent('download'), page.getByTestId(testId).click()]);
-  const path = await d.path();
-  return { d, bytes: readFileSync(path) };
+/** Click an export button; when the loss check asks for a confirmation, give it. */
+async function download(page: Page, testId: string): Promise<{ d: Download; bytes: Buffer; confirmed: boolean }> {
+  const waiting = page.waitForEvent('download');
+  await page.getByTestId(testId).click();
+  const dialog = page.getByTestId('loss-confirm');
+  const confirmed = await dialog.waitFor({ timeout: 1500 }).then(() => true, () => false);
+  if (confirmed) await dialog.getByRole('button', { name: 'Export anyway' }).click();
+  const d = await waiting;
+  return { d, bytes: readFileSync(await d.path()), confirmed };
 }
 
 function text(bytes: Buffer): string {
@@ -43,9 +48,11 @@ test('peak table CSV has one row per row of the page table, and the report holds
   expect(peaks).toContain('# S/N definition in use:');
   expect(peaks.split('\r\n').filter((l) => l !== '' && !l.startsWith('#')).length - 1).toBe(pageRows);
 
-  const { d, bytes } = await download(page, 'export-report');
+  const { d, bytes, confirmed } = await download(page, 'export-report');
   expect(d.suggestedFilename()).toBe('demo-sample-report.html');
   const html = text(bytes);
+  // A confirmation given before the export is written into the report.
+  if (confirmed) expect(html).toContain('Export confirmed at');
   expect(html).toContain(CAUTION);
   expect(html).toContain(DEMO_SHA);
   expect(html).toContain('"format": "tracewright-recipe"');

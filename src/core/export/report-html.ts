@@ -37,6 +37,7 @@ export interface ReportInput {
   result: AnalyseResult;
   recipe: Recipe;
   registry: Registry;
+  /** Default: the result's own loss check ledger, when it has one. */
   ledger?: LossLedgerLike | null;
   confirmation?: ExportConfirmation | null;
   /** Pictures of the page's plots: a data: URL of a PNG or SVG, or SVG text. */
@@ -133,10 +134,11 @@ export function svgLinePlot(series: readonly Series[], xLabel: string, yLabel: s
   const parts: string[] = [];
   parts.push(`<svg class="plot" viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-label="${escapeHtml(title)}">`);
   parts.push(`<rect x="${L}" y="${T}" width="${W - L - R}" height="${H - T - B}" fill="#fff" stroke="#888"/>`);
+  const tick = (v: number) => escapeText(String(Number(v.toPrecision(3))));
   for (let k = 0; k <= 4; k++) {
     const xv = x0 + ((x1 - x0) * k) / 4, yv = y0 + ((y1 - y0) * k) / 4;
-    parts.push(`<text x="${px(xv).toFixed(1)}" y="${H - B + 16}" font-size="11" text-anchor="middle">${fmt(xv)}</text>`);
-    parts.push(`<text x="${L - 6}" y="${(py(yv) + 4).toFixed(1)}" font-size="11" text-anchor="end">${fmt(yv)}</text>`);
+    parts.push(`<text x="${px(xv).toFixed(1)}" y="${H - B + 16}" font-size="11" text-anchor="middle">${tick(xv)}</text>`);
+    parts.push(`<text x="${L - 6}" y="${(py(yv) + 4).toFixed(1)}" font-size="11" text-anchor="end">${tick(yv)}</text>`);
     parts.push(`<line x1="${L}" x2="${W - R}" y1="${py(yv).toFixed(1)}" y2="${py(yv).toFixed(1)}" stroke="#eee"/>`);
   }
   parts.push(`<text x="${(L + W - R) / 2}" y="${H - 6}" font-size="12" text-anchor="middle">${escapeText(xLabel)}</text>`);
@@ -195,8 +197,9 @@ a{color:inherit;text-decoration:none}.caution{-webkit-print-color-adjust:exact;p
  * @throws RangeError when there is no analysed trace or `now` is not a valid date.
  */
 export function reportHtml(input: ReportInput): string {
-  const { trace, result, recipe, registry, ledger, confirmation, now } = input;
+  const { trace, result, recipe, registry, confirmation, now } = input;
   if (!trace || !result) throw new RangeError('There is no analysed trace to report yet; load a trace and wait for the analysis.');
+  const ledger: LossLedgerLike | null = input.ledger ?? result.loss?.ledger ?? null;
   const version = input.version ?? TOOL_LABEL;
   const when = exportTime(now);
   const xLabel = axisLabel(trace.xName, trace.xUnit);

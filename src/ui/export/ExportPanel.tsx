@@ -19,9 +19,9 @@ interface Props {
   /** The main plot's element (for pictures); the first figure on the page is used when absent. */
   figure?: HTMLElement | null;
   getFigure?: () => HTMLElement | null;
-  /** Lost or weakened features from the loss check; exports ask for a confirmation when non-empty. */
+  /** Lost or weakened features; exports ask for a confirmation when non-empty. Default: the result's loss check (currentWarnings). */
   lossSentences?: string[];
-  /** The loss ledger to write into the report. */
+  /** The loss ledger to write into the report. Default: the result's loss check ledger. */
   ledger?: LossLedgerLike | null;
 }
 
@@ -50,7 +50,9 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
   const recipeInput = useRef<HTMLInputElement>(null);
   const batchInput = useRef<HTMLInputElement>(null);
   const ready = !!(sample && result);
-  const losses = lossSentences ?? [];
+  // The loss check's own list and ledger are used unless the page passes others.
+  const losses = lossSentences ?? result?.loss?.currentWarnings ?? [];
+  const ledgerOut: LossLedgerLike | null = ledger ?? result?.loss?.ledger ?? null;
   const stem = sample ? zipBaseName(sample.source.fileName) : 'trace';
 
   const notify = (kind: 'info' | 'warning' | 'error', title: string, lines: string[] = []) => useApp.getState().notify(kind, title, lines);
@@ -71,7 +73,7 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
         if (el) {
           try { main = await Plotly.toImage(el, { format: 'svg', width: 1100, height: 560 }); } catch { main = undefined; }
         }
-        const html = reportHtml({ trace: sample, result, recipe, registry: STEP_REGISTRY, ledger: ledger ?? null, confirmation: confirmed, plotImages: { main }, now });
+        const html = reportHtml({ trace: sample, result, recipe, registry: STEP_REGISTRY, ledger: ledgerOut, confirmation: confirmed, plotImages: { main }, now });
         downloadText(html, `${stem}-report.html`, 'text/html;charset=utf-8');
       }
     } catch (e) {
@@ -164,7 +166,7 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
   return (
     <section className="panel export-panel" aria-labelledby="export-title" data-testid="export-panel">
       <h2 id="export-title">Results out</h2>
-      <div className="row">
+      <div className="row" style={{ margin: "6px 0" }}>
         <label>Delimiter{' '}
           <select value={delimiter} data-testid="csv-delimiter" onChange={(e) => {
             const d = e.target.value as CsvDelimiter;
@@ -186,7 +188,7 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
           </select>
         </label>
       </div>
-      <div className="row">
+      <div className="row" style={{ margin: "6px 0" }}>
         <button type="button" disabled={!ready} data-testid="export-cleaned-csv" onClick={() => request('cleaned')}>Cleaned trace (CSV)</button>
         <button type="button" disabled={!ready} data-testid="export-peaks-csv" onClick={() => request('peaks')}>Peak table (CSV)</button>
         <button type="button" disabled={!ready} data-testid="export-report" onClick={() => request('report')}>Report (HTML)</button>
@@ -200,14 +202,14 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
           <p id="loss-confirm-title"><strong>The processing lost or weakened these features:</strong></p>
           <ul>{losses.map((s, i) => <li key={i}>{s}</li>)}</ul>
           <p className="small">If you export anyway, the time and this list are written into the report.</p>
-          <div className="row">
+          <div className="row" style={{ margin: "6px 0" }}>
             <button type="button" className="primary" onClick={confirmPending}>Export anyway</button>
             <button type="button" onClick={() => setPending(null)}>Cancel</button>
           </div>
         </div>
       )}
       {confirmation && <p className="small muted">Confirmed at {confirmation.at instanceof Date ? confirmation.at.toLocaleTimeString() : confirmation.at}: {confirmation.sentences.length} lost or weakened feature(s) acknowledged.</p>}
-      <div className="row">
+      <div className="row" style={{ margin: "6px 0" }}>
         <button type="button" data-testid="save-recipe" onClick={() => downloadText(`${recipeToJson(recipe)}\n`, 'tracewright-recipe.json', 'application/json')}>Save recipe</button>
         <button type="button" onClick={() => recipeInput.current?.click()}>Load recipe…</button>
         <input ref={recipeInput} type="file" accept=".json,application/json" className="sr-only" data-testid="recipe-input" aria-label="Load a recipe file"
@@ -228,7 +230,7 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
           <ul className="small">{batchErrors.map((e, i) => <li key={i}><strong>{e.file}</strong>: {e.message}</li>)}</ul>
         </div>
       )}
-      <div className="row">
+      <div className="row" style={{ margin: "6px 0" }}>
         {askStartOver ? (
           <>
             <span className="small">Empty the saved session (traces, stack, decisions) and reload the page?</span>
