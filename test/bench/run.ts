@@ -290,7 +290,7 @@ function benchCsv(dir: string, runs: number): CsvResult {
   const n = 1_000_000;
   const tr = makeBenchTrace(n, SEED + 7);
   const parts: string[] = ['time (min),signal (mV)\n'];
-  for (let i = 0; i < n; i++) parts.push(`${tr.x[i].toFixed(4)},${tr.y[i].toFixed(7)}\n`);
+  for (let i = 0; i < n; i++) parts.push(`${tr.x[i].toFixed(5)},${tr.y[i].toFixed(7)}\n`);
   const file = join(dir, 'million.csv');
   writeFileSync(file, parts.join(''));
   const bytes = new Uint8Array(readFileSync(file));
