@@ -2,6 +2,8 @@ import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
 import { App } from './ui/App.tsx';
 import { loadDemo, startController } from './ui/controller.ts';
+import { restoreSession, startSessionAutosave } from './ui/export/session-db.ts';
+import { useApp } from './state/store.ts';
 import './ui/styles.css';
 
 startController();
@@ -10,4 +12,11 @@ createRoot(document.getElementById('root')!).render(
     <App />
   </StrictMode>,
 );
-void loadDemo();
+// A session kept from the last visit comes back; otherwise the demo opens. Autosave starts after either.
+void restoreSession(useApp)
+  .catch(() => false)
+  .then(async (restored) => {
+    // Autosave first, so a file dropped while the demo is still loading is kept too.
+    startSessionAutosave(useApp);
+    if (!restored) await loadDemo();
+  });

@@ -108,7 +108,7 @@ export interface LossReport {
   /** Column 0 is the raw trace (reference), column 1 the current stack, then the alternatives. */
   ledger: Ledger;
   outcomes: AlternativeOutcome[];
-  /** Narrowest half-height width among the reference's detectable peaks (points), when any. */
+  /** Narrowest half-height width among the reference's quantifiable peaks (detectable when none), in points. */
   narrowestFwhmPoints: number | null;
   advice: WindowAdviceRow[];
   /** Features the current stack loses or weakens against the raw trace: what the export asks the user to confirm. */
@@ -304,8 +304,10 @@ function lossCheck(
   }
   const limits = { detection: ps.detectionLimit, quantitation: ps.quantitationLimit };
   const ledger = matchPeaks(columns, { dx: meanStep(raw.x), xUnit: sample.xUnit, limits });
-  // Narrowest real peak: among the reference's peaks at or above the detection limit.
-  const real = reference.peaks.filter((p) => p.flag === 'detectable' || p.flag === 'quantifiable');
+  // Narrowest real peak: among the reference's quantifiable peaks (noise wiggles that just pass S/N 3 are
+  // narrow by nature and would make every window look too wide); detectable ones only when none is quantifiable.
+  const quant = reference.peaks.filter((p) => p.flag === 'quantifiable');
+  const real = quant.length ? quant : reference.peaks.filter((p) => p.flag === 'detectable');
   const dxRaw = meanStep(raw.x);
   const narrowest = real.length ? Math.min(...real.map((p) => p.fwhm / dxRaw)) : null;
   const advice: WindowAdviceRow[] = [];
@@ -323,7 +325,7 @@ function lossCheck(
     if (!ref.found || (ref.standing !== 'quantifiable' && ref.standing !== 'detectable')) continue;
     if (!cur.found) currentWarnings.push(`The feature at ${where(row.position)} (S/N ${ref.snr?.toFixed(1)} raw) is lost with the current stack.`);
     else if (cur.crossed === 'down') currentWarnings.push(`The feature at ${where(row.position)} falls from ${ref.standing} (S/N ${ref.snr?.toFixed(1)}) to ${cur.standing.replace('-', ' ')} (S/N ${cur.snr?.toFixed(1)}) with the current stack.`);
-    else if (cur.heightKept !== null && cur.heightKept < 80) currentWarnings.push(`The feature at ${where(row.position)} keeps only ${cur.heightKept.toFixed(0)} % of its raw height with the current stack.`);
+    else if (ref.standing === 'quantifiable' && cur.heightKept !== null && cur.heightKept < 80) currentWarnings.push(`The feature at ${where(row.position)} keeps only ${cur.heightKept.toFixed(0)} % of its raw height with the current stack.`);
   }
   return { ledger, outcomes, narrowestFwhmPoints: narrowest, advice, currentWarnings };
 }

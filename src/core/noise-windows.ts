@@ -38,7 +38,7 @@ export function featureMask(x: Float64Array, yRaw: Float64Array): Uint8Array {
   const n = x.length;
   const mask = new Uint8Array(n);
   const r = noiseRobust(yRaw);
-  if (!r.ok || !(r.sigma > 0)) return mask;
+  if (!r.ok || !(r.sigma > 0) || !Number.isFinite(r.sigma)) return mask;
   const sigma = r.sigma;
   const dx = (x[n - 1] - x[0]) / (n - 1);
   const opts = { ...defaultPeakOptions(sigma, dx), minProminence: 6 * sigma, minSnr: 0, minWidth: 0 };

@@ -3,6 +3,7 @@ import { useApp } from '../state/store.ts';
 import { loadDemo, openFiles } from './controller.ts';
 import { Notices } from './Notices.tsx';
 import { LossPanel } from './LossPanel.tsx';
+import { ExportPanel } from './export/ExportPanel.tsx';
 import { NoisePanel } from './NoisePanel.tsx';
 import { PeakTable } from './PeakTable.tsx';
 import { ResidualPanel } from './ResidualPanel.tsx';
@@ -95,6 +96,7 @@ export function App() {
           <ResidualPanel />
           <PeakTable />
           <LossPanel />
+          <ExportPanel getFigure={() => figure.current} />
           <NoisePanel />
         </div>
       </main>

@@ -68,7 +68,7 @@ export function LossPanel() {
       {loss && loss.advice.length > 0 && (
         <div className="advice">
           <h3>Window advice</h3>
-          <p className="small muted">Narrowest detected peak: half-height width {num(loss.narrowestFwhmPoints, 3)} points on the raw trace.</p>
+          <p className="small muted">Narrowest quantifiable peak: half-height width {num(loss.narrowestFwhmPoints, 3)} points on the raw trace.</p>
           <ul>
             {loss.advice.map((a) => (
               <li key={a.uid} className={a.advice.warning ? 'warn-text' : ''}>

@@ -60,3 +60,17 @@ describe('analyse', () => {
     expect(Array.from(t.y)).toEqual(before);
   });
 });
+
+describe('analyse on extreme values', () => {
+  it('a trace with one value of -5.7e307 among zeros gives a result, not an exception', () => {
+    const y = new Array(200).fill(0);
+    y[100] = -5.7e307;
+    const t = createTrace({ name: 'x', x: y.map((_, i) => i), y, source: { fileName: 'x.csv', sha256: '0'.repeat(64), rowsRead: 200, rowsSkipped: 0 } });
+    const r = analyse({ sampleId: t.id, scanIds: [], recipe: emptyRecipe() }, new Map([[t.id, t]]), STEP_REGISTRY);
+    expect(r.processed.y.length).toBe(200);
+    // Every quiet window is exactly zero: S/N cannot be measured, and the page says why instead of failing.
+    expect(r.noise!.sigma.sigma).toBe(0);
+    expect(r.peaks).toEqual([]);
+    expect(r.peakProblem).toMatch(/noise is zero/);
+  });
+});
