@@ -96,7 +96,7 @@ export interface Peak {
    * Apex level: least-squares parabola through the samples within ±FWHM/6 (at least the
    * three top points). Baseline: straight line through the prominence bases, each base's
    * level averaged with the FWHM/2 samples beyond it so noise minima do not lower it
-   * (by at most 3σ and a quarter of the prominence).
+   * (by at most 3σ, and not at all where a neighbouring peak's flank rises beyond the base).
    */
   readonly height: number;
   /** SciPy prominence (always ≥ 0, on −y for troughs). */
@@ -474,36 +474,33 @@ function apexParabola(x: Float64Array, s: Float64Array, i: number): number {
  * and the q samples beyond it (away from the peak). A base is the lowest
  * sample of a stretch, so on noisy data its own value sits a few σ low;
  * averaging with its outer neighbours removes most of that bias, and using
- * the mean x as well keeps a straight baseline exact. The raise is limited
- * to `maxRaise` (see {@link baseRaiseLimit}): a base in a valley has a
- * neighbouring peak's flank beyond it, which must not lift the baseline.
+ * the mean x as well keeps a straight baseline exact. Two guards: the raise
+ * is at most 3σ (about the expected depth of the lowest of a few hundred
+ * normal samples); and when the farther half of those samples stands above
+ * the nearer half by more than noise explains (2 standard errors), the base
+ * is a valley with another peak's flank beyond it, and its own sample is
+ * the level.
  */
-function baseLevel(x: Float64Array, s: Float64Array, b: number, dir: -1 | 1, q: number, maxRaise: number): [number, number] {
+function baseLevel(x: Float64Array, s: Float64Array, b: number, dir: -1 | 1, q: number, sigma: number): [number, number] {
   let sx = 0, sy = 0, cnt = 0;
+  const h = q >> 1;
+  let near = 0, far = 0, nNear = 0, nFar = 0;
   for (let j = 0; j <= q; j++) {
     const i = b + dir * j;
     if (i < 0 || i >= s.length) break;
     sx += x[i]; sy += s[i]; cnt++;
+    if (j >= 1 && j <= h) { near += s[i]; nNear++; } else if (j > h) { far += s[i]; nFar++; }
   }
+  if (nNear > 0 && nFar > 0 && far / nFar - near / nNear > 2 * sigma * Math.sqrt(1 / nNear + 1 / nFar)) return [x[b], s[b]];
   const mean = sy / cnt;
-  const cap = s[b] + maxRaise;
+  const cap = s[b] + 3 * sigma;
   return mean > cap ? [x[b], cap] : [sx / cnt, mean];
 }
 
-/**
- * How far averaging may lift a base: 3σ (about the expected depth of the
- * lowest of a few hundred normal samples), and at most a quarter of the
- * peak's prominence, so that on a small peak the flank of a neighbour
- * beyond its base is not taken for noise.
- */
-function baseRaiseLimit(sigma: number, prominence: number): number {
-  return Math.min(3 * sigma, 0.25 * prominence);
-}
-
 /** The local baseline: straight line through the levels at two bases, evaluated at `at`. */
-function baselineAt(x: Float64Array, s: Float64Array, b0: number, b1: number, q: number, maxRaise: number, at: number): number {
-  const [x0, l0] = baseLevel(x, s, b0, -1, q, maxRaise);
-  const [x1, l1] = baseLevel(x, s, b1, 1, q, maxRaise);
+function baselineAt(x: Float64Array, s: Float64Array, b0: number, b1: number, q: number, sigma: number, at: number): number {
+  const [x0, l0] = baseLevel(x, s, b0, -1, q, sigma);
+  const [x1, l1] = baseLevel(x, s, b1, 1, q, sigma);
   return x1 === x0 ? (l0 + l1) / 2 : l0 + ((l1 - l0) * (at - x0)) / (x1 - x0);
 }
 
@@ -602,16 +599,16 @@ function apexLevel(x: Float64Array, s: Float64Array, i: number, fwhmPoints: numb
 }
 
 /** Height of the apex level above the local baseline through the two bases' levels. */
-function heightAbove(x: Float64Array, s: Float64Array, i: number, xApex: number, fwhmPoints: number, b0: number, b1: number, maxRaise: number): number {
-  return apexLevel(x, s, i, fwhmPoints, xApex) - baselineAt(x, s, b0, b1, baseHalfWindow(fwhmPoints), maxRaise, xApex);
+function heightAbove(x: Float64Array, s: Float64Array, i: number, xApex: number, fwhmPoints: number, b0: number, b1: number, sigma: number): number {
+  return apexLevel(x, s, i, fwhmPoints, xApex) - baselineAt(x, s, b0, b1, baseHalfWindow(fwhmPoints), sigma, xApex);
 }
 
 /** Trapezoid area of s over samples i0..i1 above the local baseline through the levels at i0 and i1. */
-function areaAboveBaseline(x: Float64Array, s: Float64Array, i0: number, i1: number, q: number, maxRaise: number): number {
+function areaAboveBaseline(x: Float64Array, s: Float64Array, i0: number, i1: number, q: number, sigma: number): number {
   let a = 0;
   for (let i = i0; i < i1; i++) a += 0.5 * (s[i] + s[i + 1]) * (x[i + 1] - x[i]);
-  const [x0, l0] = baseLevel(x, s, i0, -1, q, maxRaise);
-  const [x1, l1] = baseLevel(x, s, i1, 1, q, maxRaise);
+  const [x0, l0] = baseLevel(x, s, i0, -1, q, sigma);
+  const [x1, l1] = baseLevel(x, s, i1, 1, q, sigma);
   // Mean of the baseline at the two bounds = its value at their midpoint (it is a straight line).
   const mid = (x[i0] + x[i1]) / 2;
   const level = x1 === x0 ? (l0 + l1) / 2 : l0 + ((l1 - l0) * (mid - x0)) / (x1 - x0);
@@ -736,8 +733,7 @@ function makePeak(x: Float64Array, y: Float64Array, s: Float64Array, sign: numbe
   const fwhm = rightHalf - leftHalf;
   const fwhmPoints = c.rightIp - c.leftIp;
   const xApex = apexPosition(x, s, i, fwhmPoints);
-  const raise = baseRaiseLimit(o.noiseSigma, c.prominence);
-  const hs = Number.isNaN(c.height) ? heightAbove(x, s, i, xApex, fwhmPoints, c.leftBase, c.rightBase, raise) : c.height;
+  const hs = Number.isNaN(c.height) ? heightAbove(x, s, i, xApex, fwhmPoints, c.leftBase, c.rightBase, o.noiseSigma) : c.height;
   const q = baseHalfWindow(fwhmPoints);
   const snrRms = Math.abs(hs) / o.noiseSigma;
   const pn = pharmacopoeialNoise(x, y, xApex, fwhm, o, i);
@@ -750,7 +746,7 @@ function makePeak(x: Float64Array, y: Float64Array, s: Float64Array, sign: numbe
     leftBase: c.leftBase, rightBase: c.rightBase, leftBaseX: x[c.leftBase], rightBaseX: x[c.rightBase],
     fwhm, fwhmPoints, leftHalf, rightHalf,
     startIndex: c.startIndex, endIndex: c.endIndex, start: x[c.startIndex], end: x[c.endIndex],
-    area: sign * areaAboveBaseline(x, s, c.startIndex, c.endIndex, q, raise),
+    area: sign * areaAboveBaseline(x, s, c.startIndex, c.endIndex, q, o.noiseSigma),
     snrRms, snrPharma, pharmaNoise: pn, snrRegion: snrRegionV, snr, snrDefinition: o.snrDefinition,
     flag: snrFlag(snr, o.limits), origin: c.origin,
   };
@@ -831,8 +827,8 @@ export function defaultPeakOptions(noiseSigma: number, dx = 1): PeakOptions {
  * three noisy samples would let the noise pick the apex); height of the
  * apex level above the line through the prominence bases' levels (each
  * averaged with the samples beyond it, so noise minima do not lower it, by
- * at most 3σ and a quarter of the prominence so a neighbouring peak's flank
- * cannot lift it); FWHM at half
+ * at most 3σ and not where a neighbouring peak's flank rises beyond the
+ * base); FWHM at half
  * prominence (SciPy peak_widths, rel_height 0.5) converted to x by linear
  * interpolation; integration bounds from the apex to the lowest point
  * before the prominence base or the neighbouring peak, area above the line
@@ -875,7 +871,7 @@ export function detectPeaks(x: Float64Array, y: Float64Array, options: PeakOptio
     if (o.minWidth > 0 && fwhm < o.minWidth) continue;
     if (minSnrOnTheFly && o.minSnr > 0) {
       const xApex = apexPosition(x, s, i, w.widths[k]);
-      const hs = heightAbove(x, s, i, xApex, w.widths[k], lb[k], rb[k], baseRaiseLimit(o.noiseSigma, pr[k]));
+      const hs = heightAbove(x, s, i, xApex, w.widths[k], lb[k], rb[k], o.noiseSigma);
       heights[k] = hs;
       let snr: number | null;
       if (o.snrDefinition === 'rms') snr = Math.abs(hs) / o.noiseSigma;
