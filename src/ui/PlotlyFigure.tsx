@@ -48,7 +48,7 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
     };
   }, [onReady]);
 
-  return <div ref={ref} className={className} role="img" aria-label={label} data-testid="figure" />;
+  return <div ref={ref} className={className} role="figure" aria-label={label} data-testid="figure" />;
 }
 
 function bindEvents(gd: PlotlyHTMLElement, handlers: { current: FigureEvents }) {
