@@ -321,8 +321,10 @@ function lossCheck(
   const currentWarnings: string[] = [];
   const where = (x: number) => `${x.toPrecision(5)}${sample.xUnit ? ` ${sample.xUnit}` : ''}`;
   for (const row of ledger.rows) {
+    // Only features present on the raw trace can be lost by the current stack (column 1).
+    if (row.firstFoundIn !== 0) continue;
     const ref = row.cells[0], cur = row.cells[1];
-    if (!ref.found || (ref.standing !== 'quantifiable' && ref.standing !== 'detectable')) continue;
+    if (ref.standing !== 'quantifiable' && ref.standing !== 'detectable') continue;
     if (!cur.found) currentWarnings.push(`The feature at ${where(row.position)} (S/N ${ref.snr?.toFixed(1)} raw) is lost with the current stack.`);
     else if (cur.crossed === 'down') currentWarnings.push(`The feature at ${where(row.position)} falls from ${ref.standing} (S/N ${ref.snr?.toFixed(1)}) to ${cur.standing.replace('-', ' ')} (S/N ${cur.snr?.toFixed(1)}) with the current stack.`);
     else if (ref.standing === 'quantifiable' && cur.heightKept !== null && cur.heightKept < 80) currentWarnings.push(`The feature at ${where(row.position)} keeps only ${cur.heightKept.toFixed(0)} % of its raw height with the current stack.`);

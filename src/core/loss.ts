@@ -37,7 +37,7 @@ export interface MatchOptions {
   limits?: { detection: number; quantitation: number };
 }
 
-/** One feature in one alternative. Percentages are against the first alternative's peak. */
+/** One feature in one alternative. Percentages are against the feature's reference: the least-processed column that has it. */
 export interface LedgerCell {
   readonly found: boolean;
   /** Position of the matched peak in that alternative's `peaks` list, or -1. */
@@ -149,35 +149,38 @@ export function matchPeaks(alternatives: readonly Alternative[], options: MatchO
   features.sort((u, v) => u.position - v.position);
 
   const rows: LedgerRow[] = features.map((f) => {
-    const ref = f.match[0] >= 0 ? alternatives[0].peaks[f.match[0]] : null;
-    const refStanding: Standing = ref ? ref.flag : 'lost';
+    // Each feature is judged against the least-processed column that has it: on a noisy raw trace a small
+    // peak may only show once lightly smoothed, and what heavier smoothing then does to it still matters.
+    const refCol = f.first;
+    const ref = alternatives[refCol].peaks[f.match[refCol]];
+    const refStanding: Standing = ref.flag;
     const where = `The feature at ${f.position.toFixed(dec)}${unit}`;
     const sentences: string[] = [];
+    if (refCol > 0) sentences.push(`${where} is not found with ${alternatives[0].label}; it first appears with ${alternatives[refCol].label}, so check that the processing did not make it.`);
     const cells: LedgerCell[] = f.match.map((p, a) => {
       const pk = p >= 0 ? alternatives[a].peaks[p] : null;
       const standing: Standing = pk ? pk.flag : 'lost';
       let crossed: LedgerCell['crossed'] = null;
-      if (a > 0 && LEVEL[standing] >= 0 && LEVEL[refStanding] >= 0 && standing !== refStanding) {
+      if (a > refCol && LEVEL[standing] >= 0 && LEVEL[refStanding] >= 0 && standing !== refStanding) {
         crossed = LEVEL[standing] < LEVEL[refStanding] ? 'down' : 'up';
         const label = alternatives[a].label;
         if (crossed === 'down') {
           if (standing === 'lost') sentences.push(`${where} is lost with ${label}.`);
           else if (standing === 'below-detection') sentences.push(`${where} drops below S/N ${limits.detection} with ${label}.`);
           else sentences.push(`${where} drops below S/N ${limits.quantitation} (quantitation limit) with ${label}.`);
-        } else if (refStanding === 'lost') {
-          sentences.push(`${where} is found only after processing, with ${label}; check that the processing did not make it.`);
         } else {
           const lim = standing === 'quantifiable' ? limits.quantitation : limits.detection;
           sentences.push(`${where} rises above S/N ${lim} with ${label}.`);
         }
       }
-      const shift = pk && ref ? pk.x - ref.x : null;
+      const shift = pk && a >= refCol ? pk.x - ref.x : null;
+      const cmp = pk !== null && a >= refCol;
       return {
         found: pk !== null, peakIndex: p, x: pk ? pk.x : null, snr: pk ? pk.snr : null, standing,
-        heightKept: pk && ref ? pct(pk.height, ref.height) : null,
-        widthChange: pk && ref ? (pct(pk.fwhm - ref.fwhm, ref.fwhm)) : null,
+        heightKept: cmp ? pct(pk.height, ref.height) : null,
+        widthChange: cmp ? (pct(pk.fwhm - ref.fwhm, ref.fwhm)) : null,
         apexShift: shift, apexShiftPoints: shift === null ? null : shift / dx,
-        areaChange: pk && ref ? pct(pk.area - ref.area, ref.area) : null,
+        areaChange: cmp ? pct(pk.area - ref.area, ref.area) : null,
         crossed,
       };
     });
@@ -191,7 +194,7 @@ export function matchPeaks(alternatives: readonly Alternative[], options: MatchO
     alternatives: alternatives.map((a) => ({ id: a.id, label: a.label })),
     rows,
     sentences: rows.flatMap((r) => r.sentences),
-    rule: `Peaks are the same feature when their apexes lie within max(${frac} × FWHM, ${minPts} points) of the feature's first apex; nearest pairs first, one peak per feature. Changes are against ${alternatives[0].label}.`,
+    rule: `Peaks are the same feature when their apexes lie within max(${frac} × FWHM, ${minPts} points) of the feature's first apex; nearest pairs first, one peak per feature. Each feature's changes are against the least-processed column that has it (${alternatives[0].label} when found there).`,
   };
 }
 

@@ -111,7 +111,7 @@ export function LossPanel() {
                     {r.cells.map((c, i) => (
                       <td key={i} className={`cell-${c.found ? c.standing : 'lost'} ${c.crossed === 'down' ? 'down' : ''}`}>
                         <div>{standingText(c)}</div>
-                        {i > 0 && c.found && r.cells[0].found && (
+                        {i > r.firstFoundIn && c.heightKept !== null && (
                           <div className="small muted">height {pct(c.heightKept)} · width {pct(c.widthChange, true)} · shift {num(c.apexShiftPoints, 2)} pt · area {pct(c.areaChange, true)}</div>
                         )}
                       </td>

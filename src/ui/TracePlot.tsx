@@ -69,14 +69,14 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       }
       if (result.loss) {
         // Features detectable on the raw trace that some column loses: marked where they were found.
-        const lost = result.loss.ledger.rows.filter((r) => r.cells[0].found && (r.cells[0].standing === 'detectable' || r.cells[0].standing === 'quantifiable') && r.cells.some((c) => !c.found));
+        const lost = result.loss.ledger.rows.filter((r) => { const ref = r.cells[r.firstFoundIn]; return (ref.standing === 'detectable' || ref.standing === 'quantifiable') && r.cells.some((c, k) => k > r.firstFoundIn && !c.found); });
         if (lost.length) {
           const lx = Float64Array.from(lost.map((r) => r.position));
           const ly = interpolateLinear(sample.x, sample.y, lx);
           traces.push({
             type: 'scatter', mode: 'markers', name: 'features lost by some choice',
             x: arr(lx), y: arr(ly),
-            text: lost.map((r) => `lost with: ${r.cells.map((c, k) => (c.found ? null : result.loss!.ledger.alternatives[k].label)).filter(Boolean).join(', ')}`),
+            text: lost.map((r) => `lost with: ${r.cells.map((c, k) => (c.found || k < r.firstFoundIn ? null : result.loss!.ledger.alternatives[k].label)).filter(Boolean).join(', ')}`),
             hoverinfo: 'x+text',
             marker: { symbol: 'circle-open', size: 22, color: '#c0392b', line: { width: 2.5, color: '#c0392b' } },
             xaxis: 'x', yaxis: 'y',
