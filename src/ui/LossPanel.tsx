@@ -95,7 +95,7 @@ export function LossPanel() {
               <ul className="small">{loss.ledger.sentences.map((s, i) => <li key={i}>{s}</li>)}</ul>
             </details>
           )}
-          <div className="table-wrap">
+          <div className="table-wrap" tabIndex={0} role="region" aria-label="Ledger table (scrolls)">
             <table className="data ledger" data-testid="ledger">
               <caption className="sr-only">Survival of each feature under each processing choice</caption>
               <thead>

@@ -31,7 +31,7 @@ export function PeakTable() {
         {counts.q} quantifiable (S/N ≥ {lim?.quantitation}), {counts.d} detected but not quantifiable ({lim?.detection} ≤ S/N &lt; {lim?.quantitation}), {counts.b} below the detection limit (kept, marked).
         {' '}S/N column: <strong>{SNR_WORDS[def]}</strong>.
       </p>
-      <div className="table-wrap">
+      <div className="table-wrap" tabIndex={0} role="region" aria-label="Peak table (scrolls)">
         <table className="data" data-testid="peak-table">
           <caption className="sr-only">Peaks found on the {result.peakOptions ? 'measured' : ''} trace with their measures; S/N by {SNR_WORDS[def]}</caption>
           <thead>
