@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { jsonDepth, makeRecipeStep, parseRecipeText, recipeInWords, recipeToJson, validateRecipe, RECIPE_VERSION } from '../../src/core/recipe.ts';
+import { type Recipe, jsonDepth, makeRecipeStep, parseRecipeText, recipeInWords, recipeToJson, validateRecipe, RECIPE_VERSION } from '../../src/core/recipe.ts';
 import { PipelineCache, runPipeline } from '../../src/core/pipeline.ts';
 import type { StepDefinition } from '../../src/core/steps/types.ts';
 
@@ -83,7 +83,7 @@ describe('recipe validation', () => {
 describe('pipeline', () => {
   it('applies steps in order, skips switched-off steps and never changes its input', () => {
     const before = Array.from(signal.y);
-    const recipe = { format: 'tracewright-recipe' as const, version: 1, steps: [
+    const recipe: Recipe = { format: 'tracewright-recipe' as const, version: 1, steps: [
       { uid: 'a', step: 'test-offset', enabled: true, params: { amount: 1 } },
       { uid: 'b', step: 'test-window', enabled: false, params: { window: 3, edge: 'a' } },
       { uid: 'c', step: 'test-window', enabled: true, params: { window: 3, edge: 'a' } },
@@ -95,7 +95,7 @@ describe('pipeline', () => {
   });
 
   it('reports a step that does not fit and passes its input on', () => {
-    const recipe = { format: 'tracewright-recipe' as const, version: 1, steps: [
+    const recipe: Recipe = { format: 'tracewright-recipe' as const, version: 1, steps: [
       { uid: 'a', step: 'test-window', enabled: true, params: { window: 99, edge: 'a' } },
       { uid: 'b', step: 'test-offset', enabled: true, params: { amount: 13 } },
     ] };
@@ -108,7 +108,7 @@ describe('pipeline', () => {
 
   it('editing step k reruns only steps k onward', () => {
     const cache = new PipelineCache();
-    const mk = (amount: number) => ({ format: 'tracewright-recipe' as const, version: 1, steps: [
+    const mk = (amount: number): Recipe => ({ format: 'tracewright-recipe' as const, version: 1, steps: [
       { uid: 'a', step: 'test-window', enabled: true, params: { window: 3, edge: 'a' } },
       { uid: 'b', step: 'test-offset', enabled: true, params: { amount } },
       { uid: 'c', step: 'test-window', enabled: true, params: { window: 5, edge: 'a' } },

@@ -95,7 +95,7 @@ describe('despike on the demo sample (public/demo, written by scripts/make-demo.
     // Defaults (15 points, t = 5) were chosen to keep false replacements on noise rare: under 0.5 % of points here.
     expect(out.events!.length).toBeLessThan(0.005 * demo.y.length);
     // ...and the sharpest demo peak keeps its top.
-    const sharp = truth.peaks.reduce((a: { sigma: number }, b: { sigma: number }) => (b.sigma < a.sigma ? b : a));
+    const sharp = truth.peaks.reduce((a, b) => (b.sigma < a.sigma ? b : a));
     expect(out.events!.some((e) => Math.abs(e.x - sharp.centre) <= sharp.sigma)).toBe(false);
   });
 
