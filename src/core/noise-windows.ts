@@ -20,14 +20,14 @@
  * (mask the features, then take local SDs about a line) is common practice;
  * the thresholds are ours and stated above.
  */
-import { noiseRms, noiseRobust, type NoiseResult } from './noise.ts';
+import { noiseRobust, type NoiseResult } from './noise.ts';
 import { defaultPeakOptions, detectPeaks } from './peaks.ts';
 import { slidingMedian } from './numeric/sliding-median.ts';
 import { lowerBound } from './numeric/decimate.ts';
 
-/** Default window: n/40 points, kept between 30 and 400 (long enough that a line fit takes little from smoothed noise). */
+/** Default window: n/40 points, kept between 50 and 400 (long enough that a line fit takes little from smoothed noise). */
 export function defaultNoiseWindow(n: number): number {
-  return Math.max(30, Math.min(400, Math.floor(n / 40)));
+  return Math.max(50, Math.min(400, Math.floor(n / 40)));
 }
 
 /**
@@ -63,8 +63,24 @@ export function featureMask(x: Float64Array, yRaw: Float64Array): Uint8Array {
 /**
  * Median, over the windows of `windowPoints` points that touch no masked
  * point, of the SD about a straight line in each window (n − 2 degrees of
- * freedom). `mask` must have the length of x (use {@link featureMask} on
- * the raw trace, mapped to this grid); without a mask every window counts.
+ * freedom), corrected for correlated noise. `mask` must have the length of
+ * x (use {@link featureMask} on the raw trace, mapped to this grid); without
+ * a mask every window counts.
+ *
+ * Why the correction: after smoothing, neighbouring noise values are
+ * correlated, and a line fitted to a short window follows part of the
+ * noise, so the SD about it comes out low (about 17 % low for a
+ * Savitzky–Golay 11/2 trace in 30-point windows, measured on seeded white
+ * noise). For stationary noise with autocorrelation ρ, the expected residual
+ * sum of squares about a least-squares fit with hat matrix H is
+ * σ²·(w − tr(H·R)), R the correlation matrix (standard regression algebra;
+ * white noise gives tr(H·R) = 2, the usual n − 2). ρ is estimated from the
+ * pooled residuals of the quiet windows, lags kept while they stand above
+ * the 2/√N noise floor, and the SD is scaled by √((w − 2)/(w − tr(H·R))).
+ * The correction is partial (ρ from residuals is itself depressed): on
+ * seeded white noise smoothed by an 11-point moving average, 50-point
+ * windows still read about 20 % low, 80-point windows about 12 % low.
+ * Where S/N matters, mark a long quiet range (RMS about a line).
  * @returns σ in y-units, or a problem when fewer than three quiet windows remain.
  */
 export function noiseQuietWindows(x: Float64Array, y: Float64Array, mask?: Uint8Array, windowPoints = defaultNoiseWindow(x.length)): NoiseResult {
@@ -72,6 +88,7 @@ export function noiseQuietWindows(x: Float64Array, y: Float64Array, mask?: Uint8
   const w = Math.max(5, Math.floor(windowPoints));
   const count = Math.floor(n / w);
   const sds: number[] = [];
+  const residuals: Float64Array[] = [];
   for (let k = 0; k < count; k++) {
     const a = k * w, b = a + w - 1;
     if (mask) {
@@ -79,17 +96,76 @@ export function noiseQuietWindows(x: Float64Array, y: Float64Array, mask?: Uint8
       for (let i = a; i <= b; i++) if (mask[i]) { hit = true; break; }
       if (hit) continue;
     }
-    const r = noiseRms(x, y, x[a], x[b]);
-    if (r.ok && Number.isFinite(r.sigma)) sds.push(r.sigma);
+    const e = lineResiduals(x, y, a, b);
+    let ss = 0;
+    for (let i = 0; i < w; i++) ss += e[i] * e[i];
+    const sd = Math.sqrt(ss / (w - 2));
+    if (Number.isFinite(sd)) { sds.push(sd); residuals.push(e); }
   }
   if (sds.length < 3) {
     return { ok: false, message: `Only ${sds.length} stretch(es) of ${w} points are free of peaks, too few for an automatic noise estimate; mark a quiet range instead.` };
   }
   sds.sort((p, q) => p - q);
   const m = sds.length;
-  const sigma = m % 2 ? sds[(m - 1) / 2] : (sds[m / 2 - 1] + sds[m / 2]) / 2;
+  const median = m % 2 ? sds[(m - 1) / 2] : (sds[m / 2 - 1] + sds[m / 2]) / 2;
+  const rho = pooledAutocorrelation(residuals, w);
+  const factor = Math.sqrt((w - 2) / Math.max(1, w - traceHatTimesCorrelation(w, rho)));
+  const sigma = median * factor;
+  const lags = rho.length - 1;
   return {
     ok: true, sigma, measure: 'sd', points: m * w, method: 'median-of-quiet-window-sd',
-    description: `Median, over ${m} peak-free windows of ${w} points (of ${count}), of the standard deviation about a straight line fitted in each window; peaks and spikes were located on the raw trace and left out. Valid after smoothing, unlike point-to-point differences.`,
+    description: `Median, over ${m} peak-free windows of ${w} points (of ${count}), of the standard deviation about a straight line fitted in each window; peaks and spikes were located on the raw trace and left out.${lags > 0 ? ` The noise is correlated over ${lags} point(s) (as after smoothing), so the figure was scaled by ${factor.toFixed(3)} for what the line fit absorbs.` : ''} Valid after smoothing, unlike point-to-point differences.`,
   };
+}
+
+/** Residuals about the least-squares line through samples a..b (x centred first). */
+function lineResiduals(x: Float64Array, y: Float64Array, a: number, b: number): Float64Array {
+  const w = b - a + 1;
+  let sx = 0, sy = 0;
+  for (let i = a; i <= b; i++) { sx += x[i]; sy += y[i]; }
+  const xm = sx / w, ym = sy / w;
+  let sxx = 0, sxy = 0;
+  for (let i = a; i <= b; i++) { const d = x[i] - xm; sxx += d * d; sxy += d * (y[i] - ym); }
+  const slope = sxx > 0 ? sxy / sxx : 0;
+  const e = new Float64Array(w);
+  for (let i = a; i <= b; i++) e[i - a] = y[i] - (ym + slope * (x[i] - xm));
+  return e;
+}
+
+/**
+ * Autocorrelation ρ(0..K) pooled over windows, K the last lag before three
+ * lags in a row fall inside the ±2/√N band of white noise (N pooled points).
+ */
+function pooledAutocorrelation(windows: Float64Array[], w: number): Float64Array {
+  let den = 0, total = 0;
+  for (const e of windows) { for (let i = 0; i < w; i++) den += e[i] * e[i]; total += w; }
+  if (!(den > 0)) return Float64Array.of(1);
+  const floor = 2 / Math.sqrt(total);
+  const out: number[] = [1];
+  let quiet = 0;
+  for (let k = 1; k < w - 2 && quiet < 3; k++) {
+    let num = 0;
+    for (const e of windows) for (let i = 0; i + k < w; i++) num += e[i] * e[i + k];
+    const r = num / den;
+    out.push(r);
+    quiet = Math.abs(r) < floor ? quiet + 1 : 0;
+  }
+  out.length -= Math.min(quiet, out.length - 1);
+  return Float64Array.from(out);
+}
+
+/** tr(H·R) for a straight-line fit over w equally spaced points, R Toeplitz with ρ(0..K), zero beyond. */
+function traceHatTimesCorrelation(w: number, rho: Float64Array): number {
+  const c = (w - 1) / 2;
+  let suu = 0;
+  for (let i = 0; i < w; i++) suu += (i - c) * (i - c);
+  let tr = 0;
+  for (let i = 0; i < w; i++) {
+    for (let d = -(rho.length - 1); d < rho.length; d++) {
+      const j = i + d;
+      if (j < 0 || j >= w) continue;
+      tr += (1 / w + ((i - c) * (j - c)) / suu) * rho[Math.abs(d)];
+    }
+  }
+  return tr;
 }

@@ -95,9 +95,9 @@ export function App() {
           </section>
           <ResidualPanel />
           <PeakTable />
+          <NoisePanel />
           <LossPanel />
           <ExportPanel getFigure={() => figure.current} />
-          <NoisePanel />
         </div>
       </main>
       {dragging && <div className="drop-hint" aria-hidden="true">Drop trace files to load them</div>}

@@ -30,6 +30,8 @@ export function LossPanel() {
   const full = alternatives.length >= MAX_ALTERNATIVES;
   const rows = loss ? loss.ledger.rows.filter((r) => allRows || r.cells.some((c) => c.standing === 'detectable' || c.standing === 'quantifiable')) : [];
   const hidden = loss ? loss.ledger.rows.length - rows.length : 0;
+  // Thousands of rows would stall the page; crossed rows first, then by position.
+  const shown = rows.length <= 300 ? rows : [...rows.filter((r) => r.crossed), ...rows.filter((r) => !r.crossed)].slice(0, 300).sort((a, b) => a.position - b.position);
   return (
     <section className="panel" aria-labelledby="loss-title" data-testid="loss-panel">
       <div className="panel-head">
@@ -105,7 +107,7 @@ export function LossPanel() {
                 </tr>
               </thead>
               <tbody>
-                {rows.map((r) => (
+                {shown.map((r) => (
                   <tr key={r.position} className={r.crossed ? 'crossed' : ''}>
                     <th scope="row">{num(r.position, 5)}</th>
                     {r.cells.map((c, i) => (
@@ -121,6 +123,7 @@ export function LossPanel() {
               </tbody>
             </table>
           </div>
+          {shown.length < rows.length && <p className="small muted">Showing {shown.length} of {rows.length} rows (every row where a limit is crossed first). The report lists every sentence.</p>}
           {hidden > 0 && (
             <button type="button" className="link" onClick={() => setAllRows(!allRows)}>
               {allRows ? 'hide' : 'show'} {hidden} noise-level candidate{hidden === 1 ? '' : 's'} (below the detection limit everywhere)

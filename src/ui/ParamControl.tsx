@@ -109,7 +109,12 @@ export function ParamControl({ spec, value, dx, xUnit, onChange }: Props) {
         />
       </div>
       {xWidth && <span className="hint">= {xWidth}</span>}
-      {spec.help && <span className="hint">{spec.help}</span>}
+      {spec.help && (
+        <details className="param-help">
+          <summary>about {spec.label.toLowerCase()}</summary>
+          <span className="hint">{spec.help}</span>
+        </details>
+      )}
       {problem && <span className="field-problem" role="alert">{problem}</span>}
     </div>
   );

@@ -1,5 +1,15 @@
+import type { Peak } from '../core/peaks.ts';
 import { useApp } from '../state/store.ts';
 import { FLAG_WORDS, num, SNR_WORDS } from './format.ts';
+
+const MAX_ROWS = 500;
+
+function pickRows(all: readonly Peak[]): Peak[] {
+  const keep = (p: Peak) => p.flag === 'detectable' || p.flag === 'quantifiable' || p.origin === 'added-by-user' || p.removedByUser === true;
+  const first = all.filter(keep);
+  const rest = all.filter((p) => !keep(p)).sort((a, b) => (b.snr ?? 0) - (a.snr ?? 0));
+  return [...first, ...rest].slice(0, MAX_ROWS).sort((a, b) => a.x - b.x);
+}
 
 /** The peak table: a real table with headers; a click on a row zooms to the peak. */
 export function PeakTable() {
@@ -10,12 +20,15 @@ export function PeakTable() {
   const decisions = useApp((s) => s.decisions);
   const { selectPeak, setXRange, removePeakAt, restorePeakAt, setAddPeakMode, clearDecisions } = useApp.getState();
   if (!result || !sample) return null;
-  const peaks = result.peaks;
+  const all = result.peaks;
+  // A long noisy trace can hold thousands of candidates; the page shows at most MAX_ROWS (the ones at or above
+  // the detection limit and the user's decisions first). The peak CSV always holds every one.
+  const peaks = all.length <= MAX_ROWS ? all : pickRows(all);
   const def = result.peakOptions?.snrDefinition ?? 'rms';
   const xu = sample.xUnit ? ` (${sample.xUnit})` : '';
   const yu = sample.yUnit ? ` (${sample.yUnit})` : '';
   const counts = { q: 0, d: 0, b: 0 };
-  for (const p of peaks) if (!p.removedByUser) { if (p.flag === 'quantifiable') counts.q++; else if (p.flag === 'detectable') counts.d++; else counts.b++; }
+  for (const p of all) if (!p.removedByUser) { if (p.flag === 'quantifiable') counts.q++; else if (p.flag === 'detectable') counts.d++; else counts.b++; }
   const lim = result.peakOptions?.limits;
   return (
     <section className="panel" aria-labelledby="peaks-title">
@@ -30,6 +43,7 @@ export function PeakTable() {
       <p className="small" data-testid="peak-summary">
         {counts.q} quantifiable (S/N ≥ {lim?.quantitation}), {counts.d} detected but not quantifiable ({lim?.detection} ≤ S/N &lt; {lim?.quantitation}), {counts.b} below the detection limit (kept, marked).
         {' '}S/N column: <strong>{SNR_WORDS[def]}</strong>.
+        {all.length > peaks.length && <> Showing {peaks.length} of {all.length} candidates (all at or above the detection limit first); the peak table CSV holds every one. Raise the smallest S/N or prominence to thin the list.</>}
       </p>
       <div className="table-wrap" tabIndex={0} role="region" aria-label="Peak table (scrolls)">
         <table className="data" data-testid="peak-table">

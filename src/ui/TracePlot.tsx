@@ -94,7 +94,12 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
           hoverinfo: 'x+text', xaxis: 'x', yaxis: 'y',
         });
       }
-      const live = result.peaks.filter((pk) => !pk.removedByUser);
+      // At most 300 markers (highest S/N first, hand-added always): thousands of labels would stall the page.
+      let live = result.peaks.filter((pk) => !pk.removedByUser);
+      if (live.length > 300) {
+        const mine = live.filter((pk) => pk.origin === 'added-by-user');
+        live = [...mine, ...live.filter((pk) => pk.origin !== 'added-by-user').sort((a, b) => (b.snr ?? 0) - (a.snr ?? 0)).slice(0, 300 - mine.length)];
+      }
       if (live.length) {
         const sym: Record<string, string> = { quantifiable: 'triangle-down', detectable: 'diamond', 'below-detection': 'circle-open', 'not-measured': 'circle-open' };
         const col: Record<string, string> = { quantifiable: COLOURS.peak, detectable: COLOURS.baseline, 'below-detection': COLOURS.spike, 'not-measured': COLOURS.raw };
