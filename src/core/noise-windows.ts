@@ -20,7 +20,7 @@
  * (mask the features, then take local SDs about a line) is common practice;
  * the thresholds are ours and stated above.
  */
-import { noiseRobust, type NoiseResult } from './noise.ts';
+import { lineFit, noiseRobust, type NoiseResult } from './noise.ts';
 import { defaultPeakOptions, detectPeaks } from './peaks.ts';
 import { slidingMedian } from './numeric/sliding-median.ts';
 import { lowerBound } from './numeric/decimate.ts';
@@ -118,17 +118,11 @@ export function noiseQuietWindows(x: Float64Array, y: Float64Array, mask?: Uint8
   };
 }
 
-/** Residuals about the least-squares line through samples a..b (x centred first). */
+/** Residuals about the least-squares line through samples a..b (noise.ts lineFit). */
 function lineResiduals(x: Float64Array, y: Float64Array, a: number, b: number): Float64Array {
-  const w = b - a + 1;
-  let sx = 0, sy = 0;
-  for (let i = a; i <= b; i++) { sx += x[i]; sy += y[i]; }
-  const xm = sx / w, ym = sy / w;
-  let sxx = 0, sxy = 0;
-  for (let i = a; i <= b; i++) { const d = x[i] - xm; sxx += d * d; sxy += d * (y[i] - ym); }
-  const slope = sxx > 0 ? sxy / sxx : 0;
-  const e = new Float64Array(w);
-  for (let i = a; i <= b; i++) e[i - a] = y[i] - (ym + slope * (x[i] - xm));
+  const { slope, intercept, xm } = lineFit(x, y, a, b);
+  const e = new Float64Array(b - a + 1);
+  for (let i = a; i <= b; i++) e[i - a] = y[i] - (intercept + slope * (x[i] - xm));
   return e;
 }
 

@@ -87,7 +87,7 @@ function rangeProblem(x: Float64Array, from: number, to: number, what: string): 
  * Least-squares straight line through (x[i], y[i]) for i in [i0, i1];
  * x is centred on its mean first so long time axes lose no digits.
  */
-function lineFit(x: Float64Array, y: Float64Array, i0: number, i1: number): { slope: number; intercept: number; xm: number } {
+export function lineFit(x: Float64Array, y: Float64Array, i0: number, i1: number): { slope: number; intercept: number; xm: number } {
   const n = i1 - i0 + 1;
   let sx = 0, sy = 0;
   for (let i = i0; i <= i1; i++) { sx += x[i]; sy += y[i]; }

@@ -1,20 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import { createHash } from 'node:crypto';
 import { sha256Hex } from '../../src/core/io/sha256.ts';
+import { makeRng } from '../../src/core/numeric/random.ts';
+
+/** Seeded uniform numbers from the project's generator (mulberry32). */
+const uniformFrom = (seed: number): (() => number) => makeRng(seed).uniform;
 
 const ascii = (s: string) => Uint8Array.from(s, (c) => c.charCodeAt(0));
 
-/** mulberry32 (Tommy Ettinger's public-domain generator), seeded, for reproducible random bytes. */
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 describe('sha256Hex', () => {
   it('matches the FIPS 180-2 Appendix B test vectors', () => {
@@ -36,7 +29,7 @@ describe('sha256Hex', () => {
   });
 
   it('agrees with node:crypto on random bytes of every length around the padding boundaries', () => {
-    const rand = mulberry32(20261202);
+    const rand = uniformFrom(20261202);
     const lengths = [1, 55, 56, 57, 63, 64, 65, 119, 120, 127, 128, 129, 1000, 4097, 70_001];
     for (const n of lengths) {
       const bytes = Uint8Array.from({ length: n }, () => Math.floor(rand() * 256));
@@ -45,7 +38,7 @@ describe('sha256Hex', () => {
   });
 
   it('reports progress on large inputs and leaves the bytes unchanged', () => {
-    const rand = mulberry32(7);
+    const rand = uniformFrom(7);
     const bytes = new Uint8Array(9 * 1048576 + 13);
     for (let i = 0; i < bytes.length; i++) bytes[i] = Math.floor(rand() * 256);
     const copy = bytes.slice();

@@ -1,19 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import { decimateMinMax, lowerBound } from '../../src/core/numeric/decimate.ts';
+import { makeRng } from '../../src/core/numeric/random.ts';
 
-function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** Seeded uniform numbers from the project's generator (mulberry32). */
+const uniformFrom = (seed: number): (() => number) => makeRng(seed).uniform;
+
 
 function noisy(n: number, seed: number) {
-  const r = seeded(seed);
+  const r = uniformFrom(seed);
   const x = new Float64Array(n);
   const y = new Float64Array(n);
   for (let i = 0; i < n; i++) { x[i] = i * 0.01; y[i] = r() - 0.5; }
