@@ -15,10 +15,12 @@ interface Props extends FigureEvents {
   label: string;
   /** Receives the element so callers can export pictures. */
   onReady?: (el: HTMLElement | null) => void;
+  /** Test id; the main trace plot is "figure". */
+  testId?: string;
 }
 
 /** A thin wrapper: Plotly.react in an effect, events forwarded, purge on unmount. */
-export function PlotlyFigure({ data, layout, className, label, onXRange, onClickPoint, onSelectX, onReady }: Props) {
+export function PlotlyFigure({ data, layout, className, label, onXRange, onClickPoint, onSelectX, onReady, testId = 'figure' }: Props) {
   const ref = useRef<HTMLDivElement>(null);
   const handlers = useRef<FigureEvents>({});
   handlers.current = { onXRange, onClickPoint, onSelectX };
@@ -48,7 +50,7 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
     };
   }, [onReady]);
 
-  return <div ref={ref} className={className} role="figure" aria-label={label} data-testid="figure" />;
+  return <div ref={ref} className={className} role="figure" aria-label={label} data-testid={testId} />;
 }
 
 function bindEvents(gd: PlotlyHTMLElement, handlers: { current: FigureEvents }) {

@@ -4,6 +4,7 @@ import { meanStep } from '../core/numeric/interpolate.ts';
 import { useApp } from '../state/store.ts';
 import { ParamControl } from './ParamControl.tsx';
 import { windowVariants } from './alternatives.ts';
+import { StepExtras } from './StepExtras.tsx';
 
 const NO_RUNS: never[] = [];
 
@@ -114,6 +115,7 @@ export function StepStack() {
                       {run.events.length > 200 && <p className="small">First 200 of {run.events.length}; all are in the exports.</p>}
                     </details>
                   )}
+                  {run.extra && Object.keys(run.extra).length > 0 && <StepExtras extra={run.extra} x={sample && run.points === sample.x.length ? sample.x : null} xUnit={sample?.xUnit ?? ''} />}
                   <p className="muted small">{run.points} points out{run.cached ? ' (from cache)' : ` in ${run.ms} ms`}</p>
                 </div>
               )}
