@@ -55,6 +55,7 @@ describe('session records', () => {
       traces: [a, b], roles: { 'big-1': 'sample', 'blank-1': 'blank' }, sampleId: 'big-1', reports: {},
       recipe: recipeOf('savitzky-golay', 'baseline'), noiseSettings: { method: 'rms', quietRange: [5, 5.01] },
       peakSettings: { ...DEFAULT_PEAK_SETTINGS, minSnr: 4 }, decisions: { added: [5.02], removed: [5.03] },
+      alternatives: [{ id: 'alt-1', label: '5-point moving average', recipe: recipeOf('moving-average') }],
     };
     const { meta, chunks } = sessionToRecords(snap, 3, new Date(0), 16);
     // What is stored must survive structured cloning (IndexedDB) — JSON is stricter and also fine for meta.
@@ -71,6 +72,7 @@ describe('session records', () => {
     expect(out.snapshot.noiseSettings).toEqual(snap.noiseSettings);
     expect(out.snapshot.peakSettings.minSnr).toBe(4);
     expect(out.snapshot.decisions).toEqual(snap.decisions);
+    expect(out.snapshot.alternatives).toEqual(snap.alternatives);
 
     const partial = sessionFromRecords(stored, lookup(chunks.filter((c) => c.key[0] !== 'blank-1')));
     expect(partial && partial.ok && partial.snapshot.traces.map((t) => t.id)).toEqual(['big-1']);
@@ -83,11 +85,16 @@ describe('session records', () => {
     const { meta, chunks } = sessionToRecords({
       traces: [a], roles: { 'big-1': 'sample' }, sampleId: 'big-1', reports: {}, recipe: recipeOf('savitzky-golay'),
       noiseSettings: DEFAULT_NOISE_SETTINGS, peakSettings: DEFAULT_PEAK_SETTINGS, decisions: { added: [], removed: [] },
+      alternatives: [{ id: 'alt-1', label: 'broken later', recipe: recipeOf('moving-average') }],
     }, 1, new Date(0));
+    (meta.alternatives![0].recipe as { steps: { step: string }[] }).steps[0].step = 'gone-step';
     (meta.recipe as { steps: { step: string }[] }).steps[0].step = 'no-such-step';
     const out = sessionFromRecords(meta, lookup(chunks));
     expect(out && out.ok && out.snapshot.recipe.steps).toEqual([]);
     expect(out && out.ok && out.notes[0]).toMatch(/no-such-step/);
+    // An alternative that no longer validates is left out with a note; nothing half-applied.
+    expect(out && out.ok && out.snapshot.alternatives).toEqual([]);
+    expect(out && out.ok && out.notes[1]).toMatch(/broken later/);
     expect(sessionFromRecords({ ...meta, version: 99 }, lookup(chunks))).toEqual({ ok: false, problem: expect.stringMatching(/newer version/) });
   });
 

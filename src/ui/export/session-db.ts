@@ -16,7 +16,7 @@
  * database.
  */
 import { deleteDB, openDB, type IDBPDatabase } from 'idb';
-import type { NoiseSettings, PeakSettings } from '../../core/analyse.ts';
+import type { AlternativeRequest, NoiseSettings, PeakSettings } from '../../core/analyse.ts';
 import type { LoadReport } from '../../core/io/types.ts';
 import type { PeakDecisions } from '../../core/peaks.ts';
 import { emptyRecipe, validateRecipe, type Recipe, type Registry } from '../../core/recipe.ts';
@@ -44,6 +44,8 @@ export interface SessionSnapshot {
   noiseSettings: NoiseSettings;
   peakSettings: PeakSettings;
   decisions: PeakDecisions;
+  /** Alternative stacks kept for the loss check. */
+  alternatives: AlternativeRequest[];
 }
 
 /** A trace without its numbers. */
@@ -84,6 +86,8 @@ export interface SessionMeta {
   noiseSettings: NoiseSettings;
   peakSettings: PeakSettings;
   decisions: PeakDecisions;
+  /** Absent in sessions saved before alternatives were kept. */
+  alternatives?: { id: string; label: string; recipe: unknown }[];
 }
 
 export type SessionProblem = { ok: false; problem: string };
@@ -95,6 +99,7 @@ export function snapshotOf(state: Pick<AppState, keyof SessionSnapshot>): Sessio
   return {
     traces: state.traces, roles: state.roles, sampleId: state.sampleId, reports: state.reports,
     recipe: state.recipe, noiseSettings: state.noiseSettings, peakSettings: state.peakSettings, decisions: state.decisions,
+    alternatives: state.alternatives,
   };
 }
 
@@ -167,6 +172,7 @@ export function sessionMeta(snapshot: SessionSnapshot, generation: number, saved
     recipe: JSON.parse(JSON.stringify(snapshot.recipe)) as unknown,
     noiseSettings: { ...snapshot.noiseSettings }, peakSettings: { ...snapshot.peakSettings },
     decisions: { added: [...snapshot.decisions.added], removed: [...snapshot.decisions.removed] },
+    alternatives: snapshot.alternatives.map((a) => ({ id: a.id, label: a.label, recipe: JSON.parse(JSON.stringify(a.recipe)) as unknown })),
   };
 }
 
@@ -197,10 +203,17 @@ export function sessionFromRecords(meta: SessionMeta, getChunk: (key: ChunkKey) 
   let recipe = emptyRecipe();
   if (check.ok) recipe = check.recipe;
   else notes.push(`The saved recipe could not be restored: ${check.problems.join(' ')} The stack starts empty.`);
+  const alternatives: AlternativeRequest[] = [];
+  for (const a of meta.alternatives ?? []) {
+    const c = validateRecipe(a.recipe, registry);
+    if (c.ok && typeof a.id === 'string' && typeof a.label === 'string') alternatives.push({ id: a.id, label: a.label, recipe: c.recipe });
+    else notes.push(`The saved alternative “${String(a.label)}” could not be restored and was left out.`);
+  }
   return {
     ok: true,
     notes,
     snapshot: {
+      alternatives,
       traces, roles, reports, recipe,
       sampleId: meta.sampleId && ids.has(meta.sampleId) ? meta.sampleId : null,
       noiseSettings: meta.noiseSettings, peakSettings: meta.peakSettings,
@@ -324,7 +337,7 @@ export interface SessionStore {
   subscribe(listener: (state: AppState, prev: AppState) => void): () => void;
 }
 
-const SESSION_KEYS: readonly (keyof SessionSnapshot)[] = ['traces', 'roles', 'sampleId', 'reports', 'recipe', 'noiseSettings', 'peakSettings', 'decisions'];
+const SESSION_KEYS: readonly (keyof SessionSnapshot)[] = ['traces', 'roles', 'sampleId', 'reports', 'recipe', 'noiseSettings', 'peakSettings', 'decisions', 'alternatives'];
 
 /**
  * Save the session about `delayMs` after the last change to any part it
@@ -386,7 +399,7 @@ export async function restoreSession(store: SessionStore): Promise<boolean> {
   store.setState({
     traces: s.traces, roles: s.roles, sampleId: s.sampleId, reports: s.reports,
     recipe: s.recipe, past: [], future: [],
-    noiseSettings: s.noiseSettings, peakSettings: s.peakSettings, decisions: s.decisions,
+    noiseSettings: s.noiseSettings, peakSettings: s.peakSettings, decisions: s.decisions, alternatives: s.alternatives,
   });
   store.getState().notify(out.notes.length ? 'warning' : 'info', 'Your previous session was restored',
     [`${s.traces.length} trace(s), the step stack and your peak decisions are as you left them. Use “Start over” to empty it.`, ...out.notes]);
