@@ -305,6 +305,6 @@ export const baselineStep: StepDefinition<BaselineParams> = {
     }
     const out = new Float64Array(y.length);
     for (let i = 0; i < y.length; i++) out[i] = y[i] - baseline[i];
-    return { x: Float64Array.from(x), y: out, baseline, notes, figures };
+    return { x, y: out, baseline, notes, figures };
   },
 };

@@ -98,6 +98,6 @@ export const blankSubtractionStep: StepDefinition<BlankSubtractionParams> = {
     const { y, interpolated } = subtractBlank(input, blank, params.scale);
     const notes = [`Subtracted ${params.scale === 1 ? 'the blank' : `${formatNumber(params.scale)} × the blank`} "${blank.name}".`];
     if (interpolated) notes.push('The blank was measured on different x values; it was interpolated linearly onto the sample\'s x before subtraction.');
-    return { x: Float64Array.from(input.x), y, notes };
+    return { x: input.x, y, notes };
   },
 };

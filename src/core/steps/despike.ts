@@ -99,6 +99,6 @@ export const despikeStep: StepDefinition<DespikeParams> = {
       notes.push(`Every point was replaced by its ${params.window}-point running median; ${events.length} of ${y.length} values changed (listed).`);
     }
     notes.push('Near the ends the window is cut short (no padding), so the first and last points are judged on fewer neighbours.');
-    return { x: Float64Array.from(x), y: out, events, notes };
+    return { x, y: out, events, notes };
   },
 };

@@ -90,7 +90,7 @@ export const ensembleAverageStep: StepDefinition<EnsembleAverageParams> = {
     );
     if (interpolatedCount > 0) notes.push(`${interpolatedCount} scan(s) had different x values and were interpolated linearly onto the signal's x.`);
     return {
-      x: Float64Array.from(input.x),
+      x: input.x,
       y,
       notes,
       figures: { n: count, expectedGain, noiseBefore, noiseAfter, measuredGain },
