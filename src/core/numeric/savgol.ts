@@ -3,7 +3,7 @@
  * Anal. Chem. 36:1627; table corrections by Steinier, Termonia & Deltour
  * 1972, Anal. Chem. 44:1906). Edge modes follow SciPy's `savgol_filter`.
  */
-import { correlate } from './convolve.ts';
+import { padIndex } from './convolve.ts';
 import type { PadMode } from './convolve.ts';
 
 /** Edge handling: 'interp' fits the end windows; the others pad as SciPy's ndimage does. */
@@ -105,7 +105,9 @@ export function savgolCoefficients(window: number, order: number, deriv = 0, pos
 
 /**
  * Savitzky–Golay smoothing or differentiation of evenly spaced samples.
- * Interior points: correlation with {@link savgolCoefficients}, O(n·window).
+ * Interior points: correlation with {@link savgolCoefficients}, O(n·window),
+ * the symmetric (even derivative) or antisymmetric (odd) weights folded so
+ * each pair of samples at ±k takes one multiply.
  * Edges by `mode`, matching SciPy 1.17 `savgol_filter`:
  *  - 'interp' (default): the polynomial fitted to the first (last) `window`
  *    points is evaluated at the outer window//2 points, so every polynomial
@@ -133,18 +135,31 @@ export function savitzkyGolay(y: Float64Array, window: number, order: number, op
   const c = savgolCoefficients(window, order, deriv);
   const unit = delta ** deriv;
   if (unit !== 1) for (let k = 0; k < c.length; k++) c[k] /= unit;
-  const padMode: PadMode = mode === 'interp' ? 'constant' : mode;
-  const out = correlate(y, c, padMode, opts.cval ?? 0);
-  if (mode !== 'interp') return out;
-  // Edge loop: each of the outer half-window points gets the end window's fit evaluated there.
   const half = (window - 1) / 2;
+  const out = new Float64Array(n);
+  // Centre weights are exactly symmetric for even derivatives and antisymmetric for odd ones;
+  // the computed ones differ from that by rounding, so both halves are averaged into one.
+  const sign = deriv % 2 === 1 ? -1 : 1;
+  const fold = new Float64Array(half + 1);
+  fold[0] = sign === 1 ? c[half] : 0;
+  for (let k = 1; k <= half; k++) fold[k] = 0.5 * (c[half + k] + sign * c[half - k]);
+  const lo = half;
+  const hi = n - 1 - half;
+  if (hi >= lo) {
+    if (sign === 1) foldedEven(y, out, fold, lo, hi);
+    else foldedOdd(y, out, fold, lo, hi);
+  }
+  if (mode !== 'interp') {
+    paddedEdges(y, out, fold, sign, Math.min(lo, n), Math.max(hi + 1, lo), mode, opts.cval ?? 0);
+    return out;
+  }
+  // Edge loop: each of the outer half-window points gets the end window's fit evaluated there.
   for (let p = 0; p < half; p++) {
     const ce = savgolCoefficients(window, order, deriv, p);
     let left = 0;
     let right = 0;
     const base = n - window;
     // The right end uses the mirrored position with reversed weights (same polynomial geometry).
-    const sign = deriv % 2 === 1 ? -1 : 1;
     for (let k = 0; k < window; k++) {
       left += ce[k] * y[k];
       right += ce[k] * y[base + window - 1 - k];
@@ -153,4 +168,90 @@ export function savitzkyGolay(y: Float64Array, window: number, order: number, op
     out[n - 1 - p] = (sign * right) / unit;
   }
   return out;
+}
+
+/**
+ * out[i] = f[0]·y[i] + Σₖ f[k]·(y[i−k] + y[i+k]) for lo ≤ i ≤ hi (all indices inside y).
+ * Four outputs per pass share each weight and keep four independent sums.
+ */
+function foldedEven(y: Float64Array, out: Float64Array, f: Float64Array, lo: number, hi: number): void {
+  const h = f.length - 1;
+  const f0 = f[0];
+  let i = lo;
+  for (; i + 3 <= hi; i += 4) {
+    // l0..l3 hold y[i+j−k] and r0..r3 hold y[i+j+k]: each step loads one new sample per side.
+    let l0 = y[i], l1 = y[i + 1], l2 = y[i + 2];
+    let r1 = l1, r2 = l2, r3 = y[i + 3];
+    let s0 = f0 * l0, s1 = f0 * l1, s2 = f0 * l2, s3 = f0 * r3;
+    for (let k = 1; k <= h; k++) {
+      const l3 = l2; l2 = l1; l1 = l0; l0 = y[i - k];
+      const r0 = r1; r1 = r2; r2 = r3; r3 = y[i + 3 + k];
+      const fk = f[k];
+      s0 += fk * (l0 + r0);
+      s1 += fk * (l1 + r1);
+      s2 += fk * (l2 + r2);
+      s3 += fk * (l3 + r3);
+    }
+    out[i] = s0;
+    out[i + 1] = s1;
+    out[i + 2] = s2;
+    out[i + 3] = s3;
+  }
+  for (; i <= hi; i++) {
+    let s = f0 * y[i];
+    for (let k = 1; k <= h; k++) s += f[k] * (y[i - k] + y[i + k]);
+    out[i] = s;
+  }
+}
+
+/** As {@link foldedEven} for antisymmetric weights: out[i] = Σₖ f[k]·(y[i+k] − y[i−k]). */
+function foldedOdd(y: Float64Array, out: Float64Array, f: Float64Array, lo: number, hi: number): void {
+  const h = f.length - 1;
+  let i = lo;
+  for (; i + 3 <= hi; i += 4) {
+    let l0 = y[i], l1 = y[i + 1], l2 = y[i + 2];
+    let r1 = l1, r2 = l2, r3 = y[i + 3];
+    let s0 = 0, s1 = 0, s2 = 0, s3 = 0;
+    for (let k = 1; k <= h; k++) {
+      const l3 = l2; l2 = l1; l1 = l0; l0 = y[i - k];
+      const r0 = r1; r1 = r2; r2 = r3; r3 = y[i + 3 + k];
+      const fk = f[k];
+      s0 += fk * (r0 - l0);
+      s1 += fk * (r1 - l1);
+      s2 += fk * (r2 - l2);
+      s3 += fk * (r3 - l3);
+    }
+    out[i] = s0;
+    out[i + 1] = s1;
+    out[i + 2] = s2;
+    out[i + 3] = s3;
+  }
+  for (; i <= hi; i++) {
+    let s = 0;
+    for (let k = 1; k <= h; k++) s += f[k] * (y[i + k] - y[i - k]);
+    out[i] = s;
+  }
+}
+
+/**
+ * The points whose window reaches past an end, i < lo or i ≥ hiEnd, with the
+ * samples beyond the ends supplied by the padding rule (as SciPy's ndimage).
+ */
+function paddedEdges(
+  y: Float64Array, out: Float64Array, f: Float64Array, sign: number,
+  lo: number, hiEnd: number, mode: PadMode, cval: number,
+): void {
+  const n = y.length;
+  const h = f.length - 1;
+  const at = (j: number): number => {
+    const k = padIndex(j, n, mode);
+    return k < 0 ? cval : y[k];
+  };
+  const one = (i: number): void => {
+    let s = f[0] * at(i);
+    for (let k = 1; k <= h; k++) s += f[k] * (at(i + k) + sign * at(i - k));
+    out[i] = s;
+  };
+  for (let i = 0; i < lo; i++) one(i);
+  for (let i = Math.max(hiEnd, lo); i < n; i++) one(i);
 }
