@@ -147,6 +147,38 @@ export interface PeakDecisions {
 }
 
 // ---------------------------------------------------------------------------
+// Scratch arrays
+
+/**
+ * Temporaries of the detector, reused between calls: detection is
+ * synchronous, so one set serves every call, and a 10⁶-point trace no
+ * longer allocates (and the collector no longer frees) some 20 MB of
+ * short-lived arrays per call. Arrays longer than SCRATCH_KEEP entries are
+ * made for the call only, so a huge trace does not pin memory afterwards.
+ * Nothing returned to a caller is ever a scratch array.
+ */
+const SCRATCH_KEEP = 1 << 20;
+const scratchPool = new Map<string, Float64Array | Int32Array>();
+
+function scratchF64(name: string, length: number): Float64Array {
+  if (length > SCRATCH_KEEP) return new Float64Array(length);
+  const a = scratchPool.get(name);
+  if (a instanceof Float64Array && a.length >= length) return a.subarray(0, length);
+  const b = new Float64Array(Math.max(length, 1024));
+  scratchPool.set(name, b);
+  return b.subarray(0, length);
+}
+
+function scratchI32(name: string, length: number): Int32Array {
+  if (length > SCRATCH_KEEP) return new Int32Array(length);
+  const a = scratchPool.get(name);
+  if (a instanceof Int32Array && a.length >= length) return a.subarray(0, length);
+  const b = new Int32Array(Math.max(length, 1024));
+  scratchPool.set(name, b);
+  return b.subarray(0, length);
+}
+
+// ---------------------------------------------------------------------------
 // SciPy-compatible primitives
 
 /**
@@ -161,10 +193,11 @@ export function findLocalMaxima(y: ArrayLike<number>): Int32Array {
   return localMaxima(y).slice();
 }
 
-/** {@link findLocalMaxima} as a view on a larger scratch array (no copy), for internal use. */
-function localMaxima(y: ArrayLike<number>): Int32Array {
+/** {@link findLocalMaxima} as a view on a larger array (no copy; `scratch` true: a reused one), for internal use. */
+function localMaxima(y: ArrayLike<number>, scratch = false): Int32Array {
   const n = y.length;
-  const out = new Int32Array(Math.max(0, (n >> 1) + 1));
+  const len = Math.max(0, (n >> 1) + 1);
+  const out = scratch ? scratchI32('maxima', len) : new Int32Array(len);
   let m = 0;
   let i = 1;
   const iMax = n - 1;
@@ -270,15 +303,17 @@ function prominenceSweep(y: ArrayLike<number>, peaks: ArrayLike<number>, out: { 
  * prominences as the sample-by-sample walk. `maxima` must be
  * {@link findLocalMaxima}(y).
  */
-function prominencesOfMaxima(y: ArrayLike<number>, maxima: Int32Array): ProminenceData {
+function prominencesOfMaxima(y: ArrayLike<number>, maxima: Int32Array, scratch = false): ProminenceData {
   const n = y.length, m = maxima.length;
-  const p = new Float64Array(m), l = new Int32Array(m), r = new Int32Array(m);
+  const p = scratch ? scratchF64('prom', m) : new Float64Array(m);
+  const l = scratch ? scratchI32('leftBase', m) : new Int32Array(m);
+  const r = scratch ? scratchI32('rightBase', m) : new Int32Array(m);
   if (m === 0) return { prominences: p, leftBases: l, rightBases: r };
   // Valley k lies between maximum k − 1 and maximum k (valley 0 and valley m touch the ends).
   // For walks going left the nearest lowest sample is the last one; going right, the first.
   // The left sweep finds each valley as it goes and keeps what the right sweep needs.
-  const vMin = new Float64Array(m + 1), vFirst = new Int32Array(m + 1);
-  const stVal = new Float64Array(m), stMin = new Float64Array(m), stArg = new Int32Array(m);
+  const vMin = scratchF64('valleyMin', m + 1), vFirst = scratchI32('valleyFirst', m + 1);
+  const stVal = scratchF64('stackValue', m), stMin = scratchF64('stackMin', m), stArg = scratchI32('stackArg', m);
   let top = -1;
   for (let k = 0; k <= m; k++) {
     const a = k === 0 ? 0 : maxima[k - 1] + 1;
@@ -380,12 +415,24 @@ export function peakWidths(y: ArrayLike<number>, peaks: ArrayLike<number>, relHe
   if (prominences.length !== m || leftBases.length !== m || rightBases.length !== m) {
     throw new RangeError('The prominence data must have one entry per peak.');
   }
-  const widths = new Float64Array(m), heights = new Float64Array(m), left = new Float64Array(m), right = new Float64Array(m);
   for (let k = 0; k < m; k++) {
     const peak = peaks[k], iMin = leftBases[k], iMax = rightBases[k];
     if (!(iMin >= 0 && iMin <= peak && peak <= iMax && iMax < n)) {
       throw new RangeError(`The bases of peak ${k + 1} (${iMin}, ${iMax}) do not bracket it at ${peak}.`);
     }
+  }
+  const out = { widths: new Float64Array(m), widthHeights: new Float64Array(m), leftIps: new Float64Array(m), rightIps: new Float64Array(m) };
+  widthsInto(y, peaks, relHeight, prominenceData, out);
+  return out;
+}
+
+/** The measuring loop of {@link peakWidths}, into given arrays, on peaks already checked. */
+function widthsInto(y: ArrayLike<number>, peaks: ArrayLike<number>, relHeight: number, prominenceData: ProminenceData, out: WidthData): void {
+  const m = peaks.length;
+  const { prominences, leftBases, rightBases } = prominenceData;
+  const { widths, widthHeights: heights, leftIps: left, rightIps: right } = out;
+  for (let k = 0; k < m; k++) {
+    const peak = peaks[k], iMin = leftBases[k], iMax = rightBases[k];
     const h = y[peak] - prominences[k] * relHeight;
     heights[k] = h;
     let i = peak;
@@ -398,7 +445,6 @@ export function peakWidths(y: ArrayLike<number>, peaks: ArrayLike<number>, relHe
     if (y[i] < h) rip -= (h - y[i]) / (y[i - 1] - y[i]);
     left[k] = lip; right[k] = rip; widths[k] = rip - lip;
   }
-  return { widths, widthHeights: heights, leftIps: left, rightIps: right };
 }
 
 /**
@@ -706,6 +752,8 @@ interface Candidate {
   origin: Peak['origin'];
   /** Height on the detection signal when already computed, else NaN. */
   height: number;
+  /** Refined apex x when already computed, else NaN. */
+  apex: number;
   note?: string;
 }
 
@@ -732,7 +780,7 @@ function makePeak(x: Float64Array, y: Float64Array, s: Float64Array, sign: numbe
   const leftHalf = xAt(x, c.leftIp), rightHalf = xAt(x, c.rightIp);
   const fwhm = rightHalf - leftHalf;
   const fwhmPoints = c.rightIp - c.leftIp;
-  const xApex = apexPosition(x, s, i, fwhmPoints);
+  const xApex = Number.isNaN(c.apex) ? apexPosition(x, s, i, fwhmPoints) : c.apex;
   const hs = Number.isNaN(c.height) ? heightAbove(x, s, i, xApex, fwhmPoints, c.leftBase, c.rightBase, o.noiseSigma) : c.height;
   const q = baseHalfWindow(fwhmPoints);
   const snrRms = Math.abs(hs) / o.noiseSigma;
@@ -847,8 +895,8 @@ export function detectPeaks(x: Float64Array, y: Float64Array, options: PeakOptio
   const sign = o.negative ? -1 : 1;
   const s = detectionSignal(y, o.negative);
 
-  const maxima = localMaxima(s);
-  const prom = prominencesOfMaxima(s, maxima);
+  const maxima = localMaxima(s, true);
+  const prom = prominencesOfMaxima(s, maxima, true);
   // Compact the candidates that pass the prominence test in place: these arrays are our own.
   const idx = maxima, pr = prom.prominences as Float64Array, lb = prom.leftBases as Int32Array, rb = prom.rightBases as Int32Array;
   let m = 0;
@@ -858,10 +906,12 @@ export function detectPeaks(x: Float64Array, y: Float64Array, options: PeakOptio
     }
   }
   const cIdx = idx.subarray(0, m);
-  const w = peakWidths(s, cIdx, 0.5, { prominences: pr.subarray(0, m), leftBases: lb.subarray(0, m), rightBases: rb.subarray(0, m) });
+  // Bases from the sweep always bracket their peak, so the checks of peakWidths are not needed here.
+  const w: WidthData = { widths: scratchF64('widths', m), widthHeights: scratchF64('widthHeights', m), leftIps: scratchF64('leftIps', m), rightIps: scratchF64('rightIps', m) };
+  widthsInto(s, cIdx, 0.5, { prominences: pr.subarray(0, m), leftBases: lb.subarray(0, m), rightBases: rb.subarray(0, m) }, w);
 
   const keep = new Uint8Array(m);
-  const heights = new Float64Array(m).fill(NaN);
+  const heights = scratchF64('heights', m).fill(NaN), apexes = scratchF64('apexes', m).fill(NaN);
   const minSnrOnTheFly = o.snrDefinition !== 'region';
   for (let k = 0; k < m; k++) {
     const i = cIdx[k];
@@ -872,7 +922,7 @@ export function detectPeaks(x: Float64Array, y: Float64Array, options: PeakOptio
     if (minSnrOnTheFly && o.minSnr > 0) {
       const xApex = apexPosition(x, s, i, w.widths[k]);
       const hs = heightAbove(x, s, i, xApex, w.widths[k], lb[k], rb[k], o.noiseSigma);
-      heights[k] = hs;
+      heights[k] = hs; apexes[k] = xApex;
       let snr: number | null;
       if (o.snrDefinition === 'rms') snr = Math.abs(hs) / o.noiseSigma;
       else {
@@ -897,7 +947,7 @@ export function detectPeaks(x: Float64Array, y: Float64Array, options: PeakOptio
     if (!keep[k]) continue;
     cands.push({
       index: cIdx[k], prominence: pr[k], leftBase: lb[k], rightBase: rb[k],
-      leftIp: w.leftIps[k], rightIp: w.rightIps[k], startIndex: lb[k], endIndex: rb[k], origin: 'detected', height: heights[k],
+      leftIp: w.leftIps[k], rightIp: w.rightIps[k], startIndex: lb[k], endIndex: rb[k], origin: 'detected', height: heights[k], apex: apexes[k],
     });
   }
   assignBounds(s, cands);
@@ -917,7 +967,7 @@ function candidateAt(s: Float64Array, index: number, origin: Peak['origin']): Ca
   const w = peakWidths(s, [index], 0.5, pd);
   const c: Candidate = {
     index, prominence: p, leftBase: l, rightBase: r, leftIp: w.leftIps[0], rightIp: w.rightIps[0],
-    startIndex: l, endIndex: r, origin, height: NaN,
+    startIndex: l, endIndex: r, origin, height: NaN, apex: NaN,
   };
   if (!(p > 0)) c.note = 'Not a local maximum here (a neighbouring sample is as high or higher): prominence, height, width and area are 0.';
   return c;
@@ -974,7 +1024,7 @@ export function applyPeakDecisions(peaks: readonly Peak[], decisions: PeakDecisi
     const w = peakWidths(s, [p.index], 0.5, { prominences: Float64Array.of(p.prominence), leftBases: Int32Array.of(p.leftBase), rightBases: Int32Array.of(p.rightBase) });
     kept.push({
       index: p.index, prominence: p.prominence, leftBase: p.leftBase, rightBase: p.rightBase,
-      leftIp: w.leftIps[0], rightIp: w.rightIps[0], startIndex: p.startIndex, endIndex: p.endIndex, origin: p.origin, height: NaN, note: p.note,
+      leftIp: w.leftIps[0], rightIp: w.rightIps[0], startIndex: p.startIndex, endIndex: p.endIndex, origin: p.origin, height: NaN, apex: NaN, note: p.note,
     });
   }
   for (const a of decisions.added) {
