@@ -151,13 +151,13 @@ export interface PeakDecisions {
 
 /**
  * Temporaries of the detector, reused between calls: detection is
- * synchronous, so one set serves every call, and a 10⁶-point trace no
- * longer allocates (and the collector no longer frees) some 20 MB of
- * short-lived arrays per call. Arrays longer than SCRATCH_KEEP entries are
- * made for the call only, so a huge trace does not pin memory afterwards.
+ * synchronous, so one set serves every call and the collector has less to
+ * free. Only arrays up to SCRATCH_KEEP entries are kept (traces up to about
+ * 5·10⁵ points, at most some 6 MB); longer ones are made for the call only,
+ * since at 10⁶ points keeping them would pin about 20 MB for good.
  * Nothing returned to a caller is ever a scratch array.
  */
-const SCRATCH_KEEP = 1 << 20;
+const SCRATCH_KEEP = 1 << 18;
 const scratchPool = new Map<string, Float64Array | Int32Array>();
 
 function scratchF64(name: string, length: number): Float64Array {

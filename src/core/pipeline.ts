@@ -37,25 +37,62 @@ export interface PipelineResult {
   baseline?: Float64Array;
 }
 
-/** A bounded cache of step outputs keyed by the chain of inputs that made them. */
+/** Default memory budget of a {@link PipelineCache}: about twelve 10⁶-point outputs. */
+export const PIPELINE_CACHE_BYTES = 200 * 1024 * 1024;
+
+/** The typed-array stores an output holds (x is often shared with the step's input). */
+function storesOf(v: StepOutput): ArrayBufferLike[] {
+  const out = [v.x.buffer, v.y.buffer];
+  if (v.baseline) out.push(v.baseline.buffer);
+  if (v.extra) for (const a of Object.values(v.extra)) out.push(a.buffer);
+  return out;
+}
+
+/**
+ * A bounded cache of step outputs keyed by the chain of inputs that made
+ * them. Bounded by entry count and by bytes: a store shared by several
+ * outputs (steps that keep the grid hand on their input's x) is counted
+ * once. When over either bound the least recently used entries go; the
+ * newest entry always stays, even when it alone exceeds the byte budget.
+ */
 export class PipelineCache {
   private readonly map = new Map<string, StepOutput>();
-  constructor(private readonly maxEntries = 64) {}
+  /** How many cached outputs hold each store. */
+  private readonly refs = new Map<ArrayBufferLike, number>();
+  private held = 0;
+  constructor(private readonly maxEntries = 64, private readonly maxBytes = PIPELINE_CACHE_BYTES) {}
   get(key: string): StepOutput | undefined {
     const v = this.map.get(key);
     if (v) { this.map.delete(key); this.map.set(key, v); }
     return v;
   }
   set(key: string, value: StepOutput): void {
+    if (this.map.has(key)) this.remove(key);
     this.map.set(key, value);
-    while (this.map.size > this.maxEntries) {
+    for (const b of new Set(storesOf(value))) {
+      const r = this.refs.get(b) ?? 0;
+      if (r === 0) this.held += b.byteLength;
+      this.refs.set(b, r + 1);
+    }
+    while (this.map.size > 1 && (this.map.size > this.maxEntries || this.held > this.maxBytes)) {
       const oldest = this.map.keys().next().value;
       if (oldest === undefined) break;
-      this.map.delete(oldest);
+      this.remove(oldest);
     }
   }
-  clear(): void { this.map.clear(); }
+  private remove(key: string): void {
+    const v = this.map.get(key);
+    if (!v) return;
+    this.map.delete(key);
+    for (const b of new Set(storesOf(v))) {
+      const r = (this.refs.get(b) ?? 1) - 1;
+      if (r <= 0) { this.refs.delete(b); this.held -= b.byteLength; } else this.refs.set(b, r);
+    }
+  }
+  clear(): void { this.map.clear(); this.refs.clear(); this.held = 0; }
   get size(): number { return this.map.size; }
+  /** Bytes of the distinct typed-array stores the cached outputs hold. */
+  get bytes(): number { return this.held; }
 }
 
 function allFinite(a: Float64Array): boolean {
