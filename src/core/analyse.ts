@@ -107,6 +107,8 @@ export interface WindowAdviceRow {
 export interface LossReport {
   /** Column 0 is the raw trace (reference), column 1 the current stack, then the alternatives. */
   ledger: Ledger;
+  /** Features below the detection limit in every column, left out of the ledger (counted only). */
+  noiseLevelRows: number;
   outcomes: AlternativeOutcome[];
   /** Narrowest half-height width among the reference's quantifiable peaks (detectable when none), in points. */
   narrowestFwhmPoints: number | null;
@@ -156,13 +158,21 @@ export interface AnalyseResult {
   ms: number;
 }
 
+/**
+ * What depends on the raw trace alone is worked out once per trace and kept
+ * while the trace lives (raw arrays are never changed, so their identity is
+ * a safe key): the feature mask, and the reference peak table per settings.
+ */
+const MASKS = new WeakMap<Float64Array, Uint8Array>();
+const REFERENCES = new WeakMap<Float64Array, Map<string, Measured>>();
+
 /** Measure noise on `sig` by the chosen method; `raw` gives the comparison figure. */
 export function measureNoise(sig: Signal, raw: Signal, settings: NoiseSettings): NoiseReport {
   const notes: string[] = [];
-  let rawMask: Uint8Array | null = null;
+  let rawMask: Uint8Array | null = MASKS.get(raw.y) ?? null;
   // Features are found once on the raw trace and carried to the measured grid.
   const maskOn = (s: Signal): Uint8Array => {
-    rawMask ??= featureMask(raw.x, raw.y);
+    if (!rawMask) { rawMask = featureMask(raw.x, raw.y); MASKS.set(raw.y, rawMask); }
     if (s.x.length === raw.x.length) return rawMask;
     const m = new Uint8Array(s.x.length);
     let j = 0;
@@ -271,7 +281,15 @@ function lossCheck(
   const ps = { ...(request.peaks ?? DEFAULT_PEAK_SETTINGS), measureOn: 'processed' as const };
   const noiseSettings = request.noise ?? DEFAULT_NOISE_SETTINGS;
   // Hand decisions belong to the current table only; the comparison uses what detection finds.
-  const reference = measurePeaks(raw, raw, noiseSettings, ps, ctx);
+  const refKey = JSON.stringify([noiseSettings, ps, ctx.blank?.id ?? null]);
+  let refs = REFERENCES.get(raw.y);
+  if (!refs) { refs = new Map(); REFERENCES.set(raw.y, refs); }
+  let reference = refs.get(refKey);
+  if (!reference) {
+    reference = measurePeaks(raw, raw, noiseSettings, ps, ctx);
+    if (refs.size > 8) refs.clear();
+    refs.set(refKey, reference);
+  }
   const reuse = (request.peaks ?? DEFAULT_PEAK_SETTINGS).measureOn === 'processed' && !request.decisions?.added.length && !request.decisions?.removed.length;
   const current = reuse ? main : measurePeaks(run.final, raw, noiseSettings, ps, ctx);
   const columns = [
@@ -303,7 +321,12 @@ function lossCheck(
     columns.push({ id: alt.id, label: alt.label, peaks: m.peaks });
   }
   const limits = { detection: ps.detectionLimit, quantitation: ps.quantitationLimit };
-  const ledger = matchPeaks(columns, { dx: meanStep(raw.x), xUnit: sample.xUnit, limits });
+  const full = matchPeaks(columns, { dx: meanStep(raw.x), xUnit: sample.xUnit, limits });
+  // Features below the detection limit in every column are noise-level candidates: counted, not carried
+  // (a long noisy trace has tens of thousands, and sending them to the page would stall it).
+  const kept = full.rows.filter((r) => r.cells.some((c) => c.standing === 'detectable' || c.standing === 'quantifiable'));
+  const ledger: Ledger = { ...full, rows: kept, sentences: kept.flatMap((r) => r.sentences) };
+  const noiseLevelRows = full.rows.length - kept.length;
   // Narrowest real peak: among the reference's quantifiable peaks (noise wiggles that just pass S/N 3 are
   // narrow by nature and would make every window look too wide); detectable ones only when none is quantifiable.
   const quant = reference.peaks.filter((p) => p.flag === 'quantifiable');
@@ -329,7 +352,7 @@ function lossCheck(
     else if (cur.crossed === 'down') currentWarnings.push(`The feature at ${where(row.position)} falls from ${ref.standing} (S/N ${ref.snr?.toFixed(1)}) to ${cur.standing.replace('-', ' ')} (S/N ${cur.snr?.toFixed(1)}) with the current stack.`);
     else if (ref.standing === 'quantifiable' && cur.heightKept !== null && cur.heightKept < 80) currentWarnings.push(`The feature at ${where(row.position)} keeps only ${cur.heightKept.toFixed(0)} % of its raw height with the current stack.`);
   }
-  return { ledger, outcomes, narrowestFwhmPoints: narrowest, advice, currentWarnings };
+  return { ledger, noiseLevelRows, outcomes, narrowestFwhmPoints: narrowest, advice, currentWarnings };
 }
 
 /** Steps whose change to the trace is a deliberate removal, not a loss. */

@@ -4,7 +4,6 @@ import { presetAlternative, PRESETS } from './alternatives.ts';
 import { num, FLAG_WORDS } from './format.ts';
 import { ALTERNATIVE_COLOURS } from './palette.ts';
 import { MAX_ALTERNATIVES } from '../core/analyse.ts';
-import { useState } from 'react';
 
 function standingText(c: LedgerCell): string {
   if (!c.found) return 'lost';
@@ -25,11 +24,10 @@ export function LossPanel() {
   const showAlt = useApp((s) => s.showAlternatives);
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const { addAlternatives, removeAlternative, setShowAlternatives, notify } = useApp.getState();
-  const [allRows, setAllRows] = useState(false);
   const xu = sample?.xUnit ?? '';
   const full = alternatives.length >= MAX_ALTERNATIVES;
-  const rows = loss ? loss.ledger.rows.filter((r) => allRows || r.cells.some((c) => c.standing === 'detectable' || c.standing === 'quantifiable')) : [];
-  const hidden = loss ? loss.ledger.rows.length - rows.length : 0;
+  const rows = loss ? loss.ledger.rows : [];
+  const hidden = loss ? loss.noiseLevelRows : 0;
   // Thousands of rows would stall the page; crossed rows first, then by position.
   const shown = rows.length <= 300 ? rows : [...rows.filter((r) => r.crossed), ...rows.filter((r) => !r.crossed)].slice(0, 300).sort((a, b) => a.position - b.position);
   return (
@@ -124,11 +122,7 @@ export function LossPanel() {
             </table>
           </div>
           {shown.length < rows.length && <p className="small muted">Showing {shown.length} of {rows.length} rows (every row where a limit is crossed first). The report lists every sentence.</p>}
-          {hidden > 0 && (
-            <button type="button" className="link" onClick={() => setAllRows(!allRows)}>
-              {allRows ? 'hide' : 'show'} {hidden} noise-level candidate{hidden === 1 ? '' : 's'} (below the detection limit everywhere)
-            </button>
-          )}
+          {hidden > 0 && <p className="small muted">{hidden} noise-level candidate{hidden === 1 ? '' : 's'} (below the detection limit in every column) left out of the ledger.</p>}
           <p className="hint">{loss.ledger.rule}</p>
         </>
       )}
