@@ -98,6 +98,17 @@ export function lineFit(x: Float64Array, y: Float64Array, i0: number, i1: number
   return { slope, intercept: ym, xm };
 }
 
+/** The quiet range's sample indices and the straight line fitted through them, or the problem with the range. */
+function quietRangeFit(x: Float64Array, y: Float64Array, from: number, to: number):
+  { i0: number; i1: number; n: number; fit: ReturnType<typeof lineFit> } | NoiseProblem {
+  const bad = checkXY(x, y);
+  if (bad) return { ok: false, message: bad };
+  const r = rangeProblem(x, from, to, 'quiet range');
+  if (!Array.isArray(r)) return r;
+  const [i0, i1] = r;
+  return { i0, i1, n: i1 - i0 + 1, fit: lineFit(x, y, i0, i1) };
+}
+
 /**
  * RMS noise: the standard deviation of y about a least-squares straight
  * line over the x-range [from, to] (x-units, either order, ends included),
@@ -108,13 +119,9 @@ export function lineFit(x: Float64Array, y: Float64Array, i0: number, i1: number
  *   partly overlaps the trace uses the overlap and reports it (from, to).
  */
 export function noiseRms(x: Float64Array, y: Float64Array, from: number, to: number): NoiseResult {
-  const bad = checkXY(x, y);
-  if (bad) return { ok: false, message: bad };
-  const r = rangeProblem(x, from, to, 'quiet range');
-  if (!Array.isArray(r)) return r;
-  const [i0, i1] = r;
-  const n = i1 - i0 + 1;
-  const { slope, intercept, xm } = lineFit(x, y, i0, i1);
+  const q = quietRangeFit(x, y, from, to);
+  if (!('i0' in q)) return q;
+  const { i0, i1, n, fit: { slope, intercept, xm } } = q;
   let ss = 0;
   for (let i = i0; i <= i1; i++) { const e = y[i] - (intercept + slope * (x[i] - xm)); ss += e * e; }
   const sigma = Math.sqrt(ss / (n - 2));
@@ -133,13 +140,9 @@ export function noiseRms(x: Float64Array, y: Float64Array, from: number, to: num
  * @returns the range h in y-units, or a problem (fewer than 3 points, outside the data).
  */
 export function noisePeakToPeak(x: Float64Array, y: Float64Array, from: number, to: number): NoiseResult {
-  const bad = checkXY(x, y);
-  if (bad) return { ok: false, message: bad };
-  const r = rangeProblem(x, from, to, 'quiet range');
-  if (!Array.isArray(r)) return r;
-  const [i0, i1] = r;
-  const n = i1 - i0 + 1;
-  const { slope, intercept, xm } = lineFit(x, y, i0, i1);
+  const q = quietRangeFit(x, y, from, to);
+  if (!('i0' in q)) return q;
+  const { i0, i1, n, fit: { slope, intercept, xm } } = q;
   let lo = Infinity, hi = -Infinity;
   for (let i = i0; i <= i1; i++) {
     const e = y[i] - (intercept + slope * (x[i] - xm));

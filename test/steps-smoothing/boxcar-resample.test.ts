@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { boxcarAverage, boxcarStep } from '../../src/core/steps/boxcar.ts';
 import { resampleLinear, resampleStep } from '../../src/core/steps/resample.ts';
+import { normalArray } from '../../src/core/numeric/random.ts';
 
 describe('boxcarAverage', () => {
   it('counts, centre x and tail handling (definition: non-overlapping groups of k)', () => {
@@ -28,16 +29,8 @@ describe('boxcarAverage', () => {
 
   it('white noise SD falls by about √k (REFERENCES.md: k-point average divides noise SD by √k)', () => {
     // Group means of independent samples are independent: relative SE of their SD ≈ 1/√(2m), m = n/k groups; allow 4 SE.
-    let s = 12345;
-    const u = (): number => {
-      s = (s + 0x6d2b79f5) >>> 0;
-      let t = s;
-      t = Math.imul(t ^ (t >>> 15), t | 1);
-      t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-      return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-    };
     const n = 40000;
-    const y = Float64Array.from({ length: n }, () => Math.sqrt(-2 * Math.log(1 - u())) * Math.cos(2 * Math.PI * u()));
+    const y = normalArray(12345, n);
     const x = Float64Array.from({ length: n }, (_, i) => i);
     const k = 8;
     const r = boxcarAverage(x, y, k);

@@ -2,6 +2,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { movingAverage, movingAverageStep } from '../../src/core/steps/moving-average.ts';
 import type { MovingAverageEdge } from '../../src/core/steps/moving-average.ts';
+import { normalArray } from '../../src/core/numeric/random.ts';
 
 interface Reference {
   scipy: string;
@@ -11,20 +12,8 @@ interface Reference {
 }
 const ref = JSON.parse(readFileSync(new URL('../reference/smoothing.json', import.meta.url), 'utf8')) as Reference;
 
-/** Seeded normal numbers: mulberry32 uniforms + Box–Muller. */
-function normals(seed: number, n: number): Float64Array {
-  let s = seed >>> 0;
-  const u = (): number => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let t = s;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  const out = new Float64Array(n);
-  for (let i = 0; i < n; i++) out[i] = Math.sqrt(-2 * Math.log(1 - u())) * Math.cos(2 * Math.PI * u());
-  return out;
-}
+/** Seeded normal numbers from the project's generator (mulberry32 + Box–Muller). */
+const normals = normalArray;
 
 function sd(a: Float64Array, from: number, to: number): number {
   let m = 0;

@@ -50,3 +50,11 @@ export function makeRng(seed: number): Rng {
 
   return { uniform, normal };
 }
+
+/** n seeded standard-normal values (a fresh {@link makeRng} on `seed`). */
+export function normalArray(seed: number, n: number): Float64Array {
+  const rng = makeRng(seed);
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) out[i] = rng.normal();
+  return out;
+}

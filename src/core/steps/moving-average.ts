@@ -132,7 +132,8 @@ function slide(y: Float64Array, out: Float64Array, h: number, first: number, las
       }
     }
     out[start] = (s + c) / w;
-    // The padded stretches at either end, then the interior with no index checks.
+    // The padded stretches at either end, then the interior with no index checks. The three loops repeat
+    // one step on purpose: a shared closure puts s and c in a context object and doubles the time (measured).
     const inLo = Math.max(start + 1, safeLo);
     const inHi = Math.min(stop, safeHi);
     let i = start + 1;
