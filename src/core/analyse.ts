@@ -300,19 +300,8 @@ function lossCheck(
   for (const alt of alts) {
     const r = runPipeline(raw, sample.id, alt.recipe, registry, ctx, cache);
     const m = measurePeaks(r.final, raw, noiseSettings, ps, ctx);
-    let diag: ResidualDiagnostics | null = null;
-    try {
-      const res = residualOf(raw, r.final);
-      const removed = deliberateRemovals(raw, r);
-      const y = res.y;
-      if (removed) {
-        const on = removed.x.length === res.x.length ? removed.y : interpolateLinear(removed.x, removed.y, res.x);
-        for (let i = 0; i < y.length; i++) y[i] -= Number.isFinite(on[i]) ? on[i] : 0;
-      }
-      if (r.runs.some((x) => x.status === 'ok')) diag = residualDiagnostics(y);
-    } catch {
-      diag = null;
-    }
+    const res = residualOfRun(raw, r);
+    const diag = res.ok && r.runs.some((x) => x.status === 'ok') ? residualDiagnostics(res.residual.y) : null;
     outcomes.push({
       id: alt.id, label: alt.label, processed: r.final, diagnostics: diag,
       noiseSigma: m.noise?.sigma.sigma ?? null, peakCount: m.peaks.length,
@@ -353,6 +342,28 @@ function lossCheck(
     else if (ref.standing === 'quantifiable' && cur.heightKept !== null && cur.heightKept < 80) currentWarnings.push(`The feature at ${where(row.position)} keeps only ${cur.heightKept.toFixed(0)} % of its raw height with the current stack.`);
   }
   return { ledger, noiseLevelRows, outcomes, narrowestFwhmPoints: narrowest, advice, currentWarnings };
+}
+
+/**
+ * The residual of a pipeline run: raw − processed on the processed grid,
+ * minus what baseline correction and blank subtraction removed on purpose.
+ * When it cannot be formed (processed x outside the raw range) it is zero
+ * and `ok` is false, with the reason in the note.
+ */
+function residualOfRun(raw: Signal, run: ReturnType<typeof runPipeline>): { residual: Signal; note?: string; ok: boolean } {
+  try {
+    const r = residualOf(raw, run.final);
+    let note = r.note ?? undefined;
+    const removed = deliberateRemovals(raw, run);
+    if (removed) {
+      const on = removed.x.length === r.x.length ? removed.y : interpolateLinear(removed.x, removed.y, r.x);
+      for (let i = 0; i < r.y.length; i++) r.y[i] -= Number.isFinite(on[i]) ? on[i] : 0;
+      note = `${note ? `${note} ` : ''}What baseline correction and blank subtraction removed on purpose is left out of the residual, so it shows only what the other steps took away.`;
+    }
+    return { residual: { x: r.x, y: r.y }, note, ok: true };
+  } catch (e) {
+    return { residual: { x: run.final.x, y: new Float64Array(run.final.x.length) }, note: `${(e as Error).message} The residual is not shown.`, ok: false };
+  }
 }
 
 /** Steps whose change to the trace is a deliberate removal, not a loss. */
@@ -397,24 +408,7 @@ export function analyse(
   };
   const raw: Signal = { x: sample.x, y: sample.y };
   const run = runPipeline(raw, sample.id, request.recipe, registry, ctx, cache);
-  let residual: Signal;
-  let note: string | undefined;
-  try {
-    const r = residualOf(raw, run.final);
-    residual = { x: r.x, y: r.y };
-    note = r.note ?? undefined;
-    const removed = deliberateRemovals(raw, run);
-    if (removed) {
-      const on = removed.x.length === r.x.length ? removed.y : interpolateLinear(removed.x, removed.y, r.x);
-      const y = new Float64Array(r.y.length);
-      for (let i = 0; i < y.length; i++) y[i] = r.y[i] - (Number.isFinite(on[i]) ? on[i] : 0);
-      residual = { x: r.x, y };
-      note = `${note ? `${note} ` : ''}What baseline correction and blank subtraction removed on purpose is left out of the residual, so it shows only what the other steps took away.`;
-    }
-  } catch (e) {
-    residual = { x: run.final.x, y: new Float64Array(run.final.x.length) };
-    note = `${(e as Error).message} The residual is not shown.`;
-  }
+  const { residual, note } = residualOfRun(raw, run);
   const processedSomething = run.runs.some((r) => r.status === 'ok');
   const diagnostics = processedSomething && residual.y.length >= 3 ? residualDiagnostics(residual.y) : null;
   const runs: StepRunSummary[] = run.runs.map((r) => ({

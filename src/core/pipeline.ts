@@ -124,7 +124,7 @@ export function runPipeline(
     }
     let problem: string | null = null;
     if (def.needsEvenSpacing && !isEvenlySpaced(current.x)) {
-      problem = `${def.label} assumes evenly spaced x, and these x values are not evenly spaced. Add "Resample to an even grid" before it.`;
+      problem = `${def.label} assumes evenly spaced x, and these x values are not evenly spaced. Add the step "Resample to even spacing" before it.`;
     }
     if (!problem) {
       try { problem = def.validate(entry.params, current, ctx); } catch (e) { problem = `Could not check the parameters: ${(e as Error).message}`; }
