@@ -4,6 +4,7 @@
  */
 import type { Signal } from './steps/types.ts';
 import { interpolateLinear } from './numeric/interpolate.ts';
+import { medianOf } from './numeric/median.ts';
 
 /** Wald–Wolfowitz runs test about the median. */
 export interface RunsTest {
@@ -54,21 +55,16 @@ export function twoSidedP(z: number): number {
   return erfc(Math.abs(z) / Math.SQRT2);
 }
 
-function median(values: Float64Array): number {
-  const s = Float64Array.from(values).sort();
-  const h = s.length >> 1;
-  return s.length & 1 ? s[h] : 0.5 * (s[h - 1] + s[h]);
-}
-
 /**
  * Wald–Wolfowitz runs test about the median (Wald & Wolfowitz 1940, Ann.
  * Math. Statist. 11:147), normal approximation: mean 2n₁n₂/N + 1, variance
  * 2n₁n₂(2n₁n₂ − N)/(N²(N − 1)), N = n₁ + n₂. Points equal to the median are
  * left out (common practice). With fewer than 2 points on either side the
- * test cannot be made: z = 0, p = 1.
+ * test cannot be made: z = 0, p = 1. The median is found by selection
+ * ({@link medianOf}), not by sorting the residual.
  */
 export function runsTest(e: Float64Array): RunsTest {
-  const med = median(e);
+  const med = medianOf(e);
   let n1 = 0, n2 = 0, runs = 0, last = 0;
   for (let i = 0; i < e.length; i++) {
     const side = e[i] > med ? 1 : e[i] < med ? -1 : 0;

@@ -3,7 +3,7 @@
  * in-process where no Worker exists (Node tests, very old browsers).
  */
 import { analyse, type AnalyseRequest, type AnalyseResult } from '../core/analyse.ts';
-import { loadFile } from '../core/io/load.ts';
+import { loadFileHashed } from '../core/io/load.ts';
 import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import { PipelineCache } from '../core/pipeline.ts';
 import { STEP_REGISTRY } from '../core/steps/registry.ts';
@@ -22,8 +22,9 @@ export class Engine {
     return analyse(request, this.traces, STEP_REGISTRY, this.cache);
   }
 
-  load(bytes: Uint8Array, fileName: string, options: LoadOptions | undefined, onProgress: (f: number) => void): LoadResult {
-    return loadFile(bytes, fileName, { ...(options ?? {}), onProgress });
+  /** Load a file; the SHA-256 is made by the platform's native digest where there is one (same hex as the pure one). */
+  load(bytes: Uint8Array, fileName: string, options: LoadOptions | undefined, onProgress: (f: number) => void): Promise<LoadResult> {
+    return loadFileHashed(bytes, fileName, { ...(options ?? {}), onProgress });
   }
 }
 

@@ -14,7 +14,7 @@ function post(msg: FromWorker, transfer: Transferable[] = []) {
   scope.postMessage(msg, transfer);
 }
 
-scope.onmessage = (ev: MessageEvent<ToWorker>) => {
+scope.onmessage = async (ev: MessageEvent<ToWorker>) => {
   const msg = ev.data;
   try {
     if (msg.type === 'inputs') {
@@ -25,7 +25,7 @@ scope.onmessage = (ev: MessageEvent<ToWorker>) => {
       post({ type: 'result', jobId: msg.jobId, result }, transferablesOf(result));
     } else if (msg.type === 'load') {
       let last = 0;
-      const result = engine.load(msg.bytes, msg.fileName, msg.options, (fraction) => {
+      const result = await engine.load(msg.bytes, msg.fileName, msg.options, (fraction) => {
         const now = Date.now();
         if (now - last > 80) { last = now; post({ type: 'progress', jobId: msg.jobId, fraction }); }
       });

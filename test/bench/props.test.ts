@@ -273,7 +273,7 @@ describe('smoothing kernels equal their naive definitions', () => {
     ), { seed: 81001, numRuns: RUNS });
   });
 
-  it('running median: sorted ring window = sorting every window, every edge rule (exact)', () => {
+  it('running median, windows up to 61 (sorted window) = sorting every window, every edge rule (exact)', () => {
     fc.assert(fc.property(
       signal(1, 300), oddWindow(61), fc.constantFrom<MedianEdge>('reflect', 'mirror', 'nearest', 'constant', 'shrink'),
       (y, w, edge) => {
@@ -283,6 +283,43 @@ describe('smoothing kernels equal their naive definitions', () => {
         expect(y).toEqual(copy);
       },
     ), { seed: 81002, numRuns: RUNS });
+  });
+
+  it('running median, windows 63–127 (sorted window, deepest search) = sorting every window, every edge rule (exact)', () => {
+    fc.assert(fc.property(
+      signal(1, 400), fc.integer({ min: 31, max: 63 }).map((h) => 2 * h + 1), fc.constantFrom<MedianEdge>('reflect', 'mirror', 'nearest', 'constant', 'shrink'),
+      (y, w, edge) => {
+        const copy = Float64Array.from(y);
+        expect(maxDiff(slidingMedian(y, w, edge), naiveSlidingMedian(y, w, edge))).toBe(0);
+        expect(y).toEqual(copy);
+      },
+    ), { seed: 81012, numRuns: 60 });
+  });
+
+  it('running median, windows 129–513 (two heaps) = sorting every window, every edge rule, shorter and longer signals (exact)', () => {
+    fc.assert(fc.property(
+      signal(1, 700), fc.integer({ min: 64, max: 256 }).map((h) => 2 * h + 1), fc.constantFrom<MedianEdge>('reflect', 'mirror', 'nearest', 'constant', 'shrink'),
+      (y, w, edge) => {
+        const copy = Float64Array.from(y);
+        expect(maxDiff(slidingMedian(y, w, edge), naiveSlidingMedian(y, w, edge))).toBe(0);
+        expect(y).toEqual(copy);
+      },
+    ), { seed: 81013, numRuns: 40 });
+  });
+
+  it('running median on long tie-heavy runs (a few distinct levels, 5000 points) = sorting every window', () => {
+    // Long stretches exercise many block and ring turnovers; few distinct values make equal values the rule.
+    fc.assert(fc.property(
+      fc.integer({ min: 1, max: 2 ** 31 - 1 }), fc.constantFrom(3, 7, 25, 31, 33, 127, 129, 301), fc.constantFrom<MedianEdge>('nearest', 'reflect', 'shrink'),
+      (seed, w, edge) => {
+        let state = seed;
+        const y = new Float64Array(5000);
+        for (let i = 0; i < y.length; i++) { state = (Math.imul(state, 48271) >>> 0) % 2147483647; y[i] = (state % 5) - 2 + (i % 1000 < 500 ? 0 : 0.5); }
+        const got = slidingMedian(y, w, edge);
+        const want = naiveSlidingMedian(y, w, edge);
+        expect(maxDiff(got, want)).toBe(0);
+      },
+    ), { seed: 81014, numRuns: 10 });
   });
 
   it('Hampel: sorted-window median and merged MAD = sorting every window (same replaced points)', () => {

@@ -1,59 +1,48 @@
 #!/usr/bin/env python3
-"""SciPy side of the speed benchmark (test/bench/run.ts starts it).
+"""SciPy side of the speed benchmark: one persistent process that test/bench/run.ts
+drives call by call, so our call and SciPy's call alternate on the same machine
+under the same load.
 
-Usage (run.ts passes these):
-    python3 test/bench/scipy_bench.py --job job.json
+Usage (run.ts starts it; nothing to do by hand):
+    python3 test/bench/scipy_bench.py --serve
 
-job.json lists the traces run.ts generated and wrote as raw little-endian
-float64 files, so both sides time exactly the same numbers:
-    {"runs": 5, "cases": [{"n": 100000, "file": "/tmp/.../y-100000.f64",
-                           "sigma": 0.05, "runs": 5, "hampel": true}, ...]}
+Protocol: one JSON object per line on stdin, one JSON answer per line on stdout.
+    {"op": "hello"}                                   -> versions
+    {"op": "load", "n": N, "file": "...f64", "sigma": s}
+        reads the raw little-endian float64 samples run.ts wrote (the very same
+        numbers both sides time)                       -> {"ok": true}
+    {"op": "call", "row": ROW, "n": N}               -> {"ms": wall time of one call}
+    {"op": "check", "row": ROW, "n": N}              -> what the call computed (probe
+        values at eleven fixed indices and the total, or peak count and sums), made
+        outside any timing so run.ts can show both sides computed the same thing
+    {"op": "quit"}
 
-For each case it times, median of `runs` calls after one untimed call
-(time.perf_counter):
-  savgol        scipy.signal.savgol_filter(y, 25, 2)           (mode 'interp', SciPy's default)
-  moving-mean   scipy.ndimage.uniform_filter1d(y, 25, mode='nearest')
-  median        scipy.ndimage.median_filter(y, 25, mode='nearest')
-  hampel        NumPy sliding_window_view median and MAD, k = 12, window cut at the
-                ends as ours (no SciPy function exists; informative only). Timed
-                once above 2e5 points.
-  asls          Eilers & Boelens (2005) loop: scipy.sparse diags + spsolve,
-                lambda 1e5, p 0.01, at most 10 solves, stopping when the weights
-                stop changing (the same rule as our baselineAsls); spsolve's
-                defaults (SuperLU, COLAMD ordering). Timed once above 2e5 points.
-  asls-banded   the same loop with scipy.linalg.solveh_banded (LAPACK banded
-                Cholesky): SciPy's fastest route, informative
-  peaks         scipy.signal.find_peaks(y, prominence=2*sigma)
-                + peak_widths(y, peaks, rel_height=0.5, prominence_data=...)
-
-and prints one JSON object on stdout: versions, and per case and step the
-median time in ms, all run times, and probe values (the output at a few fixed
-indices and its sum) so run.ts can check both sides computed the same thing.
+Rows (the call timed, time.perf_counter around the call only):
+  savitzky-golay   scipy.signal.savgol_filter(y, 25, 2)           (mode 'interp', SciPy's default)
+  moving-average   scipy.ndimage.uniform_filter1d(y, 25, mode='nearest')
+  running-median   scipy.ndimage.median_filter(y, 25, mode='nearest')
+                   (informative rows running-median-w7 and -w201: the same with windows 7 and 201)
+  asls             the Eilers & Boelens (2005) reweighting loop, lambda 1e5, p 0.01,
+                   at most 10 solves, stopping when the weights stop changing (the rule
+                   of our baselineAsls), each solve by scipy.linalg.solveh_banded
+                   (LAPACK banded Cholesky): SciPy's fastest route for this system
+  asls-spsolve     the same loop with scipy.sparse + spsolve (SuperLU, SciPy's defaults);
+                   tens of seconds per call at 10^6 points, so only on request
+  peaks            scipy.signal.find_peaks(y, prominence=2*sigma)
+                   + peak_widths(y, peaks, rel_height=0.5, prominence_data=...)
 """
 import argparse
 import json
-import statistics
 import sys
 import time
 
 import numpy as np
 import scipy
 from scipy import sparse
+from scipy.linalg import solveh_banded
 from scipy.ndimage import median_filter, uniform_filter1d
 from scipy.signal import find_peaks, peak_widths, savgol_filter
-from scipy.linalg import solveh_banded
 from scipy.sparse.linalg import spsolve
-
-
-def timed(fn, runs, warm=True):
-    """Median wall time in ms of `runs` calls after one untimed call (as run.ts does), all times, and the last result."""
-    times = []
-    out = fn() if warm else None
-    for _ in range(runs):
-        t0 = time.perf_counter()
-        out = fn()
-        times.append((time.perf_counter() - t0) * 1000.0)
-    return statistics.median(times), times, out
 
 
 def probes(a):
@@ -63,7 +52,7 @@ def probes(a):
     return {"idx": idx, "values": [float(a[i]) for i in idx], "sum": float(np.sum(a))}
 
 
-def asls(y, lam, p, max_iter):
+def asls_spsolve(y, lam, p, max_iter):
     """AsLS baseline as in Eilers & Boelens (2005), second differences, sparse direct solve."""
     n = y.size
     d = sparse.diags([1.0, -2.0, 1.0], [0, -1, -2], shape=(n, n - 2))
@@ -82,7 +71,7 @@ def asls(y, lam, p, max_iter):
 
 
 def asls_banded(y, lam, p, max_iter):
-    """The same AsLS loop with LAPACK's banded Cholesky (scipy.linalg.solveh_banded), SciPy's fastest route."""
+    """The same AsLS loop with LAPACK's banded Cholesky (scipy.linalg.solveh_banded)."""
     n = y.size
     ab = np.zeros((3, n))
     # Diagonals of lambda * D'D for second differences, upper form: row 2 main, row 1 first, row 0 second.
@@ -106,85 +95,79 @@ def asls_banded(y, lam, p, max_iter):
     return z, it
 
 
-def hampel(y, k, t, chunk=1 << 16):
-    """Hampel test with a window cut at the ends, in chunks so memory stays near chunk*(2k+1)."""
-    n = y.size
-    out = y.copy()
-    win = 2 * k + 1
-    # Interior: full windows through sliding_window_view, chunk by chunk.
-    for start in range(k, n - k, chunk):
-        stop = min(start + chunk, n - k)
-        v = np.lib.stride_tricks.sliding_window_view(y[start - k:stop + k], win)
-        med = np.median(v, axis=1)
-        mad = np.median(np.abs(v - med[:, None]), axis=1)
-        sd = 1.4826 * mad
-        seg = y[start:stop]
-        bad = np.abs(seg - med) > t * sd
-        out[start:stop][bad] = med[bad]
-    # Ends: the window is cut, one point at a time.
-    for i in list(range(min(k, n))) + list(range(max(n - k, k), n)):
-        v = y[max(0, i - k):min(n, i + k + 1)]
-        med = np.median(v)
-        sd = 1.4826 * np.median(np.abs(v - med))
-        if abs(y[i] - med) > t * sd:
-            out[i] = med
-    return out
+def peaks(y, sigma):
+    pk, props = find_peaks(y, prominence=2.0 * sigma)
+    w = peak_widths(y, pk, rel_height=0.5,
+                    prominence_data=(props["prominences"], props["left_bases"], props["right_bases"]))
+    return pk, w
+
+
+ROWS = {
+    "savitzky-golay": lambda y, s: savgol_filter(y, 25, 2),
+    "moving-average": lambda y, s: uniform_filter1d(y, 25, mode="nearest"),
+    "running-median": lambda y, s: median_filter(y, 25, mode="nearest"),
+    "running-median-w7": lambda y, s: median_filter(y, 7, mode="nearest"),
+    "running-median-w201": lambda y, s: median_filter(y, 201, mode="nearest"),
+    "asls": lambda y, s: asls_banded(y, 1e5, 0.01, 10),
+    "asls-spsolve": lambda y, s: asls_spsolve(y, 1e5, 0.01, 10),
+    "peaks": peaks,
+}
+
+
+def check(row, out):
+    """What a call computed, in a form run.ts compares with its own."""
+    if row == "peaks":
+        pk, w = out
+        return {"count": int(pk.size), "widthSum": float(np.sum(w[0])), "indexSum": int(np.sum(pk, dtype=np.int64))}
+    if row.startswith("asls"):
+        return {"probe": probes(out[0]), "iterations": out[1]}
+    return {"probe": probes(out)}
+
+
+def serve():
+    traces = {}
+    for line in sys.stdin:
+        line = line.strip()
+        if not line:
+            continue
+        msg = json.loads(line)
+        op = msg.get("op")
+        if op == "hello":
+            answer = {"scipy": scipy.__version__, "numpy": np.__version__, "python": sys.version.split()[0]}
+        elif op == "load":
+            y = np.fromfile(msg["file"], dtype="<f8")
+            n = int(msg["n"])
+            if y.size != n:
+                answer = {"error": f"expected {n} values in {msg['file']}, found {y.size}"}
+            else:
+                traces[n] = (y, float(msg["sigma"]))
+                answer = {"ok": True}
+        elif op in ("call", "check"):
+            y, sigma = traces[int(msg["n"])]
+            fn = ROWS[msg["row"]]
+            if op == "call":
+                t0 = time.perf_counter()
+                out = fn(y, sigma)
+                ms = (time.perf_counter() - t0) * 1000.0
+                del out
+                answer = {"ms": ms}
+            else:
+                answer = check(msg["row"], fn(y, sigma))
+        elif op == "quit":
+            break
+        else:
+            answer = {"error": f"unknown op {op!r}"}
+        sys.stdout.write(json.dumps(answer) + "\n")
+        sys.stdout.flush()
 
 
 def main():
-    ap = argparse.ArgumentParser()
-    ap.add_argument("--job", required=True)
+    ap = argparse.ArgumentParser(description=__doc__.split("\n")[0])
+    ap.add_argument("--serve", action="store_true", help="answer run.ts's requests on stdin/stdout")
     args = ap.parse_args()
-    with open(args.job, "r", encoding="utf-8") as f:
-        job = json.load(f)
-
-    result = {"scipy": scipy.__version__, "numpy": np.__version__, "python": sys.version.split()[0], "cases": []}
-    for case in job["cases"]:
-        y = np.fromfile(case["file"], dtype="<f8")
-        n = int(case["n"])
-        assert y.size == n, f"expected {n} values in {case['file']}, found {y.size}"
-        runs = int(case["runs"])
-        sigma = float(case["sigma"])
-        steps = {}
-
-        ms, times, out = timed(lambda: savgol_filter(y, 25, 2), runs)
-        steps["savgol"] = {"ms": ms, "times": times, "probe": probes(out)}
-
-        ms, times, out = timed(lambda: uniform_filter1d(y, 25, mode="nearest"), runs)
-        steps["moving-mean"] = {"ms": ms, "times": times, "probe": probes(out)}
-
-        ms, times, out = timed(lambda: median_filter(y, 25, mode="nearest"), runs)
-        steps["median"] = {"ms": ms, "times": times, "probe": probes(out)}
-
-        if case.get("hampel", True):
-            slow = n > 200000
-            ms, times, out = timed(lambda: hampel(y, 12, 3.0), 1 if slow else runs, warm=not slow)
-            steps["hampel"] = {"ms": ms, "times": times, "probe": probes(out)}
-
-        # spsolve takes seconds per solve from 10^6 points on, so the sparse loop is timed fewer times there.
-        slow = n > 200000
-        ms, times, out = timed(lambda: asls(y, 1e5, 0.01, 10), 1 if slow else runs, warm=not slow)
-        steps["asls"] = {"ms": ms, "times": times, "probe": probes(out[0]), "iterations": out[1]}
-
-        ms, times, out = timed(lambda: asls_banded(y, 1e5, 0.01, 10), runs)
-        steps["asls-banded"] = {"ms": ms, "times": times, "probe": probes(out[0]), "iterations": out[1]}
-
-        def peaks():
-            pk, props = find_peaks(y, prominence=2.0 * sigma)
-            w = peak_widths(y, pk, rel_height=0.5,
-                            prominence_data=(props["prominences"], props["left_bases"], props["right_bases"]))
-            return pk, w
-
-        ms, times, out = timed(peaks, runs)
-        pk, w = out
-        steps["peaks"] = {
-            "ms": ms, "times": times, "count": int(pk.size),
-            "widthSum": float(np.sum(w[0])), "indexSum": int(np.sum(pk, dtype=np.int64)),
-        }
-        result["cases"].append({"n": n, "steps": steps})
-        print(f"scipy_bench: n={n} done", file=sys.stderr, flush=True)
-    json.dump(result, sys.stdout)
-    sys.stdout.write("\n")
+    if not args.serve:
+        ap.error("run through `npm run bench`, which starts this script with --serve")
+    serve()
 
 
 if __name__ == "__main__":

@@ -10,11 +10,11 @@ import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS } from '../../src/core/an
 const hashOf = (t: Trace) => `${sha256Hex(new Uint8Array(t.x.buffer, t.x.byteOffset, t.x.byteLength))}/${sha256Hex(new Uint8Array(t.y.buffer, t.y.byteOffset, t.y.byteLength))}`;
 
 describe('raw data is never changed', () => {
-  it('a full session of edits through the engine leaves every loaded trace bit-identical (SHA-256 of x and y)', () => {
+  it('a full session of edits through the engine leaves every loaded trace bit-identical (SHA-256 of x and y)', async () => {
     const engine = new Engine();
     const traces: Trace[] = [];
     for (const f of ['demo-sample.csv', 'demo-blank.csv', 'demo-scan-1.csv', 'demo-scan-2.csv']) {
-      const r = engine.load(new Uint8Array(readFileSync(`public/demo/${f}`)), f, undefined, () => undefined);
+      const r = await engine.load(new Uint8Array(readFileSync(`public/demo/${f}`)), f, undefined, () => undefined);
       if (!r.ok) throw new Error(`${f} did not load`);
       traces.push(...r.traces);
     }

@@ -32,7 +32,7 @@
 import Papa from 'papaparse';
 import { createTrace, MIN_POINTS } from '../trace.ts';
 import type { Trace } from '../trace.ts';
-import { MAX_FILE_BYTES } from './types.ts';
+import { givenSha256, MAX_FILE_BYTES } from './types.ts';
 import type { LoadOptions, LoadProblem, LoadReport, LoadResult, SkippedRow } from './types.ts';
 import { parseNumber } from './numbers.ts';
 import type { DecimalSign } from './numbers.ts';
@@ -613,7 +613,7 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
   }
   const onProgress = options.onProgress;
   const report = (f: number) => { if (onProgress) onProgress(Math.min(1, Math.max(0, f))); };
-  const sha256 = sha256Hex(bytes, onProgress ? (f) => report(HASH_SHARE * f) : undefined);
+  const sha256 = givenSha256(options) ?? sha256Hex(bytes, onProgress ? (f) => report(HASH_SHARE * f) : undefined);
   const decoded = decodeText(bytes);
   const text = decoded.text;
 

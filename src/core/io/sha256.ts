@@ -94,3 +94,39 @@ export function sha256Hex(bytes: Uint8Array, onProgress?: (fraction: number) => 
   for (let i = 0; i < 8; i++) hex += (h[i] >>> 0).toString(16).padStart(8, '0');
   return hex;
 }
+
+/** The one Web Crypto call used here; typed locally because the core is compiled without DOM types. */
+interface NativeDigest {
+  digest(algorithm: 'SHA-256', data: Uint8Array): Promise<ArrayBuffer>;
+}
+
+function nativeDigest(): NativeDigest | null {
+  const c = (globalThis as { crypto?: { subtle?: NativeDigest } }).crypto;
+  return c && c.subtle && typeof c.subtle.digest === 'function' ? c.subtle : null;
+}
+
+/** How {@link sha256HexNative} made its digest. */
+export type Sha256Method = 'native' | 'pure';
+
+/**
+ * SHA-256 of `bytes` as 64 lower-case hex characters, by the platform's native
+ * digest (Web Crypto `crypto.subtle.digest`, present in browsers' secure
+ * contexts, their workers and Node ≥ 19) where it exists and accepts the
+ * bytes; otherwise by {@link sha256Hex}. Both give the same hex (FIPS 180-4;
+ * checked in test/io/sha256.test.ts); `method` says which one ran.
+ * The input is only read. Never rejects.
+ */
+export async function sha256HexNative(bytes: Uint8Array): Promise<{ hex: string; method: Sha256Method }> {
+  const subtle = nativeDigest();
+  if (subtle) {
+    try {
+      const d = new Uint8Array(await subtle.digest('SHA-256', bytes));
+      let hex = '';
+      for (let i = 0; i < d.length; i++) hex += d[i].toString(16).padStart(2, '0');
+      return { hex, method: 'native' };
+    } catch {
+      // Web Crypto refuses some inputs (a view of a SharedArrayBuffer, say): the pure digest gives the same hex.
+    }
+  }
+  return { hex: sha256Hex(bytes), method: 'pure' };
+}

@@ -49,6 +49,19 @@ export interface LoadOptions {
   yColumns?: number[];
   /** Called with a fraction 0..1 while parsing large files. */
   onProgress?: (fraction: number) => void;
+  /**
+   * SHA-256 of exactly these bytes (64 lower-case hex characters), already
+   * made by the caller, e.g. with the platform's native digest
+   * ({@link loadFileHashed}); the loaders then do not hash again. Anything
+   * else than 64 hex characters is ignored and the bytes are hashed here.
+   */
+  sha256?: string;
+}
+
+/** The caller's digest from {@link LoadOptions.sha256} when it is well formed, else null. */
+export function givenSha256(options: LoadOptions | undefined): string | null {
+  const h = options?.sha256;
+  return typeof h === 'string' && /^[0-9a-f]{64}$/.test(h) ? h : null;
 }
 
 /** Largest file the page accepts, in bytes; bigger files are refused with a message. */

@@ -1,0 +1,62 @@
+/**
+ * The median of a set of values by selection (Hoare's quickselect, Hoare 1961,
+ * Comm. ACM 4:321, "Algorithm 65: Find"), O(n) on average instead of the
+ * O(n log n) of a full sort. Same value as sorting and taking the middle (or
+ * the mean of the two middle values for an even count): selection only finds
+ * which of the values is the middle one.
+ */
+
+/**
+ * k-th smallest (0-based) of a[lo, hi], reordering that part so that
+ * a[lo, k) ≤ a[k] ≤ a(k, hi]. Median-of-three pivots; should the partitions
+ * stay lopsided (more than 2·log2(n) + 8 rounds, which sorted, constant or
+ * organ-pipe data does not cause with these pivots but a crafted input could),
+ * the rest is sorted instead, so the time stays O(n log n) at worst.
+ */
+function selectInPlace(a: Float64Array, k: number): number {
+  let lo = 0, hi = a.length - 1;
+  let rounds = 2 * Math.ceil(Math.log2(a.length + 1)) + 8;
+  while (hi > lo) {
+    if (rounds-- === 0) {
+      a.subarray(lo, hi + 1).sort();
+      return a[k];
+    }
+    const mid = (lo + hi) >>> 1;
+    let p = a[mid];
+    const l = a[lo], h = a[hi];
+    if ((l <= p && p <= h) || (h <= p && p <= l)) { /* p is the median of the three */ } else if ((p <= l && l <= h) || (h <= l && l <= p)) p = l; else p = h;
+    let i = lo, j = hi;
+    while (i <= j) {
+      while (a[i] < p) i++;
+      while (a[j] > p) j--;
+      if (i <= j) { const t = a[i]; a[i] = a[j]; a[j] = t; i++; j--; }
+    }
+    if (k <= j) hi = j; else if (k >= i) lo = i; else return a[k];
+  }
+  return a[k];
+}
+
+/**
+ * Median of a scratch array, reordering it (for arrays the caller made and
+ * no longer needs in order). Odd count: the middle value; even count: the
+ * mean of the two middle values. NaN for an empty array.
+ */
+export function medianInPlace(a: Float64Array): number {
+  const n = a.length;
+  if (n === 0) return NaN;
+  const hi = selectInPlace(a, n >> 1);
+  if (n % 2 === 1) return hi;
+  // After selecting n/2 every value left of it is ≤ it; the other middle value is their maximum.
+  let lo = -Infinity;
+  for (let i = 0; i < n >> 1; i++) if (a[i] > lo) lo = a[i];
+  return 0.5 * (lo + hi);
+}
+
+/**
+ * Median of `values` (not changed): the middle value of the sorted values, or
+ * the mean of the two middle ones for an even count; NaN for none. Values must
+ * not be NaN (a NaN has no place in the order).
+ */
+export function medianOf(values: ArrayLike<number>): number {
+  return medianInPlace(Float64Array.from(values));
+}
