@@ -90,6 +90,122 @@ function pct(a: number, b: number): number | null {
   return b !== 0 && Number.isFinite(a / b) ? (100 * a) / b : null;
 }
 
+interface Feature { position: number; tolerance: number; first: number; match: number[] }
+
+/** Pairs (peak, feature) within the feature's tolerance, nearest first: |x − position|, then feature, then peak. */
+interface Pairs { count: number; f: Int32Array; p: Int32Array }
+
+/** Pushes onto growing typed arrays (pairs are few per peak, but their total is not known in advance). */
+class PairList {
+  d = new Float64Array(64);
+  f = new Int32Array(64);
+  p = new Int32Array(64);
+  count = 0;
+  push(d: number, f: number, p: number): void {
+    if (this.count === this.d.length) {
+      const grow = <T extends Float64Array | Int32Array>(a: T, make: (n: number) => T): T => { const b = make(a.length * 2); b.set(a); return b; };
+      this.d = grow(this.d, (n) => new Float64Array(n));
+      this.f = grow(this.f, (n) => new Int32Array(n));
+      this.p = grow(this.p, (n) => new Int32Array(n));
+    }
+    this.d[this.count] = d; this.f[this.count] = f; this.p[this.count] = p;
+    this.count++;
+  }
+}
+
+/**
+ * Every (peak, feature) pair with |peak.x − feature.position| ≤ feature.tolerance,
+ * peaks the user removed left out, sorted nearest first (ties: lower feature,
+ * then lower peak index). The same pairs, in the same order, as testing every
+ * peak against every feature, found in O((P + F) log(P + F) + pairs) by a
+ * sweep along x: each feature is an interval [position − tolerance,
+ * position + tolerance] (widened by a hair so rounding cannot drop a pair; the
+ * exact test above decides), peaks are visited in ascending x, features enter
+ * the active set when their interval starts and leave it (a min-heap on the
+ * interval's end) once a peak lies past it, and each peak is tested against the
+ * active features only. Peaks or features with a position or tolerance that is
+ * not a finite number are tested against everything, as before.
+ */
+function candidatePairs(peaks: readonly Peak[], features: readonly Feature[]): Pairs {
+  const out = new PairList();
+  const nF = features.length;
+  const regularF: number[] = [], oddF: number[] = [];
+  for (let f = 0; f < nF; f++) {
+    const { position, tolerance } = features[f];
+    (Number.isFinite(position) && Number.isFinite(tolerance) && tolerance >= 0 ? regularF : oddF).push(f);
+  }
+  const regularP: number[] = [], oddP: number[] = [];
+  for (let p = 0; p < peaks.length; p++) {
+    if (peaks[p].removedByUser) continue;
+    (Number.isFinite(peaks[p].x) ? regularP : oddP).push(p);
+  }
+  const test = (p: number, f: number): void => {
+    const d = Math.abs(peaks[p].x - features[f].position);
+    if (d <= features[f].tolerance) out.push(d, f, p);
+  };
+  if (regularF.length > 0 && regularP.length > 0) {
+    const lo = new Float64Array(nF), hi = new Float64Array(nF);
+    for (const f of regularF) {
+      const { position, tolerance } = features[f];
+      const hair = 1e-9 * (Math.abs(position) + tolerance) + 1e-300;
+      lo[f] = position - tolerance - hair;
+      hi[f] = position + tolerance + hair;
+    }
+    regularF.sort((u, v) => lo[u] - lo[v] || u - v);
+    regularP.sort((u, v) => peaks[u].x - peaks[v].x || u - v);
+    // Active features: an array with O(1) removal (where[f] = place in it) and a min-heap on hi.
+    const active = new Int32Array(nF), where = new Int32Array(nF).fill(-1);
+    let nActive = 0;
+    const heap = new Int32Array(nF);
+    let nHeap = 0;
+    const heapPush = (f: number): void => {
+      let k = nHeap++;
+      while (k > 0) {
+        const parent = (k - 1) >> 1;
+        if (hi[heap[parent]] <= hi[f]) break;
+        heap[k] = heap[parent]; k = parent;
+      }
+      heap[k] = f;
+    };
+    const heapPop = (): number => {
+      const top = heap[0], x = heap[--nHeap];
+      let k = 0;
+      for (;;) {
+        let c = 2 * k + 1;
+        if (c >= nHeap) break;
+        if (c + 1 < nHeap && hi[heap[c + 1]] < hi[heap[c]]) c++;
+        if (hi[heap[c]] >= hi[x]) break;
+        heap[k] = heap[c]; k = c;
+      }
+      heap[k] = x;
+      return top;
+    };
+    let next = 0;
+    for (const p of regularP) {
+      const x = peaks[p].x;
+      while (next < regularF.length && lo[regularF[next]] <= x) {
+        const f = regularF[next++];
+        where[f] = nActive; active[nActive++] = f;
+        heapPush(f);
+      }
+      while (nHeap > 0 && hi[heap[0]] < x) {
+        const f = heapPop();
+        const k = where[f], last = active[--nActive];
+        active[k] = last; where[last] = k; where[f] = -1;
+      }
+      for (let k = 0; k < nActive; k++) test(p, active[k]);
+    }
+  }
+  for (const f of oddF) for (const p of [...regularP, ...oddP]) test(p, f);
+  for (const p of oddP) for (const f of regularF) test(p, f);
+  // Nearest first; ties by feature, then by peak (the order the every-against-every loop sorted to).
+  const order = new Uint32Array(out.count);
+  for (let k = 0; k < out.count; k++) order[k] = k;
+  const { d, f, p } = out;
+  order.sort((u, v) => d[u] - d[v] || f[u] - f[v] || p[u] - p[v]);
+  return { count: out.count, f: Int32Array.from(order, (k) => f[k]), p: Int32Array.from(order, (k) => p[k]) };
+}
+
 /**
  * Match peaks across alternatives into features and write the survival
  * ledger. The first alternative is the least processed (the reference).
@@ -117,24 +233,15 @@ export function matchPeaks(alternatives: readonly Alternative[], options: MatchO
   const unit = options.xUnit ? ` ${options.xUnit}` : '';
   const dec = decimalsFor(dx);
 
-  interface Feature { position: number; tolerance: number; first: number; match: number[] }
   const features: Feature[] = [];
   const nAlt = alternatives.length;
 
   for (let a = 0; a < nAlt; a++) {
     const peaks = alternatives[a].peaks;
-    const known = features.length;
-    const pairs: [number, number, number][] = [];
-    for (let p = 0; p < peaks.length; p++) {
-      if (peaks[p].removedByUser) continue;
-      for (let f = 0; f < known; f++) {
-        const d = Math.abs(peaks[p].x - features[f].position);
-        if (d <= features[f].tolerance) pairs.push([d, f, p]);
-      }
-    }
-    pairs.sort((u, v) => u[0] - v[0] || u[1] - v[1] || u[2] - v[2]);
+    const pairs = candidatePairs(peaks, features);
     const peakUsed = new Uint8Array(peaks.length);
-    for (const [, f, p] of pairs) {
+    for (let k = 0; k < pairs.count; k++) {
+      const f = pairs.f[k], p = pairs.p[k];
       if (features[f].match[a] >= 0 || peakUsed[p]) continue;
       features[f].match[a] = p;
       peakUsed[p] = 1;
