@@ -19,6 +19,7 @@ function pct(v: number | null, signed = false): string {
 /** The loss check: alternatives side by side, the survival ledger, window advice. */
 export function LossPanel() {
   const loss = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result.loss : null));
+  const resultSeq = useApp((s) => s.resultSeq);
   const alternatives = useApp((s) => s.alternatives);
   const recipe = useApp((s) => s.recipe);
   const showAlt = useApp((s) => s.showAlternatives);
@@ -31,7 +32,7 @@ export function LossPanel() {
   // Thousands of rows would stall the page; crossed rows first, then by position.
   const shown = rows.length <= 300 ? rows : [...rows.filter((r) => r.crossed), ...rows.filter((r) => !r.crossed)].slice(0, 300).sort((a, b) => a.position - b.position);
   return (
-    <section className="panel" aria-labelledby="loss-title" data-testid="loss-panel">
+    <section className="panel" aria-labelledby="loss-title" data-testid="loss-panel" data-result-seq={resultSeq}>
       <div className="panel-head">
         <h2 id="loss-title">What each choice keeps</h2>
         <label className="switch"><input type="checkbox" checked={showAlt} onChange={(e) => setShowAlternatives(e.target.checked)} /> overlay alternatives</label>

@@ -14,6 +14,7 @@ function pickRows(all: readonly Peak[]): Peak[] {
 /** The peak table: a real table with headers; a click on a row zooms to the peak. */
 export function PeakTable() {
   const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
+  const resultSeq = useApp((s) => s.resultSeq);
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const selected = useApp((s) => s.selectedPeakX);
   const addPeakMode = useApp((s) => s.addPeakMode);
@@ -31,7 +32,7 @@ export function PeakTable() {
   for (const p of all) if (!p.removedByUser) { if (p.flag === 'quantifiable') counts.q++; else if (p.flag === 'detectable') counts.d++; else counts.b++; }
   const lim = result.peakOptions?.limits;
   return (
-    <section className="panel" aria-labelledby="peaks-title">
+    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq}>
       <div className="panel-head">
         <h2 id="peaks-title">Peaks</h2>
         <div className="row">

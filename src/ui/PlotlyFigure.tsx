@@ -17,10 +17,12 @@ interface Props extends FigureEvents {
   onReady?: (el: HTMLElement | null) => void;
   /** Test id; the main trace plot is "figure". */
   testId?: string;
+  /** Set as the element's data-drawn attribute once Plotly has drawn this data (timing scripts wait for it). */
+  drawnTag?: string;
 }
 
 /** A thin wrapper: Plotly.react in an effect, events forwarded, purge on unmount. */
-export function PlotlyFigure({ data, layout, className, label, onXRange, onClickPoint, onSelectX, onReady, testId = 'figure' }: Props) {
+export function PlotlyFigure({ data, layout, className, label, onXRange, onClickPoint, onSelectX, onReady, testId = 'figure', drawnTag }: Props) {
   const ref = useRef<HTMLDivElement>(null);
   const handlers = useRef<FigureEvents>({});
   handlers.current = { onXRange, onClickPoint, onSelectX };
@@ -32,13 +34,14 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
     let cancelled = false;
     Plotly.react(el, data, layout, { displaylogo: false, responsive: true, scrollZoom: true, modeBarButtonsToRemove: ['lasso2d', 'toImage'] })
       .then((gd) => {
+        if (!cancelled && drawnTag !== undefined) el.setAttribute('data-drawn', drawnTag);
         if (cancelled || bound.current) return;
         bound.current = true;
         bindEvents(gd, handlers);
       })
       .catch(() => undefined);
     return () => { cancelled = true; };
-  }, [data, layout]);
+  }, [data, layout, drawnTag]);
 
   useEffect(() => {
     const el = ref.current;

@@ -28,6 +28,7 @@ function arr(a: Float64Array): number[] {
 export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) => void }) {
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
+  const resultSeq = useApp((s) => s.resultSeq);
   const xRange = useApp((s) => s.xRange);
   const showRaw = useApp((s) => s.showRaw);
   const showAlt = useApp((s) => s.showAlternatives);
@@ -162,7 +163,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   }
   return (
     <div ref={boxRef} className="plot-box">
-      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onReady={onFigure} />
+      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onReady={onFigure} drawnTag={String(result ? resultSeq : 0)} />
     </div>
   );
 }
