@@ -1,6 +1,6 @@
 /**
  * The median of a set of values by selection (Hoare's quickselect, Hoare 1961,
- * Comm. ACM 4:321, "Algorithm 65: Find"), O(n) on average instead of the
+ * Comm. ACM 4:321, "Algorithm 65: Find"; citation from memory), O(n) on average instead of the
  * O(n log n) of a full sort. Same value as sorting and taking the middle (or
  * the mean of the two middle values for an even count): selection only finds
  * which of the values is the middle one.

@@ -211,7 +211,7 @@ function sortedWindow(values: Float64Array, w: number): { s: Float64Array; P: nu
  * to out[outStart + k]. Two heaps around the median (a max-heap of the h values
  * below it and a min-heap of the h above, each value remembering its ring slot
  * so the one leaving is found at once), after the double-heap running median
- * of Härdle & Steiger (1995, Appl. Statist. 44:258). Per point, the entering
+ * of Härdle & Steiger (1995, Appl. Statist. 44:258; citation from memory). Per point, the entering
  * value takes the leaving one's place and moves up or down its heap, crossing
  * the median at most once.
  */
@@ -300,7 +300,7 @@ function runHeaps(src: Float64Array, w: number, out: Float64Array, outStart: num
  * Method: windows up to 127 points keep the window sorted (Tukey's running
  * median smoother, Tukey 1977, Exploratory Data Analysis) and find both places
  * that change by counting comparisons; longer windows use two heaps around the
- * median (Härdle & Steiger 1995). Either way each output is one of the window's
+ * median (Härdle & Steiger 1995, from memory). Either way each output is one of the window's
  * values, so the result is exact.
  * @param y signal (not changed)
  * @param window odd number of points, ≥ 1; 1 returns a copy
