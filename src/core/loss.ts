@@ -92,7 +92,7 @@ function pct(a: number, b: number): number | null {
 
 interface Feature { position: number; tolerance: number; first: number; match: number[] }
 
-/** Pairs (peak, feature) within the feature's tolerance, nearest first: |x − position|, then feature, then peak. */
+/** Pairs (peak, feature) within the feature's tolerance, in an order the assignment may take them in (see {@link nearestFirstByGroup}). */
 interface Pairs { count: number; f: Int32Array; p: Int32Array }
 
 /** Pushes onto growing typed arrays (pairs are few per peak, but their total is not known in advance). */
@@ -115,9 +115,9 @@ class PairList {
 
 /**
  * Every (peak, feature) pair with |peak.x − feature.position| ≤ feature.tolerance,
- * peaks the user removed left out, sorted nearest first (ties: lower feature,
- * then lower peak index). The same pairs, in the same order, as testing every
- * peak against every feature, found in O((P + F) log(P + F) + pairs) by a
+ * peaks the user removed left out, nearest first within each group of pairs
+ * that share a feature or a peak. The same pairs as testing every peak against
+ * every feature, found in O((P + F) log(P + F) + pairs) by a
  * sweep along x: each feature is an interval [position − tolerance,
  * position + tolerance] (widened by a hair so rounding cannot drop a pair; the
  * exact test above decides), peaks are visited in ascending x, features enter
@@ -198,12 +198,44 @@ function candidatePairs(peaks: readonly Peak[], features: readonly Feature[]): P
   }
   for (const f of oddF) for (const p of [...regularP, ...oddP]) test(p, f);
   for (const p of oddP) for (const f of regularF) test(p, f);
-  // Nearest first; ties by feature, then by peak (the order the every-against-every loop sorted to).
-  const order = new Uint32Array(out.count);
-  for (let k = 0; k < out.count; k++) order[k] = k;
-  const { d, f, p } = out;
-  order.sort((u, v) => d[u] - d[v] || f[u] - f[v] || p[u] - p[v]);
-  return { count: out.count, f: Int32Array.from(order, (k) => f[k]), p: Int32Array.from(order, (k) => p[k]) };
+  return nearestFirstByGroup(out, nF, peaks.length);
+}
+
+/**
+ * The pairs in an order the one-peak-per-feature assignment can take them in:
+ * nearest first (ties by feature, then by peak) within each group of pairs
+ * that share features or peaks, one group after another. Groups share nothing,
+ * so taking them one by one gives the same assignment as sorting all pairs,
+ * and only the few groups with more than one pair need sorting (on a long
+ * noisy trace most peaks have one candidate feature and that feature one peak).
+ */
+function nearestFirstByGroup(pairs: PairList, nF: number, nP: number): Pairs {
+  const { count, d, f, p } = pairs;
+  // Union-find over features 0 … nF − 1 and peaks nF … nF + nP − 1.
+  const parent = new Int32Array(nF + nP);
+  for (let k = 0; k < parent.length; k++) parent[k] = k;
+  const find = (a: number): number => {
+    while (parent[a] !== a) { parent[a] = parent[parent[a]]; a = parent[a]; }
+    return a;
+  };
+  for (let k = 0; k < count; k++) {
+    const a = find(f[k]), b = find(nF + p[k]);
+    if (a !== b) parent[a] = b;
+  }
+  // Group the pairs by their root (counting sort), keeping their order within a group.
+  const root = new Int32Array(count);
+  const start = new Int32Array(nF + nP + 1);
+  for (let k = 0; k < count; k++) { root[k] = find(f[k]); start[root[k] + 1]++; }
+  for (let r = 0; r < nF + nP; r++) start[r + 1] += start[r];
+  const fill = start.slice();
+  const order = new Int32Array(count);
+  for (let k = 0; k < count; k++) order[fill[root[k]]++] = k;
+  const before = (u: number, v: number): number => d[u] - d[v] || f[u] - f[v] || p[u] - p[v];
+  for (let r = 0; r < nF + nP; r++) {
+    const a = start[r], b = start[r + 1];
+    if (b - a > 1) order.subarray(a, b).sort(before);
+  }
+  return { count, f: Int32Array.from(order, (k) => f[k]), p: Int32Array.from(order, (k) => p[k]) };
 }
 
 /**
@@ -261,9 +293,10 @@ export function matchPeaks(alternatives: readonly Alternative[], options: MatchO
     const refCol = f.first;
     const ref = alternatives[refCol].peaks[f.match[refCol]];
     const refStanding: Standing = ref.flag;
-    const where = `The feature at ${f.position.toFixed(dec)}${unit}`;
+    let whereText: string | null = null;
+    const where = (): string => (whereText ??= `The feature at ${f.position.toFixed(dec)}${unit}`);
     const sentences: string[] = [];
-    if (refCol > 0) sentences.push(`${where} is not found with ${alternatives[0].label}; it first appears with ${alternatives[refCol].label}, so check that the processing did not make it.`);
+    if (refCol > 0) sentences.push(`${where()} is not found with ${alternatives[0].label}; it first appears with ${alternatives[refCol].label}, so check that the processing did not make it.`);
     const cells: LedgerCell[] = f.match.map((p, a) => {
       const pk = p >= 0 ? alternatives[a].peaks[p] : null;
       const standing: Standing = pk ? pk.flag : 'lost';
@@ -272,12 +305,12 @@ export function matchPeaks(alternatives: readonly Alternative[], options: MatchO
         crossed = LEVEL[standing] < LEVEL[refStanding] ? 'down' : 'up';
         const label = alternatives[a].label;
         if (crossed === 'down') {
-          if (standing === 'lost') sentences.push(`${where} is lost with ${label}.`);
-          else if (standing === 'below-detection') sentences.push(`${where} drops below S/N ${limits.detection} with ${label}.`);
-          else sentences.push(`${where} drops below S/N ${limits.quantitation} (quantitation limit) with ${label}.`);
+          if (standing === 'lost') sentences.push(`${where()} is lost with ${label}.`);
+          else if (standing === 'below-detection') sentences.push(`${where()} drops below S/N ${limits.detection} with ${label}.`);
+          else sentences.push(`${where()} drops below S/N ${limits.quantitation} (quantitation limit) with ${label}.`);
         } else {
           const lim = standing === 'quantifiable' ? limits.quantitation : limits.detection;
-          sentences.push(`${where} rises above S/N ${lim} with ${label}.`);
+          sentences.push(`${where()} rises above S/N ${lim} with ${label}.`);
         }
       }
       const shift = pk && a >= refCol ? pk.x - ref.x : null;
@@ -300,9 +333,16 @@ export function matchPeaks(alternatives: readonly Alternative[], options: MatchO
   return {
     alternatives: alternatives.map((a) => ({ id: a.id, label: a.label })),
     rows,
-    sentences: rows.flatMap((r) => r.sentences),
+    sentences: allSentences(rows),
     rule: `Peaks are the same feature when their apexes lie within max(${frac} × FWHM, ${minPts} points) of the feature's first apex; nearest pairs first, one peak per feature. Each feature's changes are against the least-processed column that has it (${alternatives[0].label} when found there).`,
   };
+}
+
+/** Every row's sentences in order (a plain loop: flatMap over tens of thousands of mostly empty lists is slow). */
+function allSentences(rows: readonly LedgerRow[]): string[] {
+  const out: string[] = [];
+  for (const r of rows) for (const t of r.sentences) out.push(t);
+  return out;
 }
 
 function checkSigma(sigmaPoints: number): void {
