@@ -133,7 +133,8 @@ const SORTED_MAX_WINDOW = 127;
  * interior; a short padded copy at the ends).
  *
  * `s` holds the window's w = 2h + 1 values in ascending order in s[0, w) and
- * +Infinity in s[w, P], P the smallest power of two ≥ max(8, w) (≤ 128). Both
+ * +Infinity in s[w, P], P the smallest power of two ≥ max(8, w) (≤ 128; windows of
+ * 9 to 31 points use {@link runSorted32} with P = 32). Both
  * places, where the leaving value sits and where the entering one belongs, are
  * found by counting comparisons (Number(a < b) adds without a branch the
  * processor could mispredict): 7 pivots of stride P/8, then 3 pivots of stride
@@ -165,14 +166,70 @@ function runSorted(src: Float64Array, base: number, h: number, s: Float64Array, 
       }
     }
     if (last) { p += Number(s[p] < d); q += Number(s[q] < v); }
-    // p: first place of the leaving value; q: how many values are below the entering one.
-    const up = Number(q > p);
-    q -= up;
-    const dir = (up << 1) - 1;
-    for (let k = p; k !== q; k += dir) s[k] = s[k + dir];
-    s[q] = v;
+    moveInto(s, p, q, v);
     out[i] = s[h];
   }
+}
+
+/**
+ * {@link runSorted} for windows of 9 to 31 points (P = 32, the array padded
+ * with +Infinity to 32 values): the same search with its pivots written out,
+ * which keeps them out of registers, and the outputs split in two halves run
+ * side by side, each with its own sorted window, so the processor can work on
+ * one while the other waits on a load or a mispredicted loop end (together
+ * about a quarter faster at 25 points than one chain with computed pivots).
+ */
+function runSorted32(src: Float64Array, base: number, h: number, s: Float64Array, out: Float64Array, from: number, to: number): void {
+  const dOff = h + 1 + base, vOff = h - base;
+  const len = (to - from) >> 1, mid = from + len;
+  // The second half's window starts as the window of output mid − 1.
+  const s2 = new Float64Array(33).fill(Infinity);
+  s2.set(src.subarray(mid - 1 - h - base, mid + h - base));
+  s2.subarray(0, 2 * h + 1).sort();
+  for (let t = 0; t < len; t++) {
+    const i = from + t, i2 = mid + t;
+    const d = src[i - dOff], v = src[i + vOff];
+    const d2 = src[i2 - dOff], v2 = src[i2 + vOff];
+    let p = (Number(s[3] < d) + Number(s[7] < d) + Number(s[11] < d) + Number(s[15] < d)
+      + Number(s[19] < d) + Number(s[23] < d) + Number(s[27] < d)) << 2;
+    let q = (Number(s[3] < v) + Number(s[7] < v) + Number(s[11] < v) + Number(s[15] < v)
+      + Number(s[19] < v) + Number(s[23] < v) + Number(s[27] < v)) << 2;
+    let p2 = (Number(s2[3] < d2) + Number(s2[7] < d2) + Number(s2[11] < d2) + Number(s2[15] < d2)
+      + Number(s2[19] < d2) + Number(s2[23] < d2) + Number(s2[27] < d2)) << 2;
+    let q2 = (Number(s2[3] < v2) + Number(s2[7] < v2) + Number(s2[11] < v2) + Number(s2[15] < v2)
+      + Number(s2[19] < v2) + Number(s2[23] < v2) + Number(s2[27] < v2)) << 2;
+    p += Number(s[p] < d) + Number(s[p + 1] < d) + Number(s[p + 2] < d);
+    q += Number(s[q] < v) + Number(s[q + 1] < v) + Number(s[q + 2] < v);
+    p2 += Number(s2[p2] < d2) + Number(s2[p2 + 1] < d2) + Number(s2[p2 + 2] < d2);
+    q2 += Number(s2[q2] < v2) + Number(s2[q2 + 1] < v2) + Number(s2[q2 + 2] < v2);
+    moveInto(s, p, q, v);
+    moveInto(s2, p2, q2, v2);
+    out[i] = s[h];
+    out[i2] = s2[h];
+  }
+  // An odd count leaves one output after the second half.
+  if (mid + len < to) runSorted(src, base, h, s2, 32, out, mid + len, to);
+  // Callers carry on from s: it must hold the window of the last output, which is the second half's.
+  s.set(s2);
+}
+
+/**
+ * In the sorted s, replace the value at place p (the one leaving) by v, where
+ * q values of the window (the leaving one included) are below v: the values
+ * between the two places move by one.
+ */
+function moveInto(s: Float64Array, p: number, q: number, v: number): void {
+  const up = Number(q > p);
+  q -= up;
+  const dir = (up << 1) - 1;
+  for (let k = p; k !== q; k += dir) s[k] = s[k + dir];
+  s[q] = v;
+}
+
+/** {@link runSorted32} where the window array was made for it, else {@link runSorted}. */
+function runSortedAny(src: Float64Array, base: number, h: number, s: Float64Array, P: number, out: Float64Array, from: number, to: number): void {
+  if (P === 32) runSorted32(src, base, h, s, out, from, to);
+  else runSorted(src, base, h, s, P, out, from, to);
 }
 
 /**
@@ -190,15 +247,15 @@ function sortedPadded(y: Float64Array, w: number, at: (j: number) => number, out
   const { s, P } = sortedWindow(pad(-h, h + 1), w);
   out[0] = s[h];
   const headEnd = Math.min(h + 1, n);
-  if (headEnd > 1) runSorted(pad(-h, headEnd + h), -h, h, s, P, out, 1, headEnd);
+  if (headEnd > 1) runSortedAny(pad(-h, headEnd + h), -h, h, s, P, out, 1, headEnd);
   const tailStart = Math.max(headEnd, n - h);
-  if (tailStart > headEnd) runSorted(y, 0, h, s, P, out, headEnd, tailStart);
-  if (n > tailStart) runSorted(pad(tailStart - h - 1, n + h), tailStart - h - 1, h, s, P, out, tailStart, n);
+  if (tailStart > headEnd) runSortedAny(y, 0, h, s, P, out, headEnd, tailStart);
+  if (n > tailStart) runSortedAny(pad(tailStart - h - 1, n + h), tailStart - h - 1, h, s, P, out, tailStart, n);
 }
 
-/** A sorted window array for {@link runSorted}: the w values sorted, +Infinity up to P. */
+/** A sorted window array for {@link runSorted}: the w values sorted, +Infinity up to P (32 for windows of 9 to 31 points, see {@link runSorted32}). */
 function sortedWindow(values: Float64Array, w: number): { s: Float64Array; P: number } {
-  let P = 8;
+  let P = w > 8 && w < 32 ? 32 : 8;
   while (P < w) P <<= 1;
   const s = new Float64Array(P + 1).fill(Infinity);
   s.set(values.subarray(0, w));
@@ -369,7 +426,7 @@ function shrinkMedian(y: Float64Array, w: number, out: Float64Array): void {
   } else {
     const { s, P } = sortedWindow(grow, w);
     out[h] = s[h];
-    runSorted(y, 0, h, s, P, out, h + 1, n - h);
+    runSortedAny(y, 0, h, s, P, out, h + 1, n - h);
   }
   // Tail: the window shrinks from the last full one, y[n − w, n).
   const tail = Float64Array.from(y.subarray(n - w)).sort();
