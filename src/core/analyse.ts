@@ -12,7 +12,8 @@ import { residual as residualOf, residualDiagnostics, type ResidualDiagnostics }
 import { noisePeakToPeak, noiseRms, noiseRobust, type NoiseEstimate } from './noise.ts';
 import { featureMask, noiseQuietWindows } from './noise-windows.ts';
 import { matchPeaks, windowAdvice, type Ledger, type WindowAdvice } from './loss.ts';
-import { applyPeakDecisions, defaultPeakOptions, detectPeaks, type Peak, type PeakDecisions, type PeakOptions, type SnrDefinition } from './peaks.ts';
+import type { Peak, PeakDecisions, PeakOptions, SnrDefinition } from './measure/peak-types.ts';
+import { applyPeakDecisions, defaultPeakOptions, detectPeaks } from './measure/peak-table.ts';
 
 /**
  * How noise is measured for S/N = H/σ: 'windows' (automatic, median of

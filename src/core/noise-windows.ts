@@ -21,7 +21,7 @@
  * the thresholds are ours and stated above.
  */
 import { lineFit, noiseRobust, type NoiseResult } from './noise.ts';
-import { defaultPeakOptions, detectPeaks } from './peaks.ts';
+import { defaultPeakOptions, detectPeaks } from './measure/peak-table.ts';
 import { slidingMedian } from './numeric/sliding-median.ts';
 import { lowerBound } from './numeric/decimate.ts';
 

@@ -1,6 +1,6 @@
 import type { StateCreator } from 'zustand';
 import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, MAX_ALTERNATIVES, type AlternativeRequest, type NoiseSettings, type PeakSettings } from '../core/analyse.ts';
-import type { PeakDecisions } from '../core/peaks.ts';
+import type { PeakDecisions } from '../core/measure/peak-types.ts';
 import type { AppState } from './store.ts';
 
 /** What the user chose about noise and peaks; kept apart from the recipe. */

@@ -1,4 +1,4 @@
-import type { Peak } from '../core/peaks.ts';
+import type { Peak } from '../core/measure/peak-types.ts';
 import { useApp } from '../state/store.ts';
 import { FLAG_WORDS, num, SNR_WORDS } from './format.ts';
 

@@ -7,7 +7,7 @@
 import type { AnalyseResult } from '../analyse.ts';
 import { writeCsv, type CsvCellOptions } from '../io/csv-write.ts';
 import type { NoiseEstimate } from '../noise.ts';
-import type { Peak, PeakFlag, SnrDefinition } from '../peaks.ts';
+import type { Peak, PeakFlag, SnrDefinition } from '../measure/peak-types.ts';
 import type { Recipe, Registry } from '../recipe.ts';
 import type { Trace } from '../trace.ts';
 import { commentText, metadataLines, provenanceLines } from './cleaned-csv.ts';
@@ -64,7 +64,7 @@ export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader
   result.peaks.forEach((p, i) => {
     rows.push([
       i + 1, p.x, p.height, p.prominence, p.fwhm, p.fwhmPoints, p.area, p.start, p.end,
-      opt(p.snr), p.snrRms, opt(p.snrPharma), opt(p.pharmaNoise?.h),
+      opt(p.snr), opt(p.snrRms), opt(p.snrPharma), opt(p.pharmaNoise?.h),
       p.pharmaNoise ? `${p.pharmaNoise.source}, ${p.pharmaNoise.points} points${p.pharmaNoise.clipped ? ', window cut by the trace end' : ''}` : '',
       opt(p.snrRegion), FLAG_TEXT[p.flag], peakDecisionText(p), p.origin, p.note ?? '',
     ]);

@@ -18,7 +18,7 @@
 import { deleteDB, openDB, type IDBPDatabase } from 'idb';
 import type { AlternativeRequest, NoiseSettings, PeakSettings } from '../../core/analyse.ts';
 import type { LoadReport } from '../../core/io/types.ts';
-import type { PeakDecisions } from '../../core/peaks.ts';
+import type { PeakDecisions } from '../../core/measure/peak-types.ts';
 import { emptyRecipe, validateRecipe, type Recipe, type Registry } from '../../core/recipe.ts';
 import { STEP_REGISTRY } from '../../core/steps/registry.ts';
 import { createTrace, type Trace, type TraceRole, type TraceSource } from '../../core/trace.ts';
