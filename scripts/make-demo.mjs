@@ -26,7 +26,6 @@ import { fileURLToPath } from 'node:url';
 
 const SEED = 20260314;
 const here = dirname(fileURLToPath(import.meta.url));
-const outDir = resolve(process.argv[2] ?? join(here, '..', 'public', 'demo'));
 
 /** mulberry32: 32-bit state, uniform on [0, 1). */
 function mulberry32(seed) {
@@ -88,12 +87,63 @@ const SPIKE_SIZE_IN_NOISE_SD = 40;
 
 const round = (v, digits) => Number(v.toFixed(digits));
 
-const x = Array.from({ length: POINTS }, (_, i) => round(X_START + i * X_STEP, 2));
-const drift = x.map((t) => DRIFT.c0 + DRIFT.c1 * t + DRIFT.c2 * t * t);
-const peaksOnly = x.map((t) => PEAK_LIST.reduce((s, p) => s + p.height * Math.exp(-0.5 * ((t - p.centre) / p.sigma) ** 2), 0));
+/**
+ * The demo for a seed: the x grid, every file's y (sample first, then the
+ * blank, then the scans) and the ground truth. The default seed gives the
+ * committed files; other seeds give the same run with other noise (tests
+ * use them to average over realisations).
+ */
+export function makeDemo(seed = SEED) {
+  const x = Array.from({ length: POINTS }, (_, i) => round(X_START + i * X_STEP, 2));
+  const drift = x.map((t) => DRIFT.c0 + DRIFT.c1 * t + DRIFT.c2 * t * t);
+  const peaksOnly = x.map((t) => PEAK_LIST.reduce((s, p) => s + p.height * Math.exp(-0.5 * ((t - p.centre) / p.sigma) ** 2), 0));
 
-const normal = normalSource(mulberry32(SEED));
-const noisy = (base) => base.map((v) => v + NOISE_SD * normal());
+  const normal = normalSource(mulberry32(seed));
+  const noisy = (base) => base.map((v) => v + NOISE_SD * normal());
+
+  // Noise is drawn in this order, one file after the other, so each file's noise is independent of the others.
+  const signal = x.map((_, i) => drift[i] + peaksOnly[i]);
+  const files = [];
+  const sample = noisy(signal);
+  const spikeSize = SPIKE_SIZE_IN_NOISE_SD * NOISE_SD;
+  sample[SPIKE_INDEX] += spikeSize;
+  files.push({ file: 'demo-sample.csv', role: 'sample', run: 'run 3', y: sample, peaks: true, spike: true });
+  files.push({ file: 'demo-blank.csv', role: 'blank', run: 'blank (solvent only)', y: noisy(drift), peaks: false, spike: false });
+  for (let k = 1; k <= 8; k++) {
+    files.push({ file: `demo-scan-${k}.csv`, role: 'scan', run: `repeat scan ${k} of 8`, y: noisy(signal), peaks: true, spike: false });
+  }
+
+  const truth = {
+    description:
+      'Invented demo data: a made-up teaching-lab separation of the food-dye mixture "Orchard Red / Lagoon Blue", ' +
+      'absorbance at 520 nm against time. Written by scripts/make-demo.mjs; every number below is what the script used.',
+    generator: 'mulberry32 uniforms, Box-Muller normals; noise drawn file after file in the order of "files"',
+    seed,
+    x: { name: 'Time', unit: 'min', start: X_START, step: X_STEP, points: POINTS },
+    y: { name: 'Absorbance 520 nm', unit: 'mAU', decimals: 4 },
+    noiseSd: NOISE_SD,
+    drift: { formula: 'c0 + c1*t + c2*t^2 (mAU, t in min)', ...DRIFT },
+    peaks: PEAK_LIST.map((p) => ({
+      label: p.label,
+      centre: p.centre,
+      height: p.height,
+      sigma: p.sigma,
+      fwhm: round(FWHM_PER_SIGMA * p.sigma, 6),
+      area: round(AREA_PER_HEIGHT_SIGMA * p.height * p.sigma, 6),
+      trueSn: round(p.height / NOISE_SD, 6),
+    })),
+    snDefinition: 'trueSn = peak height above the drift / noise standard deviation',
+    spike: {
+      file: 'demo-sample.csv',
+      index: SPIKE_INDEX,
+      x: x[SPIKE_INDEX],
+      size: spikeSize,
+      sizeInNoiseSd: SPIKE_SIZE_IN_NOISE_SD,
+    },
+    files: files.map((f) => ({ file: f.file, role: f.role, peaks: f.peaks, spike: f.spike })),
+  };
+  return { x, files, truth };
+}
 
 const header = (run) => [
   `Run: Orchard Red / Lagoon Blue practice separation, ${run}`,
@@ -104,55 +154,19 @@ const header = (run) => [
   'Time (min),Absorbance 520 nm (mAU)',
 ];
 
-function csv(run, y) {
+/** The CSV text of one file, y rounded to the 4 decimals the files carry. */
+export function demoCsv(x, run, y) {
   const lines = header(run);
   for (let i = 0; i < POINTS; i++) lines.push(`${x[i].toFixed(2)},${y[i].toFixed(4)}`);
   return `${lines.join('\n')}\n`;
 }
 
-// Noise is drawn in this order, one file after the other, so each file's noise is independent of the others.
-const signal = x.map((_, i) => drift[i] + peaksOnly[i]);
-const files = [];
-const sample = noisy(signal);
-const spikeSize = SPIKE_SIZE_IN_NOISE_SD * NOISE_SD;
-sample[SPIKE_INDEX] += spikeSize;
-files.push({ file: 'demo-sample.csv', role: 'sample', run: 'run 3', y: sample, peaks: true, spike: true });
-files.push({ file: 'demo-blank.csv', role: 'blank', run: 'blank (solvent only)', y: noisy(drift), peaks: false, spike: false });
-for (let k = 1; k <= 8; k++) {
-  files.push({ file: `demo-scan-${k}.csv`, role: 'scan', run: `repeat scan ${k} of 8`, y: noisy(signal), peaks: true, spike: false });
+// Written only when run as a script (tests import makeDemo).
+if (process.argv[1] && resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
+  const outDir = resolve(process.argv[2] ?? join(here, '..', 'public', 'demo'));
+  const { x, files, truth } = makeDemo();
+  mkdirSync(outDir, { recursive: true });
+  for (const f of files) writeFileSync(join(outDir, f.file), demoCsv(x, f.run, f.y));
+  writeFileSync(join(outDir, 'demo-truth.json'), `${JSON.stringify(truth, null, 2)}\n`);
+  console.log(`Wrote ${files.length} traces and demo-truth.json to ${outDir}`);
 }
-
-mkdirSync(outDir, { recursive: true });
-for (const f of files) writeFileSync(join(outDir, f.file), csv(f.run, f.y));
-
-const truth = {
-  description:
-    'Invented demo data: a made-up teaching-lab separation of the food-dye mixture "Orchard Red / Lagoon Blue", ' +
-    'absorbance at 520 nm against time. Written by scripts/make-demo.mjs; every number below is what the script used.',
-  generator: 'mulberry32 uniforms, Box-Muller normals; noise drawn file after file in the order of "files"',
-  seed: SEED,
-  x: { name: 'Time', unit: 'min', start: X_START, step: X_STEP, points: POINTS },
-  y: { name: 'Absorbance 520 nm', unit: 'mAU', decimals: 4 },
-  noiseSd: NOISE_SD,
-  drift: { formula: 'c0 + c1*t + c2*t^2 (mAU, t in min)', ...DRIFT },
-  peaks: PEAK_LIST.map((p) => ({
-    label: p.label,
-    centre: p.centre,
-    height: p.height,
-    sigma: p.sigma,
-    fwhm: round(FWHM_PER_SIGMA * p.sigma, 6),
-    area: round(AREA_PER_HEIGHT_SIGMA * p.height * p.sigma, 6),
-    trueSn: round(p.height / NOISE_SD, 6),
-  })),
-  snDefinition: 'trueSn = peak height above the drift / noise standard deviation',
-  spike: {
-    file: 'demo-sample.csv',
-    index: SPIKE_INDEX,
-    x: x[SPIKE_INDEX],
-    size: spikeSize,
-    sizeInNoiseSd: SPIKE_SIZE_IN_NOISE_SD,
-  },
-  files: files.map((f) => ({ file: f.file, role: f.role, peaks: f.peaks, spike: f.spike })),
-};
-writeFileSync(join(outDir, 'demo-truth.json'), `${JSON.stringify(truth, null, 2)}\n`);
-console.log(`Wrote ${files.length} traces and demo-truth.json to ${outDir}`);

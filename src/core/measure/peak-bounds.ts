@@ -23,14 +23,15 @@
  *    below start at the half-height crossing of that side. Its noise is
  *    σ_B = σ·(box factor; 1/√B for white noise). A side stops where
  *    * the average above the current baseline line rose more than 3σ_B
- *      above its lowest value so far ('valley', a neighbour's flank): the
- *      bound is at that lowest value;
+ *      above its lowest value so far ('valley', a neighbour's flank; 6σ_B
+ *      once the walk is back at the baseline): the bound is at that lowest
+ *      value;
  *    * two half-widths of that side (at least B samples) after the average
  *      first came within 3σ_B of the lower of
  *      that line and the hull line, the edge under the apex of the lower
  *      convex hull of the box averages within {@link WIDTH_LIMIT}
  *      half-widths either side, which never lies above the averaged trace
- *      (noise puts it 2–3 σ_B below the baseline) ('returned'; at the lowest value before a rise if one comes first);
+ *      (noise puts it 2–3 σ_B below the baseline) ('returned');
  *    * it is {@link WIDTH_LIMIT} half-widths (of that side) from the apex
  *      ('width-limit'), or the trace ends ('trace-end').
  * 4. Levels at the bounds: at a valley, the box average there; otherwise
@@ -63,9 +64,11 @@ import type { NoiseModel } from './peak-snr.ts';
 /** Bounds lie at most this many of the peak's own half-height half-widths (per side) from the apex. */
 export const WIDTH_LIMIT = 8;
 /** Most passes of steps 2–4. */
-const MAX_PASSES = 4;
+const MAX_PASSES = 2;
 /** Rise, in σ of the walk's values, that ends a walk at a valley. */
 const VALLEY_RISE = 3;
+/** Rise, in σ_B, that ends a walk at a valley once it is back at the baseline: a neighbour's flank, not noise. */
+const VALLEY_RISE_AFTER_RETURN = 6;
 /** A walk is back at the baseline within this many σ_B above the hull (which noise puts 2–3 σ_B low). */
 const RETURN_ABOVE_HULL = 3;
 /** Half-height half-widths (of that side) a bound lies beyond the point where the trace came back to the baseline. */
@@ -233,6 +236,13 @@ function nearestFrom(x: Float64Array, i: number, v: number): number {
  */
 export function apexLevel(x: Float64Array, s: Float64Array, line: Line, i: number, fwhmPoints: number, at: number): number {
   const q = Math.max(1, Math.min(APEX_HALF_WINDOW_MAX, Math.floor(fwhmPoints / 6)));
+  if (q === 1 && i > 0 && i < s.length - 1) {
+    // The parabola through the three top samples, in Newton's form.
+    const x0 = x[i - 1], x1 = x[i], x2 = x[i + 1];
+    const v0 = s[i - 1] - lineAt(line, x0), v1 = s[i] - lineAt(line, x1), v2 = s[i + 1] - lineAt(line, x2);
+    const d1 = (v1 - v0) / (x1 - x0), d2 = (v2 - v1) / (x2 - x1), a = (d2 - d1) / (x2 - x0);
+    return v1 + d1 * (at - x1) + a * (at - x0) * (at - x1);
+  }
   const c = q > 1 ? nearestFrom(x, i, at) : i;
   const i0 = Math.max(0, c - q), i1 = Math.min(s.length - 1, c + q);
   const own = s[i] - lineAt(line, x[i]);
@@ -250,16 +260,31 @@ export function apexLevel(x: Float64Array, s: Float64Array, line: Line, i: numbe
  * trace). A side that never falls to `half` crosses at its bound.
  */
 export function halfCrossings(x: Float64Array, s: Float64Array, line: Line, i: number, half: number, lo: number, hi: number): [number, number] {
-  const d = (k: number) => s[k] - lineAt(line, x[k]);
+  crossings(x, s, line, i, half, lo, hi);
+  return [outA, outB];
+}
+
+/*
+ * The hot helpers below hand back two numbers through these module variables instead of a new array each
+ * call: detection measures every candidate, some 10⁵ at 10⁶ points, and the garbage dominated the time.
+ */
+let outA = 0, outB = 0;
+let outKind: BoundKind = 'valley';
+
+/** {@link halfCrossings} into outA (left) and outB (right). */
+function crossings(x: Float64Array, s: Float64Array, line: Line, i: number, half: number, lo: number, hi: number): void {
+  const y0 = line.y0, sl = line.slope, x0 = line.x0;
   let j = i;
-  while (lo < j && half < d(j)) j--;
+  let dj = s[j] - (y0 + sl * (x[j] - x0));
+  while (lo < j && half < dj) { j--; dj = s[j] - (y0 + sl * (x[j] - x0)); }
   let lip = j;
-  if (d(j) < half && j < i) lip += (half - d(j)) / (d(j + 1) - d(j));
+  if (dj < half && j < i) { const dn = s[j + 1] - (y0 + sl * (x[j + 1] - x0)); lip += (half - dj) / (dn - dj); }
   j = i;
-  while (j < hi && half < d(j)) j++;
+  dj = s[j] - (y0 + sl * (x[j] - x0));
+  while (j < hi && half < dj) { j++; dj = s[j] - (y0 + sl * (x[j] - x0)); }
   let rip = j;
-  if (d(j) < half && j > i) rip -= (half - d(j)) / (d(j - 1) - d(j));
-  return [lip, rip];
+  if (dj < half && j > i) { const dp = s[j - 1] - (y0 + sl * (x[j - 1] - x0)); rip -= (half - dj) / (dp - dj); }
+  outA = lip; outB = rip;
 }
 
 /**
@@ -267,22 +292,22 @@ export function halfCrossings(x: Float64Array, s: Float64Array, line: Line, i: n
  * average of half-width r, the lowest average passed before one rises more
  * than `rise` above it, within `cap` samples. Returns its index and level.
  */
-function footAtScale(s: Float64Array, i: number, dir: -1 | 1, r: number, rise: number, cap: number): [number, number] {
-  const n = s.length;
+function footAtScale(s: Float64Array, i: number, dir: -1 | 1, r: number, rise: number, cap: number): void {
+  const n = s.length, last = n - 1;
   const B = 2 * r + 1;
-  const clamp = (k: number) => (k < 0 ? 0 : k >= n ? n - 1 : k);
   let sum = 0;
-  for (let k = i - r; k <= i + r; k++) sum += s[clamp(k)];
+  for (let k = i - r; k <= i + r; k++) sum += s[k < 0 ? 0 : k > last ? last : k];
   let min = sum / B, a = i;
   for (let j = i, k = 1; k <= cap; k++) {
     const next = j + dir;
-    if (next < 0 || next >= n) break;
-    sum += s[clamp(next + dir * r)] - s[clamp(j - dir * r)];
+    if (next < 0 || next > last) break;
+    const add = next + dir * r, drop = j - dir * r;
+    sum += s[add < 0 ? 0 : add > last ? last : add] - s[drop < 0 ? 0 : drop > last ? last : drop];
     j = next;
     const v = sum / B;
     if (v < min) { min = v; a = j; } else if (v > min + rise) break;
   }
-  return [a, min];
+  outA = a; outB = min;
 }
 
 /**
@@ -299,21 +324,23 @@ function footAtScale(s: Float64Array, i: number, dir: -1 | 1, r: number, rise: n
 export function firstFeet(c: MeasureContext, i: number, widthLimit: number, cap: number): { r: number; f0: number; l0: number; f1: number; l1: number } {
   const { x, s, noise } = c;
   const sigma = noise.ruleSigmaAt(i);
-  let best: { r: number; f0: number; l0: number; f1: number; l1: number } | null = null;
+  let bR = 0, bF0 = i, bL0 = s[i], bF1 = i, bL1 = s[i];
   let bestZ = -Infinity;
   for (let r = 0; ; r = r === 0 ? 1 : 2 * r) {
     const B = 2 * r + 1;
     if (r > 0 && B > widthLimit) break;
     const sb = sigma * noise.boxFactor(B);
-    const [f0, l0] = footAtScale(s, i, -1, r, VALLEY_RISE * sb, cap);
-    const [f1, l1] = footAtScale(s, i, 1, r, VALLEY_RISE * sb, cap);
-    const line = lineThrough(x[f0], l0, x[f1], l1);
-    const z = (boxMean(s, i, r) - lineAt(line, x[i])) / sb;
+    footAtScale(s, i, -1, r, VALLEY_RISE * sb, cap);
+    const f0 = outA, l0 = outB;
+    footAtScale(s, i, 1, r, VALLEY_RISE * sb, cap);
+    const f1 = outA, l1 = outB;
+    const base = x[f1] === x[f0] ? (l0 + l1) / 2 : l0 + ((l1 - l0) * (x[i] - x[f0])) / (x[f1] - x[f0]);
+    const z = (boxMean(s, i, r) - base) / sb;
     // z itself is noisy by a unit or two at small boxes: the scan goes on until z falls clearly below its best.
     if (!(z >= bestZ - SCALE_SLACK)) break;
-    if (z > bestZ) { best = { r, f0, l0, f1, l1 }; bestZ = z; }
+    if (z > bestZ) { bR = r; bF0 = f0; bL0 = l0; bF1 = f1; bL1 = l1; bestZ = z; }
   }
-  return best ?? { r: 0, f0: i, l0: s[i], f1: i, l1: s[i] };
+  return { r: bR, f0: bF0, l0: bL0, f1: bF1, l1: bL1 };
 }
 
 /** Reused buffers of {@link hullUnder} (measuring is synchronous, so one set serves every call). */
@@ -332,13 +359,13 @@ function hullUnder(c: MeasureContext, i: number, lo: number, hi: number, r: numb
   const len = hi - lo + 1;
   if (hullG.length < len) { hullG = new Float64Array(len * 2); hullStack = new Int32Array(len * 2); }
   const g = hullG, st = hullStack;
-  const B = 2 * r + 1;
-  const clamp = (k: number) => (k < 0 ? 0 : k >= n ? n - 1 : k);
+  const B = 2 * r + 1, last = n - 1;
   let sum = 0;
-  for (let k = lo - r; k <= lo + r; k++) sum += s[clamp(k)];
+  for (let k = lo - r; k <= lo + r; k++) sum += s[k < 0 ? 0 : k > last ? last : k];
   for (let j = lo; j <= hi; j++) {
     g[j - lo] = sum / B;
-    sum += s[clamp(j + 1 + r)] - s[clamp(j - r)];
+    const add = j + 1 + r, drop = j - r;
+    sum += s[add < 0 ? 0 : add > last ? last : add] - s[drop < 0 ? 0 : drop > last ? last : drop];
   }
   let top = 0;
   for (let j = lo; j <= hi; j++) {
@@ -367,38 +394,54 @@ function hullUnder(c: MeasureContext, i: number, lo: number, hi: number, r: numb
  * anchored on a neighbour's flank, touches the tail of this peak on the
  * other side.
  */
-function walkBound(c: MeasureContext, i: number, dir: -1 | 1, ref: Line, hull: Line, r: number, sigmaBox: number, cap: number, from: number, beyond: number): [number, BoundKind] {
+function walkBound(c: MeasureContext, i: number, dir: -1 | 1, ref: Line, hull: Line, r: number, sigmaBox: number, cap: number, from: number, beyond: number): number {
   const { x, s } = c;
-  const n = s.length;
+  const last = s.length - 1;
   const B = 2 * r + 1;
-  const clamp = (k: number) => (k < 0 ? 0 : k >= n ? n - 1 : k);
+  const ry0 = ref.y0, rsl = ref.slope, rx0 = ref.x0, hy0 = hull.y0, hsl = hull.slope, hx0 = hull.x0;
+  const rise = VALLEY_RISE * sigmaBox, riseAfter = VALLEY_RISE_AFTER_RETURN * sigmaBox, back = RETURN_ABOVE_HULL * sigmaBox;
   let j = i + dir;
-  if (j < 0 || j >= n) return [i, 'trace-end'];
+  if (j < 0 || j > last) { outKind = 'trace-end'; return i; }
   let sum = 0;
-  for (let k = j - r; k <= j + r; k++) sum += s[clamp(k)];
+  for (let k = j - r; k <= j + r; k++) sum += s[k < 0 ? 0 : k > last ? last : k];
   let min = Infinity, arg = j;
   let returned = -1;
   for (;;) {
     const g = sum / B;
-    const v = g - lineAt(ref, x[j]);
+    const lr = ry0 + rsl * (x[j] - rx0);
+    const v = g - lr;
+    const dist = j > i ? j - i : i - j;
     // Inside the half-height width there is no valley to find (and on a slope the sample apex is not the top above the line).
-    if (Math.abs(j - i) < from) { /* keep walking */ } else if (v < min) { min = v; arg = j; } else if (v > min + VALLEY_RISE * sigmaBox) return [arg, returned >= 0 ? 'returned' : 'valley'];
-    if (returned < 0 && Math.abs(j - i) >= from && g - Math.min(lineAt(ref, x[j]), lineAt(hull, x[j])) <= RETURN_ABOVE_HULL * sigmaBox) returned = j;
-    // Once back at the baseline the bound lies `beyond` further out (or at the lowest point before a rise).
-    if (returned >= 0 && Math.abs(j - returned) >= beyond) return [j, 'returned'];
-    if (Math.abs(j - i) >= cap) return [j, returned >= 0 ? 'returned' : 'width-limit'];
+    // Once back at the baseline only a rise far beyond noise (a neighbour's flank) ends the walk early: stopping at
+    // a noise dip would put the level's stretch at a dip and lower the baseline. (The hull touches a valley, so a
+    // valley between two peaks can count as back at the baseline.)
+    if (dist < from) { /* keep walking */ } else if (v < min) { min = v; arg = j; } else if (v > min + (returned >= 0 ? riseAfter : rise)) { outKind = 'valley'; return arg; }
+    if (returned < 0 && dist >= from) {
+      const lh = hy0 + hsl * (x[j] - hx0);
+      if (g - (lr < lh ? lr : lh) <= back) returned = j;
+    }
+    // Once back at the baseline the bound lies `beyond` further out.
+    if (returned >= 0 && (j > returned ? j - returned : returned - j) >= beyond) { outKind = 'returned'; return j; }
+    if (dist >= cap) { outKind = returned >= 0 ? 'returned' : 'width-limit'; return j; }
     const next = j + dir;
-    if (next < 0 || next >= n) return [j, 'trace-end'];
-    sum += s[clamp(next + dir * r)] - s[clamp(j - dir * r)];
+    if (next < 0 || next > last) { outKind = 'trace-end'; return j; }
+    const add = next + dir * r, drop = j - dir * r;
+    sum += s[add < 0 ? 0 : add > last ? last : add] - s[drop < 0 ? 0 : drop > last ? last : drop];
     j = next;
   }
 }
 
 /** Rule 4: the level (mean point) that fixes the baseline at bound b on side dir. */
 export function boundLevel(c: MeasureContext, b: number, dir: -1 | 1, kind: BoundKind, r: number, sigma: number): [number, number] {
+  level(c, b, dir, kind, r, sigma);
+  return [outA, outB];
+}
+
+/** {@link boundLevel} into outA (x) and outB (level). */
+function level(c: MeasureContext, b: number, dir: -1 | 1, kind: BoundKind, r: number, sigma: number): void {
   const { x, s } = c;
   const n = s.length;
-  if (kind === 'valley' || kind === 'shared-valley') return [x[b], boxMean(s, b, r)];
+  if (kind === 'valley' || kind === 'shared-valley') { outA = x[b]; outB = boxMean(s, b, r); return; }
   const want = Math.max(2 * r + 1, LEVEL_POINTS_MIN);
   let cnt = 0, sx = 0, sy = 0;
   const half = want >> 1;
@@ -409,17 +452,15 @@ export function boundLevel(c: MeasureContext, b: number, dir: -1 | 1, kind: Boun
     sx += x[j]; sy += s[j]; cnt++;
     if (k < half) { near += s[j]; nNear++; } else { far += s[j]; nFar++; }
   }
-  if (cnt < 3) return [x[b], boxMean(s, b, r)];
-  if (far / nFar - near / nNear > 2 * sigma * Math.sqrt(1 / nNear + 1 / nFar)) return [x[b], boxMean(s, b, r)];
-  return [sx / cnt, sy / cnt];
+  if (cnt < 3 || far / nFar - near / nNear > 2 * sigma * Math.sqrt(1 / nNear + 1 / nFar)) { outA = x[b]; outB = boxMean(s, b, r); return; }
+  outA = sx / cnt; outB = sy / cnt;
 }
 
 /** Width, apex and height of a peak against a given line and bounds (rule 2). */
 function shape(c: MeasureContext, m: LocalMeasure, fwhmGuess: number): number {
   const { x, s } = c;
   const h0 = apexLevel(x, s, m.line, m.index, fwhmGuess, m.xApex);
-  if (h0 > 0) [m.leftIp, m.rightIp] = halfCrossings(x, s, m.line, m.index, h0 / 2, m.start, m.end);
-  else { m.leftIp = m.index; m.rightIp = m.index; }
+  if (h0 > 0) { crossings(x, s, m.line, m.index, h0 / 2, m.start, m.end); m.leftIp = outA; m.rightIp = outB; } else { m.leftIp = m.index; m.rightIp = m.index; }
   const fw = m.rightIp - m.leftIp;
   m.xApex = apexPosition(x, s, m.line, m.index, fw);
   m.height = apexLevel(x, s, m.line, m.index, fw, m.xApex);
@@ -444,9 +485,10 @@ export function measureLocal(c: MeasureContext, i: number, firstWidth: number): 
   for (let pass = 0; pass < MAX_PASSES; pass++) {
     if (!(m.height > 0)) return m;
     const moved = rewalk(c, m, true, true);
-    const [xa, ya] = boundLevel(c, m.start, -1, m.startKind, m.box, sigma);
-    const [xb, yb] = boundLevel(c, m.end, 1, m.endKind, m.box, sigma);
-    m.line = lineThrough(xa, ya, xb, yb);
+    level(c, m.start, -1, m.startKind, m.box, sigma);
+    const xa = outA, ya = outB;
+    level(c, m.end, 1, m.endKind, m.box, sigma);
+    m.line = lineThrough(xa, ya, outA, outB);
     fw = shape(c, m, fw);
     if (!moved) break;
   }
@@ -469,12 +511,14 @@ function rewalk(c: MeasureContext, m: LocalMeasure, left: boolean, right: boolea
   const hull = hullUnder(c, i, Math.max(0, i - capL), Math.min(s.length - 1, i + capR), r);
   let moved = false;
   if (left) {
-    const [b, k] = walkBound(c, i, -1, m.line, hull, r, sigmaBox, capL, Math.min(capL, Math.ceil(hwL)), Math.max(2 * r + 1, Math.ceil(RETURN_BEYOND * hwL)));
+    const b = walkBound(c, i, -1, m.line, hull, r, sigmaBox, capL, Math.min(capL, Math.ceil(hwL)), Math.max(2 * r + 1, Math.ceil(RETURN_BEYOND * hwL)));
+    const k = outKind;
     moved ||= b !== m.start || k !== m.startKind;
     m.start = b; m.startKind = k;
   }
   if (right) {
-    const [b, k] = walkBound(c, i, 1, m.line, hull, r, sigmaBox, capR, Math.min(capR, Math.ceil(hwR)), Math.max(2 * r + 1, Math.ceil(RETURN_BEYOND * hwR)));
+    const b = walkBound(c, i, 1, m.line, hull, r, sigmaBox, capR, Math.min(capR, Math.ceil(hwR)), Math.max(2 * r + 1, Math.ceil(RETURN_BEYOND * hwR)));
+    const k = outKind;
     moved ||= b !== m.end || k !== m.endKind;
     m.end = b; m.endKind = k;
   }
@@ -612,7 +656,7 @@ export function shareValleys(c: MeasureContext, ms: LocalMeasure[], grouped: rea
     }
     changed[k] = 1; changed[k + 1] = 1;
   }
-  const level = (m: LocalMeasure, side: -1 | 1): [number, number] => side < 0
+  const levelOf = (m: LocalMeasure, side: -1 | 1): [number, number] => side < 0
     ? boundLevel(c, m.start, -1, m.startKind, m.box, noise.ruleSigmaAt(m.index))
     : boundLevel(c, m.end, 1, m.endKind, m.box, noise.ruleSigmaAt(m.index));
   let k = 0;
@@ -624,12 +668,12 @@ export function shareValleys(c: MeasureContext, ms: LocalMeasure[], grouped: rea
       // too narrow: walk them again against the group's own baseline until they settle.
       const first = ms[k], last = ms[e];
       for (let pass = 0; pass < MAX_PASSES; pass++) {
-        const [xa, ya] = level(first, -1), [xb, yb] = level(last, 1);
+        const [xa, ya] = levelOf(first, -1), [xb, yb] = levelOf(last, 1);
         const line = lineThrough(xa, ya, xb, yb);
         for (let j = k; j <= e; j++) {
           const m = ms[j];
           m.split = rule;
-          m.line = rule === 'perpendicular-drop' ? line : lineThrough(...level(m, -1), ...level(m, 1));
+          m.line = rule === 'perpendicular-drop' ? line : lineThrough(...levelOf(m, -1), ...levelOf(m, 1));
           shape(c, m, m.rightIp - m.leftIp);
           changed[j] = 0;
         }
@@ -642,13 +686,13 @@ export function shareValleys(c: MeasureContext, ms: LocalMeasure[], grouped: rea
     for (let j = k; j <= e; j++) {
       const m = ms[j];
       if (changed[j]) {
-        const [xa, ya] = level(m, -1), [xb, yb] = level(m, 1);
+        const [xa, ya] = levelOf(m, -1), [xb, yb] = levelOf(m, 1);
         m.line = lineThrough(xa, ya, xb, yb);
         shape(c, m, m.rightIp - m.leftIp);
       }
       if (!(m.height > 0) && m.split === 'perpendicular-drop') {
         // Below the group's line (a small peak in a deep stretch): its own valley-to-valley line instead.
-        const [xa, ya] = level(m, -1), [xb, yb] = level(m, 1);
+        const [xa, ya] = levelOf(m, -1), [xb, yb] = levelOf(m, 1);
         m.line = lineThrough(xa, ya, xb, yb);
         m.split = 'valley-to-valley';
         shape(c, m, m.rightIp - m.leftIp);
