@@ -11,9 +11,10 @@ import { interpolateLinear, meanStep } from './numeric/interpolate.ts';
 import { residual as residualOf, residualDiagnostics, type ResidualDiagnostics } from './diagnostics.ts';
 import { noisePeakToPeak, noiseRms, noiseRobust, type NoiseEstimate } from './noise.ts';
 import { featureMask, noiseQuietWindows } from './noise-windows.ts';
-import { matchPeaks, windowAdvice, type Ledger, type WindowAdvice } from './loss.ts';
-import type { Peak, PeakDecisions, PeakOptions, SnrDefinition } from './measure/peak-types.ts';
-import { applyPeakDecisions, defaultPeakOptions, detectPeaks } from './measure/peak-table.ts';
+import { matchPeaks, windowAdvice, type Ledger, type LedgerRow, type WindowAdvice } from './loss.ts';
+import type { Peak, PeakDecisions, PeakOptions, SnrDefinition, SplitRule } from './measure/peak-types.ts';
+import { applyPeakDecisions, defaultPeakOptions, detectPeaks, markAppearsOnlyAfterProcessing, markSaturatedOnRaw } from './measure/peak-table.ts';
+import { expectedNoiseBumps, type NoiseBumpCount } from './measure/noise-bumps.ts';
 
 /**
  * How noise is measured for S/N = H/σ: 'windows' (automatic, median of
@@ -35,7 +36,7 @@ export interface PeakSettings {
   measureOn: 'processed' | 'raw';
   minProminenceSigma: number;
   minSnr: number;
-  /** x-units; 0 = three sample spacings. */
+  /** x-units; 0 = 2.5 sample spacings (defaultPeakOptions). */
   minWidth: number;
   /** x-units; 0 = off. */
   minSeparation: number;
@@ -44,13 +45,15 @@ export interface PeakSettings {
   negative: boolean;
   detectionLimit: number;
   quantitationLimit: number;
+  /** How peaks sharing a valley split the area (absent in sessions saved before it existed: perpendicular drop). */
+  split?: SplitRule;
 }
 
 export const DEFAULT_NOISE_SETTINGS: NoiseSettings = { method: 'windows', quietRange: null };
 
 export const DEFAULT_PEAK_SETTINGS: PeakSettings = {
   measureOn: 'processed', minProminenceSigma: 2, minSnr: 2, minWidth: 0, minSeparation: 0,
-  snrDefinition: 'rms', pharmacopoeialMultiplier: 5, negative: false, detectionLimit: 3, quantitationLimit: 10,
+  snrDefinition: 'rms', pharmacopoeialMultiplier: 5, negative: false, detectionLimit: 3, quantitationLimit: 10, split: 'perpendicular-drop',
 };
 
 export interface NoiseReport {
@@ -76,6 +79,8 @@ export interface AnalyseRequest {
   decisions?: PeakDecisions;
   /** Other stacks to compare with the current one (the loss check), at most {@link MAX_ALTERNATIVES}. */
   alternatives?: AlternativeRequest[];
+  /** Also carry the ledger rows that are below the detection limit in every column (the page's toggle). */
+  ledgerNoiseLevel?: boolean;
 }
 
 export const MAX_ALTERNATIVES = 6;
@@ -108,13 +113,19 @@ export interface WindowAdviceRow {
 export interface LossReport {
   /** Column 0 is the raw trace (reference), column 1 the current stack, then the alternatives. */
   ledger: Ledger;
-  /** Features below the detection limit in every column, left out of the ledger (counted only). */
+  /** Features below the detection limit in every column: left out of the ledger (counted only) unless asked for. */
   noiseLevelRows: number;
+  /** True when the ledger holds those noise-level rows too. */
+  noiseLevelShown: boolean;
   outcomes: AlternativeOutcome[];
-  /** Narrowest half-height width among the reference's quantifiable peaks (detectable when none), in points. */
+  /** Narrowest half-height width among the reference's quantifiable peaks, in points; null when none is quantifiable. */
   narrowestFwhmPoints: number | null;
   advice: WindowAdviceRow[];
-  /** Features the current stack loses or weakens against the raw trace: what the export asks the user to confirm. */
+  /**
+   * What the export asks the user to confirm: features the current stack loses or weakens against the raw
+   * trace, and features that appear only after processing. Detectable features within the noise range (below
+   * the S/N pure noise of this length reaches about once) are summed up in one sentence, not listed.
+   */
   currentWarnings: string[];
 }
 
@@ -154,6 +165,8 @@ export interface AnalyseResult {
   peakOptions: PeakOptions | null;
   /** Why peaks could not be measured, when they could not. */
   peakProblem?: string;
+  /** How many noise-only peaks pure noise of this length and correlation would give with these settings. */
+  noiseBumps: NoiseBumpCount | null;
   /** The loss check; null when there is nothing to compare. */
   loss: LossReport | null;
   ms: number;
@@ -243,8 +256,10 @@ function measurePeaks(measured: Signal, raw: Signal, noiseSettings: NoiseSetting
     snrDefinition: ps.snrDefinition,
     pharmacopoeialMultiplier: ps.pharmacopoeialMultiplier,
     negative: ps.negative,
+    split: ps.split ?? 'perpendicular-drop',
     limits: { detection: ps.detectionLimit, quantitation: ps.quantitationLimit },
     pharmacopoeialNoise: ctx.blank ? { x: ctx.blank.x, y: ctx.blank.y, fromBlank: true } : undefined,
+    noiseCorrelation: noise.sigma.correlation,
   };
   try {
     let peaks = detectPeaks(measured.x, measured.y, peakOptions);
@@ -268,20 +283,10 @@ function adviceFor(step: string, params: Record<string, unknown>, narrowest: num
   return null;
 }
 
-/**
- * The loss check: the raw trace, the current stack and each alternative,
- * measured with the same noise and peak settings, matched into one ledger.
- */
-function lossCheck(
-  request: AnalyseRequest, raw: Signal, sample: Trace, run: ReturnType<typeof runPipeline>, main: Measured,
-  ctx: StepContext, registry: Registry, cache?: PipelineCache,
-): LossReport | null {
-  const alts = (request.alternatives ?? []).slice(0, MAX_ALTERNATIVES);
-  const currentRan = run.runs.some((r) => r.status === 'ok');
-  if (!currentRan && alts.length === 0) return null;
+/** The raw trace measured with the user's settings (hand decisions left out), worked out once per trace and settings. */
+function rawReference(request: AnalyseRequest, raw: Signal, ctx: StepContext): Measured {
   const ps = { ...(request.peaks ?? DEFAULT_PEAK_SETTINGS), measureOn: 'processed' as const };
   const noiseSettings = request.noise ?? DEFAULT_NOISE_SETTINGS;
-  // Hand decisions belong to the current table only; the comparison uses what detection finds.
   const refKey = JSON.stringify([noiseSettings, ps, ctx.blank?.id ?? null]);
   let refs = REFERENCES.get(raw.y);
   if (!refs) { refs = new Map(); REFERENCES.set(raw.y, refs); }
@@ -291,6 +296,23 @@ function lossCheck(
     if (refs.size > 8) refs.clear();
     refs.set(refKey, reference);
   }
+  return reference;
+}
+
+/**
+ * The loss check: the raw trace, the current stack and each alternative,
+ * measured with the same noise and peak settings, matched into one ledger.
+ */
+function lossCheck(
+  request: AnalyseRequest, raw: Signal, sample: Trace, run: ReturnType<typeof runPipeline>, main: Measured, reference: Measured,
+  noiseBumps: NoiseBumpCount | null, ctx: StepContext, registry: Registry, cache?: PipelineCache,
+): LossReport | null {
+  const alts = (request.alternatives ?? []).slice(0, MAX_ALTERNATIVES);
+  const currentRan = run.runs.some((r) => r.status === 'ok');
+  if (!currentRan && alts.length === 0) return null;
+  const ps = { ...(request.peaks ?? DEFAULT_PEAK_SETTINGS), measureOn: 'processed' as const };
+  const noiseSettings = request.noise ?? DEFAULT_NOISE_SETTINGS;
+  // Hand decisions belong to the current table only; the comparison uses what detection finds.
   const reuse = (request.peaks ?? DEFAULT_PEAK_SETTINGS).measureOn === 'processed' && !request.decisions?.added.length && !request.decisions?.removed.length;
   const current = reuse ? main : measurePeaks(run.final, raw, noiseSettings, ps, ctx);
   const columns = [
@@ -312,17 +334,17 @@ function lossCheck(
   }
   const limits = { detection: ps.detectionLimit, quantitation: ps.quantitationLimit };
   const full = matchPeaks(columns, { dx: meanStep(raw.x), xUnit: sample.xUnit, limits });
-  // Features below the detection limit in every column are noise-level candidates: counted, not carried
-  // (a long noisy trace has tens of thousands, and sending them to the page would stall it).
-  const kept = full.rows.filter((r) => r.cells.some((c) => c.standing === 'detectable' || c.standing === 'quantifiable'));
+  // Features below the detection limit in every column are noise-level candidates: counted, and carried only when
+  // the page asks (a long noisy trace has tens of thousands, and sending them all would stall it).
+  const atOrAbove = (r: LedgerRow) => r.cells.some((c) => c.standing === 'detectable' || c.standing === 'quantifiable');
+  const kept = request.ledgerNoiseLevel ? full.rows.slice() : full.rows.filter(atOrAbove);
   const ledger: Ledger = { ...full, rows: kept, sentences: kept.flatMap((r) => r.sentences) };
-  const noiseLevelRows = full.rows.length - kept.length;
-  // Narrowest real peak: among the reference's quantifiable peaks (noise wiggles that just pass S/N 3 are
-  // narrow by nature and would make every window look too wide); detectable ones only when none is quantifiable.
-  const quant = reference.peaks.filter((p) => p.flag === 'quantifiable');
-  const real = quant.length ? quant : reference.peaks.filter((p) => p.flag === 'detectable');
+  const noiseLevelRows = full.rows.filter((r) => !atOrAbove(r)).length;
+  // Window advice from quantifiable features only: noise bumps that just pass S/N 3 are narrow by nature and would
+  // make every window look too wide.
   const dxRaw = meanStep(raw.x);
-  const narrowest = real.length ? Math.min(...real.map((p) => p.fwhm / dxRaw)) : null;
+  const quant = reference.peaks.filter((p) => p.flag === 'quantifiable' && !p.removedByUser);
+  const narrowest = quant.length ? Math.min(...quant.map((p) => p.fwhm / dxRaw)) : null;
   const advice: WindowAdviceRow[] = [];
   if (narrowest) {
     for (const st of request.recipe.steps) {
@@ -333,16 +355,39 @@ function lossCheck(
   }
   const currentWarnings: string[] = [];
   const where = (x: number) => `${x.toPrecision(5)}${sample.xUnit ? ` ${sample.xUnit}` : ''}`;
-  for (const row of ledger.rows) {
+  // Detectable features no higher than what pure noise of this length reaches about once are summed up, not listed.
+  const ceiling = noiseBumps?.oneBumpSnr ?? null;
+  const withinNoise = (snr: number | null, standing: string) => standing !== 'quantifiable' && ceiling !== null && snr !== null && snr < ceiling;
+  let noiseLevelLosses = 0;
+  for (const row of full.rows) {
     // Only features present on the raw trace can be lost by the current stack (column 1).
     if (row.firstFoundIn !== 0) continue;
     const ref = row.cells[0], cur = row.cells[1];
     if (ref.standing !== 'quantifiable' && ref.standing !== 'detectable') continue;
-    if (!cur.found) currentWarnings.push(`The feature at ${where(row.position)} (S/N ${ref.snr?.toFixed(1)} raw) is lost with the current stack.`);
-    else if (cur.crossed === 'down') currentWarnings.push(`The feature at ${where(row.position)} falls from ${ref.standing} (S/N ${ref.snr?.toFixed(1)}) to ${cur.standing.replace('-', ' ')} (S/N ${cur.snr?.toFixed(1)}) with the current stack.`);
-    else if (ref.standing === 'quantifiable' && cur.heightKept !== null && cur.heightKept < 80) currentWarnings.push(`The feature at ${where(row.position)} keeps only ${cur.heightKept.toFixed(0)} % of its raw height with the current stack.`);
+    let sentence: string | null = null;
+    if (!cur.found) sentence = `The feature at ${where(row.position)} (S/N ${ref.snr?.toFixed(1)} raw) is lost with the current stack.`;
+    else if (cur.crossed === 'down') sentence = `The feature at ${where(row.position)} falls from ${ref.standing} (S/N ${ref.snr?.toFixed(1)}) to ${cur.standing.replace('-', ' ')} (S/N ${cur.snr?.toFixed(1)}) with the current stack.`;
+    else if (ref.standing === 'quantifiable' && cur.heightKept !== null && cur.heightKept < 80) sentence = `The feature at ${where(row.position)} keeps only ${cur.heightKept.toFixed(0)} % of its raw height with the current stack.`;
+    if (!sentence) continue;
+    if (withinNoise(ref.snr, ref.standing)) noiseLevelLosses++;
+    else currentWarnings.push(sentence);
   }
-  return { ledger, noiseLevelRows, outcomes, narrowestFwhmPoints: narrowest, advice, currentWarnings };
+  // Features the raw trace does not have (a spike smoothing spread, a bump smoothing made out of noise).
+  let noiseLevelBorn = 0;
+  for (const p of main.peaks) {
+    if (p.removedByUser || !p.marks.includes('appears-only-after-processing')) continue;
+    if (p.flag !== 'quantifiable' && p.flag !== 'detectable') continue;
+    if (withinNoise(p.snr, p.flag)) { noiseLevelBorn++; continue; }
+    currentWarnings.push(`The feature at ${where(p.x)} (S/N ${p.snr?.toFixed(1)}, ${p.flag === 'quantifiable' ? 'quantifiable' : 'detected'}) appears only after processing: the raw trace has nothing there that passes the same thresholds.`);
+  }
+  if (noiseLevelLosses + noiseLevelBorn > 0 && ceiling !== null) {
+    const parts = [
+      noiseLevelLosses ? `${noiseLevelLosses} detectable feature${noiseLevelLosses === 1 ? ' is' : 's are'} lost or weakened` : '',
+      noiseLevelBorn ? `${noiseLevelBorn} detectable feature${noiseLevelBorn === 1 ? ' appears' : 's appear'} only after processing` : '',
+    ].filter(Boolean);
+    currentWarnings.push(`Within the noise range (below S/N ${ceiling.toFixed(1)}, which pure noise of this length reaches about once) ${parts.join(' and ')}; the ledger lists them.`);
+  }
+  return { ledger, noiseLevelRows, noiseLevelShown: !!request.ledgerNoiseLevel, outcomes, narrowestFwhmPoints: narrowest, advice, currentWarnings };
 }
 
 /**
@@ -425,9 +470,19 @@ export function analyse(
   const ps = request.peaks ?? DEFAULT_PEAK_SETTINGS;
   const measured = ps.measureOn === 'raw' ? raw : run.final;
   const main = measurePeaks(measured, raw, request.noise ?? DEFAULT_NOISE_SETTINGS, ps, ctx, request.decisions);
-  const loss = lossCheck(request, raw, sample, run, main, ctx, registry, cache);
+  const reference = rawReference(request, raw, ctx);
+  if (measured !== raw && processedSomething) {
+    // What the raw trace does not have, and tops flat at the raw trace's largest value (smoothing rounds them).
+    main.peaks = markSaturatedOnRaw(markAppearsOnlyAfterProcessing(main.peaks, reference.peaks, meanStep(raw.x)), raw.x, raw.y, ps.negative);
+  }
+  const noiseBumps = main.peakOptions && main.peakOptions.noiseSigma > 0
+    ? expectedNoiseBumps(measured.y.length, meanStep(measured.x), main.peakOptions, main.noise?.sigma.correlation)
+    : null;
+  const loss = lossCheck(request, raw, sample, run, main, reference, noiseBumps, ctx, registry, cache);
+  // A function cannot cross to the page; the per-sample σ, when given as one, stays in the worker.
+  const peakOptions = main.peakOptions && typeof main.peakOptions.noiseSigmaAt === 'function' ? { ...main.peakOptions, noiseSigmaAt: undefined } : main.peakOptions;
   return {
-    noise: main.noise, peaks: main.peaks, peakOptions: main.peakOptions, peakProblem: main.peakProblem, diagnostics, loss,
+    noise: main.noise, peaks: main.peaks, peakOptions, peakProblem: main.peakProblem, noiseBumps, diagnostics, loss,
     sampleId: sample.id, processed: run.final, residual, residualNote: note, baseline: run.baseline,
     intermediate, runs, events: run.events, ms: Date.now() - t0,
   };

@@ -113,7 +113,7 @@ export function noiseQuietWindows(x: Float64Array, y: Float64Array, mask?: Uint8
   const sigma = median * factor;
   const lags = rho.length - 1;
   return {
-    ok: true, sigma, measure: 'sd', points: m * w, method: 'median-of-quiet-window-sd',
+    ok: true, sigma, measure: 'sd', points: m * w, method: 'median-of-quiet-window-sd', correlation: Array.from(rho),
     description: `Median, over ${m} peak-free windows of ${w} points (of ${count}), of the standard deviation about a straight line fitted in each window; peaks and spikes were located on the raw trace and left out.${lags > 0 ? ` The noise is correlated over ${lags} point(s) (as after smoothing), so the figure was scaled by ${factor.toFixed(3)} for what the line fit absorbs.` : ''} Valid after smoothing, unlike point-to-point differences.`,
   };
 }

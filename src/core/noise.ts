@@ -25,6 +25,8 @@ export interface NoiseEstimate {
   readonly to?: number;
   /** True when the requested window ran past an end of the trace and was cut. */
   readonly clipped?: boolean;
+  /** Autocorrelation of the noise at lags 0, 1, … (ρ₀ = 1), when the method measured it. */
+  readonly correlation?: readonly number[];
 }
 
 /** A noise request the user can fix (range too short, outside the data). */

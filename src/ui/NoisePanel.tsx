@@ -74,10 +74,17 @@ export function NoisePanel() {
             <NumberField label="Quantitation limit S/N" value={ps.quantitationLimit} min={1} max={1000} step={1} onChange={(v) => set({ quantitationLimit: v })} />
             <NumberField label="Smallest prominence" unit="× σ" value={ps.minProminenceSigma} min={0} max={1000} step={0.5} onChange={(v) => set({ minProminenceSigma: v })} />
             <NumberField label="Smallest S/N kept" value={ps.minSnr} min={0} max={1000} step={0.5} onChange={(v) => set({ minSnr: v })} />
-            <NumberField label="Smallest half-height width" unit={xu ? `${xu}, 0 = 3 points` : '0 = 3 points'} value={ps.minWidth} min={0} max={1e9} step={0.001} onChange={(v) => set({ minWidth: v })} />
+            <NumberField label="Smallest half-height width" unit={xu ? `${xu}, 0 = 2.5 points` : '0 = 2.5 points'} value={ps.minWidth} min={0} max={1e9} step={0.001} onChange={(v) => set({ minWidth: v })} />
             <NumberField label="Smallest separation" unit={xu ? `${xu}, 0 = off` : '0 = off'} value={ps.minSeparation} min={0} max={1e9} step={0.01} onChange={(v) => set({ minSeparation: v })} />
             <NumberField label="Pharmacopoeial window" unit="× half-height width" value={ps.pharmacopoeialMultiplier} min={1} max={100} step={1} onChange={(v) => set({ pharmacopoeialMultiplier: v })} />
           </div>
+          <label className="param" htmlFor="split-rule">
+            <span className="param-label">Peaks sharing a valley are split by</span>
+            <select id="split-rule" value={ps.split ?? 'perpendicular-drop'} onChange={(e) => set({ split: e.target.value as PeakSettings['split'] })}>
+              <option value="perpendicular-drop">perpendicular drop (one baseline under the group)</option>
+              <option value="valley-to-valley">valley to valley (each its own baseline)</option>
+            </select>
+          </label>
           <label className="param param-check">
             <input type="checkbox" checked={ps.negative} onChange={(e) => set({ negative: e.target.checked })} />
             <span className="param-label">Look for dips (troughs) instead of peaks</span>

@@ -118,6 +118,7 @@ function buildRequest(): AnalyseRequest | null {
     peaks: s.peakSettings,
     decisions: s.decisions,
     alternatives: s.alternatives,
+    ledgerNoiseLevel: s.ledgerNoiseLevel,
   };
 }
 
@@ -155,7 +156,7 @@ export function startController(): () => void {
       return;
     }
     if (s.recipe !== prev.recipe || s.sampleId !== prev.sampleId || s.roles !== prev.roles || s.showUid !== prev.showUid
-      || s.noiseSettings !== prev.noiseSettings || s.peakSettings !== prev.peakSettings || s.decisions !== prev.decisions || s.alternatives !== prev.alternatives) requestAnalysis();
+      || s.noiseSettings !== prev.noiseSettings || s.peakSettings !== prev.peakSettings || s.decisions !== prev.decisions || s.alternatives !== prev.alternatives || s.ledgerNoiseLevel !== prev.ledgerNoiseLevel) requestAnalysis();
   });
   return unsub;
 }
