@@ -479,10 +479,8 @@ export function analyse(
     ? expectedNoiseBumps(measured.y.length, meanStep(measured.x), main.peakOptions, main.noise?.sigma.correlation)
     : null;
   const loss = lossCheck(request, raw, sample, run, main, reference, noiseBumps, ctx, registry, cache);
-  // A function cannot cross to the page; the per-sample σ, when given as one, stays in the worker.
-  const peakOptions = main.peakOptions && typeof main.peakOptions.noiseSigmaAt === 'function' ? { ...main.peakOptions, noiseSigmaAt: undefined } : main.peakOptions;
   return {
-    noise: main.noise, peaks: main.peaks, peakOptions, peakProblem: main.peakProblem, noiseBumps, diagnostics, loss,
+    noise: main.noise, peaks: main.peaks, peakOptions: main.peakOptions, peakProblem: main.peakProblem, noiseBumps, diagnostics, loss,
     sampleId: sample.id, processed: run.final, residual, residualNote: note, baseline: run.baseline,
     intermediate, runs, events: run.events, ms: Date.now() - t0,
   };

@@ -7,6 +7,7 @@
  */
 import { indexRange, noiseRangeAround } from '../noise.ts';
 import { SIGMA_FLOOR_OF_SPAN, type PeakFlag, type PeakOptions, type PharmacopoeialNoise } from './peak-types.ts';
+import { sigmaAt as sigmaOfProfile } from './noise-profile.ts';
 
 /** The noise a peak's measures use, for one trace and one set of options. */
 export interface NoiseModel {
@@ -22,8 +23,8 @@ export interface NoiseModel {
 
 /**
  * The noise model of {@link PeakOptions} on the detection signal s.
- * σ at a sample: `noiseSigmaAt` where given and finite and ≥ 0, else
- * `noiseSigma`. Box factor: for autocorrelation ρ (lags 0..K, zero beyond;
+ * σ at a sample: the profile's there (`noiseProfile`) where given and
+ * positive, else `noiseSigma`. Box factor: for autocorrelation ρ (lags 0..K, zero beyond;
  * white when not given) the variance of an L-point mean is
  * (σ²/L²) Σ_{|k|<L} (L − |k|) ρ_k (standard result for stationary noise),
  * so the factor is √ of that over σ²; 1/√L for white noise.
@@ -33,13 +34,13 @@ export function noiseModel(s: Float64Array, o: PeakOptions): NoiseModel {
   for (let i = 0; i < s.length; i++) { const v = s[i]; if (v < lo) lo = v; if (v > hi) hi = v; }
   const span = hi - lo;
   const floor = span > 0 && Number.isFinite(span) ? SIGMA_FLOOR_OF_SPAN * span : Number.MIN_VALUE;
-  const at = o.noiseSigmaAt;
+  const profile = o.noiseProfile;
   const base = o.noiseSigma;
-  const sigmaAt = at === undefined
+  const sigmaAt = profile === undefined
     ? () => base
     : (i: number) => {
-      const v = typeof at === 'function' ? at(i) : at[i];
-      return v >= 0 && Number.isFinite(v) ? v : base;
+      const v = sigmaOfProfile(profile, i);
+      return v > 0 && Number.isFinite(v) ? v : base;
     };
   const rho = o.noiseCorrelation;
   const cache = new Map<number, number>();

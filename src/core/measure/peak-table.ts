@@ -40,8 +40,7 @@ function checkOptions(x: Float64Array, y: Float64Array, o: PeakOptions): void {
   if (!(o.noiseSigma >= 0) || !Number.isFinite(o.noiseSigma)) {
     throw new RangeError(`The noise σ must be a number of 0 or more; got ${o.noiseSigma}. Mark a quiet range or use the automatic estimate.`);
   }
-  const at = o.noiseSigmaAt;
-  if (at instanceof Float64Array && at.length !== x.length) throw new RangeError(`The noise σ per point has ${at.length} values but the trace has ${x.length}.`);
+  if (o.noiseProfile && o.noiseProfile.points !== x.length) throw new RangeError(`The noise σ profile belongs to a grid of ${o.noiseProfile.points} points but the trace has ${x.length}.`);
   if (!(o.pharmacopoeialMultiplier > 0)) throw new RangeError(`The noise window multiplier must be positive; got ${o.pharmacopoeialMultiplier}.`);
   if (!(o.limits.detection > 0 && o.limits.quantitation > o.limits.detection)) {
     throw new RangeError(`The detection limit must be positive and below the quantitation limit; got ${o.limits.detection} and ${o.limits.quantitation}.`);

@@ -4,6 +4,7 @@
  * integration (peak-bounds.ts), S/N (peak-snr.ts) and the table itself
  * (peak-table.ts).
  */
+import type { SigmaProfile } from './noise-profile.ts';
 
 /** How a peak's S/N is defined. */
 export type SnrDefinition = 'rms' | 'pharmacopoeial' | 'region';
@@ -63,13 +64,6 @@ export interface PharmacopoeialNoise {
   readonly clipped: boolean;
 }
 
-/**
- * σ of the noise at each sample, where it varies along the trace (the ends
- * of a smoothing window, resampling): a function of the sample index, or
- * one value per sample.
- */
-export type NoiseSigmaAt = ((index: number) => number) | Float64Array;
-
 /** Detection thresholds and S/N settings. Every number states its unit. */
 export interface PeakOptions {
   /** Smallest prominence kept, y-units. */
@@ -86,8 +80,8 @@ export interface PeakOptions {
    * that use σ take the floor {@link SIGMA_FLOOR_OF_SPAN} × the trace's span.
    */
   noiseSigma: number;
-  /** σ per sample where it varies (y-units); the σ used for a peak is the one at its apex sample. */
-  noiseSigmaAt?: NoiseSigmaAt;
+  /** σ along the trace where it varies (measure/noise-profile.ts); the σ used for a peak is the one at its apex sample. */
+  noiseProfile?: SigmaProfile;
   /**
    * Autocorrelation of the noise at lags 0, 1, … (ρ₀ = 1), when known; it
    * sets the spread of the box averages the bounds use. Omitted = white noise.
