@@ -540,8 +540,10 @@ export function areaAbove(x: Float64Array, s: Float64Array, line: Line, i0: numb
 
 /**
  * The lowest point, above the line `under`, between two apexes (exclusive):
- * of the box average with half-width r (half the smaller box of the two peaks); where that has no interior minimum
- * (one peak is a shoulder on the other), of the samples themselves.
+ * of the box average with half-width r (half the smaller box of the two
+ * peaks: enough against noise, and a box average of an asymmetric valley
+ * sits a little toward its shallow side); where that has no interior
+ * minimum (one peak is a shoulder on the other), the lowest sample.
  */
 function valleyBetween(c: MeasureContext, a: number, b: number, r: number, under: Line): number {
   const { x, s } = c;
@@ -549,6 +551,7 @@ function valleyBetween(c: MeasureContext, a: number, b: number, r: number, under
   let best = a + 1, v = Infinity;
   for (let j = a + 1; j < b; j++) { const g = boxMean(s, j, r) - lineAt(under, x[j]); if (g < v) { v = g; best = j; } }
   if ((best === a + 1 || best === b - 1) && r > 0) {
+    // No interior minimum of the average (a shoulder): the lowest sample.
     let w = Infinity;
     for (let j = a + 1; j < b; j++) { const g = s[j] - lineAt(under, x[j]); if (g < w) { w = g; best = j; } }
   }
