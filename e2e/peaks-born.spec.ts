@@ -3,6 +3,7 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { openWithDemo, plotted } from './helpers.ts';
+import { makeRng } from '../src/core/numeric/random.ts';
 
 const truth = JSON.parse(readFileSync('public/demo/demo-truth.json', 'utf8'));
 
@@ -32,27 +33,14 @@ test('after a 3-point average the demo spike appears only after processing: in t
 
 test('with 10⁶ noisy points the peak table shows the real peaks first, and says how many bumps pure noise would give', async ({ page }) => {
   test.setTimeout(240_000);
-  // Invented: four Gaussian peaks (S/N 20 to 200) on 10⁶ points of seeded white noise (the project's mulberry32 +
-  // Box–Muller), written to a temporary CSV.
+  // Invented: four Gaussian peaks (S/N 20 to 200) on 10⁶ points of seeded white noise (the project's generator),
+  // written to a temporary CSV.
   const n = 1_000_000;
-  let state = 20261202 >>> 0, spare: number | null = null;
-  const uniform = () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  const normal = () => {
-    if (spare !== null) { const s = spare; spare = null; return s; }
-    const r = Math.sqrt(-2 * Math.log(1 - uniform())), a = 2 * Math.PI * uniform();
-    spare = r * Math.sin(a);
-    return r * Math.cos(a);
-  };
+  const rng = makeRng(20261202);
   const peaks = [[150_000, 20, 12], [400_000, 50, 20], [650_000, 200, 8], [900_000, 35, 30]];
   const lines = ['time (s),signal (mV)'];
   for (let i = 0; i < n; i++) {
-    let v = normal();
+    let v = rng.normal();
     for (const [c, h, s] of peaks) { const d = (i - c) / s; if (d * d < 100) v += h * Math.exp(-0.5 * d * d); }
     lines.push(`${(i * 0.001).toFixed(3)},${v.toFixed(3)}`);
   }

@@ -470,7 +470,9 @@ export function analyse(
   const ps = request.peaks ?? DEFAULT_PEAK_SETTINGS;
   const measured = ps.measureOn === 'raw' ? raw : run.final;
   const main = measurePeaks(measured, raw, request.noise ?? DEFAULT_NOISE_SETTINGS, ps, ctx, request.decisions);
-  const reference = rawReference(request, raw, ctx);
+  // The raw trace's own table: for the marks below and the loss check, which run only when something processed it
+  // or alternatives are asked for.
+  const reference = processedSomething || (request.alternatives?.length ?? 0) > 0 ? rawReference(request, raw, ctx) : main;
   if (measured !== raw && processedSomething) {
     // What the raw trace does not have, and tops flat at the raw trace's largest value (smoothing rounds them).
     main.peaks = markSaturatedOnRaw(markAppearsOnlyAfterProcessing(main.peaks, reference.peaks, meanStep(raw.x)), raw.x, raw.y, ps.negative);
