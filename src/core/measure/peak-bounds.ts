@@ -88,6 +88,11 @@ export interface Line {
 }
 
 /** Line through two points; a horizontal line at their mean when the x coincide. */
+/** Set a line in place to the one through two points (see {@link lineThrough}). */
+function setLine(l: { x0: number; y0: number; slope: number }, xa: number, ya: number, xb: number, yb: number): void {
+  if (xb === xa) { l.x0 = xa; l.y0 = (ya + yb) / 2; l.slope = 0; } else { l.x0 = xa; l.y0 = ya; l.slope = (yb - ya) / (xb - xa); }
+}
+
 export function lineThrough(xa: number, ya: number, xb: number, yb: number): Line {
   if (xb === xa) return { x0: xa, y0: (ya + yb) / 2, slope: 0 };
   return { x0: xa, y0: ya, slope: (yb - ya) / (xb - xa) };
@@ -343,9 +348,10 @@ export function firstFeet(c: MeasureContext, i: number, widthLimit: number, cap:
   return { r: bR, f0: bF0, l0: bL0, f1: bF1, l1: bL1 };
 }
 
-/** Reused buffers of {@link hullUnder} (measuring is synchronous, so one set serves every call). */
+/** Reused buffers and result of {@link hullUnder} (measuring is synchronous, so one set serves every call). */
 let hullG = new Float64Array(256);
 let hullStack = new Int32Array(256);
+const hullLine: { x0: number; y0: number; slope: number } = { x0: 0, y0: 0, slope: 0 };
 
 /**
  * The lower convex hull of the box averages (half-width r) of samples
@@ -354,6 +360,7 @@ let hullStack = new Int32Array(256);
  * below the baseline; on a noiseless straight baseline it is the baseline.
  */
 function hullUnder(c: MeasureContext, i: number, lo: number, hi: number, r: number): Line {
+  const out = hullLine;
   const { x, s } = c;
   const n = s.length;
   const len = hi - lo + 1;
@@ -378,11 +385,12 @@ function hullUnder(c: MeasureContext, i: number, lo: number, hi: number, r: numb
     }
     st[top++] = j;
   }
-  if (top === 1) return { x0: x[st[0]], y0: g[st[0] - lo], slope: 0 };
+  if (top === 1) { out.x0 = x[st[0]]; out.y0 = g[st[0] - lo]; out.slope = 0; return out; }
   let k = 0;
   while (k < top - 2 && x[st[k + 1]] < x[i]) k++;
   const a = st[k], b = st[k + 1];
-  return lineThrough(x[a], g[a - lo], x[b], g[b - lo]);
+  setLine(out, x[a], g[a - lo], x[b], g[b - lo]);
+  return out;
 }
 
 /**
@@ -488,7 +496,8 @@ export function measureLocal(c: MeasureContext, i: number, firstWidth: number): 
     level(c, m.start, -1, m.startKind, m.box, sigma);
     const xa = outA, ya = outB;
     level(c, m.end, 1, m.endKind, m.box, sigma);
-    m.line = lineThrough(xa, ya, outA, outB);
+    // The measure owns its line (made in this function), so it is set in place.
+    setLine(m.line as { x0: number; y0: number; slope: number }, xa, ya, outA, outB);
     fw = shape(c, m, fw);
     if (!moved) break;
   }
