@@ -33,7 +33,7 @@ import Papa from 'papaparse';
 import { createTrace, MIN_POINTS } from '../trace.ts';
 import type { Trace } from '../trace.ts';
 import { MAX_FILE_BYTES } from './types.ts';
-import type { LoadOptions, LoadProblem, LoadReport, LoadResult, SkippedRow } from './types.ts';
+import type { LoadOptions, LoadProblem, LoadQuestion, LoadReport, LoadResult, SkippedRow } from './types.ts';
 import { parseNumber } from './numbers.ts';
 import type { DecimalSign } from './numbers.ts';
 import { decodeText } from './sniff.ts';
@@ -319,9 +319,24 @@ export function decideDialect(lines: readonly string[]): Dialect | null {
   return best ? best.dialect : null;
 }
 
-function bestDialect(sample: readonly SampleLine[]): DialectScore | null {
+/**
+ * The candidates left when the user fixed the delimiter and/or the decimal
+ * sign. With only a decimal comma fixed, a comma separates fields only when
+ * the file quotes its numbers (RFC 4180), since an unquoted comma would then
+ * be both.
+ */
+function allowedDialects(fixed: LoadOptions['dialect'] | undefined, quoted: boolean): readonly Dialect[] {
+  if (!fixed || (fixed.delimiter === undefined && fixed.decimal === undefined)) return CANDIDATES;
+  const commaFieldsNeedQuotes = fixed.delimiter === undefined && fixed.decimal === ',' && !quoted;
+  const out = CANDIDATES.filter((d) => (fixed.delimiter === undefined || d.delimiter === fixed.delimiter) && (fixed.decimal === undefined || d.decimal === fixed.decimal)
+    && !(commaFieldsNeedQuotes && d.delimiter === ','));
+  // Every delimiter and decimal sign pair is a candidate; a pair outside the list cannot occur, but stay safe.
+  return out.length ? out : [{ delimiter: fixed.delimiter ?? ',', decimal: fixed.decimal ?? '.' }];
+}
+
+function bestDialect(sample: readonly SampleLine[], candidates: readonly Dialect[] = CANDIDATES): DialectScore | null {
   let best: DialectScore | null = null;
-  for (const d of CANDIDATES) {
+  for (const d of candidates) {
     const s = scoreDialect(sample, d);
     if (s.numericFields === 0) continue;
     if (
@@ -332,6 +347,55 @@ function bestDialect(sample: readonly SampleLine[]): DialectScore | null {
     ) best = s;
   }
   return best;
+}
+
+/** The full numeric rows of a sample under one dialect: line number and values. */
+function fullRowValues(sample: readonly SampleLine[], d: Dialect, k: number): { line: number; values: number[] }[] {
+  const out: { line: number; values: number[] }[] = [];
+  splitSample(sample, d).forEach((r, i) => {
+    if (r.fields.length === k && r.numericCount === k) out.push({ line: sample[i].line, values: r.fields.map((f) => parseNumber(f, d.decimal)) });
+  });
+  return out;
+}
+
+/** True when the text line just above the first full row names k ≥ 2 columns under this dialect. */
+function headerSupports(sample: readonly SampleLine[], s: DialectScore): boolean {
+  if (s.columns < 2) return false;
+  const rows = splitSample(sample, s.dialect);
+  const first = rows.findIndex((r) => r.fields.length === s.columns && r.numericCount === s.columns);
+  if (first < 1) return false;
+  const above = rows[first - 1];
+  return above.fields.length === s.columns && above.numericCount === 0 && above.fields.every((f) => stripQuotes(f) !== '');
+}
+
+/**
+ * Whether the numbers could as well be read another way: another allowed
+ * delimiter and decimal sign reads every line the chosen one reads as a full
+ * row of numbers, but into other numbers (e.g. "0,5" on every line: two
+ * whole-number columns with a comma between, or one column with a decimal
+ * comma). A header line that names the columns under only one of the
+ * readings settles it. Returns the question for the load report, or null.
+ */
+function dialectQuestion(sample: readonly SampleLine[], best: DialectScore, candidates: readonly Dialect[]): LoadQuestion | null {
+  if (best.fullRows === 0) return null;
+  const mine = fullRowValues(sample, best.dialect, best.columns);
+  const supported = headerSupports(sample, best);
+  for (const d of candidates) {
+    if (d.delimiter === best.dialect.delimiter && d.decimal === best.dialect.decimal) continue;
+    const other = scoreDialect(sample, d);
+    if (other.fullRows !== best.fullRows) continue;
+    const theirs = fullRowValues(sample, d, other.columns);
+    const same = theirs.length === mine.length && theirs.every((r, i) => r.line === mine[i].line && r.values.length === mine[i].values.length && r.values.every((v, j) => Object.is(v, mine[i].values[j])));
+    if (same) continue;
+    if (supported && !headerSupports(sample, other)) continue;
+    const show = (rows: typeof mine) => rows[0].values.join(' | ');
+    return {
+      kind: 'number-format', line: mine[0].line,
+      message: `Line ${mine[0].line} reads as ${dialectLabel(best.dialect)} (${best.columns} column${best.columns === 1 ? '' : 's'}: ${show(mine)}) ` +
+        `or as ${dialectLabel(d)} (${other.columns} column${other.columns === 1 ? '' : 's'}: ${show(theirs)}), and nothing in the file tells which.`,
+    };
+  }
+  return null;
 }
 
 /** Growable Float64Array. */
@@ -385,12 +449,25 @@ interface Layout {
   /** Index into the sample of the header line (names), or -1. */
   headerIndex: number;
   notices: string[];
+  /** Another reading of the numbers that the file does not rule out (see dialectQuestion). */
+  question: LoadQuestion | null;
 }
 
 type LayoutResult = { ok: true; layout: Layout } | { ok: false; result: LoadResult };
 
-function findLayout(sample: readonly SampleLine[], fileName: string): LayoutResult {
-  const best = bestDialect(sample);
+function findLayout(sample: readonly SampleLine[], fileName: string, fixed?: LoadOptions['dialect']): LayoutResult {
+  const candidates = allowedDialects(fixed, sample.some((l) => l.text.includes('"')));
+  const best = bestDialect(sample, candidates);
+  if (!best && candidates !== CANDIDATES) {
+    return {
+      ok: false,
+      result: problem(
+        fileName,
+        `No line holds a number when the file is read as ${candidates.map(dialectLabel).join(' or ')}, as chosen.`,
+        'Choose another delimiter or decimal sign, or leave the choice to the loader.',
+      ),
+    };
+  }
   if (!best) {
     return {
       ok: false,
@@ -485,7 +562,8 @@ function findLayout(sample: readonly SampleLine[], fileName: string): LayoutResu
     else if (headers[c].name === '') headers[c] = { name: `Column ${c + 1}`, unit: headers[c].unit };
   }
   if (headerIndex < 0 && notices.length === 0) notices.push(`No header row: columns are named Column 1 to Column ${K}.`);
-  return { ok: true, layout: { dialect, columns: K, numericColumns, tableIndex, headers, headerIndex, notices } };
+  const question = dialectQuestion(sample, best, candidates);
+  return { ok: true, layout: { dialect, columns: K, numericColumns, tableIndex, headers, headerIndex, notices, question } };
 }
 
 interface RowSink {
@@ -626,7 +704,7 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
     return problem(fileName, 'The file holds only blank lines and spaces.', 'Choose the file again; if it was exported from an instrument, check that the export finished.');
   }
 
-  const found = findLayout(sample, fileName);
+  const found = findLayout(sample, fileName, options.dialect);
   if (!found.ok) return found.result;
   const layout = found.layout;
   const { dialect, columns: K, headers, numericColumns } = layout;
@@ -814,10 +892,12 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
       metadata,
     }),
   );
+  const chosen = options.dialect && (options.dialect.delimiter !== undefined || options.dialect.decimal !== undefined);
   notices.unshift(
-    `Read as ${dialectLabel(dialect)} (${decoded.encoding}), decided from ${sample.length} line${sample.length === 1 ? '' : 's'}; ` +
+    `Read as ${dialectLabel(dialect)} (${decoded.encoding}), decided from ${sample.length} line${sample.length === 1 ? '' : 's'}${chosen ? ' among the readings allowed by the choice given' : ''}; ` +
       `the table starts at line ${first.line}.`,
   );
+  if (layout.question) notices.push(`${layout.question.message} It was read the first way; check the plot.`);
   notices.push(...layout.notices);
   const loadReport: LoadReport = {
     fileName,
@@ -829,6 +909,7 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
     metadata: { ...metadata },
     columns: headers.map((h) => ({ ...h })),
   };
+  if (layout.question) loadReport.questions = [layout.question];
   report(1);
   return { ok: true, traces, report: loadReport };
 }

@@ -25,6 +25,21 @@ export interface LoadReport {
   metadata: Record<string, string>;
   /** Column headers as read (for choosing x and y), with units parsed out. */
   columns?: { name: string; unit: string }[];
+  /**
+   * Choices the loader made that the file itself does not settle. The page
+   * states them as notices too; the command line refuses the file and names
+   * the option that settles it.
+   */
+  questions?: LoadQuestion[];
+}
+
+/** A choice the file does not settle: 'number-format' (delimiter and decimal sign) or 'columns' (which columns are traces). */
+export interface LoadQuestion {
+  kind: 'number-format' | 'columns';
+  /** 1-based line the question is about, when there is one. */
+  line?: number;
+  /** The reading used and the other one, in words. */
+  message: string;
 }
 
 export interface LoadProblem {
@@ -47,6 +62,11 @@ export interface LoadOptions {
   xColumn?: number;
   /** 0-based column indices loaded as y traces. Default: every numeric column but x. */
   yColumns?: number[];
+  /**
+   * Read delimited text only with this delimiter and/or decimal sign
+   * (the command line's --delimiter and --decimal); default: decided from the file.
+   */
+  dialect?: { delimiter?: ',' | ';' | '\t' | 'whitespace'; decimal?: '.' | ',' };
   /** Called with a fraction 0..1 while parsing large files. */
   onProgress?: (fraction: number) => void;
 }
