@@ -1,13 +1,14 @@
 import { useRef, useState } from 'react';
 import Plotly from 'plotly.js-strict-dist-min';
-import { runBatch, zipBaseName, type BatchError, type BatchProgress } from '../../core/export/batch.ts';
+import { runBatch, type BatchError, type BatchProgress } from '../../core/export/batch.ts';
+import { zipBaseName } from '../../core/export/names.ts';
 import { cleanedTraceCsv, recipeOneLine } from '../../core/export/cleaned-csv.ts';
 import { peakTableCsv, peakTableTsv } from '../../core/export/peak-csv.ts';
 import { reportHtml, type ExportConfirmation, type LossLedgerLike } from '../../core/export/report-html.ts';
 import { CAUTION, TOOL_LABEL } from '../../core/export/version.ts';
 import type { CsvDecimal, CsvDelimiter } from '../../core/io/csv-write.ts';
 import { jcampFromTrace } from '../../core/io/jcamp-write.ts';
-import { parseRecipeText, recipeToJson } from '../../core/recipe.ts';
+import { analysisOf, parseRecipeText, recipeStepsOnly, recipeToJson, recipeWithAnalysis } from '../../core/recipe.ts';
 import { STEP_REGISTRY } from '../../core/steps/registry.ts';
 import { useApp } from '../../state/store.ts';
 import { downloadBlob, downloadCsv, downloadText } from './download.ts';
@@ -39,7 +40,11 @@ function stamp(d: Date): string {
 export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props) {
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
-  const recipe = useApp((s) => s.recipe);
+  const stack = useApp((s) => s.recipe);
+  const noiseSettings = useApp((s) => s.noiseSettings);
+  const peakSettings = useApp((s) => s.peakSettings);
+  // The method as saved and written into every export: the steps and the analysis settings.
+  const recipe = recipeWithAnalysis(stack, noiseSettings, peakSettings);
   const [delimiter, setDelimiter] = useState<CsvDelimiter>(',');
   const [decimal, setDecimal] = useState<CsvDecimal>('.');
   const [pending, setPending] = useState<Guarded | null>(null);
@@ -59,7 +64,7 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
   const fail = (what: string, e: unknown) => notify('error', `${what} could not be made`, [e instanceof Error ? e.message : String(e)]);
   const figureElement = (): HTMLElement | null => getFigure?.() ?? figure ?? document.querySelector<HTMLElement>('[data-testid="figure"]');
 
-  const exportNow = async (kind: Guarded, confirmed: ExportConfirmation | null) => {
+  const exportNow = (kind: Guarded, confirmed: ExportConfirmation | null) => {
     if (!sample || !result) return;
     const now = new Date();
     try {
@@ -68,12 +73,8 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
       } else if (kind === 'peaks') {
         downloadCsv(peakTableCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: { delimiter, decimal }, now }), `${stem}-peaks.csv`);
       } else {
-        let main: string | undefined;
-        const el = figureElement();
-        if (el) {
-          try { main = await Plotly.toImage(el, { format: 'svg', width: 1100, height: 560 }); } catch { main = undefined; }
-        }
-        const html = reportHtml({ trace: sample, result, recipe, registry: STEP_REGISTRY, ledger: ledgerOut, confirmation: confirmed, plotImages: { main }, now });
+        // The plots are drawn by the core, as in the command line's report.
+        const html = reportHtml({ trace: sample, result, recipe, registry: STEP_REGISTRY, ledger: ledgerOut, confirmation: confirmed, now });
         downloadText(html, `${stem}-report.html`, 'text/html;charset=utf-8');
       }
     } catch (e) {
@@ -83,7 +84,7 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
 
   const request = (kind: Guarded) => {
     if (losses.length > 0) { setPending(kind); return; }
-    void exportNow(kind, null);
+    exportNow(kind, null);
   };
 
   const confirmPending = () => {
@@ -92,7 +93,7 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
     setConfirmation(c);
     const kind = pending;
     setPending(null);
-    void exportNow(kind, c);
+    exportNow(kind, c);
   };
 
   const exportJcamp = () => {
@@ -132,8 +133,17 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
       notify('error', `${file.name}: the recipe was not loaded`, [...check.problems, 'The current step stack is unchanged.']);
       return;
     }
-    useApp.getState().replaceRecipe(check.recipe);
-    notify('info', `Recipe loaded from ${file.name}`, [`${check.recipe.steps.length} step(s). Undo (Ctrl+Z) brings back the previous stack.`]);
+    const st = useApp.getState();
+    const analysis = analysisOf(check.recipe);
+    st.replaceRecipe(recipeStepsOnly(check.recipe));
+    st.setNoiseSettings(analysis.noise);
+    st.setPeakSettings(analysis.peaks);
+    notify('info', `Recipe loaded from ${file.name}`, [
+      `${check.recipe.steps.length} step(s). Undo (Ctrl+Z) brings back the previous stack.`,
+      check.recipe.analysis
+        ? 'The noise and peak settings saved with it are in use.'
+        : 'The file holds no noise and peak settings (saved before they were kept), so the defaults are in use.',
+    ]);
   };
 
   const startBatch = async (list: File[]) => {
