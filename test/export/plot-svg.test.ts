@@ -72,6 +72,17 @@ describe('svgLinePlot', () => {
     expect(svg).toContain('number = row of the peak table');
   });
 
+  test('numbers that would overlap: the heavier peak keeps its number, the key says some were left out', () => {
+    const svg = svgLinePlot([{ x, y, colour: '#123456', label: 'processed' }], 'x', 'y', 't', [
+      { x: 5, y: 0.5, label: '1', weight: 2 }, { x: 5.02, y: 0.5, label: '2', weight: 30 }, { x: 8, y: 0.5, label: '3', weight: 1 },
+    ]);
+    expect((svg.match(/<path /g) ?? []).length).toBe(3);
+    expect(svg).toContain('>2</text>');
+    expect(svg).toContain('>3</text>');
+    expect(svg).not.toContain('>1</text>');
+    expect(svg).toContain('crowded numbers left out');
+  });
+
   test('many peaks: marked without numbers; text from files is escaped', () => {
     const many = Array.from({ length: PLOT_MAX_MARKER_LABELS + 1 }, (_, i) => ({ x: i * 0.2, y: 0.5, label: String(i + 1) }));
     const svg = svgLinePlot([{ x, y, colour: '#123456', label: '<b>raw</b>' }], '<x>', 'y & z', 't"t', many);

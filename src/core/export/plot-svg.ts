@@ -24,6 +24,8 @@ export interface PlotMarker {
   label?: string;
   /** Draw the mark below the point (a dip) instead of above it. */
   below?: boolean;
+  /** Which labels win where two would overlap: the higher weight (e.g. S/N) keeps its label. */
+  weight?: number;
 }
 
 /** Most markers drawn; the rest are left out and the caption says so. */
@@ -38,7 +40,8 @@ export const PLOT_MAX_MARKER_LABELS = 30;
  * choice replaced by ticks strictly inside the range).
  *
  * @returns the step and the ticks inside [lo, hi] in ascending order; no
- *   ticks when the range is empty or not finite.
+ *   ticks when the range is empty, not finite, or too narrow for its
+ *   magnitude to be labelled in double precision.
  */
 export function niceTicks(lo: number, hi: number, target = 5): { step: number; ticks: number[] } {
   if (!Number.isFinite(lo) || !Number.isFinite(hi) || !(hi > lo) || !(target >= 1)) return { step: 0, ticks: [] };
@@ -49,6 +52,9 @@ export function niceTicks(lo: number, hi: number, target = 5): { step: number; t
   const ticks: number[] = [];
   const first = Math.ceil(lo / step - 1e-9);
   const last = Math.floor(hi / step + 1e-9);
+  // A span too small for its magnitude (e.g. 1e9 to 1e9 + 1e-7): multiples of the step are no longer
+  // whole numbers apart in double precision, and their labels would all read the same; no ticks then.
+  if (!(Math.abs(first) < 2 ** 52 && Math.abs(last) < 2 ** 52 && last - first <= 1000)) return { step, ticks: [] };
   for (let k = first; k <= last; k++) {
     // k·step, not a running sum: no drift, and 0 comes out as exactly 0.
     const v = k * step;
@@ -59,25 +65,27 @@ export function niceTicks(lo: number, hi: number, target = 5): { step: number; t
 
 /**
  * A tick value as text with the decimals its step needs (step 0.05 gives
- * two); exponent form for very large or very small steps.
+ * two, so 1 reads "1.00"); exponent form for very large or very small steps.
  */
 export function tickText(value: number, step: number): string {
-  if (value === 0) return '0';
   if (!(step > 0)) return String(value);
   const exp = Math.floor(Math.log10(step) + 1e-9);
   if (exp >= 6 || exp <= -6) {
+    if (value === 0) return '0';
     const digits = Math.max(0, Math.floor(Math.log10(Math.abs(value)) + 1e-9) - exp);
     return value.toExponential(Math.min(20, digits));
   }
-  return value.toFixed(Math.max(0, -exp));
+  // Every label of an axis with the same decimals (0.0, 0.2, … 1.0); 0 never as "-0".
+  return (value === 0 ? 0 : value).toFixed(Math.max(0, -exp));
 }
 
 /**
  * A line plot as inline SVG text (760 × 260 user units, scaled by the
  * report's CSS). Axis ranges: x over the data, y over the data with 5 %
  * padding; ticks from {@link niceTicks}. Non-finite points are skipped.
- * Markers (at most {@link PLOT_MAX_MARKERS}, numbered up to
- * {@link PLOT_MAX_MARKER_LABELS}) are drawn as small triangles.
+ * Markers (at most {@link PLOT_MAX_MARKERS}) are drawn as small triangles,
+ * numbered when there are at most {@link PLOT_MAX_MARKER_LABELS}; where two
+ * numbers would overlap, the one with the lower weight is left out.
  *
  * @returns the SVG element, or a short paragraph when nothing finite can be drawn.
  */
@@ -129,15 +137,29 @@ export function svgLinePlot(series: readonly PlotSeries[], xLabel: string, yLabe
   const shown = markers.filter((m) => Number.isFinite(m.x) && Number.isFinite(m.y) && m.x >= x0 && m.x <= x1).slice(0, PLOT_MAX_MARKERS);
   if (shown.length) {
     const numbered = shown.length <= PLOT_MAX_MARKER_LABELS;
-    for (const m of shown) {
+    const placed = shown.map((m) => {
       const cx = px(m.x), cy = py(Math.min(Math.max(m.y, y0), y1));
       // A small triangle pointing at the apex from above (from below for a dip).
       const tip = m.below ? cy + 3 : cy - 3, back = m.below ? tip + 7 : tip - 7;
       parts.push(`<path d="M${cx.toFixed(1)} ${tip.toFixed(1)}L${(cx - 4).toFixed(1)} ${back.toFixed(1)}L${(cx + 4).toFixed(1)} ${back.toFixed(1)}Z" fill="#222"/>`);
-      if (numbered && m.label) parts.push(`<text x="${cx.toFixed(1)}" y="${(m.below ? back + 10 : back - 2).toFixed(1)}" font-size="10" text-anchor="middle">${escapeText(m.label)}</text>`);
+      return { m, cx, ty: m.below ? back + 10 : back - 2 };
+    });
+    let dropped = 0;
+    if (numbered) {
+      // Labels in order of weight; one that would overlap a label already placed is left out.
+      const boxes: { x0: number; x1: number; y: number }[] = [];
+      const order = placed.filter((p) => p.m.label).sort((a, b) => (b.m.weight ?? 0) - (a.m.weight ?? 0));
+      for (const p of order) {
+        const w = 6 * p.m.label!.length + 2;
+        const box = { x0: p.cx - w / 2, x1: p.cx + w / 2, y: p.ty };
+        if (boxes.some((b) => box.x0 < b.x1 && b.x0 < box.x1 && Math.abs(b.y - box.y) < 11)) { dropped += 1; continue; }
+        boxes.push(box);
+        parts.push(`<text x="${p.cx.toFixed(1)}" y="${p.ty.toFixed(1)}" font-size="10" text-anchor="middle">${escapeText(p.m.label!)}</text>`);
+      }
     }
     const legendX = L + 8 + thinned.length * 150;
-    parts.push(`<text x="${legendX}" y="${T - 8}" font-size="11" fill="#222">▼ peak${numbered ? ' (number = row of the peak table)' : ''}</text>`);
+    const key = numbered ? ` (number = row of the peak table${dropped ? '; crowded numbers left out' : ''})` : '';
+    parts.push(`<text x="${legendX}" y="${T - 8}" font-size="11" fill="#222">▼ peak${escapeText(key)}</text>`);
   }
   parts.push('</svg>');
   return parts.join('');

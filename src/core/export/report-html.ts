@@ -143,7 +143,7 @@ export function reportHtml(input: ReportInput): string {
   }
   // Peaks removed by hand are not marked; numbers are the rows of the peak table.
   const markers: PlotMarker[] = [];
-  result.peaks.forEach((p, i) => { if (!p.removedByUser) markers.push({ x: p.x, y: p.y, label: String(i + 1), below: p.height < 0 }); });
+  result.peaks.forEach((p, i) => { if (!p.removedByUser) markers.push({ x: p.x, y: p.y, label: String(i + 1), below: p.height < 0, weight: Math.abs(p.snr ?? 0) }); });
   const cut = markers.length > PLOT_MAX_MARKERS ? ` Only the first ${PLOT_MAX_MARKERS} of ${markers.length} peaks are marked.` : '';
   s.push(`<figure>${svgLinePlot(series, xLabel, yLabel, 'Raw and processed trace', markers)}<figcaption>Raw and processed trace with the peaks of the table (lines thinned to the minimum and maximum per column for drawing).${cut}</figcaption></figure>`);
   if (result.residual.y.length) {
