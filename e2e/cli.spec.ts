@@ -110,7 +110,7 @@ test('a method file loads its analysis settings into the page; a file without th
   await expect(page.locator('#noise-method')).toHaveValue('robust');
   await expect(page.locator('#nf-Detection-limit-S-N')).toHaveValue('2');
   await expect(page.getByTestId('step-moving-average')).toBeVisible();
-  await expect(page.getByText('The noise and peak settings saved with it are in use.')).toBeVisible();
+  await expect(page.getByText(/^The noise and peak settings saved with it are in use/)).toBeVisible();
 
   await page.getByTestId('recipe-input').setInputFiles({ name: 'old.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify({ format: 'tracewright-recipe', version: 1, steps: [] })) });
   await expect(page.locator('#snr-def')).toHaveValue('rms');

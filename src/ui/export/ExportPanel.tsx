@@ -141,8 +141,8 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
     notify('info', `Recipe loaded from ${file.name}`, [
       `${check.recipe.steps.length} step(s). Undo (Ctrl+Z) brings back the previous stack.`,
       check.recipe.analysis
-        ? 'The noise and peak settings saved with it are in use.'
-        : 'The file holds no noise and peak settings (saved before they were kept), so the defaults are in use.',
+        ? 'The noise and peak settings saved with it are in use (undo does not bring back the earlier ones).'
+        : 'The file holds no noise and peak settings (saved before they were kept), so the defaults are in use (undo does not bring back the earlier ones).',
     ]);
   };
 
