@@ -22,8 +22,11 @@
  * are the roots of a polynomial of degree ≤ 4 in x. When the slope is too
  * uncertain (for the line: g ≥ 1) the set is unbounded or splits into
  * pieces; the result then says so and gives the hull of the set, which
- * covers at least as often as the exact set. With 1/x or 1/x² weights only
- * amounts ≥ 0 are considered (the weights give no scatter below zero).
+ * covers at least as often as the exact set. Only amounts on the branch of
+ * the curve that holds the standards are considered (a quadratic turns back
+ * beyond its turning point and would meet the response again there), and
+ * with 1/x or 1/x² weights only amounts ≥ 0 (the weights give no scatter
+ * below zero).
  *
  * Alongside, "standardError" is the usual first-order (delta-method)
  * standard deviation of the estimated amount,
@@ -114,11 +117,19 @@ export function predictAmount(fit: CurveFit, response: number, options: { replic
   const uLow = (fit.range.low - centre) / scale, uHigh = (fit.range.high - centre) / scale;
   const uMid = 0.5 * (uLow + uHigh);
   let uHat: number | null;
+  // The monotone branch of the curve that holds the standards: the whole line for a straight
+  // line, one side of the turning point for a quadratic that turns outside the calibrated range.
+  let branchLow = -Infinity, branchHigh = Infinity;
+  let vertexU: number | null = null;
   if (shifted[2] === 0) {
     uHat = shifted[1] !== 0 ? -shifted[0] / shifted[1] : null;
   } else {
     const roots = polynomialSignChangeRoots(shifted);
     const vertex = -curve[1] / (2 * curve[2]);
+    if (!(vertex > uLow && vertex < uHigh)) {
+      vertexU = vertex;
+      if (uMid > vertex) branchLow = vertex; else branchHigh = vertex;
+    }
     if (roots.length === 0) {
       uHat = null;
     } else if (vertex > uLow && vertex < uHigh) {
@@ -173,7 +184,8 @@ export function predictAmount(fit: CurveFit, response: number, options: { replic
 
   // h(u) = (ȳ₀ − f̂(u))² − t²s²·variance(u) ≤ 0 on the confidence set.
   const h = polynomialAdd(polynomialMultiply(shifted, shifted), polynomialScale(variance, -t * t * s2));
-  const set = negativeSet(h, k > 0 ? -centre / scale : -Infinity);
+  const domainLow = k > 0 ? Math.max(branchLow, -centre / scale) : branchLow;
+  const set = negativeSet(h, domainLow, branchHigh);
   if (set.pieces === 0) {
     // h(û) = −t²s²·variance(û) < 0 in exact arithmetic; only a degenerate fit gets here.
     return { ...base, amount, interval: null, standardError, symmetricInterval, notes: [...notes, 'The interval could not be computed for this fit (its variance vanishes at the estimate).'] };
@@ -182,9 +194,12 @@ export function predictAmount(fit: CurveFit, response: number, options: { replic
   const far = (u: number) => u < uLow - FAR_RANGES * width || u > uHigh + FAR_RANGES * width;
   let low = set.low === null || far(set.low) ? null : toX(set.low);
   const high = set.high === null || far(set.high) ? null : toX(set.high);
-  if (k > 0 && set.low !== null && set.lowAtDomainEdge) {
+  if (set.lowAtEdge && k > 0 && domainLow === -centre / scale) {
     low = 0;
     notes.push('The lower end is held at zero: the weighting gives no response scatter at amounts below zero.');
+  }
+  if (vertexU !== null && ((set.lowAtEdge && domainLow === vertexU) || (set.highAtEdge && branchHigh === vertexU))) {
+    notes.push(`The interval reaches the curve's turning point (amount ${toX(vertexU).toPrecision(4)}) and is cut there: beyond it the quadratic turns back.`);
   }
   if (set.pieces > 1) {
     notes.push(`At ${level * 100} % confidence the amounts consistent with this response do not form one interval; the interval shown spans all of them.`);
@@ -196,14 +211,14 @@ export function predictAmount(fit: CurveFit, response: number, options: { replic
 }
 
 /**
- * Where a polynomial is ≤ 0 on [domainLow, ∞): the ends of the hull of that set
- * (null for an end at infinity), how many separate pieces it has, and whether
- * it reaches the domain's lower edge.
+ * Where a polynomial is ≤ 0 on the domain [edgeLow, edgeHigh] (either may be
+ * infinite): the ends of the hull of that set (null for an end at infinity),
+ * how many separate pieces it has, and whether it reaches each finite edge.
  */
-function negativeSet(h: readonly number[], domainLow: number): { low: number | null; high: number | null; pieces: number; lowAtDomainEdge: boolean } {
-  const roots = polynomialSignChangeRoots(h).filter((r) => r > domainLow);
-  const edges = [domainLow, ...roots, Infinity];
-  let low: number | null = null, high: number | null = null, pieces = 0, lowAtDomainEdge = false;
+function negativeSet(h: readonly number[], edgeLow: number, edgeHigh: number): { low: number | null; high: number | null; pieces: number; lowAtEdge: boolean; highAtEdge: boolean } {
+  const roots = polynomialSignChangeRoots(h).filter((r) => r > edgeLow && r < edgeHigh);
+  const edges = [edgeLow, ...roots, edgeHigh];
+  let low: number | null = null, high: number | null = null, pieces = 0, lowAtEdge = false, highAtEdge = false;
   for (let i = 0; i + 1 < edges.length; i++) {
     const a = edges[i], b = edges[i + 1];
     const probe = Number.isFinite(a) && Number.isFinite(b) ? 0.5 * (a + b)
@@ -211,11 +226,12 @@ function negativeSet(h: readonly number[], domainLow: number): { low: number | n
         : Number.isFinite(b) ? b - Math.max(1, Math.abs(b)) : 0;
     if (polynomialValue(h, probe) > 0) continue;
     pieces++;
-    if (low === null && pieces === 1) {
+    if (pieces === 1) {
       low = Number.isFinite(a) ? a : null;
-      lowAtDomainEdge = i === 0 && Number.isFinite(domainLow);
+      lowAtEdge = i === 0 && Number.isFinite(edgeLow);
     }
     high = Number.isFinite(b) ? b : null;
+    highAtEdge = i + 2 === edges.length && Number.isFinite(edgeHigh);
   }
-  return { low, high, pieces, lowAtDomainEdge };
+  return { low, high, pieces, lowAtEdge, highAtEdge };
 }
