@@ -23,6 +23,7 @@
 import { readTextTable, tableNumber } from './table-text.ts';
 import type { TableProblem } from './table-text.ts';
 import { parseColumnHeader } from '../io/delimited.ts';
+import { checkFormatAndVersion, isPlainObject } from './json-form.ts';
 
 export const NAMED_PEAKS_FORMAT = 'tracewright-named-peaks';
 export const NAMED_PEAKS_VERSION = 1;
@@ -128,10 +129,6 @@ function fmtX(v: number): string {
   return Number(v.toPrecision(6)).toString();
 }
 
-function isPlainObject(v: unknown): v is Record<string, unknown> {
-  return typeof v === 'object' && v !== null && !Array.isArray(v);
-}
-
 /** The JSON form of the table (what the processing method saves). */
 export function namedPeaksToJson(table: NamedPeakTable): { format: string; version: number; xUnit: string; rule: MatchRule; peaks: { name: string; position: number; window: number }[] } {
   return {
@@ -148,15 +145,10 @@ export function namedPeaksToJson(table: NamedPeakTable): { format: string; versi
  * a saved method). All-or-nothing: any problem refuses the whole table, with
  * every problem listed. A newer version is refused with a sentence saying so.
  */
-export function parseNamedPeaks(value: unknown): { ok: true; table: NamedPeakTable; warnings: string[] } | { ok: false; problems: string[] } {
-  if (!isPlainObject(value)) return { ok: false, problems: ['The named-peak table is not a JSON object.'] };
-  const problems: string[] = [];
-  if (value.format !== NAMED_PEAKS_FORMAT) problems.push(`"format" must be "${NAMED_PEAKS_FORMAT}".`);
-  const version = value.version;
-  if (typeof version !== 'number' || !Number.isInteger(version) || version < 1) problems.push('"version" must be a whole number.');
-  else if (version > NAMED_PEAKS_VERSION) {
-    return { ok: false, problems: [`This named-peak table was written by a newer version of Tracewright (version ${version}; this one reads up to ${NAMED_PEAKS_VERSION}).`] };
-  }
+export function parseNamedPeaks(input: unknown): { ok: true; table: NamedPeakTable; warnings: string[] } | { ok: false; problems: string[] } {
+  const head = checkFormatAndVersion(input, NAMED_PEAKS_FORMAT, NAMED_PEAKS_VERSION, 'named-peak table');
+  if (!head.ok) return head;
+  const { value, problems } = head;
   const xUnit = value.xUnit === undefined ? '' : value.xUnit;
   if (typeof xUnit !== 'string') problems.push('"xUnit" must be text.');
   const rule = value.rule === undefined ? 'nearest' : value.rule;

@@ -3,6 +3,7 @@
  * sub-object, saved with the processing method beside the named-peak table.
  * One set of defaults for every named peak, with optional changes per peak.
  */
+import { checkFormatAndVersion, isPlainObject } from './json-form.ts';
 import { WEIGHTINGS } from './regression.ts';
 import type { CurveKind, Weighting } from './regression.ts';
 
@@ -74,10 +75,6 @@ export function settingsForPeak(settings: CalibrationSettings, name: string): Pe
   };
 }
 
-function isPlainObject(v: unknown): v is Record<string, unknown> {
-  return typeof v === 'object' && v !== null && !Array.isArray(v);
-}
-
 const PEAK_KEYS = ['response', 'internalStandard', 'model', 'throughOrigin', 'weighting', 'limitSigma'] as const;
 
 function checkPeakSetting(key: string, v: unknown, where: string, problems: string[]): void {
@@ -142,15 +139,10 @@ export function calibrationSettingsToJson(s: CalibrationSettings): Record<string
  * Read the JSON form; missing members take their defaults. All-or-nothing,
  * every problem listed; a newer version is refused with a sentence.
  */
-export function parseCalibrationSettings(value: unknown): { ok: true; settings: CalibrationSettings } | { ok: false; problems: string[] } {
-  if (!isPlainObject(value)) return { ok: false, problems: ['The calibration settings are not a JSON object.'] };
-  const problems: string[] = [];
-  if (value.format !== CALIBRATION_SETTINGS_FORMAT) problems.push(`"format" must be "${CALIBRATION_SETTINGS_FORMAT}".`);
-  const version = value.version;
-  if (typeof version !== 'number' || !Number.isInteger(version) || version < 1) problems.push('"version" must be a whole number.');
-  else if (version > CALIBRATION_SETTINGS_VERSION) {
-    return { ok: false, problems: [`These calibration settings were written by a newer version of Tracewright (version ${version}; this one reads up to ${CALIBRATION_SETTINGS_VERSION}).`] };
-  }
+export function parseCalibrationSettings(input: unknown): { ok: true; settings: CalibrationSettings } | { ok: false; problems: string[] } {
+  const head = checkFormatAndVersion(input, CALIBRATION_SETTINGS_FORMAT, CALIBRATION_SETTINGS_VERSION, 'calibration-settings object');
+  if (!head.ok) return head;
+  const { value, problems } = head;
   const d = defaultCalibrationSettings();
   for (const k of Object.keys(value)) {
     if (!['format', 'version', 'confidence', 'alpha', 'perPeak', ...PEAK_KEYS].includes(k)) problems.push(`Unknown setting "${k}".`);

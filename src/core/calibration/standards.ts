@@ -16,6 +16,7 @@
  * the same amount of a peak are that peak's replicates.
  */
 import { parseColumnHeader } from '../io/delimited.ts';
+import { checkFormatAndVersion, isPlainObject } from './json-form.ts';
 import { checkPeakName } from './named-peaks.ts';
 import type { NamedPeakTable } from './named-peaks.ts';
 import { readTextTable, tableNumber } from './table-text.ts';
@@ -139,18 +140,11 @@ export function standardsToJson(table: StandardsTable): { format: string; versio
   };
 }
 
-function isPlainObject(v: unknown): v is Record<string, unknown> {
-  return typeof v === 'object' && v !== null && !Array.isArray(v);
-}
-
 /** Read the JSON form back; all-or-nothing, every problem listed. */
-export function parseStandards(value: unknown): { ok: true; table: StandardsTable } | { ok: false; problems: string[] } {
-  if (!isPlainObject(value)) return { ok: false, problems: ['The standards are not a JSON object.'] };
-  const problems: string[] = [];
-  if (value.format !== STANDARDS_FORMAT) problems.push(`"format" must be "${STANDARDS_FORMAT}".`);
-  const version = value.version;
-  if (typeof version !== 'number' || !Number.isInteger(version) || version < 1) problems.push('"version" must be a whole number.');
-  else if (version > STANDARDS_VERSION) return { ok: false, problems: [`These standards were written by a newer version of Tracewright (version ${version}; this one reads up to ${STANDARDS_VERSION}).`] };
+export function parseStandards(input: unknown): { ok: true; table: StandardsTable } | { ok: false; problems: string[] } {
+  const head = checkFormatAndVersion(input, STANDARDS_FORMAT, STANDARDS_VERSION, 'standards table');
+  if (!head.ok) return head;
+  const { value, problems } = head;
   const names = value.names, units = value.units, rows = value.rows;
   if (!Array.isArray(names) || names.some((n) => checkPeakName(n) !== null)) problems.push('"names" must be a list of peak names.');
   if (!Array.isArray(units) || !Array.isArray(names) || units.length !== names.length || units.some((u) => typeof u !== 'string')) problems.push('"units" must be a list of texts, one per name.');

@@ -210,25 +210,23 @@ export function studentTQuantile(p: number, df: number): number {
   return sign * t;
 }
 
-/**
- * Upper tail P(F > f) of Fisher's F with (d1, d2) degrees of freedom
- * (A&S 26.6.2: P(F > f) = I_{d2/(d2 + d1 f)}(d2/2, d1/2)), accurate in the far tail.
- */
-export function fSurvival(f: number, d1: number, d2: number): number {
+/** Both tails of F at f, each from its accurate side (A&S 26.6.2: P(F > f) = I_{d2/(d2 + d1 f)}(d2/2, d1/2)). */
+function fTails(f: number, d1: number, d2: number): { lower: number; upper: number } {
   checkDf(d1, 'The F distribution (numerator)');
   checkDf(d2, 'The F distribution (denominator)');
-  if (Number.isNaN(f)) return NaN;
-  if (f <= 0) return 1;
-  if (f === Infinity) return 0;
-  return incompleteBetaPair(d2 / (d2 + d1 * f), (d1 * f) / (d2 + d1 * f), d2 / 2, d1 / 2).lower;
+  if (Number.isNaN(f)) return { lower: NaN, upper: NaN };
+  if (f <= 0) return { lower: 0, upper: 1 };
+  if (f === Infinity) return { lower: 1, upper: 0 };
+  const { lower: upper, upper: lower } = incompleteBetaPair(d2 / (d2 + d1 * f), (d1 * f) / (d2 + d1 * f), d2 / 2, d1 / 2);
+  return { lower, upper };
+}
+
+/** Upper tail P(F > f) of Fisher's F with (d1, d2) degrees of freedom, accurate in the far tail. */
+export function fSurvival(f: number, d1: number, d2: number): number {
+  return fTails(f, d1, d2).upper;
 }
 
 /** Cumulative distribution P(F ≤ f) of Fisher's F with (d1, d2) degrees of freedom. */
 export function fCdf(f: number, d1: number, d2: number): number {
-  checkDf(d1, 'The F distribution (numerator)');
-  checkDf(d2, 'The F distribution (denominator)');
-  if (Number.isNaN(f)) return NaN;
-  if (f <= 0) return 0;
-  if (f === Infinity) return 1;
-  return incompleteBetaPair(d2 / (d2 + d1 * f), (d1 * f) / (d2 + d1 * f), d2 / 2, d1 / 2).upper;
+  return fTails(f, d1, d2).lower;
 }
