@@ -1,0 +1,161 @@
+/**
+ * How many peaks does a region hold? Fit k and k + 1 shapes and let the
+ * Bayesian information criterion decide (Schwarz 1978, Ann. Statist. 6:461):
+ * the larger model is supported when its BIC is lower and none of its
+ * components sits on a bound (zero height, the minimum width, as wide as
+ * the region, or on the region's edge).
+ *
+ * Why not the F-test: the extra peak's position is not defined under the
+ * smaller model, so the F statistic does not follow its F distribution and
+ * its nominal level does not hold (the regularity conditions fail; Hansen
+ * 1996, Econometrica 64:413, on parameters unidentified under the null).
+ * The F statistic and AIC are returned as figures only.
+ *
+ * Both criteria assume independent errors of one variance. On a smoothed
+ * trace the residuals are correlated and both favour extra peaks; each fit
+ * reports its residual lag-1 autocorrelation, and the comparison says so.
+ */
+import { internals, MAX_PEAKS } from './region.ts';
+import type { Fitted, RegionFit, RegionFitOptions } from './region.ts';
+
+export interface CountComparison {
+  /** The criterion that decided. */
+  criterion: 'BIC';
+  smaller: RegionFit;
+  larger: RegionFit;
+  /** larger.bic − smaller.bic: negative favours the larger model. */
+  deltaBic: number;
+  /** larger.aic − smaller.aic (a figure only, not used to decide). */
+  deltaAic: number;
+  /**
+   * F = ((SSR_k − SSR_k+1)/(p_k+1 − p_k)) / (SSR_k+1/(n − p_k+1)), a figure only:
+   * its nominal level does not hold for an added peak.
+   */
+  fStatistic: { value: number; df1: number; df2: number };
+  /** True when the data support the extra peak. */
+  supported: boolean;
+  /** The count the data support: smaller or larger. */
+  chosenCount: number;
+  /** Why the larger model is not supported even where its BIC is lower. */
+  problems: string[];
+  /** One plain sentence for the page and the report. */
+  statement: string;
+}
+
+export type CountOutcome = { ok: true; comparison: CountComparison } | { ok: false; message: string };
+
+const fmt = (v: number) => (Math.abs(v) >= 100 ? v.toFixed(0) : v.toPrecision(3));
+const peaksWord = (k: number) => `${k} peak${k === 1 ? '' : 's'}`;
+
+/** Components of a fit on a bound that a real peak would not sit on. */
+function componentProblems(fit: RegionFit): string[] {
+  const out: string[] = [];
+  fit.peaks.forEach((peak, i) => {
+    for (const q of peak.parameters) {
+      if (!q.atBound) continue;
+      const label = `peak ${i + 1}`;
+      if (q.name === 'height' || q.name === 'area') out.push(`${label} has shrunk to zero`);
+      else if (q.name === 'fwhm' || q.name === 'sigma') {
+        out.push(q.atBound === 'lower' ? `${label} reached the minimum width (${fit.minFwhm.toPrecision(3)} FWHM)` : `${label} is as wide as the region, so it stands in for baseline`);
+      } else if (q.name === 'position' || q.name === 'mu') out.push(`${label} sits on the region's edge`);
+      // eta at 0 or 1 (pure Gaussian or Lorentzian) and tau at its floor (a Gaussian) are real shapes.
+    }
+  });
+  if (!fit.converged) out.push(`the fit with ${peaksWord(fit.peaks.length)} did not converge (${fit.stopReason})`);
+  if (!fit.covariance) out.push('its peaks cannot be told apart (singular covariance)');
+  return out;
+}
+
+/** Compare two fitted models of the same region; k = smaller.peaks.length. */
+export function compareFits(smaller: RegionFit, larger: RegionFit): CountComparison {
+  const k = smaller.peaks.length;
+  const deltaBic = larger.bic - smaller.bic;
+  const deltaAic = larger.aic - smaller.aic;
+  const df1 = larger.p - smaller.p;
+  const df2 = larger.n - larger.p;
+  const fValue = (smaller.ssr - larger.ssr) / df1 / (larger.ssr / df2);
+  const problems = componentProblems(larger);
+  const supported = deltaBic < 0 && problems.length === 0;
+  const chosenCount = supported ? k + 1 : k;
+  let statement: string;
+  if (supported) {
+    statement = `The data support ${peaksWord(k + 1)} rather than ${k}: BIC is ${fmt(-deltaBic)} lower with the extra peak (criterion: BIC, lower is better).`;
+  } else if (deltaBic >= 0) {
+    statement = `The extra peak is not supported: BIC is ${fmt(deltaBic)} higher with ${peaksWord(k + 1)} than with ${k} (criterion: BIC).`;
+  } else {
+    statement = `The extra peak is not supported: BIC is ${fmt(-deltaBic)} lower with ${peaksWord(k + 1)}, but ${problems.join('; ')}.`;
+  }
+  // The smaller model's residual is correlated whenever it misses a peak; only the larger model's residual tells.
+  const correlated = larger.assumptions.some((a) => a.name === 'independent residuals' && a.held === false);
+  if (correlated) statement += ` Even with ${peaksWord(k + 1)} the residuals are correlated (a smoothed trace or a shape that does not fit), so BIC overstates the support for extra peaks here.`;
+  return { criterion: 'BIC', smaller, larger, deltaBic, deltaAic, fStatistic: { value: fValue, df1, df2 }, supported, chosenCount, problems, statement };
+}
+
+/**
+ * Fit the region with k and with k + 1 peaks and report which count the
+ * data support. `options.peaks` is k (default 1). The k + 1 fit is the
+ * better (smaller sum of squares) of: grown from the k fit at the highest
+ * residual maxima, and, when k + 1 starts are given, started from them.
+ * Never changes its inputs.
+ */
+export function comparePeakCounts(x: Float64Array, y: Float64Array, options: RegionFitOptions): CountOutcome {
+  const k = options.peaks ?? 1;
+  if (!(Number.isInteger(k) && k >= 1 && k < MAX_PEAKS)) return { ok: false, message: `Compare 1 to ${MAX_PEAKS - 1} peaks with one more (asked for ${k}).` };
+  const prep = internals.prepare(x, y, options);
+  if (typeof prep === 'string') return { ok: false, message: prep };
+  const shapes = internals.shapeList(options, k + 1);
+  if (typeof shapes === 'string') return { ok: false, message: shapes };
+  const baseline = options.baseline ?? 'line';
+  const p = internals.layoutFor(shapes, baseline).p;
+  if (prep.x.length < p + 3) return { ok: false, message: `The region holds ${prep.x.length} points, too few for ${p} parameters; widen it or compare fewer peaks.` };
+  const known = (options.starts ?? []).filter((s) => Number.isFinite(s.position) && Number.isFinite(s.height) && Number.isFinite(s.fwhm));
+  const small = internals.fitWithCount(prep, shapes, baseline, known, k, options.solver);
+  let large: Fitted = internals.fitWithCount(prep, shapes, baseline, internals.startsOf(small), k + 1, options.solver);
+  if (known.length >= k + 1) large = internals.better(large, internals.fitWithCount(prep, shapes, baseline, known, k + 1, options.solver));
+  const smaller = internals.assemble(prep, shapes.slice(0, k), baseline, small.layout, small.result);
+  const larger = internals.assemble(prep, shapes, baseline, large.layout, large.result);
+  return { ok: true, comparison: compareFits(smaller, larger) };
+}
+
+export interface SupportedCount {
+  /** The number of peaks the data support (1 … maxPeaks). */
+  count: number;
+  /** The fit with that many peaks. */
+  fit: RegionFit;
+  /** Each step of the forward comparison: 1 vs 2, 2 vs 3, … up to the first unsupported step. */
+  comparisons: CountComparison[];
+  statement: string;
+}
+
+export type SupportedCountOutcome = { ok: true; result: SupportedCount } | { ok: false; message: string };
+
+/**
+ * Forward choice of the peak count: compare 1 with 2 peaks, and while the
+ * extra peak is supported, 2 with 3, up to `maxPeaks` (default 4).
+ * `options.peaks` is ignored; `options.starts` seed every step.
+ */
+export function supportedPeakCount(x: Float64Array, y: Float64Array, options: RegionFitOptions & { maxPeaks?: number }): SupportedCountOutcome {
+  const maxPeaks = options.maxPeaks ?? MAX_PEAKS;
+  if (!(Number.isInteger(maxPeaks) && maxPeaks >= 1 && maxPeaks <= MAX_PEAKS)) return { ok: false, message: `The largest count must be 1 to ${MAX_PEAKS} (got ${maxPeaks}).` };
+  const comparisons: CountComparison[] = [];
+  if (maxPeaks === 1) {
+    const one = comparePeakCounts(x, y, { ...options, peaks: 1 });
+    if (!one.ok) return one;
+    return { ok: true, result: { count: 1, fit: one.comparison.smaller, comparisons: [], statement: 'One peak fitted; no larger count was asked for.' } };
+  }
+  let starts = options.starts ?? [];
+  for (let k = 1; k < maxPeaks; k++) {
+    const out = comparePeakCounts(x, y, { ...options, peaks: k, starts });
+    if (!out.ok) return out;
+    const c = out.comparison;
+    comparisons.push(c);
+    if (!c.supported) return { ok: true, result: { count: k, fit: c.smaller, comparisons, statement: c.statement } };
+    // Seed the next step with what the larger fit found.
+    starts = c.larger.peaks.map((q) => ({ position: q.position.value, height: q.height.value, fwhm: q.fwhm.value }));
+  }
+  const last = comparisons[comparisons.length - 1];
+  return {
+    ok: true,
+    result: { count: maxPeaks, fit: last.larger, comparisons, statement: `${last.statement} ${maxPeaks} is the most this comparison tries.` },
+  };
+}
