@@ -78,6 +78,31 @@ export const FIGURE_FORMULAS: Record<ChromatographicFigureName, { label: string;
   selectivity: { label: 'α', formula: 'α = k₂ / k₁, to the previous peak' },
 };
 
+/** Tailing factor T = W₀.₀₅ / (2f) (USP <621>). */
+export function tailingFactor(width5: number, leadingHalfWidth5: number): number {
+  return width5 / (2 * leadingHalfWidth5);
+}
+
+/** Asymmetry factor As = b / a at 10 % height (common practice). */
+export function asymmetryFactor(leading10: number, trailing10: number): number {
+  return trailing10 / leading10;
+}
+
+/** Plate number from the half-height width, N = 8 ln 2 · (t_R / W₀.₅)² (USP <621>, Ph. Eur. 2.2.46). */
+export function plateNumber(retentionTime: number, width50: number): number {
+  return 8 * Math.LN2 * (retentionTime / width50) ** 2;
+}
+
+/** Resolution from half-height widths as the pharmacopoeias write it: 1.18 (t₂ − t₁) / (W₀.₅,₁ + W₀.₅,₂). */
+export function resolutionHalfHeight(t1: number, width1: number, t2: number, width2: number): number {
+  return (1.18 * (t2 - t1)) / (width1 + width2);
+}
+
+/** Retention factor k = (t_R − t_M) / t_M. */
+export function retentionFactor(retentionTime: number, deadTime: number): number {
+  return (retentionTime - deadTime) / deadTime;
+}
+
 const ok = (value: number): FigureValue => ({ value, status: 'ok', reason: '' });
 const missing = (status: FigureStatus, reason: string): FigureValue => ({ value: null, status, reason });
 
@@ -190,19 +215,19 @@ export function chromatographicFigures(x: Float64Array, y: Float64Array, peaks: 
     const w50 = width(m, '50');
     const w10 = width(m, '10');
     const w5 = width(m, '5');
-    const tailing = w5.value === null ? missing('not-measurable', w5.reason) : ok(w5.value / (2 * (m.tR - (m.edges['5'].left.x as number))));
+    const tailing = w5.value === null ? missing('not-measurable', w5.reason) : ok(tailingFactor(w5.value, m.tR - (m.edges['5'].left.x as number)));
     const asymmetry =
-      w10.value === null ? missing('not-measurable', w10.reason) : ok(((m.edges['10'].right.x as number) - m.tR) / (m.tR - (m.edges['10'].left.x as number)));
-    const plates = w50.value === null ? missing('not-measurable', w50.reason) : ok(8 * Math.LN2 * (m.tR / w50.value) ** 2);
+      w10.value === null ? missing('not-measurable', w10.reason) : ok(asymmetryFactor(m.tR - (m.edges['10'].left.x as number), (m.edges['10'].right.x as number) - m.tR));
+    const plates = w50.value === null ? missing('not-measurable', w50.reason) : ok(plateNumber(m.tR, w50.value));
     let resolution: FigureValue;
     if (!previous) resolution = missing('not-applicable', 'first peak: no previous peak');
     else if (!previous.m || previous.w50.value === null) resolution = missing('not-measurable', `the previous peak's half-height width is not measurable (${previous.w50.reason})`);
     else if (w50.value === null) resolution = missing('not-measurable', w50.reason);
-    else resolution = ok((1.18 * (m.tR - previous.m.tR)) / (previous.w50.value + w50.value));
+    else resolution = ok(resolutionHalfHeight(previous.m.tR, previous.w50.value, m.tR, w50.value));
     let k: FigureValue;
     if (deadTimeProblem) k = missing('not-applicable', deadTimeProblem);
     else if (!(m.tR > (t0 as number))) k = missing('not-measurable', `t_R (${m.tR}) is not after the dead time (${t0})`);
-    else k = ok((m.tR - (t0 as number)) / (t0 as number));
+    else k = ok(retentionFactor(m.tR, t0 as number));
     let selectivity: FigureValue;
     if (deadTimeProblem) selectivity = missing('not-applicable', deadTimeProblem);
     else if (!previous) selectivity = missing('not-applicable', 'first peak: no previous peak');
