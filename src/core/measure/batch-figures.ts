@@ -38,6 +38,8 @@ export interface BatchGroup {
   missing: string[];
 }
 
+export type BatchOutcome = { ok: true; combination: BatchCombination } | { ok: false; message: string };
+
 export interface BatchCombination {
   /** Matching window, x-units (± around the group's mean retention time). */
   window: number;
@@ -58,10 +60,10 @@ function spread(values: number[]): Spread {
  * Match peaks across runs and summarise each matched peak.
  * @param runs the files of the batch, in order
  * @param window largest distance (x-units) between a peak and its group's mean retention time
- * @throws RangeError when the window is not a positive number
+ * @returns `{ ok: false, message }` when the window is not a positive number
  */
-export function combineBatchPeaks(runs: readonly BatchRun[], window: number): BatchCombination {
-  if (!(Number.isFinite(window) && window > 0)) throw new RangeError(`The matching window must be a positive number of x-units (got ${window}).`);
+export function combineBatchPeaks(runs: readonly BatchRun[], window: number): BatchOutcome {
+  if (!(Number.isFinite(window) && window > 0)) return { ok: false, message: `The matching window must be a positive number of x-units (got ${window}).` };
   const groups: { sum: number; members: BatchGroup['members'] }[] = [];
   const notes: string[] = [
     `Peaks matched by retention time within ±${window} of each group's mean, nearest first, at most one peak per file in a group.`,
@@ -111,5 +113,5 @@ export function combineBatchPeaks(runs: readonly BatchRun[], window: number): Ba
     const b = out[i].retentionTime.mean;
     if (b - a <= window) notes.push(`Groups at ${a.toPrecision(6)} and ${b.toPrecision(6)} lie within one window of each other: their matching is ambiguous; narrow the window or check these peaks by hand.`);
   }
-  return { window, groups: out, notes };
+  return { ok: true, combination: { window, groups: out, notes } };
 }

@@ -4,13 +4,14 @@
  * then processed ones on the same x grid), choose the peak count on each by
  * the forward BIC comparison of ./count.ts and compare it with the first.
  *
- * Smoothing correlates the noise, and BIC assumes independent errors, so a
- * smoothed trace tends to support more peaks than it should; each row says
- * whether its residuals looked independent. A smaller count after
+ * Smoothing correlates the noise; the count comparison judges each version
+ * on its effective number of independent points (./count.ts), and each row
+ * says whether its residuals looked independent. A smaller count after
  * processing is the loss this helper is for: "supported by the fit on raw,
  * not after 7-point average".
  */
 import { supportedPeakCount } from './count.ts';
+import { SHAPES } from './shapes.ts';
 import type { SupportedCount } from './count.ts';
 import type { PeakStart, RegionFitOptions } from './region.ts';
 
@@ -19,6 +20,12 @@ export interface ProcessedVersion {
   label: string;
   /** The signal on the common x grid. */
   y: Float64Array;
+  /**
+   * The noise correlation time this processing gives white noise, in points, when known
+   * (τ = (Σc)²/Σc² for filter weights c; 1 for the raw trace). Without it τ is estimated from
+   * the residuals, which understates it after heavy smoothing.
+   */
+  noiseCorrelationTime?: number;
 }
 
 export interface CountSupportRow {
@@ -68,7 +75,7 @@ export function peakCountAcrossProcessing(
       rows.push({ label: v.label, count: null, sameAsReference: null, independentResiduals: null, result: null, statement: `${v.label}: not on the same x grid as the other versions (${v.y.length} points, not ${x.length}); not fitted.` });
       return;
     }
-    const out = supportedPeakCount(x, v.y, { ...options, starts: seeds });
+    const out = supportedPeakCount(x, v.y, { ...options, starts: seeds, noiseCorrelationTime: v.noiseCorrelationTime });
     if (!out.ok) {
       rows.push({ label: v.label, count: null, sameAsReference: null, independentResiduals: null, result: null, statement: `${v.label}: ${out.message}` });
       return;
@@ -84,8 +91,15 @@ export function peakCountAcrossProcessing(
     if (index === 0) statement = `${v.label}: the fit supports ${peaksWord(r.count)}.`;
     else if (same) statement = `${v.label}: still supports ${peaksWord(r.count)}, as on ${versions[0].label}.`;
     else if (referenceCount !== null && r.count < referenceCount) statement = `${peaksWord(referenceCount)} supported by the fit on ${versions[0].label}, not after ${v.label} (${r.count}).`;
-    else statement = `${v.label}: supports ${peaksWord(r.count)}, more than the ${referenceCount} on ${versions[0].label}.`;
-    if (independent === false && index > 0) statement += ' Its residuals are correlated, so this count leans high.';
+    else {
+      statement =
+        `${v.label}: ${r.count} components fitted where ${versions[0].label} supports ${referenceCount}. Not evidence of more peaks: ` +
+        `processing can reshape peaks so that a sum of ${SHAPES[r.fit.shapes[0]].label} shapes no longer describes them, and correlates the noise.`;
+    }
+    if (independent === false && index > 0) {
+      const tau = r.comparisons[r.comparisons.length - 1]?.correlationTime ?? r.fit.correlationTime;
+      statement += ` Residuals correlated: the count was judged on n/τ effective points (τ = ${tau.toFixed(1)}), an approximation.`;
+    }
     rows.push({ label: v.label, count: r.count, sameAsReference: index === 0 ? true : same, independentResiduals: independent, result: r, statement });
   });
   const fewer = rows.filter((r, i) => i > 0 && r.count !== null && referenceCount !== null && r.count < referenceCount).map((r) => r.label);
