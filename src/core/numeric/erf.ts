@@ -62,6 +62,9 @@ function erfcPositive(x: number): number {
  */
 export function erfc(x: number): number {
   if (Number.isNaN(x)) return NaN;
+  // erfc(6) = 2.2e-17 is below half an ulp of 2, so 2 − erfc(−x) rounds to 2 exactly; erfc(27.3) underflows.
+  if (x < -6) return 2;
+  if (x > 27.3) return 0;
   return x >= 0 ? erfcPositive(x) : 2 - erfcPositive(-x);
 }
 

@@ -203,18 +203,20 @@ const pseudoVoigt: ShapeModel = {
   upper: (b) => [b.to, Infinity, b.maxFwhm, 1],
 };
 
-/** Unit-area EMG density g and the Gaussian factor G = exp(−u²/2) at one x. */
-function emgDensity(x: number, mu: number, s: number, t: number): { g: number; gauss: number } {
+/**
+ * Unit-area EMG density at x (see the file comment for the stable form).
+ * Returns 0 where the Gaussian factor (before the peak) or the exponential
+ * factor (down the tail) underflows.
+ */
+export function emgPdf(x: number, mu: number, s: number, t: number): number {
   const u = (x - mu) / s;
   const z = (s / t - u) / SQRT2;
-  const gauss = Math.exp(-0.5 * u * u);
-  const g = z >= 0 ? (gauss * erfcx(z)) / (2 * t) : (Math.exp((s * s) / (2 * t * t) - (x - mu) / t) * erfc(z)) / (2 * t);
-  return { g, gauss };
-}
-
-/** Unit-area EMG density at x (see the file comment for the stable form). */
-export function emgPdf(x: number, mu: number, sigma: number, tau: number): number {
-  return emgDensity(x, mu, sigma, tau).g;
+  if (z >= 0) {
+    const gauss = Math.exp(-0.5 * u * u);
+    return gauss === 0 ? 0 : (gauss * erfcx(z)) / (2 * t);
+  }
+  const e = (s * s) / (2 * t * t) - (x - mu) / t;
+  return e < -746 ? 0 : (Math.exp(e) * erfc(z)) / (2 * t);
 }
 
 /**
@@ -288,11 +290,11 @@ const emg: ShapeModel = {
     const n = x.length;
     const gNorm = 1 / (SQRT_2PI * s * t);
     for (let i = 0; i < n; i++) {
-      const { g, gauss } = emgDensity(x[i], mu, s, t);
+      const g = emgPdf(x[i], mu, s, t);
       out[i] += a * g;
       if (jac) {
         const d = x[i] - mu;
-        const gg = gauss * gNorm; // G / (√(2π) σ τ)
+        const gg = Math.exp((-0.5 * d * d) / (s * s)) * gNorm; // G / (√(2π) σ τ)
         jac[col * n + i] = a * (g / t - gg);
         jac[(col + 1) * n + i] = g;
         jac[(col + 2) * n + i] = a * ((g * s) / (t * t) - gg * (s / t + d / s));
