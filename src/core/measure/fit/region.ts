@@ -442,9 +442,10 @@ function assemble(prep: Prepared, shapes: ShapeKind[], baselineKind: BaselineKin
   if (cov.matrix) {
     const areaRow = FIGURE_NAMES.indexOf('area');
     for (let i = 0; i < k; i++) {
-      for (let j = 0; j < k; j++) {
+      areaCorrelation[i * k + i] = 1;
+      for (let j = i + 1; j < k; j++) {
         const c = quadForm(gradients[i][areaRow], cov.matrix, p, layout.offsets[i], gradients[j][areaRow], layout.offsets[j]);
-        areaCorrelation[i * k + j] = c / (peaks[i].area.se * peaks[j].area.se);
+        areaCorrelation[i * k + j] = areaCorrelation[j * k + i] = c / (peaks[i].area.se * peaks[j].area.se);
       }
     }
   }
