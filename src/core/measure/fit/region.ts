@@ -221,22 +221,50 @@ function candidatePeaks(x: Float64Array, d: Float64Array, minFwhm: number, spaci
   return found.sort((a, b) => b.height - a.height);
 }
 
-/** Line through the means of the first and last few points: a rough baseline for starting values. */
-function roughBaseline(x: Float64Array, y: Float64Array): Float64Array {
-  const n = x.length;
-  const m = Math.max(2, Math.min(10, Math.floor(n / 20)));
-  let x0 = 0;
-  let y0 = 0;
-  let x1 = 0;
-  let y1 = 0;
-  for (let i = 0; i < m; i++) {
-    x0 += x[i] / m;
-    y0 += y[i] / m;
-    x1 += x[n - 1 - i] / m;
-    y1 += y[n - 1 - i] / m;
+/** Least-squares polynomial c₀ + c₁t (+ c₂t²) of `values` over t, q = 2 or 3 terms (normal equations; t ∈ [−1, 1] keeps them well conditioned). */
+function polyFitT(t: Float64Array, values: ArrayLike<number>, q: number): number[] {
+  const a = new Float64Array(q * q);
+  const b = new Float64Array(q);
+  for (let i = 0; i < t.length; i++) {
+    const basis = [1, t[i], t[i] * t[i]];
+    for (let u = 0; u < q; u++) {
+      b[u] += basis[u] * values[i];
+      for (let v = 0; v < q; v++) a[u * q + v] += basis[u] * basis[v];
+    }
   }
-  const slope = (y1 - y0) / (x1 - x0);
-  return x.map((v) => y0 + slope * (v - x0));
+  for (let c = 0; c < q; c++) {
+    for (let r = c + 1; r < q; r++) {
+      const f = a[r * q + c] / a[c * q + c];
+      for (let v = c; v < q; v++) a[r * q + v] -= f * a[c * q + v];
+      b[r] -= f * b[c];
+    }
+  }
+  const out = new Array<number>(q).fill(0);
+  for (let c = q - 1; c >= 0; c--) {
+    let sum = b[c];
+    for (let v = c + 1; v < q; v++) sum -= a[c * q + v] * out[v];
+    out[c] = sum / a[c * q + c];
+  }
+  return out;
+}
+
+/**
+ * Rough baseline for starting values only: the modified polynomial fit of
+ * Lieber & Mahadevan-Jansen 2003 (Appl. Spectrosc. 57:1363): fit the
+ * polynomial, clip the data to it from above, refit, 30 times. It follows a
+ * drifting baseline under the peaks where a line through the end points would not.
+ */
+function roughBaseline(t: Float64Array, y: Float64Array, q: number): Float64Array {
+  const work = Float64Array.from(y);
+  const z = new Float64Array(y.length);
+  for (let it = 0; it < 30; it++) {
+    const c = polyFitT(t, work, q);
+    for (let i = 0; i < y.length; i++) {
+      z[i] = c[0] + c[1] * t[i] + (q === 3 ? c[2] * t[i] * t[i] : 0);
+      if (work[i] > z[i]) work[i] = z[i];
+    }
+  }
+  return z;
 }
 
 interface Prepared {
@@ -294,35 +322,11 @@ function shapeList(options: RegionFitOptions, k: number): ShapeKind[] | string {
 
 /** Least-squares line (or quadratic) of y − Σ peaks over t: starting baseline coefficients. */
 function baselineStart(prep: Prepared, layout: Layout, peakParams: number[]): number[] {
+  const rest = Float64Array.from(prep.y);
   const peaksOnly = new Float64Array(prep.x.length);
   layout.shapes.forEach((m, k) => m.evaluate(prep.x, peakParams, layout.offsets[k], peaksOnly, null, 0));
-  // Least squares of the remainder on 1, t (, t²) by normal equations (tiny, well-conditioned in t).
-  const q = layout.nBaseline;
-  const a = new Float64Array(q * q);
-  const b = new Float64Array(q);
-  for (let i = 0; i < prep.x.length; i++) {
-    const basis = [1, prep.t[i], prep.t[i] * prep.t[i]];
-    const r = prep.y[i] - peaksOnly[i];
-    for (let u = 0; u < q; u++) {
-      b[u] += basis[u] * r;
-      for (let v = 0; v < q; v++) a[u * q + v] += basis[u] * basis[v];
-    }
-  }
-  // Gaussian elimination, q ≤ 3.
-  for (let c = 0; c < q; c++) {
-    for (let r = c + 1; r < q; r++) {
-      const f = a[r * q + c] / a[c * q + c];
-      for (let v = c; v < q; v++) a[r * q + v] -= f * a[c * q + v];
-      b[r] -= f * b[c];
-    }
-  }
-  const out = new Array<number>(q).fill(0);
-  for (let c = q - 1; c >= 0; c--) {
-    let s = b[c];
-    for (let v = c + 1; v < q; v++) s -= a[c * q + v] * out[v];
-    out[c] = s / a[c * q + c];
-  }
-  return out;
+  for (let i = 0; i < rest.length; i++) rest[i] -= peaksOnly[i];
+  return polyFitT(prep.t, rest, layout.nBaseline);
 }
 
 function runFit(prep: Prepared, shapes: ShapeKind[], baseline: BaselineKind, starts: PeakStart[], solver: LmOptions | undefined) {
@@ -344,6 +348,23 @@ function runFit(prep: Prepared, shapes: ShapeKind[], baseline: BaselineKind, sta
     start,
     solver,
   );
+  // Peaks of one shape may swap places during the fit; report them left to right.
+  if (shapes.every((k) => k === shapes[0]) && shapes.length > 1) {
+    const m = layout.shapes[0];
+    const w = m.paramNames.length;
+    const order = shapes.map((_, k) => k).sort((a, b) => m.figures(result.params, layout.offsets[a]).position - m.figures(result.params, layout.offsets[b]).position);
+    if (order.some((k, i) => k !== i)) {
+      const params = Float64Array.from(result.params);
+      const atBound = Int8Array.from(result.atBound);
+      order.forEach((from, to) => {
+        params.set(result.params.subarray(from * w, from * w + w), to * w);
+        atBound.set(result.atBound.subarray(from * w, from * w + w), to * w);
+      });
+      evaluateModel(layout, prep.x, prep.t, params, result.model, result.jacobian);
+      result.params = params;
+      result.atBound = atBound;
+    }
+  }
   return { layout, result };
 }
 
@@ -585,7 +606,7 @@ function fitWithCount(prep: Prepared, shapes: ShapeKind[], baseline: BaselineKin
     .slice(0, k)
     .sort((a, b) => a.position - b.position);
   if (starts.length === 0) {
-    const rough = roughBaseline(prep.x, prep.y);
+    const rough = roughBaseline(prep.t, prep.y, baseline === 'quadratic' ? 3 : 2);
     const d = prep.y.map((v, i) => v - rough[i]);
     starts = candidatePeaks(prep.x, d, prep.minFwhm, prep.spacing).slice(0, k);
     if (starts.length === 0) {
