@@ -68,13 +68,10 @@ export interface LmResult {
   atBound: Int8Array;
 }
 
-/** JᵀJ (p × p, row-major) and Jᵀr for column-major J. */
-function normalEquations(jac: Float64Array, r: Float64Array, n: number, p: number, a: Float64Array, g: Float64Array): void {
+/** JᵀJ (p × p, row-major) for column-major J. */
+function gram(jac: Float64Array, n: number, p: number, a: Float64Array): void {
   for (let i = 0; i < p; i++) {
     const ci = i * n;
-    let s = 0;
-    for (let k = 0; k < n; k++) s += jac[ci + k] * r[k];
-    g[i] = s;
     for (let j = 0; j <= i; j++) {
       const cj = j * n;
       let t = 0;
@@ -82,6 +79,16 @@ function normalEquations(jac: Float64Array, r: Float64Array, n: number, p: numbe
       a[i * p + j] = t;
       a[j * p + i] = t;
     }
+  }
+}
+
+/** JᵀJ and Jᵀr for column-major J. */
+function normalEquations(jac: Float64Array, r: Float64Array, n: number, p: number, a: Float64Array, g: Float64Array): void {
+  gram(jac, n, p, a);
+  for (let i = 0; i < p; i++) {
+    let s = 0;
+    for (let k = 0; k < n; k++) s += jac[i * n + k] * r[k];
+    g[i] = s;
   }
 }
 
@@ -308,8 +315,7 @@ export interface Covariance {
 export function covarianceFromJacobian(jac: Float64Array, n: number, p: number, ssr: number): Covariance {
   const residualVariance = n > p ? ssr / (n - p) : NaN;
   const a = new Float64Array(p * p);
-  const zero = new Float64Array(n);
-  normalEquations(jac, zero, n, p, a, new Float64Array(p));
+  gram(jac, n, p, a);
   const scale = new Float64Array(p);
   for (let j = 0; j < p; j++) scale[j] = a[j * p + j] > 0 ? 1 / Math.sqrt(a[j * p + j]) : 0;
   if (scale.some((s) => s === 0)) return { matrix: null, reciprocalCondition: 0, residualVariance };

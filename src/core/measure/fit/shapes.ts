@@ -84,77 +84,63 @@ const FWHM_PER_SIGMA = 2 * Math.sqrt(2 * Math.LN2);
 const SQRT2 = Math.SQRT2;
 const SQRT_2PI = Math.sqrt(2 * Math.PI);
 
-const gaussian: ShapeModel = {
-  kind: 'gaussian',
-  label: 'Gaussian',
-  paramNames: ['position', 'height', 'fwhm'],
-  widthParams: [2],
-  sizeParam: 1,
-  positionParam: 0,
-  evaluate(x, p, o, out, jac, col) {
-    const c = p[o];
-    const h = p[o + 1];
-    const w = p[o + 2];
-    const n = x.length;
-    const k = FOUR_LN2 / (w * w);
-    for (let i = 0; i < n; i++) {
-      const d = x[i] - c;
-      const e = Math.exp(-k * d * d);
-      out[i] += h * e;
-      if (jac) {
-        const he2k = 2 * k * h * e * d;
-        jac[col * n + i] = he2k;
-        jac[(col + 1) * n + i] = e;
-        jac[(col + 2) * n + i] = (he2k * d) / w;
-      }
-    }
-  },
-  figures(p, o) {
-    return { position: p[o], height: p[o + 1], fwhm: p[o + 2], area: GAUSS_AREA * p[o + 1] * p[o + 2] };
-  },
-  figureGradient(p, o) {
-    return [[1, 0, 0], [0, 1, 0], [0, 0, 1], [0, GAUSS_AREA * p[o + 2], GAUSS_AREA * p[o + 1]]];
-  },
-  start: (c, h, w) => [c, h, w],
-  lower: (b) => [b.from, 0, b.minFwhm],
-  upper: (b) => [b.to, Infinity, b.maxFwhm],
-};
+/**
+ * A symmetric unit-height shape u(q) of q = k·(x − c)²/w² with u(0) = 1 and
+ * u(k/4) = 1/2 (so w is the FWHM), and −du/dq written through u itself.
+ */
+interface SymmetricUnit {
+  kind: ShapeKind;
+  label: string;
+  /** k in q = k (x − c)² / w². */
+  k: number;
+  /** Area of the unit-height shape per unit FWHM. */
+  area: number;
+  value(q: number): number;
+  /** −du/dq as a function of u (Gaussian: u; Lorentzian: u²). */
+  slope(u: number): number;
+}
 
-const lorentzian: ShapeModel = {
-  kind: 'lorentzian',
-  label: 'Lorentzian',
-  paramNames: ['position', 'height', 'fwhm'],
-  widthParams: [2],
-  sizeParam: 1,
-  positionParam: 0,
-  evaluate(x, p, o, out, jac, col) {
-    const c = p[o];
-    const h = p[o + 1];
-    const w = p[o + 2];
-    const n = x.length;
-    const k = 4 / (w * w);
-    for (let i = 0; i < n; i++) {
-      const d = x[i] - c;
-      const l = 1 / (1 + k * d * d);
-      out[i] += h * l;
-      if (jac) {
-        const t = 2 * k * h * l * l * d;
-        jac[col * n + i] = t;
-        jac[(col + 1) * n + i] = l;
-        jac[(col + 2) * n + i] = (t * d) / w;
+function symmetricShape(unit: SymmetricUnit): ShapeModel {
+  return {
+    kind: unit.kind,
+    label: unit.label,
+    paramNames: ['position', 'height', 'fwhm'],
+    widthParams: [2],
+    sizeParam: 1,
+    positionParam: 0,
+    evaluate(x, p, o, out, jac, col) {
+      const c = p[o];
+      const h = p[o + 1];
+      const w = p[o + 2];
+      const n = x.length;
+      const k = unit.k / (w * w);
+      for (let i = 0; i < n; i++) {
+        const d = x[i] - c;
+        const u = unit.value(k * d * d);
+        out[i] += h * u;
+        if (jac) {
+          // ∂/∂c = h·(−du/dq)·2kd; ∂/∂w = ∂/∂c · d/w.
+          const dc = 2 * k * h * unit.slope(u) * d;
+          jac[col * n + i] = dc;
+          jac[(col + 1) * n + i] = u;
+          jac[(col + 2) * n + i] = (dc * d) / w;
+        }
       }
-    }
-  },
-  figures(p, o) {
-    return { position: p[o], height: p[o + 1], fwhm: p[o + 2], area: LORENTZ_AREA * p[o + 1] * p[o + 2] };
-  },
-  figureGradient(p, o) {
-    return [[1, 0, 0], [0, 1, 0], [0, 0, 1], [0, LORENTZ_AREA * p[o + 2], LORENTZ_AREA * p[o + 1]]];
-  },
-  start: (c, h, w) => [c, h, w],
-  lower: (b) => [b.from, 0, b.minFwhm],
-  upper: (b) => [b.to, Infinity, b.maxFwhm],
-};
+    },
+    figures(p, o) {
+      return { position: p[o], height: p[o + 1], fwhm: p[o + 2], area: unit.area * p[o + 1] * p[o + 2] };
+    },
+    figureGradient(p, o) {
+      return [[1, 0, 0], [0, 1, 0], [0, 0, 1], [0, unit.area * p[o + 2], unit.area * p[o + 1]]];
+    },
+    start: (c, h, w) => [c, h, w],
+    lower: (b) => [b.from, 0, b.minFwhm],
+    upper: (b) => [b.to, Infinity, b.maxFwhm],
+  };
+}
+
+const gaussian = symmetricShape({ kind: 'gaussian', label: 'Gaussian', k: FOUR_LN2, area: GAUSS_AREA, value: (q) => Math.exp(-q), slope: (u) => u });
+const lorentzian = symmetricShape({ kind: 'lorentzian', label: 'Lorentzian', k: 4, area: LORENTZ_AREA, value: (q) => 1 / (1 + q), slope: (u) => u * u });
 
 const pseudoVoigt: ShapeModel = {
   kind: 'pseudo-voigt',
