@@ -127,3 +127,13 @@ describe('does each processing still support the same number of peaks?', () => {
     expect(r.rows[1].statement).toMatch(/not on the same x grid/);
   });
 });
+
+describe('every fit says how it was made', () => {
+  it('the method names the solver, baseline, region and where the starting peaks came from', () => {
+    const out = comparePeakCounts(x, trace(SHOULDER, 0.03, 11), { from: 3, to: 8, peaks: 1 });
+    expect(out.ok).toBe(true);
+    if (!out.ok) return;
+    expect(out.comparison.smaller.method).toMatch(/Levenberg–Marquardt.*straight local baseline.*500 points.*Starting peaks: 1 at maxima found in the region/);
+    expect(out.comparison.larger.method).toMatch(/Starting peaks: 1 from the 1-peak fit; 1 added at the best of \d residual maxima\./);
+  });
+});

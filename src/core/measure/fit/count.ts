@@ -151,10 +151,10 @@ export function comparePeakCounts(x: Float64Array, y: Float64Array, options: Reg
   if (prep.x.length < p + 3) return { ok: false, message: `The region holds ${prep.x.length} points, too few for ${p} parameters; widen it or compare fewer peaks.` };
   const known = (options.starts ?? []).filter((s) => Number.isFinite(s.position) && Number.isFinite(s.height) && Number.isFinite(s.fwhm));
   const small = internals.fitWithCount(prep, shapes, baseline, known, k, options.solver);
-  let large: Fitted = internals.fitWithCount(prep, shapes, baseline, internals.startsOf(small), k + 1, options.solver);
+  let large: Fitted = internals.fitWithCount(prep, shapes, baseline, internals.startsOf(small), k + 1, options.solver, `the ${k}-peak fit`);
   if (known.length >= k + 1) large = internals.better(large, internals.fitWithCount(prep, shapes, baseline, known, k + 1, options.solver));
-  const smaller = internals.assemble(prep, shapes.slice(0, k), baseline, small.layout, small.result);
-  const larger = internals.assemble(prep, shapes, baseline, large.layout, large.result);
+  const smaller = internals.assemble(prep, shapes.slice(0, k), baseline, small);
+  const larger = internals.assemble(prep, shapes, baseline, large);
   return { ok: true, comparison: compareFits(smaller, larger, options.noiseCorrelationTime) };
 }
 

@@ -126,7 +126,7 @@ export interface RegionFit {
   iterations: number;
   evaluations: number;
   assumptions: AssumptionCheck[];
-  /** One sentence on how the fit was made, for the page and every export. */
+  /** How the fit was made, including where its starting peaks came from, for the page and every export. */
   method: string;
 }
 
@@ -424,7 +424,8 @@ function quadForm(g: number[], cov: Float64Array, p: number, offA: number, hA: n
   return s;
 }
 
-function assemble(prep: Prepared, shapes: ShapeKind[], baselineKind: BaselineKind, layout: Layout, result: ReturnType<typeof levenbergMarquardt>): RegionFit {
+function assemble(prep: Prepared, shapes: ShapeKind[], baselineKind: BaselineKind, fitted: Fitted): RegionFit {
+  const { layout, result } = fitted;
   const n = prep.x.length;
   const p = layout.p;
   const cov = covarianceFromJacobian(result.jacobian, n, p, result.ssr);
@@ -529,7 +530,7 @@ function assemble(prep: Prepared, shapes: ShapeKind[], baselineKind: BaselineKin
   const shapeWords = Array.from(new Set(layout.shapes.map((m) => m.label))).join(' / ');
   const method =
     `Least-squares fit (Levenberg–Marquardt, analytic derivatives) of ${k} ${shapeWords} peak${k > 1 ? 's' : ''} on a ${baselineKind === 'line' ? 'straight' : 'quadratic'} local baseline ` +
-    `over x = ${prep.x[0]} to ${prep.x[n - 1]} (${n} points); standard errors from the covariance scaled by the residual variance; minimum component FWHM ${prep.minFwhm.toPrecision(3)}.`;
+    `over x = ${prep.x[0]} to ${prep.x[n - 1]} (${n} points); standard errors from the covariance scaled by the residual variance; minimum component FWHM ${prep.minFwhm.toPrecision(3)}. ${fitted.startNote}`;
   return {
     region: { from: prep.bounds.from, to: prep.bounds.to, startIndex: prep.startIndex, endIndex: prep.endIndex },
     shapes,
@@ -573,7 +574,8 @@ function extraPeakCandidates(prep: Prepared, fit: { residual: Float64Array; widt
   return found.sort((a, b) => b.height - a.height).slice(0, count);
 }
 
-type Fitted = ReturnType<typeof runFit> & { starts: PeakStart[] };
+/** A fit with the starts it began from and, in words, where those starts came from. */
+type Fitted = ReturnType<typeof runFit> & { starts: PeakStart[]; startNote: string };
 
 function widthsOf(f: Fitted): number[] {
   return f.layout.shapes.map((m, k) => m.figures(f.result.params, f.layout.offsets[k]).fwhm);
@@ -598,27 +600,40 @@ function better(a: Fitted | null, b: Fitted): Fitted {
  * one peak at a time at the highest maxima of the smoothed residual (up to
  * three candidate places each, keeping the smallest sum of squares).
  */
-function fitWithCount(prep: Prepared, shapes: ShapeKind[], baseline: BaselineKind, known: PeakStart[], k: number, solver: LmOptions | undefined): Fitted {
+function fitWithCount(
+  prep: Prepared,
+  shapes: ShapeKind[],
+  baseline: BaselineKind,
+  known: PeakStart[],
+  k: number,
+  solver: LmOptions | undefined,
+  knownFrom = 'the given peaks',
+): Fitted {
   // The k highest known peaks, then in order of position.
   let starts = known
     .slice()
     .sort((a, b) => b.height - a.height)
     .slice(0, k)
     .sort((a, b) => a.position - b.position);
-  if (starts.length === 0) {
+  const notes: string[] = [];
+  if (starts.length > 0) notes.push(`${starts.length} from ${knownFrom}`);
+  else {
     const rough = roughBaseline(prep.t, prep.y, baseline === 'quadratic' ? 3 : 2);
     const d = prep.y.map((v, i) => v - rough[i]);
     starts = candidatePeaks(prep.x, d, prep.minFwhm, prep.spacing).slice(0, k);
-    if (starts.length === 0) {
+    if (starts.length > 0) notes.push(`${starts.length} at maxima found in the region above a rough baseline`);
+    else {
+      notes.push('1 at the highest point above a rough baseline (the region has no local maximum)');
       let im = 0;
       for (let i = 1; i < d.length; i++) if (d[i] > d[im]) im = i;
       starts = [{ position: prep.x[im], height: Math.max(d[im], 0), fwhm: Math.max(1.5 * prep.minFwhm, 0.2 * prep.bounds.maxFwhm) }];
     }
   }
-  let current: Fitted = { ...runFit(prep, shapes.slice(0, starts.length), baseline, starts, solver), starts };
+  let current: Fitted = { ...runFit(prep, shapes.slice(0, starts.length), baseline, starts, solver), starts, startNote: '' };
   while (current.starts.length < k) {
     const base = startsOf(current);
     const candidates = extraPeakCandidates(prep, { residual: current.result.residual, widths: widthsOf(current) }, 3);
+    notes.push(candidates.length > 0 ? `1 added at the best of ${candidates.length} residual maxima` : "1 added on the largest peak's trailing flank (no positive residual left)");
     if (candidates.length === 0) {
       // Nothing positive left in the residual: split the largest peak's flank.
       const big = base.reduce((a, b) => (b.height > a.height ? b : a));
@@ -627,11 +642,11 @@ function fitWithCount(prep: Prepared, shapes: ShapeKind[], baseline: BaselineKin
     let best: Fitted | null = null;
     for (const c of candidates) {
       const next = [...base, c].sort((a, b) => a.position - b.position);
-      best = better(best, { ...runFit(prep, shapes.slice(0, next.length), baseline, next, solver), starts: next });
+      best = better(best, { ...runFit(prep, shapes.slice(0, next.length), baseline, next, solver), starts: next, startNote: '' });
     }
     current = best as Fitted;
   }
-  return current;
+  return { ...current, startNote: `Starting peaks: ${notes.join('; ')}.` };
 }
 
 /**
@@ -653,7 +668,7 @@ export function fitRegion(x: Float64Array, y: Float64Array, options: RegionFitOp
   if (prep.x.length < p + 3) return { ok: false, message: `The region holds ${prep.x.length} points, too few for ${p} parameters; widen it or fit fewer peaks.` };
   const known = (options.starts ?? []).filter((s) => Number.isFinite(s.position) && Number.isFinite(s.height) && Number.isFinite(s.fwhm));
   const f = fitWithCount(prep, shapes, baseline, known, k, options.solver);
-  return { ok: true, fit: assemble(prep, shapes, baseline, f.layout, f.result) };
+  return { ok: true, fit: assemble(prep, shapes, baseline, f) };
 }
 
 /** @internal for ./count.ts: fit k and k + 1 from shared preparation. */
