@@ -39,7 +39,7 @@ export function NoisePanel() {
           </label>
           <div className="row">
             <button type="button" disabled={!marked} onClick={() => marked && setNoiseSettings({ quietRange: marked, method: 'rms' })}>Use the marked range as quiet baseline</button>
-            {settings.quietRange && <button type="button" className="link" onClick={() => setNoiseSettings({ quietRange: null, method: 'windows' })}>clear quiet range</button>}
+            {settings.quietRange && <button type="button" className="link" onClick={() => setNoiseSettings({ quietRange: null, method: 'auto' })}>clear quiet range</button>}
           </div>
           {settings.quietRange && <p className="small">Quiet range: {num(settings.quietRange[0])} – {num(settings.quietRange[1])} {xu}</p>}
           {noise && (
