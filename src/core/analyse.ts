@@ -8,7 +8,7 @@ import type { Recipe, Registry } from './recipe.ts';
 import type { Signal, SpikeEvent, StepContext } from './steps/types.ts';
 import type { Trace } from './trace.ts';
 import { interpolateLinear, meanStep } from './numeric/interpolate.ts';
-import { residual as residualOf, residualDiagnostics, type ResidualDiagnostics } from './diagnostics.ts';
+import { combineVerdict, HEIGHT_LOSS_TOLERANCE, residual as residualOf, residualDiagnostics, type ResidualDiagnostics } from './diagnostics.ts';
 import { measureNoise, type NoiseReport, type NoiseSettings, type StackRun } from './measure/noise-report.ts';
 import { matchPeaks, windowAdvice, type Ledger, type WindowAdvice } from './loss.ts';
 import { applyPeakDecisions, defaultPeakOptions, detectPeaks, type Peak, type PeakDecisions, type PeakOptions, type SnrDefinition } from './peaks.ts';
@@ -91,6 +91,8 @@ export interface LossReport {
   advice: WindowAdviceRow[];
   /** Features the current stack loses or weakens against the raw trace: what the export asks the user to confirm. */
   currentWarnings: string[];
+  /** The quantifiable ones among them (lost, crossing a limit, or weakened beyond HEIGHT_LOSS_TOLERANCE): they keep the residual verdict from reading clean. */
+  currentWeakened: string[];
 }
 
 export interface StepRunSummary {
@@ -232,7 +234,7 @@ function lossCheck(
     const r = runPipeline(raw, sample.id, alt.recipe, registry, ctx, cache);
     const m = measurePeaks(r.final, raw, noiseSettings, ps, ctx, stackOf(r, alt.recipe, registry, ctx, sample.id));
     const res = residualOfRun(raw, r);
-    const diag = res.ok && r.runs.some((x) => x.status === 'ok') ? residualDiagnostics(res.residual.y) : null;
+    const diag = res.ok && r.runs.some((x) => x.status === 'ok') ? residualDiagnostics(res.residual.y, maxAbs(raw.y)) : null;
     outcomes.push({
       id: alt.id, label: alt.label, processed: r.final, diagnostics: diag,
       noiseSigma: m.noise?.sigma.sigma ?? null, peakCount: m.peaks.length,
@@ -261,18 +263,31 @@ function lossCheck(
       if (a) advice.push({ uid: st.uid, stepLabel: registry.find((d) => d.id === st.step)?.label ?? st.step, advice: a });
     }
   }
-  const currentWarnings: string[] = [];
   const where = (x: number) => `${x.toPrecision(5)}${sample.xUnit ? ` ${sample.xUnit}` : ''}`;
-  for (const row of ledger.rows) {
-    // Only features present on the raw trace can be lost by the current stack (column 1).
-    if (row.firstFoundIn !== 0) continue;
-    const ref = row.cells[0], cur = row.cells[1];
-    if (ref.standing !== 'quantifiable' && ref.standing !== 'detectable') continue;
-    if (!cur.found) currentWarnings.push(`The feature at ${where(row.position)} (S/N ${ref.snr?.toFixed(1)} raw) is lost with the current stack.`);
-    else if (cur.crossed === 'down') currentWarnings.push(`The feature at ${where(row.position)} falls from ${ref.standing} (S/N ${ref.snr?.toFixed(1)}) to ${cur.standing.replace('-', ' ')} (S/N ${cur.snr?.toFixed(1)}) with the current stack.`);
-    else if (ref.standing === 'quantifiable' && cur.heightKept !== null && cur.heightKept < 80) currentWarnings.push(`The feature at ${where(row.position)} keeps only ${cur.heightKept.toFixed(0)} % of its raw height with the current stack.`);
-  }
-  return { ledger, noiseLevelRows, outcomes, narrowestFwhmPoints: narrowest, advice, currentWarnings };
+  const warningsIn = (col: number, quantifiableOnly: boolean): string[] => {
+    const out: string[] = [];
+    const stack = col === 1 ? 'the current stack' : `"${columns[col].label}"`;
+    for (const row of ledger.rows) {
+      // Only features present on the raw trace can be lost by a stack.
+      if (row.firstFoundIn !== 0) continue;
+      const ref = row.cells[0], cur = row.cells[col];
+      if (ref.standing !== 'quantifiable' && (quantifiableOnly || ref.standing !== 'detectable')) continue;
+      if (!cur.found) out.push(`The feature at ${where(row.position)} (S/N ${ref.snr?.toFixed(1)} raw) is lost with ${stack}.`);
+      else if (cur.crossed === 'down') out.push(`The feature at ${where(row.position)} falls from ${ref.standing} (S/N ${ref.snr?.toFixed(1)}) to ${cur.standing.replace('-', ' ')} (S/N ${cur.snr?.toFixed(1)}) with ${stack}.`);
+      else if (ref.standing === 'quantifiable' && cur.heightKept !== null && cur.heightKept < 100 * (1 - HEIGHT_LOSS_TOLERANCE)) out.push(`The feature at ${where(row.position)} keeps only ${cur.heightKept.toFixed(0)} % of its raw height with ${stack}.`);
+    }
+    return out;
+  };
+  const currentWarnings = warningsIn(1, false);
+  // The alternatives' verdicts cannot read clean while they weaken a quantifiable feature either.
+  outcomes.forEach((o, k) => { if (o.diagnostics) o.diagnostics = combineVerdict(o.diagnostics, warningsIn(k + 2, true)); });
+  return { ledger, noiseLevelRows, outcomes, narrowestFwhmPoints: narrowest, advice, currentWarnings, currentWeakened: warningsIn(1, true) };
+}
+
+function maxAbs(y: Float64Array): number {
+  let m = 0;
+  for (let i = 0; i < y.length; i++) { const a = Math.abs(y[i]); if (a > m) m = a; }
+  return m;
 }
 
 /**
@@ -341,7 +356,7 @@ export function analyse(
   const run = runPipeline(raw, sample.id, request.recipe, registry, ctx, cache);
   const { residual, note } = residualOfRun(raw, run);
   const processedSomething = run.runs.some((r) => r.status === 'ok');
-  const diagnostics = processedSomething && residual.y.length >= 3 ? residualDiagnostics(residual.y) : null;
+  const residualTests = processedSomething && residual.y.length >= 3 ? residualDiagnostics(residual.y, maxAbs(raw.y)) : null;
   const runs: StepRunSummary[] = run.runs.map((r) => ({
     uid: r.uid, step: r.step, status: r.status, message: r.message,
     notes: r.output?.notes ?? [], figures: r.output?.figures, cached: r.cached, ms: r.ms,
@@ -356,6 +371,7 @@ export function analyse(
   const measured = ps.measureOn === 'raw' ? raw : run.final;
   const main = measurePeaks(measured, raw, request.noise ?? DEFAULT_NOISE_SETTINGS, ps, ctx, stackOf(run, request.recipe, registry, ctx, sample.id), request.decisions);
   const loss = lossCheck(request, raw, sample, run, main, ctx, registry, cache);
+  const diagnostics = residualTests && loss ? combineVerdict(residualTests, loss.currentWeakened) : residualTests;
   return {
     noise: main.noise, peaks: main.peaks, peakOptions: main.peakOptions, peakProblem: main.peakProblem, diagnostics, loss,
     sampleId: sample.id, processed: run.final, residual, residualNote: note, baseline: run.baseline,

@@ -48,7 +48,10 @@ describe('analyse', () => {
     const smoothed = savitzkyGolay(baseOnly.processed.y, 11, 2, { mode: 'interp' });
     for (let i = 0; i < 2000; i += 97) expect(r.residual.y[i]).toBeCloseTo(baseOnly.processed.y[i] - smoothed[i], 12);
     expect(r.residualNote).toMatch(/on purpose/);
-    expect(r.diagnostics!.looksLikeNoise).toBe(true);
+    // A smoother's residual alternates (too many runs); on 2000 points the runs test rejects at p < 0.001,
+    // so the verdict reads 'caution' (never clean), but it shows no slow structure.
+    expect(r.diagnostics!.level).toBe('caution');
+    expect(r.diagnostics!.runs.z).toBeGreaterThan(0);
   });
 
   it('never changes the loaded trace', () => {

@@ -230,3 +230,28 @@ export function measureNoise(measured: Signal, raw: Signal, settings: NoiseSetti
     checks, assumptionsHeld, provisional: carried?.provisional ?? false, peakToPeak, notes,
   };
 }
+
+const HELD_WORDS = { true: 'held', false: 'DID NOT HOLD', null: 'not tested' } as const;
+
+/** One line per check: "Noise check (held): …". */
+export function noiseCheckLines(checks: readonly NoiseCheck[]): string[] {
+  return checks.map((c) => `Noise check (${HELD_WORDS[String(c.held) as 'true' | 'false' | 'null']}): ${c.text}`);
+}
+
+/**
+ * The noise lines every export carries (peak CSV header, HTML report): the
+ * verdict on the assumptions, each check, whether S/N is provisional, and how
+ * σ varies along the trace.
+ */
+export function noiseSummaryLines(n: NoiseReport): string[] {
+  const lines: string[] = [];
+  lines.push(n.assumptionsHeld
+    ? 'Noise assumptions: all that could be tested held.'
+    : 'Noise assumptions: AT LEAST ONE DID NOT HOLD or a fallback was used (see the checks below); treat S/N with care.');
+  lines.push(...noiseCheckLines(n.checks));
+  const [lo, hi] = profileRange(n.profile);
+  if (hi > lo * 1.001) lines.push(`σ along the measured trace: from ${fmt(lo)} to ${fmt(hi)} (median ${fmt(n.sigma.sigma)}); each peak's S/N H/σ uses the σ at its apex.`);
+  if (n.rho.length > 1) lines.push(`Raw noise autocorrelation used to carry σ (lags 1–${n.rho.length - 1}): ${Array.from(n.rho.subarray(1)).map((v) => fmt(v, 3)).join(', ')}.`);
+  if (n.provisional) lines.push('S/N is PROVISIONAL: the processed σ is still being worked out.');
+  return lines;
+}
