@@ -563,7 +563,7 @@ export function blockedCorrelation(y: Float64Array, mask: Uint8Array | null, max
 // ---------------------------------------------------------------------------------------------
 // 4. Noise against signal level
 
-interface LevelTest { check: NoiseCheck; blocks: { start: number; sigma: number; points: number }[] | null }
+interface LevelTest { check: NoiseCheck; along: NoiseCheck; blocks: { start: number; sigma: number; points: number }[] | null }
 
 /**
  * Compare the finest-scale spread in blocks at the lowest and highest third
@@ -587,15 +587,38 @@ function levelTest(y: Float64Array, mask: Uint8Array, sigma: number, scratch: Fl
     blocks.push({ start: from, sigma: f.sigma, points: f.points, level });
   }
   const usable = blocks.filter((b) => b.points >= 64 && b.sigma > 0);
-  const untestable = (why: string): LevelTest => ({ check: { id: 'level', held: null, text: `Whether noise grows with the signal could not be tested: ${why}.` }, blocks: null });
+  const untestable = (why: string): LevelTest => ({
+    check: { id: 'level', held: null, text: `Whether noise grows with the signal could not be tested: ${why}.` },
+    along: { id: 'along', held: null, text: `Whether the noise varies along the trace could not be tested: ${why}.` },
+    blocks: null,
+  });
   if (usable.length < 6) return untestable(`fewer than 6 stretches of ${size} points hold 64 or more points outside features`);
-  usable.sort((p, q) => p.level - q.level);
+  const med = (a: number[]) => { const s = [...a].sort((p, q) => p - q); const h = s.length >> 1; return s.length % 2 ? s[h] : (s[h - 1] + s[h]) / 2; };
+  // Along the trace: is the scatter of the stretches' log σ beyond what sampling gives? The sampling SD of a
+  // MAD-based log σ is 1.17/√m (Hampel 1974), × 1.3 measured for overlapping second differences (white,
+  // AR(1) and drifting seeded noise: 0.9–1.4 ×); χ² test at p = 0.001 (Wilson–Hilferty quantile), and the
+  // upper third's median spread at least 1.25 × the lower third's.
+  const zs = usable.map((b) => Math.log(b.sigma)), ws = usable.map((b) => b.points / (1.3 * 1.17) ** 2);
+  const zbar = zs.reduce((s, z, k) => s + ws[k] * z, 0) / ws.reduce((s, w) => s + w, 0);
+  const q = zs.reduce((s, z, k) => s + ws[k] * (z - zbar) ** 2, 0);
+  const nu = usable.length - 1;
+  const q999 = nu * (1 - 2 / (9 * nu) + 3.090 * Math.sqrt(2 / (9 * nu))) ** 3;
+  const bySigma = usable.map((b) => b.sigma).sort((p, q2) => p - q2);
+  const third = Math.max(1, Math.floor(bySigma.length / 3));
+  const spread = med(bySigma.slice(bySigma.length - third)) / med(bySigma.slice(0, third));
+  const varies = q > q999 && spread > 1.25;
+  const along: NoiseCheck = varies
+    ? { id: 'along', held: false, text: `The noise varies along the trace: the spread in the noisiest third of ${usable.length} stretches is ${fmt(spread, 2)} × that in the quietest third, beyond sampling (χ² ${fmt(q, 3)} against ${fmt(q999, 3)} at p = 0.001); σ is therefore given along the trace.` }
+    : { id: 'along', held: true, text: `The noise is steady along the trace (${usable.length} stretches, noisiest third ${fmt(spread, 2)} × the quietest, within sampling or 1.25 ×).` };
+  usable.sort((p, q2) => p.level - q2.level);
   const t = Math.floor(usable.length / 3);
   const low = usable.slice(0, t), high = usable.slice(usable.length - t);
-  const med = (a: number[]) => { const s = [...a].sort((p, q) => p - q); const h = s.length >> 1; return s.length % 2 ? s[h] : (s[h - 1] + s[h]) / 2; };
   const sLow = med(low.map((b) => b.sigma)), sHigh = med(high.map((b) => b.sigma));
   const lLow = med(low.map((b) => b.level)), lHigh = med(high.map((b) => b.level));
-  if (!(lHigh - lLow > 5 * sigma)) return untestable(`the signal level varies by less than 5 σ along the trace`);
+  const profileBlocks = () => blocks.map((b) => ({ start: b.start, sigma: b.sigma, points: b.points }));
+  if (!(lHigh - lLow > 5 * sigma)) {
+    return { check: { id: 'level', held: null, text: 'Whether noise grows with the signal could not be tested: the signal level varies by less than 5 σ along the trace.' }, along, blocks: varies ? profileBlocks() : null };
+  }
   // Relative SE of a third's median spread: 1.25 × 1.17 / √(points in that third).
   const se = (g: typeof low) => (1.25 * 1.17) / Math.sqrt(g.reduce((s, b) => s + b.points, 0));
   const seRatio = Math.hypot(se(low), se(high));
@@ -604,7 +627,7 @@ function levelTest(y: Float64Array, mask: Uint8Array, sigma: number, scratch: Fl
   const text = grows
     ? `Noise ${ratio > 1 ? 'grows' : 'falls'} with the signal: the spread at the highest third of the signal level (median ${fmt(lHigh)}) is ${fmt(ratio, 2)} × that at the lowest third (median ${fmt(lLow)}), beyond the 1.2 × and 3-standard-error limits; σ is therefore given along the trace, in ${blocks.length} stretches of ${size} points.`
     : `Noise does not grow with the signal: the spread at the highest third of the signal level is ${fmt(ratio, 2)} × that at the lowest third (within 1.2 × or 3 standard errors).`;
-  return { check: { id: 'level', held: !grows, text }, blocks: grows ? blocks.map((b) => ({ start: b.start, sigma: b.sigma, points: b.points })) : null };
+  return { check: { id: 'level', held: !grows, text }, along, blocks: grows || varies ? profileBlocks() : null };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -662,7 +685,11 @@ export function rawNoiseModel(y: Float64Array, options: { maxLags?: number } = {
   });
 
   // Noise against the signal level first: where it varies, the correlation is pooled in units of the local σ.
-  const lt = useMask ? levelTest(y, mask, f2.sigma, scratch) : { check: { id: 'level', held: null, text: 'Whether noise grows with the signal could not be tested (features everywhere).' }, blocks: null };
+  const lt: LevelTest = useMask ? levelTest(y, mask, f2.sigma, scratch) : {
+    check: { id: 'level', held: null, text: 'Whether noise grows with the signal could not be tested (features everywhere).' },
+    along: { id: 'along', held: null, text: 'Whether the noise varies along the trace could not be tested (features everywhere).' },
+    blocks: null,
+  };
   const blocks = lt.blocks;
   let localFinest: Float64Array | null = null;
   if (blocks) {
@@ -707,13 +734,13 @@ export function rawNoiseModel(y: Float64Array, options: { maxLags?: number } = {
     if (bc.beyond) checks.push({ id: 'correlation-length', held: false, text: `The noise is still correlated at lag ${bc.lags} (ρ = ${fmt(rho[bc.lags], 2)}); correlation beyond ${bc.lags} points is not counted, so σ and the carried σ may be too small.` });
   }
   const sigma0 = f2.sigma * factor;
-  checks.push(lt.check);
+  checks.push(lt.check, lt.along);
   const profile = localFinest && blockStarts
     ? { points: n, starts: blockStarts, sigma: localFinest.map((v) => v * factor) }
     : constantProfile(n, sigma0);
   const sigma = profileMedian(profile);
   const assumptionsHeld = checks.every((c) => c.held !== false);
-  const description = `σ = 1.4826 × median absolute deviation of the second differences / √6 over ${f2.points} points outside features (finest scale, after Donoho and Johnstone 1994)${corrText}${blocks ? `; given along the trace in ${blocks.length} stretches since the noise grows with the signal (median ${fmt(sigma)})` : ''}.`;
+  const description = `σ = 1.4826 × median absolute deviation of the second differences / √6 over ${f2.points} points outside features (finest scale, after Donoho and Johnstone 1994)${corrText}${blocks ? `; given along the trace in ${blocks.length} stretches since the noise is not the same everywhere (median ${fmt(sigma)})` : ''}.`;
   return {
     sigma, profile, sigmaFinest: f2.sigma, rho, points: f2.points, correlationPoints: corrPoints,
     maskedFraction: masked / n, method: 'finest-scale-mad', description, checks, assumptionsHeld,
