@@ -39,7 +39,7 @@ export function NoisePanel() {
         <div>
           <label className="param" htmlFor="noise-method">
             <span className="param-label">Noise σ for S/N</span>
-            <select id="noise-method" value={settings.method} onChange={(e) => setNoiseSettings({ method: e.target.value as NoiseMethod })}>
+            <select id="noise-method" value={settings.method === 'rms' || settings.method === 'blank' ? settings.method : 'auto'} onChange={(e) => setNoiseSettings({ method: e.target.value as NoiseMethod })}>
               <option value="auto">automatic: finest-scale spread of the raw trace, carried through the steps</option>
               <option value="rms">RMS about a straight line over the quiet range (raw trace), carried through the steps</option>
               <option value="blank">the blank&apos;s own noise, carried through the steps</option>

@@ -259,7 +259,7 @@ export function carryLinear(raw: Signal, run: PipelineResult, recipe: Recipe, re
   const profile = profileFromValues(values);
   const sigma = profileMedian(profile);
   const gain = Math.sqrt(gainVar);
-  const desc = `Carried exactly through the linear stack: the raw σ × ${fmt(gain)}, the stack's noise gain from its impulse response (${2 * half + 1} points wide) and the raw noise's autocorrelation over ${L} lag${L === 1 ? '' : 's'}${L === 0 ? ' (white)' : ''}${shares.length ? `; ${shares.join('; ')}` : ''}${half > 0 ? '; exact row by row at the ends' : ''}.`;
+  const desc = `Carried exactly through the linear stack: the raw σ × ${fmt(gain)}, the stack's noise gain from its impulse response (${2 * half + 1} points wide) and ${L === 0 ? 'white raw noise (no correlation measured)' : `the raw noise's autocorrelation over ${L} lag${L === 1 ? '' : 's'}`}${shares.length ? `; ${shares.join('; ')}` : ''}${half > 0 ? '; exact row by row at the ends' : ''}.`;
   return { route: 'linear', profile, sigma, gain, lags: L, realisations: 0, provisional: false, description: desc, notes };
 }
 
@@ -366,7 +366,7 @@ export function carrySimulated(raw: Signal, run: PipelineResult, recipe: Recipe,
   const sigma = profileMedian(profile);
   const gain = noise.sample.sigma > 0 ? sigma / noise.sample.sigma : NaN;
   const L = noise.sample.rho.length - 1;
-  const desc = `Carried by simulation: ${R} seeded noise series with the raw trace's σ and autocorrelation (${L} lag${L === 1 ? '' : 's'}) were added to and taken from the raw trace${others.length ? ` and ${others.map((o) => o.label).join(' and ')}` : ''}, the stack run on each, and half the spread of the difference pooled in stretches of ${B} points (median ${fmt(sigma)}, ${fmt(gain)} × the raw σ).`;
+  const desc = `Carried by simulation: ${R} seeded noise series with the raw trace's σ and ${L === 0 ? 'no correlation (none measured)' : `autocorrelation (${L} lag${L === 1 ? '' : 's'})`} were added to and taken from the raw trace${others.length ? ` and ${others.map((o) => o.label).join(' and ')}` : ''}, the stack run on each, and half the spread of the difference pooled in stretches of ${B} points (median ${fmt(sigma)}, ${fmt(gain)} × the raw σ).`;
   return { route: 'simulated', profile, sigma, gain, lags: L, realisations: R, provisional: false, description: desc, notes: [] };
 }
 

@@ -712,7 +712,7 @@ export function rawNoiseModel(y: Float64Array, options: { maxLags?: number } = {
   let corrPoints = 0;
   let corrText: string;
   if (!bc) {
-    checks.push({ id: 'correlation', held: false, text: `Fewer than ${FEWEST_CORRELATION_POINTS} points lie in stretches between features long enough to measure the noise correlation; white noise is assumed, so σ is too small if the noise is correlated.` });
+    checks.push({ id: 'correlation', held: null, text: `Fewer than ${FEWEST_CORRELATION_POINTS} points lie in stretches between features long enough to measure the noise correlation; white noise is assumed, untested, so σ is too small if the noise is correlated.` });
     corrText = ', white noise assumed (too few points between features to measure the correlation)';
   } else if (bc.factor === null) {
     checks.push({

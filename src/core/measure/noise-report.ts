@@ -183,7 +183,8 @@ function otherSources(ctx: StepContext): Pick<NoiseSources, 'blank' | 'scans'> {
 export function measureNoise(measured: Signal, raw: Signal, settings: NoiseSettings, stack: StackRun | null): NoiseReport {
   const notes: string[] = [];
   const method: NoiseMethod = settings.method === 'rms' || settings.method === 'blank' ? settings.method : 'auto';
-  if (method !== settings.method) notes.push(`The noise method "${String(settings.method)}" (from an older session) is no longer offered; the automatic estimate is used.`);
+  // 'windows' was the automatic estimate of earlier versions; 'robust' (point-to-point differences) is gone.
+  if (method !== settings.method && String(settings.method) !== 'windows') notes.push(`The noise method "${String(settings.method)}" (from an older session) is no longer offered; the automatic estimate is used.`);
   const ctx = stack?.ctx ?? {};
   const choice = rawChoice(raw, { ...settings, method }, ctx, notes);
   let peakToPeak: NoiseEstimate | null = null;
