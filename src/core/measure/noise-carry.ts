@@ -152,6 +152,34 @@ function responseTo(
   return g;
 }
 
+/** Points of the piece around the middle on which the centre response is tried first. */
+export const CENTRE_PIECE = 8192;
+
+/**
+ * The stack's response to a unit change of the middle sample. On traces
+ * longer than {@link CENTRE_PIECE} it is first taken on that many points
+ * around the middle, and kept when its non-negligible part stays within an
+ * eighth of the piece from the centre (the stack then cannot tell the piece
+ * from the whole trace there); otherwise on the whole trace.
+ */
+function centreResponse(raw: Signal, run: PipelineResult, recipe: Recipe, registry: Registry, ctx: StepContext): { g: Float64Array; c: number } {
+  const n = raw.x.length;
+  if (n > 2 * CENTRE_PIECE) {
+    const a = (n >> 1) - (CENTRE_PIECE >> 1);
+    const piece: Signal = { x: raw.x.subarray(a, a + CENTRE_PIECE), y: raw.y.subarray(a, a + CENTRE_PIECE) };
+    try {
+      const base = processed(piece, recipe, registry, ctx);
+      if (base.length === CENTRE_PIECE) {
+        const c = CENTRE_PIECE >> 1;
+        const g = responseTo(piece, recipe, registry, ctx, base, piece.y, c);
+        if (halfSupport(g, c) <= CENTRE_PIECE / 8) return { g, c };
+      }
+    } catch { /* a step that does not fit the piece: use the whole trace */ }
+  }
+  const c = n >> 1;
+  return { g: responseTo(raw, recipe, registry, ctx, run.final.y, raw.y, c), c };
+}
+
 /** Half-width of the non-negligible part of g around index c (|g| above 1e-12 of its largest entry). */
 function halfSupport(g: Float64Array, c: number): number {
   let m = 0;
@@ -223,9 +251,9 @@ export function carryLinear(raw: Signal, run: PipelineResult, recipe: Recipe, re
   const rho = noise.sample.rho;
   const L = rho.length - 1;
   const notes: string[] = [];
-  // The sample's own share: interior response at the middle.
-  const c = n >> 1;
-  const g = responseTo(raw, recipe, registry, ctx, base, raw.y, c);
+  // The sample's own share: interior response at the middle, first on a piece around it (cheap on long
+  // traces); kept only when the response stays well inside the piece, else taken on the whole trace.
+  const { g, c } = centreResponse(raw, run, recipe, registry, ctx);
   const gainVar = passedVariance(g, rho);
   const half = halfSupport(g, c);
   const gainSq = new Float64Array(n).fill(gainVar);
