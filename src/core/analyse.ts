@@ -8,25 +8,14 @@ import type { Recipe, Registry } from './recipe.ts';
 import type { Signal, SpikeEvent, StepContext } from './steps/types.ts';
 import type { Trace } from './trace.ts';
 import { interpolateLinear, meanStep } from './numeric/interpolate.ts';
-import { residual as residualOf, residualDiagnostics, type ResidualDiagnostics } from './diagnostics.ts';
-import { noisePeakToPeak, noiseRms, noiseRobust, type NoiseEstimate } from './noise.ts';
-import { featureMask, noiseQuietWindows } from './noise-windows.ts';
+import { combineVerdict, HEIGHT_LOSS_TOLERANCE, residual as residualOf, residualDiagnostics, type ResidualDiagnostics } from './diagnostics.ts';
+import { measureNoise, type NoiseReport, type NoiseSettings, type StackRun } from './measure/noise-report.ts';
 import { matchPeaks, windowAdvice, type Ledger, type WindowAdvice } from './loss.ts';
 import { applyPeakDecisions, defaultPeakOptions, detectPeaks, type Peak, type PeakDecisions, type PeakOptions, type SnrDefinition } from './peaks.ts';
 
-/**
- * How noise is measured for S/N = H/σ: 'windows' (automatic, median of
- * local SDs; valid after smoothing), 'rms' (about a line over the quiet
- * range the user marked), 'robust' (point-to-point differences; white noise
- * only, so raw traces only).
- */
-export type NoiseMethod = 'windows' | 'rms' | 'robust';
-
-export interface NoiseSettings {
-  method: NoiseMethod;
-  /** Quiet baseline range the user marked (x-units); needed by 'rms' and for the peak-to-peak figure. */
-  quietRange: [number, number] | null;
-}
+export { DEFAULT_NOISE_SETTINGS, measureNoise } from './measure/noise-report.ts';
+export type { NoiseMethod, NoiseReport, NoiseSettings } from './measure/noise-report.ts';
+import { DEFAULT_NOISE_SETTINGS } from './measure/noise-report.ts';
 
 /** Peak thresholds as the user sets them; prominence in multiples of σ so it scales with the data. */
 export interface PeakSettings {
@@ -45,23 +34,10 @@ export interface PeakSettings {
   quantitationLimit: number;
 }
 
-export const DEFAULT_NOISE_SETTINGS: NoiseSettings = { method: 'windows', quietRange: null };
-
 export const DEFAULT_PEAK_SETTINGS: PeakSettings = {
   measureOn: 'processed', minProminenceSigma: 2, minSnr: 2, minWidth: 0, minSeparation: 0,
   snrDefinition: 'rms', pharmacopoeialMultiplier: 5, negative: false, detectionLimit: 3, quantitationLimit: 10,
 };
-
-export interface NoiseReport {
-  /** σ used for H/σ on the measured trace. */
-  sigma: NoiseEstimate;
-  /** The same estimator on the raw trace, so the user sees what smoothing did to the noise. */
-  rawSigma: NoiseEstimate | null;
-  /** Peak-to-peak range over the quiet range, when one is marked. */
-  peakToPeak: NoiseEstimate | null;
-  /** Sentences: fallbacks and problems. */
-  notes: string[];
-}
 
 export interface AnalyseRequest {
   sampleId: string;
@@ -115,6 +91,8 @@ export interface LossReport {
   advice: WindowAdviceRow[];
   /** Features the current stack loses or weakens against the raw trace: what the export asks the user to confirm. */
   currentWarnings: string[];
+  /** The quantifiable ones among them (lost, crossing a limit, or weakened beyond HEIGHT_LOSS_TOLERANCE): they keep the residual verdict from reading clean. */
+  currentWeakened: string[];
 }
 
 export interface StepRunSummary {
@@ -161,60 +139,10 @@ export interface AnalyseResult {
 /**
  * What depends on the raw trace alone is worked out once per trace and kept
  * while the trace lives (raw arrays are never changed, so their identity is
- * a safe key): the feature mask, and the reference peak table per settings.
+ * a safe key): the reference peak table per settings (the raw noise model is
+ * kept the same way, in measure/noise-report.ts).
  */
-const MASKS = new WeakMap<Float64Array, Uint8Array>();
 const REFERENCES = new WeakMap<Float64Array, Map<string, Measured>>();
-
-/** Measure noise on `sig` by the chosen method; `raw` gives the comparison figure. */
-export function measureNoise(sig: Signal, raw: Signal, settings: NoiseSettings): NoiseReport {
-  const notes: string[] = [];
-  let rawMask: Uint8Array | null = MASKS.get(raw.y) ?? null;
-  // Features are found once on the raw trace and carried to the measured grid.
-  const maskOn = (s: Signal): Uint8Array => {
-    if (!rawMask) { rawMask = featureMask(raw.x, raw.y); MASKS.set(raw.y, rawMask); }
-    if (s.x.length === raw.x.length) return rawMask;
-    const m = new Uint8Array(s.x.length);
-    let j = 0;
-    for (let i = 0; i < s.x.length; i++) {
-      while (j < raw.x.length - 1 && raw.x[j + 1] <= s.x[i]) j++;
-      m[i] = rawMask[j] | rawMask[Math.min(j + 1, raw.x.length - 1)];
-    }
-    return m;
-  };
-  const pick = (s: Signal): NoiseEstimate | null => {
-    if (settings.method === 'rms') {
-      if (settings.quietRange) {
-        const r = noiseRms(s.x, s.y, settings.quietRange[0], settings.quietRange[1]);
-        if (r.ok) return r;
-        notes.push(`${r.message} The automatic estimate is used instead.`);
-      } else {
-        notes.push('No quiet baseline range is marked, so the automatic estimate is used. Mark a range on the plot to use the RMS about a line.');
-      }
-    }
-    if (settings.method === 'robust') {
-      if (s !== raw) notes.push('Point-to-point differences assume white noise; on a smoothed trace they understate σ and overstate S/N. Prefer the automatic estimate or a quiet range.');
-      const r = noiseRobust(s.y);
-      if (r.ok) return r;
-    }
-    const w = noiseQuietWindows(s.x, s.y, maskOn(s));
-    if (w.ok) return w;
-    const r = noiseRobust(s.y);
-    if (r.ok) { notes.push(`${w.message} The point-to-point estimate is used.`); return r; }
-    return null;
-  };
-  const sigma = pick(sig);
-  const before = notes.length;
-  const rawSigma = sig === raw ? sigma : pick(raw);
-  notes.length = before; // fallback sentences for the raw comparison would repeat the same advice
-  let peakToPeak: NoiseEstimate | null = null;
-  if (settings.quietRange) {
-    const r = noisePeakToPeak(sig.x, sig.y, settings.quietRange[0], settings.quietRange[1]);
-    if (r.ok) peakToPeak = r; else notes.push(r.message);
-  }
-  if (!sigma) throw new Error('noise could not be estimated on a valid trace');
-  return { sigma, rawSigma, peakToPeak, notes };
-}
 
 interface Measured {
   noise: NoiseReport | null;
@@ -224,9 +152,9 @@ interface Measured {
 }
 
 /** Noise and peaks on one signal with the user's settings. */
-function measurePeaks(measured: Signal, raw: Signal, noiseSettings: NoiseSettings, ps: PeakSettings, ctx: StepContext, decisions?: PeakDecisions): Measured {
+function measurePeaks(measured: Signal, raw: Signal, noiseSettings: NoiseSettings, ps: PeakSettings, ctx: StepContext, stack: StackRun | null, decisions?: PeakDecisions): Measured {
   if (measured.y.length < 5) return { noise: null, peaks: [], peakOptions: null, peakProblem: 'Fewer than 5 points: no peaks can be measured.' };
-  const noise = measureNoise(measured, raw, noiseSettings);
+  const noise = measureNoise(measured, raw, noiseSettings, measured === raw ? null : stack);
   const sigma = noise.sigma.sigma;
   if (!(sigma > 0)) {
     return { noise, peaks: [], peakOptions: null, peakProblem: 'The noise is zero (the trace is perfectly smooth or constant), so S/N cannot be measured. Mark a quiet range with some noise, or measure on the raw trace.' };
@@ -244,6 +172,7 @@ function measurePeaks(measured: Signal, raw: Signal, noiseSettings: NoiseSetting
     negative: ps.negative,
     limits: { detection: ps.detectionLimit, quantitation: ps.quantitationLimit },
     pharmacopoeialNoise: ctx.blank ? { x: ctx.blank.x, y: ctx.blank.y, fromBlank: true } : undefined,
+    noiseProfile: noise.profile,
   };
   try {
     let peaks = detectPeaks(measured.x, measured.y, peakOptions);
@@ -252,6 +181,10 @@ function measurePeaks(measured: Signal, raw: Signal, noiseSettings: NoiseSetting
   } catch (e) {
     return { noise, peaks: [], peakOptions, peakProblem: (e as Error).message };
   }
+}
+
+function stackOf(run: ReturnType<typeof runPipeline>, recipe: Recipe, registry: Registry, ctx: StepContext, sampleId: string): StackRun {
+  return { run, recipe, registry, ctx, cacheKey: sampleId };
 }
 
 /** Smoothing steps whose window gets advice, and how to read it. */
@@ -286,12 +219,12 @@ function lossCheck(
   if (!refs) { refs = new Map(); REFERENCES.set(raw.y, refs); }
   let reference = refs.get(refKey);
   if (!reference) {
-    reference = measurePeaks(raw, raw, noiseSettings, ps, ctx);
+    reference = measurePeaks(raw, raw, noiseSettings, ps, ctx, null);
     if (refs.size > 8) refs.clear();
     refs.set(refKey, reference);
   }
   const reuse = (request.peaks ?? DEFAULT_PEAK_SETTINGS).measureOn === 'processed' && !request.decisions?.added.length && !request.decisions?.removed.length;
-  const current = reuse ? main : measurePeaks(run.final, raw, noiseSettings, ps, ctx);
+  const current = reuse ? main : measurePeaks(run.final, raw, noiseSettings, ps, ctx, stackOf(run, request.recipe, registry, ctx, sample.id));
   const columns = [
     { id: 'raw', label: 'no processing (raw)', peaks: reference.peaks },
     { id: 'current', label: 'the current stack', peaks: current.peaks },
@@ -299,9 +232,9 @@ function lossCheck(
   const outcomes: AlternativeOutcome[] = [];
   for (const alt of alts) {
     const r = runPipeline(raw, sample.id, alt.recipe, registry, ctx, cache);
-    const m = measurePeaks(r.final, raw, noiseSettings, ps, ctx);
+    const m = measurePeaks(r.final, raw, noiseSettings, ps, ctx, stackOf(r, alt.recipe, registry, ctx, sample.id));
     const res = residualOfRun(raw, r);
-    const diag = res.ok && r.runs.some((x) => x.status === 'ok') ? residualDiagnostics(res.residual.y) : null;
+    const diag = res.ok && r.runs.some((x) => x.status === 'ok') ? residualDiagnostics(res.residual.y, maxAbs(raw.y)) : null;
     outcomes.push({
       id: alt.id, label: alt.label, processed: r.final, diagnostics: diag,
       noiseSigma: m.noise?.sigma.sigma ?? null, peakCount: m.peaks.length,
@@ -330,18 +263,31 @@ function lossCheck(
       if (a) advice.push({ uid: st.uid, stepLabel: registry.find((d) => d.id === st.step)?.label ?? st.step, advice: a });
     }
   }
-  const currentWarnings: string[] = [];
   const where = (x: number) => `${x.toPrecision(5)}${sample.xUnit ? ` ${sample.xUnit}` : ''}`;
-  for (const row of ledger.rows) {
-    // Only features present on the raw trace can be lost by the current stack (column 1).
-    if (row.firstFoundIn !== 0) continue;
-    const ref = row.cells[0], cur = row.cells[1];
-    if (ref.standing !== 'quantifiable' && ref.standing !== 'detectable') continue;
-    if (!cur.found) currentWarnings.push(`The feature at ${where(row.position)} (S/N ${ref.snr?.toFixed(1)} raw) is lost with the current stack.`);
-    else if (cur.crossed === 'down') currentWarnings.push(`The feature at ${where(row.position)} falls from ${ref.standing} (S/N ${ref.snr?.toFixed(1)}) to ${cur.standing.replace('-', ' ')} (S/N ${cur.snr?.toFixed(1)}) with the current stack.`);
-    else if (ref.standing === 'quantifiable' && cur.heightKept !== null && cur.heightKept < 80) currentWarnings.push(`The feature at ${where(row.position)} keeps only ${cur.heightKept.toFixed(0)} % of its raw height with the current stack.`);
-  }
-  return { ledger, noiseLevelRows, outcomes, narrowestFwhmPoints: narrowest, advice, currentWarnings };
+  const warningsIn = (col: number, quantifiableOnly: boolean): string[] => {
+    const out: string[] = [];
+    const stack = col === 1 ? 'the current stack' : `"${columns[col].label}"`;
+    for (const row of ledger.rows) {
+      // Only features present on the raw trace can be lost by a stack.
+      if (row.firstFoundIn !== 0) continue;
+      const ref = row.cells[0], cur = row.cells[col];
+      if (ref.standing !== 'quantifiable' && (quantifiableOnly || ref.standing !== 'detectable')) continue;
+      if (!cur.found) out.push(`The feature at ${where(row.position)} (S/N ${ref.snr?.toFixed(1)} raw) is lost with ${stack}.`);
+      else if (cur.crossed === 'down') out.push(`The feature at ${where(row.position)} falls from ${ref.standing} (S/N ${ref.snr?.toFixed(1)}) to ${cur.standing.replace('-', ' ')} (S/N ${cur.snr?.toFixed(1)}) with ${stack}.`);
+      else if (ref.standing === 'quantifiable' && cur.heightKept !== null && cur.heightKept < 100 * (1 - HEIGHT_LOSS_TOLERANCE)) out.push(`The feature at ${where(row.position)} keeps only ${cur.heightKept.toFixed(0)} % of its raw height with ${stack}.`);
+    }
+    return out;
+  };
+  const currentWarnings = warningsIn(1, false);
+  // The alternatives' verdicts cannot read clean while they weaken a quantifiable feature either.
+  outcomes.forEach((o, k) => { if (o.diagnostics) o.diagnostics = combineVerdict(o.diagnostics, warningsIn(k + 2, true)); });
+  return { ledger, noiseLevelRows, outcomes, narrowestFwhmPoints: narrowest, advice, currentWarnings, currentWeakened: warningsIn(1, true) };
+}
+
+function maxAbs(y: Float64Array): number {
+  let m = 0;
+  for (let i = 0; i < y.length; i++) { const a = Math.abs(y[i]); if (a > m) m = a; }
+  return m;
 }
 
 /**
@@ -410,7 +356,7 @@ export function analyse(
   const run = runPipeline(raw, sample.id, request.recipe, registry, ctx, cache);
   const { residual, note } = residualOfRun(raw, run);
   const processedSomething = run.runs.some((r) => r.status === 'ok');
-  const diagnostics = processedSomething && residual.y.length >= 3 ? residualDiagnostics(residual.y) : null;
+  const residualTests = processedSomething && residual.y.length >= 3 ? residualDiagnostics(residual.y, maxAbs(raw.y)) : null;
   const runs: StepRunSummary[] = run.runs.map((r) => ({
     uid: r.uid, step: r.step, status: r.status, message: r.message,
     notes: r.output?.notes ?? [], figures: r.output?.figures, cached: r.cached, ms: r.ms,
@@ -423,8 +369,9 @@ export function analyse(
   }
   const ps = request.peaks ?? DEFAULT_PEAK_SETTINGS;
   const measured = ps.measureOn === 'raw' ? raw : run.final;
-  const main = measurePeaks(measured, raw, request.noise ?? DEFAULT_NOISE_SETTINGS, ps, ctx, request.decisions);
+  const main = measurePeaks(measured, raw, request.noise ?? DEFAULT_NOISE_SETTINGS, ps, ctx, stackOf(run, request.recipe, registry, ctx, sample.id), request.decisions);
   const loss = lossCheck(request, raw, sample, run, main, ctx, registry, cache);
+  const diagnostics = residualTests && loss ? combineVerdict(residualTests, loss.currentWeakened) : residualTests;
   return {
     noise: main.noise, peaks: main.peaks, peakOptions: main.peakOptions, peakProblem: main.peakProblem, diagnostics, loss,
     sampleId: sample.id, processed: run.final, residual, residualNote: note, baseline: run.baseline,

@@ -13,6 +13,7 @@
  * peaks that end up in the table.
  */
 import { indexRange, noiseRangeAround } from './noise.ts';
+import { sigmaAt, type SigmaProfile } from './measure/noise-profile.ts';
 
 /** How a peak's S/N is defined. */
 export type SnrDefinition = 'rms' | 'pharmacopoeial' | 'region';
@@ -66,6 +67,8 @@ export interface PeakOptions {
   minSeparation: number;
   /** The σ (y-units) used for the RMS S/N = H/σ. */
   noiseSigma: number;
+  /** σ along the trace (measure/noise-profile.ts); when given, a peak's H/σ uses the σ at its apex instead of noiseSigma. */
+  noiseProfile?: SigmaProfile;
   /** Which S/N the `snr` column and the flags use. */
   snrDefinition: SnrDefinition;
   /** Width of the pharmacopoeial noise window in half-height widths (current texts: at least 5). */
@@ -757,6 +760,12 @@ interface Candidate {
   note?: string;
 }
 
+/** The σ for a peak with its apex at sample i: the profile's there, else the single σ. */
+function sigmaNear(o: PeakOptions, i: number): number {
+  const s = o.noiseProfile ? sigmaAt(o.noiseProfile, i) : o.noiseSigma;
+  return s > 0 ? s : o.noiseSigma;
+}
+
 function checkOptions(x: Float64Array, y: Float64Array, o: PeakOptions): void {
   if (x.length !== y.length) throw new RangeError(`x has ${x.length} values but y has ${y.length}; they must be the same length.`);
   if (x.length < 3) throw new RangeError(`The trace has ${x.length} point(s); peaks need at least 3.`);
@@ -783,7 +792,7 @@ function makePeak(x: Float64Array, y: Float64Array, s: Float64Array, sign: numbe
   const xApex = Number.isNaN(c.apex) ? apexPosition(x, s, i, fwhmPoints) : c.apex;
   const hs = Number.isNaN(c.height) ? heightAbove(x, s, i, xApex, fwhmPoints, c.leftBase, c.rightBase, o.noiseSigma) : c.height;
   const q = baseHalfWindow(fwhmPoints);
-  const snrRms = Math.abs(hs) / o.noiseSigma;
+  const snrRms = Math.abs(hs) / sigmaNear(o, i);
   const pn = pharmacopoeialNoise(x, y, xApex, fwhm, o, i);
   const snrPharma = pn && pn.h > 0 ? (2 * Math.abs(hs)) / pn.h : null;
   const wantRegion = o.snrDefinition === 'region' || o.regionSnr === true;
@@ -924,7 +933,7 @@ export function detectPeaks(x: Float64Array, y: Float64Array, options: PeakOptio
       const hs = heightAbove(x, s, i, xApex, w.widths[k], lb[k], rb[k], o.noiseSigma);
       heights[k] = hs; apexes[k] = xApex;
       let snr: number | null;
-      if (o.snrDefinition === 'rms') snr = Math.abs(hs) / o.noiseSigma;
+      if (o.snrDefinition === 'rms') snr = Math.abs(hs) / sigmaNear(o, i);
       else {
         const pn = pharmacopoeialNoise(x, y, xApex, fwhm, o, i);
         snr = pn && pn.h > 0 ? (2 * Math.abs(hs)) / pn.h : null;

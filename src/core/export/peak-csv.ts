@@ -10,6 +10,7 @@ import type { NoiseEstimate } from '../noise.ts';
 import type { Peak, PeakFlag, SnrDefinition } from '../peaks.ts';
 import type { Recipe, Registry } from '../recipe.ts';
 import type { Trace } from '../trace.ts';
+import { noiseSummaryLines } from '../measure/noise-report.ts';
 import { commentText, metadataLines, provenanceLines } from './cleaned-csv.ts';
 import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
 
@@ -75,7 +76,8 @@ export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader
 /** One sentence about a noise estimate: what, over how many points, where. */
 export function noiseSentence(e: NoiseEstimate): string {
   const where = e.from !== undefined && e.to !== undefined ? ` over x ${e.from} to ${e.to}${e.clipped ? ' (cut by the trace end)' : ''}` : '';
-  return `${e.description} Method ${e.method}; ${e.measure === 'sd' ? 'standard deviation' : 'range'} ${e.sigma}; ${e.points} points${where}.`;
+  const held = e.assumptionsHeld === undefined ? '' : e.assumptionsHeld ? '; assumptions held' : '; an assumption did not hold or a fallback was used';
+  return `${e.description} Method ${e.method}; ${e.measure === 'sd' ? 'standard deviation' : 'range'} ${e.sigma}; ${e.points} points${where}${held}.`;
 }
 
 /** Comment lines on how S/N and the flags were obtained. */
@@ -88,6 +90,7 @@ export function peakMethodLines(result: AnalyseResult): string[] {
     lines.push(`Noise σ on the measured trace: ${noiseSentence(result.noise.sigma)}`);
     if (result.noise.rawSigma && result.noise.rawSigma !== result.noise.sigma) lines.push(`Noise on the raw trace (for comparison): ${noiseSentence(result.noise.rawSigma)}`);
     if (result.noise.peakToPeak) lines.push(`Peak-to-peak noise in the quiet range: ${noiseSentence(result.noise.peakToPeak)}`);
+    lines.push(...noiseSummaryLines(result.noise));
     for (const n of result.noise.notes) lines.push(`Noise note: ${n}`);
   } else {
     lines.push('Noise: not measured.');
