@@ -103,17 +103,17 @@ test('a method file loads its analysis settings into the page; a file without th
   const method = {
     format: 'tracewright-recipe', version: 2,
     steps: [{ uid: 'step-1', step: 'moving-average', enabled: true, params: { window: 5 } }],
-    analysis: { noise: { method: 'robust', quietRange: null }, peaks: { snrDefinition: 'region', detectionLimit: 2, quantitationLimit: 12 } },
+    analysis: { noise: { method: 'blank', quietRange: null }, peaks: { snrDefinition: 'region', detectionLimit: 2, quantitationLimit: 12 } },
   };
   await page.getByTestId('recipe-input').setInputFiles({ name: 'method.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(method)) });
   await expect(page.locator('#snr-def')).toHaveValue('region');
-  await expect(page.locator('#noise-method')).toHaveValue('robust');
+  await expect(page.locator('#noise-method')).toHaveValue('blank');
   await expect(page.locator('#nf-Detection-limit-S-N')).toHaveValue('2');
   await expect(page.getByTestId('step-moving-average')).toBeVisible();
   await expect(page.getByText(/^The noise and peak settings saved with it are in use/)).toBeVisible();
 
   await page.getByTestId('recipe-input').setInputFiles({ name: 'old.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify({ format: 'tracewright-recipe', version: 1, steps: [] })) });
   await expect(page.locator('#snr-def')).toHaveValue('rms');
-  await expect(page.locator('#noise-method')).toHaveValue('windows');
+  await expect(page.locator('#noise-method')).toHaveValue('auto');
   await expect(page.getByText(/holds no noise and peak settings .* so the defaults are in use/)).toBeVisible();
 });

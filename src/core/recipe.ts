@@ -173,10 +173,13 @@ export function validateRecipe(value: unknown, registry: Registry): RecipeCheck 
 
 /** Each noise method by its saved name (a Record, so a new method must be listed here to compile). */
 const NOISE_METHODS: Record<NoiseMethod, string> = {
-  windows: 'automatic: median of local standard deviations',
+  auto: 'automatic: finest-scale spread of the raw trace with features masked, corrected for noise correlation',
   rms: 'RMS about a straight line over the quiet range',
-  robust: 'spread of point-to-point differences',
+  blank: 'the blank trace, measured like the automatic estimate',
 };
+
+/** Names earlier files used for what is now the automatic estimate ('robust', point-to-point differences, is gone). */
+const OLD_NOISE_METHODS: Record<string, NoiseMethod> = { windows: 'auto', robust: 'auto' };
 
 /** The peak settings as parameters, with the same limits as the page's fields. */
 const PEAK_SETTING_SPECS: Record<keyof PeakSettings, ParamSpec> = {
@@ -216,6 +219,7 @@ function validateAnalysis(value: unknown, problems: string[]): AnalysisSettings 
     for (const [k, v] of Object.entries(noise)) {
       if (k === 'method') {
         if (typeof v === 'string' && Object.hasOwn(NOISE_METHODS, v)) out.noise.method = v as NoiseMethod;
+        else if (typeof v === 'string' && Object.hasOwn(OLD_NOISE_METHODS, v)) out.noise.method = OLD_NOISE_METHODS[v];
         else problems.push(`Noise method must be one of ${Object.keys(NOISE_METHODS).join(', ')}.`);
       } else if (k === 'quietRange') {
         if (v === null) out.noise.quietRange = null;

@@ -69,7 +69,7 @@ describe('analysis settings in the saved method', () => {
     if (r.ok) return;
     expect(r.problems).toEqual([
       'Analysis settings: unknown member "plots" (expected "noise" and "peaks").',
-      'Noise method must be one of windows, rms, robust.',
+      'Noise method must be one of auto, rms, blank.',
       'Quiet range must be null or [from, to] in x-units with from < to.',
       'Analysis settings (noise): unknown setting "colour".',
       'Analysis settings (peaks): Detection limit S/N must be between 1 and 100; got 0.',

@@ -72,7 +72,6 @@ const STATUS: Record<PeakFlag, SummaryStatus> = {
 const SNR_NAME: Record<SnrDefinition, Summary['snr']['definition']> = { rms: 'H/sigma', pharmacopoeial: '2H/h', region: 'mean/SD' };
 
 /** The estimate each noise method gives when it can run (NoiseEstimate.method). */
-const NOISE_ESTIMATE_OF = { windows: 'median-of-quiet-window-sd', rms: 'rms-about-line', robust: 'robust-first-differences' } as const;
 
 /** A finite number, or null. */
 function num(v: number | null | undefined): number | null {
@@ -112,16 +111,11 @@ export function analysisSummary(input: SummaryInput): Summary {
   let noise: Summary['noise'];
   if (result.noise) {
     const n = result.noise;
-    // Today the core marks a fallback only by the estimate it returns and a sentence in the notes;
-    // issue 14's noise work reports fallback and assumption checks itself, and should feed these two fields here.
-    const expected = NOISE_ESTIMATE_OF[settings.noise.method as keyof typeof NOISE_ESTIMATE_OF];
-    const fellBack = expected !== undefined && n.sigma.method !== expected;
-    const fallback = fellBack
-      ? n.notes.find((s) => /\bis used\b/.test(s)) ?? `The ${settings.noise.method} noise estimate could not be made; ${n.sigma.method} was used.`
-      : null;
-    // Point-to-point differences assume white noise, which smoothing breaks (measureNoise says so in its notes).
-    const robustOnProcessed = n.sigma.method === NOISE_ESTIMATE_OF.robust && settings.peaks.measureOn === 'processed' && stepsRan;
-    noise = { sigma: num(n.sigma.sigma), method: n.sigma.method, points: num(n.sigma.points), assumptionsHeld: !fellBack && !robustOnProcessed, fallback };
+    // The noise report lists every check behind σ; a check on the method ('method') or on carrying σ through
+    // the stack ('carried') that did not hold means another route than the one asked for was taken.
+    const fell = n.checks.find((c) => (c.id === 'method' || c.id === 'carried') && c.held === false);
+    const fallback = fell ? fell.text : n.sigma.method === 'none' ? 'No noise estimate could be made.' : null;
+    noise = { sigma: num(n.sigma.sigma), method: n.sigma.method, points: num(n.sigma.points), assumptionsHeld: n.assumptionsHeld && fallback === null, fallback };
     warnings.push(...n.notes);
   } else {
     noise = { sigma: null, method: 'not measured', points: null, assumptionsHeld: false, fallback: null };
