@@ -51,5 +51,11 @@ export interface LoadOptions {
   onProgress?: (fraction: number) => void;
 }
 
+/** Most traces one file gives (columns of y); a wider file loads its first ones and says so. */
+export const MAX_Y_COLUMNS = 200;
+
+/** Longest line read, in bytes: a longer one (a file without line breaks, say) is refused at once, naming the line. */
+export const MAX_LINE_BYTES = 8 * 1024 * 1024;
+
 /** Largest file the page accepts, in bytes; bigger files are refused with a message. */
 export const MAX_FILE_BYTES = 400 * 1024 * 1024;

@@ -11,7 +11,9 @@ import { parseRecipeText, recipeToJson } from '../../core/recipe.ts';
 import { STEP_REGISTRY } from '../../core/steps/registry.ts';
 import { useApp } from '../../state/store.ts';
 import { downloadBlob, downloadCsv, downloadText } from './download.ts';
-import { clearSession } from './session-db.ts';
+import { clearSession, SESSION_UNDO_STEPS } from './session-db.ts';
+import { SessionFileControls } from './SessionFileControls.tsx';
+import { markDrawn } from '../draw-health.ts';
 
 type Guarded = 'cleaned' | 'peaks' | 'report';
 
@@ -40,6 +42,9 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
   const recipe = useApp((s) => s.recipe);
+  const sessionProblem = useApp((s) => s.sessionProblem);
+  const savedAt = useApp((s) => s.sessionSavedAt);
+  const offlineReady = useApp((s) => s.offlineReady);
   const [delimiter, setDelimiter] = useState<CsvDelimiter>(',');
   const [decimal, setDecimal] = useState<CsvDecimal>('.');
   const [pending, setPending] = useState<Guarded | null>(null);
@@ -160,6 +165,7 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
   const startOver = async () => {
     const r = await clearSession();
     if (!r.ok) { notify('error', 'Could not start over', [r.problem]); return; }
+    markDrawn();
     window.location.reload();
   };
 
@@ -230,6 +236,15 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
           <ul className="small">{batchErrors.map((e, i) => <li key={i}><strong>{e.file}</strong>: {e.message}</li>)}</ul>
         </div>
       )}
+      <div className="row" style={{ margin: "6px 0" }}>
+        <SessionFileControls />
+        <span className="small muted" data-testid="session-status">
+          {sessionProblem ? 'Session: not kept in this browser (see the message at the top); save it to a file.'
+            : savedAt ? `Session: kept in this browser, last saved ${new Date(savedAt).toLocaleTimeString()}, with the last ${SESSION_UNDO_STEPS} undo steps.`
+              : 'Session: not saved yet.'}
+          {offlineReady ? ' The page also opens without its server (a copy is kept in this browser).' : ''}
+        </span>
+      </div>
       <div className="row" style={{ margin: "6px 0" }}>
         {askStartOver ? (
           <>
