@@ -49,7 +49,8 @@ export async function loadBytes(bytes: Uint8Array, fileName: string, opts: { rol
     }
     useApp.getState().addTraces(result.traces, result.report, { roles: opts.roles, replace: opts.replace });
     if (!opts.quiet) {
-      const names = result.traces.map((t) => t.name).join(', ');
+      const n = result.traces.length;
+      const names = n <= 4 ? result.traces.map((t) => t.name).join(', ') : `${n} traces from ${fileName} (${result.traces[0].name} … ${result.traces[n - 1].name})`;
       useApp.getState().notify(result.report.skipped.length ? 'warning' : 'info', `Loaded ${names}`, describeLoad(result));
     }
     return true;

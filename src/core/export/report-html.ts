@@ -72,11 +72,14 @@ export function escapeText(text: unknown): string {
   return String(text).replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
 }
 
+/** Written where a number belongs but the value is not finite (an overflow, or no value): never "NaN" or "Infinity". */
+const NOT_FINITE = 'not a finite number';
+
 /** Numbers for reading: six significant figures (the CSV exports hold every digit). */
 function fmt(v: unknown): string {
   if (v === null || v === undefined || v === '') return '—';
   if (typeof v !== 'number') return escapeText(v);
-  if (!Number.isFinite(v)) return escapeText(String(v));
+  if (!Number.isFinite(v)) return NOT_FINITE;
   const a = Math.abs(v);
   if (a !== 0 && (a < 1e-4 || a >= 1e7)) return v.toExponential(5);
   return String(Number(v.toPrecision(6)));
@@ -125,21 +128,32 @@ export function svgLinePlot(series: readonly Series[], xLabel: string, yLabel: s
     }
   }
   if (!(x1 >= x0) || !(y1 >= y0)) return '<p>No finite values to draw.</p>';
+  // Values near the largest double: differences overflow, so an axis is drawn in units of 10^k (said in its label).
+  const exponent = (lo: number, hi: number) => {
+    const m = Math.max(Math.abs(lo), Math.abs(hi));
+    return !Number.isFinite(hi - lo) || m > 1e290 ? Math.floor(Math.log10(m)) : 0;
+  };
+  const kx = exponent(x0, x1), ky = exponent(y0, y1);
+  const sx = Number(`1e${kx}`), sy = Number(`1e${ky}`);
+  x0 /= sx; x1 /= sx; y0 /= sy; y1 /= sy;
   if (x1 === x0) { x0 -= 0.5; x1 += 0.5; }
   if (y1 === y0) { y0 -= 0.5; y1 += 0.5; }
   const pad = (y1 - y0) * 0.05;
   y0 -= pad; y1 += pad;
-  const px = (v: number) => L + ((v - x0) / (x1 - x0)) * (W - L - R);
-  const py = (v: number) => H - B - ((v - y0) / (y1 - y0)) * (H - T - B);
+  const px = (v: number) => L + ((v / sx - x0) / (x1 - x0)) * (W - L - R);
+  const py = (v: number) => H - B - ((v / sy - y0) / (y1 - y0)) * (H - T - B);
+  if (kx) xLabel = `${xLabel} (axis in units of 1e${kx})`;
+  if (ky) yLabel = `${yLabel} (axis in units of 1e${ky})`;
   const parts: string[] = [];
   parts.push(`<svg class="plot" viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-label="${escapeHtml(title)}">`);
   parts.push(`<rect x="${L}" y="${T}" width="${W - L - R}" height="${H - T - B}" fill="#fff" stroke="#888"/>`);
   const tick = (v: number) => escapeText(String(Number(v.toPrecision(3))));
   for (let k = 0; k <= 4; k++) {
+    // Tick values in drawing units (data ÷ 10^k).
     const xv = x0 + ((x1 - x0) * k) / 4, yv = y0 + ((y1 - y0) * k) / 4;
-    parts.push(`<text x="${px(xv).toFixed(1)}" y="${H - B + 16}" font-size="11" text-anchor="middle">${tick(xv)}</text>`);
-    parts.push(`<text x="${L - 6}" y="${(py(yv) + 4).toFixed(1)}" font-size="11" text-anchor="end">${tick(yv)}</text>`);
-    parts.push(`<line x1="${L}" x2="${W - R}" y1="${py(yv).toFixed(1)}" y2="${py(yv).toFixed(1)}" stroke="#eee"/>`);
+    parts.push(`<text x="${px(xv * sx).toFixed(1)}" y="${H - B + 16}" font-size="11" text-anchor="middle">${tick(xv)}</text>`);
+    parts.push(`<text x="${L - 6}" y="${(py(yv * sy) + 4).toFixed(1)}" font-size="11" text-anchor="end">${tick(yv)}</text>`);
+    parts.push(`<line x1="${L}" x2="${W - R}" y1="${py(yv * sy).toFixed(1)}" y2="${py(yv * sy).toFixed(1)}" stroke="#eee"/>`);
   }
   parts.push(`<text x="${(L + W - R) / 2}" y="${H - 6}" font-size="12" text-anchor="middle">${escapeText(xLabel)}</text>`);
   parts.push(`<text x="14" y="${(T + H - B) / 2}" font-size="12" text-anchor="middle" transform="rotate(-90 14 ${(T + H - B) / 2})">${escapeText(yLabel)}</text>`);
@@ -159,11 +173,21 @@ function list(items: readonly string[]): string {
   return items.length ? `<ul>${items.map((s) => `<li>${escapeText(s)}</li>`).join('')}</ul>` : '<p class="muted">None.</p>';
 }
 
+/** A table cell: a value that is not a finite number leaves the cell empty (counted for the note under the table). */
+function tableCell(c: unknown, count: { empty: number }): string {
+  if (typeof c === 'number' && !Number.isFinite(c)) { count.empty++; return '<td class="empty"></td>'; }
+  return `<td>${fmt(c)}</td>`;
+}
+
 function table(rows: readonly (readonly unknown[])[], caption?: string): string {
   if (!rows.length) return '';
   const [head, ...body] = rows;
-  return `<table>${caption ? `<caption>${escapeText(caption)}</caption>` : ''}<thead><tr>${head.map((h) => `<th scope="col">${escapeText(h)}</th>`).join('')}</tr></thead><tbody>${
-    body.map((r) => `<tr>${r.map((c) => `<td>${fmt(c)}</td>`).join('')}</tr>`).join('')}</tbody></table>`;
+  const count = { empty: 0 };
+  const cells = body.map((r) => `<tr>${r.map((c) => tableCell(c, count)).join('')}</tr>`).join('');
+  const note = count.empty
+    ? `<p class="muted" data-role="empty-cells">${count.empty} cell${count.empty === 1 ? ' is' : 's are'} empty because the value was not a finite number (an overflow, a division by zero, or no value there).</p>`
+    : '';
+  return `<table>${caption ? `<caption>${escapeText(caption)}</caption>` : ''}<thead><tr>${head.map((h) => `<th scope="col">${escapeText(h)}</th>`).join('')}</tr></thead><tbody>${cells}</tbody></table>${note}`;
 }
 
 function definitionList(pairs: readonly [string, unknown][]): string {
