@@ -62,8 +62,9 @@ function offlinePlugin(): Plugin {
       const digest = createHash('sha256');
       for (const f of files) digest.update(f).update(readFileSync(join(outDir, f)));
       const source = readFileSync(resolve(config.root, 'src/offline/service-worker.js'), 'utf8')
-        .replace('__TRACEWRIGHT_VERSION__', digest.digest('hex').slice(0, 16))
-        .replace('__TRACEWRIGHT_FILES__', JSON.stringify(['./', ...files], null, 2));
+        .replace("const VERSION = '__TRACEWRIGHT_VERSION__';", `const VERSION = '${digest.digest('hex').slice(0, 16)}';`)
+        .replace('const FILES = __TRACEWRIGHT_FILES__;', `const FILES = ${JSON.stringify(['./', ...files], null, 2)};`);
+      if (source.includes("'__TRACEWRIGHT_VERSION__'") || source.includes('= __TRACEWRIGHT_FILES__')) throw new Error('src/offline/service-worker.js: a placeholder was not filled in');
       writeFileSync(join(outDir, 'sw.js'), source);
     },
   };

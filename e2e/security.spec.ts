@@ -27,6 +27,8 @@ test('no request leaves the origin and nothing breaks the policy while loading, 
   page.on('console', (m) => { if (m.text().includes('Content Security Policy')) violations.push(m.text()); });
   await page.exposeFunction('__reportCsp', (v: string) => violations.push(v));
   await page.addInitScript(() => {
+    // Init scripts also run in the service worker, which has no document.
+    if (typeof document === 'undefined') return;
     document.addEventListener('securitypolicyviolation', (e) => {
       (window as unknown as { __reportCsp: (v: string) => void }).__reportCsp(`${e.violatedDirective} ${e.blockedURI}`);
     });

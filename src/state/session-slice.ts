@@ -9,6 +9,9 @@ export interface SessionSlice {
   sessionProblemDismissed: boolean;
   /** ISO time of the last complete save to the browser's database. */
   sessionSavedAt: string | null;
+  /** Some edit is not yet in the browser's database (a save is waiting or running). */
+  sessionPending: boolean;
+  setSessionPending: (v: boolean) => void;
   /** Set at start when the last restored session did not draw: the page asks before restoring it again. */
   startChoice: { message: string; at: string } | null;
   /** A service worker keeps a copy of the page for use without the server. */
@@ -24,6 +27,8 @@ export const createSessionSlice: StateCreator<AppState, [], [], SessionSlice> = 
   sessionProblem: null,
   sessionProblemDismissed: false,
   sessionSavedAt: null,
+  sessionPending: false,
+  setSessionPending: (sessionPending) => set({ sessionPending }),
   startChoice: null,
   offlineReady: false,
   setOfflineReady: (offlineReady) => set({ offlineReady }),

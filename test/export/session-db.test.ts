@@ -159,6 +159,14 @@ describe('undo history, the journal and keeping every edit', () => {
     expect(merged.notes).toEqual(['Not stored before the page closed, so load again: late.csv: y.']);
     const out = sessionFromRecords(merged.meta, lookup(traceToRecords(trace()).chunks));
     expect(out && out.ok && out.snapshot.roles).toEqual({ 'big-1': 'sample' });
+    // When the missing trace was the sample, the stored sample is processed instead (said in a note), never nothing.
+    const j2 = sessionJournal(snapshot({ traces: [trace(), extra], roles: { 'big-1': 'ignore', 'late-1': 'sample' }, sampleId: 'late-1', recipe: recipeOf('despike') }), 3000);
+    const m2 = mergeJournal(stored, j2);
+    expect(m2.notes[1]).toMatch(/sample from the stored session is processed instead/);
+    const out2 = sessionFromRecords(m2.meta, lookup(traceToRecords(trace()).chunks));
+    expect(out2 && out2.ok && out2.snapshot.sampleId).toBe('big-1');
+    expect(out2 && out2.ok && out2.snapshot.roles).toEqual({ 'big-1': 'sample' });
+    expect(out2 && out2.ok && out2.snapshot.recipe.steps.map((st) => st.step)).toEqual(['despike']);
   });
 
   test('autosave: an edit is in the journal when the page is hidden, at once and synchronously', () => {

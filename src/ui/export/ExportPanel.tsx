@@ -44,6 +44,7 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
   const recipe = useApp((s) => s.recipe);
   const sessionProblem = useApp((s) => s.sessionProblem);
   const savedAt = useApp((s) => s.sessionSavedAt);
+  const savePending = useApp((s) => s.sessionPending);
   const offlineReady = useApp((s) => s.offlineReady);
   const [delimiter, setDelimiter] = useState<CsvDelimiter>(',');
   const [decimal, setDecimal] = useState<CsvDecimal>('.');
@@ -238,9 +239,9 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
       )}
       <div className="row" style={{ margin: "6px 0" }}>
         <SessionFileControls />
-        <span className="small muted" data-testid="session-status">
+        <span className="small muted" data-testid="session-status" data-pending={savePending ? 'true' : 'false'}>
           {sessionProblem ? 'Session: not kept in this browser (see the message at the top); save it to a file.'
-            : savedAt ? `Session: kept in this browser, last saved ${new Date(savedAt).toLocaleTimeString()}, with the last ${SESSION_UNDO_STEPS} undo steps.`
+            : savedAt ? `Session: kept in this browser, last saved ${new Date(savedAt).toLocaleTimeString()}${savePending ? ' (saving the latest changes…)' : ''}, with the last ${SESSION_UNDO_STEPS} undo steps.`
               : 'Session: not saved yet.'}
           {offlineReady ? ' The page also opens without its server (a copy is kept in this browser).' : ''}
         </span>

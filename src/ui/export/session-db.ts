@@ -187,12 +187,16 @@ export function mergeJournal(meta: SessionMeta, journal: SessionJournal | null):
   const notes: string[] = [];
   const missing = (journal.traceNames ?? []).filter((_, i) => !held.has(journal.traceIds[i]));
   if (missing.length) notes.push(`Not stored before the page closed, so load again: ${missing.join(', ')}.`);
+  // The journal's sample was never stored: the stored generation's sample and roles stay, so a trace is still processed.
+  const sampleStored = journal.sampleId === null || held.has(journal.sampleId);
+  if (!sampleStored && meta.sampleId) notes.push('The sample from the stored session is processed instead, until the missing file is loaded again.');
   return {
     notes,
     meta: {
       ...meta,
       takenAt: journal.takenAt,
-      roles: journal.roles, sampleId: journal.sampleId, recipe: journal.recipe, past: journal.past, future: journal.future,
+      roles: sampleStored ? journal.roles : meta.roles, sampleId: sampleStored ? journal.sampleId : meta.sampleId,
+      recipe: journal.recipe, past: journal.past, future: journal.future,
       noiseSettings: journal.noiseSettings, peakSettings: journal.peakSettings, decisions: journal.decisions, alternatives: journal.alternatives,
     },
   };
@@ -538,7 +542,8 @@ export interface AutosaveOptions {
  * A storage problem (no database, quota reached, storage refused) is put in
  * the store once (`sessionProblem`) and cleared when saving works again;
  * the page keeps working in memory. Each complete save sets
- * `sessionSavedAt`.
+ * `sessionSavedAt`; `sessionPending` is true while an edit is not yet in
+ * the database (the journal already holds its small parts).
  * @returns a function that stops the autosave.
  */
 export function startSessionAutosave(store: SessionStore, options: AutosaveOptions = {}): () => void {
@@ -570,12 +575,16 @@ export function startSessionAutosave(store: SessionStore, options: AutosaveOptio
     saveTimer = null;
     if (saving) { again = true; return; }
     saving = true;
-    const out = await saveSession(snapshotOf(store.getState()), Date.now());
+    const taken = store.getState();
+    const out = await saveSession(snapshotOf(taken), Date.now());
     saving = false;
     if (stopped) return;
     if (out.ok) {
       dbProblem = null;
       store.getState().setSessionSavedAt(new Date().toISOString());
+      // Up to date only when nothing kept changed while saving.
+      const now = store.getState();
+      if (saveTimer === null && !again && SESSION_KEYS.every((k) => now[k] === taken[k])) store.getState().setSessionPending(false);
     } else {
       dbProblem = out.problem;
     }
@@ -584,6 +593,7 @@ export function startSessionAutosave(store: SessionStore, options: AutosaveOptio
   };
   const schedule = (wait: number) => {
     if (saveTimer !== null) clearTimeout(saveTimer);
+    if (!store.getState().sessionPending) store.getState().setSessionPending(true);
     saveTimer = setTimeout(() => { void run(); }, wait);
   };
   const unsub = store.subscribe((s, prev) => {
