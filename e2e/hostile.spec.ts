@@ -2,7 +2,7 @@ import { expect, test, type Page } from '@playwright/test';
 import { readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { cpus, loadavg, tmpdir } from 'node:os';
 import { basename, join } from 'node:path';
-import { openWithDemo, trace } from './helpers.ts';
+import { openWithDemo, sessionSaved, trace } from './helpers.ts';
 
 // Timings on a shared machine stretch with its load: limits are scaled by the load per core (at least 1), and the
 // measured figures are reported with each run (test annotations). The rule itself is 200 ms per main-thread task.
@@ -121,7 +121,7 @@ test('x spaced by the smallest double: the page draws it (divided by 1e-323, sai
   await expect(page.getByTestId('figure-notes')).toContainText('too small for the plot to draw');
   await expect(page.locator('[data-testid="figure"] .main-svg').first()).toBeVisible();
   // Before issue 13 the session restore brought the blank page back on every reload.
-  await expect(page.getByTestId('session-status')).toContainText('kept in this browser', { timeout: 30_000 });
+  await sessionSaved(page);
   await page.reload();
   await expect(page.getByRole('heading', { name: /tiny-x-spacing\.csv/ })).toBeVisible({ timeout: 30_000 });
   await expect.poll(async () => (await trace(page, 'raw'))?.x.length).toBe(8);
@@ -143,7 +143,7 @@ test('3000 columns: 200 traces load with a notice, the trace list draws only wha
   await page.selectOption('#add-step-choice', 'moving-average');
   await page.getByRole('button', { name: 'Add step' }).click();
   await page.getByTestId('trace-list').evaluate((el) => { el.scrollTop = el.scrollHeight; });
-  await expect(page.getByTestId('trace-list').locator('.trace-item').last()).toContainText('c200');
+  await expect(page.getByTestId('trace-list')).toContainText('wide-3000.csv: c200');
   await expect(page.locator('.steps .step-title')).toHaveText(['Moving average']);
   const tasks = await longTasks(page);
   test.info().annotations.push({ type: 'longest main-thread task', description: `${Math.round(Math.max(0, ...tasks))} ms` });
@@ -168,7 +168,8 @@ test('a file of one 50 MB line is refused within seconds, naming the missing lin
 });
 
 test('a 50 MB file loads completely without freezing the page', async ({ page }) => {
-  test.setTimeout(240_000);
+  // The load runs in a worker; on a shared machine its time grows with the machine's load, so the limits do too.
+  test.setTimeout(300_000 * LOAD_FACTOR);
   const errors: string[] = [];
   page.on('pageerror', (e) => errors.push(String(e)));
   await openWithDemo(page);
@@ -178,13 +179,22 @@ test('a 50 MB file loads completely without freezing the page', async ({ page })
   const path = join(tmpdir(), `big-50MB-${process.pid}.csv`);
   writeFileSync(path, big.bytes);
   const name = basename(path);
+  await watchLongTasks(page);
+  const started = Date.now();
   await page.getByTestId('file-input').setInputFiles(path);
   rmSync(path);
   // While the worker parses, the page still answers.
   const t0 = Date.now();
   expect(await page.evaluate(() => 1 + 1)).toBe(2);
-  expect(Date.now() - t0).toBeLessThan(5000);
-  await expect(page.getByRole('heading', { name: new RegExp(name.replace('.', '\\.')) })).toBeVisible({ timeout: 180_000 });
+  expect(Date.now() - t0).toBeLessThan(5000 * LOAD_FACTOR);
+  await expect(page.getByRole('heading', { name: new RegExp(name.replace('.', '\\.')) })).toBeVisible({ timeout: 240_000 * LOAD_FACTOR });
+  const loaded = (Date.now() - started) / 1000;
   await expect(page.locator('.notice').filter({ hasText: name }).first()).toContainText(`${big.rows} rows read`);
+  // The page's own thread while the file arrived and was kept: the traces are handed over, never copied there.
+  const tasks = await longTasks(page);
+  test.info().annotations.push(
+    { type: 'loaded after', description: `${loaded.toFixed(1)} s (load average ${loadavg()[0].toFixed(1)} on ${cpus().length} cores)` },
+    { type: 'longest main-thread task while loading', description: `${Math.round(Math.max(0, ...tasks))} ms` },
+  );
   expect(errors).toEqual([]);
 });

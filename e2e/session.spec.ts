@@ -1,6 +1,6 @@
 import { expect, test, type Page } from '@playwright/test';
 import { readFileSync } from 'node:fs';
-import { openWithDemo, trace } from './helpers.ts';
+import { openWithDemo, sessionSaved, trace } from './helpers.ts';
 
 // Issue 13, "Nothing is lost": every edit survives a reload that follows at once; the undo history
 // comes back; a browser that keeps nothing says so once and offers a session file, which loads back;
@@ -14,15 +14,9 @@ async function addStep(page: Page, id: string) {
 /** The demo, with its traces stored in the browser's database (edits after this only touch the small parts). */
 async function openStored(page: Page) {
   await openWithDemo(page);
-  await allSaved(page);
+  await sessionSaved(page);
 }
 
-/** Everything so far is in the browser's database (not only in the journal). */
-async function allSaved(page: Page) {
-  const status = page.getByTestId('session-status');
-  await expect(status).toContainText('kept in this browser', { timeout: 30_000 });
-  await expect(status).toHaveAttribute('data-pending', 'false', { timeout: 30_000 });
-}
 
 async function expectRestored(page: Page, points = 1201) {
   await expect(page.getByTestId('notice-info').or(page.getByTestId('notice-warning')).filter({ hasText: 'previous session was restored' })).toBeVisible({ timeout: 30_000 });
@@ -162,7 +156,7 @@ test('a session whose plot failed to draw is not restored without asking; the pl
   await expect(page.locator('.steps .step-title')).toHaveText(['Moving average']);
   await expect(page.getByTestId('export-panel')).toBeVisible();
   await expect(page.getByRole('heading', { name: /x-descending\.csv/ })).toBeVisible();
-  await allSaved(page);
+  await sessionSaved(page);
 
   // After a reload the page asks first instead of drawing the same thing into the same failure.
   await page.reload();
@@ -185,7 +179,7 @@ test('starting without the failed session opens the demo', async ({ page }) => {
   await openStored(page);
   await page.getByTestId('file-input').setInputFiles('test/fixtures/hostile/x-descending.csv');
   await expect(page.getByRole('heading', { name: /x-descending\.csv/ })).toBeVisible();
-  await allSaved(page);
+  await sessionSaved(page);
   await page.evaluate(() => localStorage.setItem('tracewright-draw-health', JSON.stringify({ state: 'failed', at: new Date().toISOString(), message: 'the plot: a fault' })));
   await page.reload();
   await expect(page.getByTestId('start-choice')).toBeVisible({ timeout: 30_000 });

@@ -22,8 +22,8 @@ const lookup = (chunks: { key: ChunkKey; data: Float64Array }[]) => {
 };
 
 describe('session records', () => {
-  test('a trace of 3·2^20 + 5 points splits into 4 chunks per axis and comes back identical', () => {
-    const n = 3 * 2 ** 20 + 5;
+  test('a trace of 3 chunks + 5 points splits into 4 chunks per axis and comes back identical', () => {
+    const n = 3 * SESSION_CHUNK + 5;
     const t = bigTrace(n);
     const { head, chunks } = traceToRecords(t);
     expect(head.chunks).toBe(4);

@@ -39,8 +39,14 @@ import type { AppState } from '../../state/store.ts';
 
 export const SESSION_FORMAT = 'tracewright-session';
 export const SESSION_VERSION = 1;
-/** Values per stored chunk (8 MB of doubles): large traces are split so no single record is huge. */
-export const SESSION_CHUNK = 2 ** 20;
+/**
+ * Values per stored chunk (1 MB of doubles). Storing a record copies it on
+ * the page's thread: 8 MB records took 0.2-0.4 s each on a busy machine
+ * with a 50 MB file, 1 MB records take a few tens of milliseconds, so the
+ * page stays responsive while a big trace is kept. Sessions stored with
+ * another chunk size are read by the size their heads state.
+ */
+export const SESSION_CHUNK = 2 ** 17;
 /** Skipped-row entries kept per load report (the full list was shown when the file was loaded). */
 export const SESSION_MAX_SKIPPED = 1000;
 /** Undo steps (and redo steps) kept with the session; the page itself keeps more while open. */
@@ -223,14 +229,20 @@ export function traceHead(trace: Trace, chunkSize: number = SESSION_CHUNK): Trac
  * underlying buffer with every chunk). The trace is only read.
  */
 export function traceToRecords(trace: Trace, chunkSize: number = SESSION_CHUNK): { head: TraceHead; chunks: ChunkRecord[] } {
+  return { head: traceHead(trace, chunkSize), chunks: [...traceChunks(trace, chunkSize)] };
+}
+
+/**
+ * The chunks of a trace one at a time, each copied only when asked for, so
+ * saving a 50 MB trace does not copy it all in one task of the page.
+ */
+export function* traceChunks(trace: Trace, chunkSize: number = SESSION_CHUNK): Generator<ChunkRecord> {
   const head = traceHead(trace, chunkSize);
   const n = head.length, count = head.chunks;
-  const chunks: ChunkRecord[] = [];
   for (const axis of ['x', 'y'] as const) {
     const a = trace[axis];
-    for (let k = 0; k < count; k++) chunks.push({ key: [trace.id, axis, k], data: a.slice(k * chunkSize, Math.min(n, (k + 1) * chunkSize)) });
+    for (let k = 0; k < count; k++) yield { key: [trace.id, axis, k], data: a.slice(k * chunkSize, Math.min(n, (k + 1) * chunkSize)) };
   }
-  return { head, chunks };
 }
 
 /**
@@ -392,7 +404,7 @@ export async function saveSession(state: SessionSnapshot, takenAt: number = Date
     for (let i = 0; i < meta.heads.length; i++) {
       // Traces never change, so a trace whose last chunk is stored is stored whole.
       if (await store.getKey(lastChunkKey(meta.heads[i]))) continue;
-      for (const c of traceToRecords(state.traces[i]).chunks) await store.put(c.data, c.key);
+      for (const c of traceChunks(state.traces[i])) await store.put(c.data, c.key);
     }
     await tx.objectStore('meta').put(meta, `gen-${generation}`);
     await tx.done;
