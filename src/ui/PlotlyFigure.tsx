@@ -45,6 +45,8 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
   const transforms = useRef<Record<string, AxisTransform>>({});
   transforms.current = guarded.transforms;
   const [failure, setFailure] = useState<string | null>(null);
+  /** Bumped by "Draw again" to run the drawing once more with the same data. */
+  const [attempt, setAttempt] = useState(0);
 
   useEffect(() => {
     const el = ref.current;
@@ -74,7 +76,7 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
       fail(e);
     }
     return () => { cancelled = true; };
-  }, [guarded, pictureName]);
+  }, [guarded, pictureName, attempt]);
 
   useEffect(() => {
     const el = ref.current;
@@ -91,6 +93,7 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
       {failure && (
         <div className="plot-failed" role="alert" data-testid={`${testId}-failed`}>
           <strong>This plot could not be drawn.</strong> The plot library stopped with: “{failure}”. The data, the results and the rest of the page are unaffected; the tables and exports below still work.
+          {' '}<button type="button" onClick={() => setAttempt((a) => a + 1)}>Draw again</button>
         </div>
       )}
       <div ref={ref} className={className} role="figure" aria-label={label} data-testid={testId} hidden={!!failure} />

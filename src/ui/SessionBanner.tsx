@@ -27,7 +27,7 @@ export function StartChoice() {
   return (
     <div className="notice notice-warning start-choice" role="alertdialog" aria-labelledby="start-choice-title" data-testid="start-choice">
       <strong id="start-choice-title">Last time, your saved session could not be drawn</strong>
-      <p>What failed: “{choice.message}” ({new Date(choice.at).toLocaleString()}). It has not been restored yet, so the page cannot fail the same way again without your say.</p>
+      <p>What failed: “{choice.message}” ({new Date(choice.at).toLocaleString()}). The session has not been restored this time, so it cannot stop the page again unless you choose to restore it.</p>
       <div className="row">
         <button type="button" onClick={() => void resumeSession()}>Restore it anyway</button>
         <button type="button" onClick={() => void saveStoredSessionToFile()}>Save it to a file</button>

@@ -19,15 +19,29 @@
  *    units). Lines above are metadata.
  * 4. Data rows are split with PapaParse (when the data holds quote marks) or
  *    a plain split (fast path, same result on plain files) and converted by
- *    {@link parseNumber}; rows that are not numbers are skipped and listed.
+ *    {@link parseNumber}; a cell whose digits are grouped in threes by the
+ *    other sign is read by {@link parseGroupedNumber} only when its column
+ *    settles it (a cell with both signs, two group signs, or the decimal
+ *    sign elsewhere in the column), and the file is refused naming the line
+ *    otherwise. A row whose x, or every y, is not a number is skipped and
+ *    listed; a y cell that is not a number leaves that point out of that
+ *    column's trace only, counted and named in a notice.
  * 5. Rows are sorted by x when needed (stable), y is averaged over repeated
- *    x, both with a notice, and one trace is made per y column.
+ *    x, both with a notice, and one trace is made per y column (at most
+ *    {@link MAX_Y_COLUMNS}, the first ones, said in a notice).
+ *
+ * Columns: a column is measured values (and never text) when its cells are
+ * mostly numbers or number-like failures (NaN, infinity, overflow,
+ * hexadecimal, separators); so x is never drawn as the signal because a
+ * broken y column was taken for text. A quote never closed, a line longer
+ * than 8 MB (`MAX_LINE_BYTES`, a file without line breaks), and "0,1,234.5"
+ * under a two-name header (a thousands comma splitting numbers) are refused
+ * naming the line.
  *
  * Known limits: a file with one column of unquoted decimal-comma numbers
  * ("1,5" on every line) is read as two comma-separated integer columns,
- * since nothing in the file tells the two apart; thousands separators are
- * never guessed (see numbers.ts); the table must start within the first
- * {@link SAMPLE_LINES} non-blank lines.
+ * since nothing in the file tells the two apart; the table must start
+ * within the first {@link SAMPLE_LINES} non-blank lines.
  */
 import Papa from 'papaparse';
 import { createTrace, MIN_POINTS } from '../trace.ts';
@@ -1057,7 +1071,7 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
   if (xLargest > HUGE_VALUE) { largest = Math.max(largest, xLargest); if (xLargest >= largest) largestWhere = xColumn >= 0 ? columnName(xColumn) : 'x'; }
   if (largest > HUGE_VALUE) {
     notices.push(
-      `Values as large as ${largest.toPrecision(3)} (in ${largestWhere}) are close to the largest number a double can hold (about 1.8e308): their squares overflow, ` +
+      `Values as large as ${largest.toPrecision(3)} in ${largestWhere} are close to the largest number a double can hold, about 1.8e308: their squares overflow, ` +
         'so noise and S/N cannot be measured on them, and sums or differences in processing steps may overflow too. The page says so wherever that happens; such results are never drawn or exported as numbers.',
     );
   }

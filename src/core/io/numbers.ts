@@ -151,8 +151,8 @@ const LARGEST = '1.8e308';
 
 /**
  * Why a cell is not a number, in a few words for a message: "empty",
- * "a NaN marker", "infinite", "beyond the largest number, about
- * 1.8e308", "hexadecimal", "has a digit separator “_”", "has thousands
+ * "a NaN marker", "infinite", "beyond the largest number a double can
+ * hold, about 1.8e308", "hexadecimal", "has a digit separator “_”", "has thousands
  * separators", "uses the other decimal sign", or "text".
  */
 export function whyNotNumber(field: string, decimal: DecimalSign = '.'): string {
@@ -165,7 +165,7 @@ export function whyNotNumber(field: string, decimal: DecimalSign = '.'): string 
   if (/^[+-]?0b[01]+$/i.test(t)) return 'binary notation';
   if (/^[+-]?[\d.,]*\d[\d.,]*(e[+-]?\d+)?$/i.test(t)) {
     const plain = t.replace(decimal === ',' ? /,/ : /^$/, '.');
-    if (/^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i.test(plain) && !Number.isFinite(Number(plain))) return `beyond the largest number a double can hold (about ${LARGEST})`;
+    if (/^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i.test(plain) && !Number.isFinite(Number(plain))) return `beyond the largest number a double can hold, about ${LARGEST}`;
     if (/[.,].*[.,]/.test(t)) return 'has thousands separators that do not fit the file';
     return decimal === ',' ? 'uses a decimal point, but the file uses a decimal comma' : 'uses a decimal comma, but the file uses a decimal point';
   }
