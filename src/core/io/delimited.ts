@@ -308,8 +308,8 @@ function groupSign(decimal: DecimalSign): string {
   return decimal === ',' ? '.' : ',';
 }
 
-function splitSample(sample: readonly SampleLine[], d: Dialect): SampleSplit[] {
-  const g = groupSign(d.decimal);
+function splitSample(sample: readonly SampleLine[], d: Dialect, grouping = true): SampleSplit[] {
+  const g = grouping ? groupSign(d.decimal) : '\u0000';
   return sample.map((s) => {
     const fields = splitFields(s.text, d.delimiter);
     let numericCount = 0, groupedCount = 0;
@@ -331,8 +331,8 @@ function modalFieldCount(rows: readonly SampleSplit[]): number {
   return best;
 }
 
-function scoreDialect(sample: readonly SampleLine[], d: Dialect): DialectScore {
-  const rows = splitSample(sample, d);
+function scoreDialect(sample: readonly SampleLine[], d: Dialect, grouping = true): DialectScore {
+  const rows = splitSample(sample, d, grouping);
   const k = modalFieldCount(rows);
   let fullRows = 0, numericFields = 0, groupedFields = 0;
   for (const r of rows) {
@@ -355,10 +355,11 @@ export function decideDialect(lines: readonly string[]): Dialect | null {
   return best ? best.dialect : null;
 }
 
-function bestDialect(sample: readonly SampleLine[]): DialectScore | null {
+function bestDialect(sample: readonly SampleLine[], format?: LoadOptions['numberFormat']): DialectScore | null {
   let best: DialectScore | null = null;
   for (const d of CANDIDATES) {
-    const s = scoreDialect(sample, d);
+    if (format && d.decimal !== format.decimal) continue;
+    const s = scoreDialect(sample, d, format ? format.grouping : true);
     if (s.numericFields === 0) continue;
     // Equal full rows: the reading that needs fewer grouped numbers wins, so "1,250" in a semicolon file
     // stays 1.25 with a decimal comma rather than 1250 with a grouping comma.
@@ -434,8 +435,8 @@ interface Layout {
 
 type LayoutResult = { ok: true; layout: Layout } | { ok: false; result: LoadResult };
 
-function findLayout(sample: readonly SampleLine[], fileName: string): LayoutResult {
-  const best = bestDialect(sample);
+function findLayout(sample: readonly SampleLine[], fileName: string, format?: LoadOptions['numberFormat']): LayoutResult {
+  const best = bestDialect(sample, format);
   if (!best) {
     return {
       ok: false,
@@ -448,7 +449,7 @@ function findLayout(sample: readonly SampleLine[], fileName: string): LayoutResu
   }
   const { dialect } = best;
   const K = best.columns;
-  const rows = splitSample(sample, dialect);
+  const rows = splitSample(sample, dialect, format ? format.grouping : true);
   const shaped = rows.filter((r) => r.fields.length === K && r.numericCount > 0);
   const numericColumns: number[] = [];
   for (let c = 0; c < K; c++) {
@@ -743,7 +744,11 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
     return problem(fileName, 'The file holds only blank lines and spaces.', 'Choose the file again; if it was exported from an instrument, check that the export finished.');
   }
 
-  const found = findLayout(sample, fileName);
+  const format = options.numberFormat;
+  if (format && !((format.decimal === '.' || format.decimal === ',') && typeof format.grouping === 'boolean')) {
+    return problem(fileName, 'The stated number format must name the decimal sign ("." or ",") and whether the other sign groups thousands.', 'State the decimal sign and the grouping, or leave them to the loader.');
+  }
+  const found = findLayout(sample, fileName, format);
   if (!found.ok) return found.result;
   const layout = found.layout;
   const { dialect, columns: K, headers, numericColumns, dataColumns } = layout;
@@ -804,7 +809,8 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
   // Data rows. A row is kept when x and at least one y are numbers; a y cell that is not a number
   // leaves a gap (NaN here) in that column only, and is counted for the column's notice.
   const decimal = dialect.decimal;
-  const group = groupSign(decimal);
+  // A stated format without grouping: a sign that is not the decimal sign makes a cell not a number.
+  const group = format && !format.grouping ? '\u0000' : groupSign(decimal);
   const xTally = new CellTally();
   const yTallies = yColumns.map(() => new CellTally());
   const readCell = (field: string, tally: CellTally, line: number): number => {
@@ -892,14 +898,15 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
   const tallied: [number, CellTally][] = [...(xColumn >= 0 ? [[xColumn, xTally] as [number, CellTally]] : []), ...yColumns.map((c, j) => [c, yTallies[j]] as [number, CellTally])];
   const signName = (c: string) => (c === ',' ? 'comma' : 'point');
   for (const [c, t] of tallied) {
-    if (t.ambiguousFirst && t.certain === 0 && !t.decimalSeen) {
+    // A format the user stated settles it.
+    if (t.ambiguousFirst && t.certain === 0 && !t.decimalSeen && !format) {
       const a = t.ambiguousFirst;
       const asDecimal = Number(a.text.replace(group, '.').replace(/^"|"$/g, ''));
       const asGrouped = parseGroupedNumber(a.text, decimal)?.value;
       return problem(
         fileName,
         `Line ${a.line}: “${a.text}” in ${columnName(c)} could be ${asDecimal} or ${asGrouped}. The file uses a decimal ${signName(decimal)}, and no cell of this column shows whether “${group}” groups thousands or marks decimals.`,
-        `Save the file with one decimal sign and no thousands separators (for example ${asGrouped} or ${String(asDecimal).replace('.', decimal)}), then load it again.`,
+        `State how the numbers are written (the decimal sign, and whether “${group}” groups thousands) where the loader asks for it, or save the file with one decimal sign and no thousands separators (for example ${asGrouped} or ${String(asDecimal).replace('.', decimal)}), then load it again.`,
         a.line,
       );
     }
@@ -907,7 +914,7 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
   for (const [c, t] of tallied) {
     if (t.groupedFirst) {
       const g = t.groupedFirst;
-      notices.push(`${capitalise(columnName(c))} groups thousands with “${group}” (${t.grouped} cell${t.grouped === 1 ? '' : 's'}; the first at line ${g.line}: “${g.text}” read as ${g.value}).`);
+      notices.push(`${capitalise(columnName(c))} groups thousands with “${groupSign(decimal)}” (${t.grouped} cell${t.grouped === 1 ? '' : 's'}; the first at line ${g.line}: “${g.text}” read as ${g.value}).`);
     }
   }
 

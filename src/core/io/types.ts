@@ -49,6 +49,14 @@ export interface LoadOptions {
   yColumns?: number[];
   /** Called with a fraction 0..1 while parsing large files. */
   onProgress?: (fraction: number) => void;
+  /**
+   * How numbers are written, when the user states it (delimited text only):
+   * the decimal sign, and whether the other sign groups thousands. Settles a
+   * file the loader would otherwise refuse as ambiguous ("1.100" with a
+   * decimal comma). Without it the loader decides from the file and refuses
+   * what it cannot settle.
+   */
+  numberFormat?: { decimal: '.' | ','; grouping: boolean };
 }
 
 /** Most traces one file gives (columns of y); a wider file loads its first ones and says so. */
