@@ -92,6 +92,18 @@ test('hostile files give a notice naming the file, refusals keep the plotted tra
   expect(Math.max(0, ...tasks)).toBeLessThan(200 * LOAD_FACTOR);
 });
 
+test('a file the loader cannot read two ways is refused, and the page asks the one question that settles it', async ({ page }) => {
+  await openWithDemo(page);
+  const before = (await trace(page, 'raw'))!;
+  await drop(page, 'hostile/thousands-dot-ambiguous.csv');
+  const notice = page.locator('.notice').filter({ hasText: 'thousands-dot-ambiguous.csv' }).first();
+  await expect(notice).toContainText('could be 1.1 or 1100');
+  expect((await trace(page, 'raw'))!.y).toEqual(before.y);
+  await notice.getByTestId('notice-action').click();
+  await expect(page.getByRole('heading', { name: /thousands-dot-ambiguous\.csv/ })).toBeVisible();
+  await expect.poll(async () => (await trace(page, 'raw'))?.y.slice(0, 3)).toEqual([1100, 2117, 3134]);
+});
+
 test('values up to the largest double are drawn divided by a power of ten, said in the axis title and a note, without drawing errors', async ({ page }) => {
   const console: string[] = [];
   page.on('console', (m) => { if (m.type() === 'error') console.push(m.text()); });

@@ -65,7 +65,8 @@ test('works offline after the first load: no request goes out and a file still l
   const after: string[] = [];
   page.on('request', (r) => after.push(r.url()));
   await context.setOffline(true);
-  // No service worker is used, so a reload offline cannot work; instead the page must keep working without the network.
+  // The offline switch does not govern a service worker's own fetches, so reopening without the server is tested
+  // by stopping the server (offline.spec.ts); here the open page must keep working without the network.
   await page.selectOption('#add-step-choice', 'moving-average');
   await page.getByRole('button', { name: 'Add step' }).click();
   await page.getByTestId('file-input').setInputFiles('test/fixtures/hostile/x-descending.csv');

@@ -352,7 +352,11 @@ describe('a number format stated by the user settles what the file cannot (issue
     const bytes = file('thousands-dot-ambiguous.csv');
     const auto = parseDelimited(bytes, 'a.csv');
     expect(auto.ok).toBe(false);
-    if (!auto.ok) expect(auto.error.advice).toMatch(/State how the numbers are written/);
+    if (!auto.ok) {
+      expect(auto.error.advice).toMatch(/State how the numbers are written/);
+      // What the page offers to settle it: the one statement that makes the reading certain.
+      expect(auto.error.settle).toEqual({ label: 'Read “.” as a thousands separator (“1.100” = 1100)', numberFormat: { decimal: ',', grouping: true } });
+    }
     const grouped = parseDelimited(bytes, 'a.csv', { numberFormat: { decimal: ',', grouping: true } });
     expect(grouped.ok).toBe(true);
     if (grouped.ok) {

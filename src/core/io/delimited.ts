@@ -391,8 +391,9 @@ class Column {
   }
 }
 
-function problem(fileName: string, text: string, advice: string, line?: number): LoadResult {
+function problem(fileName: string, text: string, advice: string, line?: number, settle?: LoadProblem['settle']): LoadResult {
   const error: LoadProblem = line === undefined ? { fileName, problem: text, advice } : { fileName, line, problem: text, advice };
+  if (settle) error.settle = settle;
   return { ok: false, error };
 }
 
@@ -908,6 +909,7 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
         `Line ${a.line}: “${a.text}” in ${columnName(c)} could be ${asDecimal} or ${asGrouped}. The file uses a decimal ${signName(decimal)}, and no cell of this column shows whether “${group}” groups thousands or marks decimals.`,
         `State how the numbers are written (the decimal sign, and whether “${group}” groups thousands) where the loader asks for it, or save the file with one decimal sign and no thousands separators (for example ${asGrouped} or ${String(asDecimal).replace('.', decimal)}), then load it again.`,
         a.line,
+        { label: `Read “${group}” as a thousands separator (“${a.text}” = ${asGrouped})`, numberFormat: { decimal, grouping: true } },
       );
     }
   }

@@ -35,6 +35,8 @@ export interface LoadProblem {
   problem: string;
   /** What the user can do about it. */
   advice: string;
+  /** When one statement of the user settles the problem: the words to offer and the option that says it. */
+  settle?: { label: string; numberFormat: { decimal: '.' | ','; grouping: boolean } };
 }
 
 export type LoadResult =
