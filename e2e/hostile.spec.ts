@@ -30,7 +30,7 @@ const SAMPLE: Drop[] = [
   // Issue 13.
   { file: 'hostile/thousands-dot-ambiguous.csv', refused: true, text: '“1.100” in column 2 (Wert) could be 1.1 or 1100' },
   { file: 'hostile/unclosed-quote.csv', refused: true, text: 'Line 4 opens a quoted field (") that is never closed' },
-  { file: 'hostile/jcamp-dup-1e8.jdx', refused: true, text: 'a repeat count (DUP) of 100000000' },
+  { file: 'hostile/jcamp-dup-1e8.jdx', refused: true, text: 'The repeat count (DUP) 100000000 on line 11' },
   { file: 'hostile/jcamp-yfactor-zero.jdx', refused: true, text: '##YFACTOR= on line 8 is 0' },
   { file: 'hostile/netcdf-version-5.nc', refused: true, text: 'netCDF file of format version 5' },
   { file: 'hostile/utf32le-no-bom.csv', refused: true, text: 'UTF-32LE text without a byte-order mark' },

@@ -906,8 +906,8 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
       const asGrouped = parseGroupedNumber(a.text, decimal)?.value;
       return problem(
         fileName,
-        `Line ${a.line}: “${a.text}” in ${columnName(c)} could be ${asDecimal} or ${asGrouped}. The file uses a decimal ${signName(decimal)}, and no cell of this column shows whether “${group}” groups thousands or marks decimals.`,
-        `State how the numbers are written (the decimal sign, and whether “${group}” groups thousands) where the loader asks for it, or save the file with one decimal sign and no thousands separators (for example ${asGrouped} or ${String(asDecimal).replace('.', decimal)}), then load it again.`,
+        `“${a.text}” in ${columnName(c)} could be ${asDecimal} or ${asGrouped}: the file uses a decimal ${signName(decimal)}, and no cell of this column shows whether “${group}” groups thousands or marks decimals.`,
+        `State how the numbers are written (the decimal sign, and whether “${group}” groups thousands), or save the file with one decimal sign and no thousands separators (for example ${asGrouped} or ${String(asDecimal).replace('.', decimal)}), then load it again.`,
         a.line,
         { label: `Read “${group}” as a thousands separator (“${a.text}” = ${asGrouped})`, numberFormat: { decimal, grouping: true } },
       );

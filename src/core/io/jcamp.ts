@@ -377,7 +377,7 @@ function decodeXyData(rec: Record_, cap: PointCap): Decoded {
         // The line may repeat the previous line's last y (the y-check), hence the one extra value allowed.
         if (ys.length + lineYs.length + (v - 1) > cap.max + 1) {
           throw new JcampProblem(
-            `Line ${line}: a repeat count (DUP) of ${v} would give the block ${ys.length + lineYs.length + (v - 1)} values, more than the ${cap.max} ${cap.from}.`,
+            `The repeat count (DUP) ${v} on line ${line} would give the block ${ys.length + lineYs.length + (v - 1)} values, more than the ${cap.max} ${cap.from}.`,
             'The file is damaged or was written wrongly here; export it again from the instrument.',
             line,
           );
