@@ -10,7 +10,7 @@ import './ui/styles.css';
 startController();
 createRoot(document.getElementById('root')!).render(
   <StrictMode>
-    <ErrorBoundary area="the page" drawsSession>
+    <ErrorBoundary area="the page" drawsSession actions={<button type="button" onClick={() => window.location.reload()}>Reload and choose whether to restore this session</button>}>
       <App />
     </ErrorBoundary>
   </StrictMode>,
