@@ -156,6 +156,9 @@ function measurePeaks(measured: Signal, raw: Signal, noiseSettings: NoiseSetting
   if (measured.y.length < 5) return { noise: null, peaks: [], peakOptions: null, peakProblem: 'Fewer than 5 points: no peaks can be measured.' };
   const noise = measureNoise(measured, raw, noiseSettings, measured === raw ? null : stack);
   const sigma = noise.sigma.sigma;
+  if (!Number.isFinite(sigma)) {
+    return { noise, peaks: [], peakOptions: null, peakProblem: 'The noise figure is not a finite number (the values are so large that their squares overflow, or there was nothing to measure), so S/N cannot be measured. Mark a quiet range of ordinary values, or rescale the data.' };
+  }
   if (!(sigma > 0)) {
     return { noise, peaks: [], peakOptions: null, peakProblem: 'The noise is zero (the trace is perfectly smooth or constant), so S/N cannot be measured. Mark a quiet range with some noise, or measure on the raw trace.' };
   }

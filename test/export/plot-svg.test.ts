@@ -96,4 +96,16 @@ describe('svgLinePlot', () => {
   test('nothing finite to draw gives a sentence, not an empty picture', () => {
     expect(svgLinePlot([{ x: Float64Array.of(NaN), y: Float64Array.of(1), colour: '#000', label: 'a' }], 'x', 'y', 't')).toBe('<p>No finite values to draw.</p>');
   });
+
+  test('values near the largest double: the axis is drawn in units of 10^k, every coordinate finite', () => {
+    // 1.7e308 − (−1.7e308) overflows to Infinity in double precision (IEEE 754), so without scaling every y would be NaN.
+    const x = Float64Array.of(0, 1, 2, 3);
+    const y = Float64Array.of(1.7e308, -1.7e308, 1e300, 0);
+    const svg = svgLinePlot([{ x, y, colour: '#000', label: 'raw' }], 'Time (min)', 'Signal', 't', [{ x: 0, y: 1.7e308, label: '1' }]);
+    expect(svg).toContain('Signal (axis in units of 1e308)');
+    expect(svg).not.toContain('Time (min) (axis');
+    expect(svg).not.toMatch(/NaN|Infinity/);
+    const pts = /points="([^"]+)"/.exec(svg)![1].split(' ');
+    expect(pts).toHaveLength(4);
+  });
 });

@@ -73,11 +73,17 @@ export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader
   return rows;
 }
 
+/** A number for a sentence: never "NaN" or "Infinity" (issue 13). */
+function num(v: number): string {
+  return Number.isFinite(v) ? String(v) : 'not a finite number';
+}
+
 /** One sentence about a noise estimate: what, over how many points, where. */
 export function noiseSentence(e: NoiseEstimate): string {
   const where = e.from !== undefined && e.to !== undefined ? ` over x ${e.from} to ${e.to}${e.clipped ? ' (cut by the trace end)' : ''}` : '';
   const held = e.assumptionsHeld === undefined ? '' : e.assumptionsHeld ? '; assumptions held' : '; an assumption did not hold or a fallback was used';
-  return `${e.description} Method ${e.method}; ${e.measure === 'sd' ? 'standard deviation' : 'range'} ${e.sigma}; ${e.points} points${where}${held}.`;
+  const value = Number.isFinite(e.sigma) ? String(e.sigma) : `${num(e.sigma)} (the computation overflowed or had no data)`;
+  return `${e.description} Method ${e.method}; ${e.measure === 'sd' ? 'standard deviation' : 'range'} ${value}; ${e.points} points${where}${held}.`;
 }
 
 /** Comment lines on how S/N and the flags were obtained. */
@@ -98,7 +104,7 @@ export function peakMethodLines(result: AnalyseResult): string[] {
   if (o) {
     lines.push(`Limits: detection S/N ${o.limits.detection}, quantitation S/N ${o.limits.quantitation}.`);
     lines.push(`Flags: "${FLAG_TEXT['below-detection']}" when S/N < ${o.limits.detection}; "${FLAG_TEXT.detectable}" when ${o.limits.detection} ≤ S/N < ${o.limits.quantitation}; "${FLAG_TEXT.quantifiable}" when S/N ≥ ${o.limits.quantitation}; "${FLAG_TEXT['not-measured']}" when S/N could not be computed.`);
-    lines.push(`Thresholds: prominence at least ${o.minProminence} (y-units), S/N at least ${o.minSnr}, FWHM at least ${o.minWidth} (x-units), apex separation at least ${o.minSeparation} (x-units, 0 = off)${o.negative ? '; troughs detected (heights and areas negative)' : ''}.`);
+    lines.push(`Thresholds: prominence at least ${num(o.minProminence)} (y-units), S/N at least ${num(o.minSnr)}, FWHM at least ${num(o.minWidth)} (x-units), apex separation at least ${num(o.minSeparation)} (x-units, 0 = off)${o.negative ? '; troughs detected (heights and areas negative)' : ''}.`);
     if (def === 'pharmacopoeial') lines.push(`2H/h noise window: ${o.pharmacopoeialMultiplier} half-height widths.`);
   }
   lines.push('Height: above the straight line joining the peak’s bases. Area: above that line between the integration bounds (trapezoid rule).');

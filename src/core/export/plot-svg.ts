@@ -104,23 +104,36 @@ export function svgLinePlot(series: readonly PlotSeries[], xLabel: string, yLabe
     }
   }
   if (!(x1 >= x0) || !(y1 >= y0)) return '<p>No finite values to draw.</p>';
+  // Values near the largest double: differences overflow, so an axis is drawn in units of 10^k (said in its label).
+  const exponent = (lo: number, hi: number) => {
+    const m = Math.max(Math.abs(lo), Math.abs(hi));
+    return !Number.isFinite(hi - lo) || m > 1e290 ? Math.floor(Math.log10(m)) : 0;
+  };
+  const kx = exponent(x0, x1), ky = exponent(y0, y1);
+  const sx = Number(`1e${kx}`), sy = Number(`1e${ky}`);
+  x0 /= sx; x1 /= sx; y0 /= sy; y1 /= sy;
+  if (kx) xLabel = `${xLabel} (axis in units of 1e${kx})`;
+  if (ky) yLabel = `${yLabel} (axis in units of 1e${ky})`;
   if (x1 === x0) { x0 -= 0.5; x1 += 0.5; }
   if (y1 === y0) { y0 -= 0.5; y1 += 0.5; }
   const pad = (y1 - y0) * 0.05;
   y0 -= pad; y1 += pad;
-  const px = (v: number) => L + ((v - x0) / (x1 - x0)) * (W - L - R);
-  const py = (v: number) => H - B - ((v - y0) / (y1 - y0)) * (H - T - B);
+  // Ticks and ranges are in drawing units (data ÷ 10^k); px and py take data values.
+  const pxs = (v: number) => L + ((v - x0) / (x1 - x0)) * (W - L - R);
+  const pys = (v: number) => H - B - ((v - y0) / (y1 - y0)) * (H - T - B);
+  const px = (v: number) => pxs(v / sx);
+  const py = (v: number) => pys(v / sy);
   const parts: string[] = [];
   parts.push(`<svg class="plot" viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-label="${escapeHtml(title)}">`);
   parts.push(`<rect x="${L}" y="${T}" width="${W - L - R}" height="${H - T - B}" fill="#fff" stroke="#888"/>`);
   const xt = niceTicks(x0, x1, 6), yt = niceTicks(y0, y1, 4);
   for (const v of yt.ticks) {
-    const y = py(v).toFixed(1);
+    const y = pys(v).toFixed(1);
     parts.push(`<line x1="${L}" x2="${W - R}" y1="${y}" y2="${y}" stroke="#eee"/>`);
-    parts.push(`<text x="${L - 6}" y="${(py(v) + 4).toFixed(1)}" font-size="11" text-anchor="end">${escapeText(tickText(v, yt.step))}</text>`);
+    parts.push(`<text x="${L - 6}" y="${(pys(v) + 4).toFixed(1)}" font-size="11" text-anchor="end">${escapeText(tickText(v, yt.step))}</text>`);
   }
   for (const v of xt.ticks) {
-    const x = px(v).toFixed(1);
+    const x = pxs(v).toFixed(1);
     parts.push(`<line x1="${x}" x2="${x}" y1="${H - B}" y2="${H - B + 4}" stroke="#888"/>`);
     parts.push(`<text x="${x}" y="${H - B + 16}" font-size="11" text-anchor="middle">${escapeText(tickText(v, xt.step))}</text>`);
   }
@@ -134,11 +147,11 @@ export function svgLinePlot(series: readonly PlotSeries[], xLabel: string, yLabe
     parts.push(`<polyline fill="none" stroke="${escapeHtml(s.colour)}" stroke-width="1.2"${s.dash ? ' stroke-dasharray="5 3"' : ''} points="${pts.join(' ')}"/>`);
     parts.push(`<text x="${L + 8 + k * 150}" y="${T - 8}" font-size="11" fill="${escapeHtml(s.colour)}">■ ${escapeText(s.label)}</text>`);
   });
-  const shown = markers.filter((m) => Number.isFinite(m.x) && Number.isFinite(m.y) && m.x >= x0 && m.x <= x1).slice(0, PLOT_MAX_MARKERS);
+  const shown = markers.filter((m) => Number.isFinite(m.x) && Number.isFinite(m.y) && m.x / sx >= x0 && m.x / sx <= x1).slice(0, PLOT_MAX_MARKERS);
   if (shown.length) {
     const numbered = shown.length <= PLOT_MAX_MARKER_LABELS;
     const placed = shown.map((m) => {
-      const cx = px(m.x), cy = py(Math.min(Math.max(m.y, y0), y1));
+      const cx = px(m.x), cy = pys(Math.min(Math.max(m.y / sy, y0), y1));
       // A small triangle pointing at the apex from above (from below for a dip).
       const tip = m.below ? cy + 3 : cy - 3, back = m.below ? tip + 7 : tip - 7;
       parts.push(`<path d="M${cx.toFixed(1)} ${tip.toFixed(1)}L${(cx - 4).toFixed(1)} ${back.toFixed(1)}L${(cx + 4).toFixed(1)} ${back.toFixed(1)}Z" fill="#222"/>`);

@@ -51,11 +51,14 @@ export interface ReportInput {
 /** Most replaced points listed one by one; the rest are counted. */
 export const REPORT_MAX_EVENTS = 2000;
 
+/** Written where a number belongs but the value is not finite (an overflow, or no value): never "NaN" or "Infinity". */
+const NOT_FINITE = 'not a finite number';
+
 /** Numbers for reading: six significant figures (the CSV exports hold every digit). */
 function fmt(v: unknown): string {
   if (v === null || v === undefined || v === '') return '—';
   if (typeof v !== 'number') return escapeText(v);
-  if (!Number.isFinite(v)) return escapeText(String(v));
+  if (!Number.isFinite(v)) return NOT_FINITE;
   const a = Math.abs(v);
   if (a !== 0 && (a < 1e-4 || a >= 1e7)) return v.toExponential(5);
   return String(Number(v.toPrecision(6)));
@@ -65,11 +68,21 @@ function list(items: readonly string[]): string {
   return items.length ? `<ul>${items.map((s) => `<li>${escapeText(s)}</li>`).join('')}</ul>` : '<p class="muted">None.</p>';
 }
 
+/** A table cell: a value that is not a finite number leaves the cell empty (counted for the note under the table). */
+function tableCell(c: unknown, count: { empty: number }): string {
+  if (typeof c === 'number' && !Number.isFinite(c)) { count.empty++; return '<td class="empty"></td>'; }
+  return `<td>${fmt(c)}</td>`;
+}
+
 function table(rows: readonly (readonly unknown[])[], caption?: string): string {
   if (!rows.length) return '';
   const [head, ...body] = rows;
-  return `<table>${caption ? `<caption>${escapeText(caption)}</caption>` : ''}<thead><tr>${head.map((h) => `<th scope="col">${escapeText(h)}</th>`).join('')}</tr></thead><tbody>${
-    body.map((r) => `<tr>${r.map((c) => `<td>${fmt(c)}</td>`).join('')}</tr>`).join('')}</tbody></table>`;
+  const count = { empty: 0 };
+  const cells = body.map((r) => `<tr>${r.map((c) => tableCell(c, count)).join('')}</tr>`).join('');
+  const note = count.empty
+    ? `<p class="muted" data-role="empty-cells">${count.empty} cell${count.empty === 1 ? ' is' : 's are'} empty because the value was not a finite number (an overflow, a division by zero, or no value there).</p>`
+    : '';
+  return `<table>${caption ? `<caption>${escapeText(caption)}</caption>` : ''}<thead><tr>${head.map((h) => `<th scope="col">${escapeText(h)}</th>`).join('')}</tr></thead><tbody>${cells}</tbody></table>${note}`;
 }
 
 function definitionList(pairs: readonly [string, unknown][]): string {

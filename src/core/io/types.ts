@@ -50,6 +50,8 @@ export interface LoadProblem {
   problem: string;
   /** What the user can do about it. */
   advice: string;
+  /** When one statement of the user settles the problem: the words to offer and the option that says it. */
+  settle?: { label: string; numberFormat: { decimal: '.' | ','; grouping: boolean } };
 }
 
 export type LoadResult =
@@ -69,7 +71,21 @@ export interface LoadOptions {
   dialect?: { delimiter?: ',' | ';' | '\t' | 'whitespace'; decimal?: '.' | ',' };
   /** Called with a fraction 0..1 while parsing large files. */
   onProgress?: (fraction: number) => void;
+  /**
+   * How numbers are written, when the user states it (delimited text only):
+   * the decimal sign, and whether the other sign groups thousands. Settles a
+   * file the loader would otherwise refuse as ambiguous ("1.100" with a
+   * decimal comma). Without it the loader decides from the file and refuses
+   * what it cannot settle.
+   */
+  numberFormat?: { decimal: '.' | ','; grouping: boolean };
 }
+
+/** Most traces one file gives (columns of y); a wider file loads its first ones and says so. */
+export const MAX_Y_COLUMNS = 200;
+
+/** Longest line read, in bytes: a longer one (a file without line breaks, say) is refused at once, naming the line. */
+export const MAX_LINE_BYTES = 8 * 1024 * 1024;
 
 /** Largest file the page accepts, in bytes; bigger files are refused with a message. */
 export const MAX_FILE_BYTES = 400 * 1024 * 1024;

@@ -43,6 +43,7 @@ import type { Trace } from '../trace.ts';
 import { dft, nextPowerOfTwo } from '../numeric/fft.ts';
 import { makeRng } from '../numeric/random.ts';
 import { constantProfile, profileFromValues, profileMedian, sigmaAt, type SigmaProfile } from './noise-profile.ts';
+import { fmtNoiseNumber } from './noise-profile.ts';
 
 /** The noise of one input trace, as carried: σ (constant or along its grid) and ρ(0..L). */
 export interface SourceNoise {
@@ -84,7 +85,7 @@ export interface NoiseSources {
 /** Widest impulse response (half-width, points) whose end rows are computed exactly. */
 export const EXACT_END_HALF_WIDTH = 256;
 
-const fmt = (v: number, d = 4) => (Number.isFinite(v) ? Number(v.toPrecision(d)).toString() : String(v));
+const fmt = (v: number, d = 4): string => fmtNoiseNumber(v, d);
 
 /** Which steps ran, from a pipeline result. */
 function ranSteps(run: PipelineResult): string[] {

@@ -56,6 +56,7 @@ import { medianInPlace, MAD_TO_SIGMA, type NoiseCheck } from '../noise.ts';
 
 export type { NoiseCheck };
 import { constantProfile, profileMedian, sigmaAt, type SigmaProfile } from './noise-profile.ts';
+import { fmtNoiseNumber } from './noise-profile.ts';
 
 /** The raw trace's noise: σ, correlation, profile and checks. */
 export interface RawNoiseModel {
@@ -102,7 +103,7 @@ export const MAX_CORRELATION_FACTOR = 3;
 /** Pooled points beyond which correlation pieces are thinned (evenly) to bound the cost. */
 const CORRELATION_POINT_CAP = 1 << 18;
 
-const fmt = (v: number, d = 3) => (Number.isFinite(v) ? Number(v.toPrecision(d)).toString() : String(v));
+const fmt = (v: number, d = 3): string => fmtNoiseNumber(v, d);
 
 // ---------------------------------------------------------------------------------------------
 // Robust scale helpers

@@ -12,6 +12,7 @@ import { noisePeakToPeak, noiseRms, type NoiseEstimate } from '../noise.ts';
 import { correlationModel, differenceShare, MAX_CORRELATION_FACTOR, FEWEST_CORRELATION_POINTS, rawNoiseModel, type NoiseCheck, type RawNoiseModel } from './noise-raw.ts';
 import { carryNoise, type CarriedNoise, type NoiseSources, type SourceNoise } from './noise-carry.ts';
 import { constantProfile, profileRange, type SigmaProfile } from './noise-profile.ts';
+import { fmtNoiseNumber } from './noise-profile.ts';
 
 /**
  * Where the raw σ comes from: 'auto' (the raw trace's finest-scale σ with its
@@ -74,7 +75,7 @@ export function cachedNoiseModel(y: Float64Array): RawNoiseModel | null {
   return m;
 }
 
-const fmt = (v: number, d = 4) => (Number.isFinite(v) ? Number(v.toPrecision(d)).toString() : String(v));
+const fmt = (v: number, d = 4): string => fmtNoiseNumber(v, d);
 
 function sourceOf(m: RawNoiseModel): SourceNoise {
   return { profile: m.profile, sigma: m.sigma, rho: m.rho };

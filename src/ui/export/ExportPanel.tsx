@@ -12,7 +12,9 @@ import { analysisOf, parseRecipeText, recipeStepsOnly, recipeToJson, recipeWithA
 import { STEP_REGISTRY } from '../../core/steps/registry.ts';
 import { useApp } from '../../state/store.ts';
 import { downloadBlob, downloadCsv, downloadText } from './download.ts';
-import { clearSession } from './session-db.ts';
+import { clearSession, SESSION_UNDO_STEPS } from './session-db.ts';
+import { SessionFileControls } from './SessionFileControls.tsx';
+import { markDrawn } from '../draw-health.ts';
 
 type Guarded = 'cleaned' | 'peaks' | 'report';
 
@@ -45,6 +47,10 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
   const peakSettings = useApp((s) => s.peakSettings);
   // The method as saved and written into every export: the steps and the analysis settings.
   const recipe = recipeWithAnalysis(stack, noiseSettings, peakSettings);
+  const sessionProblem = useApp((s) => s.sessionProblem);
+  const savedAt = useApp((s) => s.sessionSavedAt);
+  const savePending = useApp((s) => s.sessionPending);
+  const offlineReady = useApp((s) => s.offlineReady);
   const [delimiter, setDelimiter] = useState<CsvDelimiter>(',');
   const [decimal, setDecimal] = useState<CsvDecimal>('.');
   const [pending, setPending] = useState<Guarded | null>(null);
@@ -170,6 +176,7 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
   const startOver = async () => {
     const r = await clearSession();
     if (!r.ok) { notify('error', 'Could not start over', [r.problem]); return; }
+    markDrawn();
     window.location.reload();
   };
 
@@ -240,6 +247,15 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
           <ul className="small">{batchErrors.map((e, i) => <li key={i}><strong>{e.file}</strong>: {e.message}</li>)}</ul>
         </div>
       )}
+      <div className="row" style={{ margin: "6px 0" }}>
+        <SessionFileControls />
+        <span className="small muted" data-testid="session-status" data-pending={savePending ? 'true' : 'false'}>
+          {sessionProblem ? 'Session: not kept in this browser (see the message at the top); save it to a file.'
+            : savedAt ? `Session: kept in this browser, last saved ${new Date(savedAt).toLocaleTimeString()}${savePending ? ' (saving the latest changes…)' : ''}, with the last ${SESSION_UNDO_STEPS} undo steps.`
+              : 'Session: not saved yet.'}
+          {offlineReady ? ' The page also opens without its server (a copy is kept in this browser).' : ''}
+        </span>
+      </div>
       <div className="row" style={{ margin: "6px 0" }}>
         {askStartOver ? (
           <>
