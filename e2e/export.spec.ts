@@ -116,7 +116,6 @@ async function savedFileNames(page: Page): Promise<string[]> {
 }
 
 test('the session survives a reload', async ({ page }) => {
-  test.skip(!readFileSync('src/main.tsx', 'utf8').includes('restoreSession'), 'session restore is not wired into main.tsx yet');
   await openWithDemo(page);
   await page.getByTestId('file-input').setInputFiles('e2e/fixtures/absorbance-semicolon.csv');
   await expect(page.getByRole('heading', { name: /absorbance-semicolon\.csv/ })).toBeVisible();

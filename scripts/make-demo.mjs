@@ -14,6 +14,14 @@
  *   demo-blank.csv         same drift, independent noise, no peaks, no spike
  *   demo-scan-1..8.csv     the same run repeated: same peaks and drift, independent noise, no spike
  *   demo-truth.json        everything above, for tests
+ * and, for calibration (drawn afterwards from a separate seed, so the files
+ * above stay byte for byte what they were):
+ *   demo-standard-L{1,2,3}-{a,b}.csv  standards of three invented dyes at three levels, in duplicate:
+ *                          the same drift, noise SD and peak shapes as the sample, no other peaks
+ *   demo-named-peaks.csv   the dyes' expected positions and windows (name, position, window)
+ *   demo-standards.csv     the known amounts in each standard (standard, one column per dye)
+ *   demo-standards-truth.json  the dyes' response factors, the standards' amounts and the
+ *                          true amounts in demo-sample.csv
  *
  * Plain Node, no dependencies, so `npm run demo` works before a build.
  * Random numbers: mulberry32 (Tommy Ettinger, public domain) for uniforms
@@ -145,20 +153,96 @@ export function makeDemo(seed = SEED) {
   return { x, files, truth };
 }
 
-const header = (run) => [
+const header = (run, seed) => [
   `Run: Orchard Red / Lagoon Blue practice separation, ${run}`,
   'Date: 2026-03-14',
   'Rig: student bench rig B (made up)',
   'Detector: absorbance at 520 nm',
-  `Note: synthetic demo data made by scripts/make-demo.mjs seed ${SEED}`,
+  `Note: synthetic demo data made by scripts/make-demo.mjs seed ${seed}`,
   'Time (min),Absorbance 520 nm (mAU)',
 ];
 
-/** The CSV text of one file, y rounded to the 4 decimals the files carry. */
-export function demoCsv(x, run, y) {
-  const lines = header(run);
+/** The CSV text of one file, y rounded to the 4 decimals the files carry; `seed` is the one named in its note line. */
+export function demoCsv(x, run, y, seed = SEED) {
+  const lines = header(run, seed);
   for (let i = 0; i < POINTS; i++) lines.push(`${x[i].toFixed(2)},${y[i].toFixed(4)}`);
   return `${lines.join('\n')}\n`;
+}
+
+// ---------------------------------------------------------------------------
+// Calibration standards. Three of the sample's peaks are given the names of
+// invented dyes; each dye's peak area is proportional to its amount (mg/L)
+// with a made-up response factor, so the sample's true amounts are its peak
+// areas divided by those factors. Standards hold only the three dyes, at three
+// levels each, each level made twice (two injections, independent noise).
+// Noise comes from its own seed, drawn after everything above.
+const STANDARDS_SEED = 20260315;
+const AMOUNT_UNIT = 'mg/L';
+const DYES = [
+  // responsePerAmount: peak area (mAU·min) per mg/L; levels: mg/L; window: ± min for the named-peak table.
+  { name: 'Orchard Red', peak: 'large isolated peak', responsePerAmount: 0.4, levels: [2, 5, 8], window: 0.15 },
+  { name: 'Meadow Gold', peak: 'near quantitation limit', responsePerAmount: 0.05, levels: [1, 3, 6], window: 0.1 },
+  { name: 'Lagoon Blue', peak: 'broad late peak', responsePerAmount: 0.15, levels: [1.5, 3.5, 6], window: 0.3 },
+].map((d) => {
+  const p = PEAK_LIST.find((q) => q.label === d.peak);
+  return { ...d, centre: p.centre, sigma: p.sigma, sampleArea: AREA_PER_HEIGHT_SIGMA * p.height * p.sigma };
+});
+const LEVELS = 3;
+const INJECTIONS = ['a', 'b'];
+
+/** The calibration standards (own seed), the named-peak table and the amounts table, with their ground truth. */
+export function makeStandards() {
+  const x = Array.from({ length: POINTS }, (_, i) => round(X_START + i * X_STEP, 2));
+  const drift = x.map((t) => DRIFT.c0 + DRIFT.c1 * t + DRIFT.c2 * t * t);
+  const stdNormal = normalSource(mulberry32(STANDARDS_SEED));
+  const standardFiles = [];
+  for (let level = 1; level <= LEVELS; level++) {
+    for (const inj of INJECTIONS) {
+      const amounts = DYES.map((d) => d.levels[level - 1]);
+      const y = x.map((t, i) => {
+        let v = drift[i];
+        DYES.forEach((d, k) => {
+          const height = (amounts[k] * d.responsePerAmount) / (AREA_PER_HEIGHT_SIGMA * d.sigma);
+          v += height * Math.exp(-0.5 * ((t - d.centre) / d.sigma) ** 2);
+        });
+        return v + NOISE_SD * stdNormal();
+      });
+      standardFiles.push({ file: `demo-standard-L${level}-${inj}.csv`, run: `calibration standard, level ${level} of ${LEVELS}, injection ${inj}`, level, injection: inj, amounts, y });
+    }
+  }
+
+  const namedPeaksCsv = ['name,position (min),window (min)', ...DYES.map((d) => `${d.name},${d.centre},${d.window}`)];
+  const standardsCsv = [
+    `standard,${DYES.map((d) => `${d.name} (${AMOUNT_UNIT})`).join(',')}`,
+    ...standardFiles.map((f) => `${f.file},${f.amounts.join(',')}`),
+  ];
+
+  const standardsTruth = {
+    description:
+      'Invented calibration standards for the demo: three peaks of demo-sample.csv named as made-up dyes, whose peak area is ' +
+      'proportional to amount with the response factors below. Written by scripts/make-demo.mjs; every number below is what the script used.',
+    generator: 'mulberry32 uniforms, Box-Muller normals, own seed; noise drawn file after file in the order of "files"',
+    seed: STANDARDS_SEED,
+    amountUnit: AMOUNT_UNIT,
+    responseDefinition: 'peak area above the drift (mAU*min) = responsePerAmount * amount; Gaussian peaks of the sample\'s centre and sigma',
+    noiseSd: NOISE_SD,
+    drift: { formula: 'c0 + c1*t + c2*t^2 (mAU, t in min)', ...DRIFT },
+    dyes: DYES.map((d) => ({
+      name: d.name,
+      samplePeakLabel: d.peak,
+      centre: d.centre,
+      sigma: d.sigma,
+      window: d.window,
+      responsePerAmount: d.responsePerAmount,
+      levels: d.levels,
+      sampleAmount: round(d.sampleArea / d.responsePerAmount, 9),
+    })),
+    namedPeaksFile: 'demo-named-peaks.csv',
+    amountsFile: 'demo-standards.csv',
+    sampleFile: 'demo-sample.csv',
+    files: standardFiles.map((f) => ({ file: f.file, role: 'standard', level: f.level, injection: f.injection, amounts: f.amounts })),
+  };
+  return { x, standardFiles, namedPeaksCsv, standardsCsv, standardsTruth };
 }
 
 // Written only when run as a script (tests import makeDemo).
@@ -169,4 +253,10 @@ if (process.argv[1] && resolve(process.argv[1]) === fileURLToPath(import.meta.ur
   for (const f of files) writeFileSync(join(outDir, f.file), demoCsv(x, f.run, f.y));
   writeFileSync(join(outDir, 'demo-truth.json'), `${JSON.stringify(truth, null, 2)}\n`);
   console.log(`Wrote ${files.length} traces and demo-truth.json to ${outDir}`);
+  const std = makeStandards();
+  for (const f of std.standardFiles) writeFileSync(join(outDir, f.file), demoCsv(std.x, f.run, f.y, STANDARDS_SEED));
+  writeFileSync(join(outDir, 'demo-named-peaks.csv'), `${std.namedPeaksCsv.join('\n')}\n`);
+  writeFileSync(join(outDir, 'demo-standards.csv'), `${std.standardsCsv.join('\n')}\n`);
+  writeFileSync(join(outDir, 'demo-standards-truth.json'), `${JSON.stringify(std.standardsTruth, null, 2)}\n`);
+  console.log(`Wrote ${std.standardFiles.length} standards, demo-named-peaks.csv, demo-standards.csv and demo-standards-truth.json to ${outDir}`);
 }

@@ -7,6 +7,7 @@ import { ALTERNATIVE_COLOURS, COLOURS } from './palette.ts';
 import { interpolateLinear } from '../core/numeric/interpolate.ts';
 import { PlotlyFigure } from './PlotlyFigure.tsx';
 import { MARK_TEXT } from '../core/export/peak-csv.ts';
+import { markDrawFailed, markDrawn } from './draw-health.ts';
 
 /** Plot width in pixel columns used for decimation (two points per column). */
 function useWidth(): [React.RefObject<HTMLDivElement | null>, number] {
@@ -171,13 +172,14 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const onXRange = useCallback((r: [number, number] | null) => setXRange(r), [setXRange]);
   const onSelectX = useCallback((r: [number, number]) => setMarked(r), [setMarked]);
   const onClickPoint = useCallback((x: number) => { if (addPeakMode) addPeakAt(x); }, [addPeakMode, addPeakAt]);
+  const onDrawn = useCallback((problem: string | null) => { if (problem) markDrawFailed(`the plot: ${problem}`); else markDrawn(); }, []);
 
   if (!sample) {
     return <div className="plot-empty" ref={boxRef}>No trace yet. Drop a file here or choose one with “Open file”.</div>;
   }
   return (
     <div ref={boxRef} className="plot-box">
-      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onReady={onFigure} />
+      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onReady={onFigure} onDrawn={onDrawn} pictureName={`${sample.source.fileName.replace(/\.[^.]*$/, '')}-plot`} />
     </div>
   );
 }

@@ -13,6 +13,7 @@ import { WIDTH_LIMIT } from '../measure/peak-bounds.ts';
 import { noiseBumpSentence } from '../measure/noise-bumps.ts';
 import type { Recipe, Registry } from '../recipe.ts';
 import type { Trace } from '../trace.ts';
+import { noiseSummaryLines } from '../measure/noise-report.ts';
 import { commentText, metadataLines, provenanceLines } from './cleaned-csv.ts';
 import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
 
@@ -105,10 +106,17 @@ export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader
   return rows;
 }
 
+/** A number for a sentence: never "NaN" or "Infinity" (issue 13). */
+function num(v: number): string {
+  return Number.isFinite(v) ? String(v) : 'not a finite number';
+}
+
 /** One sentence about a noise estimate: what, over how many points, where. */
 export function noiseSentence(e: NoiseEstimate): string {
   const where = e.from !== undefined && e.to !== undefined ? ` over x ${e.from} to ${e.to}${e.clipped ? ' (cut by the trace end)' : ''}` : '';
-  return `${e.description} Method ${e.method}; ${e.measure === 'sd' ? 'standard deviation' : 'range'} ${e.sigma}; ${e.points} points${where}.`;
+  const held = e.assumptionsHeld === undefined ? '' : e.assumptionsHeld ? '; assumptions held' : '; an assumption did not hold or a fallback was used';
+  const value = Number.isFinite(e.sigma) ? String(e.sigma) : `${num(e.sigma)} (the computation overflowed or had no data)`;
+  return `${e.description} Method ${e.method}; ${e.measure === 'sd' ? 'standard deviation' : 'range'} ${value}; ${e.points} points${where}${held}.`;
 }
 
 /** How height, width, bounds and area are measured, in words (the table's hint says the same, shorter). */
@@ -128,6 +136,7 @@ export function peakMethodLines(result: AnalyseResult): string[] {
     lines.push(`Noise σ on the measured trace: ${noiseSentence(result.noise.sigma)}`);
     if (result.noise.rawSigma && result.noise.rawSigma !== result.noise.sigma) lines.push(`Noise on the raw trace (for comparison): ${noiseSentence(result.noise.rawSigma)}`);
     if (result.noise.peakToPeak) lines.push(`Peak-to-peak noise in the quiet range: ${noiseSentence(result.noise.peakToPeak)}`);
+    lines.push(...noiseSummaryLines(result.noise));
     for (const n of result.noise.notes) lines.push(`Noise note: ${n}`);
   } else {
     lines.push('Noise: not measured.');
@@ -135,7 +144,7 @@ export function peakMethodLines(result: AnalyseResult): string[] {
   if (o) {
     lines.push(`Limits: detection S/N ${o.limits.detection}, quantitation S/N ${o.limits.quantitation}.`);
     lines.push(`Flags: "${FLAG_TEXT['below-detection']}" when S/N < ${o.limits.detection}; "${FLAG_TEXT.detectable}" when ${o.limits.detection} ≤ S/N < ${o.limits.quantitation}; "${FLAG_TEXT.quantifiable}" when S/N ≥ ${o.limits.quantitation}; "${FLAG_TEXT['not-measured']}" when S/N could not be computed.`);
-    lines.push(`Thresholds: prominence at least ${o.minProminence} (y-units), S/N at least ${o.minSnr}, FWHM at least ${o.minWidth} (x-units), apex separation at least ${o.minSeparation} (x-units, 0 = off)${o.negative ? '; troughs detected (heights and areas negative)' : ''}.`);
+    lines.push(`Thresholds: prominence at least ${num(o.minProminence)} (y-units), S/N at least ${num(o.minSnr)}, FWHM at least ${num(o.minWidth)} (x-units), apex separation at least ${num(o.minSeparation)} (x-units, 0 = off)${o.negative ? '; troughs detected (heights and areas negative)' : ''}.`);
     if (def === 'pharmacopoeial') lines.push(`2H/h noise window: ${o.pharmacopoeialMultiplier} half-height widths.`);
   }
   lines.push(...PEAK_MEASURE_LINES);

@@ -82,3 +82,6 @@ export function profileRange(p: SigmaProfile): [number, number] {
   for (const v of p.sigma) { if (v < lo) lo = v; if (v > hi) hi = v; }
   return [lo, hi];
 }
+
+/** A noise figure for the texts: d significant figures; 'not a finite number' for NaN or ±Infinity (never "NaN" in an export). */
+export const fmtNoiseNumber = (v: number, d = 4): string => (Number.isFinite(v) ? Number(v.toPrecision(d)).toString() : 'not a finite number');
