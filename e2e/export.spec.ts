@@ -124,7 +124,7 @@ test('the session survives a reload', async ({ page }) => {
   await expect.poll(() => savedFileNames(page), { timeout: 20_000 }).toContain('absorbance-semicolon.csv');
   await page.reload();
   await expect(page.getByRole('heading', { name: /absorbance-semicolon\.csv/ })).toBeVisible({ timeout: 20_000 });
-  await expect(page.getByTestId('notice-info').filter({ hasText: 'previous session was restored' })).toBeVisible();
+  await expect(page.getByTestId('notice-info').filter({ hasText: 'previous session was restored' })).toBeVisible({ timeout: 20_000 });
   await expect.poll(async () => (await trace(page, 'raw'))?.x.length).toBe(60);
   expect(await page.locator('[data-testid^="step-"]').count()).toBe(steps);
 
