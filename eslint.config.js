@@ -4,7 +4,7 @@ import reactHooks from 'eslint-plugin-react-hooks';
 import globals from 'globals';
 
 export default tseslint.config(
-  { ignores: ['dist', 'node_modules', 'test-results', 'playwright-report', 'public'] },
+  { ignores: ['dist', 'dist-cli', 'node_modules', 'test-results', 'playwright-report', 'public'] },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {

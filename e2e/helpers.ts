@@ -23,3 +23,10 @@ export async function openWithDemo(page: Page): Promise<void> {
   await expect(page.getByRole('heading', { name: /demo-sample\.csv/ })).toBeVisible();
   expect(errors).toEqual([]);
 }
+
+/** Everything loaded and edited so far is in the browser's database, not only in the journal (issue 13). */
+export async function sessionSaved(page: Page): Promise<void> {
+  const status = page.getByTestId('session-status');
+  await expect(status).toContainText('kept in this browser', { timeout: 30_000 });
+  await expect(status).toHaveAttribute('data-pending', 'false', { timeout: 30_000 });
+}

@@ -27,6 +27,8 @@ test('no request leaves the origin and nothing breaks the policy while loading, 
   page.on('console', (m) => { if (m.text().includes('Content Security Policy')) violations.push(m.text()); });
   await page.exposeFunction('__reportCsp', (v: string) => violations.push(v));
   await page.addInitScript(() => {
+    // Init scripts also run in the service worker, which has no document.
+    if (typeof document === 'undefined') return;
     document.addEventListener('securitypolicyviolation', (e) => {
       (window as unknown as { __reportCsp: (v: string) => void }).__reportCsp(`${e.violatedDirective} ${e.blockedURI}`);
     });
@@ -63,7 +65,8 @@ test('works offline after the first load: no request goes out and a file still l
   const after: string[] = [];
   page.on('request', (r) => after.push(r.url()));
   await context.setOffline(true);
-  // No service worker is used, so a reload offline cannot work; instead the page must keep working without the network.
+  // The offline switch does not govern a service worker's own fetches, so reopening without the server is tested
+  // by stopping the server (offline.spec.ts); here the open page must keep working without the network.
   await page.selectOption('#add-step-choice', 'moving-average');
   await page.getByRole('button', { name: 'Add step' }).click();
   await page.getByTestId('file-input').setInputFiles('test/fixtures/hostile/x-descending.csv');

@@ -14,6 +14,14 @@
  *   demo-blank.csv         same drift, independent noise, no peaks, no spike
  *   demo-scan-1..8.csv     the same run repeated: same peaks and drift, independent noise, no spike
  *   demo-truth.json        everything above, for tests
+ * and, for calibration (drawn afterwards from a separate seed, so the files
+ * above stay byte for byte what they were):
+ *   demo-standard-L{1,2,3}-{a,b}.csv  standards of three invented dyes at three levels, in duplicate:
+ *                          the same drift, noise SD and peak shapes as the sample, no other peaks
+ *   demo-named-peaks.csv   the dyes' expected positions and windows (name, position, window)
+ *   demo-standards.csv     the known amounts in each standard (standard, one column per dye)
+ *   demo-standards-truth.json  the dyes' response factors, the standards' amounts and the
+ *                          true amounts in demo-sample.csv
  *
  * Plain Node, no dependencies, so `npm run demo` works before a build.
  * Random numbers: mulberry32 (Tommy Ettinger, public domain) for uniforms
@@ -26,7 +34,6 @@ import { fileURLToPath } from 'node:url';
 
 const SEED = 20260314;
 const here = dirname(fileURLToPath(import.meta.url));
-const outDir = resolve(process.argv[2] ?? join(here, '..', 'public', 'demo'));
 
 /** mulberry32: 32-bit state, uniform on [0, 1). */
 function mulberry32(seed) {
@@ -88,71 +95,168 @@ const SPIKE_SIZE_IN_NOISE_SD = 40;
 
 const round = (v, digits) => Number(v.toFixed(digits));
 
-const x = Array.from({ length: POINTS }, (_, i) => round(X_START + i * X_STEP, 2));
-const drift = x.map((t) => DRIFT.c0 + DRIFT.c1 * t + DRIFT.c2 * t * t);
-const peaksOnly = x.map((t) => PEAK_LIST.reduce((s, p) => s + p.height * Math.exp(-0.5 * ((t - p.centre) / p.sigma) ** 2), 0));
+/**
+ * The demo for a seed: the x grid, every file's y (sample first, then the
+ * blank, then the scans) and the ground truth. The default seed gives the
+ * committed files; other seeds give the same run with other noise (tests
+ * use them to average over realisations).
+ */
+export function makeDemo(seed = SEED) {
+  const x = Array.from({ length: POINTS }, (_, i) => round(X_START + i * X_STEP, 2));
+  const drift = x.map((t) => DRIFT.c0 + DRIFT.c1 * t + DRIFT.c2 * t * t);
+  const peaksOnly = x.map((t) => PEAK_LIST.reduce((s, p) => s + p.height * Math.exp(-0.5 * ((t - p.centre) / p.sigma) ** 2), 0));
 
-const normal = normalSource(mulberry32(SEED));
-const noisy = (base) => base.map((v) => v + NOISE_SD * normal());
+  const normal = normalSource(mulberry32(seed));
+  const noisy = (base) => base.map((v) => v + NOISE_SD * normal());
 
-const header = (run) => [
+  // Noise is drawn in this order, one file after the other, so each file's noise is independent of the others.
+  const signal = x.map((_, i) => drift[i] + peaksOnly[i]);
+  const files = [];
+  const sample = noisy(signal);
+  const spikeSize = SPIKE_SIZE_IN_NOISE_SD * NOISE_SD;
+  sample[SPIKE_INDEX] += spikeSize;
+  files.push({ file: 'demo-sample.csv', role: 'sample', run: 'run 3', y: sample, peaks: true, spike: true });
+  files.push({ file: 'demo-blank.csv', role: 'blank', run: 'blank (solvent only)', y: noisy(drift), peaks: false, spike: false });
+  for (let k = 1; k <= 8; k++) {
+    files.push({ file: `demo-scan-${k}.csv`, role: 'scan', run: `repeat scan ${k} of 8`, y: noisy(signal), peaks: true, spike: false });
+  }
+
+  const truth = {
+    description:
+      'Invented demo data: a made-up teaching-lab separation of the food-dye mixture "Orchard Red / Lagoon Blue", ' +
+      'absorbance at 520 nm against time. Written by scripts/make-demo.mjs; every number below is what the script used.',
+    generator: 'mulberry32 uniforms, Box-Muller normals; noise drawn file after file in the order of "files"',
+    seed,
+    x: { name: 'Time', unit: 'min', start: X_START, step: X_STEP, points: POINTS },
+    y: { name: 'Absorbance 520 nm', unit: 'mAU', decimals: 4 },
+    noiseSd: NOISE_SD,
+    drift: { formula: 'c0 + c1*t + c2*t^2 (mAU, t in min)', ...DRIFT },
+    peaks: PEAK_LIST.map((p) => ({
+      label: p.label,
+      centre: p.centre,
+      height: p.height,
+      sigma: p.sigma,
+      fwhm: round(FWHM_PER_SIGMA * p.sigma, 6),
+      area: round(AREA_PER_HEIGHT_SIGMA * p.height * p.sigma, 6),
+      trueSn: round(p.height / NOISE_SD, 6),
+    })),
+    snDefinition: 'trueSn = peak height above the drift / noise standard deviation',
+    spike: {
+      file: 'demo-sample.csv',
+      index: SPIKE_INDEX,
+      x: x[SPIKE_INDEX],
+      size: spikeSize,
+      sizeInNoiseSd: SPIKE_SIZE_IN_NOISE_SD,
+    },
+    files: files.map((f) => ({ file: f.file, role: f.role, peaks: f.peaks, spike: f.spike })),
+  };
+  return { x, files, truth };
+}
+
+const header = (run, seed) => [
   `Run: Orchard Red / Lagoon Blue practice separation, ${run}`,
   'Date: 2026-03-14',
   'Rig: student bench rig B (made up)',
   'Detector: absorbance at 520 nm',
-  `Note: synthetic demo data made by scripts/make-demo.mjs seed ${SEED}`,
+  `Note: synthetic demo data made by scripts/make-demo.mjs seed ${seed}`,
   'Time (min),Absorbance 520 nm (mAU)',
 ];
 
-function csv(run, y) {
-  const lines = header(run);
+/** The CSV text of one file, y rounded to the 4 decimals the files carry; `seed` is the one named in its note line. */
+export function demoCsv(x, run, y, seed = SEED) {
+  const lines = header(run, seed);
   for (let i = 0; i < POINTS; i++) lines.push(`${x[i].toFixed(2)},${y[i].toFixed(4)}`);
   return `${lines.join('\n')}\n`;
 }
 
-// Noise is drawn in this order, one file after the other, so each file's noise is independent of the others.
-const signal = x.map((_, i) => drift[i] + peaksOnly[i]);
-const files = [];
-const sample = noisy(signal);
-const spikeSize = SPIKE_SIZE_IN_NOISE_SD * NOISE_SD;
-sample[SPIKE_INDEX] += spikeSize;
-files.push({ file: 'demo-sample.csv', role: 'sample', run: 'run 3', y: sample, peaks: true, spike: true });
-files.push({ file: 'demo-blank.csv', role: 'blank', run: 'blank (solvent only)', y: noisy(drift), peaks: false, spike: false });
-for (let k = 1; k <= 8; k++) {
-  files.push({ file: `demo-scan-${k}.csv`, role: 'scan', run: `repeat scan ${k} of 8`, y: noisy(signal), peaks: true, spike: false });
+// ---------------------------------------------------------------------------
+// Calibration standards. Three of the sample's peaks are given the names of
+// invented dyes; each dye's peak area is proportional to its amount (mg/L)
+// with a made-up response factor, so the sample's true amounts are its peak
+// areas divided by those factors. Standards hold only the three dyes, at three
+// levels each, each level made twice (two injections, independent noise).
+// Noise comes from its own seed, drawn after everything above.
+const STANDARDS_SEED = 20260315;
+const AMOUNT_UNIT = 'mg/L';
+const DYES = [
+  // responsePerAmount: peak area (mAU·min) per mg/L; levels: mg/L; window: ± min for the named-peak table.
+  { name: 'Orchard Red', peak: 'large isolated peak', responsePerAmount: 0.4, levels: [2, 5, 8], window: 0.15 },
+  { name: 'Meadow Gold', peak: 'near quantitation limit', responsePerAmount: 0.05, levels: [1, 3, 6], window: 0.1 },
+  { name: 'Lagoon Blue', peak: 'broad late peak', responsePerAmount: 0.15, levels: [1.5, 3.5, 6], window: 0.3 },
+].map((d) => {
+  const p = PEAK_LIST.find((q) => q.label === d.peak);
+  return { ...d, centre: p.centre, sigma: p.sigma, sampleArea: AREA_PER_HEIGHT_SIGMA * p.height * p.sigma };
+});
+const LEVELS = 3;
+const INJECTIONS = ['a', 'b'];
+
+/** The calibration standards (own seed), the named-peak table and the amounts table, with their ground truth. */
+export function makeStandards() {
+  const x = Array.from({ length: POINTS }, (_, i) => round(X_START + i * X_STEP, 2));
+  const drift = x.map((t) => DRIFT.c0 + DRIFT.c1 * t + DRIFT.c2 * t * t);
+  const stdNormal = normalSource(mulberry32(STANDARDS_SEED));
+  const standardFiles = [];
+  for (let level = 1; level <= LEVELS; level++) {
+    for (const inj of INJECTIONS) {
+      const amounts = DYES.map((d) => d.levels[level - 1]);
+      const y = x.map((t, i) => {
+        let v = drift[i];
+        DYES.forEach((d, k) => {
+          const height = (amounts[k] * d.responsePerAmount) / (AREA_PER_HEIGHT_SIGMA * d.sigma);
+          v += height * Math.exp(-0.5 * ((t - d.centre) / d.sigma) ** 2);
+        });
+        return v + NOISE_SD * stdNormal();
+      });
+      standardFiles.push({ file: `demo-standard-L${level}-${inj}.csv`, run: `calibration standard, level ${level} of ${LEVELS}, injection ${inj}`, level, injection: inj, amounts, y });
+    }
+  }
+
+  const namedPeaksCsv = ['name,position (min),window (min)', ...DYES.map((d) => `${d.name},${d.centre},${d.window}`)];
+  const standardsCsv = [
+    `standard,${DYES.map((d) => `${d.name} (${AMOUNT_UNIT})`).join(',')}`,
+    ...standardFiles.map((f) => `${f.file},${f.amounts.join(',')}`),
+  ];
+
+  const standardsTruth = {
+    description:
+      'Invented calibration standards for the demo: three peaks of demo-sample.csv named as made-up dyes, whose peak area is ' +
+      'proportional to amount with the response factors below. Written by scripts/make-demo.mjs; every number below is what the script used.',
+    generator: 'mulberry32 uniforms, Box-Muller normals, own seed; noise drawn file after file in the order of "files"',
+    seed: STANDARDS_SEED,
+    amountUnit: AMOUNT_UNIT,
+    responseDefinition: 'peak area above the drift (mAU*min) = responsePerAmount * amount; Gaussian peaks of the sample\'s centre and sigma',
+    noiseSd: NOISE_SD,
+    drift: { formula: 'c0 + c1*t + c2*t^2 (mAU, t in min)', ...DRIFT },
+    dyes: DYES.map((d) => ({
+      name: d.name,
+      samplePeakLabel: d.peak,
+      centre: d.centre,
+      sigma: d.sigma,
+      window: d.window,
+      responsePerAmount: d.responsePerAmount,
+      levels: d.levels,
+      sampleAmount: round(d.sampleArea / d.responsePerAmount, 9),
+    })),
+    namedPeaksFile: 'demo-named-peaks.csv',
+    amountsFile: 'demo-standards.csv',
+    sampleFile: 'demo-sample.csv',
+    files: standardFiles.map((f) => ({ file: f.file, role: 'standard', level: f.level, injection: f.injection, amounts: f.amounts })),
+  };
+  return { x, standardFiles, namedPeaksCsv, standardsCsv, standardsTruth };
 }
 
-mkdirSync(outDir, { recursive: true });
-for (const f of files) writeFileSync(join(outDir, f.file), csv(f.run, f.y));
-
-const truth = {
-  description:
-    'Invented demo data: a made-up teaching-lab separation of the food-dye mixture "Orchard Red / Lagoon Blue", ' +
-    'absorbance at 520 nm against time. Written by scripts/make-demo.mjs; every number below is what the script used.',
-  generator: 'mulberry32 uniforms, Box-Muller normals; noise drawn file after file in the order of "files"',
-  seed: SEED,
-  x: { name: 'Time', unit: 'min', start: X_START, step: X_STEP, points: POINTS },
-  y: { name: 'Absorbance 520 nm', unit: 'mAU', decimals: 4 },
-  noiseSd: NOISE_SD,
-  drift: { formula: 'c0 + c1*t + c2*t^2 (mAU, t in min)', ...DRIFT },
-  peaks: PEAK_LIST.map((p) => ({
-    label: p.label,
-    centre: p.centre,
-    height: p.height,
-    sigma: p.sigma,
-    fwhm: round(FWHM_PER_SIGMA * p.sigma, 6),
-    area: round(AREA_PER_HEIGHT_SIGMA * p.height * p.sigma, 6),
-    trueSn: round(p.height / NOISE_SD, 6),
-  })),
-  snDefinition: 'trueSn = peak height above the drift / noise standard deviation',
-  spike: {
-    file: 'demo-sample.csv',
-    index: SPIKE_INDEX,
-    x: x[SPIKE_INDEX],
-    size: spikeSize,
-    sizeInNoiseSd: SPIKE_SIZE_IN_NOISE_SD,
-  },
-  files: files.map((f) => ({ file: f.file, role: f.role, peaks: f.peaks, spike: f.spike })),
-};
-writeFileSync(join(outDir, 'demo-truth.json'), `${JSON.stringify(truth, null, 2)}\n`);
-console.log(`Wrote ${files.length} traces and demo-truth.json to ${outDir}`);
+// Written only when run as a script (tests import makeDemo).
+if (process.argv[1] && resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
+  const outDir = resolve(process.argv[2] ?? join(here, '..', 'public', 'demo'));
+  const { x, files, truth } = makeDemo();
+  mkdirSync(outDir, { recursive: true });
+  for (const f of files) writeFileSync(join(outDir, f.file), demoCsv(x, f.run, f.y));
+  writeFileSync(join(outDir, 'demo-truth.json'), `${JSON.stringify(truth, null, 2)}\n`);
+  console.log(`Wrote ${files.length} traces and demo-truth.json to ${outDir}`);
+  const std = makeStandards();
+  for (const f of std.standardFiles) writeFileSync(join(outDir, f.file), demoCsv(std.x, f.run, f.y, STANDARDS_SEED));
+  writeFileSync(join(outDir, 'demo-named-peaks.csv'), `${std.namedPeaksCsv.join('\n')}\n`);
+  writeFileSync(join(outDir, 'demo-standards.csv'), `${std.standardsCsv.join('\n')}\n`);
+  writeFileSync(join(outDir, 'demo-standards-truth.json'), `${JSON.stringify(std.standardsTruth, null, 2)}\n`);
+  console.log(`Wrote ${std.standardFiles.length} standards, demo-named-peaks.csv, demo-standards.csv and demo-standards-truth.json to ${outDir}`);
+}

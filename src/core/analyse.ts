@@ -8,25 +8,16 @@ import type { Recipe, Registry } from './recipe.ts';
 import type { Signal, SpikeEvent, StepContext } from './steps/types.ts';
 import type { Trace } from './trace.ts';
 import { interpolateLinear, meanStep } from './numeric/interpolate.ts';
-import { residual as residualOf, residualDiagnostics, type ResidualDiagnostics } from './diagnostics.ts';
-import { noisePeakToPeak, noiseRms, noiseRobust, type NoiseEstimate } from './noise.ts';
-import { featureMask, noiseQuietWindows } from './noise-windows.ts';
-import { matchPeaks, windowAdvice, type Ledger, type WindowAdvice } from './loss.ts';
-import { applyPeakDecisions, defaultPeakOptions, detectPeaks, type Peak, type PeakDecisions, type PeakOptions, type SnrDefinition } from './peaks.ts';
+import { combineVerdict, HEIGHT_LOSS_TOLERANCE, residual as residualOf, residualDiagnostics, type ResidualDiagnostics } from './diagnostics.ts';
+import { measureNoise, type NoiseReport, type NoiseSettings, type StackRun } from './measure/noise-report.ts';
+import { matchPeaks, windowAdvice, type Ledger, type LedgerRow, type WindowAdvice } from './loss.ts';
+import type { Peak, PeakDecisions, PeakOptions, SnrDefinition, SplitRule } from './measure/peak-types.ts';
+import { applyPeakDecisions, defaultPeakOptions, detectPeaks, markAppearsOnlyAfterProcessing, markSaturatedOnRaw } from './measure/peak-table.ts';
+import { expectedNoiseBumps, type NoiseBumpCount } from './measure/noise-bumps.ts';
 
-/**
- * How noise is measured for S/N = H/σ: 'windows' (automatic, median of
- * local SDs; valid after smoothing), 'rms' (about a line over the quiet
- * range the user marked), 'robust' (point-to-point differences; white noise
- * only, so raw traces only).
- */
-export type NoiseMethod = 'windows' | 'rms' | 'robust';
-
-export interface NoiseSettings {
-  method: NoiseMethod;
-  /** Quiet baseline range the user marked (x-units); needed by 'rms' and for the peak-to-peak figure. */
-  quietRange: [number, number] | null;
-}
+export { DEFAULT_NOISE_SETTINGS, measureNoise } from './measure/noise-report.ts';
+export type { NoiseMethod, NoiseReport, NoiseSettings } from './measure/noise-report.ts';
+import { DEFAULT_NOISE_SETTINGS } from './measure/noise-report.ts';
 
 /** Peak thresholds as the user sets them; prominence in multiples of σ so it scales with the data. */
 export interface PeakSettings {
@@ -34,7 +25,7 @@ export interface PeakSettings {
   measureOn: 'processed' | 'raw';
   minProminenceSigma: number;
   minSnr: number;
-  /** x-units; 0 = three sample spacings. */
+  /** x-units; 0 = 2.5 sample spacings (defaultPeakOptions). */
   minWidth: number;
   /** x-units; 0 = off. */
   minSeparation: number;
@@ -43,25 +34,14 @@ export interface PeakSettings {
   negative: boolean;
   detectionLimit: number;
   quantitationLimit: number;
+  /** How peaks sharing a valley split the area (absent in sessions saved before it existed: perpendicular drop). */
+  split?: SplitRule;
 }
-
-export const DEFAULT_NOISE_SETTINGS: NoiseSettings = { method: 'windows', quietRange: null };
 
 export const DEFAULT_PEAK_SETTINGS: PeakSettings = {
   measureOn: 'processed', minProminenceSigma: 2, minSnr: 2, minWidth: 0, minSeparation: 0,
-  snrDefinition: 'rms', pharmacopoeialMultiplier: 5, negative: false, detectionLimit: 3, quantitationLimit: 10,
+  snrDefinition: 'rms', pharmacopoeialMultiplier: 5, negative: false, detectionLimit: 3, quantitationLimit: 10, split: 'perpendicular-drop',
 };
-
-export interface NoiseReport {
-  /** σ used for H/σ on the measured trace. */
-  sigma: NoiseEstimate;
-  /** The same estimator on the raw trace, so the user sees what smoothing did to the noise. */
-  rawSigma: NoiseEstimate | null;
-  /** Peak-to-peak range over the quiet range, when one is marked. */
-  peakToPeak: NoiseEstimate | null;
-  /** Sentences: fallbacks and problems. */
-  notes: string[];
-}
 
 export interface AnalyseRequest {
   sampleId: string;
@@ -75,6 +55,8 @@ export interface AnalyseRequest {
   decisions?: PeakDecisions;
   /** Other stacks to compare with the current one (the loss check), at most {@link MAX_ALTERNATIVES}. */
   alternatives?: AlternativeRequest[];
+  /** Also carry the ledger rows that are below the detection limit in every column (the page's toggle). */
+  ledgerNoiseLevel?: boolean;
 }
 
 export const MAX_ALTERNATIVES = 6;
@@ -107,14 +89,22 @@ export interface WindowAdviceRow {
 export interface LossReport {
   /** Column 0 is the raw trace (reference), column 1 the current stack, then the alternatives. */
   ledger: Ledger;
-  /** Features below the detection limit in every column, left out of the ledger (counted only). */
+  /** Features below the detection limit in every column: left out of the ledger (counted only) unless asked for. */
   noiseLevelRows: number;
+  /** True when the ledger holds those noise-level rows too. */
+  noiseLevelShown: boolean;
   outcomes: AlternativeOutcome[];
-  /** Narrowest half-height width among the reference's quantifiable peaks (detectable when none), in points. */
+  /** Narrowest half-height width among the reference's quantifiable peaks, in points; null when none is quantifiable. */
   narrowestFwhmPoints: number | null;
   advice: WindowAdviceRow[];
-  /** Features the current stack loses or weakens against the raw trace: what the export asks the user to confirm. */
+  /**
+   * What the export asks the user to confirm: features the current stack loses or weakens against the raw
+   * trace, and features that appear only after processing. Detectable features within the noise range (below
+   * the S/N pure noise of this length reaches about once) are summed up in one sentence, not listed.
+   */
   currentWarnings: string[];
+  /** The quantifiable ones among them (lost, crossing a limit, or weakened beyond HEIGHT_LOSS_TOLERANCE): they keep the residual verdict from reading clean. */
+  currentWeakened: string[];
 }
 
 export interface StepRunSummary {
@@ -153,6 +143,8 @@ export interface AnalyseResult {
   peakOptions: PeakOptions | null;
   /** Why peaks could not be measured, when they could not. */
   peakProblem?: string;
+  /** How many noise-only peaks pure noise of this length and correlation would give with these settings. */
+  noiseBumps: NoiseBumpCount | null;
   /** The loss check; null when there is nothing to compare. */
   loss: LossReport | null;
   ms: number;
@@ -161,60 +153,10 @@ export interface AnalyseResult {
 /**
  * What depends on the raw trace alone is worked out once per trace and kept
  * while the trace lives (raw arrays are never changed, so their identity is
- * a safe key): the feature mask, and the reference peak table per settings.
+ * a safe key): the reference peak table per settings (the raw noise model is
+ * kept the same way, in measure/noise-report.ts).
  */
-const MASKS = new WeakMap<Float64Array, Uint8Array>();
 const REFERENCES = new WeakMap<Float64Array, Map<string, Measured>>();
-
-/** Measure noise on `sig` by the chosen method; `raw` gives the comparison figure. */
-export function measureNoise(sig: Signal, raw: Signal, settings: NoiseSettings): NoiseReport {
-  const notes: string[] = [];
-  let rawMask: Uint8Array | null = MASKS.get(raw.y) ?? null;
-  // Features are found once on the raw trace and carried to the measured grid.
-  const maskOn = (s: Signal): Uint8Array => {
-    if (!rawMask) { rawMask = featureMask(raw.x, raw.y); MASKS.set(raw.y, rawMask); }
-    if (s.x.length === raw.x.length) return rawMask;
-    const m = new Uint8Array(s.x.length);
-    let j = 0;
-    for (let i = 0; i < s.x.length; i++) {
-      while (j < raw.x.length - 1 && raw.x[j + 1] <= s.x[i]) j++;
-      m[i] = rawMask[j] | rawMask[Math.min(j + 1, raw.x.length - 1)];
-    }
-    return m;
-  };
-  const pick = (s: Signal): NoiseEstimate | null => {
-    if (settings.method === 'rms') {
-      if (settings.quietRange) {
-        const r = noiseRms(s.x, s.y, settings.quietRange[0], settings.quietRange[1]);
-        if (r.ok) return r;
-        notes.push(`${r.message} The automatic estimate is used instead.`);
-      } else {
-        notes.push('No quiet baseline range is marked, so the automatic estimate is used. Mark a range on the plot to use the RMS about a line.');
-      }
-    }
-    if (settings.method === 'robust') {
-      if (s !== raw) notes.push('Point-to-point differences assume white noise; on a smoothed trace they understate σ and overstate S/N. Prefer the automatic estimate or a quiet range.');
-      const r = noiseRobust(s.y);
-      if (r.ok) return r;
-    }
-    const w = noiseQuietWindows(s.x, s.y, maskOn(s));
-    if (w.ok) return w;
-    const r = noiseRobust(s.y);
-    if (r.ok) { notes.push(`${w.message} The point-to-point estimate is used.`); return r; }
-    return null;
-  };
-  const sigma = pick(sig);
-  const before = notes.length;
-  const rawSigma = sig === raw ? sigma : pick(raw);
-  notes.length = before; // fallback sentences for the raw comparison would repeat the same advice
-  let peakToPeak: NoiseEstimate | null = null;
-  if (settings.quietRange) {
-    const r = noisePeakToPeak(sig.x, sig.y, settings.quietRange[0], settings.quietRange[1]);
-    if (r.ok) peakToPeak = r; else notes.push(r.message);
-  }
-  if (!sigma) throw new Error('noise could not be estimated on a valid trace');
-  return { sigma, rawSigma, peakToPeak, notes };
-}
 
 interface Measured {
   noise: NoiseReport | null;
@@ -224,10 +166,13 @@ interface Measured {
 }
 
 /** Noise and peaks on one signal with the user's settings. */
-function measurePeaks(measured: Signal, raw: Signal, noiseSettings: NoiseSettings, ps: PeakSettings, ctx: StepContext, decisions?: PeakDecisions): Measured {
+function measurePeaks(measured: Signal, raw: Signal, noiseSettings: NoiseSettings, ps: PeakSettings, ctx: StepContext, stack: StackRun | null, decisions?: PeakDecisions): Measured {
   if (measured.y.length < 5) return { noise: null, peaks: [], peakOptions: null, peakProblem: 'Fewer than 5 points: no peaks can be measured.' };
-  const noise = measureNoise(measured, raw, noiseSettings);
+  const noise = measureNoise(measured, raw, noiseSettings, measured === raw ? null : stack);
   const sigma = noise.sigma.sigma;
+  if (!Number.isFinite(sigma)) {
+    return { noise, peaks: [], peakOptions: null, peakProblem: 'The noise figure is not a finite number (the values are so large that their squares overflow, or there was nothing to measure), so S/N cannot be measured. Mark a quiet range of ordinary values, or rescale the data.' };
+  }
   if (!(sigma > 0)) {
     return { noise, peaks: [], peakOptions: null, peakProblem: 'The noise is zero (the trace is perfectly smooth or constant), so S/N cannot be measured. Mark a quiet range with some noise, or measure on the raw trace.' };
   }
@@ -242,8 +187,12 @@ function measurePeaks(measured: Signal, raw: Signal, noiseSettings: NoiseSetting
     snrDefinition: ps.snrDefinition,
     pharmacopoeialMultiplier: ps.pharmacopoeialMultiplier,
     negative: ps.negative,
+    split: ps.split ?? 'perpendicular-drop',
     limits: { detection: ps.detectionLimit, quantitation: ps.quantitationLimit },
     pharmacopoeialNoise: ctx.blank ? { x: ctx.blank.x, y: ctx.blank.y, fromBlank: true } : undefined,
+    noiseProfile: noise.profile,
+    // The measured trace's own noise correlation (the raw ρ carried through the stack): it sets S/N box factors.
+    noiseCorrelation: noise.measuredRho,
   };
   try {
     let peaks = detectPeaks(measured.x, measured.y, peakOptions);
@@ -252,6 +201,10 @@ function measurePeaks(measured: Signal, raw: Signal, noiseSettings: NoiseSetting
   } catch (e) {
     return { noise, peaks: [], peakOptions, peakProblem: (e as Error).message };
   }
+}
+
+function stackOf(run: ReturnType<typeof runPipeline>, recipe: Recipe, registry: Registry, ctx: StepContext, sampleId: string): StackRun {
+  return { run, recipe, registry, ctx, cacheKey: sampleId };
 }
 
 /** Smoothing steps whose window gets advice, and how to read it. */
@@ -267,13 +220,29 @@ function adviceFor(step: string, params: Record<string, unknown>, narrowest: num
   return null;
 }
 
+/** The raw trace measured with the user's settings (hand decisions left out), worked out once per trace and settings. */
+function rawReference(request: AnalyseRequest, raw: Signal, ctx: StepContext): Measured {
+  const ps = { ...(request.peaks ?? DEFAULT_PEAK_SETTINGS), measureOn: 'processed' as const };
+  const noiseSettings = request.noise ?? DEFAULT_NOISE_SETTINGS;
+  const refKey = JSON.stringify([noiseSettings, ps, ctx.blank?.id ?? null]);
+  let refs = REFERENCES.get(raw.y);
+  if (!refs) { refs = new Map(); REFERENCES.set(raw.y, refs); }
+  let reference = refs.get(refKey);
+  if (!reference) {
+    reference = measurePeaks(raw, raw, noiseSettings, ps, ctx, null);
+    if (refs.size > 8) refs.clear();
+    refs.set(refKey, reference);
+  }
+  return reference;
+}
+
 /**
  * The loss check: the raw trace, the current stack and each alternative,
  * measured with the same noise and peak settings, matched into one ledger.
  */
 function lossCheck(
-  request: AnalyseRequest, raw: Signal, sample: Trace, run: ReturnType<typeof runPipeline>, main: Measured,
-  ctx: StepContext, registry: Registry, cache?: PipelineCache,
+  request: AnalyseRequest, raw: Signal, sample: Trace, run: ReturnType<typeof runPipeline>, main: Measured, reference: Measured,
+  noiseBumps: NoiseBumpCount | null, ctx: StepContext, registry: Registry, cache?: PipelineCache,
 ): LossReport | null {
   const alts = (request.alternatives ?? []).slice(0, MAX_ALTERNATIVES);
   const currentRan = run.runs.some((r) => r.status === 'ok');
@@ -281,17 +250,8 @@ function lossCheck(
   const ps = { ...(request.peaks ?? DEFAULT_PEAK_SETTINGS), measureOn: 'processed' as const };
   const noiseSettings = request.noise ?? DEFAULT_NOISE_SETTINGS;
   // Hand decisions belong to the current table only; the comparison uses what detection finds.
-  const refKey = JSON.stringify([noiseSettings, ps, ctx.blank?.id ?? null]);
-  let refs = REFERENCES.get(raw.y);
-  if (!refs) { refs = new Map(); REFERENCES.set(raw.y, refs); }
-  let reference = refs.get(refKey);
-  if (!reference) {
-    reference = measurePeaks(raw, raw, noiseSettings, ps, ctx);
-    if (refs.size > 8) refs.clear();
-    refs.set(refKey, reference);
-  }
   const reuse = (request.peaks ?? DEFAULT_PEAK_SETTINGS).measureOn === 'processed' && !request.decisions?.added.length && !request.decisions?.removed.length;
-  const current = reuse ? main : measurePeaks(run.final, raw, noiseSettings, ps, ctx);
+  const current = reuse ? main : measurePeaks(run.final, raw, noiseSettings, ps, ctx, stackOf(run, request.recipe, registry, ctx, sample.id));
   const columns = [
     { id: 'raw', label: 'no processing (raw)', peaks: reference.peaks },
     { id: 'current', label: 'the current stack', peaks: current.peaks },
@@ -299,9 +259,9 @@ function lossCheck(
   const outcomes: AlternativeOutcome[] = [];
   for (const alt of alts) {
     const r = runPipeline(raw, sample.id, alt.recipe, registry, ctx, cache);
-    const m = measurePeaks(r.final, raw, noiseSettings, ps, ctx);
+    const m = measurePeaks(r.final, raw, noiseSettings, ps, ctx, stackOf(r, alt.recipe, registry, ctx, sample.id));
     const res = residualOfRun(raw, r);
-    const diag = res.ok && r.runs.some((x) => x.status === 'ok') ? residualDiagnostics(res.residual.y) : null;
+    const diag = res.ok && r.runs.some((x) => x.status === 'ok') ? residualDiagnostics(res.residual.y, maxAbs(raw.y)) : null;
     outcomes.push({
       id: alt.id, label: alt.label, processed: r.final, diagnostics: diag,
       noiseSigma: m.noise?.sigma.sigma ?? null, peakCount: m.peaks.length,
@@ -311,17 +271,17 @@ function lossCheck(
   }
   const limits = { detection: ps.detectionLimit, quantitation: ps.quantitationLimit };
   const full = matchPeaks(columns, { dx: meanStep(raw.x), xUnit: sample.xUnit, limits });
-  // Features below the detection limit in every column are noise-level candidates: counted, not carried
-  // (a long noisy trace has tens of thousands, and sending them to the page would stall it).
-  const kept = full.rows.filter((r) => r.cells.some((c) => c.standing === 'detectable' || c.standing === 'quantifiable'));
+  // Features below the detection limit in every column are noise-level candidates: counted, and carried only when
+  // the page asks (a long noisy trace has tens of thousands, and sending them all would stall it).
+  const atOrAbove = (r: LedgerRow) => r.cells.some((c) => c.standing === 'detectable' || c.standing === 'quantifiable');
+  const kept = request.ledgerNoiseLevel ? full.rows.slice() : full.rows.filter(atOrAbove);
   const ledger: Ledger = { ...full, rows: kept, sentences: kept.flatMap((r) => r.sentences) };
-  const noiseLevelRows = full.rows.length - kept.length;
-  // Narrowest real peak: among the reference's quantifiable peaks (noise wiggles that just pass S/N 3 are
-  // narrow by nature and would make every window look too wide); detectable ones only when none is quantifiable.
-  const quant = reference.peaks.filter((p) => p.flag === 'quantifiable');
-  const real = quant.length ? quant : reference.peaks.filter((p) => p.flag === 'detectable');
+  const noiseLevelRows = full.rows.filter((r) => !atOrAbove(r)).length;
+  // Window advice from quantifiable features only: noise bumps that just pass S/N 3 are narrow by nature and would
+  // make every window look too wide.
   const dxRaw = meanStep(raw.x);
-  const narrowest = real.length ? Math.min(...real.map((p) => p.fwhm / dxRaw)) : null;
+  const quant = reference.peaks.filter((p) => p.flag === 'quantifiable' && !p.removedByUser);
+  const narrowest = quant.length ? Math.min(...quant.map((p) => p.fwhm / dxRaw)) : null;
   const advice: WindowAdviceRow[] = [];
   if (narrowest) {
     for (const st of request.recipe.steps) {
@@ -330,18 +290,63 @@ function lossCheck(
       if (a) advice.push({ uid: st.uid, stepLabel: registry.find((d) => d.id === st.step)?.label ?? st.step, advice: a });
     }
   }
-  const currentWarnings: string[] = [];
   const where = (x: number) => `${x.toPrecision(5)}${sample.xUnit ? ` ${sample.xUnit}` : ''}`;
-  for (const row of ledger.rows) {
+  const stackName = (col: number) => (col === 1 ? 'the current stack' : `"${columns[col].label}"`);
+  /** Quantifiable raw features a stack loses, drops below a limit, or keeps less than 1 − HEIGHT_LOSS_TOLERANCE of: no 'clean' verdict then. */
+  const weakenedIn = (col: number): string[] => {
+    const out: string[] = [];
+    for (const row of full.rows) {
+      if (row.firstFoundIn !== 0) continue;
+      const ref = row.cells[0], cur = row.cells[col];
+      if (ref.standing !== 'quantifiable') continue;
+      if (!cur.found) out.push(`The feature at ${where(row.position)} (S/N ${ref.snr?.toFixed(1)} raw) is lost with ${stackName(col)}.`);
+      else if (cur.crossed === 'down') out.push(`The feature at ${where(row.position)} falls from quantifiable (S/N ${ref.snr?.toFixed(1)}) to ${cur.standing.replace('-', ' ')} (S/N ${cur.snr?.toFixed(1)}) with ${stackName(col)}.`);
+      else if (cur.heightKept !== null && cur.heightKept < 100 * (1 - HEIGHT_LOSS_TOLERANCE)) out.push(`The feature at ${where(row.position)} keeps only ${cur.heightKept.toFixed(0)} % of its raw height with ${stackName(col)}.`);
+    }
+    return out;
+  };
+  // The alternatives' verdicts cannot read clean while they weaken a quantifiable feature either.
+  outcomes.forEach((o, k) => { if (o.diagnostics) o.diagnostics = combineVerdict(o.diagnostics, weakenedIn(k + 2)); });
+  const currentWarnings: string[] = [];
+  // Detectable features no higher than what pure noise of this length reaches about once are summed up, not listed.
+  const ceiling = noiseBumps?.oneBumpSnr ?? null;
+  const withinNoise = (snr: number | null, standing: string) => standing !== 'quantifiable' && ceiling !== null && snr !== null && snr < ceiling;
+  let noiseLevelLosses = 0;
+  for (const row of full.rows) {
     // Only features present on the raw trace can be lost by the current stack (column 1).
     if (row.firstFoundIn !== 0) continue;
     const ref = row.cells[0], cur = row.cells[1];
     if (ref.standing !== 'quantifiable' && ref.standing !== 'detectable') continue;
-    if (!cur.found) currentWarnings.push(`The feature at ${where(row.position)} (S/N ${ref.snr?.toFixed(1)} raw) is lost with the current stack.`);
-    else if (cur.crossed === 'down') currentWarnings.push(`The feature at ${where(row.position)} falls from ${ref.standing} (S/N ${ref.snr?.toFixed(1)}) to ${cur.standing.replace('-', ' ')} (S/N ${cur.snr?.toFixed(1)}) with the current stack.`);
-    else if (ref.standing === 'quantifiable' && cur.heightKept !== null && cur.heightKept < 80) currentWarnings.push(`The feature at ${where(row.position)} keeps only ${cur.heightKept.toFixed(0)} % of its raw height with the current stack.`);
+    let sentence: string | null = null;
+    if (!cur.found) sentence = `The feature at ${where(row.position)} (S/N ${ref.snr?.toFixed(1)} raw) is lost with the current stack.`;
+    else if (cur.crossed === 'down') sentence = `The feature at ${where(row.position)} falls from ${ref.standing} (S/N ${ref.snr?.toFixed(1)}) to ${cur.standing.replace('-', ' ')} (S/N ${cur.snr?.toFixed(1)}) with the current stack.`;
+    else if (ref.standing === 'quantifiable' && cur.heightKept !== null && cur.heightKept < 100 * (1 - HEIGHT_LOSS_TOLERANCE)) sentence = `The feature at ${where(row.position)} keeps only ${cur.heightKept.toFixed(0)} % of its raw height with the current stack.`;
+    if (!sentence) continue;
+    if (withinNoise(ref.snr, ref.standing)) noiseLevelLosses++;
+    else currentWarnings.push(sentence);
   }
-  return { ledger, noiseLevelRows, outcomes, narrowestFwhmPoints: narrowest, advice, currentWarnings };
+  // Features the raw trace does not have (a spike smoothing spread, a bump smoothing made out of noise).
+  let noiseLevelBorn = 0;
+  for (const p of main.peaks) {
+    if (p.removedByUser || !p.marks.includes('appears-only-after-processing')) continue;
+    if (p.flag !== 'quantifiable' && p.flag !== 'detectable') continue;
+    if (withinNoise(p.snr, p.flag)) { noiseLevelBorn++; continue; }
+    currentWarnings.push(`The feature at ${where(p.x)} (S/N ${p.snr?.toFixed(1)}, ${p.flag === 'quantifiable' ? 'quantifiable' : 'detected'}) appears only after processing: the raw trace has nothing there that passes the same thresholds.`);
+  }
+  if (noiseLevelLosses + noiseLevelBorn > 0 && ceiling !== null) {
+    const parts = [
+      noiseLevelLosses ? `${noiseLevelLosses} detectable feature${noiseLevelLosses === 1 ? ' is' : 's are'} lost or weakened` : '',
+      noiseLevelBorn ? `${noiseLevelBorn} detectable feature${noiseLevelBorn === 1 ? ' appears' : 's appear'} only after processing` : '',
+    ].filter(Boolean);
+    currentWarnings.push(`Within the noise range (below S/N ${ceiling.toFixed(1)}, which pure noise of this length reaches about once) ${parts.join(' and ')}; the ledger lists them.`);
+  }
+  return { ledger, noiseLevelRows, noiseLevelShown: !!request.ledgerNoiseLevel, outcomes, narrowestFwhmPoints: narrowest, advice, currentWarnings, currentWeakened: weakenedIn(1) };
+}
+
+function maxAbs(y: Float64Array): number {
+  let m = 0;
+  for (let i = 0; i < y.length; i++) { const a = Math.abs(y[i]); if (a > m) m = a; }
+  return m;
 }
 
 /**
@@ -410,7 +415,7 @@ export function analyse(
   const run = runPipeline(raw, sample.id, request.recipe, registry, ctx, cache);
   const { residual, note } = residualOfRun(raw, run);
   const processedSomething = run.runs.some((r) => r.status === 'ok');
-  const diagnostics = processedSomething && residual.y.length >= 3 ? residualDiagnostics(residual.y) : null;
+  const residualTests = processedSomething && residual.y.length >= 3 ? residualDiagnostics(residual.y, maxAbs(raw.y)) : null;
   const runs: StepRunSummary[] = run.runs.map((r) => ({
     uid: r.uid, step: r.step, status: r.status, message: r.message,
     notes: r.output?.notes ?? [], figures: r.output?.figures, cached: r.cached, ms: r.ms,
@@ -423,10 +428,21 @@ export function analyse(
   }
   const ps = request.peaks ?? DEFAULT_PEAK_SETTINGS;
   const measured = ps.measureOn === 'raw' ? raw : run.final;
-  const main = measurePeaks(measured, raw, request.noise ?? DEFAULT_NOISE_SETTINGS, ps, ctx, request.decisions);
-  const loss = lossCheck(request, raw, sample, run, main, ctx, registry, cache);
+  const main = measurePeaks(measured, raw, request.noise ?? DEFAULT_NOISE_SETTINGS, ps, ctx, stackOf(run, request.recipe, registry, ctx, sample.id), request.decisions);
+  // The raw trace's own table: for the marks below and the loss check, which run only when something processed it
+  // or alternatives are asked for.
+  const reference = processedSomething || (request.alternatives?.length ?? 0) > 0 ? rawReference(request, raw, ctx) : main;
+  if (measured !== raw && processedSomething) {
+    // What the raw trace does not have, and tops flat at the raw trace's largest value (smoothing rounds them).
+    main.peaks = markSaturatedOnRaw(markAppearsOnlyAfterProcessing(main.peaks, reference.peaks, meanStep(raw.x)), raw.x, raw.y, ps.negative);
+  }
+  const noiseBumps = main.peakOptions && main.peakOptions.noiseSigma > 0
+    ? expectedNoiseBumps(measured.y.length, meanStep(measured.x), main.peakOptions, main.noise?.measuredRho)
+    : null;
+  const loss = lossCheck(request, raw, sample, run, main, reference, noiseBumps, ctx, registry, cache);
+  const diagnostics = residualTests && loss ? combineVerdict(residualTests, loss.currentWeakened) : residualTests;
   return {
-    noise: main.noise, peaks: main.peaks, peakOptions: main.peakOptions, peakProblem: main.peakProblem, diagnostics, loss,
+    noise: main.noise, peaks: main.peaks, peakOptions: main.peakOptions, peakProblem: main.peakProblem, noiseBumps, diagnostics, loss,
     sampleId: sample.id, processed: run.final, residual, residualNote: note, baseline: run.baseline,
     intermediate, runs, events: run.events, ms: Date.now() - t0,
   };

@@ -28,14 +28,34 @@ export interface ResidualDiagnostics {
   /** 2/√n: approximate 95 % bound of lag-1 autocorrelation for white noise. */
   lag1Threshold: number;
   runs: RunsTest;
-  /** False only when there is evidence of signal left in the residual (see {@link residualDiagnostics}). */
+  /** False when there is evidence of signal in the residual or, after {@link combineVerdict}, of signal lost (see {@link residualDiagnostics}). */
   looksLikeNoise: boolean;
+  /**
+   * 'nothing-removed': the residual is zero or at round-off level; 'clean': it looks like noise and
+   * nothing says otherwise; 'caution': it is not plain noise (runs test at p < 0.001 by alternation),
+   * but shows no slow structure; 'structure': slow structure in the residual, or the loss check
+   * reports a quantifiable feature weakened beyond {@link HEIGHT_LOSS_TOLERANCE}.
+   */
+  level: 'nothing-removed' | 'clean' | 'caution' | 'structure';
   /** One plain sentence for the page. */
   verdict: string;
 }
 
 /** Significance level of the runs test (two-sided). Common practice. */
 export const RUNS_ALPHA = 0.05;
+
+/** Below this p the runs test alone keeps the verdict from reading clean, in either direction (issue 14; our choice). */
+export const RUNS_STRICT_ALPHA = 0.001;
+
+/** Share of its raw height a quantifiable feature may lose before the verdict cannot read clean (the loss check's own warning level; our choice). */
+export const HEIGHT_LOSS_TOLERANCE = 0.2;
+
+/**
+ * A residual whose RMS is below this multiple of the raw trace's largest
+ * |y| is round-off (double precision carries about 16 digits; sums over
+ * long windows lose a few), and reads "nothing removed".
+ */
+export const ROUND_OFF_RELATIVE = 1e-12;
 
 /**
  * Complementary error function, fractional error below 1.2e-7 everywhere
@@ -107,12 +127,16 @@ export function lag1Autocorrelation(e: Float64Array): number {
  * so it shows as positive lag-1 correlation and too few runs. The residual of
  * any smoother is high-pass filtered noise, whose neighbours alternate
  * (negative lag-1, too many runs); that is expected and does not count as
- * structure, though the verdict says so. On white noise the structure verdict
- * is a false alarm about 4–5 % of the time (each one-sided half is ≈ 2.5 %).
+ * structure, though the verdict says so — and when the runs test rejects at
+ * p < 0.001 the verdict reads 'caution', never clean. On white noise the
+ * structure verdict is a false alarm about 4–5 % of the time (each one-sided
+ * half is ≈ 2.5 %). A residual whose RMS is at round-off level against
+ * `rawScale` (the raw trace's largest |y|) reads "nothing removed".
  * @param residual y-units; at least 3 finite values; not changed
+ * @param rawScale the raw trace's largest |y|, for the round-off test (0: only an exact zero counts)
  * @throws RangeError on fewer than 3 points or non-finite values
  */
-export function residualDiagnostics(residual: Float64Array): ResidualDiagnostics {
+export function residualDiagnostics(residual: Float64Array, rawScale = 0): ResidualDiagnostics {
   const n = residual.length;
   if (n < 3) throw new RangeError(`Residual tests need at least 3 points; there are ${n}.`);
   let ss = 0;
@@ -126,12 +150,33 @@ export function residualDiagnostics(residual: Float64Array): ResidualDiagnostics
   const runs = runsTest(residual);
   const slowStructure = lag1 > lag1Threshold || (runs.z < 0 && runs.p < RUNS_ALPHA);
   const alternating = lag1 < -lag1Threshold || (runs.z > 0 && runs.p < RUNS_ALPHA);
+  const roundOff = rms === 0 || (rawScale > 0 && rms <= ROUND_OFF_RELATIVE * rawScale);
   let verdict: string;
-  if (rms === 0) verdict = 'The residual is zero: the processing changed nothing.';
-  else if (slowStructure) verdict = 'The residual has structure: the smoothing removed part of the signal.';
-  else if (alternating) verdict = 'The residual looks like noise with its slow part left in the trace (neighbouring points alternate, as expected after smoothing); no sign of removed signal.';
-  else verdict = 'The residual looks like noise.';
-  return { n, rms, lag1, lag1Threshold, runs, looksLikeNoise: !slowStructure, verdict };
+  let level: ResidualDiagnostics['level'];
+  if (rms === 0) { level = 'nothing-removed'; verdict = 'The residual is zero: the processing changed nothing.'; }
+  else if (roundOff) { level = 'nothing-removed'; verdict = `Nothing removed: the residual (RMS ${rms.toPrecision(2)}) is at the level of rounding in the arithmetic, ${(rms / rawScale).toPrecision(2)} of the trace's largest value.`; }
+  else if (slowStructure) { level = 'structure'; verdict = 'The residual has structure: the smoothing removed part of the signal.'; }
+  else if (runs.p < RUNS_STRICT_ALPHA) {
+    level = 'caution';
+    verdict = `The residual is not plain noise: the runs test rejects a random order (z = ${runs.z.toFixed(1)}, p below ${RUNS_STRICT_ALPHA}); neighbouring points alternate more than noise would, as after smoothing, with no slow structure. Check the loss ledger before trusting heights.`;
+  } else if (alternating) { level = 'clean'; verdict = 'The residual looks like noise with its slow part left in the trace (neighbouring points alternate, as expected after smoothing); no sign of removed signal.'; }
+  else { level = 'clean'; verdict = 'The residual looks like noise.'; }
+  return { n, rms, lag1, lag1Threshold, runs, looksLikeNoise: level === 'clean' || level === 'nothing-removed', level, verdict };
+}
+
+/**
+ * One verdict for the page: the residual's own tests combined with the loss
+ * check. The verdict cannot read clean while `weakened` (sentences about
+ * quantifiable features lost or weakened beyond {@link HEIGHT_LOSS_TOLERANCE})
+ * is not empty; a round-off residual stays "nothing removed".
+ */
+export function combineVerdict(d: ResidualDiagnostics, weakened: readonly string[]): ResidualDiagnostics {
+  if (weakened.length === 0 || d.level === 'nothing-removed') return d;
+  const lead = d.level === 'structure' ? d.verdict : 'The residual alone looks like noise, but the processing took signal with it:';
+  return {
+    ...d, level: 'structure', looksLikeNoise: false,
+    verdict: `${lead} ${weakened.length === 1 ? weakened[0] : `${weakened.length} quantifiable features were lost or weakened by more than ${HEIGHT_LOSS_TOLERANCE * 100} % of their raw height (${weakened[0]} …)`}`,
+  };
 }
 
 /** Raw minus processed, on the processed grid. */

@@ -10,7 +10,7 @@
  * computed from the filter's weights, and window advice from the narrowest
  * peak's half-height width.
  */
-import type { Peak, PeakFlag } from './peaks.ts';
+import type { Peak, PeakFlag } from './measure/peak-types.ts';
 import { savgolCoefficients } from './numeric/savgol.ts';
 
 /** One processing alternative and the peak table measured on its output. */

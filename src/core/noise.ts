@@ -7,6 +7,15 @@
  * `measure` says which one `sigma` holds.
  */
 
+/** One assumption behind a noise figure and whether it held (null: could not be tested). */
+export interface NoiseCheck {
+  /** Stable short name, e.g. 'finest-scale', 'correlation', 'level'. */
+  readonly id: string;
+  readonly held: boolean | null;
+  /** One sentence a reviewer can read. */
+  readonly text: string;
+}
+
 /** A noise figure and how it was obtained. */
 export interface NoiseEstimate {
   readonly ok: true;
@@ -25,6 +34,10 @@ export interface NoiseEstimate {
   readonly to?: number;
   /** True when the requested window ran past an end of the trace and was cut. */
   readonly clipped?: boolean;
+  /** The assumptions behind the figure and whether each held. */
+  readonly checks?: readonly NoiseCheck[];
+  /** False when a check failed or a fallback was used. */
+  readonly assumptionsHeld?: boolean;
 }
 
 /** A noise request the user can fix (range too short, outside the data). */
@@ -157,7 +170,7 @@ export function noisePeakToPeak(x: Float64Array, y: Float64Array, from: number, 
 }
 
 /** k-th smallest (0-based) of a scratch array, reordering it (Hoare's quickselect, median-of-three pivot). */
-function select(a: Float64Array, k: number): number {
+export function select(a: Float64Array, k: number): number {
   let lo = 0, hi = a.length - 1;
   while (hi > lo) {
     const mid = (lo + hi) >>> 1;
@@ -177,7 +190,7 @@ function select(a: Float64Array, k: number): number {
 }
 
 /** Median of a scratch array (reorders it, so only for arrays made here). Even length: mean of the two middle values. */
-function medianInPlace(a: Float64Array): number {
+export function medianInPlace(a: Float64Array): number {
   const n = a.length;
   const hi = select(a, n >> 1);
   if (n % 2 === 1) return hi;
@@ -185,34 +198,6 @@ function medianInPlace(a: Float64Array): number {
   let lo = -Infinity;
   for (let i = 0; i < n >> 1; i++) if (a[i] > lo) lo = a[i];
   return (lo + hi) / 2;
-}
-
-/**
- * Automatic robust noise for when no quiet range is given:
- * σ = 1.4826 × MAD(Δy) / √2, where Δy are the first differences and MAD is
- * the median absolute deviation about the median of the differences.
- * Differencing removes a smooth baseline and most of each peak; the median
- * ignores what is left of the peaks; /√2 undoes the doubling of variance by
- * differencing white noise. 1.4826 = 1/Φ⁻¹(3/4) makes the MAD a consistent
- * σ for normal data (Hampel 1974, J. Am. Stat. Assoc. 69:383; the
- * difference-based form is common practice). Assumes white noise:
- * correlated noise (after smoothing) is underestimated.
- * @returns σ in y-units, or a problem when y has fewer than 3 points.
- */
-export function noiseRobust(y: Float64Array): NoiseResult {
-  const n = y.length;
-  if (n < FEWEST_POINTS) return { ok: false, message: `The trace has ${n} point(s); the robust noise estimate needs at least ${FEWEST_POINTS}.` };
-  const d = new Float64Array(n - 1);
-  for (let i = 0; i < n - 1; i++) d[i] = y[i + 1] - y[i];
-  const m = medianInPlace(d);
-  // medianInPlace reorders d, but the set of values is unchanged, which is all the MAD needs.
-  for (let i = 0; i < d.length; i++) d[i] = Math.abs(d[i] - m);
-  const mad = medianInPlace(d);
-  const sigma = (MAD_TO_SIGMA * mad) / Math.SQRT2;
-  return {
-    ok: true, sigma, measure: 'sd', points: n, method: 'robust-first-differences',
-    description: `Robust estimate 1.4826 × median absolute deviation of the ${n - 1} first differences (about their median) / √2, over the whole trace (${n} points).`,
-  };
 }
 
 /**

@@ -1,15 +1,21 @@
 /**
- * The recipe: the ordered processing steps with their parameters, as a
- * versioned JSON document. It is what the page saves, loads, and writes
- * into reports, so a reviewer can redo exactly what was done.
+ * The recipe (the saved processing method): the ordered processing steps
+ * with their parameters and, since version 2, the analysis settings (noise
+ * method and quiet range, S/N definition, limits, detection thresholds), as
+ * a versioned JSON document. It is what the page saves, loads, and writes
+ * into reports, and what the command line runs, so one file reproduces the
+ * page's numbers.
  *
  * Validation is all-or-nothing: a recipe with any problem is refused with
- * every problem listed, and nothing is half-applied.
+ * every problem listed, and nothing is half-applied. Version 1 files (steps
+ * only) still load; their analysis settings are the defaults.
  */
+import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type NoiseMethod, type NoiseSettings, type PeakSettings } from './analyse.ts';
 import type { ParamSpec, ParamValue, StepDefinition, StepParams } from './steps/types.ts';
 
 export const RECIPE_FORMAT = 'tracewright-recipe';
-export const RECIPE_VERSION = 1;
+/** 2: the analysis settings were added ("analysis"); 1: steps only. */
+export const RECIPE_VERSION = 2;
 /** Limits that keep a hostile file from tying up the page. */
 export const RECIPE_MAX_BYTES = 1_000_000;
 export const RECIPE_MAX_DEPTH = 16;
@@ -25,10 +31,23 @@ export interface RecipeStep {
   params: StepParams;
 }
 
+/** How noise and peaks are measured: everything besides the steps that changes the numbers. */
+export interface AnalysisSettings {
+  noise: NoiseSettings;
+  peaks: PeakSettings;
+}
+
 export interface Recipe {
   format: typeof RECIPE_FORMAT;
   version: number;
   steps: RecipeStep[];
+  /**
+   * The analysis settings saved with the steps; absent in files saved
+   * before version 2 ({@link analysisOf} then gives the defaults). The page
+   * keeps its own copy in the store and writes it back with
+   * {@link recipeWithAnalysis}.
+   */
+  analysis?: AnalysisSettings;
 }
 
 export type Registry = readonly StepDefinition[];
@@ -139,13 +158,105 @@ export function validateRecipe(value: unknown, registry: Registry): RecipeCheck 
       if (bad) problems.push(`${where} (${def.label}): ${bad}`);
       else params[k] = (Array.isArray(v) ? (v as [number, number][]).map((r) => [r[0], r[1]]) : v) as ParamValue;
     }
-    let uid = typeof raw.uid === 'string' && /^[\w-]{1,40}$/.test(raw.uid) ? raw.uid : newStepUid();
+    // A file without uids gets the same ones on every load, so exports of one method are reproducible.
+    let uid = typeof raw.uid === 'string' && /^[\w-]{1,40}$/.test(raw.uid) ? raw.uid : `step-${i + 1}`;
     if (seen.has(uid)) uid = newStepUid();
     seen.add(uid);
     steps.push({ uid, step: def.id, enabled: enabled === true, params });
   });
+  const analysis = value.analysis === undefined ? undefined : validateAnalysis(value.analysis, problems);
   if (problems.length) return { ok: false, problems };
-  return { ok: true, recipe: { format: RECIPE_FORMAT, version: RECIPE_VERSION, steps } };
+  const recipe: Recipe = { format: RECIPE_FORMAT, version: RECIPE_VERSION, steps };
+  if (analysis) recipe.analysis = analysis;
+  return { ok: true, recipe };
+}
+
+/** Each noise method by its saved name (a Record, so a new method must be listed here to compile). */
+const NOISE_METHODS: Record<NoiseMethod, string> = {
+  auto: 'automatic: finest-scale spread of the raw trace with features masked, corrected for noise correlation',
+  rms: 'RMS about a straight line over the quiet range',
+  blank: 'the blank trace, measured like the automatic estimate',
+};
+
+/** Names earlier files used for what is now the automatic estimate ('robust', point-to-point differences, is gone). */
+const OLD_NOISE_METHODS: Record<string, NoiseMethod> = { windows: 'auto', robust: 'auto' };
+
+/** The peak settings as parameters, with the same limits as the page's fields. */
+const PEAK_SETTING_SPECS: Record<keyof PeakSettings, ParamSpec> = {
+  measureOn: { key: 'measureOn', label: 'Measure peaks and noise on', kind: 'choice', unit: 'none', choices: [{ value: 'processed', label: 'the processed trace' }, { value: 'raw', label: 'the raw trace' }] },
+  minProminenceSigma: { key: 'minProminenceSigma', label: 'Smallest prominence (× σ)', kind: 'number', unit: 'ratio', min: 0, max: 1000 },
+  minSnr: { key: 'minSnr', label: 'Smallest S/N kept', kind: 'number', unit: 'ratio', min: 0, max: 1000 },
+  minWidth: { key: 'minWidth', label: 'Smallest half-height width (x-units, 0 = 2.5 sample spacings)', kind: 'number', unit: 'x-units', min: 0, max: 1e9 },
+  minSeparation: { key: 'minSeparation', label: 'Smallest separation (x-units, 0 = off)', kind: 'number', unit: 'x-units', min: 0, max: 1e9 },
+  snrDefinition: { key: 'snrDefinition', label: 'S/N definition', kind: 'choice', unit: 'none', choices: [{ value: 'rms', label: 'H/σ' }, { value: 'pharmacopoeial', label: '2H/h' }, { value: 'region', label: 'mean/SD' }] },
+  pharmacopoeialMultiplier: { key: 'pharmacopoeialMultiplier', label: 'Pharmacopoeial window (× half-height width)', kind: 'number', unit: 'ratio', min: 1, max: 100 },
+  negative: { key: 'negative', label: 'Look for dips', kind: 'boolean', unit: 'none' },
+  detectionLimit: { key: 'detectionLimit', label: 'Detection limit S/N', kind: 'number', unit: 'ratio', min: 1, max: 100 },
+  quantitationLimit: { key: 'quantitationLimit', label: 'Quantitation limit S/N', kind: 'number', unit: 'ratio', min: 1, max: 1000 },
+  split: { key: 'split', label: 'Peaks sharing a valley', kind: 'choice', unit: 'none', choices: [{ value: 'perpendicular-drop', label: 'perpendicular drop' }, { value: 'valley-to-valley', label: 'valley to valley' }] },
+};
+
+/** Fresh copies of the default analysis settings. */
+export function defaultAnalysis(): AnalysisSettings {
+  return { noise: { ...DEFAULT_NOISE_SETTINGS, quietRange: DEFAULT_NOISE_SETTINGS.quietRange ? [...DEFAULT_NOISE_SETTINGS.quietRange] : null }, peaks: { ...DEFAULT_PEAK_SETTINGS } };
+}
+
+/** The recipe's analysis settings, or the defaults when it has none (a file saved before version 2). */
+export function analysisOf(recipe: Recipe): AnalysisSettings {
+  return recipe.analysis ?? defaultAnalysis();
+}
+
+/**
+ * Check the "analysis" member of a recipe file; a missing setting takes the
+ * default. Problems are added to `problems`.
+ */
+function validateAnalysis(value: unknown, problems: string[]): AnalysisSettings {
+  const out = defaultAnalysis();
+  if (!isPlainObject(value)) { problems.push('"analysis" must be an object with "noise" and "peaks".'); return out; }
+  for (const k of Object.keys(value)) if (k !== 'noise' && k !== 'peaks') problems.push(`Analysis settings: unknown member "${k}" (expected "noise" and "peaks").`);
+  const noise = value.noise === undefined ? {} : value.noise;
+  if (!isPlainObject(noise)) problems.push('Analysis settings: "noise" must be an object.');
+  else {
+    for (const [k, v] of Object.entries(noise)) {
+      if (k === 'method') {
+        if (typeof v === 'string' && Object.hasOwn(NOISE_METHODS, v)) out.noise.method = v as NoiseMethod;
+        else if (typeof v === 'string' && Object.hasOwn(OLD_NOISE_METHODS, v)) out.noise.method = OLD_NOISE_METHODS[v];
+        else problems.push(`Noise method must be one of ${Object.keys(NOISE_METHODS).join(', ')}.`);
+      } else if (k === 'quietRange') {
+        if (v === null) out.noise.quietRange = null;
+        else if (Array.isArray(v) && v.length === 2 && v.every((e) => typeof e === 'number' && Number.isFinite(e)) && v[0] < v[1]) out.noise.quietRange = [v[0], v[1]];
+        else problems.push('Quiet range must be null or [from, to] in x-units with from < to.');
+      } else {
+        problems.push(`Analysis settings (noise): unknown setting "${k}".`);
+      }
+    }
+  }
+  const peaks = value.peaks === undefined ? {} : value.peaks;
+  if (!isPlainObject(peaks)) problems.push('Analysis settings: "peaks" must be an object.');
+  else {
+    const target = out.peaks as unknown as Record<string, ParamValue>;
+    for (const [k, v] of Object.entries(peaks)) {
+      const spec = Object.hasOwn(PEAK_SETTING_SPECS, k) ? PEAK_SETTING_SPECS[k as keyof PeakSettings] : undefined;
+      if (!spec) { problems.push(`Analysis settings (peaks): unknown setting "${k}".`); continue; }
+      const bad = checkParam(spec, v);
+      if (bad) problems.push(`Analysis settings (peaks): ${bad}`);
+      else target[k] = v as ParamValue;
+    }
+  }
+  return out;
+}
+
+/** The recipe with the given analysis settings (copied), as it is saved and written into exports. */
+export function recipeWithAnalysis(recipe: Recipe, noise: NoiseSettings, peaks: PeakSettings): Recipe {
+  return {
+    format: recipe.format, version: RECIPE_VERSION, steps: recipe.steps,
+    analysis: { noise: { method: noise.method, quietRange: noise.quietRange ? [noise.quietRange[0], noise.quietRange[1]] : null }, peaks: { ...peaks } },
+  };
+}
+
+/** The recipe without its analysis settings (what the page's step stack holds). */
+export function recipeStepsOnly(recipe: Recipe): Recipe {
+  return { format: recipe.format, version: recipe.version, steps: recipe.steps };
 }
 
 /** Deepest nesting of brackets outside strings; stops counting past `limit`. */
@@ -183,7 +294,18 @@ export function parseRecipeText(text: string, registry: Registry): RecipeCheck {
 
 /** The recipe as pretty JSON text (what is saved and put in reports). */
 export function recipeToJson(recipe: Recipe): string {
-  return JSON.stringify({ format: recipe.format, version: recipe.version, steps: recipe.steps.map((s) => ({ uid: s.uid, step: s.step, enabled: s.enabled, params: s.params })) }, null, 2);
+  const doc: Record<string, unknown> = {
+    format: recipe.format, version: recipe.version,
+    steps: recipe.steps.map((s) => ({ uid: s.uid, step: s.step, enabled: s.enabled, params: s.params })),
+  };
+  if (recipe.analysis) {
+    // Settings in one fixed order, so the same method always gives the same text.
+    const { noise, peaks } = recipe.analysis;
+    const orderedPeaks: Record<string, unknown> = {};
+    for (const k of Object.keys(PEAK_SETTING_SPECS) as (keyof PeakSettings)[]) orderedPeaks[k] = peaks[k];
+    doc.analysis = { noise: { method: noise.method, quietRange: noise.quietRange }, peaks: orderedPeaks };
+  }
+  return JSON.stringify(doc, null, 2);
 }
 
 /** The recipe in words, one sentence per step, for reports. */

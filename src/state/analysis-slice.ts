@@ -1,6 +1,6 @@
 import type { StateCreator } from 'zustand';
 import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, MAX_ALTERNATIVES, type AlternativeRequest, type NoiseSettings, type PeakSettings } from '../core/analyse.ts';
-import type { PeakDecisions } from '../core/peaks.ts';
+import type { PeakDecisions } from '../core/measure/peak-types.ts';
 import type { AppState } from './store.ts';
 
 /** What the user chose about noise and peaks; kept apart from the recipe. */
@@ -26,6 +26,9 @@ export interface AnalysisSlice {
   addAlternatives: (alts: AlternativeRequest[]) => number;
   removeAlternative: (id: string) => void;
   setShowAlternatives: (v: boolean) => void;
+  /** Show ledger rows that stay below the detection limit in every column (off by default). */
+  ledgerNoiseLevel: boolean;
+  setLedgerNoiseLevel: (v: boolean) => void;
   /** The user's confirmation of what the export loses (goes into the report). */
   exportConfirmation: { at: string; sentences: string[] } | null;
   confirmExport: (sentences: string[]) => void;
@@ -52,6 +55,8 @@ export const createAnalysisSlice: StateCreator<AppState, [], [], AnalysisSlice> 
   selectPeak: (selectedPeakX) => set({ selectedPeakX }),
   alternatives: [],
   showAlternatives: true,
+  ledgerNoiseLevel: false,
+  setLedgerNoiseLevel: (ledgerNoiseLevel) => set({ ledgerNoiseLevel }),
   addAlternatives: (alts) => {
     let added = 0;
     set((s) => {

@@ -9,6 +9,8 @@ export interface Notice {
   kind: NoticeKind;
   title: string;
   lines: string[];
+  /** A button the notice offers: its words and the key of the action (kept outside the store, which holds data only). */
+  action?: { label: string; key: string };
 }
 
 export interface InputsSlice {
@@ -23,7 +25,7 @@ export interface InputsSlice {
   setRole: (id: string, role: TraceRole) => void;
   setSample: (id: string) => void;
   removeTrace: (id: string) => void;
-  notify: (kind: NoticeKind, title: string, lines?: string[]) => void;
+  notify: (kind: NoticeKind, title: string, lines?: string[], action?: Notice['action']) => void;
   dismissNotice: (id: number) => void;
   setLoading: (l: { fileName: string; fraction: number } | null) => void;
 }
@@ -75,9 +77,11 @@ export const createInputsSlice: StateCreator<AppState, [], [], InputsSlice> = (s
     delete roles[id];
     return { traces: s.traces.filter((t) => t.id !== id), roles, sampleId: s.sampleId === id ? null : s.sampleId };
   }),
-  notify: (kind, title, lines = []) => set((s) => {
+  notify: (kind, title, lines = [], action) => set((s) => {
     noticeId += 1;
-    return { notices: [{ id: noticeId, kind, title, lines }, ...s.notices].slice(0, 30) };
+    const n: Notice = { id: noticeId, kind, title, lines };
+    if (action) n.action = action;
+    return { notices: [n, ...s.notices].slice(0, 30) };
   }),
   dismissNotice: (id) => set((s) => ({ notices: s.notices.filter((n) => n.id !== id) })),
   setLoading: (loading) => set({ loading }),

@@ -1,5 +1,5 @@
 import type { StateCreator } from 'zustand';
-import { cloneParams, emptyRecipe, makeRecipeStep, type Recipe } from '../core/recipe.ts';
+import { cloneParams, emptyRecipe, makeRecipeStep, recipeStepsOnly, type Recipe } from '../core/recipe.ts';
 import { stepDefinition } from '../core/steps/registry.ts';
 import type { ParamValue } from '../core/steps/types.ts';
 import type { AppState } from './store.ts';
@@ -60,7 +60,8 @@ export const createRecipeSlice: StateCreator<AppState, [], [], RecipeSlice> = (s
       s.params[key] = value;
       return r;
     }),
-    replaceRecipe: (recipe) => edit(() => copyRecipe(recipe)),
+    // The stack holds steps only; the analysis settings live in the analysis slice.
+    replaceRecipe: (recipe) => edit(() => copyRecipe(recipeStepsOnly(recipe))),
     undo: () => set((s) => {
       if (!s.past.length) return {};
       return { recipe: s.past[s.past.length - 1], past: s.past.slice(0, -1), future: [s.recipe, ...s.future] };

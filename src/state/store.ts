@@ -1,16 +1,18 @@
 /**
  * One store in slices: inputs (traces and roles), recipe (the step stack
  * with undo/redo), results (what the worker computed), view (zoom and
- * display choices). The store holds data only, never a Worker or a plot.
+ * display choices), session (how the session is being kept). The store
+ * holds data only, never a Worker or a plot.
  */
 import { create } from 'zustand';
 import { createAnalysisSlice, type AnalysisSlice } from './analysis-slice.ts';
 import { createInputsSlice, type InputsSlice } from './inputs-slice.ts';
 import { createRecipeSlice, type RecipeSlice } from './recipe-slice.ts';
 import { createResultsSlice, type ResultsSlice } from './results-slice.ts';
+import { createSessionSlice, type SessionSlice } from './session-slice.ts';
 import { createViewSlice, type ViewSlice } from './view-slice.ts';
 
-export type AppState = InputsSlice & RecipeSlice & ResultsSlice & ViewSlice & AnalysisSlice;
+export type AppState = InputsSlice & RecipeSlice & ResultsSlice & ViewSlice & AnalysisSlice & SessionSlice;
 
 /** A fresh store (tests make one each). */
 export const createAppStore = () => create<AppState>()((...a) => ({
@@ -19,6 +21,7 @@ export const createAppStore = () => create<AppState>()((...a) => ({
   ...createResultsSlice(...a),
   ...createViewSlice(...a),
   ...createAnalysisSlice(...a),
+  ...createSessionSlice(...a),
 }));
 
 export const useApp = createAppStore();

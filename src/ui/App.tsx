@@ -1,7 +1,9 @@
 import { useCallback, useEffect, useRef, useState } from 'react';
 import { useApp } from '../state/store.ts';
 import { loadDemo, openFiles } from './controller.ts';
+import { ErrorBoundary } from './ErrorBoundary.tsx';
 import { Notices } from './Notices.tsx';
+import { SessionBanner, StartChoice } from './SessionBanner.tsx';
 import { LossPanel } from './LossPanel.tsx';
 import { ExportPanel } from './export/ExportPanel.tsx';
 import { NoisePanel } from './NoisePanel.tsx';
@@ -74,11 +76,13 @@ export function App() {
       <p className="caution" role="note">
         Not a validated system. Results are for exploration and review; your laboratory’s procedures, validated methods and regulators’ requirements govern. Data stays on this computer.
       </p>
+      <StartChoice />
+      <div className="notices"><SessionBanner /></div>
       <Notices />
       <main className="layout">
         <aside className="side">
-          <TraceList />
-          <StepStack />
+          <ErrorBoundary area="the trace list"><TraceList /></ErrorBoundary>
+          <ErrorBoundary area="the processing steps"><StepStack /></ErrorBoundary>
         </aside>
         <div className="main">
           <section className="panel plot-panel" aria-labelledby="plot-title">
@@ -91,13 +95,15 @@ export function App() {
                 <button type="button" onClick={() => setXRange(null)}>Whole trace</button>
               </div>
             </div>
-            <TracePlot onFigure={onFigure} />
+            <ErrorBoundary area="the plot" drawsSession actions={<button type="button" onClick={() => window.location.reload()}>Reload and choose whether to restore this session</button>}>
+              <TracePlot onFigure={onFigure} />
+            </ErrorBoundary>
           </section>
-          <ResidualPanel />
-          <PeakTable />
-          <NoisePanel />
-          <LossPanel />
-          <ExportPanel getFigure={() => figure.current} />
+          <ErrorBoundary area="the residual checks"><ResidualPanel /></ErrorBoundary>
+          <ErrorBoundary area="the peak table"><PeakTable /></ErrorBoundary>
+          <ErrorBoundary area="the noise panel"><NoisePanel /></ErrorBoundary>
+          <ErrorBoundary area="the loss check"><LossPanel /></ErrorBoundary>
+          <ErrorBoundary area="the export panel"><ExportPanel getFigure={() => figure.current} /></ErrorBoundary>
         </div>
       </main>
       {dragging && <div className="drop-hint" aria-hidden="true">Drop trace files to load them</div>}

@@ -16,6 +16,9 @@ function pct(v: number | null, signed = false): string {
   return `${signed && v > 0 ? '+' : ''}${s} %`;
 }
 
+/** Sentences listed on the page at most (the report holds every one). */
+const MAX_SENTENCES = 300;
+
 /** The loss check: alternatives side by side, the survival ledger, window advice. */
 export function LossPanel() {
   const loss = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result.loss : null));
@@ -24,7 +27,8 @@ export function LossPanel() {
   const recipe = useApp((s) => s.recipe);
   const showAlt = useApp((s) => s.showAlternatives);
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
-  const { addAlternatives, removeAlternative, setShowAlternatives, notify } = useApp.getState();
+  const noiseRowsOn = useApp((s) => s.ledgerNoiseLevel);
+  const { addAlternatives, removeAlternative, setShowAlternatives, setLedgerNoiseLevel, notify } = useApp.getState();
   const xu = sample?.xUnit ?? '';
   const full = alternatives.length >= MAX_ALTERNATIVES;
   const rows = loss ? loss.ledger.rows : [];
@@ -66,6 +70,9 @@ export function LossPanel() {
           })}
         </ul>
       )}
+      {loss && loss.narrowestFwhmPoints === null && recipe.steps.some((s) => s.enabled && (s.step === 'moving-average' || s.step === 'savitzky-golay')) && (
+        <p className="small muted">No window advice: it is taken from the narrowest quantifiable peak of the raw trace, and there is none (noise bumps are narrow by nature and would make every window look too wide).</p>
+      )}
       {loss && loss.advice.length > 0 && (
         <div className="advice">
           <h3>Window advice</h3>
@@ -93,9 +100,14 @@ export function LossPanel() {
           {loss.ledger.sentences.length > 0 && (
             <details>
               <summary>{loss.ledger.sentences.length} change{loss.ledger.sentences.length === 1 ? '' : 's'} across all columns</summary>
-              <ul className="small">{loss.ledger.sentences.map((s, i) => <li key={i}>{s}</li>)}</ul>
+              <ul className="small">{loss.ledger.sentences.slice(0, MAX_SENTENCES).map((s, i) => <li key={i}>{s}</li>)}</ul>
+              {loss.ledger.sentences.length > MAX_SENTENCES && <p className="small muted">… and {loss.ledger.sentences.length - MAX_SENTENCES} more; the report lists every one.</p>}
             </details>
           )}
+          <label className="switch small">
+            <input type="checkbox" checked={noiseRowsOn} onChange={(e) => setLedgerNoiseLevel(e.target.checked)} data-testid="ledger-noise-toggle" />
+            {' '}also list noise-level features (below the detection limit in every column)
+          </label>
           <div className="table-wrap" tabIndex={0} role="region" aria-label="Ledger table (scrolls)">
             <table className="data ledger" data-testid="ledger">
               <caption className="sr-only">Survival of each feature under each processing choice</caption>
@@ -123,7 +135,7 @@ export function LossPanel() {
             </table>
           </div>
           {shown.length < rows.length && <p className="small muted">Showing {shown.length} of {rows.length} rows (every row where a limit is crossed first). The report lists every sentence.</p>}
-          {hidden > 0 && <p className="small muted">{hidden} noise-level candidate{hidden === 1 ? '' : 's'} (below the detection limit in every column) left out of the ledger.</p>}
+          {hidden > 0 && !loss.noiseLevelShown && <p className="small muted">{hidden} noise-level candidate{hidden === 1 ? '' : 's'} (below the detection limit in every column) left out of the ledger; tick the box above to list them.</p>}
           <p className="hint">{loss.ledger.rule}</p>
         </>
       )}

@@ -1,5 +1,5 @@
 import { useApp } from '../state/store.ts';
-import { cancelLoad } from './controller.ts';
+import { cancelLoad, runNoticeAction } from './controller.ts';
 
 /** Load reports, warnings and errors, newest first. */
 export function Notices() {
@@ -25,6 +25,9 @@ export function Notices() {
           </div>
           {n.lines.length > 0 && (
             <ul>{n.lines.map((l, i) => <li key={i}>{l}</li>)}</ul>
+          )}
+          {n.action && (
+            <button type="button" data-testid="notice-action" onClick={() => { const key = n.action!.key; dismiss(n.id); runNoticeAction(key); }}>{n.action.label}</button>
           )}
         </div>
       ))}

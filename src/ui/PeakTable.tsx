@@ -1,14 +1,30 @@
-import type { Peak } from '../core/peaks.ts';
+import { useState } from 'react';
+import type { Peak, PeakMark } from '../core/measure/peak-types.ts';
+import { noiseBumpSentence } from '../core/measure/noise-bumps.ts';
+import { BOUND_TEXT, MARK_TEXT, SPLIT_TEXT } from '../core/export/peak-csv.ts';
 import { useApp } from '../state/store.ts';
 import { FLAG_WORDS, num, SNR_WORDS } from './format.ts';
 
 const MAX_ROWS = 500;
 
+/** Marks in two or three words for the table; the full sentence is in the cell's title, the CSV and the report. */
+const MARK_SHORT: Record<PeakMark, string> = {
+  'appears-only-after-processing': 'only after processing',
+  'possibly-saturated': 'flat top',
+  'thinly-sampled': 'thin',
+};
+
+/** S/N for ordering: not measured sorts last. */
+const snrOf = (p: Peak) => p.snr ?? -Infinity;
+
+/**
+ * At most MAX_ROWS rows: the user's decisions always, then the highest S/N
+ * (never the first by position: on a long noisy trace those are noise).
+ */
 function pickRows(all: readonly Peak[]): Peak[] {
-  const keep = (p: Peak) => p.flag === 'detectable' || p.flag === 'quantifiable' || p.origin === 'added-by-user' || p.removedByUser === true;
-  const first = all.filter(keep);
-  const rest = all.filter((p) => !keep(p)).sort((a, b) => (b.snr ?? 0) - (a.snr ?? 0));
-  return [...first, ...rest].slice(0, MAX_ROWS).sort((a, b) => a.x - b.x);
+  const mine = (p: Peak) => p.origin === 'added-by-user' || p.removedByUser === true;
+  const rest = all.filter((p) => !mine(p)).sort((a, b) => snrOf(b) - snrOf(a));
+  return [...all.filter(mine), ...rest].slice(0, MAX_ROWS);
 }
 
 /** The peak table: a real table with headers; a click on a row zooms to the peak. */
@@ -20,11 +36,15 @@ export function PeakTable() {
   const addPeakMode = useApp((s) => s.addPeakMode);
   const decisions = useApp((s) => s.decisions);
   const { selectPeak, setXRange, removePeakAt, restorePeakAt, setAddPeakMode, clearDecisions } = useApp.getState();
+  const [orderChoice, setOrderChoice] = useState<'x' | 'snr' | null>(null);
   if (!result || !sample) return null;
   const all = result.peaks;
-  // A long noisy trace can hold thousands of candidates; the page shows at most MAX_ROWS (the ones at or above
-  // the detection limit and the user's decisions first). The peak CSV always holds every one.
-  const peaks = all.length <= MAX_ROWS ? all : pickRows(all);
+  // A long noisy trace can hold thousands of candidates; the page shows at most MAX_ROWS (the user's decisions and
+  // the highest S/N), ordered by S/N when capped unless the user asks for position. The peak CSV holds every one.
+  const capped = all.length > MAX_ROWS;
+  const order = orderChoice ?? (capped ? 'snr' : 'x');
+  const shown = capped ? pickRows(all) : all.slice();
+  const peaks = order === 'snr' ? shown.sort((a, b) => snrOf(b) - snrOf(a) || a.x - b.x) : shown.sort((a, b) => a.x - b.x);
   const def = result.peakOptions?.snrDefinition ?? 'rms';
   const xu = sample.xUnit ? ` (${sample.xUnit})` : '';
   const yu = sample.yUnit ? ` (${sample.yUnit})` : '';
@@ -44,8 +64,21 @@ export function PeakTable() {
       <p className="small" data-testid="peak-summary">
         {counts.q} quantifiable (S/N ≥ {lim?.quantitation}), {counts.d} detected but not quantifiable ({lim?.detection} ≤ S/N &lt; {lim?.quantitation}), {counts.b} below the detection limit (kept, marked).
         {' '}S/N column: <strong>{SNR_WORDS[def]}</strong>.
-        {all.length > peaks.length && <> Showing {peaks.length} of {all.length} candidates (all at or above the detection limit first); the peak table CSV holds every one. Raise the smallest S/N or prominence to thin the list.</>}
+        {capped && <> Showing the {peaks.length} of {all.length} candidates with the highest S/N (and every hand decision); the peak table CSV holds every one. Raise the smallest S/N or prominence to thin the list.</>}
       </p>
+      {result.noiseBumps && (
+        <p className="small" data-testid="noise-bumps" title={result.noiseBumps.method}>
+          {noiseBumpSentence(result.noiseBumps)}{' '}
+          <span className="muted">(Simulated with these settings; hover for how.)</span>
+        </p>
+      )}
+      <div className="row small">
+        <label htmlFor="peak-order">Order rows by</label>
+        <select id="peak-order" value={order} onChange={(e) => setOrderChoice(e.target.value as 'x' | 'snr')}>
+          <option value="x">position</option>
+          <option value="snr">S/N, highest first</option>
+        </select>
+      </div>
       <div className="table-wrap" tabIndex={0} role="region" aria-label="Peak table (scrolls)">
         <table className="data" data-testid="peak-table">
           <caption className="sr-only">Peaks found on the {result.peakOptions ? 'measured' : ''} trace with their measures; S/N by {SNR_WORDS[def]}</caption>
@@ -59,9 +92,9 @@ export function PeakTable() {
               <th scope="col">Area</th>
               <th scope="col">Bounds{xu}</th>
               <th scope="col">S/N ({def === 'rms' ? 'H/σ' : def === 'pharmacopoeial' ? '2H/h' : 'mean/SD'})</th>
+              <th scope="col">Status and marks</th>
               <th scope="col">H/σ</th>
               <th scope="col">2H/h</th>
-              <th scope="col">Status</th>
               <th scope="col">Decision</th>
             </tr>
           </thead>
@@ -85,11 +118,15 @@ export function PeakTable() {
                 <td>{num(p.prominence)}</td>
                 <td>{num(p.fwhm)}</td>
                 <td>{num(p.area)}</td>
-                <td>{num(p.start, 4)} – {num(p.end, 4)}</td>
+                <td title={`start: ${BOUND_TEXT[p.startKind]}; end: ${BOUND_TEXT[p.endKind]}${p.split !== 'none' ? `; shared valley split by ${SPLIT_TEXT[p.split]}` : ''}`}>{num(p.start, 4)} – {num(p.end, 4)}</td>
                 <td><strong>{num(p.snr, 3)}</strong></td>
+                <td className="marks" title={[...p.marks.map((m) => MARK_TEXT[m]), p.note ?? ''].filter(Boolean).join('; ')}>
+                  <span className={`flag flag-${p.flag}`}>{FLAG_WORDS[p.flag]}</span>
+                  {p.marks.map((m) => <span key={m} className={`mark mark-${m}`}>{MARK_SHORT[m]}</span>)}
+                  {p.note && <span className="mark">see note</span>}
+                </td>
                 <td>{num(p.snrRms, 3)}</td>
                 <td title={p.pharmaNoise ? `h = ${num(p.pharmaNoise.h)} over ${p.pharmaNoise.points} points of ${p.pharmaNoise.source}` : ''}>{num(p.snrPharma, 3)}{p.pharmaNoise?.source === 'trace itself' ? '*' : ''}</td>
-                <td><span className={`flag flag-${p.flag}`}>{FLAG_WORDS[p.flag]}</span></td>
                 <td>
                   {p.removedByUser ? (
                     <>removed by hand <button type="button" className="link" onClick={(e) => { e.stopPropagation(); restorePeakAt(p.x, Math.max(p.fwhm, 1e-12)); }}>restore</button></>
@@ -104,7 +141,7 @@ export function PeakTable() {
         </table>
       </div>
       <p className="hint">
-        Height is above the straight line joining the peak’s bases; area is above that line between the integration bounds (trapezoid rule); FWHM is the width at half height.
+        Height: apex above the peak’s own local baseline, a straight line between the trace’s levels at its bounds (drawn for the selected peak). Bounds: where the trace is back at the baseline, or a valley shared with a neighbour (split by {SPLIT_TEXT[result.peakOptions?.split ?? 'perpendicular-drop']}); hover a bound for why. FWHM: the peak’s own width at half that height. Area: above the local baseline between the bounds (trapezoid rule).
         {' '}2H/h: h is the noise range {peaks.some((p) => p.pharmaNoise?.source === 'trace itself') ? 'of the trace itself (*), because no blank is loaded: a deviation from the pharmacopoeial method' : 'of the blank'} over {result.peakOptions?.pharmacopoeialMultiplier ?? 5} × FWHM centred on each peak.
       </p>
     </section>

@@ -1,5 +1,7 @@
-import { useEffect, useRef } from 'react';
+import { useEffect, useMemo, useRef, useState } from 'react';
 import Plotly, { type PlotData, type PlotLayout, type PlotlyHTMLElement } from 'plotly.js-strict-dist-min';
+import { plotConfig } from './plot-config.ts';
+import { guardFigure, toDataUnits, type AxisTransform } from './plot-guard.ts';
 
 export interface FigureEvents {
   /** x-range after a zoom or pan; null after autoscale. */
@@ -15,61 +17,116 @@ interface Props extends FigureEvents {
   label: string;
   /** Receives the element so callers can export pictures. */
   onReady?: (el: HTMLElement | null) => void;
+  /** Called after each drawing that worked, and with a message when one failed. */
+  onDrawn?: (problem: string | null) => void;
   /** Test id; the main trace plot is "figure". */
   testId?: string;
+  /** File name (without extension) of a picture saved from the toolbar. */
+  pictureName?: string;
   /** Set as the element's data-drawn attribute once Plotly has drawn this data (timing scripts wait for it). */
   drawnTag?: string;
 }
 
-/** A thin wrapper: Plotly.react in an effect, events forwarded, purge on unmount. */
-export function PlotlyFigure({ data, layout, className, label, onXRange, onClickPoint, onSelectX, onReady, testId = 'figure', drawnTag }: Props) {
+/**
+ * A thin wrapper: the figure is checked by {@link guardFigure} (values the
+ * plot library cannot draw are scaled or left out, with a note), drawn with
+ * Plotly.react in an effect under the page's own configuration
+ * ({@link plotConfig}: no control that can send data away), events are
+ * forwarded in data units, and the element is purged on unmount. When the
+ * library fails, the figure says what failed in its place and the rest of
+ * the page goes on.
+ */
+export function PlotlyFigure({ data, layout, className, label, onXRange, onClickPoint, onSelectX, onReady, onDrawn, testId = 'figure', pictureName = 'tracewright-plot', drawnTag }: Props) {
   const ref = useRef<HTMLDivElement>(null);
   const handlers = useRef<FigureEvents>({});
   handlers.current = { onXRange, onClickPoint, onSelectX };
+  const drawn = useRef(onDrawn);
+  drawn.current = onDrawn;
   const bound = useRef(false);
+  const guarded = useMemo(() => guardFigure(data, layout), [data, layout]);
+  const transforms = useRef<Record<string, AxisTransform>>({});
+  transforms.current = guarded.transforms;
+  const [failure, setFailure] = useState<string | null>(null);
+  /** Bumped by "Draw again" to run the drawing once more with the same data. */
+  const [attempt, setAttempt] = useState(0);
 
   useEffect(() => {
     const el = ref.current;
     if (!el) return;
     let cancelled = false;
-    Plotly.react(el, data, layout, { displaylogo: false, responsive: true, scrollZoom: true, modeBarButtonsToRemove: ['lasso2d', 'toImage'] })
-      .then((gd) => {
-        if (!cancelled && drawnTag !== undefined) el.setAttribute('data-drawn', drawnTag);
-        if (cancelled || bound.current) return;
-        bound.current = true;
-        bindEvents(gd, handlers);
-      })
-      .catch(() => undefined);
+    const fail = (e: unknown) => {
+      if (cancelled) return;
+      const message = e instanceof Error ? e.message : String(e);
+      // A half-drawn figure is cleared so the next data start from nothing.
+      try { Plotly.purge(el); } catch { /* already unusable */ }
+      bound.current = false;
+      setFailure(message);
+      drawn.current?.(message);
+    };
+    try {
+      Plotly.react(el, guarded.data, guarded.layout, plotConfig(pictureName))
+        .then((gd) => {
+          if (cancelled) return;
+          if (drawnTag !== undefined) el.setAttribute('data-drawn', drawnTag);
+          setFailure(null);
+          drawn.current?.(null);
+          if (bound.current) return;
+          bound.current = true;
+          bindEvents(gd, handlers, transforms);
+        })
+        .catch(fail);
+    } catch (e) {
+      fail(e);
+    }
     return () => { cancelled = true; };
-  }, [data, layout, drawnTag]);
+  }, [guarded, pictureName, attempt, drawnTag]);
 
   useEffect(() => {
     const el = ref.current;
     onReady?.(el);
     return () => {
-      if (el) Plotly.purge(el);
+      if (el) { try { Plotly.purge(el); } catch { /* nothing left to clear */ } }
       bound.current = false;
       onReady?.(null);
     };
   }, [onReady]);
 
-  return <div ref={ref} className={className} role="figure" aria-label={label} data-testid={testId} />;
+  return (
+    <>
+      {failure && (
+        <div className="plot-failed" role="alert" data-testid={`${testId}-failed`}>
+          <strong>This plot could not be drawn.</strong> The plot library stopped with: “{failure}”. The data, the results and the rest of the page are unaffected; the tables and exports below still work.
+          {' '}<button type="button" onClick={() => setAttempt((a) => a + 1)}>Draw again</button>
+        </div>
+      )}
+      <div ref={ref} className={className} role="figure" aria-label={label} data-testid={testId} hidden={!!failure} />
+      {guarded.notes.length > 0 && (
+        <ul className="plot-notes small" data-testid={`${testId}-notes`}>
+          {guarded.notes.map((n, i) => <li key={i}>{n}</li>)}
+        </ul>
+      )}
+    </>
+  );
 }
 
-function bindEvents(gd: PlotlyHTMLElement, handlers: { current: FigureEvents }) {
+function bindEvents(gd: PlotlyHTMLElement, handlers: { current: FigureEvents }, transforms: { current: Record<string, AxisTransform> }) {
+  const x = (v: number) => toDataUnits(v, transforms.current.x);
   gd.on('plotly_relayout', (ev) => {
     const e = ev as Record<string, unknown>;
     const a = e['xaxis.range[0]'] ?? (Array.isArray(e['xaxis.range']) ? (e['xaxis.range'] as number[])[0] : undefined);
     const b = e['xaxis.range[1]'] ?? (Array.isArray(e['xaxis.range']) ? (e['xaxis.range'] as number[])[1] : undefined);
-    if (typeof a === 'number' && typeof b === 'number') handlers.current.onXRange?.([a, b]);
+    if (typeof a === 'number' && typeof b === 'number') handlers.current.onXRange?.([x(a), x(b)]);
     else if (e['xaxis.autorange'] === true) handlers.current.onXRange?.(null);
   });
   gd.on('plotly_click', (ev) => {
-    const pts = (ev as { points?: { x: number; y: number; curveNumber: number }[] }).points;
-    if (pts && pts.length) handlers.current.onClickPoint?.(pts[0].x, pts[0].y, pts[0].curveNumber);
+    const pts = (ev as { points?: { x: number; y: number; curveNumber: number; yaxis?: { _id?: string } }[] }).points;
+    if (pts && pts.length) {
+      const p = pts[0];
+      handlers.current.onClickPoint?.(x(p.x), toDataUnits(p.y, transforms.current[p.yaxis?._id ?? 'y']), p.curveNumber);
+    }
   });
   gd.on('plotly_selected', (ev) => {
     const r = (ev as { range?: { x?: [number, number] } } | undefined)?.range?.x;
-    if (r) handlers.current.onSelectX?.([Math.min(r[0], r[1]), Math.max(r[0], r[1])]);
+    if (r) handlers.current.onSelectX?.([Math.min(x(r[0]), x(r[1])), Math.max(x(r[0]), x(r[1]))]);
   });
 }

@@ -1,6 +1,8 @@
 import { useApp } from '../state/store.ts';
 
-/** What the processing removed, and whether it looks like noise. */
+const VERDICT_CLASS = { 'nothing-removed': 'ok', clean: 'ok', caution: 'warn', structure: 'bad' } as const;
+
+/** What the processing removed, and whether it looks like noise (one verdict with the loss check). */
 export function ResidualPanel() {
   const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
   if (!result) return null;
@@ -11,7 +13,7 @@ export function ResidualPanel() {
       {result.residualNote && <p className="muted">{result.residualNote}</p>}
       {d ? (
         <>
-          <p className={d.looksLikeNoise ? 'verdict ok' : 'verdict warn'} data-testid="residual-verdict">{d.verdict}</p>
+          <p className={`verdict ${VERDICT_CLASS[d.level]}`} data-testid="residual-verdict" data-level={d.level}>{d.verdict}</p>
           <dl className="figures-grid">
             <dt>RMS of the residual</dt><dd>{d.rms.toPrecision(4)}</dd>
             <dt>Lag-1 autocorrelation</dt><dd>{d.lag1.toFixed(3)} (white noise stays within ±{d.lag1Threshold.toFixed(3)})</dd>

@@ -6,6 +6,8 @@ import { useApp } from '../state/store.ts';
 import { ALTERNATIVE_COLOURS, COLOURS } from './palette.ts';
 import { interpolateLinear } from '../core/numeric/interpolate.ts';
 import { PlotlyFigure } from './PlotlyFigure.tsx';
+import { MARK_TEXT } from '../core/export/peak-csv.ts';
+import { markDrawFailed, markDrawn } from './draw-health.ts';
 
 /** Plot width in pixel columns used for decimation (two points per column). */
 function useWidth(): [React.RefObject<HTMLDivElement | null>, number] {
@@ -101,6 +103,18 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
         const mine = live.filter((pk) => pk.origin === 'added-by-user');
         live = [...mine, ...live.filter((pk) => pk.origin !== 'added-by-user').sort((a, b) => (b.snr ?? 0) - (a.snr ?? 0)).slice(0, 300 - mine.length)];
       }
+      // Features the raw trace does not have: ringed again, so they cannot be taken for ordinary peaks.
+      const born = live.filter((pk) => pk.marks.includes('appears-only-after-processing') && pk.flag !== 'below-detection');
+      if (born.length) {
+        traces.push({
+          type: 'scatter', mode: 'markers', name: 'appears only after processing',
+          x: born.map((pk) => pk.x), y: born.map((pk) => pk.y),
+          text: born.map((pk) => `appears only after processing: the raw trace has nothing here that passes the same thresholds (S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)} now)`),
+          hoverinfo: 'x+text',
+          marker: { symbol: 'square-open', size: 20, color: COLOURS.spike, line: { width: 2.5, color: COLOURS.spike } },
+          xaxis: 'x', yaxis: 'y',
+        });
+      }
       if (live.length) {
         const sym: Record<string, string> = { quantifiable: 'triangle-down', detectable: 'diamond', 'below-detection': 'circle-open', 'not-measured': 'circle-open' };
         const col: Record<string, string> = { quantifiable: COLOURS.peak, detectable: COLOURS.baseline, 'below-detection': COLOURS.spike, 'not-measured': COLOURS.raw };
@@ -109,7 +123,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
           x: live.map((pk) => pk.x), y: live.map((pk) => pk.y),
           text: live.map((pk) => (pk.snr === null ? '?' : pk.snr.toFixed(pk.snr < 10 ? 1 : 0))),
           textposition: 'top center', textfont: { size: 11, color: COLOURS.ink },
-          hovertext: live.map((pk) => `apex ${pk.x.toPrecision(6)}<br>height ${pk.height.toPrecision(4)}<br>FWHM ${pk.fwhm.toPrecision(4)} (${pk.leftHalf.toPrecision(6)} – ${pk.rightHalf.toPrecision(6)})<br>bounds ${pk.start.toPrecision(6)} – ${pk.end.toPrecision(6)}<br>S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)}${pk.origin === 'added-by-user' ? '<br>added by hand' : ''}`),
+          hovertext: live.map((pk) => `apex ${pk.x.toPrecision(6)}<br>height ${pk.height.toPrecision(4)}<br>FWHM ${pk.fwhm.toPrecision(4)} (${pk.leftHalf.toPrecision(6)} – ${pk.rightHalf.toPrecision(6)})<br>bounds ${pk.start.toPrecision(6)} – ${pk.end.toPrecision(6)}<br>S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)}${pk.marks.map((m) => `<br>${MARK_TEXT[m]}`).join('')}${pk.origin === 'added-by-user' ? '<br>added by hand' : ''}`),
           hoverinfo: 'text',
           marker: { symbol: live.map((pk) => sym[pk.flag]), color: live.map((pk) => col[pk.flag]), size: 10, line: { width: 1.5, color: live.map((pk) => col[pk.flag]) } },
           xaxis: 'x', yaxis: 'y',
@@ -127,9 +141,11 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
     const shapes: Record<string, unknown>[] = marked ? [{ type: 'rect', xref: 'x', yref: 'paper', x0: marked[0], x1: marked[1], y0: 0, y1: 1, fillcolor: 'rgba(0,158,115,0.10)', line: { width: 0 } }] : [];
     const pk = selectedX === null ? undefined : result?.peaks.find((p) => Math.abs(p.x - selectedX) < 1e-12);
     if (pk) {
-      const halfY = pk.y - pk.prominence / 2 * (pk.height < 0 ? -1 : 1);
+      // The peak's own local baseline between its bounds, and its half-height width measured above that line.
+      const base = (v: number) => (pk.end === pk.start ? pk.baselineStart : pk.baselineStart + ((pk.baselineEnd - pk.baselineStart) * (v - pk.start)) / (pk.end - pk.start));
       shapes.push(
-        { type: 'line', xref: 'x', yref: 'y', x0: pk.leftHalf, x1: pk.rightHalf, y0: halfY, y1: halfY, line: { color: COLOURS.peak, width: 2 } },
+        { type: 'line', xref: 'x', yref: 'y', x0: pk.start, x1: pk.end, y0: pk.baselineStart, y1: pk.baselineEnd, line: { color: COLOURS.peak, width: 2, dash: 'dash' } },
+        { type: 'line', xref: 'x', yref: 'y', x0: pk.leftHalf, x1: pk.rightHalf, y0: base(pk.leftHalf) + pk.height / 2, y1: base(pk.rightHalf) + pk.height / 2, line: { color: COLOURS.peak, width: 2 } },
         { type: 'line', xref: 'x', yref: 'paper', x0: pk.start, x1: pk.start, y0: 0.3, y1: 1, line: { color: COLOURS.peak, width: 1, dash: 'dot' } },
         { type: 'line', xref: 'x', yref: 'paper', x0: pk.end, x1: pk.end, y0: 0.3, y1: 1, line: { color: COLOURS.peak, width: 1, dash: 'dot' } },
       );
@@ -157,13 +173,14 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const onXRange = useCallback((r: [number, number] | null) => setXRange(r), [setXRange]);
   const onSelectX = useCallback((r: [number, number]) => setMarked(r), [setMarked]);
   const onClickPoint = useCallback((x: number) => { if (addPeakMode) addPeakAt(x); }, [addPeakMode, addPeakAt]);
+  const onDrawn = useCallback((problem: string | null) => { if (problem) markDrawFailed(`the plot: ${problem}`); else markDrawn(); }, []);
 
   if (!sample) {
     return <div className="plot-empty" ref={boxRef}>No trace yet. Drop a file here or choose one with “Open file”.</div>;
   }
   return (
     <div ref={boxRef} className="plot-box">
-      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onReady={onFigure} drawnTag={String(result ? resultSeq : 0)} />
+      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onReady={onFigure} onDrawn={onDrawn} pictureName={`${sample.source.fileName.replace(/\.[^.]*$/, '')}-plot`} drawnTag={String(result ? resultSeq : 0)} />
     </div>
   );
 }

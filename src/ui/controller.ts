@@ -4,7 +4,7 @@
  * change (latest request wins). Holds no state the store should hold.
  */
 import type { AnalyseRequest } from '../core/analyse.ts';
-import { MAX_FILE_BYTES, type LoadResult } from '../core/io/types.ts';
+import { MAX_FILE_BYTES, type LoadOptions, type LoadResult } from '../core/io/types.ts';
 import type { TraceRole } from '../core/trace.ts';
 import { useApp } from '../state/store.ts';
 import { inProcessBackend, LatestOnly, workerBackend, type ComputeBackend } from '../worker/bridge.ts';
@@ -32,8 +32,29 @@ function describeLoad(result: Extract<LoadResult, { ok: true }>): string[] {
   return lines;
 }
 
+/** What notices offer to do, by key (functions stay out of the store). */
+const noticeActions = new Map<string, () => void>();
+let actionCount = 0;
+
+/** Run the action a notice offers (its button). */
+export function runNoticeAction(key: string): void {
+  const run = noticeActions.get(key);
+  noticeActions.delete(key);
+  run?.();
+}
+
+interface LoadBytesOptions {
+  roles?: TraceRole[];
+  replace?: boolean;
+  quiet?: boolean;
+  /** How numbers are written, when the user said so. */
+  numberFormat?: LoadOptions['numberFormat'];
+  /** Read the file again (for a second try with what the user said); absent for the demo. */
+  reread?: () => Promise<Uint8Array>;
+}
+
 /** Load one file's bytes; on success its first trace becomes the sample unless roles say otherwise. */
-export async function loadBytes(bytes: Uint8Array, fileName: string, opts: { roles?: TraceRole[]; replace?: boolean; quiet?: boolean } = {}): Promise<boolean> {
+export async function loadBytes(bytes: Uint8Array, fileName: string, opts: LoadBytesOptions = {}): Promise<boolean> {
   const app = useApp.getState();
   if (bytes.byteLength > MAX_FILE_BYTES) {
     app.notify('error', `${fileName}: the file is too large (${(bytes.byteLength / 1048576).toFixed(0)} MB)`, [`The page holds files up to ${MAX_FILE_BYTES / 1048576} MB. Split the file or thin it before loading. Nothing already loaded was changed.`]);
@@ -41,15 +62,30 @@ export async function loadBytes(bytes: Uint8Array, fileName: string, opts: { rol
   }
   app.setLoading({ fileName, fraction: 0 });
   try {
-    const result = await getBackend().load(bytes, fileName, undefined, (fraction) => useApp.getState().setLoading({ fileName, fraction }));
+    const options = opts.numberFormat ? { numberFormat: opts.numberFormat } : undefined;
+    const result = await getBackend().load(bytes, fileName, options, (fraction) => useApp.getState().setLoading({ fileName, fraction }));
     if (!result.ok) {
       const e = result.error;
-      useApp.getState().notify('error', `${e.fileName}${e.line ? `, line ${e.line}` : ''}: ${e.problem}`, [e.advice, 'Nothing already loaded was changed.']);
+      // The page may ask what the file cannot say (how its numbers are written); the answer loads it again.
+      let action: { label: string; key: string } | undefined;
+      const settle = e.settle, reread = opts.reread;
+      if (settle && reread) {
+        const key = `settle-${++actionCount}`;
+        noticeActions.set(key, () => {
+          void reread().then(
+            (again) => loadBytes(again, fileName, { ...opts, numberFormat: settle.numberFormat }),
+            (err: Error) => useApp.getState().notify('error', `${fileName}: the browser could not read the file again`, [err.message]),
+          );
+        });
+        action = { label: settle.label, key };
+      }
+      useApp.getState().notify('error', `${e.fileName}${e.line ? `, line ${e.line}` : ''}: ${e.problem}`, [e.advice, 'Nothing already loaded was changed.'], action);
       return false;
     }
     useApp.getState().addTraces(result.traces, result.report, { roles: opts.roles, replace: opts.replace });
     if (!opts.quiet) {
-      const names = result.traces.map((t) => t.name).join(', ');
+      const n = result.traces.length;
+      const names = n <= 4 ? result.traces.map((t) => t.name).join(', ') : `${n} traces from ${fileName} (${result.traces[0].name} … ${result.traces[n - 1].name})`;
       useApp.getState().notify(result.report.skipped.length ? 'warning' : 'info', `Loaded ${names}`, describeLoad(result));
     }
     return true;
@@ -75,7 +111,7 @@ export async function openFiles(files: readonly File[]): Promise<void> {
       useApp.getState().notify('error', `${f.name}: the browser could not read the file`, [(e as Error).message]);
       continue;
     }
-    await loadBytes(bytes, f.name);
+    await loadBytes(bytes, f.name, { reread: () => f.arrayBuffer().then((b) => new Uint8Array(b)) });
   }
 }
 
@@ -118,6 +154,7 @@ function buildRequest(): AnalyseRequest | null {
     peaks: s.peakSettings,
     decisions: s.decisions,
     alternatives: s.alternatives,
+    ledgerNoiseLevel: s.ledgerNoiseLevel,
   };
 }
 
@@ -155,7 +192,7 @@ export function startController(): () => void {
       return;
     }
     if (s.recipe !== prev.recipe || s.sampleId !== prev.sampleId || s.roles !== prev.roles || s.showUid !== prev.showUid
-      || s.noiseSettings !== prev.noiseSettings || s.peakSettings !== prev.peakSettings || s.decisions !== prev.decisions || s.alternatives !== prev.alternatives) requestAnalysis();
+      || s.noiseSettings !== prev.noiseSettings || s.peakSettings !== prev.peakSettings || s.decisions !== prev.decisions || s.alternatives !== prev.alternatives || s.ledgerNoiseLevel !== prev.ledgerNoiseLevel) requestAnalysis();
   });
   return unsub;
 }

@@ -19,11 +19,20 @@ class WorkerChannel {
   private worker: Worker | null = null;
   private jobs = new Map<number, Pending<unknown> & { onProgress?: (f: number) => void }>();
   private nextId = 1;
+  /** Counts the workers made; a new one holds no traces yet. */
+  generation = 0;
 
   constructor(private readonly make: () => Worker) {}
 
+  /** The generation of the live worker, making one when needed. */
+  live(): number {
+    this.ensure();
+    return this.generation;
+  }
+
   private ensure(): Worker {
     if (this.worker) return this.worker;
+    this.generation++;
     const w = this.make();
     w.onmessage = (ev: MessageEvent<FromWorker>) => {
       const msg = ev.data;
@@ -31,8 +40,8 @@ class WorkerChannel {
       if (!job) return;
       if (msg.type === 'progress') { job.onProgress?.(msg.fraction); return; }
       this.jobs.delete(msg.jobId);
-      if (msg.type === 'failed') job.reject(new Error(msg.message));
-      else job.resolve(msg.result);
+      if (msg.type === 'failed') job.reject(Object.assign(new Error(msg.message), { missing: msg.missing === true }));
+      else job.resolve(msg);
     };
     w.onerror = (ev) => {
       const err = new Error(`The computation worker stopped: ${ev.message || 'unknown error'}`);
@@ -49,7 +58,8 @@ class WorkerChannel {
     this.ensure().postMessage(msg, transfer);
   }
 
-  request<T>(build: (jobId: number) => ToWorker, transfer: Transferable[] = [], onProgress?: (f: number) => void): Promise<T> {
+  /** Send a job; the promise gets the worker's whole answer (a result or a loaded file). */
+  request<T extends FromWorker>(build: (jobId: number) => ToWorker, transfer: Transferable[] = [], onProgress?: (f: number) => void): Promise<T> {
     const jobId = this.nextId++;
     return new Promise<T>((resolve, reject) => {
       this.jobs.set(jobId, { resolve: resolve as (v: unknown) => void, reject, onProgress });
@@ -74,16 +84,72 @@ export interface ComputeBackend {
   cancelLoad(): void;
 }
 
-/** Backend using two Web Workers (analysis and loading). */
+/**
+ * Backend using two Web Workers (analysis and loading). A trace crosses to
+ * the analysis worker once: the loading worker hands it a copy of every
+ * file it reads through a port between the two (so the page's thread never
+ * copies a big file), and the page then only names which traces stay;
+ * traces that did not come that way (a restored session) are copied once.
+ */
 export function workerBackend(make: () => Worker): ComputeBackend {
   const compute = new WorkerChannel(make);
   const loader = new WorkerChannel(make);
-  let traces: Trace[] = [];
+  // Ids the compute worker holds, and for which worker.
+  let held = new Set<string>();
+  let heldBy = 0;
+  // Ids the loading worker handed to the compute worker of generation `portedTo`.
+  let ported = new Set<string>();
+  let portedTo = 0;
+  let portFor: [number, number] | null = null;
+  let current: Trace[] = [];
+  const sendInputs = () => {
+    const gen = compute.live();
+    const known = gen === heldBy ? held : new Set<string>();
+    const viaPort = gen === portedTo ? ported : new Set<string>();
+    // Copied here and handed over: one memory copy instead of the slower structured clone.
+    const fresh = current.filter((x) => !known.has(x.id) && !viaPort.has(x.id)).map((t) => ({ ...t, x: t.x.slice(), y: t.y.slice() }));
+    compute.send({ type: 'inputs', traces: fresh, keep: current.map((x) => x.id) }, fresh.flatMap((t) => [t.x.buffer, t.y.buffer]));
+    held = new Set(current.map((x) => x.id));
+    heldBy = gen;
+    for (const id of held) ported.delete(id);
+  };
+  const ensurePort = (): boolean => {
+    if (typeof MessageChannel === 'undefined') return false;
+    const c = compute.live(), l = loader.live();
+    if (portFor && portFor[0] === c && portFor[1] === l) return true;
+    const ch = new MessageChannel();
+    compute.send({ type: 'port', port: ch.port1 }, [ch.port1]);
+    loader.send({ type: 'port', port: ch.port2 }, [ch.port2]);
+    portFor = [c, l];
+    return true;
+  };
+  const analyseOnce = (request: AnalyseRequest) => {
+    // A worker made anew (after a fault) is given the traces again first.
+    if (compute.live() !== heldBy) sendInputs();
+    return compute.request<Extract<FromWorker, { type: 'result' }>>((jobId) => ({ type: 'analyse', jobId, request })).then((m) => m.result);
+  };
   return {
-    setInputs(t) { traces = t; compute.send({ type: 'inputs', traces }); },
-    analyse(request) { return compute.request<AnalyseResult>((jobId) => ({ type: 'analyse', jobId, request })); },
+    setInputs(t) { current = t; sendInputs(); },
+    analyse(request) {
+      return analyseOnce(request).catch((e: Error & { missing?: boolean }) => {
+        if (!e.missing) throw e;
+        // A trace named by the page never came through the port: send them all and try once more.
+        heldBy = 0;
+        portedTo = 0;
+        return analyseOnce(request);
+      });
+    },
     load(bytes, fileName, options, onProgress) {
-      return loader.request<LoadResult>((jobId) => ({ type: 'load', jobId, bytes, fileName, options }), [bytes.buffer as ArrayBuffer], onProgress);
+      const share = ensurePort();
+      const gen = compute.generation;
+      return loader.request<Extract<FromWorker, { type: 'loaded' }>>((jobId) => ({ type: 'load', jobId, bytes, fileName, options, share }), [bytes.buffer as ArrayBuffer], onProgress)
+        .then((m) => {
+          if (m.shared && m.result.ok && compute.generation === gen) {
+            if (portedTo !== gen) { ported = new Set(); portedTo = gen; }
+            for (const t of m.result.traces) ported.add(t.id);
+          }
+          return m.result;
+        });
     },
     cancelLoad() { loader.cancelAll(); },
   };

@@ -13,10 +13,47 @@ export class Engine {
   private traces = new Map<string, Trace>();
   private cache = new PipelineCache(96);
 
-  setInputs(traces: Trace[]): void {
-    this.traces = new Map(traces.map((t) => [t.id, t]));
+  /**
+   * The traces to analyse. With `keep`, `traces` are the new ones and the
+   * traces already held whose ids are in `keep` stay (nothing is sent twice);
+   * without it, `traces` is the whole set.
+   */
+  setInputs(traces: Trace[], keep?: readonly string[]): void {
+    const next = new Map<string, Trace>();
+    for (const t of traces) next.set(t.id, t);
+    this.waiting = new Set();
+    if (keep) {
+      for (const id of keep) {
+        if (next.has(id)) continue;
+        const t = this.traces.get(id) ?? this.staged.get(id);
+        if (t) next.set(id, t);
+        else this.waiting.add(id);
+      }
+    }
+    this.traces = next;
+    for (const id of [...this.staged.keys()]) if (next.has(id)) this.staged.delete(id);
     this.cache.clear();
   }
+
+  /**
+   * Traces handed over by the loading worker (issue 13: copied there, so a
+   * big file costs the page's thread nothing). They join the inputs when the
+   * page names them, whether they arrive before or after it does.
+   */
+  stage(traces: Trace[]): void {
+    for (const t of traces) {
+      if (this.waiting.delete(t.id)) { this.traces.set(t.id, t); this.cache.clear(); }
+      else this.staged.set(t.id, t);
+    }
+  }
+
+  /** True while the page has named traces that have not arrived yet. */
+  get incomplete(): boolean {
+    return this.waiting.size > 0;
+  }
+
+  private staged = new Map<string, Trace>();
+  private waiting = new Set<string>();
 
   analyse(request: AnalyseRequest): AnalyseResult {
     return analyse(request, this.traces, STEP_REGISTRY, this.cache);

@@ -1,7 +1,8 @@
 /**
  * The one typed contract between the page and the computation worker.
- * Raw traces cross once (`inputs`); after that only recipes and settings.
- * Arrays coming back are transferred, not copied.
+ * Raw traces cross once (`inputs` sends only traces the worker does not
+ * hold yet); after that only recipes and settings. Arrays coming back are
+ * transferred, not copied (a loaded file's traces too).
  */
 import type { Recipe } from '../core/recipe.ts';
 import type { LoadOptions, LoadResult } from '../core/io/types.ts';
@@ -12,14 +13,23 @@ import type { AnalyseRequest, AnalyseResult } from '../core/analyse.ts';
 export type { AnalyseRequest, AnalyseResult };
 
 export type ToWorker =
-  | { type: 'inputs'; traces: Trace[] }
+  /** New traces, and (when given) the ids of every trace that stays: traces the worker holds already are not sent again. */
+  | { type: 'inputs'; traces: Trace[]; keep?: string[] }
   | { type: 'analyse'; jobId: number; request: AnalyseRequest }
-  | { type: 'load'; jobId: number; bytes: Uint8Array; fileName: string; options?: Omit<LoadOptions, 'onProgress'> };
+  /** `share`: also hand a copy of the traces to the computation worker through the port (made off the page's thread). */
+  | { type: 'load'; jobId: number; bytes: Uint8Array; fileName: string; options?: Omit<LoadOptions, 'onProgress'>; share?: boolean }
+  /** One end of the channel between the loading and the computation worker. */
+  | { type: 'port'; port: MessagePort };
+
+/** What the loading worker sends the computation worker through their port: a loaded file's traces, copied. */
+export type ThroughPort = { type: 'traces'; traces: Trace[] };
 
 export type FromWorker =
   | { type: 'result'; jobId: number; result: AnalyseResult }
-  | { type: 'loaded'; jobId: number; result: LoadResult }
+  /** `shared`: the traces went to the computation worker through the port too. */
+  | { type: 'loaded'; jobId: number; result: LoadResult; shared?: boolean }
   | { type: 'progress'; jobId: number; fraction: number }
-  | { type: 'failed'; jobId: number; message: string };
+  /** `missing`: traces the page named never reached this worker (the page sends them again and retries). */
+  | { type: 'failed'; jobId: number; message: string; missing?: boolean };
 
 export type { Recipe, SpikeEvent };

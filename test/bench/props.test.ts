@@ -15,7 +15,7 @@ import { savgolCoefficients, savitzkyGolay, type SavgolMode } from '../../src/co
 import { hampel, slidingMedian, type MedianEdge } from '../../src/core/numeric/sliding-median.ts';
 import { solveBandedSymmetric, whittaker } from '../../src/core/numeric/banded.ts';
 import { baselineAsls } from '../../src/core/steps/baseline.ts';
-import { findLocalMaxima, peakProminences, peakWidths, selectByDistance } from '../../src/core/peaks.ts';
+import { findLocalMaxima, peakProminences, peakWidths, selectByDistance } from '../../src/core/measure/peak-detection.ts';
 
 const REL = 1e-9;
 const RUNS = 200;

@@ -1,6 +1,6 @@
 import { describe, expect, test } from 'vitest';
 import { analyse } from '../../src/core/analyse.ts';
-import { peakTableCsv, peakTableTsv } from '../../src/core/export/peak-csv.ts';
+import { BOUND_TEXT, peakMarksText, peakTableCsv, peakTableTsv } from '../../src/core/export/peak-csv.ts';
 import { CAUTION } from '../../src/core/export/version.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
 import { inventedTrace, looksLikeFormula, readCsv, recipeOf, splitCsvLine } from './helpers.ts';
@@ -21,6 +21,7 @@ describe('peak table CSV', () => {
     expect(header).toContain('status');
     expect(header).toContain('decision');
     expect(body.length).toBe(result.peaks.length);
+    const col = (name: string) => { const k = header.findIndex((h) => h.startsWith(name)); expect(k, name).toBeGreaterThanOrEqual(0); return k; };
     result.peaks.forEach((p, i) => {
       const row = body[i];
       expect(num(row[0])).toBe(i + 1);
@@ -29,8 +30,15 @@ describe('peak table CSV', () => {
       expect(num(row[3])).toBe(p.prominence);
       expect(num(row[4])).toBe(p.fwhm);
       expect(num(row[6])).toBe(p.area);
-      expect(num(row[9])).toBe(p.snr);
-      expect(num(row[10])).toBe(p.snrRms);
+      expect(num(row[col('S/N (H/σ, definition in use)')])).toBe(p.snr);
+      expect(num(row[col('S/N H/σ')])).toBe(p.snrRms);
+      // The local baseline under each peak, why each bound lies where it does, the σ used and the marks.
+      expect(num(row[col('baseline at from')])).toBe(p.baselineStart);
+      expect(num(row[col('baseline at to')])).toBe(p.baselineEnd);
+      expect(row[col('from: why there')]).toBe(BOUND_TEXT[p.startKind]);
+      expect(row[col('to: why there')]).toBe(BOUND_TEXT[p.endKind]);
+      expect(num(row[col('noise σ at the peak')])).toBe(p.noiseSigma);
+      expect(row[col('marks')]).toBe(peakMarksText(p));
     });
     const decisions = body.map((r) => r[header.indexOf('decision')]);
     expect(decisions).toContain('added by hand');
@@ -44,6 +52,9 @@ describe('peak table CSV', () => {
     expect(comments.some((c) => c.startsWith('# Removed by hand (kept in the table, marked, and not counted): peak '))).toBe(true);
     expect(comments).toContain(`# Caution: ${CAUTION}`);
     expect(comments).toContain(`# Input SHA-256: ${trace.source.sha256}`);
+    // How many rows pure noise would give, and how that was worked out.
+    expect(comments.some((c) => c.startsWith('# Noise-only peaks: Pure noise of this length') && c.includes('Simulated:'))).toBe(true);
+    expect(comments.some((c) => c.startsWith('# Bounds: '))).toBe(true);
   });
 
   test('hostile file name and metadata are neutralised; negative heights stay numbers (troughs)', () => {

@@ -2,8 +2,10 @@ import { describe, expect, test } from 'vitest';
 import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS } from '../../src/core/analyse.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';
 import { createTrace } from '../../src/core/trace.ts';
+import { createAppStore } from '../../src/state/store.ts';
 import {
-  SESSION_CHUNK, sessionFromRecords, sessionToRecords, storageProblem, traceFromRecords, traceToRecords, type ChunkKey, type SessionSnapshot,
+  JOURNAL_KEY, mergeJournal, SESSION_CHUNK, SESSION_UNDO_STEPS, sessionFromRecords, sessionJournal, sessionMeta, sessionToRecords, startSessionAutosave,
+  storageProblem, traceFromRecords, traceToRecords, type ChunkKey, type SessionSnapshot,
 } from '../../src/ui/export/session-db.ts';
 import { recipeOf } from './helpers.ts';
 
@@ -20,8 +22,8 @@ const lookup = (chunks: { key: ChunkKey; data: Float64Array }[]) => {
 };
 
 describe('session records', () => {
-  test('a trace of 3·2^20 + 5 points splits into 4 chunks per axis and comes back identical', () => {
-    const n = 3 * 2 ** 20 + 5;
+  test('a trace of 3 chunks + 5 points splits into 4 chunks per axis and comes back identical', () => {
+    const n = 3 * SESSION_CHUNK + 5;
     const t = bigTrace(n);
     const { head, chunks } = traceToRecords(t);
     expect(head.chunks).toBe(4);
@@ -56,6 +58,7 @@ describe('session records', () => {
       recipe: recipeOf('savitzky-golay', 'baseline'), noiseSettings: { method: 'rms', quietRange: [5, 5.01] },
       peakSettings: { ...DEFAULT_PEAK_SETTINGS, minSnr: 4 }, decisions: { added: [5.02], removed: [5.03] },
       alternatives: [{ id: 'alt-1', label: '5-point moving average', recipe: recipeOf('moving-average') }],
+      past: [recipeOf(), recipeOf('savitzky-golay')], future: [recipeOf('savitzky-golay', 'baseline', 'despike')],
     };
     const { meta, chunks } = sessionToRecords(snap, 3, new Date(0), 16);
     // What is stored must survive structured cloning (IndexedDB) — JSON is stricter and also fine for meta.
@@ -73,6 +76,8 @@ describe('session records', () => {
     expect(out.snapshot.peakSettings.minSnr).toBe(4);
     expect(out.snapshot.decisions).toEqual(snap.decisions);
     expect(out.snapshot.alternatives).toEqual(snap.alternatives);
+    expect(out.snapshot.past).toEqual(snap.past);
+    expect(out.snapshot.future).toEqual(snap.future);
 
     const partial = sessionFromRecords(stored, lookup(chunks.filter((c) => c.key[0] !== 'blank-1')));
     expect(partial && partial.ok && partial.snapshot.traces.map((t) => t.id)).toEqual(['big-1']);
@@ -85,7 +90,7 @@ describe('session records', () => {
     const { meta, chunks } = sessionToRecords({
       traces: [a], roles: { 'big-1': 'sample' }, sampleId: 'big-1', reports: {}, recipe: recipeOf('savitzky-golay'),
       noiseSettings: DEFAULT_NOISE_SETTINGS, peakSettings: DEFAULT_PEAK_SETTINGS, decisions: { added: [], removed: [] },
-      alternatives: [{ id: 'alt-1', label: 'broken later', recipe: recipeOf('moving-average') }],
+      alternatives: [{ id: 'alt-1', label: 'broken later', recipe: recipeOf('moving-average') }], past: [], future: [],
     }, 1, new Date(0));
     (meta.alternatives![0].recipe as { steps: { step: string }[] }).steps[0].step = 'gone-step';
     (meta.recipe as { steps: { step: string }[] }).steps[0].step = 'no-such-step';
@@ -103,5 +108,111 @@ describe('session records', () => {
     expect(p.ok).toBe(false);
     expect(p.problem).toMatch(/storage quota/);
     expect(p.problem).toMatch(/kept unchanged/);
+  });
+});
+
+describe('undo history, the journal and keeping every edit', () => {
+  const trace = () => bigTrace(30);
+  const snapshot = (over: Partial<SessionSnapshot> = {}): SessionSnapshot => ({
+    traces: [trace()], roles: { 'big-1': 'sample' }, sampleId: 'big-1', reports: {}, recipe: recipeOf('savitzky-golay'),
+    noiseSettings: DEFAULT_NOISE_SETTINGS, peakSettings: DEFAULT_PEAK_SETTINGS, decisions: { added: [], removed: [] },
+    alternatives: [], past: [], future: [], ...over,
+  });
+
+  test(`the undo history is kept up to ${SESSION_UNDO_STEPS} steps each way, the newest ones`, () => {
+    const past = Array.from({ length: 80 }, (_, i) => ({ ...recipeOf('moving-average'), steps: recipeOf('moving-average').steps.map((st) => ({ ...st, params: { ...st.params, window: 3 + 2 * i } })) }));
+    const meta = sessionMeta(snapshot({ past, future: past.slice(0, 60) }), 1, new Date(0));
+    expect(meta.past).toHaveLength(SESSION_UNDO_STEPS);
+    expect(meta.future).toHaveLength(SESSION_UNDO_STEPS);
+    // The step just before the current one is the last kept.
+    expect((meta.past!.at(-1) as { steps: { params: { window: number } }[] }).steps[0].params.window).toBe(3 + 2 * 79);
+    expect((meta.future![0] as { steps: { params: { window: number } }[] }).steps[0].params.window).toBe(3);
+  });
+
+  test('a journal at least as new as the stored generation wins for every small part; an older one is ignored', () => {
+    const stored = sessionMeta(snapshot(), 1, new Date(1000), SESSION_CHUNK, 1000);
+    const later = snapshot({
+      recipe: recipeOf('savitzky-golay', 'despike'), past: [recipeOf('savitzky-golay')],
+      noiseSettings: { method: 'rms', quietRange: [0.001, 0.004] }, decisions: { added: [0.012], removed: [] },
+      alternatives: [{ id: 'alt-9', label: 'wider', recipe: recipeOf('moving-average') }],
+    });
+    const journal = sessionJournal(later, 2000);
+    const merged = mergeJournal(stored, journal);
+    expect(merged.notes).toEqual([]);
+    const out = sessionFromRecords(merged.meta, lookup(traceToRecords(trace()).chunks));
+    expect(out && out.ok).toBe(true);
+    if (!out || !out.ok) return;
+    expect(out.snapshot.recipe).toEqual(later.recipe);
+    expect(out.snapshot.past).toEqual(later.past);
+    expect(out.snapshot.noiseSettings.quietRange).toEqual([0.001, 0.004]);
+    expect(out.snapshot.decisions.added).toEqual([0.012]);
+    expect(out.snapshot.alternatives.map((a) => a.label)).toEqual(['wider']);
+    // Older than what IndexedDB holds: not applied.
+    expect(mergeJournal(stored, sessionJournal(later, 500)).meta).toBe(stored);
+  });
+
+  test('a trace the journal names but the database never stored is named in a note, not invented', () => {
+    const stored = sessionMeta(snapshot(), 1, new Date(1000), SESSION_CHUNK, 1000);
+    const extra = createTrace({ id: 'late-1', name: 'late.csv: y', x: [1, 2, 3, 4, 5], y: [1, 2, 3, 4, 5], source: { fileName: 'late.csv', sha256: '00'.repeat(32), rowsRead: 5, rowsSkipped: 0 } });
+    const j = sessionJournal(snapshot({ traces: [trace(), extra], roles: { 'big-1': 'sample', 'late-1': 'blank' } }), 3000);
+    const merged = mergeJournal(stored, j);
+    expect(merged.notes).toEqual(['Not stored before the page closed, so load again: late.csv: y.']);
+    const out = sessionFromRecords(merged.meta, lookup(traceToRecords(trace()).chunks));
+    expect(out && out.ok && out.snapshot.roles).toEqual({ 'big-1': 'sample' });
+    // When the missing trace was the sample, the stored sample is processed instead (said in a note), never nothing.
+    const j2 = sessionJournal(snapshot({ traces: [trace(), extra], roles: { 'big-1': 'ignore', 'late-1': 'sample' }, sampleId: 'late-1', recipe: recipeOf('despike') }), 3000);
+    const m2 = mergeJournal(stored, j2);
+    expect(m2.notes[1]).toMatch(/sample from the stored session is processed instead/);
+    const out2 = sessionFromRecords(m2.meta, lookup(traceToRecords(trace()).chunks));
+    expect(out2 && out2.ok && out2.snapshot.sampleId).toBe('big-1');
+    expect(out2 && out2.ok && out2.snapshot.roles).toEqual({ 'big-1': 'sample' });
+    expect(out2 && out2.ok && out2.snapshot.recipe.steps.map((st) => st.step)).toEqual(['despike']);
+  });
+
+  test('autosave: an edit is in the journal when the page is hidden, at once and synchronously', () => {
+    const mem = new Map<string, string>();
+    const storage = { getItem: (k: string) => mem.get(k) ?? null, setItem: (k: string, v: string) => { mem.set(k, v); }, removeItem: (k: string) => { mem.delete(k); } };
+    const was = (globalThis as { localStorage?: unknown }).localStorage;
+    (globalThis as { localStorage?: unknown }).localStorage = storage;
+    try {
+      const store = createAppStore();
+      const listeners = new Map<string, () => void>();
+      const win = { addEventListener: (t: string, f: () => void) => { listeners.set(t, f); }, removeEventListener: (t: string) => { listeners.delete(t); } };
+      const doc = { visibilityState: 'visible', addEventListener: (t: string, f: () => void) => { listeners.set(`doc:${t}`, f); }, removeEventListener: (t: string) => { listeners.delete(`doc:${t}`); } };
+      // Long delays: only the page events can write within this test.
+      const stop = startSessionAutosave(store, { delayMs: 60_000, journalDelayMs: 60_000, page: { window: win, document: doc } });
+      store.getState().addStep('savitzky-golay');
+      store.getState().setNoiseSettings({ quietRange: [1, 2] });
+      expect(mem.has(JOURNAL_KEY)).toBe(false);
+      listeners.get('pagehide')!();
+      const j = JSON.parse(mem.get(JOURNAL_KEY)!);
+      expect(j.recipe.steps.map((s: { step: string }) => s.step)).toEqual(['savitzky-golay']);
+      expect(j.past).toHaveLength(1);
+      expect(j.noiseSettings.quietRange).toEqual([1, 2]);
+      store.getState().addPeakAt(1.5);
+      doc.visibilityState = 'hidden';
+      listeners.get('doc:visibilitychange')!();
+      expect(JSON.parse(mem.get(JOURNAL_KEY)!).decisions.added).toEqual([1.5]);
+      stop();
+      expect(listeners.size).toBe(0);
+    } finally {
+      (globalThis as { localStorage?: unknown }).localStorage = was;
+    }
+  });
+
+  test('no storage at all (a private window): the store is told once, and the page state is untouched', async () => {
+    const store = createAppStore();
+    const stop = startSessionAutosave(store, { delayMs: 0, journalDelayMs: 0, page: {} });
+    const t = trace();
+    store.getState().addTraces([t], { fileName: 'big.csv', sha256: 'cd'.repeat(32), format: 'test', rowsRead: 30, skipped: [], notices: [], metadata: {} });
+    await new Promise((r) => setTimeout(r, 20));
+    const problem = store.getState().sessionProblem;
+    expect(problem).toMatch(/cannot be kept|refuses the page/);
+    store.getState().addStep('moving-average');
+    await new Promise((r) => setTimeout(r, 20));
+    expect(store.getState().sessionProblem).toBe(problem);
+    expect(store.getState().traces[0]).toBe(t);
+    expect(store.getState().recipe.steps).toHaveLength(1);
+    stop();
   });
 });

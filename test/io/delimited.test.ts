@@ -344,3 +344,38 @@ describe('column headers', () => {
     expect(r.report.columns).toEqual([{ name: 'Time', unit: 'min' }, { name: 'Absorbance', unit: 'mAU' }, { name: 'Current', unit: 'nA' }]);
   });
 });
+
+describe('a number format stated by the user settles what the file cannot (issue 13)', () => {
+  const file = (name: string) => new Uint8Array(readFileSync(`test/fixtures/hostile/${name}`));
+
+  it('"1.100" under a decimal comma: refused on its own, read as 1100 when grouping is stated, not a number when it is denied', () => {
+    const bytes = file('thousands-dot-ambiguous.csv');
+    const auto = parseDelimited(bytes, 'a.csv');
+    expect(auto.ok).toBe(false);
+    if (!auto.ok) {
+      expect(auto.error.advice).toMatch(/State how the numbers are written/);
+      // What the page offers to settle it: the one statement that makes the reading certain.
+      expect(auto.error.settle).toEqual({ label: 'Read “.” as a thousands separator (“1.100” = 1100)', numberFormat: { decimal: ',', grouping: true } });
+    }
+    const grouped = parseDelimited(bytes, 'a.csv', { numberFormat: { decimal: ',', grouping: true } });
+    expect(grouped.ok).toBe(true);
+    if (grouped.ok) {
+      // File: x = i + 0.5 written "i,5"; y = (1 + i)·1000 + 100 + 17 i written "1.100", "2.117", …
+      expect(Array.from(grouped.traces[0].x)).toEqual([0.5, 1.5, 2.5, 3.5, 4.5, 5.5, 6.5, 7.5]);
+      expect(Array.from(grouped.traces[0].y)).toEqual(Array.from({ length: 8 }, (_, i) => (1 + i) * 1000 + 100 + 17 * i));
+    }
+    const plain = parseDelimited(bytes, 'a.csv', { numberFormat: { decimal: ',', grouping: false } });
+    expect(plain.ok).toBe(false);
+    if (!plain.ok) expect(plain.error.problem).toMatch(/uses a decimal point, but the file uses a decimal comma/);
+  });
+
+  it('a stated format that matches the file gives the same reading as the loader’s own decision', () => {
+    const bytes = file('decimal-comma-thousands-dot.csv');
+    const auto = parseDelimited(bytes, 'b.csv');
+    const stated = parseDelimited(bytes, 'b.csv', { numberFormat: { decimal: ',', grouping: true } });
+    expect(auto.ok && stated.ok).toBe(true);
+    if (auto.ok && stated.ok) expect(Array.from(stated.traces[0].y)).toEqual(Array.from(auto.traces[0].y));
+    const bad = parseDelimited(bytes, 'b.csv', { numberFormat: { decimal: ';' as ',', grouping: true } });
+    expect(bad.ok).toBe(false);
+  });
+});

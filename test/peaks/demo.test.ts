@@ -1,6 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { applyPeakDecisions, defaultPeakOptions, detectPeaks, type Peak } from '../../src/core/peaks.ts';
+import type { Peak } from '../../src/core/measure/peak-types.ts';
+import { applyPeakDecisions, defaultPeakOptions, detectPeaks } from '../../src/core/measure/peak-table.ts';
 import { noiseRms } from '../../src/core/noise.ts';
 import { gaussianHeightRatioMovingAverage, matchPeaks } from '../../src/core/loss.ts';
 import { movingAverage } from '../../src/core/steps/moving-average.ts';

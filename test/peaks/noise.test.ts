@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { noisePeakToPeak, noiseRangeAround, noiseRms, noiseRobust, type NoiseResult, type NoiseEstimate } from '../../src/core/noise.ts';
+import { noisePeakToPeak, noiseRangeAround, noiseRms, type NoiseResult, type NoiseEstimate } from '../../src/core/noise.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';
 
 function ok(r: NoiseResult): NoiseEstimate {
@@ -72,45 +72,6 @@ describe('noisePeakToPeak (range of residuals about a line, detrended)', () => {
   });
 });
 
-describe('noiseRobust (1.4826 × MAD of first differences / √2)', () => {
-  it('worked by hand: y 0,1,3,6,10 → differences 1,2,3,4, median 2.5, MAD 1 → 1.4826/√2', () => {
-    const r = ok(noiseRobust(Float64Array.of(0, 1, 3, 6, 10)));
-    expect(r.sigma).toBeCloseTo(1.4826 / Math.SQRT2, 12);
-    expect(r.points).toBe(5);
-    expect(r.description).toMatch(/1\.4826/);
-    expect(r.description).toMatch(/√2/);
-  });
-
-  it('recovers σ of white noise; peaks and a baseline slope barely move it', () => {
-    // Relative SE of a MAD-based σ is about 1.17/√n (Hampel 1974; from memory), more for
-    // the lag-1 correlated differences; 6 % is over 4 SE at n = 10 000.
-    const rng = makeRng(21);
-    const n = 10000, sigma = 2;
-    const y = Float64Array.from({ length: n }, () => sigma * rng.normal());
-    const plain = ok(noiseRobust(y)).sigma;
-    expect(Math.abs(plain / sigma - 1)).toBeLessThan(0.06);
-    const sloped = Float64Array.from(y, (v, i) => v + 0.01 * i);
-    expect(Math.abs(ok(noiseRobust(sloped)).sigma - plain)).toBeLessThan(1e-9);
-    // Ten Gaussian peaks of height 50σ, σ 15 points: the differences they add are mostly below the noise.
-    const peaky = Float64Array.from(y, (v, i) => {
-      let s = v;
-      for (let k = 0; k < 10; k++) s += 100 * Math.exp(-0.5 * ((i - 500 - 1000 * k) / 15) ** 2);
-      return s;
-    });
-    expect(Math.abs(ok(noiseRobust(peaky)).sigma / sigma - 1)).toBeLessThan(0.1);
-  });
-
-  it('odd number of differences: y 0,2,3,7 → differences 2,1,4, median 2, deviations 0,1,2 → MAD 1', () => {
-    expect(ok(noiseRobust(Float64Array.of(0, 2, 3, 7))).sigma).toBeCloseTo(1.4826 / Math.SQRT2, 12);
-    // Constant differences (a straight line): MAD 0, no noise.
-    expect(ok(noiseRobust(Float64Array.of(1, 2, 3, 4, 5, 6))).sigma).toBe(0);
-  });
-
-  it('too short a trace is a problem, not a crash', () => {
-    expect(noiseRobust(Float64Array.of(1, 2)).ok).toBe(false);
-  });
-});
-
 describe('noiseRangeAround (pharmacopoeial h over a centred window)', () => {
   it('counts points and reports cutting by the trace end', () => {
     const x = range(101), y = Float64Array.from(x, (v) => (v % 2 === 0 ? 1 : -1));
@@ -149,7 +110,7 @@ describe('raw data is sacred', () => {
     const rng = makeRng(5);
     const x = range(500, 0.2), y = Float64Array.from(x, () => rng.normal());
     const x0 = x.slice(), y0 = y.slice();
-    noiseRms(x, y, 10, 50); noisePeakToPeak(x, y, 10, 50); noiseRobust(y); noiseRangeAround(x, y, 40, 10);
+    noiseRms(x, y, 10, 50); noisePeakToPeak(x, y, 10, 50); noiseRangeAround(x, y, 40, 10);
     expect(x).toEqual(x0);
     expect(y).toEqual(y0);
   });

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { findLocalMaxima, peakProminences, peakWidths, selectByDistance } from '../../src/core/peaks.ts';
+import { findLocalMaxima, peakProminences, peakWidths, selectByDistance } from '../../src/core/measure/peak-detection.ts';
 
 // Values computed by SciPy (version recorded in the file) with the committed
 // script test/reference/make_peaks.py.

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { defaultPeakOptions, detectPeaks, findLocalMaxima, peakProminences } from '../../src/core/peaks.ts';
+import { defaultPeakOptions, detectPeaks } from '../../src/core/measure/peak-table.ts';
+import { findLocalMaxima, peakProminences } from '../../src/core/measure/peak-detection.ts';
 import { PipelineCache } from '../../src/core/pipeline.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';
 import type { StepOutput } from '../../src/core/steps/types.ts';

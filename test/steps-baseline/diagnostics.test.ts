@@ -71,7 +71,7 @@ describe('residualDiagnostics verdicts', () => {
     expect(e).toEqual(copy);
   });
 
-  it('treats high-pass noise (residual of a moving average) as noise, saying neighbours alternate', () => {
+  it('high-pass noise (residual of a moving average): no slow structure, but the runs test rejects at p < 0.001, so it reads "caution", never clean (issue 14)', () => {
     // Residual of a 5-point mean of white noise, e = n − mean₅(n): var = 1 − 2/5 + 1/5 = 0.8,
     // lag-1 covariance = −2/5 + 4/25 = −0.24, so lag-1 ≈ −0.3 (derived here, no outside value).
     const rng = makeRng(13);
@@ -79,7 +79,9 @@ describe('residualDiagnostics verdicts', () => {
     const e = Float64Array.from({ length: 2000 }, (_, i) => w[i + 2] - (w[i] + w[i + 1] + w[i + 2] + w[i + 3] + w[i + 4]) / 5);
     const d = residualDiagnostics(e);
     expect(Math.abs(d.lag1 + 0.3)).toBeLessThan(4 / Math.sqrt(2000));
-    expect(d.looksLikeNoise).toBe(true);
+    expect(d.runs.p).toBeLessThan(0.001);
+    expect(d.level).toBe('caution');
+    expect(d.looksLikeNoise).toBe(false);
     expect(d.verdict).toMatch(/alternate/);
   });
 

@@ -12,7 +12,10 @@ import { recipeToJson, type Recipe, type Registry } from '../recipe.ts';
 import type { Trace } from '../trace.ts';
 import { cleanedTraceCsv, commentText, recipeOneLine } from './cleaned-csv.ts';
 import { peakMethodLines, peakTableRows } from './peak-csv.ts';
+import { uniqueNamer, zipBaseName } from './names.ts';
 import { reportHtml } from './report-html.ts';
+
+export { zipBaseName } from './names.ts';
 import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
 
 export interface BatchFile {
@@ -54,14 +57,6 @@ export interface BatchResult {
   entries: string[];
 }
 
-/** File names inside the ZIP: the input name without its extension, reduced to safe characters. */
-export function zipBaseName(fileName: string): string {
-  const last = String(fileName).split(/[\\/]/).pop() ?? '';
-  const stem = last.replace(/\.[^.]*$/, '');
-  const safe = stem.replace(/[^\w.\- ]+/g, '_').replace(/^[.\s]+/, '').trim().slice(0, 80);
-  return safe || 'file';
-}
-
 /**
  * Run one recipe over many files and pack the results.
  *
@@ -90,7 +85,6 @@ export async function runBatch(
   const errors: BatchError[] = [];
   const zipFiles: Zippable = {};
   const entries: string[] = [];
-  const used = new Set<string>();
   const combined: (string | number)[][] = [];
   let combinedHeader: (string | number)[] | null = null;
   const methodLines = new Set<string>();
@@ -100,13 +94,8 @@ export async function runBatch(
     zipFiles[name] = strToU8(text);
     entries.push(name);
   };
-  const uniqueBase = (fileName: string) => {
-    const base = zipBaseName(fileName);
-    let name = base;
-    for (let k = 2; used.has(name.toLowerCase()); k++) name = `${base}-${k}`;
-    used.add(name.toLowerCase());
-    return name;
-  };
+  const unique = uniqueNamer();
+  const uniqueBase = (fileName: string) => unique(zipBaseName(fileName));
 
   await onProgress?.({ done: 0, total: files.length, file: '' });
   for (let f = 0; f < files.length; f++) {
@@ -149,7 +138,7 @@ export async function runBatch(
     `Caution: ${CAUTION}`,
     `Recipe (JSON): ${recipeOneLine(recipe)}`,
     `Files: ${files.length} given, ${analysed} analysed. Noise and S/N are measured on each file by itself; each file's report states its noise figure.`,
-    `Thresholds: prominence at least ${ps.minProminenceSigma} σ of each file's noise, S/N at least ${ps.minSnr}, FWHM at least ${ps.minWidth > 0 ? `${ps.minWidth} x-units` : 'three sample spacings'}, apex separation at least ${ps.minSeparation} x-units (0 = off); measured on the ${ps.measureOn} trace.`,
+    `Thresholds: prominence at least ${ps.minProminenceSigma} σ of each file's noise, S/N at least ${ps.minSnr}, FWHM at least ${ps.minWidth > 0 ? `${ps.minWidth} x-units` : '2.5 sample spacings'}, apex separation at least ${ps.minSeparation} x-units (0 = off); measured on the ${ps.measureOn} trace.`,
     ...methodLines,
     ...errors.map((e) => commentText(`Problem with ${e.file}: ${e.message}`)),
   ];

@@ -7,9 +7,13 @@
 import type { AnalyseResult } from '../analyse.ts';
 import { writeCsv, type CsvCellOptions } from '../io/csv-write.ts';
 import type { NoiseEstimate } from '../noise.ts';
-import type { Peak, PeakFlag, SnrDefinition } from '../peaks.ts';
+import type { BoundKind, Peak, PeakFlag, PeakMark, SnrDefinition, SplitRule } from '../measure/peak-types.ts';
+import { SIGMA_FLOOR_OF_SPAN } from '../measure/peak-types.ts';
+import { WIDTH_LIMIT } from '../measure/peak-bounds.ts';
+import { noiseBumpSentence } from '../measure/noise-bumps.ts';
 import type { Recipe, Registry } from '../recipe.ts';
 import type { Trace } from '../trace.ts';
+import { noiseSummaryLines } from '../measure/noise-report.ts';
 import { commentText, metadataLines, provenanceLines } from './cleaned-csv.ts';
 import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
 
@@ -30,6 +34,34 @@ export const FLAG_TEXT: Record<PeakFlag, string> = {
   quantifiable: 'quantifiable',
   'not-measured': 'S/N not measured',
 };
+
+/** What each mark means, in a few words (the table, the plot and the exports). */
+export const MARK_TEXT: Record<PeakMark, string> = {
+  'appears-only-after-processing': 'appears only after processing',
+  'possibly-saturated': 'flat top at the largest value: possibly saturated',
+  'thinly-sampled': 'thinly sampled (under 5 points across half height)',
+};
+
+/** Why a bound lies where it does, in words. */
+export const BOUND_TEXT: Record<BoundKind, string> = {
+  returned: 'back at the baseline',
+  valley: 'valley before a rise',
+  'shared-valley': 'valley shared with a neighbour',
+  'width-limit': `width limit (${WIDTH_LIMIT} half-widths)`,
+  'trace-end': 'end of the trace',
+};
+
+/** How a shared valley splits the area, in words. */
+export const SPLIT_TEXT: Record<SplitRule | 'none', string> = {
+  none: '',
+  'perpendicular-drop': 'perpendicular drop',
+  'valley-to-valley': 'valley to valley',
+};
+
+/** The marks of a row in words, joined by "; ". */
+export function peakMarksText(p: Peak): string {
+  return p.marks.map((m) => MARK_TEXT[m]).join('; ');
+}
 
 /** The hand decision on a peak, in words; empty for a detected peak left alone. */
 export function peakDecisionText(p: Peak): string {
@@ -56,27 +88,43 @@ export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader
   const def = result.peakOptions?.snrDefinition ?? 'rms';
   const header = [
     'peak #', `apex${xu}`, `height${yu}`, `prominence${yu}`, `FWHM${xu}`, `FWHM (points)`, `area${areaUnit}`,
-    `from${xu}`, `to${xu}`, `S/N (${SNR_SHORT[def]}, definition in use)`, 'S/N H/σ', 'S/N 2H/h',
-    `noise range h for 2H/h${yu}`, 'h measured on', 'S/N mean/SD of region', 'status', 'decision', 'origin', 'note',
+    `from${xu}`, `to${xu}`, 'from: why there', 'to: why there', `baseline at from${yu}`, `baseline at to${yu}`, 'shared valley split',
+    `noise σ at the peak${yu}`, `S/N (${SNR_SHORT[def]}, definition in use)`, 'S/N H/σ', 'S/N 2H/h',
+    `noise range h for 2H/h${yu}`, 'h measured on', 'S/N mean/SD of region', 'status', 'marks', 'decision', 'origin', 'note',
   ];
   const rows: (string | number)[][] = [header];
   const opt = (v: number | null | undefined): string | number => (v === null || v === undefined ? '' : v);
   result.peaks.forEach((p, i) => {
     rows.push([
       i + 1, p.x, p.height, p.prominence, p.fwhm, p.fwhmPoints, p.area, p.start, p.end,
-      opt(p.snr), p.snrRms, opt(p.snrPharma), opt(p.pharmaNoise?.h),
+      BOUND_TEXT[p.startKind], BOUND_TEXT[p.endKind], p.baselineStart, p.baselineEnd, SPLIT_TEXT[p.split],
+      p.noiseSigma, opt(p.snr), opt(p.snrRms), opt(p.snrPharma), opt(p.pharmaNoise?.h),
       p.pharmaNoise ? `${p.pharmaNoise.source}, ${p.pharmaNoise.points} points${p.pharmaNoise.clipped ? ', window cut by the trace end' : ''}` : '',
-      opt(p.snrRegion), FLAG_TEXT[p.flag], peakDecisionText(p), p.origin, p.note ?? '',
+      opt(p.snrRegion), FLAG_TEXT[p.flag], peakMarksText(p), peakDecisionText(p), p.origin, p.note ?? '',
     ]);
   });
   return rows;
 }
 
+/** A number for a sentence: never "NaN" or "Infinity" (issue 13). */
+function num(v: number): string {
+  return Number.isFinite(v) ? String(v) : 'not a finite number';
+}
+
 /** One sentence about a noise estimate: what, over how many points, where. */
 export function noiseSentence(e: NoiseEstimate): string {
   const where = e.from !== undefined && e.to !== undefined ? ` over x ${e.from} to ${e.to}${e.clipped ? ' (cut by the trace end)' : ''}` : '';
-  return `${e.description} Method ${e.method}; ${e.measure === 'sd' ? 'standard deviation' : 'range'} ${e.sigma}; ${e.points} points${where}.`;
+  const held = e.assumptionsHeld === undefined ? '' : e.assumptionsHeld ? '; assumptions held' : '; an assumption did not hold or a fallback was used';
+  const value = Number.isFinite(e.sigma) ? String(e.sigma) : `${num(e.sigma)} (the computation overflowed or had no data)`;
+  return `${e.description} Method ${e.method}; ${e.measure === 'sd' ? 'standard deviation' : 'range'} ${value}; ${e.points} points${where}${held}.`;
 }
+
+/** How height, width, bounds and area are measured, in words (the table's hint says the same, shorter). */
+export const PEAK_MEASURE_LINES: readonly string[] = [
+  'Height: the apex level (a parabola over the peak\'s own top, ±FWHM/6) above the peak\'s local baseline, a straight line between the levels of the trace at its two bounds (the mean of at least 5 samples beyond each bound, or the averaged trace at a valley).',
+  `Bounds: where the trace, averaged over about half the peak's half-height width, is back at the baseline (within 3 standard deviations of that average above the lower of the baseline and the lower hull of the trace) plus two half-widths, or at the valley before a rise (3 standard deviations; 6 once back at the baseline); never beyond ${WIDTH_LIMIT} of the peak's own half-height half-widths. Peaks sharing a valley are split there: perpendicular drop (one baseline under the group) unless valley to valley was chosen. Narrow peaks on a broad neighbour's top keep their own baseline; two maxima whose valley is shallower than the detection limit count as one peak.`,
+  'FWHM: the peak\'s own width at half its height above the local baseline (crossings linearly interpolated). Area: above the local baseline between the bounds (trapezoid rule). Perpendicular drop is biased by construction where peaks overlap (about −21 % for the smaller of a 5:1 pair at resolution 0.8).',
+];
 
 /** Comment lines on how S/N and the flags were obtained. */
 export function peakMethodLines(result: AnalyseResult): string[] {
@@ -88,6 +136,7 @@ export function peakMethodLines(result: AnalyseResult): string[] {
     lines.push(`Noise σ on the measured trace: ${noiseSentence(result.noise.sigma)}`);
     if (result.noise.rawSigma && result.noise.rawSigma !== result.noise.sigma) lines.push(`Noise on the raw trace (for comparison): ${noiseSentence(result.noise.rawSigma)}`);
     if (result.noise.peakToPeak) lines.push(`Peak-to-peak noise in the quiet range: ${noiseSentence(result.noise.peakToPeak)}`);
+    lines.push(...noiseSummaryLines(result.noise));
     for (const n of result.noise.notes) lines.push(`Noise note: ${n}`);
   } else {
     lines.push('Noise: not measured.');
@@ -95,10 +144,17 @@ export function peakMethodLines(result: AnalyseResult): string[] {
   if (o) {
     lines.push(`Limits: detection S/N ${o.limits.detection}, quantitation S/N ${o.limits.quantitation}.`);
     lines.push(`Flags: "${FLAG_TEXT['below-detection']}" when S/N < ${o.limits.detection}; "${FLAG_TEXT.detectable}" when ${o.limits.detection} ≤ S/N < ${o.limits.quantitation}; "${FLAG_TEXT.quantifiable}" when S/N ≥ ${o.limits.quantitation}; "${FLAG_TEXT['not-measured']}" when S/N could not be computed.`);
-    lines.push(`Thresholds: prominence at least ${o.minProminence} (y-units), S/N at least ${o.minSnr}, FWHM at least ${o.minWidth} (x-units), apex separation at least ${o.minSeparation} (x-units, 0 = off)${o.negative ? '; troughs detected (heights and areas negative)' : ''}.`);
+    lines.push(`Thresholds: prominence at least ${num(o.minProminence)} (y-units), S/N at least ${num(o.minSnr)}, FWHM at least ${num(o.minWidth)} (x-units), apex separation at least ${num(o.minSeparation)} (x-units, 0 = off)${o.negative ? '; troughs detected (heights and areas negative)' : ''}.`);
     if (def === 'pharmacopoeial') lines.push(`2H/h noise window: ${o.pharmacopoeialMultiplier} half-height widths.`);
   }
-  lines.push('Height: above the straight line joining the peak’s bases. Area: above that line between the integration bounds (trapezoid rule).');
+  lines.push(...PEAK_MEASURE_LINES);
+  if (o && o.noiseSigma === 0) lines.push(`Noise σ is 0: S/N is not measured, and the rules that need σ use ${SIGMA_FLOOR_OF_SPAN} × the trace's span instead.`);
+  if (result.noiseBumps) lines.push(`Noise-only peaks: ${noiseBumpSentence(result.noiseBumps)} ${result.noiseBumps.method}`);
+  const marked = result.peaks.filter((p) => p.marks.length && !p.removedByUser);
+  for (const m of Object.keys(MARK_TEXT) as PeakMark[]) {
+    const n = marked.filter((p) => p.marks.includes(m)).length;
+    if (n) lines.push(`Marked "${MARK_TEXT[m]}": ${n} row${n === 1 ? '' : 's'}.`);
+  }
   if (result.peakProblem) lines.push(`Peaks could not be measured: ${result.peakProblem}`);
   const added = result.peaks.map((p, i) => ({ p, i })).filter(({ p }) => p.origin === 'added-by-user' && !p.removedByUser);
   const removed = result.peaks.map((p, i) => ({ p, i })).filter(({ p }) => p.removedByUser);

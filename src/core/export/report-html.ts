@@ -12,10 +12,13 @@
  * through <img>, where an SVG cannot run scripts or fetch anything.
  */
 import type { AnalyseResult } from '../analyse.ts';
-import { decimateMinMax } from '../numeric/decimate.ts';
 import { recipeInWords, recipeToJson, type Recipe, type Registry } from '../recipe.ts';
 import { axisLabel, type Trace } from '../trace.ts';
+import { escapeText } from './html-text.ts';
 import { noiseSentence, peakMethodLines, peakTableRows } from './peak-csv.ts';
+import { PLOT_MAX_MARKERS, svgLinePlot, type PlotMarker, type PlotSeries } from './plot-svg.ts';
+
+export { escapeHtml, escapeText } from './html-text.ts';
 import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
 
 /** What the loss check hands over; only the sentences are written (rows are kept for later use). */
@@ -40,8 +43,6 @@ export interface ReportInput {
   /** Default: the result's own loss check ledger, when it has one. */
   ledger?: LossLedgerLike | null;
   confirmation?: ExportConfirmation | null;
-  /** Pictures of the page's plots: a data: URL of a PNG or SVG, or SVG text. */
-  plotImages?: { main?: string; residual?: string };
   now: Date;
   /** Tool name and version; default {@link TOOL_LABEL}. */
   version?: string;
@@ -50,120 +51,38 @@ export interface ReportInput {
 /** Most replaced points listed one by one; the rest are counted. */
 export const REPORT_MAX_EVENTS = 2000;
 
-/**
- * Escape text for HTML element content and double- or single-quoted
- * attribute values (&, <, >, ", ' become character references).
- */
-export function escapeHtml(text: unknown): string {
-  return String(text)
-    .replace(/&/g, '&amp;')
-    .replace(/</g, '&lt;')
-    .replace(/>/g, '&gt;')
-    .replace(/"/g, '&quot;')
-    .replace(/'/g, '&#39;');
-}
-
-/**
- * Escape text for HTML element content (&, < and > become character
- * references); quotes may stay, so text such as JSON reads as written.
- * Never use it inside an attribute value: use {@link escapeHtml} there.
- */
-export function escapeText(text: unknown): string {
-  return String(text).replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
-}
+/** Written where a number belongs but the value is not finite (an overflow, or no value): never "NaN" or "Infinity". */
+const NOT_FINITE = 'not a finite number';
 
 /** Numbers for reading: six significant figures (the CSV exports hold every digit). */
 function fmt(v: unknown): string {
   if (v === null || v === undefined || v === '') return '—';
   if (typeof v !== 'number') return escapeText(v);
-  if (!Number.isFinite(v)) return escapeText(String(v));
+  if (!Number.isFinite(v)) return NOT_FINITE;
   const a = Math.abs(v);
   if (a !== 0 && (a < 1e-4 || a >= 1e7)) return v.toExponential(5);
   return String(Number(v.toPrecision(6)));
-}
-
-const PNG_DATA = /^data:image\/png;base64,[A-Za-z0-9+/]+=*$/;
-const SVG_BASE64 = /^data:image\/svg\+xml;base64,[A-Za-z0-9+/]+=*$/;
-const SVG_DATA = /^data:image\/svg\+xml(;charset=[\w-]+)?,/;
-
-/**
- * An image source safe to put in the report, or null. Percent-encoded SVG is
- * decoded and encoded again so that no character of it can close the
- * attribute and no address appears as plain text.
- */
-export function safeImageSource(image: string): string | null {
-  if (typeof image !== 'string' || image.length === 0) return null;
-  const text = image.trim();
-  if (PNG_DATA.test(text) || SVG_BASE64.test(text)) return text;
-  let svg: string | null = null;
-  const m = SVG_DATA.exec(text);
-  if (m) {
-    try { svg = decodeURIComponent(text.slice(m[0].length)); } catch { return null; }
-  } else if (/^(<\?xml[^>]*>\s*)?<svg[\s>]/i.test(text)) {
-    svg = text;
-  }
-  return svg === null ? null : `data:image/svg+xml;charset=utf-8,${encodeURIComponent(svg)}`;
-}
-
-interface Series { x: Float64Array; y: Float64Array; colour: string; label: string; dash?: boolean }
-
-/**
- * A small line plot as inline SVG (drawn here, so a report made without the
- * page, e.g. in a batch, still has its plots). Each series is thinned to the
- * minimum and maximum per column so peaks and spikes stay visible.
- */
-export function svgLinePlot(series: readonly Series[], xLabel: string, yLabel: string, title: string): string {
-  const W = 760, H = 260, L = 70, R = 12, T = 24, B = 40;
-  const thinned = series.map((s) => ({ ...s, d: decimateMinMax(s.x, s.y, -Infinity, Infinity, 700) }));
-  let x0 = Infinity, x1 = -Infinity, y0 = Infinity, y1 = -Infinity;
-  for (const s of thinned) {
-    for (let i = 0; i < s.d.x.length; i++) {
-      const xv = s.d.x[i], yv = s.d.y[i];
-      if (!Number.isFinite(xv) || !Number.isFinite(yv)) continue;
-      if (xv < x0) x0 = xv; if (xv > x1) x1 = xv;
-      if (yv < y0) y0 = yv; if (yv > y1) y1 = yv;
-    }
-  }
-  if (!(x1 >= x0) || !(y1 >= y0)) return '<p>No finite values to draw.</p>';
-  if (x1 === x0) { x0 -= 0.5; x1 += 0.5; }
-  if (y1 === y0) { y0 -= 0.5; y1 += 0.5; }
-  const pad = (y1 - y0) * 0.05;
-  y0 -= pad; y1 += pad;
-  const px = (v: number) => L + ((v - x0) / (x1 - x0)) * (W - L - R);
-  const py = (v: number) => H - B - ((v - y0) / (y1 - y0)) * (H - T - B);
-  const parts: string[] = [];
-  parts.push(`<svg class="plot" viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-label="${escapeHtml(title)}">`);
-  parts.push(`<rect x="${L}" y="${T}" width="${W - L - R}" height="${H - T - B}" fill="#fff" stroke="#888"/>`);
-  const tick = (v: number) => escapeText(String(Number(v.toPrecision(3))));
-  for (let k = 0; k <= 4; k++) {
-    const xv = x0 + ((x1 - x0) * k) / 4, yv = y0 + ((y1 - y0) * k) / 4;
-    parts.push(`<text x="${px(xv).toFixed(1)}" y="${H - B + 16}" font-size="11" text-anchor="middle">${tick(xv)}</text>`);
-    parts.push(`<text x="${L - 6}" y="${(py(yv) + 4).toFixed(1)}" font-size="11" text-anchor="end">${tick(yv)}</text>`);
-    parts.push(`<line x1="${L}" x2="${W - R}" y1="${py(yv).toFixed(1)}" y2="${py(yv).toFixed(1)}" stroke="#eee"/>`);
-  }
-  parts.push(`<text x="${(L + W - R) / 2}" y="${H - 6}" font-size="12" text-anchor="middle">${escapeText(xLabel)}</text>`);
-  parts.push(`<text x="14" y="${(T + H - B) / 2}" font-size="12" text-anchor="middle" transform="rotate(-90 14 ${(T + H - B) / 2})">${escapeText(yLabel)}</text>`);
-  thinned.forEach((s, k) => {
-    const pts: string[] = [];
-    for (let i = 0; i < s.d.x.length; i++) {
-      if (Number.isFinite(s.d.x[i]) && Number.isFinite(s.d.y[i])) pts.push(`${px(s.d.x[i]).toFixed(1)},${py(s.d.y[i]).toFixed(1)}`);
-    }
-    parts.push(`<polyline fill="none" stroke="${s.colour}" stroke-width="1.2"${s.dash ? ' stroke-dasharray="5 3"' : ''} points="${pts.join(' ')}"/>`);
-    parts.push(`<text x="${L + 8 + k * 150}" y="${T - 8}" font-size="11" fill="${s.colour}">■ ${escapeText(s.label)}</text>`);
-  });
-  parts.push('</svg>');
-  return parts.join('');
 }
 
 function list(items: readonly string[]): string {
   return items.length ? `<ul>${items.map((s) => `<li>${escapeText(s)}</li>`).join('')}</ul>` : '<p class="muted">None.</p>';
 }
 
+/** A table cell: a value that is not a finite number leaves the cell empty (counted for the note under the table). */
+function tableCell(c: unknown, count: { empty: number }): string {
+  if (typeof c === 'number' && !Number.isFinite(c)) { count.empty++; return '<td class="empty"></td>'; }
+  return `<td>${fmt(c)}</td>`;
+}
+
 function table(rows: readonly (readonly unknown[])[], caption?: string): string {
   if (!rows.length) return '';
   const [head, ...body] = rows;
-  return `<table>${caption ? `<caption>${escapeText(caption)}</caption>` : ''}<thead><tr>${head.map((h) => `<th scope="col">${escapeText(h)}</th>`).join('')}</tr></thead><tbody>${
-    body.map((r) => `<tr>${r.map((c) => `<td>${fmt(c)}</td>`).join('')}</tr>`).join('')}</tbody></table>`;
+  const count = { empty: 0 };
+  const cells = body.map((r) => `<tr>${r.map((c) => tableCell(c, count)).join('')}</tr>`).join('');
+  const note = count.empty
+    ? `<p class="muted" data-role="empty-cells">${count.empty} cell${count.empty === 1 ? ' is' : 's are'} empty because the value was not a finite number (an overflow, a division by zero, or no value there).</p>`
+    : '';
+  return `<table>${caption ? `<caption>${escapeText(caption)}</caption>` : ''}<thead><tr>${head.map((h) => `<th scope="col">${escapeText(h)}</th>`).join('')}</tr></thead><tbody>${cells}</tbody></table>${note}`;
 }
 
 function definitionList(pairs: readonly [string, unknown][]): string {
@@ -189,10 +108,9 @@ a{color:inherit;text-decoration:none}.caution{-webkit-print-color-adjust:exact;p
  * The report as one HTML document (UTF-8, inline CSS, no scripts, no
  * external requests, a print stylesheet).
  *
- * Plots: the page's own pictures when given in `plotImages` (refused
- * silently with a note unless PNG or SVG), and always two small SVG plots
- * drawn here from the data (raw and processed with the baseline; the
- * residual), so the file has its plots even without the page.
+ * Plots: two SVG plots drawn by the core from the data (raw and processed
+ * with the baseline and the peaks of the table; the residual), the same
+ * whether the page or the command line writes the report.
  *
  * @throws RangeError when there is no analysed trace or `now` is not a valid date.
  */
@@ -229,24 +147,20 @@ export function reportHtml(input: ReportInput): string {
   }
 
   s.push('<h2>Plots</h2>');
-  const series: Series[] = [
+  const series: PlotSeries[] = [
     { x: trace.x, y: trace.y, colour: '#8d969e', label: 'raw' },
     { x: result.processed.x, y: result.processed.y, colour: '#1f5fa8', label: 'processed' },
   ];
   if (result.baseline && result.baseline.length === result.processed.x.length) {
     series.push({ x: result.processed.x, y: result.baseline, colour: '#a0700b', label: 'fitted baseline', dash: true });
   }
-  s.push(`<figure>${svgLinePlot(series, xLabel, yLabel, 'Raw and processed trace')}<figcaption>Raw and processed trace (thinned to the minimum and maximum per column for drawing).</figcaption></figure>`);
+  // Peaks removed by hand are not marked; numbers are the rows of the peak table.
+  const markers: PlotMarker[] = [];
+  result.peaks.forEach((p, i) => { if (!p.removedByUser) markers.push({ x: p.x, y: p.y, label: String(i + 1), below: p.height < 0, weight: Math.abs(p.snr ?? 0) }); });
+  const cut = markers.length > PLOT_MAX_MARKERS ? ` Only the first ${PLOT_MAX_MARKERS} of ${markers.length} peaks are marked.` : '';
+  s.push(`<figure>${svgLinePlot(series, xLabel, yLabel, 'Raw and processed trace', markers)}<figcaption>Raw and processed trace with the peaks of the table (lines thinned to the minimum and maximum per column for drawing).${cut}</figcaption></figure>`);
   if (result.residual.y.length) {
     s.push(`<figure>${svgLinePlot([{ x: result.residual.x, y: result.residual.y, colour: '#6d4391', label: 'raw − processed' }], xLabel, yLabel, 'Residual')}<figcaption>Residual: what the processing removed (raw − processed).</figcaption></figure>`);
-  }
-  for (const [key, caption] of [['main', 'The plot as shown on the page.'], ['residual', 'The residual plot as shown on the page.']] as const) {
-    const img = input.plotImages?.[key];
-    if (img === undefined) continue;
-    const src = safeImageSource(img);
-    s.push(src
-      ? `<figure><img src="${escapeHtml(src)}" alt="${escapeHtml(caption)}"><figcaption>${escapeText(caption)}</figcaption></figure>`
-      : '<p class="muted">A picture of the page’s plot was not embedded because it was not PNG or SVG data.</p>');
   }
 
   s.push('<h2>Recipe</h2>');

@@ -12,6 +12,10 @@
  * * Numbers are written in the shortest form that reads back to the same
  *   double (ECMAScript Number::toString, exponent as "E"), with the decimal
  *   sign the user chose.
+ * * A number that is not finite (NaN, ±Infinity: an overflow, or no value at
+ *   that point) is never written as "NaN" or "Infinity": its cell is left
+ *   empty, and a comment line says how many cells are empty and in which
+ *   columns.
  */
 
 export type CsvDelimiter = ',' | ';' | '\t';
@@ -104,10 +108,34 @@ export function writeCsv(rows: (string | number)[][], opts: CsvOptions): string 
   if (!Array.isArray(rows)) throw new RangeError('The rows must be a list of rows.');
   const nl = opts.newline ?? '\r\n';
   const lines: string[] = [];
-  for (const comment of opts.comments ?? []) {
+  const comments = [...(opts.comments ?? [])];
+  const empty = emptyCellNote(rows);
+  if (empty && opts.comments) comments.push(empty);
+  for (const comment of comments) {
     for (const part of String(comment).split(/\r\n|\r|\n/)) lines.push(`# ${safeComment(part, opts.delimiter)}`.trimEnd());
   }
   const cellOpts: CsvCellOptions = { delimiter: opts.delimiter, decimal: opts.decimal };
   for (const row of rows) lines.push(row.map((c) => csvCell(c, cellOpts)).join(opts.delimiter));
   return lines.length ? lines.join(nl) + nl : '';
+}
+
+/**
+ * The comment line for number cells that are not finite (left empty), or
+ * null when there are none. Columns are named by the first row when it is
+ * a header of text, else by number.
+ */
+export function emptyCellNote(rows: readonly (readonly (string | number)[])[]): string | null {
+  const perColumn = new Map<number, number>();
+  let total = 0;
+  for (const row of rows) {
+    for (let c = 0; c < row.length; c++) {
+      const v = row[c];
+      if (typeof v === 'number' && !Number.isFinite(v)) { perColumn.set(c, (perColumn.get(c) ?? 0) + 1); total++; }
+    }
+  }
+  if (total === 0) return null;
+  const head = rows[0];
+  const name = (c: number) => (head && typeof head[c] === 'string' && head[c] !== '' ? `"${head[c]}"` : `column ${c + 1}`);
+  const where = [...perColumn].map(([c, n]) => `${n} in ${name(c)}`).join(', ');
+  return `Empty cells: ${total} value${total === 1 ? ' was' : 's were'} not a finite number (an overflow, a division by zero, or no value at that point) and ${total === 1 ? 'is' : 'are'} left empty: ${where}.`;
 }

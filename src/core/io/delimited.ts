@@ -19,24 +19,38 @@
  *    units). Lines above are metadata.
  * 4. Data rows are split with PapaParse (when the data holds quote marks) or
  *    a plain split (fast path, same result on plain files) and converted by
- *    {@link parseNumber}; rows that are not numbers are skipped and listed.
+ *    {@link parseNumber}; a cell whose digits are grouped in threes by the
+ *    other sign is read by {@link parseGroupedNumber} only when its column
+ *    settles it (a cell with both signs, two group signs, or the decimal
+ *    sign elsewhere in the column), and the file is refused naming the line
+ *    otherwise. A row whose x, or every y, is not a number is skipped and
+ *    listed; a y cell that is not a number leaves that point out of that
+ *    column's trace only, counted and named in a notice.
  * 5. Rows are sorted by x when needed (stable), y is averaged over repeated
- *    x, both with a notice, and one trace is made per y column.
+ *    x, both with a notice, and one trace is made per y column (at most
+ *    {@link MAX_Y_COLUMNS}, the first ones, said in a notice).
+ *
+ * Columns: a column is measured values (and never text) when its cells are
+ * mostly numbers or number-like failures (NaN, infinity, overflow,
+ * hexadecimal, separators); so x is never drawn as the signal because a
+ * broken y column was taken for text. A quote never closed, a line longer
+ * than 8 MB (`MAX_LINE_BYTES`, a file without line breaks), and "0,1,234.5"
+ * under a two-name header (a thousands comma splitting numbers) are refused
+ * naming the line.
  *
  * Known limits: a file with one column of unquoted decimal-comma numbers
  * ("1,5" on every line) is read as two comma-separated integer columns,
- * since nothing in the file tells the two apart; thousands separators are
- * never guessed (see numbers.ts); the table must start within the first
- * {@link SAMPLE_LINES} non-blank lines.
+ * since nothing in the file tells the two apart; the table must start
+ * within the first {@link SAMPLE_LINES} non-blank lines.
  */
 import Papa from 'papaparse';
 import { createTrace, MIN_POINTS } from '../trace.ts';
 import type { Trace } from '../trace.ts';
-import { givenSha256, MAX_FILE_BYTES } from './types.ts';
-import type { LoadOptions, LoadProblem, LoadReport, LoadResult, SkippedRow } from './types.ts';
-import { parseNumber } from './numbers.ts';
+import { givenSha256, MAX_FILE_BYTES, MAX_Y_COLUMNS } from './types.ts';
+import type { LoadOptions, LoadProblem, LoadQuestion, LoadReport, LoadResult, SkippedRow } from './types.ts';
+import { looksNumeric, parseGroupedNumber, parseNumber, whyNotNumber } from './numbers.ts';
 import type { DecimalSign } from './numbers.ts';
-import { decodeText } from './sniff.ts';
+import { decodeText, overlongLineProblem } from './sniff.ts';
 import { sha256Hex } from './sha256.ts';
 
 /** Field separators the loader understands; "whitespace" means runs of spaces and tabs. */
@@ -53,6 +67,12 @@ export type RowSplitter = 'auto' | 'fast' | 'papa';
 
 /** Non-blank lines looked at to decide the delimiter, decimal sign and where the table starts. */
 export const SAMPLE_LINES = 500;
+
+/** Characters of sample lines after which no more are taken (once {@link MIN_WIDE_SAMPLE} lines are in). */
+export const SAMPLE_CHARS = 4 * 1024 * 1024;
+
+/** Fewest sample lines taken however wide the rows are. */
+const MIN_WIDE_SAMPLE = 8;
 
 /** Skipped rows listed one by one in the report; the rest are only counted. */
 export const MAX_LISTED_SKIPS = 1000;
@@ -268,22 +288,37 @@ interface SampleLine {
 
 interface SampleSplit {
   fields: string[];
+  /** A number by the dialect, plainly or with digits grouped in threes by the other sign. */
   numeric: boolean[];
   numericCount: number;
+  /** Fields that are numbers only when read with grouping. */
+  groupedCount: number;
 }
 
 interface DialectScore {
   dialect: Dialect;
   fullRows: number;
   numericFields: number;
+  groupedFields: number;
   columns: number;
 }
 
-function splitSample(sample: readonly SampleLine[], d: Dialect): SampleSplit[] {
+/** The sign that groups thousands when `decimal` is the decimal sign. */
+function groupSign(decimal: DecimalSign): string {
+  return decimal === ',' ? '.' : ',';
+}
+
+function splitSample(sample: readonly SampleLine[], d: Dialect, grouping = true): SampleSplit[] {
+  const g = grouping ? groupSign(d.decimal) : '\u0000';
   return sample.map((s) => {
     const fields = splitFields(s.text, d.delimiter);
-    const numeric = fields.map((f) => !Number.isNaN(parseNumber(f, d.decimal)));
-    return { fields, numeric, numericCount: numeric.reduce((a, b) => a + (b ? 1 : 0), 0) };
+    let numericCount = 0, groupedCount = 0;
+    const numeric = fields.map((f) => {
+      if (!Number.isNaN(parseNumber(f, d.decimal))) { numericCount++; return true; }
+      if (f.indexOf(g) !== -1 && parseGroupedNumber(f, d.decimal)) { numericCount++; groupedCount++; return true; }
+      return false;
+    });
+    return { fields, numeric, numericCount, groupedCount };
   });
 }
 
@@ -296,16 +331,17 @@ function modalFieldCount(rows: readonly SampleSplit[]): number {
   return best;
 }
 
-function scoreDialect(sample: readonly SampleLine[], d: Dialect): DialectScore {
-  const rows = splitSample(sample, d);
+function scoreDialect(sample: readonly SampleLine[], d: Dialect, grouping = true): DialectScore {
+  const rows = splitSample(sample, d, grouping);
   const k = modalFieldCount(rows);
-  let fullRows = 0, numericFields = 0;
+  let fullRows = 0, numericFields = 0, groupedFields = 0;
   for (const r of rows) {
     if (r.fields.length !== k || r.numericCount === 0) continue;
     numericFields += r.numericCount;
+    groupedFields += r.groupedCount;
     if (r.numericCount === k) fullRows++;
   }
-  return { dialect: d, fullRows, numericFields, columns: k };
+  return { dialect: d, fullRows, numericFields, groupedFields, columns: k };
 }
 
 /**
@@ -319,19 +355,92 @@ export function decideDialect(lines: readonly string[]): Dialect | null {
   return best ? best.dialect : null;
 }
 
-function bestDialect(sample: readonly SampleLine[]): DialectScore | null {
+/**
+ * The candidates left when the user fixed the delimiter and/or the decimal
+ * sign (a stated number format fixes the decimal sign too). With only a
+ * decimal comma fixed, a comma separates fields only when the file quotes
+ * its numbers (RFC 4180), since an unquoted comma would then be both.
+ */
+function allowedDialects(fixed: LoadOptions['dialect'] | undefined, quoted: boolean, format?: LoadOptions['numberFormat']): readonly Dialect[] {
+  const decimal = fixed?.decimal ?? format?.decimal;
+  const delimiter = fixed?.delimiter;
+  if (delimiter === undefined && decimal === undefined) return CANDIDATES;
+  const commaFieldsNeedQuotes = delimiter === undefined && decimal === ',' && !quoted;
+  const out = CANDIDATES.filter((d) => (delimiter === undefined || d.delimiter === delimiter) && (decimal === undefined || d.decimal === decimal)
+    && !(commaFieldsNeedQuotes && d.delimiter === ','));
+  // Every delimiter and decimal sign pair is a candidate; a pair outside the list cannot occur, but stay safe.
+  return out.length ? out : [{ delimiter: delimiter ?? ',', decimal: decimal ?? '.' }];
+}
+
+function bestDialect(sample: readonly SampleLine[], candidates: readonly Dialect[] = CANDIDATES, grouping = true): DialectScore | null {
   let best: DialectScore | null = null;
-  for (const d of CANDIDATES) {
-    const s = scoreDialect(sample, d);
+  for (const d of candidates) {
+    const s = scoreDialect(sample, d, grouping);
     if (s.numericFields === 0) continue;
+    // Equal full rows: the reading that needs fewer grouped numbers wins, so "1,250" in a semicolon file
+    // stays 1.25 with a decimal comma rather than 1250 with a grouping comma.
     if (
       !best ||
       s.fullRows > best.fullRows ||
-      (s.fullRows === best.fullRows && s.numericFields > best.numericFields) ||
-      (s.fullRows === best.fullRows && s.numericFields === best.numericFields && s.columns > best.columns)
+      (s.fullRows === best.fullRows && s.groupedFields < best.groupedFields) ||
+      (s.fullRows === best.fullRows && s.groupedFields === best.groupedFields && s.numericFields > best.numericFields) ||
+      (s.fullRows === best.fullRows && s.groupedFields === best.groupedFields && s.numericFields === best.numericFields && s.columns > best.columns)
     ) best = s;
   }
   return best;
+}
+
+/** The full numeric rows of a sample under one dialect: line number and values. */
+function fullRowValues(sample: readonly SampleLine[], d: Dialect, k: number): { line: number; values: number[] }[] {
+  const out: { line: number; values: number[] }[] = [];
+  splitSample(sample, d).forEach((r, i) => {
+    if (r.fields.length === k && r.numericCount === k) out.push({ line: sample[i].line, values: r.fields.map((f) => parseNumber(f, d.decimal)) });
+  });
+  return out;
+}
+
+/** True when the text line just above the first full row names k ≥ 2 columns under this dialect. */
+function headerSupports(sample: readonly SampleLine[], s: DialectScore): boolean {
+  if (s.columns < 2) return false;
+  const rows = splitSample(sample, s.dialect);
+  const first = rows.findIndex((r) => r.fields.length === s.columns && r.numericCount === s.columns);
+  if (first < 1) return false;
+  const above = rows[first - 1];
+  return above.fields.length === s.columns && above.numericCount === 0 && above.fields.every((f) => stripQuotes(f) !== '');
+}
+
+/**
+ * Whether the numbers could as well be read another way: another allowed
+ * delimiter and decimal sign reads every line the chosen one reads as a full
+ * row of numbers, but into other numbers (e.g. "0,5" on every line: two
+ * whole-number columns with a comma between, or one column with a decimal
+ * comma). A header line that names the columns under only one of the
+ * readings settles it. Returns the question for the load report, or null.
+ */
+function dialectQuestion(sample: readonly SampleLine[], best: DialectScore, candidates: readonly Dialect[]): LoadQuestion | null {
+  if (best.fullRows === 0) return null;
+  const mine = fullRowValues(sample, best.dialect, best.columns);
+  const supported = headerSupports(sample, best);
+  for (const d of candidates) {
+    if (d.delimiter === best.dialect.delimiter && d.decimal === best.dialect.decimal) continue;
+    const other = scoreDialect(sample, d);
+    if (other.fullRows !== best.fullRows) continue;
+    // A reading that needs more numbers with thousands grouping than the chosen one is not asked about:
+    // grouped numbers are read only when the column settles it (the loader's own rule), so it is not a rival.
+    if (other.groupedFields > best.groupedFields) continue;
+    const theirs = fullRowValues(sample, d, other.columns);
+    if (theirs.some((r) => r.values.some((v) => Number.isNaN(v)))) continue;
+    const same = theirs.length === mine.length && theirs.every((r, i) => r.line === mine[i].line && r.values.length === mine[i].values.length && r.values.every((v, j) => Object.is(v, mine[i].values[j])));
+    if (same) continue;
+    if (supported && !headerSupports(sample, other)) continue;
+    const show = (rows: typeof mine) => rows[0].values.join(' | ');
+    return {
+      kind: 'number-format', line: mine[0].line,
+      message: `Line ${mine[0].line} reads as ${dialectLabel(best.dialect)} (${best.columns} column${best.columns === 1 ? '' : 's'}: ${show(mine)}) ` +
+        `or as ${dialectLabel(d)} (${other.columns} column${other.columns === 1 ? '' : 's'}: ${show(theirs)}), and nothing in the file tells which.`,
+    };
+  }
+  return null;
 }
 
 /** Growable Float64Array. */
@@ -351,8 +460,9 @@ class Column {
   }
 }
 
-function problem(fileName: string, text: string, advice: string, line?: number): LoadResult {
+function problem(fileName: string, text: string, advice: string, line?: number, settle?: LoadProblem['settle']): LoadResult {
   const error: LoadProblem = line === undefined ? { fileName, problem: text, advice } : { fileName, line, problem: text, advice };
+  if (settle) error.settle = settle;
   return { ok: false, error };
 }
 
@@ -379,18 +489,37 @@ interface Layout {
   columns: number;
   /** Columns numeric in more than half of the table-shaped sample lines. */
   numericColumns: number[];
+  /**
+   * Columns of measured values: the numeric ones, and those whose cells are
+   * mostly numbers or number-like failures (NaN, infinity, overflow,
+   * hexadecimal, separators) rather than words. Only these give traces.
+   */
+  dataColumns: number[];
   /** Index into the sample of the first table row. */
   tableIndex: number;
   headers: ColumnHeader[];
   /** Index into the sample of the header line (names), or -1. */
   headerIndex: number;
   notices: string[];
+  /** Another reading of the numbers that the file does not rule out (see dialectQuestion). */
+  question: LoadQuestion | null;
 }
 
 type LayoutResult = { ok: true; layout: Layout } | { ok: false; result: LoadResult };
 
-function findLayout(sample: readonly SampleLine[], fileName: string): LayoutResult {
-  const best = bestDialect(sample);
+function findLayout(sample: readonly SampleLine[], fileName: string, fixed?: LoadOptions['dialect'], format?: LoadOptions['numberFormat']): LayoutResult {
+  const candidates = allowedDialects(fixed, sample.some((l) => l.text.includes('"')), format);
+  const best = bestDialect(sample, candidates, format ? format.grouping : true);
+  if (!best && candidates !== CANDIDATES) {
+    return {
+      ok: false,
+      result: problem(
+        fileName,
+        `No line holds a number when the file is read as ${candidates.map(dialectLabel).join(' or ')}, as chosen.`,
+        'Choose another delimiter or decimal sign, or leave the choice to the loader.',
+      ),
+    };
+  }
   if (!best) {
     return {
       ok: false,
@@ -403,7 +532,7 @@ function findLayout(sample: readonly SampleLine[], fileName: string): LayoutResu
   }
   const { dialect } = best;
   const K = best.columns;
-  const rows = splitSample(sample, dialect);
+  const rows = splitSample(sample, dialect, format ? format.grouping : true);
   const shaped = rows.filter((r) => r.fields.length === K && r.numericCount > 0);
   const numericColumns: number[] = [];
   for (let c = 0; c < K; c++) {
@@ -448,10 +577,44 @@ function findLayout(sample: readonly SampleLine[], fileName: string): LayoutResu
       ),
     };
   }
+  const dataColumns: number[] = [];
+  const numericSet = new Set(numericColumns);
+  for (let c = 0; c < K; c++) {
+    if (numericSet.has(c)) { dataColumns.push(c); continue; }
+    let numberish = 0, words = 0;
+    for (let i = tableIndex; i < rows.length; i++) {
+      const r = rows[i];
+      if (r.fields.length !== K) continue;
+      if (r.numeric[c]) { numberish++; continue; }
+      const f = r.fields[c];
+      if (stripQuotes(f) === '') continue;
+      if (looksNumeric(f, dialect.decimal)) numberish++; else words++;
+    }
+    if (numberish > 0 && numberish >= words) dataColumns.push(c);
+  }
   const notices: string[] = [];
   let headers: ColumnHeader[] = [];
   let headerIndex = -1;
   const above = tableIndex - 1;
+  if (above >= 0 && rows[above].numericCount < rows[above].fields.length && dialect.delimiter === ',' && rows[above].fields.length < K) {
+    // "0,1,234.5" under a two-name header: a thousands comma has split one number into two cells.
+    const f = rows[tableIndex].fields;
+    let pairs = 0;
+    for (let c = 0; c + 1 < f.length; c++) {
+      if (/^[+-]?\d{1,3}$/.test(f[c].trim()) && /^\d{3}(\.\d*)?([eE][+-]?\d+)?$/.test(f[c + 1].trim())) { pairs++; c++; }
+    }
+    if (pairs > 0 && K - pairs === rows[above].fields.length) {
+      return {
+        ok: false,
+        result: problem(
+          fileName,
+          `Line ${sample[tableIndex].line} (“${truncate(sample[tableIndex].text)}”) looks like numbers written with a thousands comma in a comma-separated file: the header has ${rows[above].fields.length} names but the rows have ${K} fields, so a comma inside a number split it into two cells.`,
+          'Save the file without thousands separators (or with the numbers in quotes), then load it again; reading it as it is would give wrong numbers.',
+          sample[tableIndex].line,
+        ),
+      };
+    }
+  }
   if (above >= 0 && rows[above].numericCount < rows[above].fields.length) {
     let fields = rows[above].fields;
     if (fields.length !== K && dialect.delimiter === 'whitespace') {
@@ -485,7 +648,8 @@ function findLayout(sample: readonly SampleLine[], fileName: string): LayoutResu
     else if (headers[c].name === '') headers[c] = { name: `Column ${c + 1}`, unit: headers[c].unit };
   }
   if (headerIndex < 0 && notices.length === 0) notices.push(`No header row: columns are named Column 1 to Column ${K}.`);
-  return { ok: true, layout: { dialect, columns: K, numericColumns, tableIndex, headers, headerIndex, notices } };
+  const question = dialectQuestion(sample, best, candidates);
+  return { ok: true, layout: { dialect, columns: K, numericColumns, dataColumns, tableIndex, headers, headerIndex, notices, question } };
 }
 
 interface RowSink {
@@ -519,10 +683,13 @@ function countNewlines(s: string): number {
   return n;
 }
 
+/**
+ * Rows through PapaParse (data holding quote marks).
+ * @returns the line of the first quoted field that is never closed, or 0.
+ */
 function readRowsPapa(
   text: string, startOffset: number, firstLine: number, delimiter: Delimiter, sink: RowSink, progress: (f: number) => void,
-  notices: string[],
-): void {
+): number {
   let data = text.slice(startOffset).replace(/\r\n?/g, '\n');
   if (delimiter === 'whitespace') {
     // PapaParse splits on one character, so runs of spaces and tabs become one space and line ends are trimmed.
@@ -531,7 +698,7 @@ function readRowsPapa(
   const raw = new LineReader(text, startOffset, firstLine);
   let line = firstLine;
   let sinceProgress = 0;
-  let quoteProblem = false;
+  let unclosed = 0;
   Papa.parse<string[]>(data, {
     delimiter: delimiter === 'whitespace' ? ' ' : delimiter,
     newline: '\n',
@@ -545,10 +712,7 @@ function readRowsPapa(
       let breaks = 0;
       for (const f of fields) if (f.indexOf('\n') !== -1) breaks += countNewlines(f);
       line += 1 + breaks;
-      if (!quoteProblem && results.errors.some((e) => e.code === 'MissingQuotes')) {
-        quoteProblem = true;
-        notices.push(`Line ${rowLine} opens a quoted field that is never closed, so the rest of the file was read as one cell.`);
-      }
+      if (!unclosed && results.errors.some((e) => e.code === 'MissingQuotes')) unclosed = rowLine;
       const rawText = () => {
         // PapaParse gives a row for the empty text after a final line break; the raw file has no such line.
         while (raw.line < rowLine) if (!raw.next()) return '';
@@ -563,6 +727,7 @@ function readRowsPapa(
       }
     },
   });
+  return unclosed;
 }
 
 /**
@@ -597,6 +762,36 @@ export function parseDelimited(bytes: Uint8Array, fileName: string, options: Loa
   }
 }
 
+/** What the cells of one column did while being read. */
+class CellTally {
+  /** Cells that were not numbers in rows kept for other columns. */
+  bad = 0;
+  badExamples: { line: number; text: string; why: string }[] = [];
+  /** Cells read with grouped thousands, and the first of them. */
+  grouped = 0;
+  groupedFirst: { line: number; text: string; value: number } | null = null;
+  /** Grouped cells that settle the reading by themselves ("1.234,5", "1.234.567"). */
+  certain = 0;
+  /** The first grouped cell that could also be a decimal ("1.234"). */
+  ambiguousFirst: { line: number; text: string } | null = null;
+  /** A plain number with the decimal sign was seen in this column. */
+  decimalSeen = false;
+}
+
+/** Most names listed in one notice; the rest are counted. */
+const MAX_LISTED_COLUMNS = 12;
+
+/** Column headers kept in the load report. */
+const MAX_REPORTED_COLUMNS = 1000;
+
+/** Magnitude above which squares overflow (√1.8e308 ≈ 1.3e154), with a margin. */
+const HUGE_VALUE = 1e150;
+
+function listColumns(names: string[]): string {
+  if (names.length <= MAX_LISTED_COLUMNS) return names.join(', ');
+  return `${names.slice(0, MAX_LISTED_COLUMNS).join(', ')} and ${names.length - MAX_LISTED_COLUMNS} more`;
+}
+
 function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: LoadOptions, splitter: RowSplitter): LoadResult {
   if (!(bytes instanceof Uint8Array)) {
     return problem(fileName, 'No file content was given to the loader.', 'Choose the file again.');
@@ -611,6 +806,8 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
   if (bytes.length === 0) {
     return problem(fileName, 'The file is empty (0 bytes).', 'Choose the file again; if it was exported from an instrument, check that the export finished.');
   }
+  const long = overlongLineProblem(bytes, fileName);
+  if (long) return { ok: false, error: long };
   const onProgress = options.onProgress;
   const report = (f: number) => { if (onProgress) onProgress(Math.min(1, Math.max(0, f))); };
   const sha256 = givenSha256(options) ?? sha256Hex(bytes, onProgress ? (f) => report(HASH_SHARE * f) : undefined);
@@ -619,49 +816,71 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
 
   const sample: SampleLine[] = [];
   const reader = new LineReader(text);
+  let sampleChars = 0;
   while (sample.length < SAMPLE_LINES && reader.next()) {
-    if (trimSpaceTab(reader.current) !== '') sample.push({ line: reader.line, text: reader.current, start: reader.start });
+    if (trimSpaceTab(reader.current) === '') continue;
+    sample.push({ line: reader.line, text: reader.current, start: reader.start });
+    sampleChars += reader.current.length;
+    // Very wide rows (thousands of columns): a few of them are enough to decide, and splitting hundreds would take long.
+    if (sampleChars > SAMPLE_CHARS && sample.length >= MIN_WIDE_SAMPLE) break;
   }
   if (sample.length === 0) {
     return problem(fileName, 'The file holds only blank lines and spaces.', 'Choose the file again; if it was exported from an instrument, check that the export finished.');
   }
 
-  const found = findLayout(sample, fileName);
+  const format = options.numberFormat;
+  if (format && !((format.decimal === '.' || format.decimal === ',') && typeof format.grouping === 'boolean')) {
+    return problem(fileName, 'The stated number format must name the decimal sign ("." or ",") and whether the other sign groups thousands.', 'State the decimal sign and the grouping, or leave them to the loader.');
+  }
+  const found = findLayout(sample, fileName, options.dialect, format);
   if (!found.ok) return found.result;
   const layout = found.layout;
-  const { dialect, columns: K, headers, numericColumns } = layout;
+  const { dialect, columns: K, headers, numericColumns, dataColumns } = layout;
   const notices = [...decoded.notices];
+  const columnName = (c: number) => `column ${c + 1} (${headers[c].name})`;
 
   // Column choice: defaults, then the user's override, checked.
   let xColumn: number;
-  if (options.xColumn === undefined) xColumn = numericColumns.length >= 2 ? numericColumns[0] : -1;
+  if (options.xColumn === undefined) xColumn = dataColumns.length >= 2 ? (numericColumns[0] ?? dataColumns[0]) : -1;
   else xColumn = options.xColumn;
-  const columnName = (c: number) => `column ${c + 1} (${headers[c].name})`;
   if (!Number.isInteger(xColumn) || xColumn < -1 || xColumn >= K) {
     return problem(fileName, `Column ${xColumn} cannot be x: the file has ${K} column(s), numbered from 0, or -1 for the point index.`, 'Choose x from the list of columns.');
   }
-  if (xColumn >= 0 && !numericColumns.includes(xColumn)) {
+  const dataSet = new Set(dataColumns);
+  if (xColumn >= 0 && !dataSet.has(xColumn)) {
     return problem(fileName, `The chosen x, ${columnName(xColumn)}, does not hold numbers.`, 'Choose a column of numbers as x, or the point index.');
   }
-  const yColumns = options.yColumns ?? numericColumns.filter((c) => c !== xColumn);
+  let yColumns = options.yColumns ?? dataColumns.filter((c) => c !== xColumn);
   if (yColumns.length === 0) {
     return problem(
       fileName,
-      'No column is left for y: the only column of numbers is used as x.',
+      `No column is left for y: the only column of numbers, ${columnName(dataColumns[0] ?? 0)}, is used as x.`,
       'Choose the point index as x so the column of numbers becomes y.',
+    );
+  }
+  if (yColumns.length > MAX_Y_COLUMNS) {
+    if (options.yColumns) {
+      return problem(fileName, `${yColumns.length} columns were chosen as y; one file gives at most ${MAX_Y_COLUMNS} traces.`, `Choose at most ${MAX_Y_COLUMNS} columns.`);
+    }
+    const all = yColumns.length;
+    yColumns = yColumns.slice(0, MAX_Y_COLUMNS);
+    notices.push(
+      `The file has ${all.toLocaleString('en')} columns of numbers besides x; only the first ${MAX_Y_COLUMNS} (${columnName(yColumns[0])} to ${columnName(yColumns[MAX_Y_COLUMNS - 1])}) were loaded, ` +
+        `since one file gives at most ${MAX_Y_COLUMNS} traces. To look at others, save the columns you need in a file of their own.`,
     );
   }
   for (const c of yColumns) {
     if (!Number.isInteger(c) || c < 0 || c >= K) {
       return problem(fileName, `Column ${c} cannot be y: the file has ${K} column(s), numbered from 0.`, 'Choose y from the list of columns.');
     }
-    if (!numericColumns.includes(c)) {
+    if (!dataSet.has(c)) {
       return problem(fileName, `The chosen y, ${columnName(c)}, does not hold numbers.`, 'Choose a column of numbers as y.');
     }
     if (c === xColumn) return problem(fileName, `${columnName(c)} was chosen as both x and y.`, 'Choose a different column for y.');
   }
+  const used = new Set([xColumn, ...yColumns]);
   const textColumns: number[] = [];
-  for (let c = 0; c < K; c++) if (!numericColumns.includes(c) && c !== xColumn && !yColumns.includes(c)) textColumns.push(c);
+  for (let c = 0; c < K; c++) if (!dataSet.has(c) && !used.has(c)) textColumns.push(c);
 
   // Metadata from the lines above the header (or the table).
   const metadata: Record<string, string> = {};
@@ -671,7 +890,35 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
     metadata[key in metadata ? `${key} (line ${sample[i].line})` : key] = value;
   }
 
-  // Data rows.
+  // Data rows. A row is kept when x and at least one y are numbers; a y cell that is not a number
+  // leaves a gap (NaN here) in that column only, and is counted for the column's notice.
+  const decimal = dialect.decimal;
+  // A stated format without grouping: a sign that is not the decimal sign makes a cell not a number.
+  const group = format && !format.grouping ? '\u0000' : groupSign(decimal);
+  const xTally = new CellTally();
+  const yTallies = yColumns.map(() => new CellTally());
+  const readCell = (field: string, tally: CellTally, line: number): number => {
+    const v = parseNumber(field, decimal);
+    if (!Number.isNaN(v)) {
+      if (!tally.decimalSeen && field.indexOf(decimal) !== -1) tally.decimalSeen = true;
+      return v;
+    }
+    if (field.indexOf(group) !== -1) {
+      const g = parseGroupedNumber(field, decimal);
+      if (g) {
+        tally.grouped++;
+        if (!tally.groupedFirst) tally.groupedFirst = { line, text: truncate(stripQuotes(field)), value: g.value };
+        if (g.certain) tally.certain++;
+        else if (!tally.ambiguousFirst) tally.ambiguousFirst = { line, text: truncate(stripQuotes(field)) };
+        return g.value;
+      }
+    }
+    return NaN;
+  };
+  const notNumber = (c: number, field: string) => {
+    const why = whyNotNumber(field, decimal);
+    return `not a number in ${columnName(c)}: "${truncate(stripQuotes(field))}"${why === 'text' ? '' : ` (${why})`}`;
+  };
   const xs = new Column();
   const ys = yColumns.map(() => new Column());
   const lineOf = new Column();
@@ -690,14 +937,25 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
       }
       let x = 0;
       if (xColumn >= 0) {
-        x = parseNumber(fields[xColumn], dialect.decimal);
-        if (Number.isNaN(x)) { skip(line, `not a number in ${columnName(xColumn)}: "${truncate(stripQuotes(fields[xColumn]))}"`, raw); return; }
+        x = readCell(fields[xColumn], xTally, line);
+        if (Number.isNaN(x)) { skip(line, notNumber(xColumn, fields[xColumn]), raw); return; }
       }
       const rowY = rowBuffer;
+      let good = 0, firstBad = -1;
       for (let j = 0; j < yColumns.length; j++) {
-        const v = parseNumber(fields[yColumns[j]], dialect.decimal);
-        if (Number.isNaN(v)) { skip(line, `not a number in ${columnName(yColumns[j])}: "${truncate(stripQuotes(fields[yColumns[j]]))}"`, raw); return; }
+        const v = readCell(fields[yColumns[j]], yTallies[j], line);
         rowY[j] = v;
+        if (Number.isNaN(v)) { if (firstBad < 0) firstBad = j; } else good++;
+      }
+      if (good === 0) { skip(line, notNumber(yColumns[firstBad], fields[yColumns[firstBad]]), raw); return; }
+      if (firstBad >= 0) {
+        for (let j = firstBad; j < yColumns.length; j++) {
+          if (!Number.isNaN(rowY[j])) continue;
+          const t = yTallies[j];
+          t.bad++;
+          const f = fields[yColumns[j]];
+          if (t.badExamples.length < 3) t.badExamples.push({ line, text: truncate(stripQuotes(f)), why: whyNotNumber(f, decimal) });
+        }
       }
       xs.push(x);
       for (let j = 0; j < ys.length; j++) ys[j].push(rowY[j]);
@@ -708,16 +966,51 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
   const hasQuotes = text.indexOf('"', first.start) !== -1;
   const useFast = splitter === 'fast' || (splitter === 'auto' && !hasQuotes);
   const parseProgress = (f: number) => report(HASH_SHARE + (1 - HASH_SHARE) * f);
+  let unclosed = 0;
   if (useFast) readRowsFast(text, first.start, first.line, dialect.delimiter, sink, parseProgress);
-  else readRowsPapa(text, first.start, first.line, dialect.delimiter, sink, parseProgress, notices);
+  else unclosed = readRowsPapa(text, first.start, first.line, dialect.delimiter, sink, parseProgress);
+  if (unclosed) {
+    return problem(
+      fileName,
+      `Line ${unclosed} opens a quoted field (") that is never closed, so everything after it would be read as one cell.`,
+      'Close the quote on that line (or remove it) and load the file again; nothing after it can be read safely as it is.',
+      unclosed,
+    );
+  }
+
+  // Thousands grouping: read only where the whole column settles it.
+  const tallied: [number, CellTally][] = [...(xColumn >= 0 ? [[xColumn, xTally] as [number, CellTally]] : []), ...yColumns.map((c, j) => [c, yTallies[j]] as [number, CellTally])];
+  const signName = (c: string) => (c === ',' ? 'comma' : 'point');
+  for (const [c, t] of tallied) {
+    // A format the user stated settles it.
+    if (t.ambiguousFirst && t.certain === 0 && !t.decimalSeen && !format) {
+      const a = t.ambiguousFirst;
+      const asDecimal = Number(a.text.replace(group, '.').replace(/^"|"$/g, ''));
+      const asGrouped = parseGroupedNumber(a.text, decimal)?.value;
+      return problem(
+        fileName,
+        `“${a.text}” in ${columnName(c)} could be ${asDecimal} or ${asGrouped}: the file uses a decimal ${signName(decimal)}, and no cell of this column shows whether “${group}” groups thousands or marks decimals.`,
+        `State how the numbers are written (the decimal sign, and whether “${group}” groups thousands), or save the file with one decimal sign and no thousands separators (for example ${asGrouped} or ${String(asDecimal).replace('.', decimal)}), then load it again.`,
+        a.line,
+        { label: `Read “${group}” as a thousands separator (“${a.text}” = ${asGrouped})`, numberFormat: { decimal, grouping: true } },
+      );
+    }
+  }
+  for (const [c, t] of tallied) {
+    if (t.groupedFirst) {
+      const g = t.groupedFirst;
+      notices.push(`${capitalise(columnName(c))} groups thousands with “${groupSign(decimal)}” (${t.grouped} cell${t.grouped === 1 ? '' : 's'}; the first at line ${g.line}: “${g.text}” read as ${g.value}).`);
+    }
+  }
 
   const rowsRead = xs.length;
   if (rowsRead < MIN_POINTS) {
+    const why = skippedCount ? ` (${skippedCount} skipped; the first, line ${skipped[0].line}, ${skipped[0].reason})` : '';
     return problem(
       fileName,
-      `Only ${rowsRead} row${rowsRead === 1 ? '' : 's'} of numbers could be read${skippedCount ? ` (${skippedCount} skipped)` : ''}; a trace needs at least ${MIN_POINTS} points.`,
+      `Only ${rowsRead} row${rowsRead === 1 ? '' : 's'} of numbers could be read${why}; a trace needs at least ${MIN_POINTS} points.`,
       'Check that this is the whole file and that the data rows hold plain numbers; a longer recording is needed for any processing.',
-      first.line,
+      skippedCount ? skipped[0].line : first.line,
     );
   }
   if (skippedCount > 0) {
@@ -727,7 +1020,7 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
     );
   }
   if (textColumns.length > 0) {
-    notices.push(`Not loaded (they do not hold numbers): ${textColumns.map(columnName).join(', ')}.`);
+    notices.push(`Not loaded (they do not hold numbers): ${listColumns(textColumns.map(columnName))}.`);
   }
 
   // x: point index, or the chosen column sorted and made strictly ascending.
@@ -738,10 +1031,21 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
     x = new Float64Array(rowsRead);
     for (let i = 0; i < rowsRead; i++) x[i] = i;
     notices.push(
-      numericColumns.length === 1
+      dataColumns.length === 1
         ? 'The file has one column of numbers, so x is the point index (0, 1, 2, …), not a measured quantity.'
         : 'x is the point index (0, 1, 2, …), as chosen.',
     );
+    if (dataColumns.length === 1 && K > 1 && yColumns.length === 1) {
+      const y0 = yValues[0];
+      let rising = true;
+      for (let i = 1; i < y0.length && rising; i++) if (!(y0[i] > y0[i - 1])) rising = false;
+      if (rising) {
+        notices.push(
+          `The only column of numbers, ${columnName(yColumns[0])}, rises at every row like an x axis (time, wavelength), yet it is drawn as the signal against the point index. ` +
+            `If the file should hold a signal beside it, check ${listColumns(textColumns.map(columnName))}: no number could be read there.`,
+        );
+      }
+    }
   } else {
     let drop = -1;
     for (let i = 1; i < rowsRead; i++) if (x[i] < x[i - 1]) { drop = i; break; }
@@ -775,9 +1079,10 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
         while (j < rowsRead && x[j] === x[i]) j++;
         outX[o] = x[i];
         for (let k = 0; k < yValues.length; k++) {
-          let sum = 0;
-          for (let r = i; r < j; r++) sum += yValues[k][r];
-          outY[k][o] = sum / (j - i);
+          // Gaps (cells that were not numbers) take no part in the average.
+          let sum = 0, count = 0;
+          for (let r = i; r < j; r++) { const v = yValues[k][r]; if (!Number.isNaN(v)) { sum += v; count++; } }
+          outY[k][o] = count ? sum / count : NaN;
         }
         o++;
         i = j;
@@ -800,24 +1105,74 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
     );
   }
 
+  // One trace per y column, over the rows where that column holds a number.
   const xHeader = xColumn >= 0 ? headers[xColumn] : { name: 'Point', unit: '' };
-  const traces: Trace[] = yColumns.map((c, j) =>
-    createTrace({
+  const traces: Trace[] = [];
+  const dropped: { c: number; count: number; tally: CellTally }[] = [];
+  let largest = 0, largestWhere = '';
+  for (let j = 0; j < yColumns.length; j++) {
+    const c = yColumns[j];
+    const yAll = yValues[j];
+    let count = 0;
+    for (let i = 0; i < yAll.length; i++) if (!Number.isNaN(yAll[i])) count++;
+    if (count < MIN_POINTS) { dropped.push({ c, count, tally: yTallies[j] }); continue; }
+    let tx = x, ty = yAll;
+    if (count < yAll.length) {
+      tx = new Float64Array(count);
+      ty = new Float64Array(count);
+      for (let i = 0, o = 0; i < yAll.length; i++) if (!Number.isNaN(yAll[i])) { tx[o] = x[i]; ty[o++] = yAll[i]; }
+    }
+    const t = yTallies[j];
+    if (t.bad > 0) {
+      const ex = t.badExamples.map((e) => `line ${e.line}: “${e.text}”, ${e.why}`).join('; ');
+      notices.push(`${capitalise(columnName(c))}: ${t.bad} cell${t.bad === 1 ? ' is' : 's are'} not a number, so ${t.bad === 1 ? 'that point is' : 'those points are'} left out of this trace only (${ex}${t.bad > t.badExamples.length ? '; …' : ''}).`);
+    }
+    for (let i = 0; i < ty.length; i++) {
+      const a = Math.abs(ty[i]);
+      if (a > largest) { largest = a; largestWhere = columnName(c); }
+    }
+    traces.push(createTrace({
       name: `${fileName}: ${headers[c].name}`,
-      x,
-      y: yValues[j],
+      x: tx,
+      y: ty,
       xName: xHeader.name,
       xUnit: xHeader.unit,
       yName: headers[c].name,
       yUnit: headers[c].unit,
       source: { fileName, sha256, rowsRead, rowsSkipped: skippedCount, yColumn: c },
       metadata,
-    }),
-  );
+    }));
+  }
+  const describeDropped = (d: { c: number; count: number; tally: CellTally }) => {
+    const ex = d.tally.badExamples[0];
+    return `${columnName(d.c)} holds ${d.count === 0 ? 'no number' : `only ${d.count} number${d.count === 1 ? '' : 's'}`}` +
+      (ex ? ` (the first cell that is not one: line ${ex.line}, “${ex.text}”, ${ex.why})` : '');
+  };
+  if (traces.length === 0) {
+    const worst = dropped.reduce((a, b) => (b.count > a.count ? b : a));
+    return problem(
+      fileName,
+      `${capitalise(describeDropped(worst))}; a trace needs at least ${MIN_POINTS} points.`,
+      'Check that the column holds the measured values as plain numbers; cells such as NaN, infinity or text cannot be drawn.',
+      worst.tally.badExamples[0]?.line ?? first.line,
+    );
+  }
+  for (const d of dropped) notices.push(`${capitalise(describeDropped(d))}, fewer than the ${MIN_POINTS} a trace needs, so it gives no trace.`);
+  let xLargest = 0;
+  for (let i = 0; i < x.length; i++) xLargest = Math.max(xLargest, Math.abs(x[i]));
+  if (xLargest > HUGE_VALUE) { largest = Math.max(largest, xLargest); if (xLargest >= largest) largestWhere = xColumn >= 0 ? columnName(xColumn) : 'x'; }
+  if (largest > HUGE_VALUE) {
+    notices.push(
+      `Values as large as ${largest.toPrecision(3)} in ${largestWhere} are close to the largest number a double can hold, about 1.8e308: their squares overflow, ` +
+        'so noise and S/N cannot be measured on them, and sums or differences in processing steps may overflow too. The page says so wherever that happens; such results are never drawn or exported as numbers.',
+    );
+  }
+  const chosen = (options.dialect && (options.dialect.delimiter !== undefined || options.dialect.decimal !== undefined)) || options.numberFormat !== undefined;
   notices.unshift(
-    `Read as ${dialectLabel(dialect)} (${decoded.encoding}), decided from ${sample.length} line${sample.length === 1 ? '' : 's'}; ` +
+    `Read as ${dialectLabel(dialect)} (${decoded.encoding}), decided from ${sample.length} line${sample.length === 1 ? '' : 's'}${chosen ? ' among the readings allowed by the choice given' : ''}; ` +
       `the table starts at line ${first.line}.`,
   );
+  if (layout.question) notices.push(`${layout.question.message} It was read the first way; check the plot.`);
   notices.push(...layout.notices);
   const loadReport: LoadReport = {
     fileName,
@@ -827,8 +1182,13 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
     skipped,
     notices,
     metadata: { ...metadata },
-    columns: headers.map((h) => ({ ...h })),
+    columns: headers.slice(0, MAX_REPORTED_COLUMNS).map((h) => ({ ...h })),
   };
+  if (layout.question) loadReport.questions = [layout.question];
   report(1);
   return { ok: true, traces, report: loadReport };
+}
+
+function capitalise(s: string): string {
+  return s ? s[0].toUpperCase() + s.slice(1) : s;
 }

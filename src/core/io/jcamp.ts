@@ -22,6 +22,13 @@
  *   (1.5E-3); otherwise `E`/`e` are the SQZ digits +5/−5.
  * * NTUPLES (NMR/MS pages) and PEAK TABLE (sticks) blocks are not read; a file
  *   holding only those gets a clear message, otherwise a notice.
+ * * A repeat count (DUP) may not take a block past its ##NPOINTS= (or past
+ *   {@link MAX_JCAMP_POINTS} without one): a 181-byte file asking for 10^8
+ *   repeats is refused naming the line, before any memory is taken.
+ * * XFACTOR or YFACTOR of 0 is an error naming the line (every value would
+ *   be 0); NPOINTS must be a whole number of at least 1.
+ * * A data label cut off with the end of the file ("##XYDATA=(X++(Y..") says
+ *   the file is cut short, not that the form is unknown.
  */
 import { createTrace, TraceError } from '../trace.ts';
 import type { Trace } from '../trace.ts';
@@ -302,8 +309,22 @@ interface Decoded {
   lastLine: number;
 }
 
-/** Decode `(X++(Y..Y))` lines: an x value, then y values in any mixture of forms. */
-function decodeXyData(rec: Record_): Decoded {
+/** Most points read from a block that declares no ##NPOINTS= (a repeat count cannot ask for more). */
+export const MAX_JCAMP_POINTS = 10_000_000;
+
+/** The most points a block may hold: its ##NPOINTS= when declared, else {@link MAX_JCAMP_POINTS}. */
+interface PointCap {
+  max: number;
+  /** Where the cap comes from, for messages. */
+  from: string;
+}
+
+/**
+ * Decode `(X++(Y..Y))` lines: an x value, then y values in any mixture of
+ * forms. A repeat count (DUP) that would take the block past `cap` is an
+ * error naming the line, found before any memory is taken for it.
+ */
+function decodeXyData(rec: Record_, cap: PointCap): Decoded {
   const ys: number[] = [];
   const forms = new Set<Form>();
   const lineStarts: Decoded['lineStarts'] = [];
@@ -350,6 +371,14 @@ function decodeXyData(rec: Record_): Decoded {
           throw new JcampProblem(
             `Line ${line}: a repeat count (DUP) has nothing to repeat or is not a whole number.`,
             'A DUP letter must follow a y value or a difference; the line may be damaged.',
+            line,
+          );
+        }
+        // The line may repeat the previous line's last y (the y-check), hence the one extra value allowed.
+        if (ys.length + lineYs.length + (v - 1) > cap.max + 1) {
+          throw new JcampProblem(
+            `The repeat count (DUP) ${v} on line ${line} would give the block ${ys.length + lineYs.length + (v - 1)} values, more than the ${cap.max} ${cap.from}.`,
+            'The file is damaged or was written wrongly here; export it again from the instrument.',
             line,
           );
         }
@@ -454,6 +483,19 @@ function axisFromUnit(unit: string | undefined, table: Record<string, [string, s
   return known ? [known[0], known[1]] : [fallback, unit.trim()];
 }
 
+/** True when `compact` is the start of `form` with the rest missing (a label line cut off with the file). */
+function isCutForm(compact: string, form: string): boolean {
+  return compact.length < form.length && form.startsWith(compact);
+}
+
+function cutLabel(rec: Record_): JcampProblem {
+  return new JcampProblem(
+    `The file is cut short: it ends inside the ##${rec.label}= label on line ${rec.line} (“${rec.value}”), before any data.`,
+    'The export or the copy stopped early; export the file again from the instrument.',
+    rec.line,
+  );
+}
+
 function blockName(b: Block): string {
   return b.title.trim() !== '' ? `"${b.title.trim()}"` : `block ${b.index + 1}`;
 }
@@ -467,9 +509,30 @@ interface BlockResult {
 function readBlock(b: Block, fileName: string, sha256: string, notices: string[]): BlockResult {
   const rec = b.data as Record_;
   const compact = rec.value.replace(/\s/g, '').toUpperCase();
-  const xFactor = numberLabel(b, 'XFACTOR')?.value ?? 1;
-  const yFactor = numberLabel(b, 'YFACTOR')?.value ?? 1;
+  const factor = (key: 'XFACTOR' | 'YFACTOR') => {
+    const f = numberLabel(b, key);
+    if (f && f.value === 0) {
+      throw new JcampProblem(
+        `##${f.record.label}= on line ${f.record.line} is 0, so every ${key[0].toLowerCase()} value would be 0.`,
+        `A scaling factor multiplies every stored value; write the factor the instrument used (1 when the values are stored as they are).`,
+        f.record.line,
+      );
+    }
+    return f?.value ?? 1;
+  };
+  const xFactor = factor('XFACTOR');
+  const yFactor = factor('YFACTOR');
   const nPointsLabel = numberLabel(b, 'NPOINTS');
+  if (nPointsLabel && !(Number.isInteger(nPointsLabel.value) && nPointsLabel.value >= 1)) {
+    throw new JcampProblem(
+      `##NPOINTS= on line ${nPointsLabel.record.line} is ${nPointsLabel.value}, not a whole number of points.`,
+      'Write the number of points in the data table after ##NPOINTS=.',
+      nPointsLabel.record.line,
+    );
+  }
+  const cap: PointCap = nPointsLabel
+    ? { max: nPointsLabel.value, from: `points ##NPOINTS= (line ${nPointsLabel.record.line}) declares` }
+    : { max: MAX_JCAMP_POINTS, from: 'points this reader takes from a block without ##NPOINTS=' };
   let xs: number[];
   let ys: number[];
   let formsText: string;
@@ -478,6 +541,7 @@ function readBlock(b: Block, fileName: string, sha256: string, notices: string[]
 
   if (rec.key === 'XYDATA') {
     if (!/^\(X\+\+\(([A-Z])\.\.\1\)\)$/.test(compact)) {
+      if (!b.ended && isCutForm(compact, '(X++(Y..Y))')) throw cutLabel(rec);
       throw new JcampProblem(
         `##${rec.label}= on line ${rec.line} has the form "${rec.value}", which this reader does not know; expected (X++(Y..Y)).`,
         'Export the spectrum as (X++(Y..Y)) or as (XY..XY) pairs.',
@@ -494,7 +558,7 @@ function readBlock(b: Block, fileName: string, sha256: string, notices: string[]
     }
     const lastX = numberLabel(b, 'LASTX');
     const deltaX = numberLabel(b, 'DELTAX');
-    const dec = decodeXyData(rec);
+    const dec = decodeXyData(rec, cap);
     dataLines = dec.dataLines;
     const n = dec.ys.length;
     if (n === 0) {
@@ -542,6 +606,7 @@ function readBlock(b: Block, fileName: string, sha256: string, notices: string[]
     formsText = [...dec.forms].join('/');
   } else if (rec.key === 'XYPOINTS') {
     if (!/^\(XY\.\.XY\)$/.test(compact)) {
+      if (!b.ended && isCutForm(compact, '(XY..XY)')) throw cutLabel(rec);
       throw new JcampProblem(
         `##${rec.label}= on line ${rec.line} has the form "${rec.value}", which this reader does not know; expected (XY..XY).`,
         'Export the data as (XY..XY) pairs or as (X++(Y..Y)).',

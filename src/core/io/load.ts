@@ -6,7 +6,7 @@
  */
 import { givenSha256, MAX_FILE_BYTES } from './types.ts';
 import type { LoadOptions, LoadResult } from './types.ts';
-import { binaryReason, decodeText, sniffBinaryFormat, UNDERSTOOD_FORMATS } from './sniff.ts';
+import { binaryReason, decodeText, hasWideTextMark, overlongLineProblem, sniffBinaryFormat, UNDERSTOOD_FORMATS } from './sniff.ts';
 import { parseDelimited } from './delimited.ts';
 import { sha256Hex, sha256HexNative } from './sha256.ts';
 import { looksLikeJcamp, parseJcamp } from './jcamp.ts';
@@ -23,9 +23,12 @@ function refuse(fileName: string, problem: string, advice: string): LoadResult {
  * Read a file's bytes into traces, or explain why not. Never throws.
  *
  * Order of checks: size (at most {@link MAX_FILE_BYTES}), empty, known binary
- * formats by magic number (PNG, JPEG, ZIP, older Office, PDF, gzip, HDF5),
- * netCDF classic (read by the netCDF reader), other binary content (NUL bytes
- * or many control characters), JCAMP-DX text, and otherwise delimited text.
+ * formats by magic number (PNG, JPEG, ZIP, older Office, PDF, gzip, HDF5,
+ * netCDF of a version not read), netCDF classic (read by the netCDF reader),
+ * other binary content (NUL bytes or many control characters, unless a UTF-16
+ * or UTF-32 byte-order mark says it is text), JCAMP-DX text, and otherwise
+ * delimited text. Text with a line longer than {@link MAX_LINE_BYTES} is
+ * refused at once, naming the line.
  * `bytes` is only read.
  *
  * @param options column choice, progress callback and a digest already made
@@ -45,11 +48,10 @@ export function loadFile(bytes: Uint8Array, fileName: string, options: LoadOptio
       return refuse(fileName, 'The file is empty (0 bytes).', 'Choose the file again; if it was exported from an instrument, check that the export finished.');
     }
     const known = sniffBinaryFormat(bytes);
-    if (known) return refuse(fileName, `This is ${known.format}, not a file of measured values the page can read.`, known.advice);
+    if (known) return refuse(fileName, known.problem ?? `This is ${known.format}, not a file of measured values the page can read.`, known.advice);
     if (looksLikeNetcdf(bytes)) return parseNetcdf(bytes, fileName, givenSha256(options) ?? sha256Hex(bytes));
 
-    const utf16 = (bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff);
-    const why = utf16 ? null : binaryReason(bytes);
+    const why = hasWideTextMark(bytes) ? null : binaryReason(bytes);
     if (why) {
       return refuse(
         fileName,
@@ -61,6 +63,8 @@ export function loadFile(bytes: Uint8Array, fileName: string, options: LoadOptio
     // A cut at 4 kB may split a character; that only matters for the look, and JCAMP-DX labels are ASCII.
     const head = decodeText(bytes.subarray(0, JCAMP_SNIFF_BYTES)).text;
     if (looksLikeJcamp(head)) {
+      const long = overlongLineProblem(bytes, fileName);
+      if (long) return { ok: false, error: long };
       const decoded = decodeText(bytes);
       const result = parseJcamp(decoded.text, fileName, givenSha256(options) ?? sha256Hex(bytes));
       if (result.ok && decoded.notices.length > 0) result.report.notices.unshift(...decoded.notices);

@@ -8,11 +8,18 @@
  *     [+|-] digits [decimal digits] [(e|E) [+|-] digits]
  *
  * with at least one digit before or after the decimal sign, which is either
- * "." or "," (never both in one file). Not accepted, so the row is skipped and
- * listed: "NaN", "Inf"/"Infinity", empty fields, hexadecimal, "1_000", and
- * thousands separators. Thousands separators are deliberately not guessed:
- * "1,234.5" in a comma-delimited file is two fields, "1" and "234.5", and in a
- * decimal-point file without comma delimiter it is not a number.
+ * "." or "," (never both in one file). Not accepted, so the cell is reported
+ * with the reason from {@link whyNotNumber}: "NaN", "Inf"/"Infinity", empty
+ * fields, hexadecimal, "1_000", and values beyond the largest double.
+ *
+ * Thousands separators are never taken from one cell alone.
+ * {@link parseGroupedNumber} reads a cell whose digits are grouped in threes
+ * by the other sign ("1.234,5" with a decimal comma, "1,234.5" with a
+ * decimal point) and says whether the cell settles it by itself (both signs,
+ * or two or more group signs) or could also be a decimal ("1.234"); the
+ * delimited-text loader reads such cells only when their whole column is
+ * unambiguous and refuses the file otherwise. "1,234.5" unquoted in a
+ * comma-delimited file is two fields, "1" and "234.5".
  */
 
 /** The decimal sign used by a whole file. */
@@ -108,4 +115,68 @@ export function parseNumber(field: string, decimal: DecimalSign = '.'): number {
  */
 export function isNumberField(field: string, decimal: DecimalSign = '.'): boolean {
   return !Number.isNaN(parseNumber(field, decimal));
+}
+
+/** A cell read with thousands grouping (see {@link parseGroupedNumber}). */
+export interface GroupedNumber {
+  value: number;
+  /** True when the cell settles the reading by itself: it holds the decimal sign too, or two or more group signs. */
+  certain: boolean;
+}
+
+/**
+ * Read a cell whose integer digits are grouped in threes by the sign that is
+ * not the decimal sign: "1.234,5" and "1.234.567" with a decimal comma,
+ * "1,234.5" and "1,234,567" with a decimal point; optional sign, decimal
+ * part and exponent as in {@link parseNumber}; spaces and one pair of quotes
+ * around it are ignored. Returns null for anything else (plain numbers
+ * included: call {@link parseNumber} first).
+ */
+export function parseGroupedNumber(field: string, decimal: DecimalSign = '.'): GroupedNumber | null {
+  let t = field.trim();
+  if (t.length >= 2 && t.startsWith('"') && t.endsWith('"')) t = t.slice(1, -1).trim();
+  const g = decimal === ',' ? '\\.' : ',';
+  const d = decimal === ',' ? ',' : '\\.';
+  const m = new RegExp(`^([+-]?)(\\d{1,3}(?:${g}\\d{3})+)(?:${d}(\\d*))?([eE][+-]?\\d+)?$`).exec(t);
+  if (!m) return null;
+  const groups = m[2].split(decimal === ',' ? '.' : ',').length - 1;
+  const digits = m[2].replace(/[.,]/g, '');
+  const value = Number(`${m[1]}${digits}${m[3] !== undefined ? `.${m[3]}` : ''}${m[4] ?? ''}`);
+  if (!Number.isFinite(value)) return null;
+  return { value, certain: m[3] !== undefined || groups >= 2 };
+}
+
+/** The largest finite double, written as people read it. */
+const LARGEST = '1.8e308';
+
+/**
+ * Why a cell is not a number, in a few words for a message: "empty",
+ * "a NaN marker", "infinite", "beyond the largest number a double can
+ * hold, about 1.8e308", "hexadecimal", "has a digit separator “_”", "has thousands
+ * separators", "uses the other decimal sign", or "text".
+ */
+export function whyNotNumber(field: string, decimal: DecimalSign = '.'): string {
+  let t = field.trim();
+  if (t.length >= 2 && t.startsWith('"') && t.endsWith('"')) t = t.slice(1, -1).trim();
+  if (t === '') return 'empty';
+  if (/^[+-]?nan$/i.test(t)) return 'a NaN marker';
+  if (/^[+-]?(inf|infinity|∞)$/i.test(t)) return 'infinite';
+  if (/^[+-]?0x[0-9a-f]+$/i.test(t)) return 'hexadecimal';
+  if (/^[+-]?0b[01]+$/i.test(t)) return 'binary notation';
+  if (/^[+-]?[\d.,]*\d[\d.,]*(e[+-]?\d+)?$/i.test(t)) {
+    const plain = t.replace(decimal === ',' ? /,/ : /^$/, '.');
+    if (/^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i.test(plain) && !Number.isFinite(Number(plain))) return `beyond the largest number a double can hold, about ${LARGEST}`;
+    if (/[.,].*[.,]/.test(t)) return 'has thousands separators that do not fit the file';
+    return decimal === ',' ? 'uses a decimal point, but the file uses a decimal comma' : 'uses a decimal comma, but the file uses a decimal point';
+  }
+  if (/^[+-]?[\d_]+([.,]\d*)?$/.test(t) && t.includes('_')) return 'has a digit separator “_”';
+  if (/^[+-]?[\d '’]+([.,]\d*)?$/.test(t) && /\d[ '’]\d/.test(t)) return 'has spaces or apostrophes between digits';
+  if (/^[+-]?\d/.test(t)) return 'a number followed by text (a unit in the cell?)';
+  return 'text';
+}
+
+/** True when a cell that is not a number looks like one that went wrong (NaN, infinity, overflow, hexadecimal, separators), not like words. */
+export function looksNumeric(field: string, decimal: DecimalSign = '.'): boolean {
+  const why = whyNotNumber(field, decimal);
+  return why !== 'text' && why !== 'empty';
 }

@@ -10,14 +10,19 @@
  * netCDF classic (Unidata netCDF classic format specification).
  */
 
+import { MAX_LINE_BYTES } from './types.ts';
+import type { LoadProblem } from './types.ts';
+
 /** What the page understands, for messages that refuse a file. */
 export const UNDERSTOOD_FORMATS =
-  'delimited text (CSV, semicolon, tab or space separated; UTF-8, UTF-16 with byte-order mark or Latin-1), JCAMP-DX text, and netCDF classic (.cdf, .nc)';
+  'delimited text (CSV, semicolon, tab or space separated; UTF-8, UTF-16 or UTF-32 with byte-order mark, or Latin-1), JCAMP-DX text, and netCDF classic (.cdf, .nc)';
 
 /** A recognised binary format the page does not read, with advice for the user. */
 export interface BinaryKind {
   /** Plain name, e.g. "a PNG image". */
   format: string;
+  /** The whole sentence, when "This is ⟨format⟩, not a file of measured values …" does not fit. */
+  problem?: string;
   /** What the user can do instead. */
   advice: string;
 }
@@ -62,6 +67,14 @@ export function sniffBinaryFormat(bytes: Uint8Array): BinaryKind | null {
       advice: `Decompress it first (for example with gunzip or 7-Zip) and load the file inside. The page reads ${UNDERSTOOD_FORMATS}.`,
     };
   }
+  if (startsWith(bytes, [0x43, 0x44, 0x46]) && bytes.length >= 4 && bytes[3] !== 1 && bytes[3] !== 2) {
+    const v = bytes[3];
+    return {
+      format: `netCDF format version ${v}`,
+      problem: `This is a netCDF file of format version ${v}${v === 5 ? ' (CDF-5, the 64-bit data format)' : ''}, which this page does not read.`,
+      advice: `The page reads netCDF classic (version 1) and 64-bit offset (version 2) files. Save the file in one of those (for example with nccopy -k classic) or export CSV. The page reads ${UNDERSTOOD_FORMATS}.`,
+    };
+  }
   if (startsWith(bytes, [0x89, 0x48, 0x44, 0x46, 0x0d, 0x0a, 0x1a, 0x0a])) {
     return {
       format: 'an HDF5 file (netCDF-4 files are HDF5)',
@@ -98,6 +111,15 @@ export function binaryReason(bytes: Uint8Array): string | null {
     }
   }
   if (nul > 0) {
+    // UTF-32 text of mostly ASCII characters has three zeros in every four bytes.
+    if (n >= 16 && nul >= n * 0.6) {
+      let zeroAt = [0, 0, 0, 0];
+      for (let i = 0; i < n; i++) if (bytes[i] === 0) zeroAt[i & 3]++;
+      zeroAt = zeroAt.map((z) => z / Math.floor(n / 4));
+      const le = zeroAt[0] < 0.2 && zeroAt[1] > 0.8 && zeroAt[2] > 0.8 && zeroAt[3] > 0.8;
+      const be = zeroAt[3] < 0.2 && zeroAt[0] > 0.8 && zeroAt[1] > 0.8 && zeroAt[2] > 0.8;
+      if (le || be) return `It looks like UTF-32${le ? 'LE' : 'BE'} text without a byte-order mark, which cannot be told apart from binary data safely.`;
+    }
     // UTF-16 text of mostly ASCII characters has a zero in every other byte.
     if (nul >= n * 0.3 && (nulEven > nul * 0.9 || nulEven < nul * 0.1)) {
       return 'It looks like UTF-16 text without a byte-order mark, which cannot be told apart from binary data safely.';
@@ -204,6 +226,27 @@ export function latin1Decode(bytes: Uint8Array): string {
   return codeUnitsToString(units, bytes.length);
 }
 
+function utf32Decode(bytes: Uint8Array, littleEndian: boolean): { text: string; bad: number } {
+  const count = Math.floor(bytes.length / 4);
+  const units = new Uint16Array(count * 2);
+  let u = 0, bad = 0;
+  for (let i = 0; i < count; i++) {
+    const o = 4 * i;
+    const cp = littleEndian
+      ? (bytes[o] | (bytes[o + 1] << 8) | (bytes[o + 2] << 16) | (bytes[o + 3] << 24)) >>> 0
+      : ((bytes[o] << 24) | (bytes[o + 1] << 16) | (bytes[o + 2] << 8) | bytes[o + 3]) >>> 0;
+    if (cp > 0x10ffff || (cp >= 0xd800 && cp <= 0xdfff)) { units[u++] = 0xfffd; bad++; continue; }
+    if (cp >= 0x10000) {
+      const c = cp - 0x10000;
+      units[u++] = 0xd800 + (c >> 10);
+      units[u++] = 0xdc00 + (c & 0x3ff);
+    } else {
+      units[u++] = cp;
+    }
+  }
+  return { text: codeUnitsToString(units, u), bad };
+}
+
 function utf16Decode(bytes: Uint8Array, littleEndian: boolean): string {
   const count = Math.floor(bytes.length / 2);
   const units = new Uint16Array(count);
@@ -237,6 +280,16 @@ export function decodeText(bytes: Uint8Array): DecodedText {
     if (inner.encoding === 'UTF-8') return { ...inner, encoding: 'UTF-8 with byte-order mark' };
     return inner;
   }
+  // UTF-32 first: its little-endian mark begins with the UTF-16 one (Unicode Standard, 23.8).
+  if (startsWith(bytes, [0xff, 0xfe, 0x00, 0x00]) || startsWith(bytes, [0x00, 0x00, 0xfe, 0xff])) {
+    const little = bytes[0] === 0xff;
+    const encoding = little ? 'UTF-32LE' : 'UTF-32BE';
+    const { text, bad } = utf32Decode(bytes.subarray(4), little);
+    const notices = [`The file is ${encoding} text (it starts with a byte-order mark); it was decoded as such.`];
+    if (bytes.length % 4 !== 0) notices.push(`The file's length is not a whole number of 4-byte characters, so its last ${bytes.length % 4} byte(s) were ignored.`);
+    if (bad > 0) notices.push(`${bad} value(s) are not Unicode characters and were replaced by “�”.`);
+    return { text, encoding, notices };
+  }
   if (startsWith(bytes, [0xff, 0xfe]) || startsWith(bytes, [0xfe, 0xff])) {
     const little = bytes[0] === 0xff;
     const encoding = little ? 'UTF-16LE' : 'UTF-16BE';
@@ -263,5 +316,50 @@ export function decodeText(bytes: Uint8Array): DecodedText {
       `The file is not valid UTF-8 (first bad byte at line ${lineOfByte(bytes, bad)}), so it was read as Latin-1 (ISO 8859-1). ` +
         'Check that names and units with accents or symbols such as ° look right; saving the file as UTF-8 avoids the guess.',
     ],
+  };
+}
+
+/** True when the bytes start with a UTF-16 or UTF-32 byte-order mark (such text has NUL bytes, yet is text). */
+export function hasWideTextMark(bytes: Uint8Array): boolean {
+  return startsWith(bytes, [0xff, 0xfe]) || startsWith(bytes, [0xfe, 0xff]) || startsWith(bytes, [0x00, 0x00, 0xfe, 0xff]);
+}
+
+/**
+ * The first line longer than `limit` bytes, or null. Lines end at LF, CR LF
+ * or a lone CR, numbered from 1 as the loaders number them. Uses the
+ * native byte search, so a 400 MB file is scanned in well under a second.
+ */
+export function overlongLine(bytes: Uint8Array, limit: number = MAX_LINE_BYTES): { line: number; start: number; length: number } | null {
+  const n = bytes.length;
+  if (n <= limit) return null;
+  let pos = 0, line = 1;
+  let nextLf = -2, nextCr = -2;
+  while (pos < n) {
+    if (nextLf !== -1 && nextLf < pos) nextLf = bytes.indexOf(10, pos);
+    if (nextCr !== -1 && nextCr < pos) nextCr = bytes.indexOf(13, pos);
+    let end: number, after: number;
+    if (nextCr !== -1 && (nextLf === -1 || nextCr < nextLf)) { end = nextCr; after = nextLf === nextCr + 1 ? nextCr + 2 : nextCr + 1; }
+    else if (nextLf !== -1) { end = nextLf; after = nextLf + 1; }
+    else { end = n; after = n; }
+    if (end - pos > limit) return { line, start: pos, length: end - pos };
+    pos = after;
+    line++;
+  }
+  return null;
+}
+
+/** A load problem for a line over {@link MAX_LINE_BYTES}, or null. */
+export function overlongLineProblem(bytes: Uint8Array, fileName: string, limit: number = MAX_LINE_BYTES): LoadProblem | null {
+  const long = overlongLine(bytes, limit);
+  if (!long) return null;
+  const mb = (v: number) => `${(v / 1048576).toFixed(v < 10 * 1048576 ? 1 : 0)} MB`;
+  const whole = long.line === 1 && long.length === bytes.length;
+  return {
+    fileName,
+    line: long.line,
+    problem: whole
+      ? `The file has no line break at all: its ${mb(bytes.length)} are one single line, and a table needs one row per line.`
+      : `Line ${long.line} is longer than ${mb(limit)} (it runs for ${mb(long.length)} without a line break); a table needs one row per line.`,
+    advice: 'Check that this is the exported table and not a file in another form; save it with one row of values per line (the page reads LF, CR LF and CR line ends) and load it again.',
   };
 }

@@ -25,6 +25,21 @@ export interface LoadReport {
   metadata: Record<string, string>;
   /** Column headers as read (for choosing x and y), with units parsed out. */
   columns?: { name: string; unit: string }[];
+  /**
+   * Choices the loader made that the file itself does not settle. The page
+   * states them as notices too; the command line refuses the file and names
+   * the option that settles it.
+   */
+  questions?: LoadQuestion[];
+}
+
+/** A choice the file does not settle: 'number-format' (delimiter and decimal sign) or 'columns' (which columns are traces). */
+export interface LoadQuestion {
+  kind: 'number-format' | 'columns';
+  /** 1-based line the question is about, when there is one. */
+  line?: number;
+  /** The reading used and the other one, in words. */
+  message: string;
 }
 
 export interface LoadProblem {
@@ -35,6 +50,8 @@ export interface LoadProblem {
   problem: string;
   /** What the user can do about it. */
   advice: string;
+  /** When one statement of the user settles the problem: the words to offer and the option that says it. */
+  settle?: { label: string; numberFormat: { decimal: '.' | ','; grouping: boolean } };
 }
 
 export type LoadResult =
@@ -47,8 +64,21 @@ export interface LoadOptions {
   xColumn?: number;
   /** 0-based column indices loaded as y traces. Default: every numeric column but x. */
   yColumns?: number[];
+  /**
+   * Read delimited text only with this delimiter and/or decimal sign
+   * (the command line's --delimiter and --decimal); default: decided from the file.
+   */
+  dialect?: { delimiter?: ',' | ';' | '\t' | 'whitespace'; decimal?: '.' | ',' };
   /** Called with a fraction 0..1 while parsing large files. */
   onProgress?: (fraction: number) => void;
+  /**
+   * How numbers are written, when the user states it (delimited text only):
+   * the decimal sign, and whether the other sign groups thousands. Settles a
+   * file the loader would otherwise refuse as ambiguous ("1.100" with a
+   * decimal comma). Without it the loader decides from the file and refuses
+   * what it cannot settle.
+   */
+  numberFormat?: { decimal: '.' | ','; grouping: boolean };
   /**
    * SHA-256 of exactly these bytes (64 lower-case hex characters), already
    * made by the caller, e.g. with the platform's native digest
@@ -63,6 +93,12 @@ export function givenSha256(options: LoadOptions | undefined): string | null {
   const h = options?.sha256;
   return typeof h === 'string' && /^[0-9a-f]{64}$/.test(h) ? h : null;
 }
+
+/** Most traces one file gives (columns of y); a wider file loads its first ones and says so. */
+export const MAX_Y_COLUMNS = 200;
+
+/** Longest line read, in bytes: a longer one (a file without line breaks, say) is refused at once, naming the line. */
+export const MAX_LINE_BYTES = 8 * 1024 * 1024;
 
 /** Largest file the page accepts, in bytes; bigger files are refused with a message. */
 export const MAX_FILE_BYTES = 400 * 1024 * 1024;

@@ -72,6 +72,7 @@ export function subtractBlank(sample: Signal, blank: Signal, scale = 1): { y: Fl
 
 export const blankSubtractionStep: StepDefinition<BlankSubtractionParams> = {
   id: 'blank-subtraction',
+  linear: true,
   label: 'Subtract blank',
   summary:
     'Subtracts the trace you marked as blank, times a scale factor, from the signal point by point. ' +

@@ -38,6 +38,7 @@ function sameValues(a: Float64Array, b: Float64Array): boolean {
 
 export const ensembleAverageStep: StepDefinition<EnsembleAverageParams> = {
   id: 'ensemble-average',
+  linear: true,
   label: 'Average repeated scans',
   summary:
     'Replaces the signal by the point-by-point mean of itself and every trace you marked as a repeated scan, on the signal\'s x values. ' +

@@ -135,6 +135,7 @@ function bad(v: unknown): boolean {
 /** The frequency-filter step. */
 export const frequencyFilterStep: StepDefinition<FrequencyFilterParams> = {
   id: 'frequency-filter',
+  linear: true,
   label: 'Frequency filter',
   summary:
     'Takes the trace apart into sine waves, turns down the frequencies chosen and puts it back together: a low-pass keeps slow changes and removes fast noise, a notch removes one narrow band such as mains hum at 50 or 60 Hz and its multiples. ' +

@@ -188,6 +188,7 @@ export type MovingAverageParams = {
 /** The moving-average step. */
 export const movingAverageStep: StepDefinition<MovingAverageParams> = {
   id: 'moving-average',
+  linear: true,
   label: 'Moving average',
   summary:
     'Replaces each point by the plain mean of the odd-sized window centred on it, which cuts random noise by about the square root of the window. ' +

@@ -52,6 +52,7 @@ export type SavitzkyGolayParams = {
 /** The Savitzky–Golay step. */
 export const savitzkyGolayStep: StepDefinition<SavitzkyGolayParams> = {
   id: 'savitzky-golay',
+  linear: true,
   label: 'Savitzky–Golay',
   summary:
     'Fits a polynomial by least squares to the window around each point and replaces the point by the fitted value (or its first or second derivative). ' +

@@ -68,6 +68,14 @@ export interface StepDefinition<P extends StepParams = StepParams> {
   readonly defaults: P;
   /** True when the step assumes evenly spaced x. */
   readonly needsEvenSpacing?: boolean;
+  /**
+   * True when the output is an affine function of the input's y (and of the
+   * blank's and scans' y) on the input's own x grid, whatever the parameters:
+   * noise then passes exactly through the step's impulse response
+   * (src/core/measure/noise-carry.ts). Leave unset for anything that decides
+   * from the data (thresholds, weights, fitted orders) or changes the grid.
+   */
+  readonly linear?: boolean;
   /** Explain in words what is wrong with these parameters for this input, or null. */
   validate(params: P, input: Signal, ctx: StepContext): string | null;
   /** Pure: returns new arrays, never changes input. Call only when validate returned null. */

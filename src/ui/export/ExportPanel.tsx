@@ -1,17 +1,20 @@
 import { useRef, useState } from 'react';
 import Plotly from 'plotly.js-strict-dist-min';
-import { runBatch, zipBaseName, type BatchError, type BatchProgress } from '../../core/export/batch.ts';
+import { runBatch, type BatchError, type BatchProgress } from '../../core/export/batch.ts';
+import { zipBaseName } from '../../core/export/names.ts';
 import { cleanedTraceCsv, recipeOneLine } from '../../core/export/cleaned-csv.ts';
 import { peakTableCsv, peakTableTsv } from '../../core/export/peak-csv.ts';
 import { reportHtml, type ExportConfirmation, type LossLedgerLike } from '../../core/export/report-html.ts';
 import { CAUTION, TOOL_LABEL } from '../../core/export/version.ts';
 import type { CsvDecimal, CsvDelimiter } from '../../core/io/csv-write.ts';
 import { jcampFromTrace } from '../../core/io/jcamp-write.ts';
-import { parseRecipeText, recipeToJson } from '../../core/recipe.ts';
+import { analysisOf, parseRecipeText, recipeStepsOnly, recipeToJson, recipeWithAnalysis } from '../../core/recipe.ts';
 import { STEP_REGISTRY } from '../../core/steps/registry.ts';
 import { useApp } from '../../state/store.ts';
 import { downloadBlob, downloadCsv, downloadText } from './download.ts';
-import { clearSession } from './session-db.ts';
+import { clearSession, SESSION_UNDO_STEPS } from './session-db.ts';
+import { SessionFileControls } from './SessionFileControls.tsx';
+import { markDrawn } from '../draw-health.ts';
 
 type Guarded = 'cleaned' | 'peaks' | 'report';
 
@@ -39,7 +42,15 @@ function stamp(d: Date): string {
 export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props) {
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
-  const recipe = useApp((s) => s.recipe);
+  const stack = useApp((s) => s.recipe);
+  const noiseSettings = useApp((s) => s.noiseSettings);
+  const peakSettings = useApp((s) => s.peakSettings);
+  // The method as saved and written into every export: the steps and the analysis settings.
+  const recipe = recipeWithAnalysis(stack, noiseSettings, peakSettings);
+  const sessionProblem = useApp((s) => s.sessionProblem);
+  const savedAt = useApp((s) => s.sessionSavedAt);
+  const savePending = useApp((s) => s.sessionPending);
+  const offlineReady = useApp((s) => s.offlineReady);
   const [delimiter, setDelimiter] = useState<CsvDelimiter>(',');
   const [decimal, setDecimal] = useState<CsvDecimal>('.');
   const [pending, setPending] = useState<Guarded | null>(null);
@@ -59,7 +70,7 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
   const fail = (what: string, e: unknown) => notify('error', `${what} could not be made`, [e instanceof Error ? e.message : String(e)]);
   const figureElement = (): HTMLElement | null => getFigure?.() ?? figure ?? document.querySelector<HTMLElement>('[data-testid="figure"]');
 
-  const exportNow = async (kind: Guarded, confirmed: ExportConfirmation | null) => {
+  const exportNow = (kind: Guarded, confirmed: ExportConfirmation | null) => {
     if (!sample || !result) return;
     const now = new Date();
     try {
@@ -68,12 +79,8 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
       } else if (kind === 'peaks') {
         downloadCsv(peakTableCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: { delimiter, decimal }, now }), `${stem}-peaks.csv`);
       } else {
-        let main: string | undefined;
-        const el = figureElement();
-        if (el) {
-          try { main = await Plotly.toImage(el, { format: 'svg', width: 1100, height: 560 }); } catch { main = undefined; }
-        }
-        const html = reportHtml({ trace: sample, result, recipe, registry: STEP_REGISTRY, ledger: ledgerOut, confirmation: confirmed, plotImages: { main }, now });
+        // The plots are drawn by the core, as in the command line's report.
+        const html = reportHtml({ trace: sample, result, recipe, registry: STEP_REGISTRY, ledger: ledgerOut, confirmation: confirmed, now });
         downloadText(html, `${stem}-report.html`, 'text/html;charset=utf-8');
       }
     } catch (e) {
@@ -83,7 +90,7 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
 
   const request = (kind: Guarded) => {
     if (losses.length > 0) { setPending(kind); return; }
-    void exportNow(kind, null);
+    exportNow(kind, null);
   };
 
   const confirmPending = () => {
@@ -92,7 +99,7 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
     setConfirmation(c);
     const kind = pending;
     setPending(null);
-    void exportNow(kind, c);
+    exportNow(kind, c);
   };
 
   const exportJcamp = () => {
@@ -132,8 +139,17 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
       notify('error', `${file.name}: the recipe was not loaded`, [...check.problems, 'The current step stack is unchanged.']);
       return;
     }
-    useApp.getState().replaceRecipe(check.recipe);
-    notify('info', `Recipe loaded from ${file.name}`, [`${check.recipe.steps.length} step(s). Undo (Ctrl+Z) brings back the previous stack.`]);
+    const st = useApp.getState();
+    const analysis = analysisOf(check.recipe);
+    st.replaceRecipe(recipeStepsOnly(check.recipe));
+    st.setNoiseSettings(analysis.noise);
+    st.setPeakSettings(analysis.peaks);
+    notify('info', `Recipe loaded from ${file.name}`, [
+      `${check.recipe.steps.length} step(s). Undo (Ctrl+Z) brings back the previous stack.`,
+      check.recipe.analysis
+        ? 'The noise and peak settings saved with it are in use (undo does not bring back the earlier ones).'
+        : 'The file holds no noise and peak settings (saved before they were kept), so the defaults are in use (undo does not bring back the earlier ones).',
+    ]);
   };
 
   const startBatch = async (list: File[]) => {
@@ -160,6 +176,7 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
   const startOver = async () => {
     const r = await clearSession();
     if (!r.ok) { notify('error', 'Could not start over', [r.problem]); return; }
+    markDrawn();
     window.location.reload();
   };
 
@@ -230,6 +247,15 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
           <ul className="small">{batchErrors.map((e, i) => <li key={i}><strong>{e.file}</strong>: {e.message}</li>)}</ul>
         </div>
       )}
+      <div className="row" style={{ margin: "6px 0" }}>
+        <SessionFileControls />
+        <span className="small muted" data-testid="session-status" data-pending={savePending ? 'true' : 'false'}>
+          {sessionProblem ? 'Session: not kept in this browser (see the message at the top); save it to a file.'
+            : savedAt ? `Session: kept in this browser, last saved ${new Date(savedAt).toLocaleTimeString()}${savePending ? ' (saving the latest changes…)' : ''}, with the last ${SESSION_UNDO_STEPS} undo steps.`
+              : 'Session: not saved yet.'}
+          {offlineReady ? ' The page also opens without its server (a copy is kept in this browser).' : ''}
+        </span>
+      </div>
       <div className="row" style={{ margin: "6px 0" }}>
         {askStartOver ? (
           <>

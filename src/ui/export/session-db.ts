@@ -1,7 +1,20 @@
 /**
- * The session kept in IndexedDB so a reload or a crash loses nothing: the
+ * The session kept in the browser so a reload or a crash loses nothing: the
  * loaded traces (their x and y in chunks), roles, the sample, load reports,
- * the recipe, noise and peak settings, and the hand decisions on peaks.
+ * the recipe with the last {@link SESSION_UNDO_STEPS} undo and redo steps,
+ * noise settings (with the quiet range), peak settings, the hand decisions
+ * on peaks and the alternatives.
+ *
+ * Two stores, because an edit made just before a reload must survive it:
+ * * IndexedDB holds everything (below). Its writes are asynchronous, and a
+ *   transaction still open when the page goes away is not guaranteed to
+ *   finish, so it alone would lose the last edit.
+ * * A journal in localStorage holds the small parts (everything but the
+ *   traces and load reports). It is written at most
+ *   {@link JOURNAL_DELAY_MS} after each edit and synchronously on
+ *   `pagehide` and on `visibilitychange` to hidden, so the last edit is
+ *   on disk before the page is gone. On restore the journal wins over the
+ *   IndexedDB generation when it is at least as new.
  *
  * Safety of what is already saved: a save writes a new generation (its
  * description plus any trace chunks not stored yet) in one transaction,
@@ -18,7 +31,7 @@
 import { deleteDB, openDB, type IDBPDatabase } from 'idb';
 import type { AlternativeRequest, NoiseSettings, PeakSettings } from '../../core/analyse.ts';
 import type { LoadReport } from '../../core/io/types.ts';
-import type { PeakDecisions } from '../../core/peaks.ts';
+import type { PeakDecisions } from '../../core/measure/peak-types.ts';
 import { emptyRecipe, validateRecipe, type Recipe, type Registry } from '../../core/recipe.ts';
 import { STEP_REGISTRY } from '../../core/steps/registry.ts';
 import { createTrace, type Trace, type TraceRole, type TraceSource } from '../../core/trace.ts';
@@ -26,10 +39,22 @@ import type { AppState } from '../../state/store.ts';
 
 export const SESSION_FORMAT = 'tracewright-session';
 export const SESSION_VERSION = 1;
-/** Values per stored chunk (8 MB of doubles): large traces are split so no single record is huge. */
-export const SESSION_CHUNK = 2 ** 20;
+/**
+ * Values per stored chunk (1 MB of doubles). Storing a record copies it on
+ * the page's thread: 8 MB records took 0.2-0.4 s each on a busy machine
+ * with a 50 MB file, 1 MB records take a few tens of milliseconds, so the
+ * page stays responsive while a big trace is kept. Sessions stored with
+ * another chunk size are read by the size their heads state.
+ */
+export const SESSION_CHUNK = 2 ** 17;
 /** Skipped-row entries kept per load report (the full list was shown when the file was loaded). */
 export const SESSION_MAX_SKIPPED = 1000;
+/** Undo steps (and redo steps) kept with the session; the page itself keeps more while open. */
+export const SESSION_UNDO_STEPS = 50;
+/** Longest wait between an edit and the journal write (the journal is also written at once when the page is hidden). */
+export const JOURNAL_DELAY_MS = 150;
+/** localStorage key of the journal. */
+export const JOURNAL_KEY = 'tracewright-session-journal';
 
 const DB_NAME = 'tracewright-session';
 const DB_VERSION = 1;
@@ -46,6 +71,9 @@ export interface SessionSnapshot {
   decisions: PeakDecisions;
   /** Alternative stacks kept for the loss check. */
   alternatives: AlternativeRequest[];
+  /** Undo history (oldest first) and redo steps (next first). */
+  past: Recipe[];
+  future: Recipe[];
 }
 
 /** A trace without its numbers. */
@@ -88,6 +116,31 @@ export interface SessionMeta {
   decisions: PeakDecisions;
   /** Absent in sessions saved before alternatives were kept. */
   alternatives?: { id: string; label: string; recipe: unknown }[];
+  /** Undo and redo steps (at most {@link SESSION_UNDO_STEPS} each); absent in older sessions. */
+  past?: unknown[];
+  future?: unknown[];
+  /** When the page state was taken (ms since 1970); absent in older sessions. */
+  takenAt?: number;
+}
+
+/** The small parts of a session, written to localStorage on every edit. */
+export interface SessionJournal {
+  format: 'tracewright-session-journal';
+  version: number;
+  /** When the page state was taken (ms since 1970). */
+  takenAt: number;
+  /** Ids of the traces the state refers to (their numbers are in IndexedDB). */
+  traceIds: string[];
+  traceNames: string[];
+  roles: Record<string, TraceRole>;
+  sampleId: string | null;
+  recipe: unknown;
+  past: unknown[];
+  future: unknown[];
+  noiseSettings: NoiseSettings;
+  peakSettings: PeakSettings;
+  decisions: PeakDecisions;
+  alternatives: { id: string; label: string; recipe: unknown }[];
 }
 
 export type SessionProblem = { ok: false; problem: string };
@@ -99,7 +152,59 @@ export function snapshotOf(state: Pick<AppState, keyof SessionSnapshot>): Sessio
   return {
     traces: state.traces, roles: state.roles, sampleId: state.sampleId, reports: state.reports,
     recipe: state.recipe, noiseSettings: state.noiseSettings, peakSettings: state.peakSettings, decisions: state.decisions,
-    alternatives: state.alternatives,
+    alternatives: state.alternatives, past: state.past, future: state.future,
+  };
+}
+
+function plainRecipe(r: Recipe): unknown {
+  return JSON.parse(JSON.stringify(r)) as unknown;
+}
+
+/** The undo and redo steps as kept: the newest {@link SESSION_UNDO_STEPS} of each. */
+function keptHistory(snapshot: Pick<SessionSnapshot, 'past' | 'future'>): { past: unknown[]; future: unknown[] } {
+  return {
+    past: (snapshot.past ?? []).slice(-SESSION_UNDO_STEPS).map(plainRecipe),
+    future: (snapshot.future ?? []).slice(0, SESSION_UNDO_STEPS).map(plainRecipe),
+  };
+}
+
+/** The journal of a snapshot (no trace numbers, no load reports). */
+export function sessionJournal(snapshot: SessionSnapshot, takenAt: number): SessionJournal {
+  return {
+    format: 'tracewright-session-journal', version: SESSION_VERSION, takenAt,
+    traceIds: snapshot.traces.map((t) => t.id), traceNames: snapshot.traces.map((t) => t.name),
+    roles: { ...snapshot.roles }, sampleId: snapshot.sampleId, recipe: plainRecipe(snapshot.recipe), ...keptHistory(snapshot),
+    noiseSettings: { ...snapshot.noiseSettings }, peakSettings: { ...snapshot.peakSettings },
+    decisions: { added: [...snapshot.decisions.added], removed: [...snapshot.decisions.removed] },
+    alternatives: snapshot.alternatives.map((a) => ({ id: a.id, label: a.label, recipe: plainRecipe(a.recipe) })),
+  };
+}
+
+/**
+ * The meta record to restore: the IndexedDB generation with the journal's
+ * small parts laid over it when the journal is at least as new. Traces the
+ * journal names but the generation does not hold (loaded just before the
+ * page closed, before their numbers were stored) are named in a note.
+ */
+export function mergeJournal(meta: SessionMeta, journal: SessionJournal | null): { meta: SessionMeta; notes: string[] } {
+  if (!journal || journal.format !== 'tracewright-session-journal' || journal.version > SESSION_VERSION) return { meta, notes: [] };
+  if (typeof journal.takenAt !== 'number' || journal.takenAt < (meta.takenAt ?? 0)) return { meta, notes: [] };
+  const held = new Set(meta.heads.map((h) => h.id));
+  const notes: string[] = [];
+  const missing = (journal.traceNames ?? []).filter((_, i) => !held.has(journal.traceIds[i]));
+  if (missing.length) notes.push(`Not stored before the page closed, so load again: ${missing.join(', ')}.`);
+  // The journal's sample was never stored: the stored generation's sample and roles stay, so a trace is still processed.
+  const sampleStored = journal.sampleId === null || held.has(journal.sampleId);
+  if (!sampleStored && meta.sampleId) notes.push('The sample from the stored session is processed instead, until the missing file is loaded again.');
+  return {
+    notes,
+    meta: {
+      ...meta,
+      takenAt: journal.takenAt,
+      roles: sampleStored ? journal.roles : meta.roles, sampleId: sampleStored ? journal.sampleId : meta.sampleId,
+      recipe: journal.recipe, past: journal.past, future: journal.future,
+      noiseSettings: journal.noiseSettings, peakSettings: journal.peakSettings, decisions: journal.decisions, alternatives: journal.alternatives,
+    },
   };
 }
 
@@ -124,14 +229,20 @@ export function traceHead(trace: Trace, chunkSize: number = SESSION_CHUNK): Trac
  * underlying buffer with every chunk). The trace is only read.
  */
 export function traceToRecords(trace: Trace, chunkSize: number = SESSION_CHUNK): { head: TraceHead; chunks: ChunkRecord[] } {
+  return { head: traceHead(trace, chunkSize), chunks: [...traceChunks(trace, chunkSize)] };
+}
+
+/**
+ * The chunks of a trace one at a time, each copied only when asked for, so
+ * saving a 50 MB trace does not copy it all in one task of the page.
+ */
+export function* traceChunks(trace: Trace, chunkSize: number = SESSION_CHUNK): Generator<ChunkRecord> {
   const head = traceHead(trace, chunkSize);
   const n = head.length, count = head.chunks;
-  const chunks: ChunkRecord[] = [];
   for (const axis of ['x', 'y'] as const) {
     const a = trace[axis];
-    for (let k = 0; k < count; k++) chunks.push({ key: [trace.id, axis, k], data: a.slice(k * chunkSize, Math.min(n, (k + 1) * chunkSize)) });
+    for (let k = 0; k < count; k++) yield { key: [trace.id, axis, k], data: a.slice(k * chunkSize, Math.min(n, (k + 1) * chunkSize)) };
   }
-  return { head, chunks };
 }
 
 /**
@@ -162,17 +273,19 @@ function trimReport(r: LoadReport): LoadReport {
 }
 
 /** The meta record of a snapshot (trace heads, no numbers). */
-export function sessionMeta(snapshot: SessionSnapshot, generation: number, savedAt: Date, chunkSize: number = SESSION_CHUNK): SessionMeta {
+export function sessionMeta(snapshot: SessionSnapshot, generation: number, savedAt: Date, chunkSize: number = SESSION_CHUNK, takenAt: number = savedAt.getTime()): SessionMeta {
   const heads = snapshot.traces.map((t) => traceHead(t, chunkSize));
   const reports: Record<string, LoadReport> = {};
   for (const [id, r] of Object.entries(snapshot.reports)) if (heads.some((h) => h.id === id)) reports[id] = trimReport(r);
   return {
     format: SESSION_FORMAT, version: SESSION_VERSION, generation, savedAt: savedAt.toISOString(), heads,
     roles: { ...snapshot.roles }, sampleId: snapshot.sampleId, reports,
-    recipe: JSON.parse(JSON.stringify(snapshot.recipe)) as unknown,
+    recipe: plainRecipe(snapshot.recipe),
     noiseSettings: { ...snapshot.noiseSettings }, peakSettings: { ...snapshot.peakSettings },
     decisions: { added: [...snapshot.decisions.added], removed: [...snapshot.decisions.removed] },
-    alternatives: snapshot.alternatives.map((a) => ({ id: a.id, label: a.label, recipe: JSON.parse(JSON.stringify(a.recipe)) as unknown })),
+    alternatives: snapshot.alternatives.map((a) => ({ id: a.id, label: a.label, recipe: plainRecipe(a.recipe) })),
+    ...keptHistory(snapshot),
+    takenAt,
   };
 }
 
@@ -209,11 +322,22 @@ export function sessionFromRecords(meta: SessionMeta, getChunk: (key: ChunkKey) 
     if (c.ok && typeof a.id === 'string' && typeof a.label === 'string') alternatives.push({ id: a.id, label: a.label, recipe: c.recipe });
     else notes.push(`The saved alternative “${String(a.label)}” could not be restored and was left out.`);
   }
+  const history = (list: unknown[] | undefined): Recipe[] => {
+    const out: Recipe[] = [];
+    for (const r of Array.isArray(list) ? list : []) {
+      const c = validateRecipe(r, registry);
+      if (c.ok) out.push(c.recipe);
+    }
+    if (Array.isArray(list) && out.length < list.length) notes.push(`${list.length - out.length} undo step(s) no longer fit this version of the page and were dropped.`);
+    return out;
+  };
+  const past = history(meta.past);
+  const future = history(meta.future);
   return {
     ok: true,
     notes,
     snapshot: {
-      alternatives,
+      alternatives, past, future,
       traces, roles, reports, recipe,
       sampleId: meta.sampleId && ids.has(meta.sampleId) ? meta.sampleId : null,
       noiseSettings: meta.noiseSettings, peakSettings: meta.peakSettings,
@@ -253,25 +377,34 @@ function db(): Promise<IDBPDatabase> {
   return dbPromise;
 }
 
+function hasIndexedDb(): boolean {
+  try {
+    return typeof indexedDB !== 'undefined' && indexedDB !== null;
+  } catch {
+    return false;
+  }
+}
+
 /**
  * Save the session as a new generation, then switch the pointer to it and
  * remove what only older generations used. Never throws: problems come back
  * as a value.
+ * @param takenAt when the state was taken from the page (ms); compared with the journal's on restore.
  */
-export async function saveSession(state: SessionSnapshot): Promise<SaveOutcome> {
+export async function saveSession(state: SessionSnapshot, takenAt: number = Date.now()): Promise<SaveOutcome> {
   if (stopped) return { ok: false, problem: 'The session was cleared; nothing is saved until the page reloads.' };
-  if (typeof indexedDB === 'undefined') return { ok: false, problem: 'This browser keeps no local database, so the session cannot be saved.' };
+  if (!hasIndexedDb()) return { ok: false, problem: 'This browser keeps no local database here (a private window, or storage switched off), so the session cannot be kept for the next visit.' };
   try {
     const d = await db();
     const pointer = (await d.get('meta', 'pointer')) as { generation: number } | undefined;
     const generation = (pointer?.generation ?? 0) + 1;
-    const meta = sessionMeta(state, generation, new Date());
+    const meta = sessionMeta(state, generation, new Date(), SESSION_CHUNK, takenAt);
     const tx = d.transaction(['meta', 'chunks'], 'readwrite');
     const store = tx.objectStore('chunks');
     for (let i = 0; i < meta.heads.length; i++) {
       // Traces never change, so a trace whose last chunk is stored is stored whole.
       if (await store.getKey(lastChunkKey(meta.heads[i]))) continue;
-      for (const c of traceToRecords(state.traces[i]).chunks) await store.put(c.data, c.key);
+      for (const c of traceChunks(state.traces[i])) await store.put(c.data, c.key);
     }
     await tx.objectStore('meta').put(meta, `gen-${generation}`);
     await tx.done;
@@ -291,18 +424,29 @@ export async function saveSession(state: SessionSnapshot): Promise<SaveOutcome> 
   }
 }
 
-/** The saved session, null when there is none, or a problem. Never throws. */
+/** True when IndexedDB holds a saved session (without reading it). Never throws. */
+export async function hasSavedSession(): Promise<boolean> {
+  if (!hasIndexedDb()) return false;
+  try {
+    const d = await db();
+    return (await d.get('meta', 'pointer')) !== undefined;
+  } catch {
+    return false;
+  }
+}
+
+/** The saved session (the journal laid over the last generation), null when there is none, or a problem. Never throws. */
 export async function loadSession(): Promise<LoadOutcome> {
-  if (typeof indexedDB === 'undefined') return null;
+  if (!hasIndexedDb()) return null;
   try {
     const d = await db();
     const pointer = (await d.get('meta', 'pointer')) as { generation: number } | undefined;
     if (!pointer) return null;
-    const meta = (await d.get('meta', `gen-${pointer.generation}`)) as SessionMeta | undefined;
-    if (!meta) return { ok: false, problem: 'The saved session is incomplete and was not restored.' };
+    const stored = (await d.get('meta', `gen-${pointer.generation}`)) as SessionMeta | undefined;
+    if (!stored) return { ok: false, problem: 'The saved session is incomplete and was not restored.' };
     const tx = d.transaction('chunks', 'readonly');
     const found = new Map<string, Float64Array>();
-    for (const h of meta.heads) {
+    for (const h of stored.heads) {
       for (const axis of ['x', 'y'] as const) {
         for (let k = 0; k < h.chunks; k++) {
           const data = (await tx.store.get([h.id, axis, k])) as Float64Array | undefined;
@@ -311,19 +455,61 @@ export async function loadSession(): Promise<LoadOutcome> {
       }
     }
     await tx.done;
-    return sessionFromRecords(meta, (key) => found.get(key.join('\u0000')));
+    const merged = mergeJournal(stored, readJournal());
+    const out = sessionFromRecords(merged.meta, (key) => found.get(key.join('\u0000')));
+    if (out && out.ok) out.notes.push(...merged.notes);
+    return out;
   } catch (e) {
     return storageProblem(e, 'load');
   }
 }
 
-/** Empty the session database and stop any further saving (call before reloading the page). */
+// ---------------------------------------------------------------------------
+// The journal (localStorage)
+
+function localStore(): Storage | null {
+  try {
+    return typeof localStorage === 'undefined' ? null : localStorage;
+  } catch {
+    return null;
+  }
+}
+
+/** Write the journal synchronously. Never throws. */
+export function writeJournal(journal: SessionJournal): { ok: true } | SessionProblem {
+  if (stopped) return { ok: true };
+  const s = localStore();
+  if (!s) return { ok: false, problem: 'This browser refuses the page its small local store (a private window, or storage switched off), so edits made just before closing the page may be lost.' };
+  try {
+    s.setItem(JOURNAL_KEY, JSON.stringify(journal));
+    return { ok: true };
+  } catch (e) {
+    return storageProblem(e, 'save');
+  }
+}
+
+/** The journal, or null when there is none or it cannot be read. */
+export function readJournal(): SessionJournal | null {
+  try {
+    const raw = localStore()?.getItem(JOURNAL_KEY);
+    return raw ? (JSON.parse(raw) as SessionJournal) : null;
+  } catch {
+    return null;
+  }
+}
+
+function clearJournal(): void {
+  try { localStore()?.removeItem(JOURNAL_KEY); } catch { /* nothing to clear */ }
+}
+
+/** Empty the saved session (database and journal) and stop any further saving (call before reloading the page). */
 export async function clearSession(): Promise<{ ok: true } | SessionProblem> {
   stopped = true;
+  clearJournal();
   try {
     if (dbPromise) (await dbPromise).close();
     dbPromise = null;
-    if (typeof indexedDB !== 'undefined') await deleteDB(DB_NAME);
+    if (hasIndexedDb()) await deleteDB(DB_NAME);
     return { ok: true };
   } catch (e) {
     return { ok: false, problem: `The saved session could not be emptied (${(e as Error).message}).` };
@@ -337,46 +523,128 @@ export interface SessionStore {
   subscribe(listener: (state: AppState, prev: AppState) => void): () => void;
 }
 
-const SESSION_KEYS: readonly (keyof SessionSnapshot)[] = ['traces', 'roles', 'sampleId', 'reports', 'recipe', 'noiseSettings', 'peakSettings', 'decisions', 'alternatives'];
+const SESSION_KEYS: readonly (keyof SessionSnapshot)[] = [
+  'traces', 'roles', 'sampleId', 'reports', 'recipe', 'noiseSettings', 'peakSettings', 'decisions', 'alternatives', 'past', 'future',
+];
+
+/** Where the page listens for being hidden or closed (the window in the page; absent in Node tests). */
+export interface PageEvents {
+  addEventListener(type: string, listener: () => void): void;
+  removeEventListener(type: string, listener: () => void): void;
+}
+
+export interface AutosaveOptions {
+  /** Wait after the last edit before the IndexedDB save; 0 when the traces changed. Default 1000 ms. */
+  delayMs?: number;
+  /** Default {@link JOURNAL_DELAY_MS}. */
+  journalDelayMs?: number;
+  /** Default: `window` and `document` when they exist. */
+  page?: { window?: PageEvents; document?: PageEvents & { visibilityState?: string } };
+}
 
 /**
- * Save the session about `delayMs` after the last change to any part it
- * keeps (one save at a time; a change during a save leads to one more).
- * A failed save is reported once in the notices until a save succeeds.
- * When the store already holds traces, a first save is scheduled at once.
+ * Keep the session as the user works. Each edit to a kept part writes the
+ * journal within `journalDelayMs` and the whole session to IndexedDB
+ * `delayMs` after the last edit (at once when traces were loaded or
+ * removed); one IndexedDB save at a time, and an edit during a save leads
+ * to one more. When the page is hidden or closed (`pagehide`,
+ * `visibilitychange` to hidden) the journal is written at once,
+ * synchronously, and a pending IndexedDB save is started.
+ *
+ * A storage problem (no database, quota reached, storage refused) is put in
+ * the store once (`sessionProblem`) and cleared when saving works again;
+ * the page keeps working in memory. Each complete save sets
+ * `sessionSavedAt`; `sessionPending` is true while an edit is not yet in
+ * the database (the journal already holds its small parts).
  * @returns a function that stops the autosave.
  */
-export function startSessionAutosave(store: SessionStore, delayMs = 1000): () => void {
-  let timer: ReturnType<typeof setTimeout> | null = null;
+export function startSessionAutosave(store: SessionStore, options: AutosaveOptions = {}): () => void {
+  const delayMs = options.delayMs ?? 1000;
+  const journalDelayMs = options.journalDelayMs ?? JOURNAL_DELAY_MS;
+  const win = options.page?.window ?? (typeof window !== 'undefined' ? window : undefined);
+  const doc = options.page?.document ?? (typeof document !== 'undefined' ? document : undefined);
+  let saveTimer: ReturnType<typeof setTimeout> | null = null;
+  let journalTimer: ReturnType<typeof setTimeout> | null = null;
+  let journalDirty = false;
   let saving = false;
   let again = false;
-  let reported: string | null = null;
+  let dbProblem: string | null = null;
+  let journalProblem: string | null = null;
+  const publish = () => {
+    if (stopped) return;
+    const problem = dbProblem ?? journalProblem;
+    if (store.getState().sessionProblem !== problem) store.getState().setSessionProblem(problem);
+  };
+  const writeJournalNow = () => {
+    if (journalTimer !== null) { clearTimeout(journalTimer); journalTimer = null; }
+    if (!journalDirty || stopped) return;
+    journalDirty = false;
+    const out = writeJournal(sessionJournal(snapshotOf(store.getState()), Date.now()));
+    journalProblem = out.ok ? null : out.problem;
+    publish();
+  };
   const run = async () => {
-    timer = null;
+    saveTimer = null;
     if (saving) { again = true; return; }
     saving = true;
-    const out = await saveSession(snapshotOf(store.getState()));
+    const taken = store.getState();
+    const out = await saveSession(snapshotOf(taken), Date.now());
     saving = false;
-    if (!out.ok && !stopped && out.problem !== reported) {
-      reported = out.problem;
-      store.getState().notify('warning', 'The session could not be kept for the next visit', [out.problem]);
-    } else if (out.ok) reported = null;
-    if (again) { again = false; schedule(); }
+    if (stopped) return;
+    if (out.ok) {
+      dbProblem = null;
+      store.getState().setSessionSavedAt(new Date().toISOString());
+      // Up to date only when nothing kept changed while saving.
+      const now = store.getState();
+      if (saveTimer === null && !again && SESSION_KEYS.every((k) => now[k] === taken[k])) store.getState().setSessionPending(false);
+    } else {
+      dbProblem = out.problem;
+    }
+    publish();
+    if (again) { again = false; schedule(delayMs); }
   };
-  const schedule = () => {
-    if (timer !== null) clearTimeout(timer);
-    timer = setTimeout(() => { void run(); }, delayMs);
+  const schedule = (wait: number) => {
+    if (saveTimer !== null) clearTimeout(saveTimer);
+    if (!store.getState().sessionPending) store.getState().setSessionPending(true);
+    saveTimer = setTimeout(() => { void run(); }, wait);
   };
   const unsub = store.subscribe((s, prev) => {
     if (stopped) return;
-    if (SESSION_KEYS.some((k) => s[k] !== prev[k])) schedule();
+    if (!SESSION_KEYS.some((k) => s[k] !== prev[k])) return;
+    journalDirty = true;
+    if (journalTimer === null) journalTimer = setTimeout(writeJournalNow, journalDelayMs);
+    schedule(s.traces !== prev.traces ? 0 : delayMs);
   });
+  const flush = () => {
+    if (stopped) return;
+    writeJournalNow();
+    if (saveTimer !== null) { clearTimeout(saveTimer); void run(); }
+  };
+  const onVisibility = () => { if (doc?.visibilityState === 'hidden') flush(); };
+  win?.addEventListener('pagehide', flush);
+  doc?.addEventListener('visibilitychange', onVisibility);
   // Whatever was loaded before the autosave started is kept too.
-  if (store.getState().traces.length > 0) schedule();
+  if (store.getState().traces.length > 0) {
+    journalDirty = true;
+    writeJournalNow();
+    schedule(0);
+  }
   return () => {
     unsub();
-    if (timer !== null) clearTimeout(timer);
+    win?.removeEventListener('pagehide', flush);
+    doc?.removeEventListener('visibilitychange', onVisibility);
+    if (saveTimer !== null) clearTimeout(saveTimer);
+    if (journalTimer !== null) clearTimeout(journalTimer);
   };
+}
+
+/** Put a restored snapshot into the store (the undo history with it). */
+export function applySnapshot(store: SessionStore, s: SessionSnapshot): void {
+  store.setState({
+    traces: s.traces, roles: s.roles, sampleId: s.sampleId, reports: s.reports,
+    recipe: s.recipe, past: s.past, future: s.future,
+    noiseSettings: s.noiseSettings, peakSettings: s.peakSettings, decisions: s.decisions, alternatives: s.alternatives,
+  });
 }
 
 /**
@@ -396,12 +664,8 @@ export async function restoreSession(store: SessionStore): Promise<boolean> {
     if (out.notes.length) store.getState().notify('warning', 'The saved session was not restored', out.notes);
     return false;
   }
-  store.setState({
-    traces: s.traces, roles: s.roles, sampleId: s.sampleId, reports: s.reports,
-    recipe: s.recipe, past: [], future: [],
-    noiseSettings: s.noiseSettings, peakSettings: s.peakSettings, decisions: s.decisions, alternatives: s.alternatives,
-  });
+  applySnapshot(store, s);
   store.getState().notify(out.notes.length ? 'warning' : 'info', 'Your previous session was restored',
-    [`${s.traces.length} trace(s), the step stack and your peak decisions are as you left them. Use “Start over” to empty it.`, ...out.notes]);
+    [`${s.traces.length} trace(s), the step stack with its last ${s.past.length} undo step(s), the quiet range, your peak decisions and the alternatives are as you left them. Use “Start over” to empty it.`, ...out.notes]);
   return true;
 }

@@ -1,0 +1,119 @@
+import { expect, test, type Download, type Page } from '@playwright/test';
+import { execFile } from 'node:child_process';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { buildCli, type BuiltCli } from '../test/cli/build-cli.ts';
+import { openWithDemo } from './helpers.ts';
+
+// The page's exports of the demo, downloaded, against the command line run on the same files with the
+// method the page saved: equal apart from the time stamp line, the byte-order mark and the confirmation.
+
+let built: BuiltCli;
+const work = mkdtempSync(join(tmpdir(), 'tracewright-e2e-cli-'));
+
+test.beforeAll(async () => {
+  test.setTimeout(180_000);
+  built = await buildCli();
+});
+test.afterAll(() => {
+  rmSync(work, { recursive: true, force: true });
+  if (built) rmSync(built.root, { recursive: true, force: true });
+});
+
+async function download(page: Page, testId: string): Promise<{ d: Download; text: string }> {
+  const waiting = page.waitForEvent('download');
+  await page.getByTestId(testId).click();
+  const dialog = page.getByTestId('loss-confirm');
+  if (await dialog.waitFor({ timeout: 1500 }).then(() => true, () => false)) await dialog.getByRole('button', { name: 'Export anyway' }).click();
+  const d = await waiting;
+  return { d, text: readFileSync(await d.path(), 'utf8') };
+}
+
+async function addStep(page: Page, id: string) {
+  await page.selectOption('#add-step-choice', id);
+  await page.getByRole('button', { name: 'Add step' }).click();
+}
+
+/** Wait until no analysis is running (the busy mark is gone and stays gone). */
+async function settled(page: Page) {
+  for (let i = 0; i < 2; i++) {
+    await expect(page.locator('[aria-label="computing"]')).toHaveCount(0, { timeout: 30_000 });
+    await page.waitForTimeout(300);
+  }
+}
+
+function cli(args: string[]): Promise<{ code: number; stderr: string }> {
+  return new Promise((done) => execFile(process.execPath, [built.bin, ...args], { env: { ...process.env } }, (err, _out, stderr) => done({ code: err ? Number(err.code) : 0, stderr })));
+}
+
+const ISO = /\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d{3}Z/g;
+/** A CSV without its byte-order mark and its "Written at" comment line. */
+const csvBody = (text: string) => text.replace(/^\uFEFF/, '').split('\r\n').filter((l) => !l.startsWith('# Written at:')).join('\r\n');
+/** A report without its time stamps and without the user's confirmation block. */
+const reportBody = (html: string) => html.replace(/\n<div class="confirm" data-role="confirmation">[\s\S]*?<\/ul><\/div>/, '').replace(ISO, 'TIME');
+
+test('the command line writes the page\'s exports of the demo, with the method the page saved', async ({ page }) => {
+  test.setTimeout(120_000);
+  await openWithDemo(page);
+  await addStep(page, 'blank-subtraction');
+  await addStep(page, 'savitzky-golay');
+  await page.selectOption('#snr-def', 'pharmacopoeial');
+  await page.locator('#nf-Smallest-S-N-kept').fill('3');
+  await expect(page.getByTestId('peak-table').locator('thead')).toContainText('S/N (2H/h)');
+  await settled(page);
+
+  const method = (await download(page, 'save-recipe')).text;
+  const saved = JSON.parse(method);
+  expect(saved.version).toBe(2);
+  expect(saved.steps.map((s: { step: string }) => s.step)).toEqual(['blank-subtraction', 'savitzky-golay']);
+  expect(saved.analysis.peaks).toMatchObject({ snrDefinition: 'pharmacopoeial', minSnr: 3 });
+  writeFileSync(join(work, 'method.json'), method);
+
+  const cleaned = await download(page, 'export-cleaned-csv');
+  const peaks = await download(page, 'export-peaks-csv');
+  const report = await download(page, 'export-report');
+  expect(cleaned.d.suggestedFilename()).toBe('demo-sample-cleaned.csv');
+  expect(peaks.d.suggestedFilename()).toBe('demo-sample-peaks.csv');
+  expect(report.d.suggestedFilename()).toBe('demo-sample-report.html');
+  for (const [name, d] of [['demo-sample-cleaned.csv', cleaned], ['demo-sample-peaks.csv', peaks], ['demo-sample-report.html', report]] as const) {
+    writeFileSync(join(work, `page-${name}`), d.text);
+  }
+
+  const out = join(work, 'cli');
+  const scans = Array.from({ length: 8 }, (_, i) => ['--scan', `public/demo/demo-scan-${i + 1}.csv`]).flat();
+  const r = await cli(['analyse', 'public/demo/demo-sample.csv', '--blank', 'public/demo/demo-blank.csv', ...scans, '--method', join(work, 'method.json'), '--out', out]);
+  expect(r.code, r.stderr).toBe(0);
+  const mine = (f: string) => readFileSync(join(out, f), 'utf8');
+
+  expect(cleaned.text.startsWith('\uFEFF')).toBe(true);
+  expect(csvBody(mine('demo-sample-cleaned.csv'))).toBe(csvBody(cleaned.text));
+  expect(csvBody(mine('demo-sample-peaks.csv'))).toBe(csvBody(peaks.text));
+  // Only the time stamp lines differ in the CSVs.
+  const diff = (a: string, b: string) => a.split('\r\n').filter((l, i) => l !== b.split('\r\n')[i]);
+  expect(diff(mine('demo-sample-cleaned.csv'), cleaned.text.replace(/^\uFEFF/, ''))).toEqual([expect.stringMatching(/^# Written at: /)]);
+  expect(reportBody(mine('demo-sample-report.html'))).toBe(reportBody(report.text));
+  // The page's report has the core's SVG plots, no picture of the page.
+  expect(report.text).toContain('<svg class="plot"');
+  expect(report.text).not.toMatch(/<img\b/);
+});
+
+test('a method file loads its analysis settings into the page; a file without them brings the defaults', async ({ page }) => {
+  await openWithDemo(page);
+  const method = {
+    format: 'tracewright-recipe', version: 2,
+    steps: [{ uid: 'step-1', step: 'moving-average', enabled: true, params: { window: 5 } }],
+    analysis: { noise: { method: 'blank', quietRange: null }, peaks: { snrDefinition: 'region', detectionLimit: 2, quantitationLimit: 12 } },
+  };
+  await page.getByTestId('recipe-input').setInputFiles({ name: 'method.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(method)) });
+  await expect(page.locator('#snr-def')).toHaveValue('region');
+  await expect(page.locator('#noise-method')).toHaveValue('blank');
+  await expect(page.locator('#nf-Detection-limit-S-N')).toHaveValue('2');
+  await expect(page.getByTestId('step-moving-average')).toBeVisible();
+  await expect(page.getByText(/^The noise and peak settings saved with it are in use/)).toBeVisible();
+
+  await page.getByTestId('recipe-input').setInputFiles({ name: 'old.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify({ format: 'tracewright-recipe', version: 1, steps: [] })) });
+  await expect(page.locator('#snr-def')).toHaveValue('rms');
+  await expect(page.locator('#noise-method')).toHaveValue('auto');
+  await expect(page.getByText(/holds no noise and peak settings .* so the defaults are in use/)).toBeVisible();
+});

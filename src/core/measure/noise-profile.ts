@@ -1,0 +1,87 @@
+/**
+ * σ along a trace: a piecewise-constant profile on a trace's own grid.
+ *
+ * Where the noise gain of the processing varies along the trace (the ends of
+ * a smoothing window, a grid that changes spacing) or the raw noise itself
+ * grows with the signal, the σ that belongs to a peak is the one near it.
+ * The profile is plain data (typed arrays), so it crosses to the page and
+ * into exports like any other result; {@link sigmaAt} reads it.
+ */
+
+/** σ (y-units) on a trace's grid, constant over runs of indices. */
+export interface SigmaProfile {
+  /** Number of points of the grid it belongs to. */
+  readonly points: number;
+  /** Index where each run starts: ascending, the first is 0. */
+  readonly starts: Int32Array;
+  /** σ over each run, y-units, ≥ 0. */
+  readonly sigma: Float64Array;
+}
+
+/** A profile with one σ everywhere. */
+export function constantProfile(points: number, sigma: number): SigmaProfile {
+  return { points, starts: Int32Array.of(0), sigma: Float64Array.of(sigma) };
+}
+
+/**
+ * σ at sample `index` of the profile's grid (clamped to the grid), by binary
+ * search over the runs. O(log runs).
+ */
+export function sigmaAt(p: SigmaProfile, index: number): number {
+  const s = p.starts;
+  const i = Math.max(0, Math.min(p.points - 1, Math.floor(index)));
+  let lo = 0, hi = s.length - 1;
+  while (lo < hi) {
+    const m = (lo + hi + 1) >>> 1;
+    if (s[m] <= i) lo = m; else hi = m - 1;
+  }
+  return p.sigma[lo];
+}
+
+/**
+ * Profile from one σ per index, merging neighbours that differ by less than
+ * `relTol` (relative) into one run, so a constant interior costs one entry.
+ */
+export function profileFromValues(values: Float64Array, relTol = 1e-6): SigmaProfile {
+  const starts: number[] = [];
+  const sig: number[] = [];
+  let runStart = 0, runValue = values[0];
+  for (let i = 1; i <= values.length; i++) {
+    const v = i < values.length ? values[i] : NaN;
+    if (i < values.length && Math.abs(v - runValue) <= relTol * Math.max(Math.abs(runValue), Math.abs(v))) continue;
+    starts.push(runStart); sig.push(runValue);
+    runStart = i; runValue = v;
+  }
+  return { points: values.length, starts: Int32Array.from(starts), sigma: Float64Array.from(sig) };
+}
+
+/** Each run's σ multiplied by the σ of `other` at the same index (both on the same grid). */
+export function multiplyProfiles(a: SigmaProfile, b: SigmaProfile): SigmaProfile {
+  if (a.points !== b.points) throw new RangeError(`The σ profiles belong to grids of ${a.points} and ${b.points} points.`);
+  const cuts = Array.from(new Set([...a.starts, ...b.starts])).sort((p, q) => p - q);
+  const sig = cuts.map((c) => sigmaAt(a, c) * sigmaAt(b, c));
+  return { points: a.points, starts: Int32Array.from(cuts), sigma: Float64Array.from(sig) };
+}
+
+/** The median σ over the grid's points (each run weighted by its length). */
+export function profileMedian(p: SigmaProfile): number {
+  const order = Array.from(p.sigma.keys()).sort((i, j) => p.sigma[i] - p.sigma[j]);
+  const len = (k: number) => (k + 1 < p.starts.length ? p.starts[k + 1] : p.points) - p.starts[k];
+  const half = p.points / 2;
+  let acc = 0;
+  for (const k of order) {
+    acc += len(k);
+    if (acc >= half) return p.sigma[k];
+  }
+  return p.sigma[order[order.length - 1]];
+}
+
+/** Smallest and largest σ of the profile. */
+export function profileRange(p: SigmaProfile): [number, number] {
+  let lo = Infinity, hi = -Infinity;
+  for (const v of p.sigma) { if (v < lo) lo = v; if (v > hi) hi = v; }
+  return [lo, hi];
+}
+
+/** A noise figure for the texts: d significant figures; 'not a finite number' for NaN or ±Infinity (never "NaN" in an export). */
+export const fmtNoiseNumber = (v: number, d = 4): string => (Number.isFinite(v) ? Number(v.toPrecision(d)).toString() : 'not a finite number');

@@ -1,0 +1,715 @@
+/**
+ * Bounds and integration: each peak's local baseline, its own half-height
+ * width, its apex, its integration bounds and its area, all measured near
+ * the peak. Nothing here depends on how far away a higher sample lies (the
+ * SciPy prominence bases can lie anywhere along a wandering baseline).
+ *
+ * The rules, as stated to the user (σ is the noise at the apex; where σ is
+ * 0 the rules take the floor SIGMA_FLOOR_OF_SPAN × the trace's span):
+ *
+ * 1. First feet: from the apex walk outward on each side on a box average
+ *    of B samples, keeping the lowest average passed; stop when one stands
+ *    more than 3σ_B above it (σ_B the noise of a B-sample average), or
+ *    after {@link WIDTH_LIMIT} × the half-prominence width. B = 1, 3, 5,
+ *    9, 17, … (at most the half-prominence width): the B at which the
+ *    height above the line through the two lowest averages, in units of
+ *    σ_B, is largest ({@link firstFeet}). The first baseline is that line.
+ * 2. Own width: the half-height crossings of the trace above that line
+ *    (linear interpolation between samples, not beyond the bounds), and the
+ *    apex (position and level) from a parabola over the peak's own top
+ *    ({@link apexPosition}, {@link apexLevel}).
+ * 3. Bounds: a box average of B = 2r + 1 samples, r = ⌊FWHM/4⌋ (in
+ *    samples, about half the half-height width), walks outward from the apex; the tests
+ *    below start at the half-height crossing of that side. Its noise is
+ *    σ_B = σ·(box factor; 1/√B for white noise). A side stops where
+ *    * the average above the current baseline line rose more than 3σ_B
+ *      above its lowest value so far ('valley', a neighbour's flank; 6σ_B
+ *      once the walk is back at the baseline): the bound is at that lowest
+ *      value;
+ *    * two half-widths of that side (at least B samples) after the average
+ *      first came within 3σ_B of the lower of
+ *      that line and the hull line, the edge under the apex of the lower
+ *      convex hull of the box averages within {@link WIDTH_LIMIT}
+ *      half-widths either side, which never lies above the averaged trace
+ *      (noise puts it 2–3 σ_B below the baseline) ('returned');
+ *    * it is {@link WIDTH_LIMIT} half-widths (of that side) from the apex
+ *      ('width-limit'), or the trace ends ('trace-end').
+ * 4. Levels at the bounds: at a valley, the box average there; otherwise
+ *    the mean point (x and y) of the max(B, 5) samples from the bound
+ *    outward (straight baselines stay exact), unless their farther half
+ *    stands above their nearer half by more than 2 standard errors (a
+ *    neighbour's flank), then the box average at the bound. The baseline is
+ *    the straight line through the two levels.
+ * 5. Steps 2–4 repeat until the bounds stop moving (at most
+ *    {@link MAX_PASSES} passes), then the width and apex are measured once
+ *    more against the final line.
+ * 6. Neighbours (peak-table.ts): two peaks whose bounds overlap, or whose
+ *    valley bounds lie within a box length of each other, share the lowest
+ *    point between their apexes, with two exceptions. A narrow peak (under
+ *    half the width of a higher neighbour) whose apex lies within that
+ *    neighbour's half-height width rides on it ({@link ridersOf}): it keeps
+ *    its own local measures and moves nothing of the neighbour's. And of
+ *    two touching peaks, one whose box average rises less than the
+ *    detection limit × σ_B above the valley is part of the other (a broad
+ *    noisy top split in two) and is dropped ({@link mergeShallow}). Where at least one of the two stands at or
+ *    above the detection limit the split rule applies (perpendicular drop:
+ *    one line under the group; valley to valley: each its own line); a
+ *    valley between two peaks below the limit just stops both bounds.
+ *
+ * Area: trapezoid rule of (trace − baseline line) between the bounds.
+ */
+import type { BoundKind, SplitRule } from './peak-types.ts';
+import type { NoiseModel } from './peak-snr.ts';
+
+/** Bounds lie at most this many of the peak's own half-height half-widths (per side) from the apex. */
+export const WIDTH_LIMIT = 8;
+/** Most passes of steps 2–4. */
+const MAX_PASSES = 2;
+/** Rise, in σ of the walk's values, that ends a walk at a valley. */
+const VALLEY_RISE = 3;
+/** Rise, in σ_B, that ends a walk at a valley once it is back at the baseline: a neighbour's flank, not noise. */
+const VALLEY_RISE_AFTER_RETURN = 6;
+/** A walk is back at the baseline within this many σ_B above the hull (which noise puts 2–3 σ_B low). */
+const RETURN_ABOVE_HULL = 3;
+/** Half-height half-widths (of that side) a bound lies beyond the point where the trace came back to the baseline. */
+const RETURN_BEYOND = 2;
+/** How far (in σ_B) the height of rule 1 may fall below its best before the scan of box sizes stops. */
+const SCALE_SLACK = 2;
+/** Half-window of the apex-level fit: FWHM/6 samples, at least 1, at most this many. */
+const APEX_HALF_WINDOW_MAX = 50;
+/** Samples averaged for a level beyond a bound, at least. */
+const LEVEL_POINTS_MIN = 5;
+
+/** A straight baseline y = y0 + slope·(x − x0) on the detection signal. */
+export interface Line {
+  readonly x0: number;
+  readonly y0: number;
+  readonly slope: number;
+}
+
+/** Line through two points; a horizontal line at their mean when the x coincide. */
+/** Set a line in place to the one through two points (see {@link lineThrough}). */
+function setLine(l: { x0: number; y0: number; slope: number }, xa: number, ya: number, xb: number, yb: number): void {
+  if (xb === xa) { l.x0 = xa; l.y0 = (ya + yb) / 2; l.slope = 0; } else { l.x0 = xa; l.y0 = ya; l.slope = (yb - ya) / (xb - xa); }
+}
+
+export function lineThrough(xa: number, ya: number, xb: number, yb: number): Line {
+  if (xb === xa) return { x0: xa, y0: (ya + yb) / 2, slope: 0 };
+  return { x0: xa, y0: ya, slope: (yb - ya) / (xb - xa) };
+}
+
+export function lineAt(l: Line, x: number): number {
+  return l.y0 + l.slope * (x - l.x0);
+}
+
+/** The trace and its noise, as the measures see them. */
+export interface MeasureContext {
+  readonly x: Float64Array;
+  /** Detection signal: y, or −y for dips. */
+  readonly s: Float64Array;
+  readonly noise: NoiseModel;
+}
+
+/** One peak measured on its own (before neighbours share valleys). */
+export interface LocalMeasure {
+  index: number;
+  /** Refined apex x. */
+  xApex: number;
+  /** Apex level above the line, on the detection signal. */
+  height: number;
+  /** Half-height crossings, fractional sample indices. */
+  leftIp: number;
+  rightIp: number;
+  start: number;
+  end: number;
+  startKind: BoundKind;
+  endKind: BoundKind;
+  line: Line;
+  /** Box half-width r (samples) the bounds used. */
+  box: number;
+  split: SplitRule | 'none';
+  note?: string;
+}
+
+/** x at a fractional sample index, linear between samples. */
+export function xAt(x: Float64Array, f: number): number {
+  const i = Math.floor(f);
+  if (i >= x.length - 1) return x[x.length - 1];
+  if (i < 0) return x[0];
+  return x[i] + (f - i) * (x[i + 1] - x[i]);
+}
+
+/** Mean of s over i − r … i + r, the ends repeated beyond the trace. */
+function boxMean(s: Float64Array, i: number, r: number): number {
+  const n = s.length;
+  let sum = 0;
+  for (let k = i - r; k <= i + r; k++) sum += s[k < 0 ? 0 : k >= n ? n - 1 : k];
+  return sum / (2 * r + 1);
+}
+
+/**
+ * Least-squares c0 + c1 t + c2 t², t = (x − xc)/span, through the samples
+ * i0..i1 of s minus the line. With a window [lo, hi] each sample is weighted
+ * by the part of its cell (midpoint to midpoint) inside the window, so the
+ * fit sees the window as a continuous stretch symmetric about its centre
+ * whatever the sampling. Null when degenerate.
+ */
+function quadFit(x: Float64Array, s: Float64Array, line: Line, i0: number, i1: number, xc: number, lo = -Infinity, hi = Infinity): { c0: number; c1: number; c2: number; span: number } | null {
+  const span = Math.max(x[i1] - xc, xc - x[i0]);
+  if (!(span > 0)) return null;
+  const last = x.length - 1;
+  let n = 0, t1 = 0, t2 = 0, t3 = 0, t4 = 0, y0 = 0, y1 = 0, y2 = 0;
+  for (let k = i0; k <= i1; k++) {
+    let wgt = 1;
+    if (lo > -Infinity) {
+      const a = k > 0 ? (x[k - 1] + x[k]) / 2 : x[k], b = k < last ? (x[k] + x[k + 1]) / 2 : x[k];
+      wgt = Math.max(0, Math.min(b, hi) - Math.max(a, lo)) / (b - a || 1);
+      if (wgt === 0) continue;
+    }
+    const t = (x[k] - xc) / span, tt = t * t, v = (s[k] - lineAt(line, x[k])) * wgt;
+    n += wgt; t1 += wgt * t; t2 += wgt * tt; t3 += wgt * tt * t; t4 += wgt * tt * tt; y0 += v; y1 += v * t; y2 += v * tt;
+  }
+  const det = n * (t2 * t4 - t3 * t3) - t1 * (t1 * t4 - t3 * t2) + t2 * (t1 * t3 - t2 * t2);
+  if (!(Math.abs(det) > 1e-12)) return null;
+  const c0 = (y0 * (t2 * t4 - t3 * t3) - t1 * (y1 * t4 - t3 * y2) + t2 * (y1 * t3 - t2 * y2)) / det;
+  const c1 = (n * (y1 * t4 - t3 * y2) - y0 * (t1 * t4 - t3 * t2) + t2 * (t1 * y2 - y1 * t2)) / det;
+  const c2 = (n * (t2 * y2 - y1 * t3) - t1 * (t1 * y2 - y1 * t2) + y0 * (t1 * t3 - t2 * t2)) / det;
+  return { c0, c1, c2, span };
+}
+
+/** Vertex of the parabola through the three samples around i above the line (actual x); the sample x when flat or at an end. */
+function apexParabola(x: Float64Array, s: Float64Array, line: Line, i: number): number {
+  if (i <= 0 || i >= x.length - 1) return x[i];
+  const x0 = x[i - 1], x1 = x[i], x2 = x[i + 1];
+  const v0 = s[i - 1] - lineAt(line, x0), v1 = s[i] - lineAt(line, x1), v2 = s[i + 1] - lineAt(line, x2);
+  const d1 = (v1 - v0) / (x1 - x0);
+  const d2 = (v2 - v1) / (x2 - x1);
+  const a = (d2 - d1) / (x2 - x0);
+  if (!(a < 0)) return x1;
+  const v = (x0 + x1) / 2 - d1 / (2 * a);
+  return Math.min(x2, Math.max(x0, v));
+}
+
+/**
+ * Apex position above the baseline line. On a narrow peak (own half-height
+ * width under 6 samples) the vertex of the parabola through the three top
+ * samples. On a broader peak three samples of a flat noisy top let the
+ * noise choose the apex, so the vertex of a least-squares parabola over a
+ * window of ±FWHM/3 centred on the current estimate is used, samples
+ * weighted by how much of their cell lies in the window, re-centred until
+ * it settles (at most 5 times). A window symmetric about a symmetric peak's
+ * apex has its vertex there, so the fixed point is unbiased for symmetric
+ * peaks.
+ */
+export function apexPosition(x: Float64Array, s: Float64Array, line: Line, i: number, fwhmPoints: number): number {
+  const q = Math.floor(fwhmPoints / 3);
+  const start = apexParabola(x, s, line, i);
+  if (fwhmPoints < 6 || i <= 0 || i >= x.length - 1) return start;
+  const half = (q * (x[i + 1] - x[i - 1])) / 2;
+  const lim0 = x[Math.max(0, i - q)], lim1 = x[Math.min(x.length - 1, i + q)];
+  let v = start;
+  for (let iter = 0; iter < 5; iter++) {
+    const lo = v - half, hi = v + half;
+    let i0 = i, i1 = i;
+    while (i0 > 0 && (x[i0 - 1] + x[i0]) / 2 > lo) i0--;
+    while (i1 < x.length - 1 && (x[i1] + x[i1 + 1]) / 2 < hi) i1++;
+    const f = quadFit(x, s, line, i0, i1, v, lo, hi);
+    if (!f || !(f.c2 < 0)) return start;
+    const nv = Math.min(lim1, Math.max(lim0, v - (f.c1 * f.span) / (2 * f.c2)));
+    const moved = Math.abs(nv - v);
+    v = nv;
+    if (moved < 1e-9 * half) break;
+  }
+  return v;
+}
+
+/** Sample nearest to v, searching out from index i (v is close to x[i]). */
+function nearestFrom(x: Float64Array, i: number, v: number): number {
+  let k = i;
+  while (k > 0 && Math.abs(x[k - 1] - v) < Math.abs(x[k] - v)) k--;
+  while (k < x.length - 1 && Math.abs(x[k + 1] - v) < Math.abs(x[k] - v)) k++;
+  return k;
+}
+
+/**
+ * Apex level above the line at x = at: a least-squares parabola through
+ * the samples within ±q of the sample nearest `at`, q = ⌊fwhmPoints/6⌋
+ * kept between 1 and {@link APEX_HALF_WINDOW_MAX}. With three samples it is
+ * the parabola through the three top points; on a broad noisy peak it
+ * averages the noise instead of keeping the highest excursion. Over ±FWHM/6
+ * a Gaussian departs from a parabola by under 0.03 % of its height.
+ */
+export function apexLevel(x: Float64Array, s: Float64Array, line: Line, i: number, fwhmPoints: number, at: number): number {
+  const q = Math.max(1, Math.min(APEX_HALF_WINDOW_MAX, Math.floor(fwhmPoints / 6)));
+  if (q === 1 && i > 0 && i < s.length - 1) {
+    // The parabola through the three top samples, in Newton's form.
+    const x0 = x[i - 1], x1 = x[i], x2 = x[i + 1];
+    const v0 = s[i - 1] - lineAt(line, x0), v1 = s[i] - lineAt(line, x1), v2 = s[i + 1] - lineAt(line, x2);
+    const d1 = (v1 - v0) / (x1 - x0), d2 = (v2 - v1) / (x2 - x1), a = (d2 - d1) / (x2 - x0);
+    return v1 + d1 * (at - x1) + a * (at - x0) * (at - x1);
+  }
+  const c = q > 1 ? nearestFrom(x, i, at) : i;
+  const i0 = Math.max(0, c - q), i1 = Math.min(s.length - 1, c + q);
+  const own = s[i] - lineAt(line, x[i]);
+  if (i1 - i0 < 2) return own;
+  const f = quadFit(x, s, line, i0, i1, x[c]);
+  if (!f) return own;
+  const t = (at - x[c]) / f.span;
+  return f.c0 + f.c1 * t + f.c2 * t * t;
+}
+
+/**
+ * Half-height crossings of s − line at `half` (above the line), walking out
+ * from i and not past lo / hi; linear interpolation between the samples
+ * either side of the crossing (SciPy's peak_widths rule on the detrended
+ * trace). A side that never falls to `half` crosses at its bound.
+ */
+export function halfCrossings(x: Float64Array, s: Float64Array, line: Line, i: number, half: number, lo: number, hi: number): [number, number] {
+  crossings(x, s, line, i, half, lo, hi);
+  return [outA, outB];
+}
+
+/*
+ * The hot helpers below hand back two numbers through these module variables instead of a new array each
+ * call: detection measures every candidate, some 10⁵ at 10⁶ points, and the garbage dominated the time.
+ */
+let outA = 0, outB = 0;
+let outKind: BoundKind = 'valley';
+
+/** {@link halfCrossings} into outA (left) and outB (right). */
+function crossings(x: Float64Array, s: Float64Array, line: Line, i: number, half: number, lo: number, hi: number): void {
+  const y0 = line.y0, sl = line.slope, x0 = line.x0;
+  let j = i;
+  let dj = s[j] - (y0 + sl * (x[j] - x0));
+  while (lo < j && half < dj) { j--; dj = s[j] - (y0 + sl * (x[j] - x0)); }
+  let lip = j;
+  if (dj < half && j < i) { const dn = s[j + 1] - (y0 + sl * (x[j + 1] - x0)); lip += (half - dj) / (dn - dj); }
+  j = i;
+  dj = s[j] - (y0 + sl * (x[j] - x0));
+  while (j < hi && half < dj) { j++; dj = s[j] - (y0 + sl * (x[j] - x0)); }
+  let rip = j;
+  if (dj < half && j > i) { const dp = s[j - 1] - (y0 + sl * (x[j - 1] - x0)); rip -= (half - dj) / (dp - dj); }
+  outA = lip; outB = rip;
+}
+
+/**
+ * Rule 1 on one side at one scale: walking out from the apex on the box
+ * average of half-width r, the lowest average passed before one rises more
+ * than `rise` above it, within `cap` samples. Returns its index and level.
+ */
+function footAtScale(s: Float64Array, i: number, dir: -1 | 1, r: number, rise: number, cap: number): void {
+  const n = s.length, last = n - 1;
+  const B = 2 * r + 1;
+  let sum = 0;
+  for (let k = i - r; k <= i + r; k++) sum += s[k < 0 ? 0 : k > last ? last : k];
+  let min = sum / B, a = i;
+  for (let j = i, k = 1; k <= cap; k++) {
+    const next = j + dir;
+    if (next < 0 || next > last) break;
+    const add = next + dir * r, drop = j - dir * r;
+    sum += s[add < 0 ? 0 : add > last ? last : add] - s[drop < 0 ? 0 : drop > last ? last : drop];
+    j = next;
+    const v = sum / B;
+    if (v < min) { min = v; a = j; } else if (v > min + rise) break;
+  }
+  outA = a; outB = min;
+}
+
+/**
+ * Rule 1: the first feet and their levels. A noisy top dips by 3σ often
+ * enough that a walk on single samples stops on the peak's own top, so the
+ * walk runs on box averages of B = 2r + 1 samples, r = 0, 1, 2, 4, 8, …
+ * (B at most the half-prominence width), each with rise 3σ_B; the scale
+ * kept is the one at which the height above the feet's line, in units of
+ * σ_B, is largest, scanning up until it falls {@link SCALE_SLACK} below
+ * that best (a matched-filter choice: it grows with √B until the box
+ * starts to flatten the peak; the slack lets the scan pass the noise of
+ * the small boxes).
+ */
+export function firstFeet(c: MeasureContext, i: number, widthLimit: number, cap: number): { r: number; f0: number; l0: number; f1: number; l1: number } {
+  const { x, s, noise } = c;
+  const sigma = noise.ruleSigmaAt(i);
+  let bR = 0, bF0 = i, bL0 = s[i], bF1 = i, bL1 = s[i];
+  let bestZ = -Infinity;
+  for (let r = 0; ; r = r === 0 ? 1 : 2 * r) {
+    const B = 2 * r + 1;
+    if (r > 0 && B > widthLimit) break;
+    const sb = sigma * noise.boxFactor(B);
+    footAtScale(s, i, -1, r, VALLEY_RISE * sb, cap);
+    const f0 = outA, l0 = outB;
+    footAtScale(s, i, 1, r, VALLEY_RISE * sb, cap);
+    const f1 = outA, l1 = outB;
+    const base = x[f1] === x[f0] ? (l0 + l1) / 2 : l0 + ((l1 - l0) * (x[i] - x[f0])) / (x[f1] - x[f0]);
+    const z = (boxMean(s, i, r) - base) / sb;
+    // z itself is noisy by a unit or two at small boxes: the scan goes on until z falls clearly below its best.
+    if (!(z >= bestZ - SCALE_SLACK)) break;
+    if (z > bestZ) { bR = r; bF0 = f0; bL0 = l0; bF1 = f1; bL1 = l1; bestZ = z; }
+  }
+  return { r: bR, f0: bF0, l0: bL0, f1: bF1, l1: bL1 };
+}
+
+/** Reused buffers and result of {@link hullUnder} (measuring is synchronous, so one set serves every call). */
+let hullG = new Float64Array(256);
+let hullStack = new Int32Array(256);
+const hullLine: { x0: number; y0: number; slope: number } = { x0: 0, y0: 0, slope: 0 };
+
+/**
+ * The lower convex hull of the box averages (half-width r) of samples
+ * lo..hi, and its edge that spans x[i]: a straight line that nowhere lies
+ * above the averaged trace between its two ends. Noise puts it 2–3 σ_B
+ * below the baseline; on a noiseless straight baseline it is the baseline.
+ */
+function hullUnder(c: MeasureContext, i: number, lo: number, hi: number, r: number): Line {
+  const out = hullLine;
+  const { x, s } = c;
+  const n = s.length;
+  const len = hi - lo + 1;
+  if (hullG.length < len) { hullG = new Float64Array(len * 2); hullStack = new Int32Array(len * 2); }
+  const g = hullG, st = hullStack;
+  const B = 2 * r + 1, last = n - 1;
+  let sum = 0;
+  for (let k = lo - r; k <= lo + r; k++) sum += s[k < 0 ? 0 : k > last ? last : k];
+  for (let j = lo; j <= hi; j++) {
+    g[j - lo] = sum / B;
+    const add = j + 1 + r, drop = j - r;
+    sum += s[add < 0 ? 0 : add > last ? last : add] - s[drop < 0 ? 0 : drop > last ? last : drop];
+  }
+  let top = 0;
+  for (let j = lo; j <= hi; j++) {
+    const gj = g[j - lo];
+    while (top >= 2) {
+      const a = st[top - 2], b = st[top - 1];
+      const cross = (x[b] - x[a]) * (gj - g[a - lo]) - (g[b - lo] - g[a - lo]) * (x[j] - x[a]);
+      if (cross > 0) break;
+      top--;
+    }
+    st[top++] = j;
+  }
+  if (top === 1) { out.x0 = x[st[0]]; out.y0 = g[st[0] - lo]; out.slope = 0; return out; }
+  let k = 0;
+  while (k < top - 2 && x[st[k + 1]] < x[i]) k++;
+  const a = st[k], b = st[k + 1];
+  setLine(out, x[a], g[a - lo], x[b], g[b - lo]);
+  return out;
+}
+
+/**
+ * Rule 3 on one side: the bound and why it lies there. Valleys are looked
+ * for in the box average above `ref` (the current baseline); the return to
+ * the baseline is measured against the lower of `ref` and `hull` (the hull
+ * line under the peak, never above the averaged trace): a reference above
+ * the trace would end a walk on the peak's own flank, and the hull alone,
+ * anchored on a neighbour's flank, touches the tail of this peak on the
+ * other side.
+ */
+function walkBound(c: MeasureContext, i: number, dir: -1 | 1, ref: Line, hull: Line, r: number, sigmaBox: number, cap: number, from: number, beyond: number): number {
+  const { x, s } = c;
+  const last = s.length - 1;
+  const B = 2 * r + 1;
+  const ry0 = ref.y0, rsl = ref.slope, rx0 = ref.x0, hy0 = hull.y0, hsl = hull.slope, hx0 = hull.x0;
+  const rise = VALLEY_RISE * sigmaBox, riseAfter = VALLEY_RISE_AFTER_RETURN * sigmaBox, back = RETURN_ABOVE_HULL * sigmaBox;
+  let j = i + dir;
+  if (j < 0 || j > last) { outKind = 'trace-end'; return i; }
+  let sum = 0;
+  for (let k = j - r; k <= j + r; k++) sum += s[k < 0 ? 0 : k > last ? last : k];
+  let min = Infinity, arg = j;
+  let returned = -1;
+  for (;;) {
+    const g = sum / B;
+    const lr = ry0 + rsl * (x[j] - rx0);
+    const v = g - lr;
+    const dist = j > i ? j - i : i - j;
+    // Inside the half-height width there is no valley to find (and on a slope the sample apex is not the top above the line).
+    // Once back at the baseline only a rise far beyond noise (a neighbour's flank) ends the walk early: stopping at
+    // a noise dip would put the level's stretch at a dip and lower the baseline. (The hull touches a valley, so a
+    // valley between two peaks can count as back at the baseline.)
+    if (dist < from) { /* keep walking */ } else if (v < min) { min = v; arg = j; } else if (v > min + (returned >= 0 ? riseAfter : rise)) { outKind = 'valley'; return arg; }
+    if (returned < 0 && dist >= from) {
+      const lh = hy0 + hsl * (x[j] - hx0);
+      if (g - (lr < lh ? lr : lh) <= back) returned = j;
+    }
+    // Once back at the baseline the bound lies `beyond` further out.
+    if (returned >= 0 && (j > returned ? j - returned : returned - j) >= beyond) { outKind = 'returned'; return j; }
+    if (dist >= cap) { outKind = returned >= 0 ? 'returned' : 'width-limit'; return j; }
+    const next = j + dir;
+    if (next < 0 || next > last) { outKind = 'trace-end'; return j; }
+    const add = next + dir * r, drop = j - dir * r;
+    sum += s[add < 0 ? 0 : add > last ? last : add] - s[drop < 0 ? 0 : drop > last ? last : drop];
+    j = next;
+  }
+}
+
+/** Rule 4: the level (mean point) that fixes the baseline at bound b on side dir. */
+export function boundLevel(c: MeasureContext, b: number, dir: -1 | 1, kind: BoundKind, r: number, sigma: number): [number, number] {
+  level(c, b, dir, kind, r, sigma);
+  return [outA, outB];
+}
+
+/** {@link boundLevel} into outA (x) and outB (level). */
+function level(c: MeasureContext, b: number, dir: -1 | 1, kind: BoundKind, r: number, sigma: number): void {
+  const { x, s } = c;
+  const n = s.length;
+  if (kind === 'valley' || kind === 'shared-valley') { outA = x[b]; outB = boxMean(s, b, r); return; }
+  const want = Math.max(2 * r + 1, LEVEL_POINTS_MIN);
+  let cnt = 0, sx = 0, sy = 0;
+  const half = want >> 1;
+  let near = 0, far = 0, nNear = 0, nFar = 0;
+  for (let k = 0; k < want; k++) {
+    const j = b + dir * k;
+    if (j < 0 || j >= n) break;
+    sx += x[j]; sy += s[j]; cnt++;
+    if (k < half) { near += s[j]; nNear++; } else { far += s[j]; nFar++; }
+  }
+  if (cnt < 3 || far / nFar - near / nNear > 2 * sigma * Math.sqrt(1 / nNear + 1 / nFar)) { outA = x[b]; outB = boxMean(s, b, r); return; }
+  outA = sx / cnt; outB = sy / cnt;
+}
+
+/** Width, apex and height of a peak against a given line and bounds (rule 2). */
+function shape(c: MeasureContext, m: LocalMeasure, fwhmGuess: number): number {
+  const { x, s } = c;
+  const h0 = apexLevel(x, s, m.line, m.index, fwhmGuess, m.xApex);
+  if (h0 > 0) { crossings(x, s, m.line, m.index, h0 / 2, m.start, m.end); m.leftIp = outA; m.rightIp = outB; } else { m.leftIp = m.index; m.rightIp = m.index; }
+  const fw = m.rightIp - m.leftIp;
+  m.xApex = apexPosition(x, s, m.line, m.index, fw);
+  m.height = apexLevel(x, s, m.line, m.index, fw, m.xApex);
+  return fw;
+}
+
+/**
+ * Measure one peak alone (rules 1–5).
+ * @param i apex sample (any sample for a peak placed by hand).
+ * @param firstWidth the half-prominence width in samples: the largest box of
+ *   rule 1, and {@link WIDTH_LIMIT} times it bounds how far the first feet lie.
+ */
+export function measureLocal(c: MeasureContext, i: number, firstWidth: number): LocalMeasure {
+  const { x, noise } = c;
+  const sigma = noise.ruleSigmaAt(i);
+  const f = firstFeet(c, i, Math.max(1, firstWidth), Math.max(2, Math.ceil(WIDTH_LIMIT * Math.max(1, firstWidth))));
+  const m: LocalMeasure = {
+    index: i, xApex: x[i], height: 0, leftIp: i, rightIp: i, start: f.f0, end: f.f1, startKind: 'valley', endKind: 'valley',
+    line: lineThrough(x[f.f0], f.l0, x[f.f1], f.l1), box: f.r, split: 'none',
+  };
+  let fw = shape(c, m, 2 * f.r + 1);
+  for (let pass = 0; pass < MAX_PASSES; pass++) {
+    if (!(m.height > 0)) return m;
+    const moved = rewalk(c, m, true, true);
+    level(c, m.start, -1, m.startKind, m.box, sigma);
+    const xa = outA, ya = outB;
+    level(c, m.end, 1, m.endKind, m.box, sigma);
+    // The measure owns its line (made in this function), so it is set in place.
+    setLine(m.line as { x0: number; y0: number; slope: number }, xa, ya, outA, outB);
+    fw = shape(c, m, fw);
+    if (!moved) break;
+  }
+  return m;
+}
+
+/**
+ * Rule 3 for the chosen sides of a measured peak, against its current line
+ * and own width; sets the bounds, their kinds and the box. True when a
+ * bound moved.
+ */
+function rewalk(c: MeasureContext, m: LocalMeasure, left: boolean, right: boolean): boolean {
+  const { s, noise } = c;
+  const i = m.index;
+  const sigma = noise.ruleSigmaAt(i);
+  const hwL = Math.max(i - m.leftIp, 0.5), hwR = Math.max(m.rightIp - i, 0.5);
+  const r = Math.floor((hwL + hwR) / 4);
+  const sigmaBox = sigma * noise.boxFactor(2 * r + 1);
+  const capL = Math.max(2, Math.ceil(WIDTH_LIMIT * hwL)), capR = Math.max(2, Math.ceil(WIDTH_LIMIT * hwR));
+  const hull = hullUnder(c, i, Math.max(0, i - capL), Math.min(s.length - 1, i + capR), r);
+  let moved = false;
+  if (left) {
+    const b = walkBound(c, i, -1, m.line, hull, r, sigmaBox, capL, Math.min(capL, Math.ceil(hwL)), Math.max(2 * r + 1, Math.ceil(RETURN_BEYOND * hwL)));
+    const k = outKind;
+    moved ||= b !== m.start || k !== m.startKind;
+    m.start = b; m.startKind = k;
+  }
+  if (right) {
+    const b = walkBound(c, i, 1, m.line, hull, r, sigmaBox, capR, Math.min(capR, Math.ceil(hwR)), Math.max(2 * r + 1, Math.ceil(RETURN_BEYOND * hwR)));
+    const k = outKind;
+    moved ||= b !== m.end || k !== m.endKind;
+    m.end = b; m.endKind = k;
+  }
+  m.box = r;
+  return moved;
+}
+
+/** Area of s − line between samples i0 and i1 (trapezoid rule). */
+export function areaAbove(x: Float64Array, s: Float64Array, line: Line, i0: number, i1: number): number {
+  let a = 0;
+  let prev = s[i0] - lineAt(line, x[i0]);
+  for (let i = i0; i < i1; i++) {
+    const next = s[i + 1] - lineAt(line, x[i + 1]);
+    a += 0.5 * (prev + next) * (x[i + 1] - x[i]);
+    prev = next;
+  }
+  return a;
+}
+
+/**
+ * The lowest point, above the line `under`, between two apexes (exclusive):
+ * of the box average with half-width r (half the smaller box of the two
+ * peaks: enough against noise, and a box average of an asymmetric valley
+ * sits a little toward its shallow side); where that has no interior
+ * minimum (one peak is a shoulder on the other), the lowest sample.
+ */
+function valleyBetween(c: MeasureContext, a: number, b: number, r: number, under: Line): number {
+  const { x, s } = c;
+  if (b - a < 2) return a + 1 <= b ? a + 1 : a;
+  let best = a + 1, v = Infinity;
+  for (let j = a + 1; j < b; j++) { const g = boxMean(s, j, r) - lineAt(under, x[j]); if (g < v) { v = g; best = j; } }
+  if ((best === a + 1 || best === b - 1) && r > 0) {
+    // No interior minimum of the average (a shoulder): the lowest sample.
+    let w = Infinity;
+    for (let j = a + 1; j < b; j++) { const g = s[j] - lineAt(under, x[j]); if (g < w) { w = g; best = j; } }
+  }
+  return best;
+}
+
+/** True when two neighbouring peaks (sorted by apex) overlap or end at nearby valleys: they share a valley. */
+function touching(A: LocalMeasure, B: LocalMeasure): boolean {
+  const near = A.endKind === 'valley' && B.startKind === 'valley' && B.start - A.end <= 2 * Math.max(A.box, B.box) + 1;
+  return A.end >= B.start || near;
+}
+
+/** The valley between two touching peaks: its sample, and the box average there. */
+function sharedValley(c: MeasureContext, A: LocalMeasure, B: LocalMeasure): [number, number] {
+  const { x } = c;
+  // Half the smaller box: enough against noise, and a box average shifts an asymmetric valley toward its shallow side.
+  const r = Math.min(A.box, B.box) >> 1;
+  // The valley is the lowest point above the pair's baseline (on a slope the lowest sample is not).
+  const under = lineThrough(x[A.start], lineAt(A.line, x[A.start]), x[B.end], lineAt(B.line, x[B.end]));
+  const v = valleyBetween(c, A.index, B.index, r, under);
+  return [v, boxMean(c.s, v, r)];
+}
+
+/**
+ * Rule 6a: peak k rides on a neighbour when its apex lies between that
+ * neighbour's half-height crossings, its own half-height width is under
+ * half the neighbour's, and it is lower: a narrow bump on a broad peak's
+ * top or flank. Returns, per peak, the index of the peak it rides on, or -1.
+ */
+export function ridersOf(ms: readonly LocalMeasure[]): Int32Array {
+  const out = new Int32Array(ms.length).fill(-1);
+  const fw = (m: LocalMeasure) => m.rightIp - m.leftIp;
+  for (let k = 0; k < ms.length; k++) {
+    const B = ms[k];
+    let host = -1;
+    for (const dir of [-1, 1]) {
+      for (let j = k + dir; j >= 0 && j < ms.length; j += dir) {
+        const A = ms[j];
+        if (dir < 0 ? A.rightIp < B.index : A.leftIp > B.index) {
+          // Hosts further away can still span this apex when they are broad; stop once none can.
+          if (Math.abs(A.index - B.index) > 2 * WIDTH_LIMIT * Math.max(fw(A), 1)) break;
+          continue;
+        }
+        if (A.leftIp <= B.index && B.index <= A.rightIp && fw(B) < fw(A) / 2 && B.height < A.height && (host < 0 || ms[host].height < A.height)) host = j;
+      }
+    }
+    out[k] = host;
+  }
+  return out;
+}
+
+/**
+ * Rule 6b: of two touching neighbours (neither riding on the other), one
+ * whose box average at its apex rises less than `minRise` × σ_B (its own
+ * box) above the valley between them is not a peak of its own (a broad
+ * noisy top split in two): it is dropped, unless `keep` says otherwise
+ * (peaks placed by hand). Repeats until no pair changes. Returns the peaks
+ * kept, in order.
+ */
+export function mergeShallow(c: MeasureContext, ms: LocalMeasure[], minRise: number, keep: (m: LocalMeasure) => boolean): LocalMeasure[] {
+  const { s, noise } = c;
+  const out = ms.slice();
+  let k = 0;
+  while (k + 1 < out.length) {
+    const A = out[k], B = out[k + 1];
+    if (!touching(A, B)) { k++; continue; }
+    const [v] = sharedValley(c, A, B);
+    const rise = (m: LocalMeasure) => (boxMean(s, m.index, m.box) - boxMean(s, v, m.box)) / (noise.ruleSigmaAt(m.index) * noise.boxFactor(2 * m.box + 1));
+    const lower = A.height <= B.height ? k : k + 1;
+    const m = out[lower];
+    if (rise(m) < minRise && !keep(m)) {
+      out.splice(lower, 1);
+      k = Math.max(0, k - 1);
+    } else {
+      k++;
+    }
+  }
+  return out;
+}
+
+/**
+ * Rule 6 for a list of peaks sorted by apex: neighbours whose bounds
+ * overlap, or whose valley bounds lie within a box length of each other,
+ * share the lowest point between their apexes. `grouped[k]` says whether
+ * peak k stands at or above the detection limit (or was placed by hand); a
+ * valley with at least one such peak on either side is split by `rule`, so
+ * a small neighbour below the limit does not raise a real peak's baseline
+ * to the valley; a valley between two peaks below the limit just stops both
+ * bounds there (chains of noise bumps never form one long baseline). Lines, widths, apexes
+ * and heights of the peaks whose bounds or baseline changed are measured
+ * again. Changes the measures in place.
+ */
+export function shareValleys(c: MeasureContext, ms: LocalMeasure[], grouped: readonly boolean[], rule: SplitRule): void {
+  const { s, noise } = c;
+  const changed = new Uint8Array(ms.length);
+  for (let k = 0; k + 1 < ms.length; k++) {
+    const A = ms[k], B = ms[k + 1];
+    if (!touching(A, B)) continue;
+    const [v] = sharedValley(c, A, B);
+    const kind: BoundKind = grouped[k] || grouped[k + 1] ? 'shared-valley' : 'valley';
+    A.end = v; A.endKind = kind; B.start = v; B.startKind = kind;
+    if (v === A.index + 1 || v === B.index - 1) {
+      const lower = s[A.index] < s[B.index] ? A : B;
+      lower.note = 'No valley between this peak and its neighbour (one is a shoulder on the other): the split lies next to its apex, so the area is biased; fitting the overlap measures it better.';
+    }
+    changed[k] = 1; changed[k + 1] = 1;
+  }
+  const levelOf = (m: LocalMeasure, side: -1 | 1): [number, number] => side < 0
+    ? boundLevel(c, m.start, -1, m.startKind, m.box, noise.ruleSigmaAt(m.index))
+    : boundLevel(c, m.end, 1, m.endKind, m.box, noise.ruleSigmaAt(m.index));
+  let k = 0;
+  while (k < ms.length) {
+    let e = k;
+    while (e + 1 < ms.length && ms[e].endKind === 'shared-valley') e++;
+    if (e > k) {
+      // The outer bounds of a group were found against lines anchored at the valleys (high), so from widths
+      // too narrow: walk them again against the group's own baseline until they settle.
+      const first = ms[k], last = ms[e];
+      for (let pass = 0; pass < MAX_PASSES; pass++) {
+        const [xa, ya] = levelOf(first, -1), [xb, yb] = levelOf(last, 1);
+        const line = lineThrough(xa, ya, xb, yb);
+        for (let j = k; j <= e; j++) {
+          const m = ms[j];
+          m.split = rule;
+          m.line = rule === 'perpendicular-drop' ? line : lineThrough(...levelOf(m, -1), ...levelOf(m, 1));
+          shape(c, m, m.rightIp - m.leftIp);
+          changed[j] = 0;
+        }
+        const movedL = first.height > 0 && rewalk(c, first, true, false);
+        const movedR = last.height > 0 && rewalk(c, last, false, true);
+        if (!movedL && !movedR) break;
+        if (rule === 'valley-to-valley') { changed[k] = 1; changed[e] = 1; }
+      }
+    }
+    for (let j = k; j <= e; j++) {
+      const m = ms[j];
+      if (changed[j]) {
+        const [xa, ya] = levelOf(m, -1), [xb, yb] = levelOf(m, 1);
+        m.line = lineThrough(xa, ya, xb, yb);
+        shape(c, m, m.rightIp - m.leftIp);
+      }
+      if (!(m.height > 0) && m.split === 'perpendicular-drop') {
+        // Below the group's line (a small peak in a deep stretch): its own valley-to-valley line instead.
+        const [xa, ya] = levelOf(m, -1), [xb, yb] = levelOf(m, 1);
+        m.line = lineThrough(xa, ya, xb, yb);
+        m.split = 'valley-to-valley';
+        shape(c, m, m.rightIp - m.leftIp);
+      }
+    }
+    k = e + 1;
+  }
+}

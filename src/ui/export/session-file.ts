@@ -1,0 +1,145 @@
+/**
+ * The session as a file the user keeps: for a browser that keeps nothing
+ * (private windows, storage full or switched off) and for moving a session
+ * to another computer. Loading the file puts the session back exactly.
+ *
+ * Format (JSON, UTF-8): `{ format: "tracewright-session-file", version,
+ * savedAt, caution, meta, numbers }` where `meta` is the same record the
+ * browser's database keeps ({@link SessionMeta}: trace heads without their
+ * numbers, roles, load reports, recipe with its undo steps, settings,
+ * decisions, alternatives) and `numbers[traceId]` holds x and y as base64
+ * of IEEE 754 doubles in little-endian byte order (RFC 4648 base64), so
+ * every value comes back bit for bit. Reading checks everything again (the
+ * trace invariants, every recipe) exactly as a restore from the database.
+ *
+ * Pure: no DOM, so it is tested in Node.
+ */
+import { CAUTION, TOOL_LABEL } from '../../core/export/version.ts';
+import type { Registry } from '../../core/recipe.ts';
+import { STEP_REGISTRY } from '../../core/steps/registry.ts';
+import { sessionFromRecords, sessionMeta, type ChunkKey, type LoadOutcome, type SessionMeta, type SessionSnapshot } from './session-db.ts';
+
+export const SESSION_FILE_FORMAT = 'tracewright-session-file';
+export const SESSION_FILE_VERSION = 1;
+/** Largest session file read back (text characters). */
+export const SESSION_FILE_MAX_CHARS = 512 * 1024 * 1024;
+
+const ALPHABET = 'ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789+/';
+const DECODE = (() => {
+  const t = new Int16Array(128).fill(-1);
+  for (let i = 0; i < ALPHABET.length; i++) t[ALPHABET.charCodeAt(i)] = i;
+  return t;
+})();
+
+/** Doubles as base64 of their little-endian bytes (RFC 4648, with padding). */
+export function float64ToBase64(values: Float64Array): string {
+  const bytes = new Uint8Array(values.length * 8);
+  const view = new DataView(bytes.buffer);
+  for (let i = 0; i < values.length; i++) view.setFloat64(i * 8, values[i], true);
+  const parts: string[] = [];
+  const chunk = 3 * 8192;
+  for (let start = 0; start < bytes.length; start += chunk) {
+    const end = Math.min(bytes.length, start + chunk);
+    let s = '';
+    for (let i = start; i < end; i += 3) {
+      const a = bytes[i], b = i + 1 < end ? bytes[i + 1] : 0, c = i + 2 < end ? bytes[i + 2] : 0;
+      s += ALPHABET[a >> 2] + ALPHABET[((a & 3) << 4) | (b >> 4)]
+        + (i + 1 < end ? ALPHABET[((b & 15) << 2) | (c >> 6)] : '=')
+        + (i + 2 < end ? ALPHABET[c & 63] : '=');
+    }
+    parts.push(s);
+  }
+  return parts.join('');
+}
+
+/**
+ * The doubles written by {@link float64ToBase64}.
+ * @throws RangeError when the text is not base64 of whole doubles.
+ */
+export function base64ToFloat64(text: string): Float64Array {
+  if (typeof text !== 'string' || text.length % 4 !== 0) throw new RangeError('The numbers are not base64 text of whole 4-character groups.');
+  const pad = text.endsWith('==') ? 2 : text.endsWith('=') ? 1 : 0;
+  const byteLength = (text.length / 4) * 3 - pad;
+  if (byteLength % 8 !== 0) throw new RangeError(`The numbers hold ${byteLength} bytes, which is not a whole number of 8-byte values.`);
+  const bytes = new Uint8Array(byteLength);
+  let o = 0;
+  for (let i = 0; i < text.length; i += 4) {
+    const q = [0, 1, 2, 3].map((k) => {
+      const ch = text.charCodeAt(i + k);
+      if (ch === 61 && i + k >= text.length - pad) return 0;
+      const v = ch < 128 ? DECODE[ch] : -1;
+      if (v < 0) throw new RangeError(`Character ${i + k + 1} of the numbers is not base64.`);
+      return v;
+    });
+    const n = (q[0] << 18) | (q[1] << 12) | (q[2] << 6) | q[3];
+    if (o < byteLength) bytes[o++] = (n >> 16) & 255;
+    if (o < byteLength) bytes[o++] = (n >> 8) & 255;
+    if (o < byteLength) bytes[o++] = n & 255;
+  }
+  const view = new DataView(bytes.buffer);
+  const out = new Float64Array(byteLength / 8);
+  for (let i = 0; i < out.length; i++) out[i] = view.getFloat64(i * 8, true);
+  return out;
+}
+
+/** The session as the text of a session file. The snapshot is only read. */
+export function sessionFileText(snapshot: SessionSnapshot, now: Date, version: string = TOOL_LABEL): string {
+  // One chunk per axis: the file holds each axis whole.
+  const meta = sessionMeta(snapshot, 0, now, Number.MAX_SAFE_INTEGER);
+  const numbers: Record<string, { x: string; y: string }> = {};
+  for (const t of snapshot.traces) numbers[t.id] = { x: float64ToBase64(t.x), y: float64ToBase64(t.y) };
+  return JSON.stringify({
+    format: SESSION_FILE_FORMAT, version: SESSION_FILE_VERSION, savedAt: now.toISOString(), writtenBy: version, caution: CAUTION, meta, numbers,
+  });
+}
+
+/**
+ * A session from the text of a session file, checked as a restore from the
+ * database is (a trace that fails its checks is left out with a note, a
+ * recipe that no longer validates starts empty with a note). Never throws.
+ */
+export function sessionFromFileText(text: string, fileName: string, registry: Registry = STEP_REGISTRY): Exclude<LoadOutcome, null> {
+  const refuse = (problem: string) => ({ ok: false as const, problem: `${fileName}: ${problem}` });
+  if (typeof text !== 'string' || text.length === 0) return refuse('the file is empty.');
+  if (text.length > SESSION_FILE_MAX_CHARS) return refuse(`the file is larger than ${SESSION_FILE_MAX_CHARS / 1048576} MB and was not read.`);
+  let parsed: unknown;
+  try {
+    parsed = JSON.parse(text);
+  } catch (e) {
+    return refuse(`this is not a session file (it is not valid JSON: ${(e as Error).message}).`);
+  }
+  const f = parsed as { format?: unknown; version?: unknown; meta?: SessionMeta; numbers?: Record<string, { x?: unknown; y?: unknown }> } | null;
+  if (!f || typeof f !== 'object' || f.format !== SESSION_FILE_FORMAT) {
+    return refuse('this is not a session file saved by this page. Trace files go through “Open file…”, recipes through “Load recipe…”.');
+  }
+  if (typeof f.version !== 'number' || f.version > SESSION_FILE_VERSION) return refuse('the session file was written by a newer version of the page.');
+  if (!f.meta || typeof f.meta !== 'object' || !Array.isArray(f.meta.heads) || !f.numbers || typeof f.numbers !== 'object') {
+    return refuse('the session file is incomplete (its description or its numbers are missing).');
+  }
+  const numbers = f.numbers;
+  const decoded = new Map<string, Float64Array>();
+  const bad: string[] = [];
+  const get = (key: ChunkKey): Float64Array | undefined => {
+    const [id, axis, k] = key;
+    if (k !== 0) return undefined;
+    const name = `${id}\u0000${axis}`;
+    if (decoded.has(name)) return decoded.get(name);
+    const entry = Object.prototype.hasOwnProperty.call(numbers, id) ? numbers[id] : undefined;
+    const raw = entry?.[axis];
+    if (typeof raw !== 'string') return undefined;
+    try {
+      const values = base64ToFloat64(raw);
+      decoded.set(name, values);
+      return values;
+    } catch (e) {
+      bad.push(`${id} ${axis}: ${(e as Error).message}`);
+      return undefined;
+    }
+  };
+  // The file keeps each axis in one piece, whatever chunk size its description states.
+  const heads = f.meta.heads.map((h) => ({ ...h, chunkSize: Math.max(1, h.length), chunks: 1 }));
+  const out = sessionFromRecords({ ...f.meta, heads }, get, registry);
+  if (!out) return refuse('the session file holds no session.');
+  if (out.ok && bad.length) out.notes.push(...bad.map((b) => `Numbers that could not be read: ${b}.`));
+  return out;
+}

@@ -1,0 +1,1 @@
+export function withTables(md: string, catalogue: unknown): string;
