@@ -26,8 +26,9 @@
  *    otherwise. A row whose x, or every y, is not a number is skipped and
  *    listed; a y cell that is not a number leaves that point out of that
  *    column's trace only, counted and named in a notice.
- * 5. Rows are sorted by x when needed (stable), y is averaged over repeated
- *    x, both with a notice, and one trace is made per y column (at most
+ * 5. x is put in order by {@link orderByX} (the one rule every loader
+ *    follows: sorted, y averaged over repeated x, each said in a notice
+ *    that names points, not lines), and one trace is made per y column (at most
  *    {@link MAX_Y_COLUMNS}, the first ones, said in a notice).
  *
  * Columns: a column is measured values (and never text) when its cells are
@@ -52,6 +53,7 @@ import { looksNumeric, parseGroupedNumber, parseNumber, whyNotNumber } from './n
 import type { DecimalSign } from './numbers.ts';
 import { decodeText, overlongLineProblem } from './sniff.ts';
 import { sha256Hex } from './sha256.ts';
+import { orderByX } from './order-x.ts';
 
 /** Field separators the loader understands; "whitespace" means runs of spaces and tabs. */
 export type Delimiter = ',' | ';' | '\t' | 'whitespace';
@@ -921,7 +923,6 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
   };
   const xs = new Column();
   const ys = yColumns.map(() => new Column());
-  const lineOf = new Column();
   const skipped: SkippedRow[] = [];
   let skippedCount = 0;
   const skip = (line: number, reason: string, raw: string | (() => string)) => {
@@ -959,7 +960,6 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
       }
       xs.push(x);
       for (let j = 0; j < ys.length; j++) ys[j].push(rowY[j]);
-      lineOf.push(line);
     },
   };
   const first = sample[layout.tableIndex];
@@ -1026,7 +1026,6 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
   // x: point index, or the chosen column sorted and made strictly ascending.
   let x = xs.values();
   let yValues = ys.map((c) => c.values());
-  let lines = lineOf.values();
   if (xColumn < 0) {
     x = new Float64Array(rowsRead);
     for (let i = 0; i < rowsRead; i++) x[i] = i;
@@ -1047,54 +1046,10 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
       }
     }
   } else {
-    let drop = -1;
-    for (let i = 1; i < rowsRead; i++) if (x[i] < x[i - 1]) { drop = i; break; }
-    if (drop >= 0) {
-      const order = new Uint32Array(rowsRead);
-      for (let i = 0; i < rowsRead; i++) order[i] = i;
-      const xv = x;
-      order.sort((a, b) => xv[a] - xv[b] || a - b);
-      notices.push(
-        `x was not in ascending order (at line ${lines[drop]} it falls from ${x[drop - 1]} to ${x[drop]}), so the rows were sorted by x; rows with equal x keep their file order.`,
-      );
-      x = Float64Array.from(order, (i) => xv[i]);
-      yValues = yValues.map((y) => Float64Array.from(order, (i) => y[i]));
-      const lv = lines;
-      lines = Float64Array.from(order, (i) => lv[i]);
-    }
-    let repeats = 0, sets = 0, firstRepeat = -1;
-    for (let i = 1; i < rowsRead; i++) {
-      if (x[i] === x[i - 1]) {
-        repeats++;
-        if (i === 1 || x[i - 1] !== x[i - 2]) sets++;
-        if (firstRepeat < 0) firstRepeat = i;
-      }
-    }
-    if (repeats > 0) {
-      const outX = new Float64Array(rowsRead - repeats);
-      const outY = yValues.map(() => new Float64Array(rowsRead - repeats));
-      let o = 0;
-      for (let i = 0; i < rowsRead;) {
-        let j = i + 1;
-        while (j < rowsRead && x[j] === x[i]) j++;
-        outX[o] = x[i];
-        for (let k = 0; k < yValues.length; k++) {
-          // Gaps (cells that were not numbers) take no part in the average.
-          let sum = 0, count = 0;
-          for (let r = i; r < j; r++) { const v = yValues[k][r]; if (!Number.isNaN(v)) { sum += v; count++; } }
-          outY[k][o] = count ? sum / count : NaN;
-        }
-        o++;
-        i = j;
-      }
-      notices.push(
-        `${repeats} row${repeats === 1 ? ' repeats' : 's repeat'} an x value already present, in ${sets} set${sets === 1 ? '' : 's'} ` +
-          `(first: x = ${x[firstRepeat]} at lines ${lines[firstRepeat - 1]} and ${lines[firstRepeat]}); ` +
-          'y was averaged over each set of equal x, since a trace needs x strictly rising.',
-      );
-      x = outX;
-      yValues = outY;
-    }
+    const ordered = orderByX(x, yValues);
+    x = ordered.x;
+    yValues = ordered.ys;
+    notices.push(...ordered.notices);
   }
   if (x.length < MIN_POINTS) {
     return problem(
