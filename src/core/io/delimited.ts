@@ -47,13 +47,14 @@
 import Papa from 'papaparse';
 import { createTrace, MIN_POINTS } from '../trace.ts';
 import type { Trace } from '../trace.ts';
-import { givenSha256, MAX_FILE_BYTES, MAX_Y_COLUMNS } from './types.ts';
+import { givenSha256, MAX_Y_COLUMNS } from './types.ts';
 import type { LoadOptions, LoadProblem, LoadQuestion, LoadReport, LoadResult, SkippedRow } from './types.ts';
 import { looksNumeric, parseGroupedNumber, parseNumber, whyNotNumber } from './numbers.ts';
 import type { DecimalSign } from './numbers.ts';
 import { decodeText, overlongLineProblem } from './sniff.ts';
 import { sha256Hex } from './sha256.ts';
 import { orderByX } from './order-x.ts';
+import { bytesProblem, unexpectedLoadProblem } from './guards.ts';
 
 /** Field separators the loader understands; "whitespace" means runs of spaces and tabs. */
 export type Delimiter = ',' | ';' | '\t' | 'whitespace';
@@ -756,11 +757,7 @@ export function parseDelimited(bytes: Uint8Array, fileName: string, options: Loa
   try {
     return parseDelimitedUnsafe(bytes, fileName, options, splitter);
   } catch (e) {
-    return problem(
-      fileName,
-      `The loader stopped on an unexpected error (${e instanceof Error ? e.message : String(e)}).`,
-      'This is a fault in the page, not in your file alone: please report it with the file attached. Try saving the file again as plain comma-separated text.',
-    );
+    return { ok: false, error: unexpectedLoadProblem(fileName, e, 'Try saving the file again as plain comma-separated text.') };
   }
 }
 
@@ -795,19 +792,8 @@ function listColumns(names: string[]): string {
 }
 
 function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: LoadOptions, splitter: RowSplitter): LoadResult {
-  if (!(bytes instanceof Uint8Array)) {
-    return problem(fileName, 'No file content was given to the loader.', 'Choose the file again.');
-  }
-  if (bytes.length > MAX_FILE_BYTES) {
-    return problem(
-      fileName,
-      `The file is ${(bytes.length / 1048576).toFixed(0)} MB, more than the ${MAX_FILE_BYTES / 1048576} MB the page can hold.`,
-      'Cut the file into parts, or keep only the time range you need, and load that.',
-    );
-  }
-  if (bytes.length === 0) {
-    return problem(fileName, 'The file is empty (0 bytes).', 'Choose the file again; if it was exported from an instrument, check that the export finished.');
-  }
+  const bad = bytesProblem(bytes, fileName);
+  if (bad) return { ok: false, error: bad };
   const long = overlongLineProblem(bytes, fileName);
   if (long) return { ok: false, error: long };
   const onProgress = options.onProgress;
