@@ -30,10 +30,24 @@ export default tseslint.config(
           { group: ['react', 'react-dom', 'react/*', 'react-dom/*'], message: 'src/core must not import React.' },
           { group: ['plotly.js*', '*plotly*'], message: 'src/core must not import Plotly.' },
           { group: ['zustand', 'zustand/*', '**/state/**', '**/state'], message: 'src/core must not import the store.' },
-          { group: ['**/ui/**', '**/worker/**'], message: 'src/core must not import UI or worker code.' },
+          { group: ['**/ui/**', '**/ui', '**/worker/**', '**/worker'], message: 'src/core must not import UI or worker code.' },
         ],
       }],
       'no-restricted-globals': ['error', 'document', 'window', 'self', 'postMessage', 'localStorage'],
+    },
+  },
+  {
+    // The store sits below the page: state may import the core, never the UI
+    // (DEVELOPERS.md, "Folders"; test/architecture/import-direction.test.ts
+    // checks the resolved paths too).
+    files: ['src/state/**/*.ts'],
+    rules: {
+      'no-restricted-imports': ['error', {
+        patterns: [
+          { group: ['react', 'react-dom', 'react/*', 'react-dom/*'], message: 'src/state must not import React components; the UI reads the store, not the other way round.' },
+          { group: ['**/ui/**', '**/ui'], message: 'src/state must not import src/ui.' },
+        ],
+      }],
     },
   },
 );

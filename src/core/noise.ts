@@ -48,9 +48,6 @@ export interface NoiseProblem {
 
 export type NoiseResult = NoiseEstimate | NoiseProblem;
 
-/** Scale that turns a median absolute deviation into σ for normal data: 1/Φ⁻¹(3/4). */
-export const MAD_TO_SIGMA = 1.4826;
-
 const FEWEST_POINTS = 3;
 
 function fmt(v: number): string {
@@ -167,37 +164,6 @@ export function noisePeakToPeak(x: Float64Array, y: Float64Array, from: number, 
     description: `Range (max − min) of the residuals about a fitted straight line over ${fmt(x[i0])} to ${fmt(x[i1])} (${n} points, detrended).`,
     from: x[i0], to: x[i1],
   };
-}
-
-/** k-th smallest (0-based) of a scratch array, reordering it (Hoare's quickselect, median-of-three pivot). */
-export function select(a: Float64Array, k: number): number {
-  let lo = 0, hi = a.length - 1;
-  while (hi > lo) {
-    const mid = (lo + hi) >>> 1;
-    // Median of three keeps sorted or constant stretches from going quadratic.
-    let p = a[mid];
-    const l = a[lo], h = a[hi];
-    if ((l <= p && p <= h) || (h <= p && p <= l)) { /* p is the median */ } else if ((p <= l && l <= h) || (h <= l && l <= p)) p = l; else p = h;
-    let i = lo, j = hi;
-    while (i <= j) {
-      while (a[i] < p) i++;
-      while (a[j] > p) j--;
-      if (i <= j) { const t = a[i]; a[i] = a[j]; a[j] = t; i++; j--; }
-    }
-    if (k <= j) hi = j; else if (k >= i) lo = i; else return a[k];
-  }
-  return a[k];
-}
-
-/** Median of a scratch array (reorders it, so only for arrays made here). Even length: mean of the two middle values. */
-export function medianInPlace(a: Float64Array): number {
-  const n = a.length;
-  const hi = select(a, n >> 1);
-  if (n % 2 === 1) return hi;
-  // After selecting n/2 every value left of it is ≤ it; the other middle value is their maximum.
-  let lo = -Infinity;
-  for (let i = 0; i < n >> 1; i++) if (a[i] > lo) lo = a[i];
-  return (lo + hi) / 2;
 }
 
 /**

@@ -29,9 +29,6 @@ export interface AnalysisSlice {
   /** Show ledger rows that stay below the detection limit in every column (off by default). */
   ledgerNoiseLevel: boolean;
   setLedgerNoiseLevel: (v: boolean) => void;
-  /** The user's confirmation of what the export loses (goes into the report). */
-  exportConfirmation: { at: string; sentences: string[] } | null;
-  confirmExport: (sentences: string[]) => void;
 }
 
 export const createAnalysisSlice: StateCreator<AppState, [], [], AnalysisSlice> = (set) => ({
@@ -69,6 +66,4 @@ export const createAnalysisSlice: StateCreator<AppState, [], [], AnalysisSlice> 
   },
   removeAlternative: (id) => set((s) => ({ alternatives: s.alternatives.filter((a) => a.id !== id) })),
   setShowAlternatives: (showAlternatives) => set({ showAlternatives }),
-  exportConfirmation: null,
-  confirmExport: (sentences) => set({ exportConfirmation: { at: new Date().toISOString(), sentences } }),
 });

@@ -4,13 +4,9 @@
  * hold yet); after that only recipes and settings. Arrays coming back are
  * transferred, not copied (a loaded file's traces too).
  */
-import type { Recipe } from '../core/recipe.ts';
 import type { LoadOptions, LoadResult } from '../core/io/types.ts';
-import type { SpikeEvent } from '../core/steps/types.ts';
 import type { Trace } from '../core/trace.ts';
 import type { AnalyseRequest, AnalyseResult } from '../core/analyse.ts';
-
-export type { AnalyseRequest, AnalyseResult };
 
 export type ToWorker =
   /** New traces, and (when given) the ids of every trace that stays: traces the worker holds already are not sent again. */
@@ -31,5 +27,3 @@ export type FromWorker =
   | { type: 'progress'; jobId: number; fraction: number }
   /** `missing`: traces the page named never reached this worker (the page sends them again and retries). */
   | { type: 'failed'; jobId: number; message: string; missing?: boolean };
-
-export type { Recipe, SpikeEvent };

@@ -259,11 +259,20 @@ describe('problems are values naming the line or label', () => {
     expect(problem(parseJcamp(text, 'p.jdx', SHA)).problem).toMatch(/peak table/);
   });
 
-  it('fewer than 5 points or repeated x in pairs are problems, not exceptions', () => {
+  it('fewer than 5 points, also after averaging repeated x, are problems, not exceptions', () => {
     const few = ['##TITLE=few', '##XYPOINTS=(XY..XY)', '1,2 3,4', '##END='].join('\n');
     expect(problem(parseJcamp(few, 'few.jdx', SHA)).problem).toMatch(/at least 5/);
     const rep = ['##TITLE=rep', '##XYPOINTS=(XY..XY)', '1,2 1,3 2,4 3,5 4,6', '##END='].join('\n');
-    expect(problem(parseJcamp(rep, 'rep.jdx', SHA)).problem).toMatch(/ascending/);
+    expect(problem(parseJcamp(rep, 'rep.jdx', SHA)).problem).toMatch(/at least 5/);
+  });
+
+  it('repeated x in pairs is averaged, as in delimited text (issue 19)', () => {
+    const rep = ['##TITLE=rep', '##XYPOINTS=(XY..XY)', '1,2 1,3 2,4 3,5 4,6 5,7', '##END='].join('\n');
+    const r = parseJcamp(rep, 'rep.jdx', SHA);
+    const t = traces(r)[0];
+    expect(arr(t.x)).toEqual([1, 2, 3, 4, 5]);
+    expect(arr(t.y)).toEqual([2.5, 4, 5, 6, 7]);
+    if (r.ok) expect(r.report.notices).toContain('1 point repeats an x value already present, in 1 set (first: x = 1 at points 1 and 2 as read); y was averaged over each set of equal x, since a trace needs x strictly rising.');
   });
 
   it('a file without ##END= but with complete data loads with a notice', () => {

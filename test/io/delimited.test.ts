@@ -82,7 +82,7 @@ const EXPECTED: Record<string, ExpectedOk | ExpectedError> = {
     traces: [T('Time', 'min', 'Signal', 'mV', [0, 0.2, 0.4, 0.8, 0.9, 1.0], [1, 2, 3, 4, 5, 7])],
     skippedLines: [3, 5, 7, 8, 9, 12, 14],
   },
-  'unsorted.csv': { format: 'comma, decimal point', traces: [T('Time', 'min', 'Signal', 'mV', range(6, 0.1), [0, 10, 20, 30, 40, 50])], notice: /not in ascending order \(at line 3/ },
+  'unsorted.csv': { format: 'comma, decimal point', traces: [T('Time', 'min', 'Signal', 'mV', range(6, 0.1), [0, 10, 20, 30, 40, 50])], notice: /not in ascending order \(at point 2 as read it falls from 0\.3 to 0\.1\)/ },
   'single-column.txt': { format: 'comma, decimal point', traces: [T('Point', '', 'Signal', 'mV', range(6, 1), [1.5, 2.5, 7.25, 3, 1.75, 1.5])], notice: /x is the point index/ },
   'crlf.csv': { format: 'comma, decimal point', traces: [T('Time', 'min', 'Signal', 'mV', range(5, 0.1), [0.5, 1.5, 6.5, 1.25, 0.75])] },
   'cr-only.csv': { format: 'comma, decimal point', traces: [T('Time', 'min', 'Signal', 'mV', range(6, 0.1), [0.25, 1, 5, 1, 0.25, 0.125])] },
@@ -90,7 +90,7 @@ const EXPECTED: Record<string, ExpectedOk | ExpectedError> = {
   'duplicates.csv': {
     format: 'comma, decimal point',
     traces: [T('Time', 'min', 'Signal', 'mV', range(6, 0.1), [1, 3, 5, 8, 7, 3])],
-    notice: /3 rows repeat an x value already present, in 2 sets \(first: x = 0.1 at lines 3 and 4\)/,
+    notice: /3 points repeat an x value already present, in 2 sets \(first: x = 0\.1 at points 2 and 3 as read\)/,
   },
   'latin1-degree.csv': { format: 'Latin-1', traces: [T('Temperature', '\u00b0C', 'Absorbance', 'AU', range(5, 5, 20), [0.512, 0.498, 0.481, 0.467, 0.450])], notice: /not valid UTF-8/ },
   'utf16le.csv': { format: 'UTF-16LE', traces: [T('Time', 'min', 'Signal', 'mV', range(5, 0.1), [1, 2, 8, 2, 1])] },

@@ -1,6 +1,6 @@
 /** σ profiles (src/core/measure/noise-profile.ts) and their use for each peak's S/N. */
 import { describe, expect, it } from 'vitest';
-import { constantProfile, multiplyProfiles, profileFromValues, profileMedian, profileRange, sigmaAt } from '../../src/core/measure/noise-profile.ts';
+import { constantProfile, profileFromValues, profileMedian, profileRange, sigmaAt } from '../../src/core/measure/noise-profile.ts';
 import { analyse } from '../../src/core/analyse.ts';
 import { emptyRecipe } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
@@ -16,13 +16,6 @@ describe('σ profile', () => {
     expect(profileMedian(p)).toBe(2);
     expect(profileRange(p)).toEqual([2, 5]);
     expect(sigmaAt(constantProfile(10, 0.5), 7)).toBe(0.5);
-  });
-
-  it('multiplies two profiles on the union of their runs', () => {
-    const a = { points: 6, starts: Int32Array.of(0, 3), sigma: Float64Array.of(1, 2) };
-    const b = { points: 6, starts: Int32Array.of(0, 2, 4), sigma: Float64Array.of(10, 20, 30) };
-    const c = multiplyProfiles(a, b);
-    expect([0, 1, 2, 3, 4, 5].map((i) => sigmaAt(c, i))).toEqual([10, 10, 20, 40, 60, 60]);
   });
 });
 

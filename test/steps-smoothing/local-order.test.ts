@@ -1,13 +1,8 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import {
-  betaIncomplete,
-  fDistributionCdf,
-  fDistributionQuantile,
-  localOrderSmooth,
-  localOrderStep,
-  logGamma,
-} from '../../src/core/steps/local-order.ts';
+import { fDistributionQuantile, localOrderSmooth, localOrderStep } from '../../src/core/steps/local-order.ts';
+// The step's F test uses the project's one F distribution (numeric/distributions.ts); checked here too.
+import { fCdf as fDistributionCdf, logGamma, regularizedIncompleteBeta as betaIncomplete } from '../../src/core/numeric/distributions.ts';
 import { savitzkyGolay } from '../../src/core/numeric/savgol.ts';
 import { normalArray } from '../../src/core/numeric/random.ts';
 

@@ -26,8 +26,9 @@
  *    otherwise. A row whose x, or every y, is not a number is skipped and
  *    listed; a y cell that is not a number leaves that point out of that
  *    column's trace only, counted and named in a notice.
- * 5. Rows are sorted by x when needed (stable), y is averaged over repeated
- *    x, both with a notice, and one trace is made per y column (at most
+ * 5. x is put in order by {@link orderByX} (the one rule every loader
+ *    follows: sorted, y averaged over repeated x, each said in a notice
+ *    that names points, not lines), and one trace is made per y column (at most
  *    {@link MAX_Y_COLUMNS}, the first ones, said in a notice).
  *
  * Columns: a column is measured values (and never text) when its cells are
@@ -46,12 +47,14 @@
 import Papa from 'papaparse';
 import { createTrace, MIN_POINTS } from '../trace.ts';
 import type { Trace } from '../trace.ts';
-import { givenSha256, MAX_FILE_BYTES, MAX_Y_COLUMNS } from './types.ts';
+import { givenSha256, MAX_Y_COLUMNS } from './types.ts';
 import type { LoadOptions, LoadProblem, LoadQuestion, LoadReport, LoadResult, SkippedRow } from './types.ts';
 import { looksNumeric, parseGroupedNumber, parseNumber, whyNotNumber } from './numbers.ts';
 import type { DecimalSign } from './numbers.ts';
 import { decodeText, overlongLineProblem } from './sniff.ts';
 import { sha256Hex } from './sha256.ts';
+import { orderByX } from './order-x.ts';
+import { bytesProblem, unexpectedLoadProblem } from './guards.ts';
 
 /** Field separators the loader understands; "whitespace" means runs of spaces and tabs. */
 export type Delimiter = ',' | ';' | '\t' | 'whitespace';
@@ -754,11 +757,7 @@ export function parseDelimited(bytes: Uint8Array, fileName: string, options: Loa
   try {
     return parseDelimitedUnsafe(bytes, fileName, options, splitter);
   } catch (e) {
-    return problem(
-      fileName,
-      `The loader stopped on an unexpected error (${e instanceof Error ? e.message : String(e)}).`,
-      'This is a fault in the page, not in your file alone: please report it with the file attached. Try saving the file again as plain comma-separated text.',
-    );
+    return { ok: false, error: unexpectedLoadProblem(fileName, e, 'Try saving the file again as plain comma-separated text.') };
   }
 }
 
@@ -793,19 +792,8 @@ function listColumns(names: string[]): string {
 }
 
 function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: LoadOptions, splitter: RowSplitter): LoadResult {
-  if (!(bytes instanceof Uint8Array)) {
-    return problem(fileName, 'No file content was given to the loader.', 'Choose the file again.');
-  }
-  if (bytes.length > MAX_FILE_BYTES) {
-    return problem(
-      fileName,
-      `The file is ${(bytes.length / 1048576).toFixed(0)} MB, more than the ${MAX_FILE_BYTES / 1048576} MB the page can hold.`,
-      'Cut the file into parts, or keep only the time range you need, and load that.',
-    );
-  }
-  if (bytes.length === 0) {
-    return problem(fileName, 'The file is empty (0 bytes).', 'Choose the file again; if it was exported from an instrument, check that the export finished.');
-  }
+  const bad = bytesProblem(bytes, fileName);
+  if (bad) return { ok: false, error: bad };
   const long = overlongLineProblem(bytes, fileName);
   if (long) return { ok: false, error: long };
   const onProgress = options.onProgress;
@@ -921,7 +909,6 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
   };
   const xs = new Column();
   const ys = yColumns.map(() => new Column());
-  const lineOf = new Column();
   const skipped: SkippedRow[] = [];
   let skippedCount = 0;
   const skip = (line: number, reason: string, raw: string | (() => string)) => {
@@ -959,7 +946,6 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
       }
       xs.push(x);
       for (let j = 0; j < ys.length; j++) ys[j].push(rowY[j]);
-      lineOf.push(line);
     },
   };
   const first = sample[layout.tableIndex];
@@ -1026,7 +1012,6 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
   // x: point index, or the chosen column sorted and made strictly ascending.
   let x = xs.values();
   let yValues = ys.map((c) => c.values());
-  let lines = lineOf.values();
   if (xColumn < 0) {
     x = new Float64Array(rowsRead);
     for (let i = 0; i < rowsRead; i++) x[i] = i;
@@ -1047,54 +1032,10 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
       }
     }
   } else {
-    let drop = -1;
-    for (let i = 1; i < rowsRead; i++) if (x[i] < x[i - 1]) { drop = i; break; }
-    if (drop >= 0) {
-      const order = new Uint32Array(rowsRead);
-      for (let i = 0; i < rowsRead; i++) order[i] = i;
-      const xv = x;
-      order.sort((a, b) => xv[a] - xv[b] || a - b);
-      notices.push(
-        `x was not in ascending order (at line ${lines[drop]} it falls from ${x[drop - 1]} to ${x[drop]}), so the rows were sorted by x; rows with equal x keep their file order.`,
-      );
-      x = Float64Array.from(order, (i) => xv[i]);
-      yValues = yValues.map((y) => Float64Array.from(order, (i) => y[i]));
-      const lv = lines;
-      lines = Float64Array.from(order, (i) => lv[i]);
-    }
-    let repeats = 0, sets = 0, firstRepeat = -1;
-    for (let i = 1; i < rowsRead; i++) {
-      if (x[i] === x[i - 1]) {
-        repeats++;
-        if (i === 1 || x[i - 1] !== x[i - 2]) sets++;
-        if (firstRepeat < 0) firstRepeat = i;
-      }
-    }
-    if (repeats > 0) {
-      const outX = new Float64Array(rowsRead - repeats);
-      const outY = yValues.map(() => new Float64Array(rowsRead - repeats));
-      let o = 0;
-      for (let i = 0; i < rowsRead;) {
-        let j = i + 1;
-        while (j < rowsRead && x[j] === x[i]) j++;
-        outX[o] = x[i];
-        for (let k = 0; k < yValues.length; k++) {
-          // Gaps (cells that were not numbers) take no part in the average.
-          let sum = 0, count = 0;
-          for (let r = i; r < j; r++) { const v = yValues[k][r]; if (!Number.isNaN(v)) { sum += v; count++; } }
-          outY[k][o] = count ? sum / count : NaN;
-        }
-        o++;
-        i = j;
-      }
-      notices.push(
-        `${repeats} row${repeats === 1 ? ' repeats' : 's repeat'} an x value already present, in ${sets} set${sets === 1 ? '' : 's'} ` +
-          `(first: x = ${x[firstRepeat]} at lines ${lines[firstRepeat - 1]} and ${lines[firstRepeat]}); ` +
-          'y was averaged over each set of equal x, since a trace needs x strictly rising.',
-      );
-      x = outX;
-      yValues = outY;
-    }
+    const ordered = orderByX(x, yValues);
+    x = ordered.x;
+    yValues = ordered.ys;
+    notices.push(...ordered.notices);
   }
   if (x.length < MIN_POINTS) {
     return problem(

@@ -16,7 +16,9 @@
  *   FIRSTX/LASTX/NPOINTS, so a count that disagrees with the data means the x
  *   of every point is in doubt (usually a truncated or edited file).
  * * A missing NPOINTS is a notice (the decoded count is used).
- * * Descending x (common in infrared) is put in ascending order, with a notice.
+ * * x is put in order as by every loader ({@link orderByX}): descending x
+ *   (common in infrared) or x out of order is sorted, y is averaged over
+ *   repeated x (XYPOINTS may repeat an x), each with a notice.
  * * `?` (missing value) in the data is an error: a trace holds finite numbers only.
  * * `E`/`e` directly after an AFFN number and followed by a sign is an exponent
  *   (1.5E-3); otherwise `E`/`e` are the SQZ digits +5/−5.
@@ -33,6 +35,7 @@
 import { createTrace, TraceError } from '../trace.ts';
 import type { Trace } from '../trace.ts';
 import type { LoadProblem, LoadResult } from './types.ts';
+import { orderByX } from './order-x.ts';
 
 /**
  * A label as the standard compares it: spaces, dashes, slashes and
@@ -506,7 +509,12 @@ interface BlockResult {
   dataLines: number;
 }
 
-function readBlock(b: Block, fileName: string, sha256: string, notices: string[]): BlockResult {
+/**
+ * @param subject the block's name in notices about the order of x when the
+ *   file holds several data blocks; '' for a file with one, so its notices
+ *   read as those of any other format
+ */
+function readBlock(b: Block, fileName: string, sha256: string, notices: string[], subject: string): BlockResult {
   const rec = b.data as Record_;
   const compact = rec.value.replace(/\s/g, '').toUpperCase();
   const factor = (key: 'XFACTOR' | 'YFACTOR') => {
@@ -630,23 +638,11 @@ function readBlock(b: Block, fileName: string, sha256: string, notices: string[]
     throw new Error('readBlock called on a block without XYDATA/XYPOINTS');
   }
 
-  // Order x ascending (infrared spectra are usually written high to low wavenumber).
-  let ascending = true;
-  let descending = true;
-  for (let i = 1; i < xs.length; i++) {
-    if (!(xs[i] > xs[i - 1])) ascending = false;
-    if (!(xs[i] < xs[i - 1])) descending = false;
-  }
-  if (!ascending && xs.length > 1) {
-    const order = xs.map((_, i) => i).sort((a, c) => xs[a] - xs[c]);
-    xs = order.map((i) => xs[i]);
-    ys = order.map((i) => ys[i]);
-    notices.push(
-      descending
-        ? `${blockName(b)}: x was written in descending order; the points were put in ascending order.`
-        : `${blockName(b)}: x was not in order; the points were sorted by x.`,
-    );
-  }
+  // x in order and repeated x averaged, as every loader does (infrared
+  // spectra are usually written high to low wavenumber).
+  const pointsRead = xs.length;
+  const ordered = orderByX(xs, [ys], subject);
+  notices.push(...ordered.notices);
 
   const [xName0, xUnit] = axisFromUnit(findLabel(b, 'XUNITS')?.value, X_UNITS, 'x');
   const [yName0, yUnit] = axisFromUnit(findLabel(b, 'YUNITS')?.value, Y_UNITS, 'y');
@@ -661,13 +657,13 @@ function readBlock(b: Block, fileName: string, sha256: string, notices: string[]
   try {
     trace = createTrace({
       name: `${fileName}: ${b.title.trim() !== '' ? b.title.trim() : `block ${b.index + 1}`}`,
-      x: xs,
-      y: ys,
+      x: ordered.x,
+      y: ordered.ys[0],
       xName,
       xUnit,
       yName,
       yUnit,
-      source: { fileName, sha256, rowsRead: xs.length, rowsSkipped: 0 },
+      source: { fileName, sha256, rowsRead: pointsRead, rowsSkipped: 0 },
       metadata,
     });
   } catch (e) {
@@ -713,13 +709,14 @@ export function parseJcamp(text: string, fileName: string, sha256: string): Load
     const forms: string[] = [];
     let rowsRead = 0;
     const unread: Block[] = [];
+    const readable = blocks.filter((b) => b.data?.key === 'XYDATA' || b.data?.key === 'XYPOINTS').length;
     for (const b of blocks) {
       if (!b.data) continue;
       if (b.data.key !== 'XYDATA' && b.data.key !== 'XYPOINTS') {
         unread.push(b);
         continue;
       }
-      const r = readBlock(b, fileName, sha256, notices);
+      const r = readBlock(b, fileName, sha256, notices, readable > 1 ? blockName(b) : '');
       traces.push(r.trace);
       forms.push(r.forms);
       rowsRead += r.dataLines;

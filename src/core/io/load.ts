@@ -11,6 +11,7 @@ import { parseDelimited } from './delimited.ts';
 import { sha256Hex, sha256HexNative } from './sha256.ts';
 import { looksLikeJcamp, parseJcamp } from './jcamp.ts';
 import { looksLikeNetcdf, parseNetcdf } from './netcdf.ts';
+import { bytesProblem, unexpectedLoadProblem } from './guards.ts';
 
 /** Bytes decoded to decide whether a text file is JCAMP-DX. */
 const JCAMP_SNIFF_BYTES = 4096;
@@ -36,17 +37,8 @@ function refuse(fileName: string, problem: string, advice: string): LoadResult {
  */
 export function loadFile(bytes: Uint8Array, fileName: string, options: LoadOptions = {}): LoadResult {
   try {
-    if (!(bytes instanceof Uint8Array)) return refuse(fileName, 'No file content was given to the loader.', 'Choose the file again.');
-    if (bytes.length > MAX_FILE_BYTES) {
-      return refuse(
-        fileName,
-        `The file is ${(bytes.length / 1048576).toFixed(0)} MB, more than the ${MAX_FILE_BYTES / 1048576} MB the page can hold.`,
-        'Cut the file into parts, or keep only the time range you need, and load that.',
-      );
-    }
-    if (bytes.length === 0) {
-      return refuse(fileName, 'The file is empty (0 bytes).', 'Choose the file again; if it was exported from an instrument, check that the export finished.');
-    }
+    const bad = bytesProblem(bytes, fileName);
+    if (bad) return { ok: false, error: bad };
     const known = sniffBinaryFormat(bytes);
     if (known) return refuse(fileName, known.problem ?? `This is ${known.format}, not a file of measured values the page can read.`, known.advice);
     if (looksLikeNetcdf(bytes)) return parseNetcdf(bytes, fileName, givenSha256(options) ?? sha256Hex(bytes));
@@ -72,11 +64,7 @@ export function loadFile(bytes: Uint8Array, fileName: string, options: LoadOptio
     }
     return parseDelimited(bytes, fileName, options);
   } catch (e) {
-    return refuse(
-      fileName,
-      `The loader stopped on an unexpected error (${e instanceof Error ? e.message : String(e)}).`,
-      'This is a fault in the page, not in your file alone: please report it with the file attached.',
-    );
+    return { ok: false, error: unexpectedLoadProblem(fileName, e) };
   }
 }
 

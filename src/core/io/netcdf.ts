@@ -18,6 +18,7 @@
 import { NetCDFReader } from 'netcdfjs';
 import { createTrace, TraceError } from '../trace.ts';
 import type { LoadProblem, LoadResult } from './types.ts';
+import { orderByX } from './order-x.ts';
 
 /** True when the bytes start with the netCDF classic magic: "CDF" then version 1 (classic) or 2 (64-bit offset). */
 export function looksLikeNetcdf(bytes: Uint8Array): boolean {
@@ -157,8 +158,8 @@ function readNumbers(reader: NetCDFReader, v: NcVariable, byteLength: number): n
  * @param bytes the whole file
  * @param fileName the name shown to the user and kept in the trace's source
  * @param sha256 lower-case hex SHA-256 of the bytes
- * @returns one trace: x = time (ascending; sorted with a notice if the stored
- *   times were not), y = `ordinate_values`, units from `retention_unit` and
+ * @returns one trace: x = time (put in order and repeated times averaged
+ *   by {@link orderByX}, with its notices), y = `ordinate_values`, units from `retention_unit` and
  *   `detector_unit`, global attributes and scalar variables as metadata.
  */
 export function parseNetcdf(bytes: Uint8Array, fileName: string, sha256: string): LoadResult {
@@ -269,15 +270,10 @@ export function parseNetcdf(bytes: Uint8Array, fileName: string, sha256: string)
         return fail(`The time of point ${i + 1} is not a finite number (${x[i]}).`, 'Check raw_data_retention in the file; export it again.');
       }
     }
-    let ordered = true;
-    for (let i = 1; i < n; i++) if (!(x[i] > x[i - 1])) ordered = false;
-    let ys = y;
-    if (!ordered) {
-      const order = x.map((_, i) => i).sort((a, b) => x[a] - x[b]);
-      x = order.map((i) => x[i]);
-      ys = order.map((i) => y[i]);
-      notices.push('The stored times were not in ascending order; the points were sorted by time.');
-    }
+    // Times in order and repeated times averaged, as every loader does (only
+    // an explicit raw_data_retention can be out of order or repeat a time).
+    const ordered = orderByX(x, [y]);
+    notices.push(...ordered.notices);
 
     const metadata: Record<string, string> = {};
     for (const a of reader.globalAttributes) metadata[a.name] = attributeText(a.value);
@@ -296,8 +292,8 @@ export function parseNetcdf(bytes: Uint8Array, fileName: string, sha256: string)
     try {
       const trace = createTrace({
         name: `${fileName}: ${yName}`,
-        x,
-        y: ys,
+        x: ordered.x,
+        y: ordered.ys[0],
         xName: 'Time',
         xUnit,
         yName,

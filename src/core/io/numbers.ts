@@ -109,14 +109,6 @@ export function parseNumber(field: string, decimal: DecimalSign = '.'): number {
   return Number.isFinite(value) ? value : NaN;
 }
 
-/**
- * True when the field is a number by {@link parseNumber}'s grammar. Values
- * that overflow (e.g. "1e999") count as not a number.
- */
-export function isNumberField(field: string, decimal: DecimalSign = '.'): boolean {
-  return !Number.isNaN(parseNumber(field, decimal));
-}
-
 /** A cell read with thousands grouping (see {@link parseGroupedNumber}). */
 export interface GroupedNumber {
   value: number;

@@ -151,13 +151,6 @@ export function expectedNoiseBumps(points: number, dx: number, options: PeakOpti
   return { ...hit, points, aboveDetection: hit.countedAboveDetection * scale, aboveQuantitation: hit.countedAboveQuantitation * scale, oneBumpSnr };
 }
 
-/** Expected noise-only rows of this length at or above S/N u (u at or above the detection limit). */
-export function expectedNoiseBumpsAbove(c: NoiseBumpCount, u: number): number {
-  let k = 0;
-  while (k < c.snrs.length && c.snrs[k] >= u) k++;
-  return (k * c.points) / c.simulatedPoints;
-}
-
 /**
  * The sentence the page and the exports show beside the counts, e.g.
  * "Pure noise of this length (100,000 points) would give about 62 bumps at

@@ -55,14 +55,6 @@ export function profileFromValues(values: Float64Array, relTol = 1e-6): SigmaPro
   return { points: values.length, starts: Int32Array.from(starts), sigma: Float64Array.from(sig) };
 }
 
-/** Each run's σ multiplied by the σ of `other` at the same index (both on the same grid). */
-export function multiplyProfiles(a: SigmaProfile, b: SigmaProfile): SigmaProfile {
-  if (a.points !== b.points) throw new RangeError(`The σ profiles belong to grids of ${a.points} and ${b.points} points.`);
-  const cuts = Array.from(new Set([...a.starts, ...b.starts])).sort((p, q) => p - q);
-  const sig = cuts.map((c) => sigmaAt(a, c) * sigmaAt(b, c));
-  return { points: a.points, starts: Int32Array.from(cuts), sigma: Float64Array.from(sig) };
-}
-
 /** The median σ over the grid's points (each run weighted by its length). */
 export function profileMedian(p: SigmaProfile): number {
   const order = Array.from(p.sigma.keys()).sort((i, j) => p.sigma[i] - p.sigma[j]);

@@ -52,7 +52,8 @@
  * the lowest and highest thirds of the signal level). When the noise does
  * grow with the signal, σ is given as a profile along the trace, in blocks.
  */
-import { medianInPlace, MAD_TO_SIGMA, type NoiseCheck } from '../noise.ts';
+import type { NoiseCheck } from '../noise.ts';
+import { MAD_TO_SIGMA, medianInPlace } from '../numeric/median.ts';
 
 export type { NoiseCheck };
 import { constantProfile, profileMedian, sigmaAt, type SigmaProfile } from './noise-profile.ts';

@@ -107,22 +107,6 @@ export function solveFactored(f: BandedFactor, b: Float64Array): Float64Array {
   return x;
 }
 
-/** y = A·x for a symmetric banded A given by its diagonals. */
-export function multiplyBandedSymmetric(bands: readonly Float64Array[], x: Float64Array): Float64Array {
-  const n = x.length;
-  const m = checkBands(bands, n);
-  const y = new Float64Array(n);
-  for (let i = 0; i < n; i++) y[i] = bands[0][i] * x[i];
-  for (let k = 1; k <= m; k++) {
-    const a = bands[k];
-    for (let i = 0; i + k < n; i++) {
-      y[i] += a[i] * x[i + k];
-      y[i + k] += a[i] * x[i];
-    }
-  }
-  return y;
-}
-
 /**
  * Solve A·x = b for a symmetric positive definite banded A by LDLᵀ
  * factorisation ({@link factorBandedSymmetric}). Neither argument is changed.

@@ -7,6 +7,13 @@
  */
 
 /**
+ * Scale that turns a median absolute deviation into σ for normal data:
+ * 1/Φ⁻¹(3/4) = 1.4826 to 4 decimals (Rousseeuw and Croux 1993, J. Am. Stat.
+ * Assoc. 88:1273; citation from memory). The one definition in the project.
+ */
+export const MAD_TO_SIGMA = 1.4826;
+
+/**
  * k-th smallest (0-based) of a[lo, hi], reordering that part so that
  * a[lo, k) ≤ a[k] ≤ a(k, hi]. Median-of-three pivots; should the partitions
  * stay lopsided (more than 2·log2(n) + 8 rounds, which sorted, constant or

@@ -9,6 +9,7 @@
  * (`npm run bench`, row running-median). The Hampel test keeps its own sorted
  * window, since it also needs the spread about the median.
  */
+import { MAD_TO_SIGMA } from './median.ts';
 
 /**
  * How the window is completed near the ends of the signal (a b c d are the
@@ -437,8 +438,8 @@ function shrinkMedian(y: Float64Array, w: number, out: Float64Array): void {
   }
 }
 
-/** Scale factor turning a median absolute deviation into a Gaussian SD estimate: 1/Φ⁻¹(3/4). */
-export const MAD_TO_SD = 1.4826;
+/** The MAD-to-σ scale ({@link MAD_TO_SIGMA}, defined in median.ts), under the name ensemble-average.ts imports. */
+export const MAD_TO_SD = MAD_TO_SIGMA;
 
 /** Result of {@link hampel}. */
 export interface HampelResult {
@@ -505,7 +506,7 @@ export function hampel(y: Float64Array, halfWidth: number, t: number): HampelRes
   for (let j = 0; j <= Math.min(h, n - 1); j++) insertSorted(s, len++, y[j]);
   for (let i = 0; i < n; i++) {
     const m = medianOfSorted(s, len);
-    const sd = MAD_TO_SD * madOfSorted(s, len, m);
+    const sd = MAD_TO_SIGMA * madOfSorted(s, len, m);
     median[i] = m;
     sigma[i] = sd;
     if (Math.abs(y[i] - m) > t * sd) {

@@ -19,7 +19,7 @@
  */
 import { dft, nextPowerOfTwo, powerSpectrum } from '../numeric/fft.ts';
 import { meanStep } from '../numeric/interpolate.ts';
-import { unevenSpacingProblem } from './resample.ts';
+import { unevenSpacingProblem } from './checks.ts';
 import type { Signal, StepDefinition, StepOutput } from './types.ts';
 
 export { powerSpectrum };

@@ -3,103 +3,17 @@
  * straight line and a quadratic with an F-test on the extra term.
  */
 import { meanStep } from '../numeric/interpolate.ts';
-import { checkOddWindow } from './moving-average.ts';
-import { unevenSpacingProblem } from './resample.ts';
+import { fCdf } from '../numeric/distributions.ts';
+import { checkOddWindow, unevenSpacingProblem } from './checks.ts';
 import type { Signal, StepDefinition, StepOutput } from './types.ts';
 
 /** Largest window the step accepts, in points. */
 export const LOCAL_ORDER_MAX_WINDOW = 1001;
 
 /**
- * Natural logarithm of the gamma function for x > 0, by the Lanczos
- * approximation with g = 7 and nine coefficients (Lanczos 1964, SIAM J.
- * Numer. Anal. B 1:86; coefficient set as published by P. Godfrey, from
- * memory), relative accuracy about 1e-15; the reflection formula covers x < 0.5.
- */
-export function logGamma(x: number): number {
-  if (!(x > 0)) throw new RangeError(`logGamma needs a positive argument (got ${x}).`);
-  if (x < 0.5) return Math.log(Math.PI / Math.sin(Math.PI * x)) - logGamma(1 - x);
-  const c = [
-    0.99999999999980993, 676.5203681218851, -1259.1392167224028, 771.32342877765313, -176.61502916214059,
-    12.507343278686905, -0.13857109526572012, 9.9843695780195716e-6, 1.5056327351493116e-7,
-  ];
-  const z = x - 1;
-  let a = c[0];
-  const t = z + 7.5;
-  for (let i = 1; i < 9; i++) a += c[i] / (z + i);
-  return 0.5 * Math.log(2 * Math.PI) + (z + 0.5) * Math.log(t) - t + Math.log(a);
-}
-
-/** Continued fraction for the incomplete beta function, modified Lentz (Press et al., Numerical Recipes, 2nd ed., §6.4 betacf). */
-function betaContinuedFraction(a: number, b: number, x: number): number {
-  const tiny = 1e-300;
-  const eps = 1e-16;
-  const qab = a + b;
-  const qap = a + 1;
-  const qam = a - 1;
-  let c = 1;
-  let d = 1 - (qab * x) / qap;
-  if (Math.abs(d) < tiny) d = tiny;
-  d = 1 / d;
-  let h = d;
-  for (let m = 1; m <= 20000; m++) {
-    const m2 = 2 * m;
-    let aa = (m * (b - m) * x) / ((qam + m2) * (a + m2));
-    d = 1 + aa * d;
-    if (Math.abs(d) < tiny) d = tiny;
-    c = 1 + aa / c;
-    if (Math.abs(c) < tiny) c = tiny;
-    d = 1 / d;
-    h *= d * c;
-    aa = (-(a + m) * (qab + m) * x) / ((a + m2) * (qap + m2));
-    d = 1 + aa * d;
-    if (Math.abs(d) < tiny) d = tiny;
-    c = 1 + aa / c;
-    if (Math.abs(c) < tiny) c = tiny;
-    d = 1 / d;
-    const del = d * c;
-    h *= del;
-    if (Math.abs(del - 1) < eps) return h;
-  }
-  return h;
-}
-
-/**
- * Regularized incomplete beta function I_x(a, b), by the continued fraction
- * of Press, Teukolsky, Vetterling & Flannery, Numerical Recipes (2nd ed.,
- * 1992, §6.4 betai/betacf), using the symmetry I_x(a,b) = 1 − I_{1−x}(b,a)
- * where the fraction converges faster. `xc` = 1 − x may be given exactly to
- * keep precision when x is close to 1.
- * @param x in [0, 1]. @param a > 0. @param b > 0.
- * @throws RangeError for arguments outside those ranges.
- */
-export function betaIncomplete(x: number, a: number, b: number, xc = 1 - x): number {
-  if (!(a > 0 && b > 0)) throw new RangeError(`The beta function needs positive shape parameters (got ${a}, ${b}).`);
-  if (!(x >= 0 && x <= 1)) throw new RangeError(`The incomplete beta function needs 0 ≤ x ≤ 1 (got ${x}).`);
-  if (x === 0) return 0;
-  if (xc === 0) return 1;
-  const lbt = logGamma(a + b) - logGamma(a) - logGamma(b) + a * Math.log(x) + b * Math.log(xc);
-  const bt = Math.exp(lbt);
-  if (x < (a + 1) / (a + b + 2)) return (bt * betaContinuedFraction(a, b, x)) / a;
-  return 1 - (bt * betaContinuedFraction(b, a, xc)) / b;
-}
-
-/**
- * Cumulative F distribution P(F ≤ f) with d1 and d2 degrees of freedom:
- * I_{d1 f/(d1 f + d2)}(d1/2, d2/2) (Abramowitz & Stegun 26.6.2).
- */
-export function fDistributionCdf(f: number, d1: number, d2: number): number {
-  if (!(d1 > 0 && d2 > 0)) throw new RangeError(`Degrees of freedom must be positive (got ${d1}, ${d2}).`);
-  if (Number.isNaN(f)) return NaN;
-  if (f <= 0) return 0;
-  if (f === Infinity) return 1;
-  const den = d1 * f + d2;
-  return betaIncomplete((d1 * f) / den, d1 / 2, d2 / 2, d2 / den);
-}
-
-/**
- * Quantile of the F distribution: the f with P(F ≤ f) = p, found by
- * doubling an upper bracket and then bisecting to full double precision.
+ * Quantile of the F distribution: the f with P(F ≤ f) = p ({@link fCdf}, the
+ * project's one F distribution), found by doubling an upper bracket and
+ * then bisecting to full double precision.
  * @param p probability in (0, 1). @param d1, d2 degrees of freedom (> 0).
  * @throws RangeError for p outside (0, 1) or non-positive degrees of freedom.
  */
@@ -108,14 +22,14 @@ export function fDistributionQuantile(p: number, d1: number, d2: number): number
   if (!(d1 > 0 && d2 > 0)) throw new RangeError(`Degrees of freedom must be positive (got ${d1}, ${d2}).`);
   let lo = 0;
   let hi = 1;
-  while (fDistributionCdf(hi, d1, d2) < p && hi < 1e300) {
+  while (fCdf(hi, d1, d2) < p && hi < 1e300) {
     lo = hi;
     hi *= 2;
   }
   for (let it = 0; it < 2000; it++) {
     const mid = 0.5 * (lo + hi);
     if (mid <= lo || mid >= hi) break;
-    if (fDistributionCdf(mid, d1, d2) < p) lo = mid;
+    if (fCdf(mid, d1, d2) < p) lo = mid;
     else hi = mid;
   }
   return 0.5 * (lo + hi);

@@ -3,6 +3,7 @@
  */
 import { padIndex } from '../numeric/convolve.ts';
 import type { Signal, StepDefinition, StepOutput } from './types.ts';
+import { checkOddWindow } from './checks.ts';
 
 /**
  * What happens where the window runs past an end:
@@ -221,22 +222,3 @@ export const movingAverageStep: StepDefinition<MovingAverageParams> = {
     return { x: Float64Array.from(input.x), y, notes };
   },
 };
-
-/**
- * Explain what is wrong with an odd window of points for data of length n,
- * or null when it is usable. Shared by the window-based smoothing steps.
- * @param window proposed window (points).
- * @param n number of points in the data.
- * @param max largest window the step accepts.
- * @param min smallest window the step accepts (default 3).
- */
-export function checkOddWindow(window: number, n: number, max: number, min = 3): string | null {
-  if (typeof window !== 'number' || Number.isNaN(window)) return 'The window is not a number; enter an odd whole number of points such as 5.';
-  if (!Number.isFinite(window)) return 'The window must be a finite odd whole number of points.';
-  if (!Number.isInteger(window)) return `The window must be a whole number of points, not ${window}.`;
-  if (window < min) return `The window must be at least ${min} points (got ${window}).`;
-  if (window > max) return `The window may be at most ${max} points (got ${window}).`;
-  if (window % 2 === 0) return `The window must be an odd number of points so it is centred; try ${window + 1} or ${window - 1}.`;
-  if (window > n) return `The window (${window} points) is larger than the trace (${n} points); choose at most ${n % 2 === 1 ? n : n - 1}.`;
-  return null;
-}

@@ -1,7 +1,7 @@
 /**
  * Resampling onto an evenly spaced x grid by straight-line interpolation.
  */
-import { interpolateLinear, isEvenlySpaced } from '../numeric/interpolate.ts';
+import { interpolateLinear } from '../numeric/interpolate.ts';
 import { MIN_POINTS } from '../trace.ts';
 import type { Signal, StepDefinition, StepOutput } from './types.ts';
 
@@ -29,16 +29,6 @@ export function resampleLinear(x: Float64Array, y: Float64Array, count: number):
   for (let i = 0; i < count; i++) grid[i] = x0 + i * step;
   grid[count - 1] = x1;
   return { x: grid, y: interpolateLinear(x, y, grid) };
-}
-
-/**
- * A sentence naming the resample step when x is not evenly spaced (within
- * 0.1 % of the mean step), or null when it is. Used by every step that
- * assumes even spacing.
- */
-export function unevenSpacingProblem(x: Float64Array, stepLabel: string): string | null {
-  if (isEvenlySpaced(x)) return null;
-  return `${stepLabel} assumes evenly spaced x, but the spacing of this trace varies; add the "Resample to even spacing" step before it.`;
 }
 
 export type ResampleParams = {

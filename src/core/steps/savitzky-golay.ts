@@ -14,8 +14,7 @@
 import { savgolCoefficients, savitzkyGolay } from '../numeric/savgol.ts';
 import type { SavgolMode } from '../numeric/savgol.ts';
 import { meanStep } from '../numeric/interpolate.ts';
-import { checkOddWindow } from './moving-average.ts';
-import { unevenSpacingProblem } from './resample.ts';
+import { checkOddWindow, unevenSpacingProblem } from './checks.ts';
 import type { Signal, StepDefinition, StepOutput } from './types.ts';
 
 export { savgolCoefficients, savitzkyGolay };

@@ -19,13 +19,8 @@ import { markDrawn } from '../draw-health.ts';
 type Guarded = 'cleaned' | 'peaks' | 'report';
 
 interface Props {
-  /** The main plot's element (for pictures); the first figure on the page is used when absent. */
-  figure?: HTMLElement | null;
+  /** The main plot's element (for pictures); the first figure on the page is used when it gives none. */
   getFigure?: () => HTMLElement | null;
-  /** Lost or weakened features; exports ask for a confirmation when non-empty. Default: the result's loss check (currentWarnings). */
-  lossSentences?: string[];
-  /** The loss ledger to write into the report. Default: the result's loss check ledger. */
-  ledger?: LossLedgerLike | null;
 }
 
 const DELIMITERS: { value: CsvDelimiter; label: string }[] = [
@@ -39,7 +34,7 @@ function stamp(d: Date): string {
 }
 
 /** Results out: files, clipboard, pictures, recipes, batches, and starting over. */
-export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props) {
+export function ExportPanel({ getFigure }: Props) {
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
   const stack = useApp((s) => s.recipe);
@@ -61,14 +56,14 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
   const recipeInput = useRef<HTMLInputElement>(null);
   const batchInput = useRef<HTMLInputElement>(null);
   const ready = !!(sample && result);
-  // The loss check's own list and ledger are used unless the page passes others.
-  const losses = lossSentences ?? result?.loss?.currentWarnings ?? [];
-  const ledgerOut: LossLedgerLike | null = ledger ?? result?.loss?.ledger ?? null;
+  // Lost or weakened features (exports ask for a confirmation when there are any) and the ledger, from the loss check.
+  const losses = result?.loss?.currentWarnings ?? [];
+  const ledgerOut: LossLedgerLike | null = result?.loss?.ledger ?? null;
   const stem = sample ? zipBaseName(sample.source.fileName) : 'trace';
 
   const notify = (kind: 'info' | 'warning' | 'error', title: string, lines: string[] = []) => useApp.getState().notify(kind, title, lines);
   const fail = (what: string, e: unknown) => notify('error', `${what} could not be made`, [e instanceof Error ? e.message : String(e)]);
-  const figureElement = (): HTMLElement | null => getFigure?.() ?? figure ?? document.querySelector<HTMLElement>('[data-testid="figure"]');
+  const figureElement = (): HTMLElement | null => getFigure?.() ?? document.querySelector<HTMLElement>('[data-testid="figure"]');
 
   const exportNow = (kind: Guarded, confirmed: ExportConfirmation | null) => {
     if (!sample || !result) return;
