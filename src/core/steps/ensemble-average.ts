@@ -43,7 +43,7 @@ export const ensembleAverageStep: StepDefinition<EnsembleAverageParams> = {
   summary:
     'Replaces the signal by the point-by-point mean of itself and every trace you marked as a repeated scan, on the signal\'s x values. ' +
     'Random noise drops by about √n for n scans while anything that repeats in every scan is kept. ' +
-    'Anything that changes between scans (drift, a shifted peak) is blurred, and the scans are used as loaded: earlier steps are not applied to them.',
+    'The scans go through every step above this one with the same settings, as the signal does. Anything that changes between scans (drift, a shifted peak) is blurred unless the scans are aligned first.',
   params: [],
   defaults: {},
   validate(_params, input, ctx) {
