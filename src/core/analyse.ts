@@ -14,6 +14,7 @@ import { matchPeaks, windowAdvice, type Ledger, type LedgerRow, type WindowAdvic
 import type { Peak, PeakDecisions, PeakOptions, SnrDefinition, SplitRule } from './measure/peak-types.ts';
 import { applyPeakDecisions, defaultPeakOptions, detectPeaks, markAppearsOnlyAfterProcessing, markSaturatedOnRaw } from './measure/peak-table.ts';
 import { expectedNoiseBumps, type NoiseBumpCount } from './measure/noise-bumps.ts';
+import { pharmacopoeialBlank } from './measure/companion-noise.ts'; // issue 20
 
 export { DEFAULT_NOISE_SETTINGS, measureNoise } from './measure/noise-report.ts';
 export type { NoiseMethod, NoiseReport, NoiseSettings } from './measure/noise-report.ts';
@@ -189,7 +190,7 @@ function measurePeaks(measured: Signal, raw: Signal, noiseSettings: NoiseSetting
     negative: ps.negative,
     split: ps.split ?? 'perpendicular-drop',
     limits: { detection: ps.detectionLimit, quantitation: ps.quantitationLimit },
-    pharmacopoeialNoise: ctx.blank ? { x: ctx.blank.x, y: ctx.blank.y, fromBlank: true } : undefined,
+    pharmacopoeialNoise: pharmacopoeialBlank(measured, raw, ctx, stack), // issue 20: h from the blank processed by the same stack
     noiseProfile: noise.profile,
     // The measured trace's own noise correlation (the raw ρ carried through the stack): it sets S/N box factors.
     noiseCorrelation: noise.measuredRho,

@@ -145,7 +145,7 @@ export function peakMethodLines(result: AnalyseResult): string[] {
     lines.push(`Limits: detection S/N ${o.limits.detection}, quantitation S/N ${o.limits.quantitation}.`);
     lines.push(`Flags: "${FLAG_TEXT['below-detection']}" when S/N < ${o.limits.detection}; "${FLAG_TEXT.detectable}" when ${o.limits.detection} ≤ S/N < ${o.limits.quantitation}; "${FLAG_TEXT.quantifiable}" when S/N ≥ ${o.limits.quantitation}; "${FLAG_TEXT['not-measured']}" when S/N could not be computed.`);
     lines.push(`Thresholds: prominence at least ${num(o.minProminence)} (y-units), S/N at least ${num(o.minSnr)}, FWHM at least ${num(o.minWidth)} (x-units), apex separation at least ${num(o.minSeparation)} (x-units, 0 = off)${o.negative ? '; troughs detected (heights and areas negative)' : ''}.`);
-    if (def === 'pharmacopoeial') lines.push(`2H/h noise window: ${o.pharmacopoeialMultiplier} half-height widths.`);
+    if (def === 'pharmacopoeial') lines.push(`2H/h noise window: ${o.pharmacopoeialMultiplier} half-height widths${o.pharmacopoeialNoise?.fromBlank ? '; h from the blank, processed by the same steps as the trace measured' : ''}.`);
   }
   lines.push(...PEAK_MEASURE_LINES);
   if (o && o.noiseSigma === 0) lines.push(`Noise σ is 0: S/N is not measured, and the rules that need σ use ${SIGMA_FLOOR_OF_SPAN} × the trace's span instead.`);
