@@ -38,6 +38,8 @@ export interface StepRun {
   cached: boolean;
   /** Milliseconds spent (0 when cached). */
   ms: number;
+  /** True when the step, with these parameters, is affine in its inputs (StepDefinition.linear). */
+  linear?: boolean;
 }
 
 export interface PipelineResult {
@@ -195,7 +197,8 @@ export function runPipeline(
     blank = follow.blank;
     scans = follow.scans;
     if (follow.notes.length) output = { ...output, notes: [...output.notes, ...follow.notes] };
-    runs.push({ uid: entry.uid, step: entry.step, status: 'ok', output, cached, ms: cached ? 0 : clock() - t0 });
+    const linear = typeof def.linear === 'function' ? def.linear(entry.params) : def.linear === true;
+    runs.push({ uid: entry.uid, step: entry.step, status: 'ok', output, cached, ms: cached ? 0 : clock() - t0, linear });
     key = stepKey;
     if (output.events) events.push(...output.events);
     if (output.baseline) baseline = output.baseline;

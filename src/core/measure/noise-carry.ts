@@ -100,10 +100,10 @@ function ranSteps(run: PipelineResult): string[] {
 
 /** True when every step that ran is marked linear and the grid is unchanged. */
 export function isLinearStack(run: PipelineResult, registry: Registry, raw: Signal): boolean {
-  const ran = ranSteps(run);
-  if (ran.length === 0) return true;
+  if (ranSteps(run).length === 0) return true;
   if (run.final.x.length !== raw.x.length) return false;
-  return ran.every((id) => registry.find((d) => d.id === id)?.linear === true);
+  // Each run says whether its step was linear with its parameters (pipeline.ts); the registry is the fallback.
+  return run.runs.filter((r) => r.status === 'ok').every((r) => r.linear ?? registry.find((d) => d.id === r.step)?.linear === true);
 }
 
 /** Quadratic form Σₐ Σ_b g[a] g[b] ρ(|a − b|) over the entries of g (ρ zero beyond its length). */
