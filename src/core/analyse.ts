@@ -15,6 +15,7 @@ import type { Peak, PeakDecisions, PeakOptions, SnrDefinition, SplitRule } from 
 import { applyPeakDecisions, defaultPeakOptions, detectPeaks, markAppearsOnlyAfterProcessing, markSaturatedOnRaw } from './measure/peak-table.ts';
 import { expectedNoiseBumps, type NoiseBumpCount } from './measure/noise-bumps.ts';
 import { pharmacopoeialBlank } from './measure/companion-noise.ts'; // issue 20
+import { markGhostPeaks } from './measure/ghost-peaks.ts'; // issue 20
 
 export { DEFAULT_NOISE_SETTINGS, measureNoise } from './measure/noise-report.ts';
 export type { NoiseMethod, NoiseReport, NoiseSettings } from './measure/noise-report.ts';
@@ -437,6 +438,7 @@ export function analyse(
     // What the raw trace does not have, and tops flat at the raw trace's largest value (smoothing rounds them).
     main.peaks = markSaturatedOnRaw(markAppearsOnlyAfterProcessing(main.peaks, reference.peaks, meanStep(raw.x)), raw.x, raw.y, ps.negative);
   }
+  if (ctx.blank && main.peakOptions) main.peaks = markGhostPeaks(main.peaks, pharmacopoeialBlank(measured, raw, ctx, stackOf(run, request.recipe, registry, ctx, sample.id))!, main.peakOptions, meanStep(measured.x)); // issue 20: ghost peaks
   const noiseBumps = main.peakOptions && main.peakOptions.noiseSigma > 0
     ? expectedNoiseBumps(measured.y.length, meanStep(measured.x), main.peakOptions, main.noise?.measuredRho)
     : null;
