@@ -47,9 +47,9 @@ function sameValues(a: Float64Array, b: Float64Array): boolean {
 }
 
 /** A shift in words: points and x-units. */
-function formatShift(s: number, dx: number): string {
+function formatShift(s: number, dx: number, xUnit: string): string {
   const sign = s > 0 ? '+' : s < 0 ? '−' : '';
-  return `${sign}${Math.abs(s).toFixed(2)} points (${sign}${formatNumber(Math.abs(s * dx))} in x)`;
+  return `${sign}${Math.abs(s).toFixed(2)} points (${sign}${Number(Math.abs(s * dx).toPrecision(3))}${xUnit ? ` ${xUnit}` : ' in x'})`;
 }
 
 export const ensembleAverageStep: StepDefinition<EnsembleAverageParams> = {
@@ -133,7 +133,7 @@ export const ensembleAverageStep: StepDefinition<EnsembleAverageParams> = {
         correlations[k] = est.correlation;
         if (est.atLimit) atLimit.push(scan.name);
         if (est.shift !== 0) ys = shiftSeries(ys, est.shift, kind);
-        perScan.push(`"${scan.name}" ${formatShift(est.shift, dx)}, r ${est.correlation.toFixed(3)}`);
+        perScan.push(`"${scan.name}" ${formatShift(est.shift, dx, scan.xUnit)}, r ${est.correlation.toFixed(3)}`);
       } else {
         correlations[k] = correlationAtLag(input.y, ys, 0);
       }

@@ -28,33 +28,33 @@ export function ScanAlignment({ shifts, correlations, minCorrelation, dx, xUnit 
   if (scans.length !== correlations.length) return null;
   const fmt = (v: number, d: number) => (Number.isFinite(v) ? v.toFixed(d) : '—');
   return (
-    <table className="data scan-alignment" data-testid="scan-alignment">
-      <caption className="small">Repeated scans against the signal</caption>
-      <thead>
-        <tr>
-          <th scope="col">scan</th>
-          <th scope="col">shift (points)</th>
-          <th scope="col">shift{xUnit ? ` (${xUnit})` : ' (x)'}</th>
-          <th scope="col">correlation r</th>
-          <th scope="col"><span className="sr-only">action</span></th>
-        </tr>
-      </thead>
-      <tbody>
-        {scans.map((t, k) => {
-          const poor = !(correlations[k] >= minCorrelation);
-          return (
-            <tr key={t.id} className={poor ? 'warn-text' : undefined}>
-              <th scope="row">{t.name}</th>
-              <td>{fmt(shifts[k], 2)}</td>
-              <td>{dx !== null && Number.isFinite(shifts[k]) ? Number((shifts[k] * dx).toPrecision(4)) : '—'}</td>
-              <td>{fmt(correlations[k], 3)}{poor ? ` (below ${minCorrelation})` : ''}</td>
-              <td>
-                <button type="button" className="link" onClick={() => setRole(t.id, 'ignore')} aria-label={`Leave out the scan ${t.name}`} title="Set this trace aside; mark it as a repeated scan again to bring it back">leave out</button>
-              </td>
-            </tr>
-          );
-        })}
-      </tbody>
-    </table>
+    <div className="scan-alignment-wrap">
+      <table className="data small scan-alignment" data-testid="scan-alignment">
+        <caption>Repeated scans against the signal</caption>
+        <thead>
+          <tr>
+            <th scope="col">scan</th>
+            <th scope="col">shift: points{xUnit ? ` (${xUnit})` : ' (x)'}</th>
+            <th scope="col">r</th>
+            <th scope="col"><span className="sr-only">action</span></th>
+          </tr>
+        </thead>
+        <tbody>
+          {scans.map((t, k) => {
+            const poor = !(correlations[k] >= minCorrelation);
+            return (
+              <tr key={t.id} className={poor ? 'warn-text' : undefined}>
+                <th scope="row">{t.name}</th>
+                <td>{fmt(shifts[k], 2)}{dx !== null && Number.isFinite(shifts[k]) ? ` (${Number((shifts[k] * dx).toPrecision(3))})` : ''}</td>
+                <td>{fmt(correlations[k], 3)}{poor ? ` below ${minCorrelation}` : ''}</td>
+                <td>
+                  <button type="button" className="link" onClick={() => setRole(t.id, 'ignore')} aria-label={`Leave out the scan ${t.name}`} title="Set this trace aside; mark it as a repeated scan again to bring it back">leave out</button>
+                </td>
+              </tr>
+            );
+          })}
+        </tbody>
+      </table>
+    </div>
   );
 }
