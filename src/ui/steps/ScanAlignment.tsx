@@ -45,7 +45,7 @@ export function ScanAlignment({ shifts, correlations, minCorrelation, dx, xUnit 
             return (
               <tr key={t.id} className={poor ? 'warn-text' : undefined}>
                 <th scope="row">{t.name}</th>
-                <td>{fmt(shifts[k], 2)}{dx !== null && Number.isFinite(shifts[k]) ? ` (${Number((shifts[k] * dx).toPrecision(3))})` : ''}</td>
+                <td>{fmt(shifts[k], 2)}{dx !== null && Number.isFinite(shifts[k]) ? ` (${Number((shifts[k] * dx).toPrecision(2))})` : ''}</td>
                 <td>{fmt(correlations[k], 3)}{poor ? ` below ${minCorrelation}` : ''}</td>
                 <td>
                   <button type="button" className="link" onClick={() => setRole(t.id, 'ignore')} aria-label={`Leave out the scan ${t.name}`} title="Set this trace aside; mark it as a repeated scan again to bring it back">leave out</button>
