@@ -14,6 +14,8 @@ import { matchPeaks, windowAdvice, type Ledger, type LedgerRow, type WindowAdvic
 import type { Peak, PeakDecisions, PeakOptions, SnrDefinition, SplitRule } from './measure/peak-types.ts';
 import { applyPeakDecisions, defaultPeakOptions, detectPeaks, markAppearsOnlyAfterProcessing, markSaturatedOnRaw } from './measure/peak-table.ts';
 import { expectedNoiseBumps, type NoiseBumpCount } from './measure/noise-bumps.ts';
+import { pharmacopoeialBlank } from './measure/companion-noise.ts'; // issue 20
+import { markGhostPeaks } from './measure/ghost-peaks.ts'; // issue 20
 
 export { DEFAULT_NOISE_SETTINGS, measureNoise } from './measure/noise-report.ts';
 export type { NoiseMethod, NoiseReport, NoiseSettings } from './measure/noise-report.ts';
@@ -189,7 +191,7 @@ function measurePeaks(measured: Signal, raw: Signal, noiseSettings: NoiseSetting
     negative: ps.negative,
     split: ps.split ?? 'perpendicular-drop',
     limits: { detection: ps.detectionLimit, quantitation: ps.quantitationLimit },
-    pharmacopoeialNoise: ctx.blank ? { x: ctx.blank.x, y: ctx.blank.y, fromBlank: true } : undefined,
+    pharmacopoeialNoise: pharmacopoeialBlank(measured, raw, ctx, stack), // issue 20: h from the blank processed by the same stack
     noiseProfile: noise.profile,
     // The measured trace's own noise correlation (the raw ρ carried through the stack): it sets S/N box factors.
     noiseCorrelation: noise.measuredRho,
@@ -436,6 +438,7 @@ export function analyse(
     // What the raw trace does not have, and tops flat at the raw trace's largest value (smoothing rounds them).
     main.peaks = markSaturatedOnRaw(markAppearsOnlyAfterProcessing(main.peaks, reference.peaks, meanStep(raw.x)), raw.x, raw.y, ps.negative);
   }
+  if (ctx.blank && main.peakOptions) main.peaks = markGhostPeaks(main.peaks, pharmacopoeialBlank(measured, raw, ctx, stackOf(run, request.recipe, registry, ctx, sample.id))!, main.peakOptions, meanStep(measured.x)); // issue 20: ghost peaks
   const noiseBumps = main.peakOptions && main.peakOptions.noiseSigma > 0
     ? expectedNoiseBumps(measured.y.length, meanStep(measured.x), main.peakOptions, main.noise?.measuredRho)
     : null;

@@ -6,10 +6,23 @@
  * reruns only steps k onward. A step whose parameters do not fit the data
  * is reported and passed over (its input flows on unchanged), so the page
  * always shows what was actually done and says what was not.
+ *
+ * Companions (issue 20): the blank and every repeated scan follow the
+ * sample. Each enabled step that runs on the sample is also run, with the
+ * same parameters, on each companion before any later step uses it, so a
+ * step that subtracts the blank or averages the scans sees them processed
+ * exactly as far as the sample is. Two exceptions, said in the step's note:
+ * the blank is not subtracted from itself (it would vanish, and the
+ * pharmacopoeial h needs it) and is not averaged with the scans; the scans
+ * are not averaged with each other (averaging consumes them). A step that
+ * does not fit a companion (e.g. a window longer than the blank) leaves it
+ * as it was, and the note says so. Companion outputs are cached under the
+ * sample step's key and the companion's role and id.
  */
 import { isEvenlySpaced } from './numeric/interpolate.ts';
 import type { Recipe, Registry } from './recipe.ts';
-import type { Signal, SpikeEvent, StepContext, StepOutput } from './steps/types.ts';
+import type { Signal, SpikeEvent, StepContext, StepDefinition, StepOutput, StepParams } from './steps/types.ts';
+import type { Trace } from './trace.ts';
 
 export type StepStatus = 'ok' | 'off' | 'error';
 
@@ -25,6 +38,8 @@ export interface StepRun {
   cached: boolean;
   /** Milliseconds spent (0 when cached). */
   ms: number;
+  /** True when the step, with these parameters, is affine in its inputs (StepDefinition.linear). */
+  linear?: boolean;
 }
 
 export interface PipelineResult {
@@ -35,7 +50,20 @@ export interface PipelineResult {
   events: SpikeEvent[];
   /** The baseline of the last baseline step, when it is on the final grid. */
   baseline?: Float64Array;
+  /** The blank and scans after every step that ran on them (the same steps as the sample, see the file comment). */
+  companions: ProcessedCompanions;
 }
+
+/** The blank and the repeated scans as processed by the stack (raw when no step ran). */
+export interface ProcessedCompanions {
+  blank?: Trace;
+  /** In the order of the context's scans. */
+  scans: Trace[];
+}
+
+/** Steps that use a companion; they are not applied to the companion they consume. */
+const USES_BLANK = 'blank-subtraction';
+const USES_SCANS = 'ensemble-average';
 
 /** Default memory budget of a {@link PipelineCache}: about twelve 10⁶-point outputs. */
 export const PIPELINE_CACHE_BYTES = 200 * 1024 * 1024;
@@ -103,11 +131,13 @@ function allFinite(a: Float64Array): boolean {
 /**
  * Run `recipe` on `input`. `inputKey` identifies the input data (e.g. the
  * trace id) for caching; `ctx` carries the blank and repeated scans; pass a
- * {@link PipelineCache} to reuse outputs between runs.
+ * {@link PipelineCache} to reuse outputs between runs; `companionCache`
+ * (default: the same cache) keeps the processed blank and scans, keyed by
+ * the identity of their raw arrays.
  */
 export function runPipeline(
   input: Signal, inputKey: string, recipe: Recipe, registry: Registry, ctx: StepContext = {}, cache?: PipelineCache,
-  clock: () => number = () => Date.now(),
+  clock: () => number = () => Date.now(), companionCache: PipelineCache | undefined = cache,
 ): PipelineResult {
   const runs: StepRun[] = [];
   const events: SpikeEvent[] = [];
@@ -115,7 +145,19 @@ export function runPipeline(
   let baseline: Float64Array | undefined;
   const ctxKey = `b:${ctx.blank?.id ?? '-'}|s:${(ctx.scans ?? []).map((s) => s.id).join(',')}`;
   let key = `${inputKey}|${ctxKey}`;
+  // The companions as processed so far; the context each step sees holds these, never the raw ones.
+  let blank: Trace | undefined = ctx.blank;
+  let scans: Trace[] = [...(ctx.scans ?? [])];
+  const stepCtx = (): StepContext => ({ blank, scans });
+  const tokens: CompanionTokens = { of: new Map(), blank: ctx.blank ? arrayToken(ctx.blank.y) : '-' };
+  if (ctx.blank) tokens.of.set(ctx.blank.id, arrayToken(ctx.blank.y));
+  for (const s of scans) tokens.of.set(s.id, arrayToken(s.y));
+  // Scans are processed only up to the last step that averages them; nothing after it reads them.
+  let lastScanUse = -1;
+  recipe.steps.forEach((e, i) => { if (e.enabled && e.step === USES_SCANS) lastScanUse = i; });
+  let stepIndex = -1;
   for (const entry of recipe.steps) {
+    stepIndex++;
     if (!entry.enabled) { runs.push({ uid: entry.uid, step: entry.step, status: 'off', cached: false, ms: 0 }); continue; }
     const def = registry.find((d) => d.id === entry.step);
     if (!def) {
@@ -127,7 +169,7 @@ export function runPipeline(
       problem = `${def.label} assumes evenly spaced x, and these x values are not evenly spaced. Add the step "Resample to even spacing" before it.`;
     }
     if (!problem) {
-      try { problem = def.validate(entry.params, current, ctx); } catch (e) { problem = `Could not check the parameters: ${(e as Error).message}`; }
+      try { problem = def.validate(entry.params, current, stepCtx()); } catch (e) { problem = `Could not check the parameters: ${(e as Error).message}`; }
     }
     if (problem) {
       runs.push({ uid: entry.uid, step: entry.step, status: 'error', message: problem, cached: false, ms: 0 });
@@ -139,7 +181,7 @@ export function runPipeline(
     const t0 = clock();
     if (!output) {
       try {
-        output = def.apply(current, entry.params, ctx);
+        output = def.apply(current, entry.params, stepCtx());
       } catch (e) {
         runs.push({ uid: entry.uid, step: entry.step, status: 'error', message: `${def.label} failed: ${(e as Error).message}`, cached: false, ms: 0 });
         continue;
@@ -150,12 +192,96 @@ export function runPipeline(
       }
       cache?.set(stepKey, output);
     }
-    runs.push({ uid: entry.uid, step: entry.step, status: 'ok', output, cached, ms: cached ? 0 : clock() - t0 });
+    // The companions follow: the same step, the same parameters, on each (before any later step uses them).
+    const follow = processCompanions(def, entry.params, stepKey, { blank, scans }, stepIndex <= lastScanUse, tokens, companionCache);
+    blank = follow.blank;
+    scans = follow.scans;
+    if (follow.notes.length) output = { ...output, notes: [...output.notes, ...follow.notes] };
+    const linear = typeof def.linear === 'function' ? def.linear(entry.params) : def.linear === true;
+    runs.push({ uid: entry.uid, step: entry.step, status: 'ok', output, cached, ms: cached ? 0 : clock() - t0, linear });
     key = stepKey;
     if (output.events) events.push(...output.events);
     if (output.baseline) baseline = output.baseline;
     else if (baseline && output.x.length !== baseline.length) baseline = undefined;
     current = { x: output.x, y: output.y };
   }
-  return { final: current, runs, events, baseline };
+  return { final: current, runs, events, baseline, companions: { blank, scans } };
+}
+
+/**
+ * A number per typed array, by identity: companion outputs are cached under
+ * the identity of the raw arrays they came from, so a changed companion
+ * under the same trace id (the noise carriage bumps single points) never
+ * meets a stale entry.
+ */
+const ARRAY_TOKENS = new WeakMap<Float64Array, number>();
+let nextToken = 1;
+function arrayToken(a: Float64Array): number {
+  let t = ARRAY_TOKENS.get(a);
+  if (t === undefined) { t = nextToken++; ARRAY_TOKENS.set(a, t); }
+  return t;
+}
+
+interface CompanionTokens {
+  /** Token of each raw companion's y, by trace id. */
+  of: Map<string, number>;
+  /** Token of the raw blank's y ('-' without a blank): the scans depend on it once the blank is subtracted from them. */
+  blank: number | '-';
+}
+
+/** A companion's name for a note. */
+function companionName(role: 'blank' | 'scan', t: Trace): string {
+  return role === 'blank' ? `the blank "${t.name}"` : `the scan "${t.name}"`;
+}
+
+/**
+ * Run one step on each companion (see the file comment): the blank with the
+ * scans as context, each scan with the processed blank as context. Returns
+ * the processed companions and the sentences for the step's note.
+ */
+function processCompanions(
+  def: StepDefinition, params: StepParams, stepKey: string,
+  now: ProcessedCompanions, scansStillUsed: boolean, tokens: CompanionTokens, cache?: PipelineCache,
+): ProcessedCompanions & { notes: string[] } {
+  const applied: string[] = [];
+  const notes: string[] = [];
+  const one = (role: 'blank' | 'scan', t: Trace, ctx: StepContext): Trace => {
+    const name = companionName(role, t);
+    const key = `${stepKey}#${role}:${t.id}:${tokens.of.get(t.id) ?? '?'}${role === 'scan' ? `|b:${tokens.blank}` : ''}`;
+    let out = cache?.get(key);
+    if (!out) {
+      let problem: string | null = null;
+      if (def.needsEvenSpacing && !isEvenlySpaced(t.x)) problem = 'its x values are not evenly spaced';
+      if (!problem) {
+        try { problem = def.validate(params as never, t, ctx); } catch (e) { problem = (e as Error).message; }
+      }
+      if (!problem) {
+        try { out = def.apply(t, params as never, ctx); } catch (e) { problem = (e as Error).message; }
+      }
+      if (!problem && out && (out.x.length !== out.y.length || out.y.length < 2 || !allFinite(out.y) || !allFinite(out.x))) {
+        problem = 'the step gave values that are not finite numbers';
+        out = undefined;
+      }
+      if (problem || !out) {
+        notes.push(`Not applied to ${name}, which stays as it was before this step: ${problem}`);
+        return t;
+      }
+      cache?.set(key, out);
+    }
+    applied.push(name);
+    return { ...t, x: out.x, y: out.y };
+  };
+  let blank = now.blank;
+  let scans = now.scans;
+  if (blank) {
+    if (def.id === USES_BLANK) notes.push(`The blank is not subtracted from itself: it goes on to later steps${scans.length ? ', and was subtracted from each scan,' : ''} as processed so far.`);
+    else if (def.id === USES_SCANS) notes.push('The blank is not averaged with the scans: it goes on to later steps as processed so far.');
+    else blank = one('blank', blank, { scans });
+  }
+  if (scans.length && scansStillUsed) {
+    if (def.id === USES_SCANS) notes.push(`Each scan was processed by every step before this one, as the sample was${scans.length > 1 ? '; the scans are not averaged with each other' : ''}.`);
+    else scans = scans.map((s) => one('scan', s, { blank }));
+  }
+  if (applied.length) notes.unshift(`Applied with the same parameters to ${applied.join(', ')}.`);
+  return { blank, scans, notes };
 }

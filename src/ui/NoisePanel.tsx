@@ -87,7 +87,7 @@ export function NoisePanel() {
             </select>
           </label>
           {ps.snrDefinition === 'pharmacopoeial' && (
-            <p className="hint">h is the range of {hasBlank ? 'the blank' : 'the trace itself (no blank is loaded — a deviation from the pharmacopoeial method)'} over a window of {ps.pharmacopoeialMultiplier} × the peak’s half-height width centred on the peak.</p>
+            <p className="hint">h is the range of {hasBlank ? 'the blank (processed by the same steps as the sample)' : 'the trace itself (no blank is loaded — a deviation from the pharmacopoeial method)'} over a window of {ps.pharmacopoeialMultiplier} × the peak’s half-height width centred on the peak.</p>
           )}
           <label className="param" htmlFor="measure-on">
             <span className="param-label">Measure peaks and noise on</span>

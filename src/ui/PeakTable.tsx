@@ -12,6 +12,7 @@ const MARK_SHORT: Record<PeakMark, string> = {
   'appears-only-after-processing': 'only after processing',
   'possibly-saturated': 'flat top',
   'thinly-sampled': 'thin',
+  'also-in-blank': 'in blank',
 };
 
 /** S/N for ordering: not measured sorts last. */
@@ -120,9 +121,9 @@ export function PeakTable() {
                 <td>{num(p.area)}</td>
                 <td title={`start: ${BOUND_TEXT[p.startKind]}; end: ${BOUND_TEXT[p.endKind]}${p.split !== 'none' ? `; shared valley split by ${SPLIT_TEXT[p.split]}` : ''}`}>{num(p.start, 4)} – {num(p.end, 4)}</td>
                 <td><strong>{num(p.snr, 3)}</strong></td>
-                <td className="marks" title={[...p.marks.map((m) => MARK_TEXT[m]), p.note ?? ''].filter(Boolean).join('; ')}>
+                <td className="marks" title={[...p.marks.map((m) => (m === 'also-in-blank' && p.blankHeight !== undefined ? `${MARK_TEXT[m]}; the blank's height there ${num(p.blankHeight)}` : MARK_TEXT[m])), p.note ?? ''].filter(Boolean).join('; ')}>
                   <span className={`flag flag-${p.flag}`}>{FLAG_WORDS[p.flag]}</span>
-                  {p.marks.map((m) => <span key={m} className={`mark mark-${m}`}>{MARK_SHORT[m]}</span>)}
+                  {p.marks.map((m) => <span key={m} className={`mark mark-${m}`}>{MARK_SHORT[m]}{m === 'also-in-blank' && p.blankHeight !== undefined ? ` (height ${num(p.blankHeight)})` : ''}</span>)}
                   {p.note && <span className="mark">see note</span>}
                 </td>
                 <td>{num(p.snrRms, 3)}</td>
@@ -142,7 +143,7 @@ export function PeakTable() {
       </div>
       <p className="hint">
         Height: apex above the peak’s own local baseline, a straight line between the trace’s levels at its bounds (drawn for the selected peak). Bounds: where the trace is back at the baseline, or a valley shared with a neighbour (split by {SPLIT_TEXT[result.peakOptions?.split ?? 'perpendicular-drop']}); hover a bound for why. FWHM: the peak’s own width at half that height. Area: above the local baseline between the bounds (trapezoid rule).
-        {' '}2H/h: h is the noise range {peaks.some((p) => p.pharmaNoise?.source === 'trace itself') ? 'of the trace itself (*), because no blank is loaded: a deviation from the pharmacopoeial method' : 'of the blank'} over {result.peakOptions?.pharmacopoeialMultiplier ?? 5} × FWHM centred on each peak.
+        {' '}2H/h: h is the noise range {peaks.some((p) => p.pharmaNoise?.source === 'trace itself') ? 'of the trace itself (*), because no blank is loaded: a deviation from the pharmacopoeial method' : 'of the blank, processed by the same steps as the sample'} over {result.peakOptions?.pharmacopoeialMultiplier ?? 5} × FWHM centred on each peak.
       </p>
     </section>
   );

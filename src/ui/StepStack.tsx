@@ -5,6 +5,7 @@ import { useApp } from '../state/store.ts';
 import { ParamControl } from './ParamControl.tsx';
 import { windowVariants } from './alternatives.ts';
 import { StepExtras } from './StepExtras.tsx';
+import { ScanAlignment } from './steps/ScanAlignment.tsx';
 
 const NO_RUNS: never[] = [];
 
@@ -114,6 +115,9 @@ export function StepStack() {
                       </table>
                       {run.events.length > 200 && <p className="small">First 200 of {run.events.length}; all are in the exports.</p>}
                     </details>
+                  )}
+                  {run.extra?.scanCorrelation && run.extra.scanShift && (
+                    <ScanAlignment shifts={run.extra.scanShift} correlations={run.extra.scanCorrelation} minCorrelation={Number(entry.params.minCorrelation ?? 0.8)} dx={dx} xUnit={sample?.xUnit ?? ''} />
                   )}
                   {run.extra && Object.keys(run.extra).length > 0 && <StepExtras extra={run.extra} x={sample && run.points === sample.x.length ? sample.x : null} xUnit={sample?.xUnit ?? ''} />}
                   <p className="muted small">{run.points} points out{run.cached ? ' (from cache)' : ` in ${run.ms} ms`}</p>

@@ -76,8 +76,8 @@ describe('ensemble average', () => {
     const noisy = () => Float64Array.from(signal, (s) => s + sigma * rng.normal());
     const input = { x, y: noisy() };
     const scans = Array.from({ length: nScans - 1 }, (_, k) => trace(`scan ${k + 2}`, x, noisy()));
-    expect(ensembleAverageStep.validate({}, input, { scans })).toBeNull();
-    const out = ensembleAverageStep.apply(input, {}, { scans });
+    expect(ensembleAverageStep.validate(ensembleAverageStep.defaults, input, { scans })).toBeNull();
+    const out = ensembleAverageStep.apply(input, ensembleAverageStep.defaults, { scans });
     const f = out.figures!;
     expect(f.n).toBe(nScans);
     expect(f.expectedGain).toBeCloseTo(3, 12);
@@ -97,7 +97,7 @@ describe('ensemble average', () => {
     const same = trace('itself', x, y);
     const shifted = trace('shifted', grid(60, -2.5, 1), Float64Array.from(grid(60, -2.5, 1), (v) => v + 2));
     const xc = Float64Array.from(x), yc = Float64Array.from(y), sc = Float64Array.from(shifted.y);
-    const out = ensembleAverageStep.apply({ x, y }, {}, { scans: [same, shifted] });
+    const out = ensembleAverageStep.apply({ x, y }, ensembleAverageStep.defaults, { scans: [same, shifted] });
     expect(x).toEqual(xc);
     expect(y).toEqual(yc);
     expect(shifted.y).toEqual(sc);
@@ -107,11 +107,11 @@ describe('ensemble average', () => {
     for (let i = 0; i < x.length; i++) expect(out.y[i]).toBeCloseTo(x[i] + 1, 12);
     expect(out.notes.join(' ')).toMatch(/counted once/);
     const far = trace('far', grid(10, 100, 1), new Float64Array(10));
-    expect(ensembleAverageStep.validate({}, { x, y }, { scans: [far] })).toMatch(/do not overlap/);
+    expect(ensembleAverageStep.validate(ensembleAverageStep.defaults, { x, y }, { scans: [far] })).toMatch(/do not overlap/);
     const part = trace('part', grid(10, 10, 1), new Float64Array(10));
-    expect(ensembleAverageStep.validate({}, { x, y }, { scans: [part] })).toMatch(/does not cover/);
-    expect(ensembleAverageStep.validate({}, { x, y }, {})).toMatch(/no repeated scans/);
-    expect(ensembleAverageStep.validate({}, { x, y }, { scans: [] })).toMatch(/no repeated scans/);
+    expect(ensembleAverageStep.validate(ensembleAverageStep.defaults, { x, y }, { scans: [part] })).toMatch(/does not cover/);
+    expect(ensembleAverageStep.validate(ensembleAverageStep.defaults, { x, y }, {})).toMatch(/no repeated scans/);
+    expect(ensembleAverageStep.validate(ensembleAverageStep.defaults, { x, y }, { scans: [] })).toMatch(/no repeated scans/);
   });
 
   it('noiseFromDifferences of white noise is σ (1.4826·MAD of differences / √2, common practice)', () => {

@@ -4,6 +4,7 @@
  * how and where the noise was measured, the detection and quantitation
  * limits, and which peaks were added or removed by hand.
  */
+import { ghostCell, ghostColumnHeader } from '../measure/ghost-peaks.ts'; // issue 20
 import type { AnalyseResult } from '../analyse.ts';
 import { writeCsv, type CsvCellOptions } from '../io/csv-write.ts';
 import type { NoiseEstimate } from '../noise.ts';
@@ -40,6 +41,7 @@ export const MARK_TEXT: Record<PeakMark, string> = {
   'appears-only-after-processing': 'appears only after processing',
   'possibly-saturated': 'flat top at the largest value: possibly saturated',
   'thinly-sampled': 'thinly sampled (under 5 points across half height)',
+  'also-in-blank': 'also in the blank at this position (carry-over or a ghost peak)',
 };
 
 /** Why a bound lies where it does, in words. */
@@ -91,6 +93,7 @@ export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader
     `from${xu}`, `to${xu}`, 'from: why there', 'to: why there', `baseline at from${yu}`, `baseline at to${yu}`, 'shared valley split',
     `noise σ at the peak${yu}`, `S/N (${SNR_SHORT[def]}, definition in use)`, 'S/N H/σ', 'S/N 2H/h',
     `noise range h for 2H/h${yu}`, 'h measured on', 'S/N mean/SD of region', 'status', 'marks', 'decision', 'origin', 'note',
+    ghostColumnHeader(yu), // issue 20
   ];
   const rows: (string | number)[][] = [header];
   const opt = (v: number | null | undefined): string | number => (v === null || v === undefined ? '' : v);
@@ -101,6 +104,7 @@ export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader
       p.noiseSigma, opt(p.snr), opt(p.snrRms), opt(p.snrPharma), opt(p.pharmaNoise?.h),
       p.pharmaNoise ? `${p.pharmaNoise.source}, ${p.pharmaNoise.points} points${p.pharmaNoise.clipped ? ', window cut by the trace end' : ''}` : '',
       opt(p.snrRegion), FLAG_TEXT[p.flag], peakMarksText(p), peakDecisionText(p), p.origin, p.note ?? '',
+      ghostCell(p), // issue 20
     ]);
   });
   return rows;
@@ -145,7 +149,7 @@ export function peakMethodLines(result: AnalyseResult): string[] {
     lines.push(`Limits: detection S/N ${o.limits.detection}, quantitation S/N ${o.limits.quantitation}.`);
     lines.push(`Flags: "${FLAG_TEXT['below-detection']}" when S/N < ${o.limits.detection}; "${FLAG_TEXT.detectable}" when ${o.limits.detection} ≤ S/N < ${o.limits.quantitation}; "${FLAG_TEXT.quantifiable}" when S/N ≥ ${o.limits.quantitation}; "${FLAG_TEXT['not-measured']}" when S/N could not be computed.`);
     lines.push(`Thresholds: prominence at least ${num(o.minProminence)} (y-units), S/N at least ${num(o.minSnr)}, FWHM at least ${num(o.minWidth)} (x-units), apex separation at least ${num(o.minSeparation)} (x-units, 0 = off)${o.negative ? '; troughs detected (heights and areas negative)' : ''}.`);
-    if (def === 'pharmacopoeial') lines.push(`2H/h noise window: ${o.pharmacopoeialMultiplier} half-height widths.`);
+    if (def === 'pharmacopoeial') lines.push(`2H/h noise window: ${o.pharmacopoeialMultiplier} half-height widths${o.pharmacopoeialNoise?.fromBlank ? '; h from the blank, processed by the same steps as the trace measured' : ''}.`);
   }
   lines.push(...PEAK_MEASURE_LINES);
   if (o && o.noiseSigma === 0) lines.push(`Noise σ is 0: S/N is not measured, and the rules that need σ use ${SIGMA_FLOOR_OF_SPAN} × the trace's span instead.`);

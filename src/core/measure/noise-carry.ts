@@ -36,7 +36,7 @@
  *   each series first, as a change of level, not noise. Cached per stack and
  *   noise model.
  */
-import { runPipeline, type PipelineResult } from '../pipeline.ts';
+import { PipelineCache, runPipeline, type PipelineResult } from '../pipeline.ts';
 import type { Recipe, Registry } from '../recipe.ts';
 import type { Signal, StepContext } from '../steps/types.ts';
 import type { Trace } from '../trace.ts';
@@ -100,10 +100,10 @@ function ranSteps(run: PipelineResult): string[] {
 
 /** True when every step that ran is marked linear and the grid is unchanged. */
 export function isLinearStack(run: PipelineResult, registry: Registry, raw: Signal): boolean {
-  const ran = ranSteps(run);
-  if (ran.length === 0) return true;
+  if (ranSteps(run).length === 0) return true;
   if (run.final.x.length !== raw.x.length) return false;
-  return ran.every((id) => registry.find((d) => d.id === id)?.linear === true);
+  // Each run says whether its step was linear with its parameters (pipeline.ts); the registry is the fallback.
+  return run.runs.filter((r) => r.status === 'ok').every((r) => r.linear ?? registry.find((d) => d.id === r.step)?.linear === true);
 }
 
 /** Quadratic form Σₐ Σ_b g[a] g[b] ρ(|a − b|) over the entries of g (ρ zero beyond its length). */
@@ -180,9 +180,16 @@ function ctxReplacing(ctx: StepContext, target: Float64Array, replacement: Float
   };
 }
 
-/** Process `input` with the stack, no caching (these runs are throw-away). */
+/**
+ * The blank and scans as processed by the stack, kept between the many throw-away runs of the carriage (issue 20:
+ * they follow the sample through every step). Keyed by the identity of their raw arrays, so a bumped copy never
+ * meets a stale entry; the sample's own outputs are never cached here.
+ */
+const COMPANIONS = new PipelineCache(32, 64 * 1024 * 1024);
+
+/** Process `input` with the stack, the sample's steps uncached (these runs are throw-away). */
 function processed(input: Signal, recipe: Recipe, registry: Registry, ctx: StepContext): Float64Array {
-  return runPipeline(input, 'noise-carry', recipe, registry, ctx).final.y;
+  return runPipeline(input, 'noise-carry', recipe, registry, ctx, undefined, undefined, COMPANIONS).final.y;
 }
 
 /** Column of the stack's linear map for sample index k of `source` (sample, blank or a scan): (P(in + A eₖ) − P(in))/A. */
@@ -419,7 +426,7 @@ export function carrySimulated(raw: Signal, run: PipelineResult, recipe: Recipe,
       for (let i = 0; i < ys.length; i++) ys[i] = s.y[i] + sign * es[i];
       c = ctxReplacing(c, s.y, ys);
     });
-    const out = runPipeline({ x: raw.x, y }, 'noise-carry', recipe, registry, c).final.y;
+    const out = runPipeline({ x: raw.x, y }, 'noise-carry', recipe, registry, c, undefined, undefined, COMPANIONS).final.y;
     if (out.length !== m) throw new Error('the processed grid changed when noise was added');
     return out;
   };

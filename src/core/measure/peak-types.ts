@@ -47,8 +47,10 @@ export type BoundKind = 'returned' | 'valley' | 'shared-valley' | 'width-limit' 
  *   clipped it, so height and area may be too small.
  * * 'thinly-sampled': fewer than 5 samples across the half-height width;
  *   height, width and area depend on where the samples fell.
+ * * 'also-in-blank': the blank has a peak at the same position (carry-over,
+ *   a ghost peak); `blankHeight` holds its height (measure/ghost-peaks.ts).
  */
-export type PeakMark = 'appears-only-after-processing' | 'possibly-saturated' | 'thinly-sampled';
+export type PeakMark = 'appears-only-after-processing' | 'possibly-saturated' | 'thinly-sampled' | 'also-in-blank';
 
 /** Noise range h for the pharmacopoeial S/N, with where it was measured. */
 export interface PharmacopoeialNoise {
@@ -165,6 +167,8 @@ export interface Peak {
   readonly snrDefinition: SnrDefinition;
   readonly flag: PeakFlag;
   readonly marks: readonly PeakMark[];
+  /** Height of the blank's peak at the same position, y-units, when the row is marked 'also-in-blank' (issue 20). */
+  readonly blankHeight?: number;
   readonly origin: 'detected' | 'added-by-user';
   /** Set when the user removed this detected peak; it stays in the table so exports show the decision. */
   readonly removedByUser?: boolean;

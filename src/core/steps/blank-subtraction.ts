@@ -77,6 +77,7 @@ export const blankSubtractionStep: StepDefinition<BlankSubtractionParams> = {
   summary:
     'Subtracts the trace you marked as blank, times a scale factor, from the signal point by point. ' +
     'It removes what the solvent, cell or system adds on its own, such as drift or a fixed band. ' +
+    'The blank goes through every step above this one with the same settings, as the signal does, and is subtracted from each repeated scan too. ' +
     'The blank\'s own noise is added to the result, and anything in the blank that is really in the sample too is removed with it.',
   params: [
     {

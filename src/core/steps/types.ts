@@ -74,8 +74,10 @@ export interface StepDefinition<P extends StepParams = StepParams> {
    * noise then passes exactly through the step's impulse response
    * (src/core/measure/noise-carry.ts). Leave unset for anything that decides
    * from the data (thresholds, weights, fitted orders) or changes the grid.
+   * A function decides per parameters (averaging scans is linear unless it
+   * aligns them, which decides shifts from the data).
    */
-  readonly linear?: boolean;
+  readonly linear?: boolean | ((params: P) => boolean);
   /** Explain in words what is wrong with these parameters for this input, or null. */
   validate(params: P, input: Signal, ctx: StepContext): string | null;
   /** Pure: returns new arrays, never changes input. Call only when validate returned null. */

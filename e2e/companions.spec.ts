@@ -1,0 +1,98 @@
+import { expect, test, type Download, type Page } from '@playwright/test';
+import { execFile } from 'node:child_process';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { buildCli, type BuiltCli } from '../test/cli/build-cli.ts';
+import { openWithDemo } from './helpers.ts';
+
+// Issue 20: with the blank and the scans following the sample (a moving average before blank subtraction and
+// aligned averaging), the page's exports of the demo against the command line's --blank/--scan on the same files.
+
+let built: BuiltCli;
+const work = mkdtempSync(join(tmpdir(), 'tracewright-e2e-companions-'));
+
+test.beforeAll(async () => {
+  test.setTimeout(180_000);
+  built = await buildCli();
+});
+test.afterAll(() => {
+  rmSync(work, { recursive: true, force: true });
+  if (built) rmSync(built.root, { recursive: true, force: true });
+});
+
+async function download(page: Page, testId: string): Promise<{ d: Download; text: string }> {
+  const waiting = page.waitForEvent('download');
+  await page.getByTestId(testId).click();
+  const dialog = page.getByTestId('loss-confirm');
+  if (await dialog.waitFor({ timeout: 1500 }).then(() => true, () => false)) await dialog.getByRole('button', { name: 'Export anyway' }).click();
+  const d = await waiting;
+  return { d, text: readFileSync(await d.path(), 'utf8') };
+}
+
+async function addStep(page: Page, id: string) {
+  await page.selectOption('#add-step-choice', id);
+  await page.getByRole('button', { name: 'Add step' }).click();
+}
+
+/** Wait until no analysis is running (the busy mark is gone and stays gone). */
+async function settled(page: Page) {
+  for (let i = 0; i < 2; i++) {
+    await expect(page.locator('[aria-label="computing"]')).toHaveCount(0, { timeout: 30_000 });
+    await page.waitForTimeout(300);
+  }
+}
+
+function cli(args: string[]): Promise<{ code: number; stderr: string }> {
+  return new Promise((done) => execFile(process.execPath, [built.bin, ...args], { env: { ...process.env } }, (err, _out, stderr) => done({ code: err ? Number(err.code) : 0, stderr })));
+}
+
+const ISO = /\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d{3}Z/g;
+/** A CSV without its byte-order mark and its "Written at" comment line. */
+const csvBody = (text: string) => text.replace(/^\uFEFF/, '').split('\r\n').filter((l) => !l.startsWith('# Written at:')).join('\r\n');
+/** A report without its time stamps and without the user's confirmation block. */
+const reportBody = (html: string) => html.replace(/\n<div class="confirm" data-role="confirmation">[\s\S]*?<\/ul><\/div>/, '').replace(ISO, 'TIME');
+
+test('blank and scans follow the sample: the command line\'s --blank and --scan give the page\'s numbers; a scan leaves with one click', async ({ page }) => {
+  test.setTimeout(150_000);
+  await openWithDemo(page);
+  await addStep(page, 'moving-average');
+  await addStep(page, 'blank-subtraction');
+  await addStep(page, 'ensemble-average');
+  const avg = page.getByTestId('step-ensemble-average');
+  await avg.getByLabel('Align each scan to the signal first').check();
+  await page.selectOption('#snr-def', 'pharmacopoeial');
+  await settled(page);
+  const table = page.getByTestId('scan-alignment');
+  await expect(table.locator('tbody tr')).toHaveCount(8);
+  await expect(avg).toContainText('Each scan was aligned to the signal before averaging');
+  await expect(page.getByTestId('step-moving-average')).toContainText('Applied with the same parameters to the blank');
+  await expect(page.getByTestId('step-blank-subtraction')).toContainText('The blank is not subtracted from itself');
+  await avg.screenshot({ path: join(tmpdir(), 'tracewright-i20-averaging.png') });
+
+  const method = (await download(page, 'save-recipe')).text;
+  const saved = JSON.parse(method);
+  expect(saved.steps.map((s: { step: string }) => s.step)).toEqual(['moving-average', 'blank-subtraction', 'ensemble-average']);
+  expect(saved.steps[2].params.align).toBe(true);
+  writeFileSync(join(work, 'method.json'), method);
+  const cleaned = await download(page, 'export-cleaned-csv');
+  const peaks = await download(page, 'export-peaks-csv');
+  const report = await download(page, 'export-report');
+
+  const out = join(work, 'cli');
+  const scans = Array.from({ length: 8 }, (_, i) => ['--scan', `public/demo/demo-scan-${i + 1}.csv`]).flat();
+  const r = await cli(['analyse', 'public/demo/demo-sample.csv', '--blank', 'public/demo/demo-blank.csv', ...scans, '--method', join(work, 'method.json'), '--out', out]);
+  expect(r.code, r.stderr).toBe(0);
+  const mine = (f: string) => readFileSync(join(out, f), 'utf8');
+  expect(csvBody(mine('demo-sample-cleaned.csv'))).toBe(csvBody(cleaned.text));
+  expect(csvBody(mine('demo-sample-peaks.csv'))).toBe(csvBody(peaks.text));
+  expect(reportBody(mine('demo-sample-report.html'))).toBe(reportBody(report.text));
+  // The shifts are in the report, step by step.
+  expect(report.text).toContain('Each scan was aligned to the signal before averaging');
+
+  // One click leaves a scan out; the averaging then counts 8 traces (the signal and 7 scans).
+  await table.locator('tbody tr').first().getByRole('button', { name: /^Leave out the scan / }).click();
+  await settled(page);
+  await expect(table.locator('tbody tr')).toHaveCount(7);
+  await expect(avg).toContainText('Averaged 8 scans');
+});
