@@ -28,11 +28,14 @@ export function intervalText(a: Pick<ExportAmount, 'interval'>): string {
 /** The curve as an equation in words: "response = 0.39 (± 0.01)·amount + 0.02 (± 0.03)". */
 export function curveEquation(c: ExportCalibration): string {
   if (!c.coefficients.length) return '—';
-  const terms = [...c.coefficients].sort((a, b) => b.power - a.power).map((k) => {
-    const v = `${calNum(k.value)} (± ${calNum(k.standardError)})`;
-    return k.power === 0 ? v : k.power === 1 ? `${v}·amount` : `${v}·amount²`;
+  const terms = [...c.coefficients].sort((a, b) => b.power - a.power).map((k, i) => {
+    // A negative coefficient after the first is written "− 0.018", not "+ -0.018".
+    const negative = i > 0 && k.value !== null && k.value < 0;
+    const v = `${calNum(negative ? -(k.value as number) : k.value)} (± ${calNum(k.standardError)})`;
+    const term = k.power === 0 ? v : k.power === 1 ? `${v}·amount` : `${v}·amount²`;
+    return i === 0 ? term : `${negative ? '−' : '+'} ${term}`;
   });
-  return `response = ${terms.join(' + ')}`;
+  return `response = ${terms.join(' ')}`;
 }
 
 function rowsTable(head: readonly string[], rows: readonly (readonly string[])[], caption: string, role: string): string {
