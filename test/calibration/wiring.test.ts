@@ -7,7 +7,6 @@
  * the text unchanged).
  */
 import { describe, expect, test } from 'vitest';
-import { readFileSync } from 'node:fs';
 import { calibrate, quantifySamples } from '../../src/core/calibration/calibrate.ts';
 import { calibrationExport } from '../../src/core/calibration/export.ts';
 import { emptyNamedPeakTable, readNamedPeaksCsv } from '../../src/core/calibration/named-peaks.ts';
