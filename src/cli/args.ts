@@ -18,6 +18,10 @@ export interface AnalyseOptions {
   out: string;
   jobs: number;
   json: boolean;
+  /** Issue 21: standard traces (--standard, repeatable), their amounts (--amounts CSV) and a named-peak table (--named-peaks CSV). */
+  standards: string[];
+  amounts: string | null;
+  namedPeaks: string | null;
 }
 
 export type Parsed =
@@ -31,6 +35,7 @@ const VALUE_OPTIONS: Record<string, { repeat: boolean }> = {
   method: { repeat: false }, blank: { repeat: false }, scan: { repeat: true }, trace: { repeat: false },
   'trace-index': { repeat: false }, 'quiet-range': { repeat: false }, delimiter: { repeat: false },
   decimal: { repeat: false }, out: { repeat: false }, jobs: { repeat: false },
+  standard: { repeat: true }, amounts: { repeat: false }, 'named-peaks': { repeat: false },
 };
 const FLAG_OPTIONS = new Set(['json', 'help']);
 
@@ -130,6 +135,9 @@ export function parseArgs(argv: readonly string[]): Parsed {
     if (!/^\d+$/.test(jb.trim()) || Number(jb) < 1 || Number(jb) > 256) return fail(`--jobs takes a whole number from 1 to 256; got "${jb}".`);
     jobs = Number(jb);
   }
+  const standards = values.standard ?? [];
+  if (standards.length > 0 && one('amounts') === null) return fail('--standard needs --amounts FILE: the known amount of each named peak in each standard.');
+  if (standards.length === 0 && one('amounts') !== null) return fail('--amounts needs at least one --standard FILE.');
   const out = one('out');
   if (out !== null && out.trim() === '') return fail('--out needs a folder name.');
   return {
@@ -137,6 +145,7 @@ export function parseArgs(argv: readonly string[]): Parsed {
     options: {
       inputs, method: one('method'), blank: one('blank'), scans: values.scan ?? [], traceName: one('trace'), traceIndex,
       quietRange, dialect, out: out ?? '.', jobs, json: flags.has('json'),
+      standards, amounts: one('amounts'), namedPeaks: one('named-peaks'),
     },
   };
 }

@@ -33,6 +33,11 @@ trace, into the output folder:
   <stem>-peaks.csv      the peak table (as the page's export)
   <stem>-report.html    the report (as the page's, plots drawn as SVG)
   <stem>-summary.json   the summary for other programs (schema 1)
+With --standard and --amounts, the run also writes, once:
+  calibration.json          the calibration per named peak and every
+                            analysed trace's amounts with their intervals
+  calibration-table.csv     the standards and curves as a table
+  amounts.csv               the amounts with intervals, marks and limits
 <stem> is the file name without its extension, made safe for file names as
 the page does, followed by _<trace name> when the file holds several traces;
 a name used twice in one run gets -2, -3, ... in input order. A folder means
@@ -61,6 +66,13 @@ Options:
                          written are the same for any N
   --json                 also write each summary as one line on standard
                          output
+  --named-peaks FILE     named-peak table (CSV: name, position, window);
+                         replaces the one saved in the method
+  --standard FILE        a standard run, analysed with the same method;
+                         give once per standard
+  --amounts FILE         known amounts of the named peaks in each standard
+                         (CSV: standard,<name> (<unit>),...; one row per
+                         standard file); needed with --standard
   -h, --help             show this text
 
 Where the page would have to ask (numbers that read two ways, which column

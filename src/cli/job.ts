@@ -18,6 +18,12 @@ import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import { analysisOf, parseRecipeText, type Recipe } from '../core/recipe.ts';
 import { STEP_REGISTRY } from '../core/steps/registry.ts';
 import type { Trace } from '../core/trace.ts';
+import { calibrate, quantifySamples, type CalibrationSet, type SampleAmounts } from '../core/calibration/calibrate.ts';
+import { calibrationExport } from '../core/calibration/export.ts';
+import { defaultCalibrationSettings } from '../core/calibration/settings.ts';
+import { readStandardsCsv } from '../core/calibration/standards.ts';
+import { standardKeyOf } from '../core/calibration/trace-keys.ts';
+import { exportTime } from '../core/export/version.ts';
 
 /** What every job of a run shares; plain data, so it can be handed to a worker thread. */
 export interface JobSetup {
@@ -30,6 +36,9 @@ export interface JobSetup {
   traceIndex: number | null;
   /** Time written into every file, ms since 1970. */
   nowMs: number;
+  /** Issue 21: standard runs (--standard) and the amounts CSV (--amounts); empty / null without calibration. */
+  standards: SupportFile[];
+  amounts: SupportFile | null;
 }
 
 /** A blank or scan file: the path as given and its bytes. */
@@ -49,6 +58,8 @@ export interface TraceOutput {
   summary: string;
   summaryLine: string;
   warnings: string[];
+  /** Issue 21: the trace's amounts by the calibration, or null without standards. */
+  amounts: SampleAmounts | null;
 }
 
 export interface JobOutcome {
@@ -68,6 +79,8 @@ export interface JobContext {
   method: Recipe;
   blank: Trace | null;
   scans: Trace[];
+  /** Issue 21: the calibration from the standards, or null without them. */
+  calibration: CalibrationSet | null;
 }
 
 /** The CSV options of the page's default export: comma and decimal point. */
@@ -127,7 +140,7 @@ export function loadForRun(path: string, bytes: Uint8Array, setup: Pick<JobSetup
  * by --trace / --trace-index when it holds several).
  * @returns the trace, or the sentence that makes the run stop with status 2.
  */
-export function loadSupport(role: 'blank' | 'scan', file: SupportFile, setup: JobSetup): Trace | string {
+export function loadSupport(role: 'blank' | 'scan' | 'standard', file: SupportFile, setup: JobSetup): Trace | string {
   const loaded = loadForRun(file.path, file.bytes, setup);
   if (!loaded.ok) return `The ${role} cannot be used. ${loaded.message}`;
   if (loaded.traces.length === 1) return loaded.traces[0];
@@ -152,7 +165,43 @@ export function jobContext(setup: JobSetup): JobContext | string {
     if (typeof t === 'string') return t;
     scans.push(t);
   }
-  return { setup, method: check.recipe, blank, scans };
+  const calibration = setup.standards.length ? calibrationOf(setup, check.recipe, blank, scans) : null;
+  if (typeof calibration === 'string') return calibration;
+  return { setup, method: check.recipe, blank, scans, calibration };
+}
+
+/** The analysis of one trace with the run's method, blank and scans. */
+function analyseWith(trace: Trace, method: Recipe, blank: Trace | null, scans: readonly Trace[]) {
+  const settings = analysisOf(method);
+  const all = new Map<string, Trace>([[trace.id, trace]]);
+  if (blank) all.set(blank.id, blank);
+  for (const s of scans) all.set(s.id, s);
+  return analyse({ sampleId: trace.id, blankId: blank?.id, scanIds: scans.map((s) => s.id), recipe: method, noise: settings.noise, peaks: settings.peaks }, all, STEP_REGISTRY);
+}
+
+/**
+ * Issue 21: analyse each standard with the method (same steps, blank, scans and settings as the samples), name
+ * its peaks by the method's named-peak table and fit the calibration from the amounts table.
+ * @returns the calibration, or the sentence that stops the run (status 2).
+ */
+function calibrationOf(setup: JobSetup, method: Recipe, blank: Trace | null, scans: readonly Trace[]): CalibrationSet | string {
+  const named = analysisOf(method).namedPeaks;
+  if (!named || named.peaks.length === 0) return 'Calibration needs named peaks: save them with the method, or give --named-peaks FILE.';
+  if (!setup.amounts) return '--standard needs --amounts FILE.';
+  const read = readStandardsCsv(new TextDecoder('utf-8').decode(setup.amounts.bytes), basename(setup.amounts.path));
+  if (!read.ok) return `The amounts file cannot be used: ${read.problems.map((p) => `${setup.amounts!.path}${p.line !== null ? `, line ${p.line}` : ''}: ${p.problem}`).join(' ')}`;
+  const standardTraces = [];
+  for (const f of setup.standards) {
+    const t = loadSupport('standard', f, setup);
+    if (typeof t === 'string') return t;
+    try {
+      standardTraces.push({ trace: standardKeyOf(t, read.table), peaks: analyseWith(t, method, blank, scans).peaks });
+    } catch (e) {
+      return `The standard ${f.path} could not be analysed (${e instanceof Error ? e.message : String(e)}).`;
+    }
+  }
+  const settings = analysisOf(method).calibration ?? defaultCalibrationSettings();
+  return calibrate({ namedPeaks: named, standards: read.table, standardTraces, settings });
 }
 
 /**
@@ -177,26 +226,23 @@ export function runJob(ctx: JobContext, index: number, path: string): JobOutcome
   const pick = chooseTraces(path, loaded.traces, ctx.setup.traceName, ctx.setup.traceIndex);
   if (!pick.ok) { out.errors.push(pick.message); return out; }
   const method = ctx.method;
-  const settings = analysisOf(method);
   const now = new Date(ctx.setup.nowMs);
   for (const trace of pick.traces) {
     try {
-      const all = new Map<string, Trace>([[trace.id, trace]]);
-      if (ctx.blank) all.set(ctx.blank.id, ctx.blank);
-      for (const s of ctx.scans) all.set(s.id, s);
-      const result = analyse({
-        sampleId: trace.id, blankId: ctx.blank?.id, scanIds: ctx.scans.map((s) => s.id),
-        recipe: method, noise: settings.noise, peaks: settings.peaks,
-      }, all, STEP_REGISTRY);
+      const result = analyseWith(trace, method, ctx.blank, ctx.scans);
+      // Issue 21: the trace's amounts, named as the inputs are (the path, with the trace's name when the file holds several).
+      const amounts = ctx.calibration ? quantifySamples(ctx.calibration, [{ trace: out.multi ? `${path}: ${traceShortName(trace)}` : path, peaks: result.peaks }])[0] : null;
+      const calibration = ctx.calibration && amounts ? calibrationExport(ctx.calibration, [amounts], exportTime(now)) : null;
       const summary = analysisSummary({ trace, result, method, registry: STEP_REGISTRY, inputFile: path, loadNotices: loaded.notices });
       out.outputs.push({
         trace: traceShortName(trace),
         cleaned: cleanedTraceCsv({ trace, result, recipe: method, registry: STEP_REGISTRY, options: CSV, now }),
         peaks: peakTableCsv({ trace, result, recipe: method, registry: STEP_REGISTRY, options: CSV, now }),
-        report: reportHtml({ trace, result, recipe: method, registry: STEP_REGISTRY, now }),
+        report: reportHtml({ trace, result, recipe: method, registry: STEP_REGISTRY, now, calibration }),
         summary: summaryJson(summary),
         summaryLine: summaryJson(summary, true),
         warnings: summary.warnings,
+        amounts,
       });
     } catch (e) {
       out.errors.push(`${path}: the trace "${traceShortName(trace)}" could not be analysed (${e instanceof Error ? e.message : String(e)}).`);

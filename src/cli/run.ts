@@ -14,6 +14,11 @@ import { analysisOf, emptyRecipe, parseRecipeText, recipeToJson, recipeWithAnaly
 import { STEP_REGISTRY } from '../core/steps/registry.ts';
 import { parseArgs, type AnalyseOptions } from './args.ts';
 import { ANALYSE_HELP, MAIN_HELP } from './help.ts';
+import { calibrationExport, calibrationExportJson } from '../core/calibration/export.ts';
+import type { SampleAmounts } from '../core/calibration/calibrate.ts';
+import { readNamedPeaksCsv } from '../core/calibration/named-peaks.ts';
+import { amountsCsv, calibrationTableCsv } from '../core/export/calibration-csv.ts';
+import { exportTime } from '../core/export/version.ts';
 import { jobContext, runJob, type JobContext, type JobOutcome, type JobSetup, type SupportFile } from './job.ts';
 
 /** Where a run reads and writes besides files: the process's streams and settings, or a test's stand-ins. */
@@ -29,6 +34,9 @@ export interface CliIo {
   /** The built command line's own module; worker threads load it for --jobs above 1. Without it every job runs in this thread. */
   workerUrl?: URL;
 }
+
+/** Files a run with standards writes once, beside the summaries (issue 21). */
+const CALIBRATION_FILES = ['calibration.json', 'calibration-table.csv', 'amounts.csv'];
 
 export const EXIT_OK = 0;
 export const EXIT_INPUT_FAILED = 1;
@@ -196,7 +204,16 @@ async function analyseRun(options: AnalyseOptions, io: CliIo): Promise<number> {
   const analysis = analysisOf(recipe);
   // As the page's "Use the marked range as quiet baseline": the RMS about a line over it.
   const noise = options.quietRange ? { method: 'rms' as const, quietRange: options.quietRange } : analysis.noise;
-  const method = recipeWithAnalysis(recipe, noise, analysis.peaks);
+  // Issue 21: --named-peaks replaces the method's named-peak table.
+  let namedPeaks = analysis.namedPeaks ?? null;
+  if (options.namedPeaks) {
+    const bytes = readSupport(io, options.namedPeaks, 'named-peak file');
+    if (typeof bytes === 'string') return stop(io, bytes);
+    const read = readNamedPeaksCsv(new TextDecoder('utf-8').decode(bytes), basename(options.namedPeaks));
+    if (!read.ok) return stop(io, `The named-peak file cannot be used:\n  ${read.problems.map((p) => `${options.namedPeaks}${p.line !== null ? `, line ${p.line}` : ''}: ${p.problem}`).join('\n  ')}`);
+    namedPeaks = read.table;
+  }
+  const method = recipeWithAnalysis(recipe, noise, analysis.peaks, { namedPeaks, calibration: analysis.calibration ?? null });
 
   const support = (path: string, what: string): SupportFile | string => {
     const bytes = readSupport(io, path, what);
@@ -214,9 +231,21 @@ async function analyseRun(options: AnalyseOptions, io: CliIo): Promise<number> {
     if (typeof s === 'string') return stop(io, s);
     scans.push(s);
   }
+  const standards: SupportFile[] = [];
+  for (const p of options.standards) {
+    const s = support(p, 'standard');
+    if (typeof s === 'string') return stop(io, s);
+    standards.push(s);
+  }
+  let amounts: SupportFile | null = null;
+  if (options.amounts) {
+    const a = support(options.amounts, 'amounts file');
+    if (typeof a === 'string') return stop(io, a);
+    amounts = a;
+  }
   const setup: JobSetup = {
     methodJson: recipeToJson(method), blank, scans, dialect: options.dialect,
-    traceName: options.traceName, traceIndex: options.traceIndex, nowMs: now,
+    traceName: options.traceName, traceIndex: options.traceIndex, nowMs: now, standards, amounts,
   };
   const ctx: JobContext | string = jobContext(setup);
   if (typeof ctx === 'string') return stop(io, ctx);
@@ -232,7 +261,16 @@ async function analyseRun(options: AnalyseOptions, io: CliIo): Promise<number> {
   }
 
   // Files of this run that an output must never replace.
-  const protectedPaths = new Set<string>([...inputs.map((i) => i.path), ...(options.method ? [options.method] : []), ...(options.blank ? [options.blank] : []), ...options.scans].map((p) => resolve(io.cwd, p)));
+  const protectedPaths = new Set<string>([
+    ...inputs.map((i) => i.path), ...(options.method ? [options.method] : []), ...(options.blank ? [options.blank] : []), ...options.scans,
+    ...options.standards, ...(options.amounts ? [options.amounts] : []), ...(options.namedPeaks ? [options.namedPeaks] : []),
+  ].map((p) => resolve(io.cwd, p)));
+  if (ctx.calibration) {
+    const clash = CALIBRATION_FILES.find((n) => protectedPaths.has(join(outDir, n)));
+    if (clash) return stop(io, `The output ${clash} would replace an input of this run; choose another --out.`);
+    for (const p of ctx.calibration.problems) io.stderr(`${PREFIX}calibration: ${p}\n`);
+  }
+  const sampleAmounts: SampleAmounts[] = [];
   const progress = new Progress(io, inputs.length);
   let failed = problems.length > 0;
   for (const p of problems) progress.line(p);
@@ -260,6 +298,7 @@ async function analyseRun(options: AnalyseOptions, io: CliIo): Promise<number> {
       written += 1;
       for (const w of t.warnings) progress.line(`${o.file}${o.multi ? ` (${t.trace})` : ''}: ${w}`);
       if (options.json) io.stdout(`${t.summaryLine}\n`);
+      if (t.amounts) sampleAmounts.push(t.amounts);
     }
     for (const e of o.errors) progress.line(e);
     if (o.errors.length) failed = true;
@@ -283,6 +322,19 @@ async function analyseRun(options: AnalyseOptions, io: CliIo): Promise<number> {
   if (jobs > 1 && io.workerUrl) await runInWorkers(setup, inputs, jobs, io.workerUrl, take);
   else for (const input of inputs) take(runJob(ctx, input.index, input.path));
 
+  if (ctx.calibration) {
+    // Issue 21: the calibration and every written trace's amounts, once per run, beside the summaries.
+    const exp = calibrationExport(ctx.calibration, sampleAmounts, exportTime(new Date(now)));
+    const csv = { delimiter: ',' as const, decimal: '.' as const };
+    try {
+      writeFileSync(join(outDir, 'calibration.json'), calibrationExportJson(exp));
+      writeFileSync(join(outDir, 'calibration-table.csv'), calibrationTableCsv(exp, csv));
+      writeFileSync(join(outDir, 'amounts.csv'), amountsCsv(exp, csv));
+    } catch (e) {
+      progress.line(`the calibration files could not be written (${(e as Error).message}).`);
+      failed = true;
+    }
+  }
   progress.finish(`${inputs.length} input${inputs.length === 1 ? '' : 's'}, ${traces} trace${traces === 1 ? '' : 's'} written to ${options.out}${failed ? '; some inputs had problems (listed above)' : ''}.`);
   return failed ? EXIT_INPUT_FAILED : EXIT_OK;
 }

@@ -12,6 +12,8 @@
  */
 import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type NoiseMethod, type NoiseSettings, type PeakSettings } from './analyse.ts';
 import type { ParamSpec, ParamValue, StepDefinition, StepParams } from './steps/types.ts';
+import { namedPeaksToJson, parseNamedPeaks, type NamedPeakTable } from './calibration/named-peaks.ts';
+import { calibrationSettingsToJson, parseCalibrationSettings, type CalibrationSettings } from './calibration/settings.ts';
 
 export const RECIPE_FORMAT = 'tracewright-recipe';
 /** 2: the analysis settings were added ("analysis"); 1: steps only. */
@@ -35,6 +37,10 @@ export interface RecipeStep {
 export interface AnalysisSettings {
   noise: NoiseSettings;
   peaks: PeakSettings;
+  /** Issue 21: the named-peak table (name, expected position, window); absent when the method names no peaks. */
+  namedPeaks?: NamedPeakTable;
+  /** Issue 21: how responses become amounts (model, weights, limits); absent means the defaults. */
+  calibration?: CalibrationSettings;
 }
 
 export interface Recipe {
@@ -213,7 +219,17 @@ export function analysisOf(recipe: Recipe): AnalysisSettings {
 function validateAnalysis(value: unknown, problems: string[]): AnalysisSettings {
   const out = defaultAnalysis();
   if (!isPlainObject(value)) { problems.push('"analysis" must be an object with "noise" and "peaks".'); return out; }
-  for (const k of Object.keys(value)) if (k !== 'noise' && k !== 'peaks') problems.push(`Analysis settings: unknown member "${k}" (expected "noise" and "peaks").`);
+  for (const k of Object.keys(value)) if (!['noise', 'peaks', 'namedPeaks', 'calibration'].includes(k)) problems.push(`Analysis settings: unknown member "${k}" (expected "noise", "peaks", "namedPeaks" and "calibration").`);
+  if (value.namedPeaks !== undefined) {
+    const named = parseNamedPeaks(value.namedPeaks);
+    if (named.ok) out.namedPeaks = named.table;
+    else problems.push(...named.problems.map((p) => `Named peaks: ${p}`));
+  }
+  if (value.calibration !== undefined) {
+    const cal = parseCalibrationSettings(value.calibration);
+    if (cal.ok) out.calibration = cal.settings;
+    else problems.push(...cal.problems.map((p) => `Calibration settings: ${p}`));
+  }
   const noise = value.noise === undefined ? {} : value.noise;
   if (!isPlainObject(noise)) problems.push('Analysis settings: "noise" must be an object.');
   else {
@@ -246,12 +262,15 @@ function validateAnalysis(value: unknown, problems: string[]): AnalysisSettings 
   return out;
 }
 
-/** The recipe with the given analysis settings (copied), as it is saved and written into exports. */
-export function recipeWithAnalysis(recipe: Recipe, noise: NoiseSettings, peaks: PeakSettings): Recipe {
-  return {
-    format: recipe.format, version: RECIPE_VERSION, steps: recipe.steps,
-    analysis: { noise: { method: noise.method, quietRange: noise.quietRange ? [noise.quietRange[0], noise.quietRange[1]] : null }, peaks: { ...peaks } },
-  };
+/**
+ * The recipe with the given analysis settings (copied), as it is saved and written into exports.
+ * `named` (issue 21): the named-peak table and calibration settings, written only when given.
+ */
+export function recipeWithAnalysis(recipe: Recipe, noise: NoiseSettings, peaks: PeakSettings, named?: { namedPeaks?: NamedPeakTable | null; calibration?: CalibrationSettings | null }): Recipe {
+  const analysis: AnalysisSettings = { noise: { method: noise.method, quietRange: noise.quietRange ? [noise.quietRange[0], noise.quietRange[1]] : null }, peaks: { ...peaks } };
+  if (named?.namedPeaks) analysis.namedPeaks = named.namedPeaks;
+  if (named?.calibration) analysis.calibration = named.calibration;
+  return { format: recipe.format, version: RECIPE_VERSION, steps: recipe.steps, analysis };
 }
 
 /** The recipe without its analysis settings (what the page's step stack holds). */
@@ -303,7 +322,10 @@ export function recipeToJson(recipe: Recipe): string {
     const { noise, peaks } = recipe.analysis;
     const orderedPeaks: Record<string, unknown> = {};
     for (const k of Object.keys(PEAK_SETTING_SPECS) as (keyof PeakSettings)[]) orderedPeaks[k] = peaks[k];
-    doc.analysis = { noise: { method: noise.method, quietRange: noise.quietRange }, peaks: orderedPeaks };
+    const analysis: Record<string, unknown> = { noise: { method: noise.method, quietRange: noise.quietRange }, peaks: orderedPeaks };
+    if (recipe.analysis.namedPeaks) analysis.namedPeaks = namedPeaksToJson(recipe.analysis.namedPeaks);
+    if (recipe.analysis.calibration) analysis.calibration = calibrationSettingsToJson(recipe.analysis.calibration);
+    doc.analysis = analysis;
   }
   return JSON.stringify(doc, null, 2);
 }

@@ -11,7 +11,8 @@
 export const MIN_POINTS = 5;
 
 /** What the user says a loaded trace is. */
-export type TraceRole = 'sample' | 'blank' | 'scan' | 'ignore';
+/** 'standard' (issue 21): a run of known amounts for the calibration, analysed with the sample's method. */
+export type TraceRole = 'sample' | 'blank' | 'scan' | 'standard' | 'ignore';
 
 /** Where a trace came from, so a reviewer can tie every result to its bytes. */
 export interface TraceSource {

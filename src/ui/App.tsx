@@ -6,6 +6,7 @@ import { Notices } from './Notices.tsx';
 import { SessionBanner, StartChoice } from './SessionBanner.tsx';
 import { LossPanel } from './LossPanel.tsx';
 import { ExportPanel } from './export/ExportPanel.tsx';
+import { CalibrationPanel } from './calibration/CalibrationPanel.tsx';
 import { NoisePanel } from './NoisePanel.tsx';
 import { PeakTable } from './PeakTable.tsx';
 import { ResidualPanel } from './ResidualPanel.tsx';
@@ -101,6 +102,7 @@ export function App() {
           </section>
           <ErrorBoundary area="the residual checks"><ResidualPanel /></ErrorBoundary>
           <ErrorBoundary area="the peak table"><PeakTable /></ErrorBoundary>
+          <ErrorBoundary area="the calibration"><CalibrationPanel /></ErrorBoundary>
           <ErrorBoundary area="the noise panel"><NoisePanel /></ErrorBoundary>
           <ErrorBoundary area="the loss check"><LossPanel /></ErrorBoundary>
           <ErrorBoundary area="the export panel"><ExportPanel getFigure={() => figure.current} /></ErrorBoundary>

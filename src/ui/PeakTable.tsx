@@ -4,6 +4,7 @@ import { noiseBumpSentence } from '../core/measure/noise-bumps.ts';
 import { BOUND_TEXT, MARK_TEXT, SPLIT_TEXT } from '../core/export/peak-csv.ts';
 import { useApp } from '../state/store.ts';
 import { FLAG_WORDS, num, SNR_WORDS } from './format.ts';
+import { useNameOfPeak } from './calibration/derive.ts';
 
 const MAX_ROWS = 500;
 
@@ -38,6 +39,7 @@ export function PeakTable() {
   const decisions = useApp((s) => s.decisions);
   const { selectPeak, setXRange, removePeakAt, restorePeakAt, setAddPeakMode, clearDecisions } = useApp.getState();
   const [orderChoice, setOrderChoice] = useState<'x' | 'snr' | null>(null);
+  const names = useNameOfPeak(); // issue 21
   if (!result || !sample) return null;
   const all = result.peaks;
   // A long noisy trace can hold thousands of candidates; the page shows at most MAX_ROWS (the user's decisions and
@@ -86,6 +88,7 @@ export function PeakTable() {
           <thead>
             <tr>
               <th scope="col">#</th>
+              {names.size > 0 && <th scope="col">Name</th>}
               <th scope="col">Apex{xu}</th>
               <th scope="col">Height{yu}</th>
               <th scope="col">Prominence{yu}</th>
@@ -114,6 +117,7 @@ export function PeakTable() {
                 aria-label={`Peak ${i + 1} at ${num(p.x)}; press Enter to zoom to it`}
               >
                 <td>{i + 1}</td>
+                {names.size > 0 && <td className="peak-name">{names.get(p) ?? ''}</td>}
                 <td>{num(p.x, 5)}</td>
                 <td>{num(p.height)}</td>
                 <td>{num(p.prominence)}</td>

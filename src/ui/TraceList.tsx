@@ -6,6 +6,7 @@ const ROLE_LABELS: Record<TraceRole, string> = {
   sample: 'sample (processed)',
   blank: 'blank',
   scan: 'repeated scan',
+  standard: 'standard (known amounts)',
   ignore: 'set aside',
 };
 

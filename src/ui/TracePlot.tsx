@@ -8,6 +8,8 @@ import { interpolateLinear } from '../core/numeric/interpolate.ts';
 import { PlotlyFigure } from './PlotlyFigure.tsx';
 import { MARK_TEXT } from '../core/export/peak-csv.ts';
 import { markDrawFailed, markDrawn } from './draw-health.ts';
+import { useNameOfPeak } from './calibration/derive.ts';
+import { pickNamedPeakAt } from './calibration/pick.ts';
 
 /** Plot width in pixel columns used for decimation (two points per column). */
 function useWidth(): [React.RefObject<HTMLDivElement | null>, number] {
@@ -43,6 +45,8 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const addPeakMode = useApp((s) => s.addPeakMode);
   const addPeakAt = useApp((s) => s.addPeakAt);
   const [boxRef, width] = useWidth();
+  const names = useNameOfPeak(); // issue 21: named peaks carry their name
+  const namePick = useApp((s) => s.namePickMode);
 
   const data = useMemo<PlotData[]>(() => {
     if (!sample) return [];
@@ -121,7 +125,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
         traces.push({
           type: 'scatter', mode: 'text+markers', name: 'peaks (S/N)',
           x: live.map((pk) => pk.x), y: live.map((pk) => pk.y),
-          text: live.map((pk) => (pk.snr === null ? '?' : pk.snr.toFixed(pk.snr < 10 ? 1 : 0))),
+          text: live.map((pk) => `${names.has(pk) ? `${names.get(pk)} · ` : ''}${pk.snr === null ? '?' : pk.snr.toFixed(pk.snr < 10 ? 1 : 0)}`),
           textposition: 'top center', textfont: { size: 11, color: COLOURS.ink },
           hovertext: live.map((pk) => `apex ${pk.x.toPrecision(6)}<br>height ${pk.height.toPrecision(4)}<br>FWHM ${pk.fwhm.toPrecision(4)} (${pk.leftHalf.toPrecision(6)} – ${pk.rightHalf.toPrecision(6)})<br>bounds ${pk.start.toPrecision(6)} – ${pk.end.toPrecision(6)}<br>S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)}${pk.marks.map((m) => `<br>${MARK_TEXT[m]}`).join('')}${pk.origin === 'added-by-user' ? '<br>added by hand' : ''}`),
           hoverinfo: 'text',
@@ -133,7 +137,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       traces.push({ type: 'scatter', mode: 'lines', name: 'residual (raw − processed)', x: arr(r.x), y: arr(r.y), line: { color: COLOURS.residual, width: 1 }, xaxis: 'x', yaxis: 'y2' });
     }
     return traces;
-  }, [sample, result, xRange, showRaw, width, showAlt, altList]);
+  }, [sample, result, xRange, showRaw, width, showAlt, altList, names]);
 
   const layout = useMemo<PlotLayout>(() => {
     const xTitle = sample ? axisLabel(sample.xName, sample.xUnit) : 'x';
@@ -172,7 +176,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
 
   const onXRange = useCallback((r: [number, number] | null) => setXRange(r), [setXRange]);
   const onSelectX = useCallback((r: [number, number]) => setMarked(r), [setMarked]);
-  const onClickPoint = useCallback((x: number) => { if (addPeakMode) addPeakAt(x); }, [addPeakMode, addPeakAt]);
+  const onClickPoint = useCallback((x: number) => { if (namePick) pickNamedPeakAt(x); else if (addPeakMode) addPeakAt(x); }, [addPeakMode, addPeakAt, namePick]);
   const onDrawn = useCallback((problem: string | null) => { if (problem) markDrawFailed(`the plot: ${problem}`); else markDrawn(); }, []);
 
   if (!sample) {

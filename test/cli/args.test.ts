@@ -18,7 +18,7 @@ describe('arguments', () => {
   test('defaults', () => {
     expect(options(['a.csv'])).toEqual({
       inputs: ['a.csv'], method: null, blank: null, scans: [], traceName: null, traceIndex: null, quietRange: null,
-      dialect: {}, out: '.', jobs: 1, json: false,
+      dialect: {}, out: '.', jobs: 1, json: false, standards: [], amounts: null, namedPeaks: null,
     });
   });
 
@@ -27,7 +27,7 @@ describe('arguments', () => {
       '--delimiter', 'tab', '--decimal=comma', '--out', 'res', '--jobs', '3', '--json', 'folder', '--', '--odd-name.csv']);
     expect(o).toEqual({
       inputs: ['x.csv', 'folder', '--odd-name.csv'], method: 'm.json', blank: 'b.csv', scans: ['s1.csv', 's2.csv'], traceName: 'Signal 2', traceIndex: null,
-      quietRange: [-1.5, -0.25], dialect: { delimiter: '\t', decimal: ',' }, out: 'res', jobs: 3, json: true,
+      quietRange: [-1.5, -0.25], dialect: { delimiter: '\t', decimal: ',' }, out: 'res', jobs: 3, json: true, standards: [], amounts: null, namedPeaks: null,
     });
     expect(options(['x', '--trace-index', '0']).traceIndex).toBe(0);
     expect(options(['x', '--delimiter', ';', '--decimal', 'point']).dialect).toEqual({ delimiter: ';', decimal: '.' });

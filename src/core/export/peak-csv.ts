@@ -17,6 +17,7 @@ import type { Trace } from '../trace.ts';
 import { noiseSummaryLines } from '../measure/noise-report.ts';
 import { commentText, metadataLines, provenanceLines } from './cleaned-csv.ts';
 import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
+import { namedPeakLines, peakNamingOf, withNameColumn } from './peak-names.ts';
 
 /** The words for each S/N definition, as exports state them. */
 export const SNR_DEFINITION_WORDS: Record<SnrDefinition, string> = {
@@ -202,8 +203,10 @@ export function peakTableCsv(input: PeakCsvInput): string {
       `Written at: ${exportTime(now)}`,
       `Caution: ${CAUTION}`,
     ];
-  const comments = [`${TOOL_NAME} peak table`, ...head, ...metadataLines(trace), `Peaks: ${result.peaks.length} rows.`, ...peakMethodLines(result)];
-  return writeCsv(peakTableRows(trace, result), { ...options, comments });
+  // Issue 21: a "name" column and the named peaks found or missing, when the method names peaks.
+  const naming = peakNamingOf(input.recipe, result.peaks);
+  const comments = [`${TOOL_NAME} peak table`, ...head, ...metadataLines(trace), `Peaks: ${result.peaks.length} rows.`, ...peakMethodLines(result), ...namedPeakLines(naming, trace.xUnit)];
+  return writeCsv(withNameColumn(peakTableRows(trace, result), naming), { ...options, comments });
 }
 
 /**

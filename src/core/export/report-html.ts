@@ -20,6 +20,9 @@ import { PLOT_MAX_MARKERS, svgLinePlot, type PlotMarker, type PlotSeries } from 
 
 export { escapeHtml, escapeText } from './html-text.ts';
 import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
+import { namedPeakLines, peakNamingOf, withNameColumn } from './peak-names.ts';
+import { calibrationReportSection } from './report-calibration.ts';
+import type { CalibrationExport } from '../calibration/export.ts';
 
 /** What the loss check hands over; only the sentences are written (rows are kept for later use). */
 export interface LossLedgerLike {
@@ -46,6 +49,8 @@ export interface ReportInput {
   now: Date;
   /** Tool name and version; default {@link TOOL_LABEL}. */
   version?: string;
+  /** Issue 21: the calibration and this trace's amounts (samples holds this trace only), when standards were given. */
+  calibration?: CalibrationExport | null;
 }
 
 /** Most replaced points listed one by one; the rest are counted. */
@@ -156,7 +161,8 @@ export function reportHtml(input: ReportInput): string {
   }
   // Peaks removed by hand are not marked; numbers are the rows of the peak table.
   const markers: PlotMarker[] = [];
-  result.peaks.forEach((p, i) => { if (!p.removedByUser) markers.push({ x: p.x, y: p.y, label: String(i + 1), below: p.height < 0, weight: Math.abs(p.snr ?? 0) }); });
+  const naming = peakNamingOf(recipe, result.peaks); // issue 21: named peaks carry their name on the plot and in the table
+  result.peaks.forEach((p, i) => { if (!p.removedByUser) markers.push({ x: p.x, y: p.y, label: naming?.names[i] ? `${i + 1} ${naming.names[i]}` : String(i + 1), below: p.height < 0, weight: Math.abs(p.snr ?? 0) }); });
   const cut = markers.length > PLOT_MAX_MARKERS ? ` Only the first ${PLOT_MAX_MARKERS} of ${markers.length} peaks are marked.` : '';
   s.push(`<figure>${svgLinePlot(series, xLabel, yLabel, 'Raw and processed trace', markers)}<figcaption>Raw and processed trace with the peaks of the table (lines thinned to the minimum and maximum per column for drawing).${cut}</figcaption></figure>`);
   if (result.residual.y.length) {
@@ -217,9 +223,11 @@ export function reportHtml(input: ReportInput): string {
 
   s.push('<h2>Peaks</h2>');
   s.push(list(peakMethodLines(result)));
-  const rows = peakTableRows(trace, result);
+  const rows = withNameColumn(peakTableRows(trace, result), naming);
   if (rows.length > 1) s.push(table(rows, 'Peak table (six significant figures; the peak table CSV holds every digit)'));
   else s.push('<p>No peaks pass the thresholds.</p>');
+  if (naming) s.push(`<div data-role="named-peaks">${list(namedPeakLines(naming, trace.xUnit))}</div>`);
+  if (input.calibration) s.push(calibrationReportSection(input.calibration, result));
 
   s.push('<h2>What the processing may have lost</h2>');
   if (ledger && ledger.sentences.length) s.push(`<div data-role="loss-ledger">${list(ledger.sentences)}</div>`);

@@ -14,6 +14,7 @@ import type { PeakFlag, SnrDefinition } from '../measure/peak-types.ts';
 import { analysisOf, recipeToJson, type Recipe, type Registry } from '../recipe.ts';
 import type { Trace } from '../trace.ts';
 import { TOOL_VERSION } from './version.ts';
+import { peakNamingOf } from './peak-names.ts';
 
 export const SUMMARY_SCHEMA = 1;
 
@@ -31,6 +32,8 @@ export interface SummaryPeak {
   status: SummaryStatus;
   hand: null | 'added' | 'removed' | 'bounds';
   afterProcessingOnly: boolean;
+  /** Issue 21: the name the method's named-peak table gives this peak, or null. */
+  name: string | null;
 }
 
 export interface Summary {
@@ -125,13 +128,16 @@ export function analysisSummary(input: SummaryInput): Summary {
 
   const definition = result.peakOptions?.snrDefinition ?? settings.peaks.snrDefinition;
   const limits = result.peakOptions?.limits ?? { detection: settings.peaks.detectionLimit, quantitation: settings.peaks.quantitationLimit };
-  const peaks: SummaryPeak[] = result.peaks.map((p) => ({
+  const naming = peakNamingOf(method, result.peaks);
+  if (naming?.missing.length) warnings.push(`Named peaks not found: ${naming.missing.join(', ')}.`);
+  const peaks: SummaryPeak[] = result.peaks.map((p, i) => ({
     x: num(p.x), height: num(p.height), area: num(p.area), fwhm: num(p.fwhm), start: num(p.start), end: num(p.end), snr: num(p.snr),
     status: STATUS[p.flag],
     // 'bounds' (start or end moved by hand) has no source in the core yet (issue 17 adds dragging the bounds).
     hand: p.removedByUser ? 'removed' : p.origin === 'added-by-user' ? 'added' : null,
     // Marked when the raw trace has nothing there that passes the same thresholds (measure/peak-table.ts).
     afterProcessingOnly: p.marks.includes('appears-only-after-processing'),
+    name: naming?.names[i] ?? null,
   }));
 
   let verdict: string;

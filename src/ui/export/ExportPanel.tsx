@@ -12,6 +12,7 @@ import { analysisOf, parseRecipeText, recipeStepsOnly, recipeToJson, recipeWithA
 import { STEP_REGISTRY } from '../../core/steps/registry.ts';
 import { useApp } from '../../state/store.ts';
 import { downloadBlob, downloadCsv, downloadText } from './download.ts';
+import { useCalibrationView } from '../calibration/derive.ts';
 import { clearSession, SESSION_UNDO_STEPS } from './session-db.ts';
 import { SessionFileControls } from './SessionFileControls.tsx';
 import { markDrawn } from '../draw-health.ts';
@@ -41,7 +42,11 @@ export function ExportPanel({ getFigure }: Props) {
   const noiseSettings = useApp((s) => s.noiseSettings);
   const peakSettings = useApp((s) => s.peakSettings);
   // The method as saved and written into every export: the steps and the analysis settings.
-  const recipe = recipeWithAnalysis(stack, noiseSettings, peakSettings);
+  // Issue 21: the named peaks and calibration settings are saved with the method; the report gets the calibration.
+  const namedPeaks = useApp((s) => s.namedPeaks);
+  const calibrationSettings = useApp((s) => s.calibrationSettings);
+  const calibration = useCalibrationView();
+  const recipe = recipeWithAnalysis(stack, noiseSettings, peakSettings, { namedPeaks: namedPeaks.peaks.length ? namedPeaks : null, calibration: namedPeaks.peaks.length ? calibrationSettings : null });
   const sessionProblem = useApp((s) => s.sessionProblem);
   const savedAt = useApp((s) => s.sessionSavedAt);
   const savePending = useApp((s) => s.sessionPending);
@@ -75,7 +80,7 @@ export function ExportPanel({ getFigure }: Props) {
         downloadCsv(peakTableCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: { delimiter, decimal }, now }), `${stem}-peaks.csv`);
       } else {
         // The plots are drawn by the core, as in the command line's report.
-        const html = reportHtml({ trace: sample, result, recipe, registry: STEP_REGISTRY, ledger: ledgerOut, confirmation: confirmed, now });
+        const html = reportHtml({ trace: sample, result, recipe, registry: STEP_REGISTRY, ledger: ledgerOut, confirmation: confirmed, now, calibration: calibration?.exp ?? null });
         downloadText(html, `${stem}-report.html`, 'text/html;charset=utf-8');
       }
     } catch (e) {
@@ -139,6 +144,8 @@ export function ExportPanel({ getFigure }: Props) {
     st.replaceRecipe(recipeStepsOnly(check.recipe));
     st.setNoiseSettings(analysis.noise);
     st.setPeakSettings(analysis.peaks);
+    if (analysis.namedPeaks) st.setNamedPeaks(analysis.namedPeaks);
+    if (analysis.calibration) st.setCalibrationSettings(analysis.calibration);
     notify('info', `Recipe loaded from ${file.name}`, [
       `${check.recipe.steps.length} step(s). Undo (Ctrl+Z) brings back the previous stack.`,
       check.recipe.analysis
