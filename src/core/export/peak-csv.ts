@@ -16,6 +16,7 @@ import type { Trace } from '../trace.ts';
 import { noiseSummaryLines } from '../measure/noise-report.ts';
 import { commentText, metadataLines, provenanceLines } from './cleaned-csv.ts';
 import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
+import type { ExtraPeakColumns } from './fit-export.ts';
 
 /** The words for each S/N definition, as exports state them. */
 export const SNR_DEFINITION_WORDS: Record<SnrDefinition, string> = {
@@ -79,7 +80,7 @@ function unitSuffix(unit: string): string {
  * missing value is an empty cell. With `unitsInHeader` false the header
  * says "(x unit)" and "(y unit)" instead of the trace's units.
  */
-export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader = true): (string | number)[][] {
+export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader = true, extra?: ExtraPeakColumns | null): (string | number)[][] {
   // A table that mixes files (batch) names the units in columns of their own instead.
   const xu = unitsInHeader ? unitSuffix(trace.xUnit) : ' (x unit)';
   const yu = unitsInHeader ? unitSuffix(trace.yUnit) : ' (y unit)';
@@ -91,6 +92,7 @@ export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader
     `from${xu}`, `to${xu}`, 'from: why there', 'to: why there', `baseline at from${yu}`, `baseline at to${yu}`, 'shared valley split',
     `noise σ at the peak${yu}`, `S/N (${SNR_SHORT[def]}, definition in use)`, 'S/N H/σ', 'S/N 2H/h',
     `noise range h for 2H/h${yu}`, 'h measured on', 'S/N mean/SD of region', 'status', 'marks', 'decision', 'origin', 'note',
+    ...(extra?.header ?? []), // issue 18: fitted areas and figures (export/fit-export.ts)
   ];
   const rows: (string | number)[][] = [header];
   const opt = (v: number | null | undefined): string | number => (v === null || v === undefined ? '' : v);
@@ -101,6 +103,7 @@ export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader
       p.noiseSigma, opt(p.snr), opt(p.snrRms), opt(p.snrPharma), opt(p.pharmaNoise?.h),
       p.pharmaNoise ? `${p.pharmaNoise.source}, ${p.pharmaNoise.points} points${p.pharmaNoise.clipped ? ', window cut by the trace end' : ''}` : '',
       opt(p.snrRegion), FLAG_TEXT[p.flag], peakMarksText(p), peakDecisionText(p), p.origin, p.note ?? '',
+      ...(extra ? extra.cells(p, i) : []),
     ]);
   });
   return rows;
@@ -174,6 +177,9 @@ export interface PeakCsvInput {
   recipe?: Recipe;
   registry?: Registry;
   version?: string;
+  /** Issue 18: extra columns (fitted areas, figures) and the comment lines that explain them. */
+  extra?: ExtraPeakColumns | null;
+  extraComments?: readonly string[];
 }
 
 /**
@@ -198,8 +204,8 @@ export function peakTableCsv(input: PeakCsvInput): string {
       `Written at: ${exportTime(now)}`,
       `Caution: ${CAUTION}`,
     ];
-  const comments = [`${TOOL_NAME} peak table`, ...head, ...metadataLines(trace), `Peaks: ${result.peaks.length} rows.`, ...peakMethodLines(result)];
-  return writeCsv(peakTableRows(trace, result), { ...options, comments });
+  const comments = [`${TOOL_NAME} peak table`, ...head, ...metadataLines(trace), `Peaks: ${result.peaks.length} rows.`, ...peakMethodLines(result), ...(input.extraComments ?? [])];
+  return writeCsv(peakTableRows(trace, result, true, input.extra), { ...options, comments });
 }
 
 /**

@@ -16,6 +16,7 @@ import { recipeInWords, recipeToJson, type Recipe, type Registry } from '../reci
 import { axisLabel, type Trace } from '../trace.ts';
 import { escapeText } from './html-text.ts';
 import { noiseSentence, peakMethodLines, peakTableRows } from './peak-csv.ts';
+import { fitReportSection, type ExtraPeakColumns, type FitForExport } from './fit-export.ts';
 import { PLOT_MAX_MARKERS, svgLinePlot, type PlotMarker, type PlotSeries } from './plot-svg.ts';
 
 export { escapeHtml, escapeText } from './html-text.ts';
@@ -46,6 +47,10 @@ export interface ReportInput {
   now: Date;
   /** Tool name and version; default {@link TOOL_LABEL}. */
   version?: string;
+  /** Issue 18: region fits (a section of their own), extra peak table columns and the lines explaining them. */
+  fits?: readonly FitForExport[];
+  extra?: ExtraPeakColumns | null;
+  extraLines?: readonly string[];
 }
 
 /** Most replaced points listed one by one; the rest are counted. */
@@ -216,10 +221,12 @@ export function reportHtml(input: ReportInput): string {
   }
 
   s.push('<h2>Peaks</h2>');
-  s.push(list(peakMethodLines(result)));
-  const rows = peakTableRows(trace, result);
+  s.push(list([...peakMethodLines(result), ...(input.extraLines ?? [])]));
+  const rows = peakTableRows(trace, result, true, input.extra);
   if (rows.length > 1) s.push(table(rows, 'Peak table (six significant figures; the peak table CSV holds every digit)'));
   else s.push('<p>No peaks pass the thresholds.</p>');
+
+  if (input.fits) s.push(fitReportSection(input.fits, xLabel, yLabel));
 
   s.push('<h2>What the processing may have lost</h2>');
   if (ledger && ledger.sentences.length) s.push(`<div data-role="loss-ledger">${list(ledger.sentences)}</div>`);
