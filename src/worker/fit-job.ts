@@ -29,7 +29,7 @@ export interface FitRequest {
 export type { FitJobOutcome };
 
 /** Label of the current stack's output in every sentence. */
-export const CURRENT_LABEL = 'current processing';
+export const CURRENT_LABEL = 'the current stack';
 
 /** Run a fit request against the traces the worker holds. */
 export function fitRequest(request: FitRequest, traces: ReadonlyMap<string, Trace>, registry: Registry, cache?: PipelineCache): FitJobOutcome {

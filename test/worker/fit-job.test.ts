@@ -59,7 +59,7 @@ describe('fit job in the worker engine', () => {
     expect(out.ok).toBe(true);
     if (!out.ok) return;
     const p = out.result.processing!;
-    expect(p.rows.map((r) => r.label)).toEqual(['raw', 'current processing', '21-point moving average']);
+    expect(p.rows.map((r) => r.label)).toEqual(['raw', 'the current stack', '21-point moving average']);
     expect(p.referenceCount).toBe(2);
     for (const row of p.rows) expect(row.statement.length).toBeGreaterThan(10);
     expect(p.summary).toContain('raw');
@@ -76,6 +76,6 @@ describe('fit job in the worker engine', () => {
     const backend = inProcessBackend();
     backend.setInputs([trace]);
     const viaBridge = await backend.fit(request({ on: 'processed' }));
-    expect(viaBridge.ok && viaBridge.result.fittedLabel).toBe('current processing');
+    expect(viaBridge.ok && viaBridge.result.fittedLabel).toBe('the current stack');
   });
 });

@@ -61,10 +61,10 @@ function FitPlot({ kept, xTitle, yTitle }: { kept: KeptFit; xTitle: string; yTit
   }, [c, r, other]);
   const layout = useMemo<PlotLayout>(() => ({
     autosize: true,
-    height: 420,
-    margin: { l: 70, r: 20, t: 10, b: 50 },
+    height: 440,
+    margin: { l: 70, r: 20, t: 30, b: 80 },
     showlegend: true,
-    legend: { orientation: 'h', y: 1.02, x: 0, yanchor: 'bottom' },
+    legend: { orientation: 'h', y: -0.16, x: 0, yanchor: 'top', traceorder: 'normal' },
     hovermode: 'closest',
     xaxis: { title: { text: xTitle }, anchor: 'y2', gridcolor: COLOURS.grid, zeroline: false },
     yaxis: { title: { text: yTitle }, domain: [0.34, 1], gridcolor: COLOURS.grid, zeroline: false },
@@ -73,7 +73,7 @@ function FitPlot({ kept, xTitle, yTitle }: { kept: KeptFit; xTitle: string; yTit
     plot_bgcolor: '#ffffff',
     font: { family: 'system-ui, sans-serif', size: 12, color: COLOURS.ink },
   }), [xTitle, yTitle]);
-  return <PlotlyFigure data={data} layout={layout} className="plot" label={`Fit of ${r.fittedLabel} trace from ${num(r.settings.from)} to ${num(r.settings.to)}: data, fitted peaks shaded, residuals below`} testId="fit-figure" pictureName="tracewright-fit" drawnTag={String(kept.id)} />;
+  return <PlotlyFigure data={data} layout={layout} className="fit-plot" label={`Fit of ${r.fittedLabel} trace from ${num(r.settings.from)} to ${num(r.settings.to)}: data, fitted peaks shaded, residuals below`} testId="fit-figure" pictureName="tracewright-fit" drawnTag={String(kept.id)} />;
 }
 
 /** Fit a region: how many peaks the data support, each fitted peak with standard errors, and whether the processing keeps that count. */
@@ -89,6 +89,7 @@ export function FitPanel() {
   useApp((s) => s.markedRange);
   useApp((s) => s.xRange);
   const selectedX = useApp((s) => s.selectedPeakX);
+  const measureOn = useApp((s) => s.peakSettings.measureOn);
   const { setFitChoices, removeFit, showFit, setMarkedRange } = useApp.getState();
   if (!sample) return null;
   const fits = allFits.filter((f) => f.sampleId === sample.id);
@@ -150,7 +151,7 @@ export function FitPanel() {
       )}
       {kept && r && (
         <div data-testid="fit-result" data-count={r.count}>
-          <p className={`verdict ${r.count > 1 ? 'ok' : 'warn'}`} data-testid="fit-decision">{r.statement}</p>
+          <p className="verdict ok" data-testid="fit-decision"><strong>{r.lead}</strong> <span style={{ fontWeight: 'normal' }}>{r.statement.slice(r.lead.length).trim()}</span></p>
           {outOfDate && <p className="small muted">This fit of the processed trace was made with an earlier step stack; fit again to update it.</p>}
           {r.steps.length > 0 && (
             <p className="small" data-testid="fit-figures">
@@ -169,11 +170,11 @@ export function FitPanel() {
                   <th scope="col">Peak</th>
                   <th scope="col">Shape</th>
                   <th scope="col">Position{xu ? ` (${sample.xUnit})` : ''}</th>
-                  <th scope="col">Height above baseline</th>
+                  <th scope="col" title="Apex height above the fitted local baseline">Height</th>
                   <th scope="col">FWHM</th>
                   <th scope="col">Fitted area</th>
-                  <th scope="col" title="Correlation between this peak's fitted area and the next peak's, from the covariance: near −1 means the two share area the data cannot split">Area correlation with next</th>
-                  <th scope="col" title={result ? `The peak table's area of the row whose half-height crossings hold this apex: drop line (${dropLineWords(result)}) on the ${useApp.getState().peakSettings.measureOn} trace` : ''}>Table area ({result ? `drop line, ${dropLineWords(result)}` : 'drop line'})</th>
+                  <th scope="col" title="Correlation between this peak's fitted area and the next peak's, from the covariance: near ±1 means the data cannot split the area between them">Area corr. with next</th>
+                  <th scope="col" title={result ? `The peak table's area of the row whose half-height crossings hold this apex: drop line (${dropLineWords(result)}) on the ${measureOn} trace` : ''}>Drop-line area *</th>
                 </tr>
               </thead>
               <tbody>
@@ -196,6 +197,8 @@ export function FitPanel() {
               </tbody>
             </table>
           </div>
+          <p className="small muted">* The peak table’s area for the row whose half-height crossings hold the fitted apex, measured by drop line ({result ? dropLineWords(result) : 'perpendicular drop'}) on the {measureOn} trace. Near ±1, the area correlation says the data cannot split the area between the two neighbours.</p>
+          {!r.processing && <p className="small muted" data-testid="fit-processing-none">No processing step and no alternatives to compare with: add steps, or alternatives in the loss check, to see whether each still supports this count.</p>}
           {r.processing && (
             <div data-testid="fit-processing">
               <p className="small"><strong>Does the processing keep this count?</strong> {r.processing.summary}</p>

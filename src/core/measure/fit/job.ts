@@ -64,6 +64,8 @@ export interface FitJobResult {
   /** Every step of the forward comparison, as figures (no arrays). */
   steps: { smaller: number; larger: number; supported: boolean; deltaBic: number; deltaAic: number; fStatistic: number; criterion: string; statement: string }[];
   statement: string;
+  /** The first sentence of the statement: how many peaks the fit supports, on which trace. */
+  lead: string;
   /** Does each version support the same count? The raw trace is the reference. */
   processing: { reference: string; referenceCount: number | null; rows: FitProcessingRow[]; fewer: string[]; summary: string } | null;
   ms: number;
@@ -124,6 +126,8 @@ export function runFitJob(input: FitJobInput): FitJobOutcome {
     };
   }
   const shapeWords = SHAPES[s.shape].label;
-  const statement = s.maxPeaks === 1 ? `One ${shapeWords} peak fitted; no larger count was tried.` : r.statement;
-  return { ok: true, result: { settings: { ...s }, fittedLabel: target.label, count: r.count, fit: r.fit, decisive, steps, statement, processing, ms: Date.now() - t0 } };
+  // Lead with the count, then each step's own sentence (the last says plainly when the extra peak is not supported).
+  const lead = `The fit on the ${target.label} trace supports ${r.count} ${shapeWords} peak${r.count === 1 ? '' : 's'}.`;
+  const statement = s.maxPeaks === 1 ? `One ${shapeWords} peak fitted; no larger count was tried.` : [lead, ...r.comparisons.map((c) => c.statement)].join(' ');
+  return { ok: true, result: { settings: { ...s }, fittedLabel: target.label, count: r.count, fit: r.fit, decisive, steps, statement, processing, lead: s.maxPeaks === 1 ? statement : lead, ms: Date.now() - t0 } };
 }
