@@ -89,7 +89,7 @@ test('batch: one good and one broken file give a ZIP of the good one and one lis
     page.getByTestId('batch-input').setInputFiles(['public/demo/demo-sample.csv', 'e2e/fixtures/broken-text.csv']),
   ]);
   const files = unzipSync(new Uint8Array(readFileSync(await d.path())));
-  expect(Object.keys(files).sort()).toEqual(['demo-sample-cleaned.csv', 'demo-sample-report.html', 'peaks-all-files.csv', 'problems.txt', 'recipe.json']);
+  expect(Object.keys(files).sort()).toEqual(['demo-sample-cleaned.csv', 'demo-sample-report.html', 'peaks-all-files.csv', 'peaks-combined.csv', 'problems.txt', 'recipe.json']);
   expect(strFromU8(files['demo-sample-cleaned.csv'])).toContain(DEMO_SHA);
   await expect(page.getByTestId('batch-errors')).toContainText('broken-text.csv');
 });

@@ -7,13 +7,14 @@
 import { create } from 'zustand';
 import { createAnalysisSlice, type AnalysisSlice } from './analysis-slice.ts';
 import { createCalibrationSlice, type CalibrationSlice } from './calibration-slice.ts';
+import { createFitSlice, type FitSlice } from './fit-slice.ts';
 import { createInputsSlice, type InputsSlice } from './inputs-slice.ts';
 import { createRecipeSlice, type RecipeSlice } from './recipe-slice.ts';
 import { createResultsSlice, type ResultsSlice } from './results-slice.ts';
 import { createSessionSlice, type SessionSlice } from './session-slice.ts';
 import { createViewSlice, type ViewSlice } from './view-slice.ts';
 
-export type AppState = InputsSlice & RecipeSlice & ResultsSlice & ViewSlice & AnalysisSlice & SessionSlice & CalibrationSlice;
+export type AppState = InputsSlice & RecipeSlice & ResultsSlice & ViewSlice & AnalysisSlice & SessionSlice & CalibrationSlice & FitSlice;
 
 /** A fresh store (tests make one each). */
 export const createAppStore = () => create<AppState>()((...a) => ({
@@ -24,6 +25,7 @@ export const createAppStore = () => create<AppState>()((...a) => ({
   ...createAnalysisSlice(...a),
   ...createSessionSlice(...a),
   ...createCalibrationSlice(...a),
+  ...createFitSlice(...a),
 }));
 
 export const useApp = createAppStore();

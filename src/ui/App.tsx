@@ -9,6 +9,7 @@ import { ExportPanel } from './export/ExportPanel.tsx';
 import { CalibrationPanel } from './calibration/CalibrationPanel.tsx';
 import { NoisePanel } from './NoisePanel.tsx';
 import { PeakTable } from './PeakTable.tsx';
+import { FitPanel } from './fit/FitPanel.tsx';
 import { ResidualPanel } from './ResidualPanel.tsx';
 import { StepStack } from './StepStack.tsx';
 import { TraceList } from './TraceList.tsx';
@@ -103,6 +104,7 @@ export function App() {
           <ErrorBoundary area="the residual checks"><ResidualPanel /></ErrorBoundary>
           <ErrorBoundary area="the peak table"><PeakTable /></ErrorBoundary>
           <ErrorBoundary area="the calibration"><CalibrationPanel /></ErrorBoundary>
+          <ErrorBoundary area="the fit panel"><FitPanel /></ErrorBoundary>
           <ErrorBoundary area="the noise panel"><NoisePanel /></ErrorBoundary>
           <ErrorBoundary area="the loss check"><LossPanel /></ErrorBoundary>
           <ErrorBoundary area="the export panel"><ExportPanel getFigure={() => figure.current} /></ErrorBoundary>

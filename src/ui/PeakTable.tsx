@@ -5,6 +5,7 @@ import { BOUND_TEXT, MARK_TEXT, SPLIT_TEXT } from '../core/export/peak-csv.ts';
 import { useApp } from '../state/store.ts';
 import { FLAG_WORDS, num, SNR_WORDS } from './format.ts';
 import { useNameOfPeak } from './calibration/derive.ts';
+import { FigureControls, usePeakExtras } from './fit/peak-extras.tsx';
 
 const MAX_ROWS = 500;
 
@@ -40,6 +41,7 @@ export function PeakTable() {
   const { selectPeak, setXRange, removePeakAt, restorePeakAt, setAddPeakMode, clearDecisions } = useApp.getState();
   const [orderChoice, setOrderChoice] = useState<'x' | 'snr' | null>(null);
   const names = useNameOfPeak(); // issue 21
+  const extras = usePeakExtras(); // issue 18: optional figure and fitted-area columns
   if (!result || !sample) return null;
   const all = result.peaks;
   // A long noisy trace can hold thousands of candidates; the page shows at most MAX_ROWS (the user's decisions and
@@ -81,6 +83,7 @@ export function PeakTable() {
           <option value="x">position</option>
           <option value="snr">S/N, highest first</option>
         </select>
+        <FigureControls />
       </div>
       <div className="table-wrap" tabIndex={0} role="region" aria-label="Peak table (scrolls)">
         <table className="data" data-testid="peak-table">
@@ -100,6 +103,7 @@ export function PeakTable() {
               <th scope="col">H/σ</th>
               <th scope="col">2H/h</th>
               <th scope="col">Decision</th>
+              {extras.headers.map((h) => <th scope="col" key={h.key} title={h.title}>{h.label}</th>)}
             </tr>
           </thead>
           <tbody>
@@ -139,6 +143,7 @@ export function PeakTable() {
                     <>{p.origin === 'added-by-user' ? 'added by hand ' : ''}<button type="button" className="link danger" onClick={(e) => { e.stopPropagation(); removePeakAt(p.origin === 'added-by-user' ? decisions.added.reduce((best, a) => (Math.abs(a - p.x) < Math.abs(best - p.x) ? a : best), decisions.added[0]) : p.x); }} aria-label={`Remove peak ${i + 1}`}>remove</button></>
                   )}
                 </td>
+                {extras.cells(p, all.indexOf(p)).map((c, j) => <td key={`x${j}`}>{c}</td>)}
               </tr>
             ))}
             {peaks.length === 0 && <tr><td colSpan={12} className="muted">No peaks pass the thresholds.</td></tr>}

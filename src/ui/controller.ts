@@ -12,7 +12,8 @@ import { inProcessBackend, LatestOnly, workerBackend, type ComputeBackend } from
 let backend: ComputeBackend | null = null;
 let scheduler: LatestOnly | null = null;
 
-function getBackend(): ComputeBackend {
+/** The one computation backend (the fit panel sends its jobs through it too). */
+export function getBackend(): ComputeBackend {
   if (!backend) {
     backend = typeof Worker !== 'undefined'
       ? workerBackend(() => new Worker(new URL('../worker/worker.ts', import.meta.url), { type: 'module', name: 'tracewright-compute' }))

@@ -12,6 +12,7 @@ import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import type { Trace } from '../core/trace.ts';
 import { Engine } from './engine.ts';
 import type { FromWorker, ToWorker } from './protocol.ts';
+import type { FitJobOutcome, FitRequest } from './fit-job.ts';
 
 type Pending<T> = { resolve: (v: T) => void; reject: (e: Error) => void };
 
@@ -82,6 +83,8 @@ export interface ComputeBackend {
   analyse(request: AnalyseRequest): Promise<AnalyseResult>;
   load(bytes: Uint8Array, fileName: string, options?: Omit<LoadOptions, 'onProgress'>, onProgress?: (f: number) => void): Promise<LoadResult>;
   cancelLoad(): void;
+  /** Fit a region (issue 18); runs after the analysis already sent. */
+  fit(request: FitRequest): Promise<FitJobOutcome>;
 }
 
 /**
@@ -152,6 +155,10 @@ export function workerBackend(make: () => Worker): ComputeBackend {
         });
     },
     cancelLoad() { loader.cancelAll(); },
+    fit(request) {
+      if (compute.live() !== heldBy) sendInputs();
+      return compute.request<Extract<FromWorker, { type: 'fitted' }>>((jobId) => ({ type: 'fit', jobId, request })).then((m) => m.outcome);
+    },
   };
 }
 
@@ -165,6 +172,7 @@ export function inProcessBackend(): ComputeBackend {
       return Promise.resolve().then(() => engine.load(bytes, fileName, options, onProgress ?? (() => undefined)));
     },
     cancelLoad() { /* an in-process load cannot be interrupted */ },
+    fit(request) { return Promise.resolve().then(() => engine.fit(request)); },
   };
 }
 

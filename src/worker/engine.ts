@@ -8,6 +8,7 @@ import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import { PipelineCache } from '../core/pipeline.ts';
 import { STEP_REGISTRY } from '../core/steps/registry.ts';
 import type { Trace } from '../core/trace.ts';
+import { fitRequest, type FitJobOutcome, type FitRequest } from './fit-job.ts';
 
 export class Engine {
   private traces = new Map<string, Trace>();
@@ -57,6 +58,11 @@ export class Engine {
 
   analyse(request: AnalyseRequest): AnalyseResult {
     return analyse(request, this.traces, STEP_REGISTRY, this.cache);
+  }
+
+  /** Fit a region (issue 18), with the same traces and pipeline cache as the analysis. */
+  fit(request: FitRequest): FitJobOutcome {
+    return fitRequest(request, this.traces, STEP_REGISTRY, this.cache);
   }
 
   /** Load a file; the SHA-256 is made by the platform's native digest where there is one (same hex as the pure one). */

@@ -7,11 +7,14 @@
 import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import type { Trace } from '../core/trace.ts';
 import type { AnalyseRequest, AnalyseResult } from '../core/analyse.ts';
+import type { FitJobOutcome, FitRequest } from './fit-job.ts';
 
 export type ToWorker =
   /** New traces, and (when given) the ids of every trace that stays: traces the worker holds already are not sent again. */
   | { type: 'inputs'; traces: Trace[]; keep?: string[] }
   | { type: 'analyse'; jobId: number; request: AnalyseRequest }
+  /** Fit a region (issue 18, worker/fit-job.ts). */
+  | { type: 'fit'; jobId: number; request: FitRequest }
   /** `share`: also hand a copy of the traces to the computation worker through the port (made off the page's thread). */
   | { type: 'load'; jobId: number; bytes: Uint8Array; fileName: string; options?: Omit<LoadOptions, 'onProgress'>; share?: boolean }
   /** One end of the channel between the loading and the computation worker. */
@@ -22,6 +25,7 @@ export type ThroughPort = { type: 'traces'; traces: Trace[] };
 
 export type FromWorker =
   | { type: 'result'; jobId: number; result: AnalyseResult }
+  | { type: 'fitted'; jobId: number; outcome: FitJobOutcome }
   /** `shared`: the traces went to the computation worker through the port too. */
   | { type: 'loaded'; jobId: number; result: LoadResult; shared?: boolean }
   | { type: 'progress'; jobId: number; fraction: number }

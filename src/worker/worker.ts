@@ -35,7 +35,7 @@ async function handle(msg: ToWorker): Promise<void> {
     } else if (msg.type === 'inputs') {
       engine.setInputs(msg.traces, msg.keep);
       while (!engine.incomplete && deferred.length) void handle(deferred.shift()!);
-    } else if (msg.type === 'analyse' && engine.incomplete) {
+    } else if ((msg.type === 'analyse' || msg.type === 'fit') && engine.incomplete) {
       deferred.push(msg);
       // Traces come through the port within moments of the page naming them; if not, the page is told and sends them itself.
       setTimeout(() => {
@@ -48,6 +48,10 @@ async function handle(msg: ToWorker): Promise<void> {
       // Cached outputs must stay usable here, so send copies and transfer those.
       const result = cloneResultForTransfer(engine.analyse(msg.request));
       post({ type: 'result', jobId: msg.jobId, result }, transferablesOf(result));
+    } else if (msg.type === 'fit') {
+      // Issue 18: a fit's arrays are its own (not cached), so they are transferred as they are.
+      const outcome = engine.fit(msg.request);
+      post({ type: 'fitted', jobId: msg.jobId, outcome }, transferablesOf(outcome));
     } else if (msg.type === 'load') {
       let last = 0;
       const result = await engine.load(msg.bytes, msg.fileName, msg.options, (fraction) => {

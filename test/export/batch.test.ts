@@ -28,7 +28,7 @@ describe('batch', () => {
     expect(out.errors[0].file).toBe('broken.csv');
     expect(out.errors[0].message.length).toBeGreaterThan(20);
     const files = unzipSync(out.zip);
-    expect(Object.keys(files).sort()).toEqual(['peaks-all-files.csv', 'problems.txt', 'recipe.json', 'run 1-cleaned.csv', 'run 1-report.html'].sort());
+    expect(Object.keys(files).sort()).toEqual(['peaks-all-files.csv', 'peaks-combined.csv', 'problems.txt', 'recipe.json', 'run 1-cleaned.csv', 'run 1-report.html'].sort());
     expect(strFromU8(files['peaks-all-files.csv'])).toBe(out.combinedCsv);
     expect(strFromU8(files['run 1-report.html'])).toContain('not a validated system');
     expect(JSON.parse(strFromU8(files['recipe.json'])).steps[0].step).toBe('savitzky-golay');
@@ -41,6 +41,25 @@ describe('batch', () => {
     expect(body.every((r) => r[0] === 'run 1.csv' && r[2] === 'min' && r[3] === 'mAU')).toBe(true);
     const cleaned = readCsv(strFromU8(files['run 1-cleaned.csv']), ',', '.');
     expect(cleaned.body.length).toBe(600);
+  });
+
+  test('combined table (issue 18): the two invented peaks matched across three files, mean and %RSD as computed by hand from the per-file rows', async () => {
+    const out = await runBatch([11, 12, 13].map((seed) => ({ name: `run ${seed}.csv`, bytes: csvBytes(seed) })), recipeOf(), STEP_REGISTRY, { now: NOW });
+    const combined = readCsv(strFromU8(unzipSync(out.zip)['peaks-combined.csv']), ',', '.');
+    expect(combined.comments.some((c) => c.includes('Matching window: ±'))).toBe(true);
+    const all = readCsv(out.combinedCsv, ',', '.');
+    const col = (name: string) => all.header.indexOf(name);
+    for (const centre of [2, 4]) {
+      const row = combined.body.find((r) => Math.abs(Number(r[3]) - centre) < 0.02)!;
+      expect(Number(row[1])).toBe(3);
+      // Independent arithmetic on the per-file table: sample SD (n − 1) and %RSD = 100 SD / mean.
+      const areas = all.body.filter((r) => Math.abs(Number(r[col('apex (x unit)')]) - centre) < 0.02).map((r) => Number(r[col('area (y unit × x unit)')]));
+      expect(areas).toHaveLength(3);
+      const mean = areas.reduce((a, b) => a + b, 0) / 3;
+      const sd = Math.sqrt(areas.reduce((a, b) => a + (b - mean) ** 2, 0) / 2);
+      expect(Number(row[6])).toBeCloseTo(mean, 12);
+      expect(Number(row[8])).toBeCloseTo((100 * sd) / mean, 9);
+    }
   });
 
   test('same names are kept apart, hostile names are made safe, and a hostile name cannot become a formula', async () => {

@@ -14,6 +14,7 @@ import { cleanedTraceCsv, commentText, recipeOneLine } from './cleaned-csv.ts';
 import { peakMethodLines, peakTableRows } from './peak-csv.ts';
 import { uniqueNamer, zipBaseName } from './names.ts';
 import { reportHtml } from './report-html.ts';
+import { batchCombinedCsv, type CombinedRun } from './batch-combined.ts';
 
 export { zipBaseName } from './names.ts';
 import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
@@ -31,6 +32,8 @@ export interface BatchSettings {
   /** Time written into every file and the ZIP entries. */
   now: Date;
   version?: string;
+  /** Issue 18: matching window (x-units) of the combined table; default half the median half-height width. */
+  matchWindow?: number;
 }
 
 export interface BatchProgress {
@@ -88,6 +91,7 @@ export async function runBatch(
   const combined: (string | number)[][] = [];
   let combinedHeader: (string | number)[] | null = null;
   const methodLines = new Set<string>();
+  const combinedRuns: CombinedRun[] = []; // issue 18: peaks-combined.csv
   let analysed = 0;
 
   const put = (name: string, text: string) => {
@@ -120,6 +124,7 @@ export async function runBatch(
         put(`${base}-cleaned.csv`, cleanedTraceCsv({ trace, result, recipe, registry, options: csv, now, version }));
         put(`${base}-report.html`, reportHtml({ trace, result, recipe, registry, now, version }));
         const rows = peakTableRows(trace, result, false);
+        combinedRuns.push({ name: fileName, peaks: result.peaks });
         if (!combinedHeader) combinedHeader = ['file', 'input SHA-256', 'x unit', 'y unit', ...rows[0]];
         for (const row of rows.slice(1)) combined.push([fileName, trace.source.sha256, trace.xUnit, trace.yUnit, ...row]);
         if (result.peaks.length === 0) combined.push([fileName, trace.source.sha256, trace.xUnit, trace.yUnit, 'no peaks']);
@@ -145,6 +150,7 @@ export async function runBatch(
   const header = combinedHeader ?? ['file', 'input SHA-256', 'x unit', 'y unit', 'peak #'];
   const combinedCsv = writeCsv([header, ...combined], { ...csv, comments });
   put('peaks-all-files.csv', combinedCsv);
+  put('peaks-combined.csv', batchCombinedCsv(combinedRuns, csv, [`${TOOL_NAME} peaks matched across the files of a batch: mean and %RSD of retention time and area`, `Written by: ${version}`, `Written at: ${when}`, `Caution: ${CAUTION}`], settings.matchWindow));
   put('recipe.json', `${recipeToJson(recipe)}\n`);
   if (errors.length) put('problems.txt', `${errors.map((e) => `${e.file}: ${e.message}`).join('\n')}\n`);
   // ZIP times are local DOS times from 1980 on; the export time keeps the archive reproducible.

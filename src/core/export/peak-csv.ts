@@ -18,6 +18,7 @@ import { noiseSummaryLines } from '../measure/noise-report.ts';
 import { commentText, metadataLines, provenanceLines } from './cleaned-csv.ts';
 import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
 import { namedPeakLines, peakNamingOf, withNameColumn } from './peak-names.ts';
+import type { ExtraPeakColumns } from './fit-export.ts';
 
 /** The words for each S/N definition, as exports state them. */
 export const SNR_DEFINITION_WORDS: Record<SnrDefinition, string> = {
@@ -82,7 +83,7 @@ function unitSuffix(unit: string): string {
  * missing value is an empty cell. With `unitsInHeader` false the header
  * says "(x unit)" and "(y unit)" instead of the trace's units.
  */
-export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader = true): (string | number)[][] {
+export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader = true, extra?: ExtraPeakColumns | null): (string | number)[][] {
   // A table that mixes files (batch) names the units in columns of their own instead.
   const xu = unitsInHeader ? unitSuffix(trace.xUnit) : ' (x unit)';
   const yu = unitsInHeader ? unitSuffix(trace.yUnit) : ' (y unit)';
@@ -95,6 +96,7 @@ export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader
     `noise σ at the peak${yu}`, `S/N (${SNR_SHORT[def]}, definition in use)`, 'S/N H/σ', 'S/N 2H/h',
     `noise range h for 2H/h${yu}`, 'h measured on', 'S/N mean/SD of region', 'status', 'marks', 'decision', 'origin', 'note',
     ghostColumnHeader(yu), // issue 20
+    ...(extra?.header ?? []), // issue 18: fitted areas and figures (export/fit-export.ts)
   ];
   const rows: (string | number)[][] = [header];
   const opt = (v: number | null | undefined): string | number => (v === null || v === undefined ? '' : v);
@@ -106,6 +108,7 @@ export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader
       p.pharmaNoise ? `${p.pharmaNoise.source}, ${p.pharmaNoise.points} points${p.pharmaNoise.clipped ? ', window cut by the trace end' : ''}` : '',
       opt(p.snrRegion), FLAG_TEXT[p.flag], peakMarksText(p), peakDecisionText(p), p.origin, p.note ?? '',
       ghostCell(p), // issue 20
+      ...(extra ? extra.cells(p, i) : []),
     ]);
   });
   return rows;
@@ -179,6 +182,9 @@ export interface PeakCsvInput {
   recipe?: Recipe;
   registry?: Registry;
   version?: string;
+  /** Issue 18: extra columns (fitted areas, figures) and the comment lines that explain them. */
+  extra?: ExtraPeakColumns | null;
+  extraComments?: readonly string[];
 }
 
 /**
@@ -205,8 +211,8 @@ export function peakTableCsv(input: PeakCsvInput): string {
     ];
   // Issue 21: a "name" column and the named peaks found or missing, when the method names peaks.
   const naming = peakNamingOf(input.recipe, result.peaks);
-  const comments = [`${TOOL_NAME} peak table`, ...head, ...metadataLines(trace), `Peaks: ${result.peaks.length} rows.`, ...peakMethodLines(result), ...namedPeakLines(naming, trace.xUnit)];
-  return writeCsv(withNameColumn(peakTableRows(trace, result), naming), { ...options, comments });
+  const comments = [`${TOOL_NAME} peak table`, ...head, ...metadataLines(trace), `Peaks: ${result.peaks.length} rows.`, ...peakMethodLines(result), ...namedPeakLines(naming, trace.xUnit), ...(input.extraComments ?? [])];
+  return writeCsv(withNameColumn(peakTableRows(trace, result, true, input.extra), naming), { ...options, comments });
 }
 
 /**

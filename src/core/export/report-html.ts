@@ -16,6 +16,7 @@ import { recipeInWords, recipeToJson, type Recipe, type Registry } from '../reci
 import { axisLabel, type Trace } from '../trace.ts';
 import { escapeText } from './html-text.ts';
 import { noiseSentence, peakMethodLines, peakTableRows } from './peak-csv.ts';
+import { fitReportSection, type ExtraPeakColumns, type FitForExport } from './fit-export.ts';
 import { PLOT_MAX_MARKERS, svgLinePlot, type PlotMarker, type PlotSeries } from './plot-svg.ts';
 
 export { escapeHtml, escapeText } from './html-text.ts';
@@ -51,6 +52,10 @@ export interface ReportInput {
   version?: string;
   /** Issue 21: the calibration and this trace's amounts (samples holds this trace only), when standards were given. */
   calibration?: CalibrationExport | null;
+  /** Issue 18: region fits (a section of their own), extra peak table columns and the lines explaining them. */
+  fits?: readonly FitForExport[];
+  extra?: ExtraPeakColumns | null;
+  extraLines?: readonly string[];
 }
 
 /** Most replaced points listed one by one; the rest are counted. */
@@ -222,12 +227,14 @@ export function reportHtml(input: ReportInput): string {
   }
 
   s.push('<h2>Peaks</h2>');
-  s.push(list(peakMethodLines(result)));
-  const rows = withNameColumn(peakTableRows(trace, result), naming);
+  s.push(list([...peakMethodLines(result), ...(input.extraLines ?? [])]));
+  const rows = withNameColumn(peakTableRows(trace, result, true, input.extra), naming);
   if (rows.length > 1) s.push(table(rows, 'Peak table (six significant figures; the peak table CSV holds every digit)'));
   else s.push('<p>No peaks pass the thresholds.</p>');
   if (naming) s.push(`<div data-role="named-peaks">${list(namedPeakLines(naming, trace.xUnit))}</div>`);
   if (input.calibration) s.push(calibrationReportSection(input.calibration, result));
+
+  if (input.fits) s.push(fitReportSection(input.fits, xLabel, yLabel));
 
   s.push('<h2>What the processing may have lost</h2>');
   if (ledger && ledger.sentences.length) s.push(`<div data-role="loss-ledger">${list(ledger.sentences)}</div>`);

@@ -9,6 +9,7 @@
  *
  * This is the one place the summary is built.
  */
+import { fitSummary, type FitForExport } from './fit-export.ts';
 import type { AnalyseResult } from '../analyse.ts';
 import type { PeakFlag, SnrDefinition } from '../measure/peak-types.ts';
 import { analysisOf, recipeToJson, type Recipe, type Registry } from '../recipe.ts';
@@ -48,6 +49,8 @@ export interface Summary {
   peaks: SummaryPeak[];
   residual: { verdict: string };
   warnings: string[];
+  /** Issue 18, added: region fits (export/fit-export.ts fitSummary); present only when fits were made. */
+  fits?: Record<string, unknown>[];
 }
 
 export interface SummaryInput {
@@ -63,6 +66,8 @@ export interface SummaryInput {
   loadNotices?: readonly string[];
   /** Tool version; default the package's. */
   version?: string;
+  /** Issue 18: region fits to add as `fits`. */
+  fits?: readonly FitForExport[];
 }
 
 const STATUS: Record<PeakFlag, SummaryStatus> = {
@@ -161,6 +166,7 @@ export function analysisSummary(input: SummaryInput): Summary {
     peaks,
     residual: { verdict },
     warnings,
+    ...(input.fits && input.fits.length ? { fits: fitSummary(input.fits) } : {}),
   };
 }
 

@@ -16,6 +16,7 @@ import { useCalibrationView } from '../calibration/derive.ts';
 import { clearSession, SESSION_UNDO_STEPS } from './session-db.ts';
 import { SessionFileControls } from './SessionFileControls.tsx';
 import { markDrawn } from '../draw-health.ts';
+import { exportExtras } from '../fit/export-extras.ts';
 
 type Guarded = 'cleaned' | 'peaks' | 'report';
 
@@ -74,13 +75,14 @@ export function ExportPanel({ getFigure }: Props) {
     if (!sample || !result) return;
     const now = new Date();
     try {
+      const add = exportExtras(sample, result); // issue 18: fits and figure columns
       if (kind === 'cleaned') {
         downloadCsv(cleanedTraceCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: { delimiter, decimal }, now }), `${stem}-cleaned.csv`);
       } else if (kind === 'peaks') {
-        downloadCsv(peakTableCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: { delimiter, decimal }, now }), `${stem}-peaks.csv`);
+        downloadCsv(peakTableCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: { delimiter, decimal }, now, extra: add.extra, extraComments: add.lines }), `${stem}-peaks.csv`);
       } else {
         // The plots are drawn by the core, as in the command line's report.
-        const html = reportHtml({ trace: sample, result, recipe, registry: STEP_REGISTRY, ledger: ledgerOut, confirmation: confirmed, now, calibration: calibration?.exp ?? null });
+        const html = reportHtml({ trace: sample, result, recipe, registry: STEP_REGISTRY, ledger: ledgerOut, confirmation: confirmed, now, calibration: calibration?.exp ?? null, fits: add.fits, extra: add.extra, extraLines: add.lines });
         downloadText(html, `${stem}-report.html`, 'text/html;charset=utf-8');
       }
     } catch (e) {
