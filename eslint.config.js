@@ -31,6 +31,7 @@ export default tseslint.config(
           { group: ['plotly.js*', '*plotly*'], message: 'src/core must not import Plotly.' },
           { group: ['zustand', 'zustand/*', '**/state/**', '**/state'], message: 'src/core must not import the store.' },
           { group: ['**/ui/**', '**/ui', '**/worker/**', '**/worker'], message: 'src/core must not import UI or worker code.' },
+          { group: ['**/cli/**', '**/cli'], message: 'src/core must not import the command line.' },
         ],
       }],
       'no-restricted-globals': ['error', 'document', 'window', 'self', 'postMessage', 'localStorage'],

@@ -184,6 +184,25 @@ class LineReader {
 }
 
 /**
+ * The quoted field whose opening quote is at `start` ("" inside is one
+ * quote), and the index just past its closing quote (or the line's end).
+ */
+function quoted(line: string, start: number): { field: string; end: number } {
+  const n = line.length;
+  let field = '';
+  let i = start + 1;
+  while (i < n) {
+    if (line.charCodeAt(i) === 34) {
+      if (line.charCodeAt(i + 1) === 34) { field += '"'; i += 2; continue; }
+      i++;
+      break;
+    }
+    field += line[i++];
+  }
+  return { field, end: i };
+}
+
+/**
  * Split one line into fields, honouring double quotes the way PapaParse does:
  * a field is quoted only when its first character is a quote; "" inside a
  * quoted field is one quote. Whitespace delimiting splits on runs of spaces
@@ -198,17 +217,7 @@ export function splitFields(line: string, delimiter: Delimiter): string[] {
       while (i < n && isSpaceOrTab(line.charCodeAt(i))) i++;
       if (i >= n) break;
       let field = '';
-      if (line.charCodeAt(i) === 34) {
-        i++;
-        while (i < n) {
-          if (line.charCodeAt(i) === 34) {
-            if (line.charCodeAt(i + 1) === 34) { field += '"'; i += 2; continue; }
-            i++;
-            break;
-          }
-          field += line[i++];
-        }
-      }
+      if (line.charCodeAt(i) === 34) ({ field, end: i } = quoted(line, i));
       const from = i;
       while (i < n && !isSpaceOrTab(line.charCodeAt(i))) i++;
       fields.push(field + line.slice(from, i));
@@ -219,16 +228,9 @@ export function splitFields(line: string, delimiter: Delimiter): string[] {
   let i = 0;
   for (;;) {
     if (i < n && line.charCodeAt(i) === 34) {
-      let field = '';
-      i++;
-      while (i < n) {
-        if (line.charCodeAt(i) === 34) {
-          if (line.charCodeAt(i + 1) === 34) { field += '"'; i += 2; continue; }
-          i++;
-          break;
-        }
-        field += line[i++];
-      }
+      const q = quoted(line, i);
+      const field = q.field;
+      i = q.end;
       const from = i;
       while (i < n && line.charCodeAt(i) !== d) i++;
       // PapaParse drops spaces between a closing quote and the delimiter.

@@ -108,6 +108,15 @@ interface Token {
   text: string;
 }
 
+/** The compressed forms' letters: the token each starts, and the leading digit (with sign) or repeat count the k-th letter stands for. */
+const LETTER_CLASSES: readonly { letters: string; kind: Token['kind']; form: Form; digit: (k: number) => string }[] = [
+  { letters: SQZ, kind: 'abs', form: 'SQZ', digit: (k) => String(k) },
+  { letters: SQZ_NEG, kind: 'abs', form: 'SQZ', digit: (k) => `-${k + 1}` },
+  { letters: DIF, kind: 'dif', form: 'DIF', digit: (k) => String(k) },
+  { letters: DIF_NEG, kind: 'dif', form: 'DIF', digit: (k) => `-${k + 1}` },
+  { letters: DUP, kind: 'dup', form: 'DUP', digit: (k) => String(k + 1) },
+];
+
 function stripComment(line: string): string {
   // `$$` starts a comment to the end of the line; look past a leading `##` so `##$$` cannot hide a label.
   const lead = /^\s*##/.exec(line);
@@ -258,22 +267,10 @@ function tokenise(text: string, line: number): Token[] {
         continue;
       }
     }
-    let k: number;
-    if ((k = SQZ.indexOf(c)) >= 0) {
+    const letter = LETTER_CLASSES.find((l) => l.letters.includes(c));
+    if (letter) {
       flush();
-      cur = { kind: 'abs', form: 'SQZ', text: String(k) };
-    } else if ((k = SQZ_NEG.indexOf(c)) >= 0) {
-      flush();
-      cur = { kind: 'abs', form: 'SQZ', text: `-${k + 1}` };
-    } else if ((k = DIF.indexOf(c)) >= 0) {
-      flush();
-      cur = { kind: 'dif', form: 'DIF', text: String(k) };
-    } else if ((k = DIF_NEG.indexOf(c)) >= 0) {
-      flush();
-      cur = { kind: 'dif', form: 'DIF', text: `-${k + 1}` };
-    } else if ((k = DUP.indexOf(c)) >= 0) {
-      flush();
-      cur = { kind: 'dup', form: 'DUP', text: String(k + 1) };
+      cur = { kind: letter.kind, form: letter.form, text: letter.digit(letter.letters.indexOf(c)) };
     } else if (c === '?') {
       throw new JcampProblem(
         `Line ${line} holds a missing value ("?"); a trace needs a number at every point.`,
