@@ -68,7 +68,7 @@ describe('analysis settings in the saved method', () => {
     expect(r.ok).toBe(false);
     if (r.ok) return;
     expect(r.problems).toEqual([
-      'Analysis settings: unknown member "plots" (expected "noise" and "peaks").',
+      'Analysis settings: unknown member "plots" (expected "noise", "peaks", "namedPeaks" and "calibration").',
       'Noise method must be one of auto, rms, blank.',
       'Quiet range must be null or [from, to] in x-units with from < to.',
       'Analysis settings (noise): unknown setting "colour".',

@@ -34,7 +34,7 @@ export function NamedPeaksEditor() {
       <div className="row small">
         <button type="button" aria-pressed={pick} onClick={() => setNamePickMode(!pick)}>{pick ? 'Naming: click a peak on the plot' : 'Name a peak by clicking it'}</button>
         <button type="button" onClick={() => fileInput.current?.click()}>Load named peaks…</button>
-        <input ref={fileInput} type="file" accept=".csv,.txt,text/csv" className="sr-only" data-testid="named-peaks-input" aria-label="Load a named-peak table (CSV)"
+        <input ref={fileInput} type="file" accept=".csv,.txt,text/csv" className="sr-only" data-testid="named-peaks-input" aria-label="Load named peaks from a CSV file"
           onChange={(e) => { const f = e.target.files?.[0]; e.target.value = ''; void loadFile(f); }} />
         <label htmlFor="match-rule">Several peaks in a window: take the</label>
         <select id="match-rule" value={table.rule} onChange={(e) => setMatchRule(e.target.value as MatchRule)}>
