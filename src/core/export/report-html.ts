@@ -226,7 +226,8 @@ export function reportHtml(input: ReportInput): string {
   if (rows.length > 1) s.push(table(rows, 'Peak table (six significant figures; the peak table CSV holds every digit)'));
   else s.push('<p>No peaks pass the thresholds.</p>');
 
-  if (input.fits) s.push(fitReportSection(input.fits, xLabel, yLabel));
+  // Only when fits were made, so the page's report without fits stays the command line's.
+  if (input.fits?.length) s.push(fitReportSection(input.fits, xLabel, yLabel));
 
   s.push('<h2>What the processing may have lost</h2>');
   if (ledger && ledger.sentences.length) s.push(`<div data-role="loss-ledger">${list(ledger.sentences)}</div>`);
