@@ -85,7 +85,9 @@ describe('fits and figures in the exports', () => {
     expect(section).toContain('F (figure only)');
     expect(html).not.toContain('<img src=x');
     const none = reportHtml({ trace, result, recipe: emptyRecipe(), registry: STEP_REGISTRY, now: NOW, fits: [] });
-    expect(none).toContain('No region was fitted.');
+    // Without fits the report is as before (the command line's report has no fits and must match the page's).
+    expect(none).not.toContain('Region fits');
+    expect(none).toBe(reportHtml({ trace, result, recipe: emptyRecipe(), registry: STEP_REGISTRY, now: NOW }));
   });
 
   test('summary JSON: fits added as a field, the schema still holds strictly, every number finite or null', () => {

@@ -234,7 +234,8 @@ export function reportHtml(input: ReportInput): string {
   if (naming) s.push(`<div data-role="named-peaks">${list(namedPeakLines(naming, trace.xUnit))}</div>`);
   if (input.calibration) s.push(calibrationReportSection(input.calibration, result));
 
-  if (input.fits) s.push(fitReportSection(input.fits, xLabel, yLabel));
+  // Only when fits were made, so the page's report without fits stays the command line's.
+  if (input.fits?.length) s.push(fitReportSection(input.fits, xLabel, yLabel));
 
   s.push('<h2>What the processing may have lost</h2>');
   if (ledger && ledger.sentences.length) s.push(`<div data-role="loss-ledger">${list(ledger.sentences)}</div>`);
