@@ -53,11 +53,13 @@
  *    neighbour's half-height width rides on it ({@link ridersOf}): it keeps
  *    its own local measures and moves nothing of the neighbour's. So does
  *    one on the neighbour's flank, within its bounds, when it is under a
- *    quarter of the neighbour's width and the neighbour stands at least
- *    0.35 of its height above the neighbour's line at the mirror image of
- *    its apex about the neighbour's (a noise bump on a broad peak's flank;
- *    a small real peak of comparable width, or one where the neighbour has
- *    fallen away, still splits). And of
+ *    tenth of the neighbour's width and a shared valley would cut off more
+ *    of the neighbour than the narrow peak holds (its own area is less than
+ *    the neighbour's area from its near bound out to the neighbour's bound,
+ *    less its own): a noise bump on a broad peak's flank; a neighbour of
+ *    comparable width, or one in the far tail where little of the broad
+ *    peak is left, still splits. Its area is then also inside the broad
+ *    peak's (the row's note says so). And of
  *    two touching peaks, one whose box average rises less than the
  *    detection limit × σ_B above the valley is part of the other (a broad
  *    noisy top split in two) and is dropped ({@link mergeShallow}). Where at least one of the two stands at or
