@@ -27,9 +27,10 @@ VALLEY_RISE = 3          # rise (sigma_B) that ends a walk at a valley
 VALLEY_RISE_AFTER = 6    # the same once back at the baseline
 RETURN_ABOVE_HULL = 3    # back at the baseline within this many sigma_B above the reference
 RETURN_BEYOND = 2        # bound this many half-widths beyond the return
-SCALE_SLACK = 2          # rule 1: scan box sizes until z falls this far below its best
 LEVEL_POINTS_MIN = 5     # level: mean of at least 5 samples beyond a bound
 MAX_PASSES = 2
+FLANK_RIDER_NARROWER = 4  # a bump on a flank rides only when this many times narrower
+FLANK_LEVEL_SHARE = 0.35  # ... and where the neighbour, at the mirror point, stands this share of its height
 APEX_HALF_WINDOW_MAX = 50
 MIN_PROM, MIN_SNR, MIN_WIDTH, DL, QL = 2.0, 2.0, 2.5, 3.0, 10.0
 SIGMA = 1.0
@@ -74,21 +75,37 @@ def foot_at_scale(s, i, d, r, rise, cap):
     return a, mn
 
 
+def box_top(s, i, r, h):
+    """The sample within +-h of i where the box average is highest (the first of equals)."""
+    lo, hi = max(0, i - h), min(len(s) - 1, i + h)
+    best, v = lo, -math.inf
+    for j in range(lo, hi + 1):
+        g = box_mean(s, j, r)
+        if g > v:
+            best, v = j, g
+    return best
+
+
 def first_feet(s, i, width_limit, cap):
-    """Rule 1: box sizes 1, 3, 5, 9, 17, ... up to the half-prominence width; keep the best z."""
+    """Rule 1: box sizes 1, 3, 5, 9, 17, ... up to 3/4 of the half-prominence width (at least 3; where a walk ends
+    where it starts, both walk again from the highest box average within half that width); keep the best z
+    (every size is tried)."""
     best, best_z = (0, i, s[i], i, s[i]), -math.inf
     r = 0
     while True:
         B = 2 * r + 1
-        if r > 0 and B > width_limit:
+        if r > 0 and B > max(3, 0.75 * width_limit):
             break
         sb = SIGMA / math.sqrt(B)
-        f0, l0 = foot_at_scale(s, i, -1, r, VALLEY_RISE * sb, cap)
-        f1, l1 = foot_at_scale(s, i, 1, r, VALLEY_RISE * sb, cap)
-        base = (l0 + l1) / 2 if f1 == f0 else l0 + (l1 - l0) * (i - f0) / (f1 - f0)
-        z = (box_mean(s, i, r) - base) / sb
-        if not z >= best_z - SCALE_SLACK:
-            break
+        top = i
+        f0, l0 = foot_at_scale(s, top, -1, r, VALLEY_RISE * sb, cap)
+        f1, l1 = foot_at_scale(s, top, 1, r, VALLEY_RISE * sb, cap)
+        if r > 0 and (f0 == i or f1 == i):
+            top = box_top(s, i, r, math.ceil(width_limit / 2))
+            f0, l0 = foot_at_scale(s, top, -1, r, VALLEY_RISE * sb, cap)
+            f1, l1 = foot_at_scale(s, top, 1, r, VALLEY_RISE * sb, cap)
+        base = (l0 + l1) / 2 if f1 == f0 else l0 + (l1 - l0) * (top - f0) / (f1 - f0)
+        z = (box_mean(s, top, r) - base) / sb
         if z > best_z:
             best, best_z = (r, f0, l0, f1, l1), z
         r = 1 if r == 0 else 2 * r
@@ -347,23 +364,46 @@ def shared_valley(s, A, B):
     return valley_between(s, A.i, B.i, r, under)
 
 
-def riders(ms):
+def riders(s, ms):
+    """Rule 6a: narrower than half a higher neighbour, and on its top (within its half-height crossings) or
+    within its bounds when also under a quarter of its width and the neighbour stands at least 0.35 of the
+    bump's height above its own line at the mirror image of the bump's apex about the neighbour's."""
     out = [-1] * len(ms)
     fwo = lambda m: m.rip - m.lip
+    # Only peaks whose bounds reach B's apex can host it: scan outward while some peak further out still reaches.
+    reach_r, reach_l, v = [0] * len(ms), [0] * len(ms), -math.inf
+    for k, m in enumerate(ms):
+        v = max(v, m.end)
+        reach_r[k] = v
+    v = math.inf
+    for k in range(len(ms) - 1, -1, -1):
+        v = min(v, ms[k].start)
+        reach_l[k] = v
     for k, B in enumerate(ms):
         host = -1
-        for d in (-1, 1):
-            j = k + d
-            while 0 <= j < len(ms):
-                A = ms[j]
-                if (A.rip < B.i) if d < 0 else (A.lip > B.i):
-                    if abs(A.i - B.i) > 2 * WIDTH_LIMIT * max(fwo(A), 1):
-                        break
-                    j += d
-                    continue
-                if A.lip <= B.i <= A.rip and fwo(B) < fwo(A) / 2 and B.h < A.h and (host < 0 or ms[host].h < A.h):
-                    host = j
-                j += d
+        near = []
+        j = k - 1
+        while j >= 0 and reach_r[j] >= B.i:
+            near.append(j)
+            j -= 1
+        j = k + 1
+        while j < len(ms) and reach_l[j] <= B.i:
+            near.append(j)
+            j += 1
+        for j in near:
+            A = ms[j]
+            if not (A.start <= B.i <= A.end):
+                continue
+            if not (fwo(B) < fwo(A) / 2 and B.h < A.h and (host < 0 or ms[host].h < A.h)):
+                continue
+            if A.lip <= B.i <= A.rip:
+                host = j
+                continue
+            if not fwo(B) < fwo(A) / FLANK_RIDER_NARROWER:
+                continue
+            mirror = min(len(s) - 1, max(0, 2 * A.i - B.i))
+            if box_mean(s, mirror, A.box) - at(A.line, mirror) >= FLANK_LEVEL_SHARE * B.h:
+                host = j
         out[k] = host
     return out
 
@@ -450,7 +490,7 @@ def table(s):
         if m.h / SIGMA < MIN_SNR:
             continue
         cands.append(m)
-    rid = riders(cands)
+    rid = riders(s, cands)
     free = [m for m, h in zip(cands, rid) if h < 0]
     free = merge_shallow(s, free)
     share_valleys(s, free, [m.h / SIGMA >= DL for m in free])

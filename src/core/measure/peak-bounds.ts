@@ -11,9 +11,12 @@
  *    of B samples, keeping the lowest average passed; stop when one stands
  *    more than 3σ_B above it (σ_B the noise of a B-sample average), or
  *    after {@link WIDTH_LIMIT} × the half-prominence width. B = 1, 3, 5,
- *    9, 17, … (at most the half-prominence width): the B at which the
- *    height above the line through the two lowest averages, in units of
- *    σ_B, is largest ({@link firstFeet}). The first baseline is that line.
+ *    9, 17, … (at most 3/4 of the half-prominence width, at least 3); where
+ *    a walk ends where it starts, both walk again from the highest box
+ *    average within half the half-prominence width of the apex: the B
+ *    at which the height above the line through the two lowest averages,
+ *    in units of σ_B, is largest, every B tried ({@link firstFeet}). The
+ *    first baseline is that line.
  * 2. Own width: the half-height crossings of the trace above that line
  *    (linear interpolation between samples, not beyond the bounds), and the
  *    apex (position and level) from a parabola over the peak's own top
@@ -48,7 +51,15 @@
  *    point between their apexes, with two exceptions. A narrow peak (under
  *    half the width of a higher neighbour) whose apex lies within that
  *    neighbour's half-height width rides on it ({@link ridersOf}): it keeps
- *    its own local measures and moves nothing of the neighbour's. And of
+ *    its own local measures and moves nothing of the neighbour's. So does
+ *    one on the neighbour's flank, within its bounds, when it is under a
+ *    tenth of the neighbour's width and a shared valley would cut off more
+ *    of the neighbour than the narrow peak holds (its own area is less than
+ *    the neighbour's area from its near bound out to the neighbour's bound,
+ *    less its own): a noise bump on a broad peak's flank; a neighbour of
+ *    comparable width, or one in the far tail where little of the broad
+ *    peak is left, still splits. Its area is then also inside the broad
+ *    peak's (the row's note says so). And of
  *    two touching peaks, one whose box average rises less than the
  *    detection limit × σ_B above the valley is part of the other (a broad
  *    noisy top split in two) and is dropped ({@link mergeShallow}). Where at least one of the two stands at or
@@ -73,8 +84,8 @@ const VALLEY_RISE_AFTER_RETURN = 6;
 const RETURN_ABOVE_HULL = 3;
 /** Half-height half-widths (of that side) a bound lies beyond the point where the trace came back to the baseline. */
 const RETURN_BEYOND = 2;
-/** How far (in σ_B) the height of rule 1 may fall below its best before the scan of box sizes stops. */
-const SCALE_SLACK = 2;
+/** A narrow peak on a neighbour's flank (outside its half-height width) rides on it only when this many times narrower. */
+const FLANK_RIDER_NARROWER = 10;
 /** Half-window of the apex-level fit: FWHM/6 samples, at least 1, at most this many. */
 const APEX_HALF_WINDOW_MAX = 50;
 /** Samples averaged for a level beyond a bound, at least. */
@@ -315,16 +326,37 @@ function footAtScale(s: Float64Array, i: number, dir: -1 | 1, r: number, rise: n
   outA = a; outB = min;
 }
 
+/** The sample within ±h of i where the box average (half-width r) is highest (the first of equals). */
+function boxTop(s: Float64Array, i: number, r: number, h: number): number {
+  const last = s.length - 1;
+  const lo = Math.max(0, i - h), hi = Math.min(last, i + h);
+  let sum = 0;
+  for (let k = lo - r; k <= lo + r; k++) sum += s[k < 0 ? 0 : k > last ? last : k];
+  let best = lo, v = sum;
+  for (let j = lo + 1; j <= hi; j++) {
+    const add = j + r, drop = j - r - 1;
+    sum += s[add > last ? last : add] - s[drop < 0 ? 0 : drop];
+    if (sum > v) { v = sum; best = j; }
+  }
+  return best;
+}
+
 /**
  * Rule 1: the first feet and their levels. A noisy top dips by 3σ often
  * enough that a walk on single samples stops on the peak's own top, so the
  * walk runs on box averages of B = 2r + 1 samples, r = 0, 1, 2, 4, 8, …
- * (B at most the half-prominence width), each with rise 3σ_B; the scale
- * kept is the one at which the height above the feet's line, in units of
- * σ_B, is largest, scanning up until it falls {@link SCALE_SLACK} below
- * that best (a matched-filter choice: it grows with √B until the box
- * starts to flatten the peak; the slack lets the scan pass the noise of
- * the small boxes).
+ * (B at most 3/4 of the half-prominence width: a box as wide as the peak
+ * smooths away the valleys beside it), each with rise 3σ_B (where a walk
+ * ends where it starts, both walk again from the highest box average
+ * within half the half-prominence width of the apex: on a broad noisy top
+ * the highest sample lies off the average's top, whose own slope ends the
+ * walk at once); the scale kept is the one at which the
+ * height above the feet's line, in units of σ_B, is largest (a
+ * matched-filter choice: it grows with √B until the box starts to flatten
+ * the peak). Every B is tried: on a broad noisy top z is high at B = 1 (a
+ * noise spike), low at B = 5–9 (the walks stop at noise dips on the top)
+ * and largest only near the peak's own width, so a scan that stopped once z
+ * fell below its best missed broad peaks.
  */
 export function firstFeet(c: MeasureContext, i: number, widthLimit: number, cap: number): { r: number; f0: number; l0: number; f1: number; l1: number } {
   const { x, s, noise } = c;
@@ -333,16 +365,25 @@ export function firstFeet(c: MeasureContext, i: number, widthLimit: number, cap:
   let bestZ = -Infinity;
   for (let r = 0; ; r = r === 0 ? 1 : 2 * r) {
     const B = 2 * r + 1;
-    if (r > 0 && B > widthLimit) break;
+    if (r > 0 && B > Math.max(3, 0.75 * widthLimit)) break;
     const sb = sigma * noise.boxFactor(B);
-    footAtScale(s, i, -1, r, VALLEY_RISE * sb, cap);
-    const f0 = outA, l0 = outB;
-    footAtScale(s, i, 1, r, VALLEY_RISE * sb, cap);
-    const f1 = outA, l1 = outB;
-    const base = x[f1] === x[f0] ? (l0 + l1) / 2 : l0 + ((l1 - l0) * (x[i] - x[f0])) / (x[f1] - x[f0]);
-    const z = (boxMean(s, i, r) - base) / sb;
-    // z itself is noisy by a unit or two at small boxes: the scan goes on until z falls clearly below its best.
-    if (!(z >= bestZ - SCALE_SLACK)) break;
+    let top = i;
+    footAtScale(s, top, -1, r, VALLEY_RISE * sb, cap);
+    let f0 = outA, l0 = outB;
+    footAtScale(s, top, 1, r, VALLEY_RISE * sb, cap);
+    let f1 = outA, l1 = outB;
+    if (r > 0 && (f0 === i || f1 === i)) {
+      // A walk that ends where it starts: on a broad noisy top the highest sample lies off the top of the box
+      // average, whose own slope there ends the walk at once. Walk again from the highest box average within
+      // half the half-prominence width of the apex.
+      top = boxTop(s, i, r, Math.ceil(widthLimit / 2));
+      footAtScale(s, top, -1, r, VALLEY_RISE * sb, cap);
+      f0 = outA; l0 = outB;
+      footAtScale(s, top, 1, r, VALLEY_RISE * sb, cap);
+      f1 = outA; l1 = outB;
+    }
+    const base = x[f1] === x[f0] ? (l0 + l1) / 2 : l0 + ((l1 - l0) * (x[top] - x[f0])) / (x[f1] - x[f0]);
+    const z = (boxMean(s, top, r) - base) / sb;
     if (z > bestZ) { bR = r; bF0 = f0; bL0 = l0; bF1 = f1; bL1 = l1; bestZ = z; }
   }
   return { r: bR, f0: bF0, l0: bL0, f1: bF1, l1: bL1 };
@@ -585,26 +626,48 @@ function sharedValley(c: MeasureContext, A: LocalMeasure, B: LocalMeasure): [num
 }
 
 /**
- * Rule 6a: peak k rides on a neighbour when its apex lies between that
- * neighbour's half-height crossings, its own half-height width is under
- * half the neighbour's, and it is lower: a narrow bump on a broad peak's
- * top or flank. Returns, per peak, the index of the peak it rides on, or -1.
+ * Rule 6a: peak k rides on a neighbour when its own half-height width is
+ * under half the neighbour's, it is lower, and its apex lies either between
+ * that neighbour's half-height crossings (a narrow bump on a broad peak's
+ * top), or within the neighbour's bounds (a bump on its flank) when it is
+ * also under 1/{@link FLANK_RIDER_NARROWER} of the neighbour's width and
+ * sharing a valley would cut off more of the neighbour than it holds itself
+ * (its own area, above its own line between its own bounds, is less than
+ * the neighbour's area above the neighbour's line from its near bound out
+ * to the neighbour's bound on that side, less its own). So a noise bump (a
+ * few samples wide) on a broad peak's flank does not split it, while a
+ * neighbour of comparable width, or a peak in the far tail where little of
+ * the neighbour is left, still does. Of several such neighbours the highest
+ * is the host. Returns, per peak, the index of the peak it rides on, or -1.
  */
-export function ridersOf(ms: readonly LocalMeasure[]): Int32Array {
+export function ridersOf(c: MeasureContext, ms: readonly LocalMeasure[]): Int32Array {
+  const { x, s } = c;
   const out = new Int32Array(ms.length).fill(-1);
   const fw = (m: LocalMeasure) => m.rightIp - m.leftIp;
+  // Furthest right end of the peaks up to k, and furthest left start of those from k on: a scan outward from a
+  // peak stops where no peak further out reaches its apex.
+  const reachR = new Float64Array(ms.length), reachL = new Float64Array(ms.length);
+  for (let k = 0, v = -Infinity; k < ms.length; k++) { v = Math.max(v, ms[k].end); reachR[k] = v; }
+  for (let k = ms.length - 1, v = Infinity; k >= 0; k--) { v = Math.min(v, ms[k].start); reachL[k] = v; }
   for (let k = 0; k < ms.length; k++) {
     const B = ms[k];
     let host = -1;
+    let ownB = NaN;
     for (const dir of [-1, 1]) {
       for (let j = k + dir; j >= 0 && j < ms.length; j += dir) {
+        if (dir < 0 ? reachR[j] < B.index : reachL[j] > B.index) break;
         const A = ms[j];
-        if (dir < 0 ? A.rightIp < B.index : A.leftIp > B.index) {
-          // Hosts further away can still span this apex when they are broad; stop once none can.
-          if (Math.abs(A.index - B.index) > 2 * WIDTH_LIMIT * Math.max(fw(A), 1)) break;
-          continue;
-        }
-        if (A.leftIp <= B.index && B.index <= A.rightIp && fw(B) < fw(A) / 2 && B.height < A.height && (host < 0 || ms[host].height < A.height)) host = j;
+        if (dir < 0 ? A.end < B.index : A.start > B.index) continue;
+        if (!(fw(B) < fw(A) / 2 && B.height < A.height && (host < 0 || ms[host].height < A.height))) continue;
+        if (A.leftIp <= B.index && B.index <= A.rightIp) { host = j; continue; }
+        if (!(A.start <= B.index && B.index <= A.end)) continue;
+        // On a flank only a bump far narrower than the neighbour (noise is a few samples wide) rides.
+        if (!(fw(B) < fw(A) / FLANK_RIDER_NARROWER)) continue;
+        // A split at this bump would give it the neighbour's area from its near bound out to the neighbour's bound
+        // on that side: it rides where that is more than it holds itself.
+        if (Number.isNaN(ownB)) ownB = Math.max(0, areaAbove(x, s, B.line, B.start, B.end));
+        const cut = B.index > A.index ? areaAbove(x, s, A.line, Math.max(A.index, B.start), A.end) : areaAbove(x, s, A.line, A.start, Math.min(A.index, B.end));
+        if (ownB < cut - ownB) host = j;
       }
     }
     out[k] = host;

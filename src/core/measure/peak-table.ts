@@ -127,10 +127,10 @@ function makePeak(c: MeasureContext, y: Float64Array, sign: number, k: Candidate
  */
 function finish(c: MeasureContext, y: Float64Array, sign: number, all: Candidate[], o: PeakOptions): Peak[] {
   all.sort((a, b) => a.m.index - b.m.index);
-  const riders = ridersOf(all.map((k) => k.m));
+  const riders = ridersOf(c, all.map((k) => k.m));
   for (let k = 0; k < all.length; k++) {
     const host = riders[k];
-    if (host >= 0) all[k].note = `Rides on the peak at ${fmtX(all[host].m.xApex)} (narrower than half its width, within its half-height width): measured against its own local baseline; its area is also inside that peak's.`;
+    if (host >= 0) all[k].note = `Rides on the peak at ${fmtX(all[host].m.xApex)} (narrower than half its width, on its top or a flank it does not split): measured against its own local baseline; its area is also inside that peak's.`;
   }
   const of = new Map(all.map((k) => [k.m, k]));
   const free = all.filter((_, k) => riders[k] < 0);
