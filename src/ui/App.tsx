@@ -20,8 +20,9 @@ export function App() {
   const markMode = useApp((s) => s.markMode);
   const marked = useApp((s) => s.markedRange);
   const showRaw = useApp((s) => s.showRaw);
+  const yFits = useApp((s) => s.yFitsView);
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
-  const { setMarkMode, setShowRaw, setXRange, undo, redo } = useApp.getState();
+  const { setMarkMode, setShowRaw, setXRange, setYFitsView, undo, redo } = useApp.getState();
   const figure = useRef<HTMLElement | null>(null);
   const onFigure = useCallback((el: HTMLElement | null) => { figure.current = el; }, []);
 
@@ -90,6 +91,7 @@ export function App() {
               <h2 id="plot-title">{sample ? sample.name : 'Trace'}{busy ? <span className="busy" aria-label="computing"> ·</span> : null}</h2>
               <div className="row">
                 <label className="switch"><input type="checkbox" checked={showRaw} onChange={(e) => setShowRaw(e.target.checked)} /> raw</label>
+                <label className="switch" title="On: a zoom in x rescales y to the data in view. Off: y stays where you put it (drag a box to zoom both)."><input type="checkbox" checked={yFits} onChange={(e) => setYFitsView(e.target.checked)} data-testid="y-fits" /> y fits the zoom</label>
                 <button type="button" aria-pressed={markMode} onClick={() => setMarkMode(!markMode)}>{markMode ? 'Marking: drag across the plot' : 'Mark a range'}</button>
                 {marked && <span className="muted small">marked {marked[0].toPrecision(4)} – {marked[1].toPrecision(4)}</span>}
                 <button type="button" onClick={() => setXRange(null)}>Whole trace</button>

@@ -8,6 +8,7 @@ import { interpolateLinear } from '../core/numeric/interpolate.ts';
 import { PlotlyFigure } from './PlotlyFigure.tsx';
 import { MARK_TEXT } from '../core/export/peak-csv.ts';
 import { markDrawFailed, markDrawn } from './draw-health.ts';
+import { visibleYRange } from './plot-view.ts';
 
 /** Plot width in pixel columns used for decimation (two points per column). */
 function useWidth(): [React.RefObject<HTMLDivElement | null>, number] {
@@ -42,6 +43,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const selectedX = useApp((s) => s.selectedPeakX);
   const addPeakMode = useApp((s) => s.addPeakMode);
   const addPeakAt = useApp((s) => s.addPeakAt);
+  const yFits = useApp((s) => s.yFitsView);
   const [boxRef, width] = useWidth();
 
   const data = useMemo<PlotData[]>(() => {
@@ -135,6 +137,12 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
     return traces;
   }, [sample, result, xRange, showRaw, width, showAlt, altList]);
 
+  const yView = useMemo(() => {
+    if (!xRange || !yFits) return null;
+    const y = visibleYRange(data, xRange[0], xRange[1], 'y');
+    return y ? { y, y2: visibleYRange(data, xRange[0], xRange[1], 'y2') } : null;
+  }, [data, xRange, yFits]);
+
   const layout = useMemo<PlotLayout>(() => {
     const xTitle = sample ? axisLabel(sample.xName, sample.xUnit) : 'x';
     const yTitle = sample ? axisLabel(sample.yName, sample.yUnit) : 'y';
@@ -160,15 +168,16 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       selectdirection: 'h',
       hovermode: 'closest',
       xaxis: { title: { text: xTitle }, anchor: 'y2', range: xRange ?? undefined, autorange: xRange ? false : true, gridcolor: COLOURS.grid, zeroline: false },
-      yaxis: { title: { text: yTitle }, domain: [0.3, 1], gridcolor: COLOURS.grid, zeroline: false },
-      yaxis2: { title: { text: 'residual' }, domain: [0, 0.22], gridcolor: COLOURS.grid, zeroline: true, zerolinecolor: '#b0b6bd' },
+      // Issue 17: zoomed in x, y fits the data in view (unless the user keeps y where they put it).
+      yaxis: { title: { text: yTitle }, domain: [0.3, 1], gridcolor: COLOURS.grid, zeroline: false, ...(yView ? { range: yView.y, autorange: false } : { autorange: true }) },
+      yaxis2: { title: { text: sample?.yUnit ? `residual (${sample.yUnit})` : 'residual' }, domain: [0, 0.22], gridcolor: COLOURS.grid, zeroline: true, zerolinecolor: '#b0b6bd', ...(yView?.y2 ? { range: yView.y2, autorange: false } : { autorange: true }) },
       shapes,
       uirevision: sample?.id ?? 'none',
       paper_bgcolor: '#ffffff',
       plot_bgcolor: '#ffffff',
       font: { family: 'system-ui, sans-serif', size: 12, color: COLOURS.ink },
     };
-  }, [sample, xRange, markMode, marked, selectedX, result]);
+  }, [sample, xRange, markMode, marked, selectedX, result, yView]);
 
   const onXRange = useCallback((r: [number, number] | null) => setXRange(r), [setXRange]);
   const onSelectX = useCallback((r: [number, number]) => setMarked(r), [setMarked]);

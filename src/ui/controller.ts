@@ -85,8 +85,9 @@ export async function loadBytes(bytes: Uint8Array, fileName: string, opts: LoadB
     useApp.getState().addTraces(result.traces, result.report, { roles: opts.roles, replace: opts.replace });
     if (!opts.quiet) {
       const n = result.traces.length;
-      const names = n <= 4 ? result.traces.map((t) => t.name).join(', ') : `${n} traces from ${fileName} (${result.traces[0].name} … ${result.traces[n - 1].name})`;
-      useApp.getState().notify(result.report.skipped.length ? 'warning' : 'info', `Loaded ${names}`, describeLoad(result));
+      // The title names the file and the count; the traces themselves are in the trace list (60 names in a title help nobody).
+      const title = n === 1 ? `Loaded ${result.traces[0].name}` : `Loaded ${fileName}: ${n.toLocaleString('en')} traces`;
+      useApp.getState().notify(result.report.skipped.length ? 'warning' : 'info', title, describeLoad(result));
     }
     return true;
   } catch (e) {
@@ -97,8 +98,24 @@ export async function loadBytes(bytes: Uint8Array, fileName: string, opts: LoadB
   }
 }
 
-/** Load files the user dropped or picked. */
+/** True for a trace of the invented demo run (by its file name). */
+export function isDemoTrace(t: { source: { fileName: string } }): boolean {
+  return DEMO_FILES.some((d) => d.file === t.source.fileName);
+}
+
+/**
+ * Load files the user dropped or picked. The first file that loads gives the
+ * sample (its first trace); later files are loaded set aside, and a notice says
+ * so. The user's own file sets the whole demo aside in one change, which the
+ * notice offers to undo.
+ */
 export async function openFiles(files: readonly File[]): Promise<void> {
+  const before = useApp.getState();
+  const rolesBefore = { ...before.roles };
+  const sampleBefore = before.sampleId;
+  const demoInUse = before.traces.filter((t) => isDemoTrace(t) && before.roles[t.id] !== 'ignore').map((t) => t.id);
+  let sampleFile: string | null = null;
+  const laterFiles: string[] = [];
   for (const f of files) {
     if (f.size > MAX_FILE_BYTES) {
       useApp.getState().notify('error', `${f.name}: the file is too large (${(f.size / 1048576).toFixed(0)} MB)`, [`The page holds files up to ${MAX_FILE_BYTES / 1048576} MB. Nothing already loaded was changed.`]);
@@ -111,7 +128,33 @@ export async function openFiles(files: readonly File[]): Promise<void> {
       useApp.getState().notify('error', `${f.name}: the browser could not read the file`, [(e as Error).message]);
       continue;
     }
-    await loadBytes(bytes, f.name, { reread: () => f.arrayBuffer().then((b) => new Uint8Array(b)) });
+    const ok = await loadBytes(bytes, f.name, { roles: sampleFile ? ['ignore'] : undefined, reread: () => f.arrayBuffer().then((b) => new Uint8Array(b)) });
+    if (ok) { if (sampleFile === null) sampleFile = f.name; else laterFiles.push(f.name); }
+  }
+  if (sampleFile === null) return;
+  const app = useApp.getState();
+  if (laterFiles.length) {
+    app.notify('info', `Opened ${laterFiles.length + 1} files: ${sampleFile} is the sample`, [
+      `The first file opened gives the sample. ${laterFiles.join(', ')} ${laterFiles.length === 1 ? 'is' : 'are'} loaded and set aside: choose another sample, a blank or repeated scans in the trace list.`,
+    ]);
+  }
+  if (demoInUse.length) {
+    const aside: Record<string, TraceRole> = {};
+    for (const id of demoInUse) if (app.roles[id] !== undefined) aside[id] = 'ignore';
+    app.setRoles(aside);
+    const newIds = app.traces.filter((t) => !(t.id in rolesBefore)).map((t) => t.id);
+    const key = `demo-back-${++actionCount}`;
+    noticeActions.set(key, () => {
+      const s = useApp.getState();
+      const back: Record<string, TraceRole> = {};
+      for (const [id, role] of Object.entries(rolesBefore)) if (s.roles[id] !== undefined) back[id] = role;
+      for (const id of newIds) if (s.roles[id] !== undefined) back[id] = 'ignore';
+      s.setRoles(back, sampleBefore && s.roles[sampleBefore] !== undefined ? sampleBefore : null);
+      s.notify('info', 'The demo is back as it was', ['Its sample, blank and scans have their roles again; your file stays loaded, set aside.']);
+    });
+    app.notify('info', `The demo is set aside: ${demoInUse.length} trace${demoInUse.length === 1 ? '' : 's'} (its sample, blank and repeated scans)`, [
+      'They stay loaded with the role “set aside”, so nothing of the demo is subtracted from your trace or averaged with it. Give any of them a role again in the trace list, or undo this in one step.',
+    ], { label: 'Undo: put the demo back', key });
   }
 }
 
@@ -185,6 +228,8 @@ export function requestAnalysis(): void {
 export function startController(): () => void {
   let lastTraces = useApp.getState().traces;
   const unsub = useApp.subscribe((s, prev) => {
+    // Issue 17: each trace keeps its own zoom; a trace not zoomed before opens at full range.
+    if (s.sampleId !== prev.sampleId) s.switchZoom(prev.sampleId, s.sampleId);
     if (s.traces !== lastTraces) {
       lastTraces = s.traces;
       getBackend().setInputs(s.traces);

@@ -1,0 +1,136 @@
+import { expect, test, type Page } from '@playwright/test';
+import { openWithDemo, trace } from './helpers.ts';
+
+/** Issue 17, a day at the bench: roles, zoom, readout. Files are made here from seeded formulas (invented data). */
+
+function csv(xName: string, yNames: string[], n: number, f: (x: number, j: number) => number, x0 = 0, dx = 0.1): Buffer {
+  const lines = [[xName, ...yNames].join(',')];
+  for (let i = 0; i < n; i++) {
+    const x = x0 + i * dx;
+    lines.push([x.toFixed(4), ...yNames.map((_, j) => f(x, j).toFixed(6))].join(','));
+  }
+  return Buffer.from(lines.join('\n') + '\n');
+}
+const gauss = (x: number, c: number, w: number, h: number) => h * Math.exp(-0.5 * ((x - c) / w) ** 2);
+
+/** The demo's ten traces are listed (the page draws the sample before the scans have arrived). */
+async function demoListed(page: Page): Promise<void> {
+  await openWithDemo(page);
+  await expect(page.locator('.notice').filter({ hasText: 'Demo loaded' })).toBeVisible({ timeout: 20_000 });
+  await expect(page.locator('[data-testid="trace-list"] li.trace-item')).toHaveCount(10);
+}
+
+/** Role chosen for each listed trace, by the full name in the row's title. */
+async function roles(page: Page): Promise<Record<string, string>> {
+  return page.evaluate(() => {
+    const out: Record<string, string> = {};
+    for (const li of Array.from(document.querySelectorAll('[data-testid="trace-list"] li.trace-item'))) {
+      const name = (li.querySelector('.trace-name') as HTMLElement).title.split('\n')[0];
+      out[name] = (li.querySelector('select') as HTMLSelectElement).value;
+    }
+    return out;
+  });
+}
+
+async function axisRange(page: Page, axis: 'xaxis' | 'yaxis'): Promise<[number, number]> {
+  return page.evaluate((a) => {
+    const gd = document.querySelector('[data-testid="figure"]') as unknown as { _fullLayout: Record<string, { range: [number, number] }> };
+    return gd._fullLayout[a].range.slice() as [number, number];
+  }, axis);
+}
+
+/** Drag across the middle of the upper plot from fraction a to fraction b of its width. */
+async function dragZoom(page: Page, a: number, b: number): Promise<void> {
+  const box = (await page.locator('[data-testid="figure"] .nsewdrag').first().boundingBox())!;
+  const y = box.y + box.height * 0.5;
+  await page.mouse.move(box.x + box.width * a, y);
+  await page.mouse.down();
+  await page.mouse.move(box.x + box.width * ((a + b) / 2), y + 3, { steps: 4 });
+  await page.mouse.move(box.x + box.width * b, y + 6, { steps: 4 });
+  await page.mouse.up();
+}
+
+const own = { name: 'my-run.csv', mimeType: 'text/csv', buffer: csv('Time (min)', ['Signal (mV)'], 400, (x) => gauss(x, 20, 1, 50) + 0.3 * Math.sin(7 * x)) };
+const second = { name: 'second-run.csv', mimeType: 'text/csv', buffer: csv('Time (min)', ['Signal (mV)'], 300, (x) => gauss(x, 10, 1, 30) + 0.2 * Math.cos(5 * x)) };
+
+test('own file after the demo: the whole demo is set aside in one change, said and undoable', async ({ page }) => {
+  await demoListed(page);
+  const before = await roles(page);
+  expect(Object.values(before).filter((r) => r === 'scan')).toHaveLength(8);
+  expect(Object.values(before).filter((r) => r === 'blank')).toHaveLength(1);
+  await page.getByTestId('file-input').setInputFiles(own);
+  await expect(page.getByRole('heading', { name: /my-run\.csv/ })).toBeVisible();
+  const notice = page.locator('.notice').filter({ hasText: 'The demo is set aside' });
+  await expect(notice).toContainText('10 traces');
+  const after = await roles(page);
+  for (const [name, role] of Object.entries(after)) expect(role, name).toBe(name.startsWith('my-run.csv') ? 'sample' : 'ignore');
+  await notice.getByRole('button', { name: 'Undo: put the demo back' }).click();
+  await expect(page.getByRole('heading', { name: /demo-sample\.csv/ })).toBeVisible();
+  const back = await roles(page);
+  for (const [name, role] of Object.entries(before)) expect(back[name], name).toBe(role);
+  expect(back['my-run.csv: Signal']).toBe('ignore');
+});
+
+test('two files opened at once: the first is the sample, and the page says so', async ({ page }) => {
+  await demoListed(page);
+  await page.getByTestId('file-input').setInputFiles([own, second]);
+  await expect(page.locator('.notice').filter({ hasText: 'Opened 2 files: my-run.csv is the sample' })).toBeVisible();
+  await expect(page.getByRole('heading', { name: /my-run\.csv/ })).toBeVisible();
+  const r = await roles(page);
+  expect(r['my-run.csv: Signal']).toBe('sample');
+  expect(r['second-run.csv: Signal']).toBe('ignore');
+});
+
+test('a 60-column file: traces listed by their own names, a filter, all shown made scans, one notice', async ({ page }) => {
+  await demoListed(page);
+  const names = Array.from({ length: 60 }, (_, j) => `gasoline-nir-${String(j + 1).padStart(2, '0')}`);
+  await page.getByTestId('file-input').setInputFiles({ name: 'nir-set.csv', mimeType: 'text/csv', buffer: csv('Wavelength (nm)', names, 200, (x, j) => 0.1 + gauss(x, 1210, 8, 0.5 + 0.01 * j), 1100, 2) });
+  const notice = page.locator('.notice').filter({ hasText: 'Loaded nir-set.csv: 60 traces' });
+  await expect(notice).toBeVisible();
+  expect(await notice.locator('strong').first().textContent()).toBe('Loaded nir-set.csv: 60 traces');
+  await page.getByTestId('trace-filter').fill('nir-0');
+  await expect(page.getByTestId('trace-filter-count')).toHaveText('9 of 70 shown');
+  const shown = await page.locator('[data-testid="trace-list"] .trace-name').allTextContents();
+  expect(shown).toEqual(names.slice(0, 9));
+  await page.getByTestId('trace-filter').fill('gasoline');
+  await page.getByRole('button', { name: 'all shown are repeated scans' }).click();
+  // The list draws only the rows in view above 40 traces: read the roles through two short filters.
+  await page.getByTestId('trace-filter').fill('nir-0');
+  let r = await roles(page);
+  expect(r['nir-set.csv: gasoline-nir-01']).toBe('sample');
+  for (const n of names.slice(1, 9)) expect(r[`nir-set.csv: ${n}`], n).toBe('scan');
+  await page.getByTestId('trace-filter').fill('demo');
+  r = await roles(page);
+  expect(Object.keys(r)).toHaveLength(10);
+  expect(new Set(Object.values(r))).toEqual(new Set(['ignore']));
+});
+
+test('each trace keeps its own zoom; a new trace opens at full range; zoom in x rescales y', async ({ page }) => {
+  await demoListed(page);
+  const fullY = await axisRange(page, 'yaxis');
+  await dragZoom(page, 0.05, 0.2);
+  await expect.poll(async () => (await axisRange(page, 'xaxis'))[1]).toBeLessThan(10);
+  const zoomX = await axisRange(page, 'xaxis');
+  // y follows the data in view: its top is the largest drawn y inside the x-range, plus the 6 % margin.
+  const raw = (await trace(page, 'raw'))!;
+  const proc = (await trace(page, 'processed'))!;
+  let hi = -Infinity, lo = Infinity;
+  for (const t of [raw, proc]) t.x.forEach((x, i) => { if (x >= zoomX[0] && x <= zoomX[1]) { hi = Math.max(hi, t.y[i]); lo = Math.min(lo, t.y[i]); } });
+  const zy = await axisRange(page, 'yaxis');
+  expect(zy[1]).toBeLessThan(fullY[1]);
+  expect(zy[1]).toBeGreaterThanOrEqual(hi);
+  expect(zy[0]).toBeLessThanOrEqual(lo);
+  // Keep y fixed: the switch gives y back to the whole trace's range.
+  await page.getByTestId('y-fits').uncheck();
+  await expect.poll(async () => (await axisRange(page, 'yaxis'))[1]).toBeGreaterThan(zy[1] + 0.8 * (fullY[1] - zy[1]));
+  await page.getByTestId('y-fits').check();
+  // Another file opens at its full range.
+  await page.getByTestId('file-input').setInputFiles(own);
+  await expect(page.getByRole('heading', { name: /my-run\.csv/ })).toBeVisible();
+  await expect.poll(async () => (await axisRange(page, 'xaxis'))[1]).toBeGreaterThan(39);
+  expect((await axisRange(page, 'xaxis'))[0]).toBeLessThan(0.5);
+  // Back to the demo sample: its zoom comes back.
+  await page.locator('.notice').filter({ hasText: 'The demo is set aside' }).getByRole('button', { name: 'Undo: put the demo back' }).click();
+  await expect(page.getByRole('heading', { name: /demo-sample\.csv/ })).toBeVisible();
+  await expect.poll(async () => (await axisRange(page, 'xaxis'))[1]).toBeCloseTo(zoomX[1], 6);
+});
