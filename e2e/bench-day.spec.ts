@@ -134,3 +134,34 @@ test('each trace keeps its own zoom; a new trace opens at full range; zoom in x 
   await expect(page.getByRole('heading', { name: /demo-sample\.csv/ })).toBeVisible();
   await expect.poll(async () => (await axisRange(page, 'xaxis'))[1]).toBeCloseTo(zoomX[1], 6);
 });
+
+test('cursor readout gives the nearest data point of each line, and two clicks measure Δx, Δy and slope with units', async ({ page }) => {
+  await openWithDemo(page);
+  const { readFileSync } = await import('node:fs');
+  const rows = readFileSync('public/demo/demo-sample.csv', 'utf8').split(/\r?\n/).filter((l) => /^-?\d/.test(l)).map((l) => l.split(',').map(Number));
+  const box = (await page.locator('[data-testid="figure"] .nsewdrag').first().boundingBox())!;
+  await page.mouse.move(box.x + box.width * 0.37, box.y + box.height * 0.5);
+  const text = await page.getByTestId('cursor-readout').textContent();
+  // "x 4.123 min · raw 1.234 mAU at 4.125 min · processed …"
+  const m = /raw (-?[\d.e+-]+) mAU at (-?[\d.e+-]+) min/.exec(text ?? '');
+  expect(m, text ?? '').not.toBeNull();
+  const cx = Number(/^x (-?[\d.e+-]+) min/.exec(text!)![1]);
+  const px = Number(m![2]), py = Number(m![1]);
+  // The point shown is the file's row nearest to the cursor's x, its y to the 6 digits shown.
+  const nearest = rows.reduce((best, r) => (Math.abs(r[0] - cx) < Math.abs(best[0] - cx) ? r : best), rows[0]);
+  expect(px).toBeCloseTo(nearest[0], 5);
+  expect(Math.abs(py - nearest[1])).toBeLessThanOrEqual(Math.abs(nearest[1]) * 1e-5);
+  // Two points.
+  await page.getByTestId('measure-toggle').click();
+  await page.mouse.click(box.x + box.width * 0.2, box.y + box.height * 0.5);
+  await page.mouse.click(box.x + box.width * 0.6, box.y + box.height * 0.5);
+  const res = await page.getByTestId('measure-result').textContent();
+  const mm = /Δx = (-?[\d.e+-]+) min · Δy = (-?[\d.e+-]+) mAU · slope = (-?[\d.e+-]+) mAU\/min \(from (-?[\d.e+-]+) to (-?[\d.e+-]+) min/.exec(res ?? '');
+  expect(mm, res ?? '').not.toBeNull();
+  const [dx, dy, slope, x1, x2] = mm!.slice(1).map(Number);
+  const r1 = rows.find((r) => Math.abs(r[0] - x1) < 1e-6)!, r2 = rows.find((r) => Math.abs(r[0] - x2) < 1e-6)!;
+  expect(r1 && r2).toBeTruthy();
+  expect(dx).toBeCloseTo(r2[0] - r1[0], 5);
+  expect(Math.abs(dy - (r2[1] - r1[1]))).toBeLessThan(1e-5 * Math.max(1, Math.abs(dy)));
+  expect(slope).toBeCloseTo((r2[1] - r1[1]) / (r2[0] - r1[0]), 3);
+});

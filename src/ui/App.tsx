@@ -12,6 +12,7 @@ import { ResidualPanel } from './ResidualPanel.tsx';
 import { StepStack } from './StepStack.tsx';
 import { TraceList } from './TraceList.tsx';
 import { TracePlot } from './TracePlot.tsx';
+import { CursorReadout } from './CursorReadout.tsx';
 
 export function App() {
   const fileInput = useRef<HTMLInputElement>(null);
@@ -24,7 +25,8 @@ export function App() {
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const { setMarkMode, setShowRaw, setXRange, setYFitsView, undo, redo } = useApp.getState();
   const figure = useRef<HTMLElement | null>(null);
-  const onFigure = useCallback((el: HTMLElement | null) => { figure.current = el; }, []);
+  const [figureEl, setFigureEl] = useState<HTMLElement | null>(null);
+  const onFigure = useCallback((el: HTMLElement | null) => { figure.current = el; setFigureEl(el); }, []);
 
   useEffect(() => {
     const onKey = (e: KeyboardEvent) => {
@@ -100,6 +102,7 @@ export function App() {
             <ErrorBoundary area="the plot" drawsSession actions={<button type="button" onClick={() => window.location.reload()}>Reload and choose whether to restore this session</button>}>
               <TracePlot onFigure={onFigure} />
             </ErrorBoundary>
+            <ErrorBoundary area="the cursor readout"><CursorReadout figure={figureEl} /></ErrorBoundary>
           </section>
           <ErrorBoundary area="the residual checks"><ResidualPanel /></ErrorBoundary>
           <ErrorBoundary area="the peak table"><PeakTable /></ErrorBoundary>

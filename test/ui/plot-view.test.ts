@@ -21,3 +21,24 @@ describe('visibleYRange', () => {
     expect(visibleYRange([{ ...a, visible: 'legendonly' as const }, b], 0, 4, 'y', 0)).toEqual([0, 4]);
   });
 });
+
+import { nearestPoint, slopeUnit, twoPointMeasure } from '../../src/ui/plot-view.ts';
+
+// Hand-computed (issue 17): the readout takes the nearest sample in x, ties to the left.
+describe('readout helpers', () => {
+  const s = { name: 'raw', x: [0, 1, 2, 4], y: [5, 6, 7, 9] };
+  it('finds the nearest sample', () => {
+    expect(nearestPoint(s, 2.9)).toEqual({ x: 2, y: 7, index: 2 });
+    expect(nearestPoint(s, 3)).toEqual({ x: 2, y: 7, index: 2 });
+    expect(nearestPoint(s, 3.1)).toEqual({ x: 4, y: 9, index: 3 });
+    expect(nearestPoint(s, -5)).toEqual({ x: 0, y: 5, index: 0 });
+    expect(nearestPoint(s, 99)).toEqual({ x: 4, y: 9, index: 3 });
+  });
+  it('measures Δx, Δy and the slope with its unit', () => {
+    expect(twoPointMeasure({ x: 1, y: 2 }, { x: 3, y: 8 })).toEqual({ dx: 2, dy: 6, slope: 3 });
+    expect(twoPointMeasure({ x: 1, y: 2 }, { x: 1, y: 8 }).slope).toBeNull();
+    expect(slopeUnit('mAU', 'min')).toBe('mAU/min');
+    expect(slopeUnit('mV', 'ml/min')).toBe('mV/(ml/min)');
+    expect(slopeUnit('', '')).toBe('');
+  });
+});
