@@ -165,3 +165,27 @@ test('cursor readout gives the nearest data point of each line, and two clicks m
   expect(Math.abs(dy - (r2[1] - r1[1]))).toBeLessThan(1e-5 * Math.max(1, Math.abs(dy)));
   expect(slope).toBeCloseTo((r2[1] - r1[1]) / (r2[0] - r1[0]), 3);
 });
+
+test('units: name_unit headers, names and units set in the page, every width and step figure with its unit or in words', async ({ page }) => {
+  await openWithDemo(page);
+  await page.getByTestId('file-input').setInputFiles({ name: 'logger.csv', mimeType: 'text/csv', buffer: csv('time_s', ['voltage_mV'], 400, (x) => gauss(x, 20, 1, 50) + 0.3 * Math.sin(7 * x)) });
+  await expect(page.getByRole('heading', { name: /logger\.csv/ })).toBeVisible();
+  await expect(page.locator('.xtitle')).toHaveText('time (s)');
+  await expect(page.locator('.ytitle').first()).toHaveText('voltage (mV)');
+  // Set in the page: the plot, the peak table and the readout follow.
+  await page.getByRole('button', { name: 'Axis names and units…' }).click();
+  await page.getByTestId('axis-xName').fill('Time');
+  await page.getByTestId('axis-xUnit').fill('min');
+  await page.getByTestId('axis-yName').fill('Detector signal');
+  await page.getByRole('button', { name: 'Apply' }).click();
+  await expect(page.locator('.xtitle')).toHaveText('Time (min)');
+  await expect(page.locator('.ytitle').first()).toHaveText('Detector signal (mV)');
+  await expect(page.getByTestId('peak-table').locator('th').nth(1)).toHaveText('Apex (min)');
+  // A step's window in x says its unit; its figures are in words, not code names.
+  await page.selectOption('#add-step-choice', 'savitzky-golay');
+  await page.getByRole('button', { name: 'Add step' }).click();
+  const card = page.getByTestId('step-savitzky-golay');
+  await expect(card.locator('.hint').first()).toHaveText(/^= [\d.]+ min$/);
+  await expect(card.locator('.figures')).toContainText('white noise kept (SD out ÷ SD in)');
+  await expect(card).not.toContainText('noiseGain');
+});

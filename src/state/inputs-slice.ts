@@ -27,6 +27,8 @@ export interface InputsSlice {
   /** Give several traces roles in one change (one step for the user, one analysis); a trace given 'sample' becomes the one processed. */
   setRoles: (changes: Record<string, TraceRole>, sampleId?: string | null) => void;
   removeTrace: (id: string) => void;
+  /** Name the axes of a trace and their units (issue 17): the trace is replaced by one with the same id, data and source. */
+  setAxisNames: (id: string, names: { xName: string; xUnit: string; yName: string; yUnit: string }) => void;
   notify: (kind: NoticeKind, title: string, lines?: string[], action?: Notice['action']) => void;
   dismissNotice: (id: number) => void;
   setLoading: (l: { fileName: string; fraction: number } | null) => void;
@@ -87,6 +89,9 @@ export const createInputsSlice: StateCreator<AppState, [], [], InputsSlice> = (s
     for (const t of blanks) if (t !== keepBlank) roles[t.id] = 'ignore';
     return { roles, sampleId };
   }),
+  setAxisNames: (id, names) => set((s) => ({
+    traces: s.traces.map((t) => (t.id === id ? Object.freeze({ ...t, ...names }) : t)),
+  })),
   removeTrace: (id) => set((s) => {
     const roles = { ...s.roles };
     delete roles[id];

@@ -13,10 +13,12 @@ import { StepStack } from './StepStack.tsx';
 import { TraceList } from './TraceList.tsx';
 import { TracePlot } from './TracePlot.tsx';
 import { CursorReadout } from './CursorReadout.tsx';
+import { AxisNames } from './AxisNames.tsx';
 
 export function App() {
   const fileInput = useRef<HTMLInputElement>(null);
   const [dragging, setDragging] = useState(false);
+  const [editAxes, setEditAxes] = useState(false);
   const busy = useApp((s) => s.busy);
   const markMode = useApp((s) => s.markMode);
   const marked = useApp((s) => s.markedRange);
@@ -97,8 +99,10 @@ export function App() {
                 <button type="button" aria-pressed={markMode} onClick={() => setMarkMode(!markMode)}>{markMode ? 'Marking: drag across the plot' : 'Mark a range'}</button>
                 {marked && <span className="muted small">marked {marked[0].toPrecision(4)} – {marked[1].toPrecision(4)}</span>}
                 <button type="button" onClick={() => setXRange(null)}>Whole trace</button>
+                {sample && <button type="button" aria-expanded={editAxes} onClick={() => setEditAxes(!editAxes)}>Axis names and units…</button>}
               </div>
             </div>
+            {editAxes && sample && <AxisNames key={sample.id} trace={sample} onClose={() => setEditAxes(false)} />}
             <ErrorBoundary area="the plot" drawsSession actions={<button type="button" onClick={() => window.location.reload()}>Reload and choose whether to restore this session</button>}>
               <TracePlot onFigure={onFigure} />
             </ErrorBoundary>

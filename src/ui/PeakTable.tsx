@@ -48,6 +48,8 @@ export function PeakTable() {
   const def = result.peakOptions?.snrDefinition ?? 'rms';
   const xu = sample.xUnit ? ` (${sample.xUnit})` : '';
   const yu = sample.yUnit ? ` (${sample.yUnit})` : '';
+  // Issue 17: the area's unit is y-unit × x-unit.
+  const areaUnit = sample.yUnit || sample.xUnit ? ` (${sample.yUnit || 'y-units'}·${sample.xUnit || 'x-units'})` : '';
   const counts = { q: 0, d: 0, b: 0 };
   for (const p of all) if (!p.removedByUser) { if (p.flag === 'quantifiable') counts.q++; else if (p.flag === 'detectable') counts.d++; else counts.b++; }
   const lim = result.peakOptions?.limits;
@@ -89,7 +91,7 @@ export function PeakTable() {
               <th scope="col">Height{yu}</th>
               <th scope="col">Prominence{yu}</th>
               <th scope="col">FWHM{xu}</th>
-              <th scope="col">Area</th>
+              <th scope="col">Area{areaUnit}</th>
               <th scope="col">Bounds{xu}</th>
               <th scope="col">S/N ({def === 'rms' ? 'H/σ' : def === 'pharmacopoeial' ? '2H/h' : 'mean/SD'})</th>
               <th scope="col">Status and marks</th>
