@@ -189,3 +189,46 @@ test('units: name_unit headers, names and units set in the page, every width and
   await expect(card.locator('.figures')).toContainText('white noise kept (SD out ÷ SD in)');
   await expect(card).not.toContainText('noiseGain');
 });
+
+test('a peak added by hand snaps to the nearest top or is refused on the page with the reason; area % sums to 100', async ({ page }) => {
+  await openWithDemo(page);
+  // A smooth file: one Gaussian on a steady slope, no noise (so the slope has no tops).
+  await page.getByTestId('file-input').setInputFiles({ name: 'slope.csv', mimeType: 'text/csv', buffer: csv('Time (min)', ['Signal (mV)'], 400, (x) => gauss(x, 10, 0.5, 20) + 0.5 * x) });
+  await expect(page.getByRole('heading', { name: /slope\.csv/ })).toBeVisible();
+  await expect(page.getByTestId('peak-table').locator('tbody tr')).toHaveCount(1);
+  await page.getByRole('button', { name: 'Add a peak by clicking' }).click();
+  const box = (await page.locator('[data-testid="figure"] .nsewdrag').first().boundingBox())!;
+  const xRange = await axisRange(page, 'xaxis');
+  const px = (x: number) => box.x + ((x - xRange[0]) / (xRange[1] - xRange[0])) * box.width;
+  const yRange = await axisRange(page, 'yaxis');
+  const py = (y: number) => box.y + box.height - ((y - yRange[0]) / (yRange[1] - yRange[0])) * box.height;
+  // On the slope at x = 30: refused, the reason under the plot, the table unchanged.
+  await page.mouse.click(px(30), py(15));
+  await expect(page.getByTestId('hand-note')).toContainText('Peak not added: No top within 10 points of x = 30');
+  await expect(page.getByTestId('hand-note')).toContainText('min');
+  await expect(page.getByTestId('peak-table').locator('tbody tr')).toHaveCount(1);
+  // Near the top (0.3 min = 3 samples off): that top is already in the table, which is said too.
+  await page.mouse.click(px(10.3), py(gauss(10.3, 10, 0.5, 20) + 5.15));
+  await expect(page.getByTestId('hand-note')).toContainText('already in the peak table');
+  // The demo's raw trace near the shoulder at 6.35 min: moved to a top of the trace and added.
+  await page.locator('.notice').filter({ hasText: 'The demo is set aside' }).getByRole('button', { name: 'Undo: put the demo back' }).click();
+  await expect(page.getByRole('heading', { name: /demo-sample\.csv/ })).toBeVisible();
+  await expect.poll(async () => (await axisRange(page, 'xaxis'))[1]).toBeGreaterThan(11);
+  const rowsBefore = await page.getByTestId('peak-table').locator('tbody tr').count();
+  const xr = await axisRange(page, 'xaxis'), yr = await axisRange(page, 'yaxis');
+  const qx = (x: number) => box.x + ((x - xr[0]) / (xr[1] - xr[0])) * box.width;
+  const qy = (y: number) => box.y + box.height - ((y - yr[0]) / (yr[1] - yr[0])) * box.height;
+  const raw = (await trace(page, 'raw'))!;
+  const k = raw.x.findIndex((v) => v >= 7.3);
+  await page.mouse.click(qx(raw.x[k]), qy(raw.y[k]));
+  await expect(page.getByTestId('hand-note')).toContainText(/Peak added at the top x = [\d.]+ min/);
+  await expect(page.getByTestId('peak-table').locator('tbody tr')).toHaveCount(rowsBefore + 1);
+  const added = page.getByTestId('peak-table').locator('tbody tr').filter({ hasText: 'added by hand' });
+  await expect(added).toHaveCount(1);
+  // Area %: the column adds up to 100 over the kept rows (rounded to 3 digits each).
+  const col = await page.getByTestId('peak-table').locator('th').allTextContents();
+  const ai = col.indexOf('Area %');
+  expect(ai).toBeGreaterThan(0);
+  const shares = await page.getByTestId('peak-table').locator('tbody tr').evaluateAll((rows, i) => rows.map((r) => Number((r.children[i] as HTMLElement).textContent)), ai);
+  expect(shares.reduce((a, b) => a + b, 0)).toBeCloseTo(100, 0);
+});

@@ -23,6 +23,9 @@ export interface ViewSlice {
   /** When on (the default), a zoom in x rescales y to the data in view; off keeps y where the user put it. */
   yFitsView: boolean;
   setYFitsView: (v: boolean) => void;
+  /** What became of the last peak added by hand (issue 17), said under the plot. */
+  handNote: { kind: 'added' | 'refused'; text: string } | null;
+  setHandNote: (n: { kind: 'added' | 'refused'; text: string } | null) => void;
 }
 
 export const createViewSlice: StateCreator<AppState, [], [], ViewSlice> = (set) => ({
@@ -44,4 +47,6 @@ export const createViewSlice: StateCreator<AppState, [], [], ViewSlice> = (set) 
   }),
   yFitsView: true,
   setYFitsView: (yFitsView) => set({ yFitsView }),
+  handNote: null,
+  setHandNote: (handNote) => set({ handNote }),
 });

@@ -24,8 +24,9 @@ export function App() {
   const marked = useApp((s) => s.markedRange);
   const showRaw = useApp((s) => s.showRaw);
   const yFits = useApp((s) => s.yFitsView);
+  const handNote = useApp((s) => s.handNote);
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
-  const { setMarkMode, setShowRaw, setXRange, setYFitsView, undo, redo } = useApp.getState();
+  const { setMarkMode, setShowRaw, setXRange, setYFitsView, setHandNote, undo, redo } = useApp.getState();
   const figure = useRef<HTMLElement | null>(null);
   const [figureEl, setFigureEl] = useState<HTMLElement | null>(null);
   const onFigure = useCallback((el: HTMLElement | null) => { figure.current = el; setFigureEl(el); }, []);
@@ -106,6 +107,7 @@ export function App() {
             <ErrorBoundary area="the plot" drawsSession actions={<button type="button" onClick={() => window.location.reload()}>Reload and choose whether to restore this session</button>}>
               <TracePlot onFigure={onFigure} />
             </ErrorBoundary>
+            {handNote && <p className={`small hand-note hand-${handNote.kind}`} role="status" data-testid="hand-note">{handNote.text} <button type="button" className="link" onClick={() => setHandNote(null)}>dismiss</button></p>}
             <ErrorBoundary area="the cursor readout"><CursorReadout figure={figureEl} /></ErrorBoundary>
           </section>
           <ErrorBoundary area="the residual checks"><ResidualPanel /></ErrorBoundary>

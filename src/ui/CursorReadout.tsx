@@ -1,6 +1,7 @@
 import { useEffect, useMemo, useState } from 'react';
 import { useApp } from '../state/store.ts';
 import { num } from './format.ts';
+import { addPeakByHand } from './controller.ts';
 import { axisTransform, toDataUnits } from './plot-guard.ts';
 import { nearestPoint, slopeUnit, twoPointMeasure, type ReadSeries } from './plot-view.ts';
 
@@ -52,6 +53,12 @@ export function CursorReadout({ figure }: { figure: HTMLElement | null }) {
     const onMove = (e: MouseEvent) => setCursorX(xAt(e));
     const onLeave = () => setCursorX(null);
     const onClick = (e: MouseEvent) => {
+      // Only clicks on the plotting area itself (not the legend or the toolbar above it).
+      const size = (figure as unknown as { _fullLayout?: { _size?: { t: number; h: number } } })._fullLayout?._size;
+      const py = e.clientY - figure.getBoundingClientRect().top;
+      if (!size || py < size.t || py > size.t + size.h) return;
+      // Issue 17: in "add a peak" mode a click anywhere over the plot adds a peak at the nearest top (or says why not).
+      if (useApp.getState().addPeakMode) { const at = xAt(e); if (at !== null) addPeakByHand(at); return; }
       if (!measuring) return;
       const x = xAt(e);
       const s = series.find((v) => v.name === 'processed') ?? series[0];
@@ -86,7 +93,7 @@ export function CursorReadout({ figure }: { figure: HTMLElement | null }) {
         )}
       </div>
       <div className="row">
-        <button type="button" aria-pressed={measuring} onClick={() => { setMeasuring(!measuring); setPoints([]); }} data-testid="measure-toggle">
+        <button type="button" aria-pressed={measuring} onClick={() => { setMeasuring(!measuring); setPoints([]); if (!measuring) useApp.getState().setAddPeakMode(false); }} data-testid="measure-toggle">
           {measuring ? 'Measuring: click two points' : 'Measure between two points'}
         </button>
         {measuring && points.length === 0 && <span className="muted">Click the first point on the plot (the nearest point of the processed line is taken).</span>}

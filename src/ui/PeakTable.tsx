@@ -53,6 +53,9 @@ export function PeakTable() {
   const counts = { q: 0, d: 0, b: 0 };
   for (const p of all) if (!p.removedByUser) { if (p.flag === 'quantifiable') counts.q++; else if (p.flag === 'detectable') counts.d++; else counts.b++; }
   const lim = result.peakOptions?.limits;
+  // Issue 17: area % of the summed area of every kept peak (the CSV-wide total, not only the rows shown).
+  let totalArea = 0;
+  for (const p of all) if (!p.removedByUser) totalArea += p.area;
   return (
     <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq}>
       <div className="panel-head">
@@ -92,6 +95,7 @@ export function PeakTable() {
               <th scope="col">Prominence{yu}</th>
               <th scope="col">FWHM{xu}</th>
               <th scope="col">Area{areaUnit}</th>
+              <th scope="col" title="Each peak's area as a share of the summed area of every peak kept in the table (all rows, not only those shown; removed peaks left out)">Area %</th>
               <th scope="col">Bounds{xu}</th>
               <th scope="col">S/N ({def === 'rms' ? 'H/σ' : def === 'pharmacopoeial' ? '2H/h' : 'mean/SD'})</th>
               <th scope="col">Status and marks</th>
@@ -120,6 +124,7 @@ export function PeakTable() {
                 <td>{num(p.prominence)}</td>
                 <td>{num(p.fwhm)}</td>
                 <td>{num(p.area)}</td>
+                <td>{p.removedByUser || !(totalArea > 0) ? '—' : num((100 * p.area) / totalArea, 3)}</td>
                 <td title={`start: ${BOUND_TEXT[p.startKind]}; end: ${BOUND_TEXT[p.endKind]}${p.split !== 'none' ? `; shared valley split by ${SPLIT_TEXT[p.split]}` : ''}`}>{num(p.start, 4)} – {num(p.end, 4)}</td>
                 <td><strong>{num(p.snr, 3)}</strong></td>
                 <td className="marks" title={[...p.marks.map((m) => MARK_TEXT[m]), p.note ?? ''].filter(Boolean).join('; ')}>
@@ -138,7 +143,7 @@ export function PeakTable() {
                 </td>
               </tr>
             ))}
-            {peaks.length === 0 && <tr><td colSpan={12} className="muted">No peaks pass the thresholds.</td></tr>}
+            {peaks.length === 0 && <tr><td colSpan={13} className="muted">No peaks pass the thresholds.</td></tr>}
           </tbody>
         </table>
       </div>

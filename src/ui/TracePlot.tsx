@@ -41,8 +41,6 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const setMarked = useApp((s) => s.setMarkedRange);
   const marked = useApp((s) => s.markedRange);
   const selectedX = useApp((s) => s.selectedPeakX);
-  const addPeakMode = useApp((s) => s.addPeakMode);
-  const addPeakAt = useApp((s) => s.addPeakAt);
   const yFits = useApp((s) => s.yFitsView);
   const [boxRef, width] = useWidth();
 
@@ -181,7 +179,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
 
   const onXRange = useCallback((r: [number, number] | null) => setXRange(r), [setXRange]);
   const onSelectX = useCallback((r: [number, number]) => setMarked(r), [setMarked]);
-  const onClickPoint = useCallback((x: number) => { if (addPeakMode) addPeakAt(x); }, [addPeakMode, addPeakAt]);
+
   const onDrawn = useCallback((problem: string | null) => { if (problem) markDrawFailed(`the plot: ${problem}`); else markDrawn(); }, []);
 
   if (!sample) {
@@ -189,7 +187,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   }
   return (
     <div ref={boxRef} className="plot-box">
-      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onReady={onFigure} onDrawn={onDrawn} pictureName={`${sample.source.fileName.replace(/\.[^.]*$/, '')}-plot`} drawnTag={String(result ? resultSeq : 0)} />
+      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onReady={onFigure} onDrawn={onDrawn} pictureName={`${sample.source.fileName.replace(/\.[^.]*$/, '')}-plot`} drawnTag={String(result ? resultSeq : 0)} />
     </div>
   );
 }

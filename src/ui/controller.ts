@@ -7,6 +7,7 @@ import type { AnalyseRequest } from '../core/analyse.ts';
 import { MAX_FILE_BYTES, type LoadOptions, type LoadResult } from '../core/io/types.ts';
 import type { TraceRole } from '../core/trace.ts';
 import { useApp } from '../state/store.ts';
+import { SNAP_POINTS, snapHandPeak } from '../core/measure/hand-peak.ts';
 import { inProcessBackend, LatestOnly, workerBackend, type ComputeBackend } from '../worker/bridge.ts';
 
 let backend: ComputeBackend | null = null;
@@ -246,4 +247,23 @@ export function cancelLoad(): void {
   backend?.cancelLoad();
   useApp.getState().setLoading(null);
   useApp.getState().notify('warning', 'Loading cancelled', ['Nothing already loaded was changed.']);
+}
+
+/**
+ * Issue 17: a click in "add a peak" mode. The click moves to the nearest top
+ * of the trace the peaks are measured on (within SNAP_POINTS samples) and is
+ * kept as a decision there, or is refused; either way the plot says so.
+ */
+export function addPeakByHand(at: number): void {
+  const s = useApp.getState();
+  const sample = s.traces.find((t) => t.id === s.sampleId);
+  const result = s.result && s.result.sampleId === s.sampleId ? s.result : null;
+  if (!sample || !result) { s.setHandNote({ kind: 'refused', text: 'The trace is still being measured; click again when the peak table shows.' }); return; }
+  const on = s.peakSettings.measureOn === 'raw' ? { x: sample.x, y: sample.y } : result.processed;
+  const taken = result.peaks.filter((p) => !p.removedByUser).map((p) => p.x);
+  const place = snapHandPeak(on.x, on.y, at, { negative: s.peakSettings.negative, taken, xUnit: sample.xUnit });
+  if (!place.ok) { s.setHandNote({ kind: 'refused', text: `Peak not added: ${place.reason}` }); return; }
+  s.addPeakAt(place.x);
+  const u = sample.xUnit ? ` ${sample.xUnit}` : '';
+  s.setHandNote({ kind: 'added', text: `Peak added at the ${s.peakSettings.negative ? 'bottom' : 'top'} x = ${Number(place.x.toPrecision(6))}${u}${place.moved ? ` (the click at ${Number(at.toPrecision(6))}${u} was moved to the nearest ${s.peakSettings.negative ? 'bottom' : 'top'}, at most ${SNAP_POINTS} points away)` : ''}. It is kept as a decision and marked “added by hand”.` });
 }
