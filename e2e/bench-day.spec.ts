@@ -136,7 +136,7 @@ test('each trace keeps its own zoom; a new trace opens at full range; zoom in x 
 });
 
 test('cursor readout gives the nearest data point of each line, and two clicks measure Δx, Δy and slope with units', async ({ page }) => {
-  await openWithDemo(page);
+  await demoListed(page);
   const { readFileSync } = await import('node:fs');
   const rows = readFileSync('public/demo/demo-sample.csv', 'utf8').split(/\r?\n/).filter((l) => /^-?\d/.test(l)).map((l) => l.split(',').map(Number));
   const box = (await page.locator('[data-testid="figure"] .nsewdrag').first().boundingBox())!;
@@ -167,7 +167,7 @@ test('cursor readout gives the nearest data point of each line, and two clicks m
 });
 
 test('units: name_unit headers, names and units set in the page, every width and step figure with its unit or in words', async ({ page }) => {
-  await openWithDemo(page);
+  await demoListed(page);
   await page.getByTestId('file-input').setInputFiles({ name: 'logger.csv', mimeType: 'text/csv', buffer: csv('time_s', ['voltage_mV'], 400, (x) => gauss(x, 20, 1, 50) + 0.3 * Math.sin(7 * x)) });
   await expect(page.getByRole('heading', { name: /logger\.csv/ })).toBeVisible();
   await expect(page.locator('.xtitle')).toHaveText('time (s)');
@@ -191,12 +191,14 @@ test('units: name_unit headers, names and units set in the page, every width and
 });
 
 test('a peak added by hand snaps to the nearest top or is refused on the page with the reason; area % sums to 100', async ({ page }) => {
-  await openWithDemo(page);
+  await demoListed(page);
   // A smooth file: one Gaussian on a steady slope, no noise (so the slope has no tops).
   await page.getByTestId('file-input').setInputFiles({ name: 'slope.csv', mimeType: 'text/csv', buffer: csv('Time (min)', ['Signal (mV)'], 400, (x) => gauss(x, 10, 0.5, 20) + 0.5 * x) });
   await expect(page.getByRole('heading', { name: /slope\.csv/ })).toBeVisible();
   await expect(page.getByTestId('peak-table').locator('tbody tr')).toHaveCount(1);
   await page.getByRole('button', { name: 'Add a peak by clicking' }).click();
+  // The button sits below the plot: bring the plot back into view before clicking on it.
+  await page.locator('[data-testid="figure"]').scrollIntoViewIfNeeded();
   const box = (await page.locator('[data-testid="figure"] .nsewdrag').first().boundingBox())!;
   const xRange = await axisRange(page, 'xaxis');
   const px = (x: number) => box.x + ((x - xRange[0]) / (xRange[1] - xRange[0])) * box.width;
@@ -215,9 +217,11 @@ test('a peak added by hand snaps to the nearest top or is refused on the page wi
   await expect(page.getByRole('heading', { name: /demo-sample\.csv/ })).toBeVisible();
   await expect.poll(async () => (await axisRange(page, 'xaxis'))[1]).toBeGreaterThan(11);
   const rowsBefore = await page.getByTestId('peak-table').locator('tbody tr').count();
+  await page.locator('[data-testid="figure"]').scrollIntoViewIfNeeded();
+  const box2 = (await page.locator('[data-testid="figure"] .nsewdrag').first().boundingBox())!;
   const xr = await axisRange(page, 'xaxis'), yr = await axisRange(page, 'yaxis');
-  const qx = (x: number) => box.x + ((x - xr[0]) / (xr[1] - xr[0])) * box.width;
-  const qy = (y: number) => box.y + box.height - ((y - yr[0]) / (yr[1] - yr[0])) * box.height;
+  const qx = (x: number) => box2.x + ((x - xr[0]) / (xr[1] - xr[0])) * box2.width;
+  const qy = (y: number) => box2.y + box2.height - ((y - yr[0]) / (yr[1] - yr[0])) * box2.height;
   const raw = (await trace(page, 'raw'))!;
   const k = raw.x.findIndex((v) => v >= 7.3);
   await page.mouse.click(qx(raw.x[k]), qy(raw.y[k]));
@@ -231,4 +235,34 @@ test('a peak added by hand snaps to the nearest top or is refused on the page wi
   expect(ai).toBeGreaterThan(0);
   const shares = await page.getByTestId('peak-table').locator('tbody tr').evaluateAll((rows, i) => rows.map((r) => Number((r.children[i] as HTMLElement).textContent)), ai);
   expect(shares.reduce((a, b) => a + b, 0)).toBeCloseTo(100, 0);
+});
+
+test('dragging a selected peak’s end changes its area and is kept as a decision', async ({ page }) => {
+  await demoListed(page);
+  // The large isolated peak at 4.3 min: select it by its row.
+  const row = page.getByTestId('peak-table').locator('tbody tr').filter({ hasText: '4.29' }).first();
+  await row.click();
+  const cols = await page.getByTestId('peak-table').locator('th').allTextContents();
+  const ai = cols.findIndex((c) => c.startsWith('Area ('));
+  const areaBefore = Number(await row.locator('td').nth(ai).textContent());
+  // Wait for the zoom to the peak and its start and end lines.
+  await expect.poll(async () => (await axisRange(page, 'xaxis'))[1]).toBeLessThan(6);
+  await expect.poll(() => page.evaluate(() => (document.querySelector('[data-testid="figure"]') as unknown as { _fullLayout: { shapes: unknown[] } })._fullLayout.shapes.length)).toBeGreaterThanOrEqual(4);
+  await page.waitForTimeout(300);
+  await page.locator('[data-testid="figure"]').scrollIntoViewIfNeeded();
+  // The end line is the last shape drawn; drag it left by a fifth of the plot.
+  const line = page.locator('[data-testid="figure"] .shapelayer path').last();
+  const lb = (await line.boundingBox())!;
+  const plotBox = (await page.locator('[data-testid="figure"] .nsewdrag').first().boundingBox())!;
+  const px = lb.x + lb.width / 2, y = lb.y + lb.height * 0.5;
+  await page.mouse.move(px + 10, y);
+  await page.mouse.move(px, y, { steps: 3 });
+  await page.mouse.down();
+  await page.mouse.move(px - plotBox.width * 0.1, y, { steps: 5 });
+  await page.mouse.move(px - plotBox.width * 0.2, y, { steps: 5 });
+  await page.mouse.up();
+  const marked = page.getByTestId('peak-table').locator('tbody tr').filter({ hasText: 'start and end set by hand' });
+  await expect(marked).toHaveCount(1);
+  const areaAfter = Number(await marked.locator('td').nth(ai).textContent());
+  expect(areaAfter).toBeLessThan(areaBefore);
 });

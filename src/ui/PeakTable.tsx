@@ -62,7 +62,7 @@ export function PeakTable() {
         <h2 id="peaks-title">Peaks</h2>
         <div className="row">
           <button type="button" aria-pressed={addPeakMode} onClick={() => setAddPeakMode(!addPeakMode)}>{addPeakMode ? 'Adding: click the trace' : 'Add a peak by clicking'}</button>
-          {(decisions.added.length > 0 || decisions.removed.length > 0) && <button type="button" className="link" onClick={clearDecisions}>undo all hand edits</button>}
+          {(decisions.added.length > 0 || decisions.removed.length > 0 || (decisions.bounds?.length ?? 0) > 0) && <button type="button" className="link" onClick={clearDecisions}>undo all hand edits</button>}
         </div>
       </div>
       {result.peakProblem && <p className="step-problem" role="alert">{result.peakProblem}</p>}
@@ -138,7 +138,7 @@ export function PeakTable() {
                   {p.removedByUser ? (
                     <>removed by hand <button type="button" className="link" onClick={(e) => { e.stopPropagation(); restorePeakAt(p.x, Math.max(p.fwhm, 1e-12)); }}>restore</button></>
                   ) : (
-                    <>{p.origin === 'added-by-user' ? 'added by hand ' : ''}<button type="button" className="link danger" onClick={(e) => { e.stopPropagation(); removePeakAt(p.origin === 'added-by-user' ? decisions.added.reduce((best, a) => (Math.abs(a - p.x) < Math.abs(best - p.x) ? a : best), decisions.added[0]) : p.x); }} aria-label={`Remove peak ${i + 1}`}>remove</button></>
+                    <>{p.origin === 'added-by-user' ? 'added by hand ' : ''}{p.boundsByUser ? 'start and end set by hand ' : ''}<button type="button" className="link danger" onClick={(e) => { e.stopPropagation(); removePeakAt(p.origin === 'added-by-user' ? decisions.added.reduce((best, a) => (Math.abs(a - p.x) < Math.abs(best - p.x) ? a : best), decisions.added[0]) : p.x); }} aria-label={`Remove peak ${i + 1}`}>remove</button></>
                   )}
                 </td>
               </tr>

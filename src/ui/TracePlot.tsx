@@ -43,6 +43,8 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const selectedX = useApp((s) => s.selectedPeakX);
   const yFits = useApp((s) => s.yFitsView);
   const [boxRef, width] = useWidth();
+  /** Which shapes are the selected peak's start and end (issue 17), for dragging. */
+  const boundShapes = useRef<{ start: number; end: number; peak: { x: number; start: number; end: number } } | null>(null);
 
   const data = useMemo<PlotData[]>(() => {
     if (!sample) return [];
@@ -146,15 +148,18 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
     const yTitle = sample ? axisLabel(sample.yName, sample.yUnit) : 'y';
     const shapes: Record<string, unknown>[] = marked ? [{ type: 'rect', xref: 'x', yref: 'paper', x0: marked[0], x1: marked[1], y0: 0, y1: 1, fillcolor: 'rgba(0,158,115,0.10)', line: { width: 0 } }] : [];
     const pk = selectedX === null ? undefined : result?.peaks.find((p) => Math.abs(p.x - selectedX) < 1e-12);
+    boundShapes.current = null;
     if (pk) {
       // The peak's own local baseline between its bounds, and its half-height width measured above that line.
       const base = (v: number) => (pk.end === pk.start ? pk.baselineStart : pk.baselineStart + ((pk.baselineEnd - pk.baselineStart) * (v - pk.start)) / (pk.end - pk.start));
       shapes.push(
         { type: 'line', xref: 'x', yref: 'y', x0: pk.start, x1: pk.end, y0: pk.baselineStart, y1: pk.baselineEnd, line: { color: COLOURS.peak, width: 2, dash: 'dash' } },
         { type: 'line', xref: 'x', yref: 'y', x0: pk.leftHalf, x1: pk.rightHalf, y0: base(pk.leftHalf) + pk.height / 2, y1: base(pk.rightHalf) + pk.height / 2, line: { color: COLOURS.peak, width: 2 } },
-        { type: 'line', xref: 'x', yref: 'paper', x0: pk.start, x1: pk.start, y0: 0.3, y1: 1, line: { color: COLOURS.peak, width: 1, dash: 'dot' } },
-        { type: 'line', xref: 'x', yref: 'paper', x0: pk.end, x1: pk.end, y0: 0.3, y1: 1, line: { color: COLOURS.peak, width: 1, dash: 'dot' } },
+        // Issue 17: start and end can be dragged; the new ones are kept as a decision (setPeakBounds).
+        { type: 'line', xref: 'x', yref: 'paper', x0: pk.start, x1: pk.start, y0: 0.3, y1: 1, line: { color: COLOURS.peak, width: 3, dash: 'dot' }, name: 'start' },
+        { type: 'line', xref: 'x', yref: 'paper', x0: pk.end, x1: pk.end, y0: 0.3, y1: 1, line: { color: COLOURS.peak, width: 3, dash: 'dot' }, name: 'end' },
       );
+      boundShapes.current = { start: shapes.length - 2, end: shapes.length - 1, peak: pk };
     }
     return {
       autosize: true,
@@ -178,6 +183,12 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   }, [sample, xRange, markMode, marked, selectedX, result, yView]);
 
   const onXRange = useCallback((r: [number, number] | null) => setXRange(r), [setXRange]);
+  const onShapeX = useCallback((index: number, x0: number) => {
+    const b = boundShapes.current;
+    if (!b || (index !== b.start && index !== b.end)) return;
+    const start = index === b.start ? x0 : b.peak.start, end = index === b.end ? x0 : b.peak.end;
+    useApp.getState().setPeakBounds(b.peak.x, start, end);
+  }, []);
   const onSelectX = useCallback((r: [number, number]) => setMarked(r), [setMarked]);
 
   const onDrawn = useCallback((problem: string | null) => { if (problem) markDrawFailed(`the plot: ${problem}`); else markDrawn(); }, []);
@@ -187,7 +198,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   }
   return (
     <div ref={boxRef} className="plot-box">
-      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onReady={onFigure} onDrawn={onDrawn} pictureName={`${sample.source.fileName.replace(/\.[^.]*$/, '')}-plot`} drawnTag={String(result ? resultSeq : 0)} />
+      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onShapeX={onShapeX} dragShapes={selectedX !== null} onReady={onFigure} onDrawn={onDrawn} pictureName={`${sample.source.fileName.replace(/\.[^.]*$/, '')}-plot`} drawnTag={String(result ? resultSeq : 0)} />
     </div>
   );
 }

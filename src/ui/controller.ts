@@ -33,6 +33,9 @@ function describeLoad(result: Extract<LoadResult, { ok: true }>): string[] {
   return lines;
 }
 
+/** Counts demo loads and opened files; a demo load stops when the count moves on (issue 17). */
+let demoRun = 0;
+
 /** What notices offer to do, by key (functions stay out of the store). */
 const noticeActions = new Map<string, () => void>();
 let actionCount = 0;
@@ -50,6 +53,8 @@ interface LoadBytesOptions {
   quiet?: boolean;
   /** How numbers are written, when the user said so. */
   numberFormat?: LoadOptions['numberFormat'];
+  /** Checked when the file has been read: false drops it (a demo file overtaken by the user's own file). */
+  stillWanted?: () => boolean;
   /** Read the file again (for a second try with what the user said); absent for the demo. */
   reread?: () => Promise<Uint8Array>;
 }
@@ -83,6 +88,7 @@ export async function loadBytes(bytes: Uint8Array, fileName: string, opts: LoadB
       useApp.getState().notify('error', `${e.fileName}${e.line ? `, line ${e.line}` : ''}: ${e.problem}`, [e.advice, 'Nothing already loaded was changed.'], action);
       return false;
     }
+    if (opts.stillWanted && !opts.stillWanted()) return false;
     useApp.getState().addTraces(result.traces, result.report, { roles: opts.roles, replace: opts.replace });
     if (!opts.quiet) {
       const n = result.traces.length;
@@ -111,6 +117,8 @@ export function isDemoTrace(t: { source: { fileName: string } }): boolean {
  * notice offers to undo.
  */
 export async function openFiles(files: readonly File[]): Promise<void> {
+  // The user's own files win over a demo still arriving: its remaining files are not loaded.
+  demoRun += 1;
   const before = useApp.getState();
   const rolesBefore = { ...before.roles };
   const sampleBefore = before.sampleId;
@@ -169,12 +177,18 @@ export const DEMO_FILES = [
 export async function loadDemo(): Promise<void> {
   const base = new URL('demo/', document.baseURI);
   let first = true;
+  const run = ++demoRun;
   for (const d of DEMO_FILES) {
+    if (run !== demoRun) {
+      useApp.getState().notify('info', 'The rest of the demo was not loaded', ['A file of your own was opened while the demo was arriving; the demo files already loaded are set aside.']);
+      return;
+    }
     try {
       const res = await fetch(new URL(d.file, base));
       if (!res.ok) throw new Error(`HTTP ${res.status}`);
       const bytes = new Uint8Array(await res.arrayBuffer());
-      await loadBytes(bytes, d.file, { roles: [d.role], replace: first, quiet: true });
+      // A file of the user's opened while this one was read wins: this one is dropped (it could replace the user's).
+      await loadBytes(bytes, d.file, { roles: [d.role], replace: first, quiet: true, stillWanted: () => run === demoRun });
       first = false;
     } catch (e) {
       useApp.getState().notify('error', `The demo file ${d.file} could not be fetched`, [(e as Error).message]);
