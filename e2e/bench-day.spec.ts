@@ -266,3 +266,18 @@ test('dragging a selected peak’s end changes its area and is kept as a decisio
   const areaAfter = Number(await marked.locator('td').nth(ai).textContent());
   expect(areaAfter).toBeLessThan(areaBefore);
 });
+
+test('the trim step keeps the marked x-range only', async ({ page }) => {
+  await demoListed(page);
+  await page.selectOption('#add-step-choice', 'trim');
+  await page.getByRole('button', { name: 'Add step' }).click();
+  const card = page.getByTestId('step-trim');
+  await expect(card).toContainText('No x-range chosen yet');
+  await page.getByRole('button', { name: 'Mark a range' }).click();
+  await page.locator('[data-testid="figure"]').scrollIntoViewIfNeeded();
+  await dragZoom(page, 0.3, 0.6);
+  await card.getByRole('button', { name: 'Add the marked x-range' }).click();
+  await expect(card).toContainText(/Kept \d+ of 1201 points/);
+  const marked = await page.evaluate(() => (document.querySelector('[data-testid="figure"]') as unknown as { _fullLayout: { shapes: { x0: number; x1: number }[] } })._fullLayout.shapes[0]);
+  await expect.poll(async () => { const p = await trace(page, 'processed'); return p ? [Math.min(...p.x) >= Math.min(marked.x0, marked.x1) - 1e-9, Math.max(...p.x) <= Math.max(marked.x0, marked.x1) + 1e-9] : null; }).toEqual([true, true]);
+});
