@@ -145,6 +145,8 @@ test('3000 columns: 200 traces load with a notice, the trace list draws only wha
   test.setTimeout(120_000);
   const { wideCsv } = await import('../test/fixtures/hostile/make-hostile.mjs');
   await openWithDemo(page);
+  // All ten demo traces first: a file opened while the demo arrives stops the rest of it (issue 17).
+  await expect(page.locator('.notice').filter({ hasText: 'Demo loaded' })).toBeVisible({ timeout: 20_000 });
   await page.getByTestId('file-input').setInputFiles({ name: 'wide-3000.csv', mimeType: 'text/csv', buffer: Buffer.from(wideCsv(3000, 12)) });
   const notice = page.locator('.notice').filter({ hasText: 'wide-3000.csv' }).first();
   await expect(notice).toContainText('The file has 3,000 columns of numbers besides x; only the first 200', { timeout: 60_000 });

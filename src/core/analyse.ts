@@ -198,7 +198,7 @@ function measurePeaks(measured: Signal, raw: Signal, noiseSettings: NoiseSetting
   };
   try {
     let peaks = detectPeaks(measured.x, measured.y, peakOptions);
-    if (decisions && (decisions.added.length || decisions.removed.length)) peaks = applyPeakDecisions(peaks, decisions, measured.x, measured.y, peakOptions);
+    if (decisions && (decisions.added.length || decisions.removed.length || decisions.bounds?.length)) peaks = /* issue 17: bounds */ applyPeakDecisions(peaks, decisions, measured.x, measured.y, peakOptions);
     return { noise, peaks, peakOptions };
   } catch (e) {
     return { noise, peaks: [], peakOptions, peakProblem: (e as Error).message };

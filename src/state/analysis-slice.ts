@@ -17,6 +17,8 @@ export interface AnalysisSlice {
   removePeakAt: (x: number) => void;
   restorePeakAt: (x: number, tolerance: number) => void;
   clearDecisions: () => void;
+  /** Set the start and end of the peak at x by hand (issue 17); kept as a decision like added and removed peaks. */
+  setPeakBounds: (x: number, start: number, end: number) => void;
   setAddPeakMode: (v: boolean) => void;
   selectPeak: (x: number | null) => void;
   /** Other stacks kept beside the current one for the loss check. */
@@ -48,6 +50,9 @@ export const createAnalysisSlice: StateCreator<AppState, [], [], AnalysisSlice> 
   })),
   restorePeakAt: (x, tol) => set((s) => ({ decisions: { ...s.decisions, removed: s.decisions.removed.filter((r) => Math.abs(r - x) > tol) } })),
   clearDecisions: () => set({ decisions: { added: [], removed: [] } }),
+  setPeakBounds: (x, start, end) => set((s) => ({
+    decisions: { ...s.decisions, bounds: [...(s.decisions.bounds ?? []).filter((b) => b.x !== x), { x, start: Math.min(start, end), end: Math.max(start, end) }] },
+  })),
   setAddPeakMode: (addPeakMode) => set({ addPeakMode, markMode: false }),
   selectPeak: (selectedPeakX) => set({ selectedPeakX }),
   alternatives: [],

@@ -24,7 +24,11 @@ export interface InputsSlice {
   addTraces: (traces: Trace[], report: LoadReport, opts?: { replace?: boolean; roles?: TraceRole[] }) => void;
   setRole: (id: string, role: TraceRole) => void;
   setSample: (id: string) => void;
+  /** Give several traces roles in one change (one step for the user, one analysis); a trace given 'sample' becomes the one processed. */
+  setRoles: (changes: Record<string, TraceRole>, sampleId?: string | null) => void;
   removeTrace: (id: string) => void;
+  /** Name the axes of a trace and their units (issue 17): the trace is replaced by one with the same id, data and source. */
+  setAxisNames: (id: string, names: { xName: string; xUnit: string; yName: string; yUnit: string }) => void;
   notify: (kind: NoticeKind, title: string, lines?: string[], action?: Notice['action']) => void;
   dismissNotice: (id: number) => void;
   setLoading: (l: { fileName: string; fraction: number } | null) => void;
@@ -72,6 +76,22 @@ export const createInputsSlice: StateCreator<AppState, [], [], InputsSlice> = (s
     roles[id] = 'sample';
     return { roles, sampleId: id };
   }),
+  setRoles: (changes, sampleIdIn) => set((s) => {
+    const roles = { ...s.roles, ...changes };
+    let sampleId = sampleIdIn === undefined ? s.sampleId : sampleIdIn;
+    const newSample = Object.keys(changes).find((id) => changes[id] === 'sample');
+    if (newSample && sampleIdIn === undefined) sampleId = newSample;
+    if (sampleId && roles[sampleId] !== 'sample') sampleId = null;
+    // Only one sample and one blank at a time: the others are set aside.
+    for (const t of s.traces) if (t.id !== sampleId && roles[t.id] === 'sample') roles[t.id] = 'ignore';
+    const blanks = s.traces.filter((t) => roles[t.id] === 'blank');
+    const keepBlank = blanks.find((t) => changes[t.id] === 'blank') ?? blanks[0];
+    for (const t of blanks) if (t !== keepBlank) roles[t.id] = 'ignore';
+    return { roles, sampleId };
+  }),
+  setAxisNames: (id, names) => set((s) => ({
+    traces: s.traces.map((t) => (t.id === id ? Object.freeze({ ...t, ...names }) : t)),
+  })),
   removeTrace: (id) => set((s) => {
     const roles = { ...s.roles };
     delete roles[id];

@@ -16,6 +16,16 @@ export interface ViewSlice {
   markedRange: [number, number] | null;
   setMarkMode: (v: boolean) => void;
   setMarkedRange: (r: [number, number] | null) => void;
+  /** Each trace's own zoom (x-range), kept while another trace is shown (issue 17). */
+  zooms: Record<string, [number, number]>;
+  /** Keep the x-range of the trace being left and take up the zoom of the one shown next (full range when it has none). */
+  switchZoom: (fromId: string | null, toId: string | null) => void;
+  /** When on (the default), a zoom in x rescales y to the data in view; off keeps y where the user put it. */
+  yFitsView: boolean;
+  setYFitsView: (v: boolean) => void;
+  /** What became of the last peak added by hand (issue 17), said under the plot. */
+  handNote: { kind: 'added' | 'refused'; text: string } | null;
+  setHandNote: (n: { kind: 'added' | 'refused'; text: string } | null) => void;
 }
 
 export const createViewSlice: StateCreator<AppState, [], [], ViewSlice> = (set) => ({
@@ -29,4 +39,14 @@ export const createViewSlice: StateCreator<AppState, [], [], ViewSlice> = (set) 
   markedRange: null,
   setMarkMode: (markMode) => set({ markMode, addPeakMode: false }),
   setMarkedRange: (markedRange) => set({ markedRange }),
+  zooms: {},
+  switchZoom: (fromId, toId) => set((s) => {
+    const zooms = { ...s.zooms };
+    if (fromId) { if (s.xRange) zooms[fromId] = s.xRange; else delete zooms[fromId]; }
+    return { zooms, xRange: toId ? zooms[toId] ?? null : null };
+  }),
+  yFitsView: true,
+  setYFitsView: (yFitsView) => set({ yFitsView }),
+  handNote: null,
+  setHandNote: (handNote) => set({ handNote }),
 });

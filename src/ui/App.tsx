@@ -14,18 +14,24 @@ import { ResidualPanel } from './ResidualPanel.tsx';
 import { StepStack } from './StepStack.tsx';
 import { TraceList } from './TraceList.tsx';
 import { TracePlot } from './TracePlot.tsx';
+import { CursorReadout } from './CursorReadout.tsx';
+import { AxisNames } from './AxisNames.tsx';
 
 export function App() {
   const fileInput = useRef<HTMLInputElement>(null);
   const [dragging, setDragging] = useState(false);
+  const [editAxes, setEditAxes] = useState(false);
   const busy = useApp((s) => s.busy);
   const markMode = useApp((s) => s.markMode);
   const marked = useApp((s) => s.markedRange);
   const showRaw = useApp((s) => s.showRaw);
+  const yFits = useApp((s) => s.yFitsView);
+  const handNote = useApp((s) => s.handNote);
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
-  const { setMarkMode, setShowRaw, setXRange, undo, redo } = useApp.getState();
+  const { setMarkMode, setShowRaw, setXRange, setYFitsView, setHandNote, undo, redo } = useApp.getState();
   const figure = useRef<HTMLElement | null>(null);
-  const onFigure = useCallback((el: HTMLElement | null) => { figure.current = el; }, []);
+  const [figureEl, setFigureEl] = useState<HTMLElement | null>(null);
+  const onFigure = useCallback((el: HTMLElement | null) => { figure.current = el; setFigureEl(el); }, []);
 
   useEffect(() => {
     const onKey = (e: KeyboardEvent) => {
@@ -92,14 +98,19 @@ export function App() {
               <h2 id="plot-title">{sample ? sample.name : 'Trace'}{busy ? <span className="busy" aria-label="computing"> ·</span> : null}</h2>
               <div className="row">
                 <label className="switch"><input type="checkbox" checked={showRaw} onChange={(e) => setShowRaw(e.target.checked)} /> raw</label>
+                <label className="switch" title="On: a zoom in x rescales y to the data in view. Off: y stays where you put it (drag a box to zoom both)."><input type="checkbox" checked={yFits} onChange={(e) => setYFitsView(e.target.checked)} data-testid="y-fits" /> y fits the zoom</label>
                 <button type="button" aria-pressed={markMode} onClick={() => setMarkMode(!markMode)}>{markMode ? 'Marking: drag across the plot' : 'Mark a range'}</button>
                 {marked && <span className="muted small">marked {marked[0].toPrecision(4)} – {marked[1].toPrecision(4)}</span>}
                 <button type="button" onClick={() => setXRange(null)}>Whole trace</button>
+                {sample && <button type="button" aria-expanded={editAxes} onClick={() => setEditAxes(!editAxes)}>Axis names and units…</button>}
               </div>
             </div>
+            {editAxes && sample && <AxisNames key={sample.id} trace={sample} onClose={() => setEditAxes(false)} />}
             <ErrorBoundary area="the plot" drawsSession actions={<button type="button" onClick={() => window.location.reload()}>Reload and choose whether to restore this session</button>}>
               <TracePlot onFigure={onFigure} />
             </ErrorBoundary>
+            {handNote && <p className={`small hand-note hand-${handNote.kind}`} role="status" data-testid="hand-note">{handNote.text} <button type="button" className="link" onClick={() => setHandNote(null)}>dismiss</button></p>}
+            <ErrorBoundary area="the cursor readout"><CursorReadout figure={figureEl} /></ErrorBoundary>
           </section>
           <ErrorBoundary area="the residual checks"><ResidualPanel /></ErrorBoundary>
           <ErrorBoundary area="the peak table"><PeakTable /></ErrorBoundary>

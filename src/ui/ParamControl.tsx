@@ -78,7 +78,8 @@ export function ParamControl({ spec, value, dx, xUnit, onChange }: Props) {
     setProblem(bad);
     if (!bad) onChange(v);
   };
-  const xWidth = spec.unit === 'points' && dx ? `${fmt(num * dx)} ${xUnit}` : null;
+  // Issue 17: the width in x always says its unit ("x-units" when the file gave none).
+  const xWidth = spec.unit === 'points' && dx ? `${fmt(num * dx)} ${xUnit || 'x-units'}` : null;
   return (
     <div className="param">
       <label className="param-label" htmlFor={id}>{spec.label}{spec.unit !== 'none' ? ` (${spec.unit})` : ''}</label>

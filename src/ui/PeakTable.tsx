@@ -53,16 +53,21 @@ export function PeakTable() {
   const def = result.peakOptions?.snrDefinition ?? 'rms';
   const xu = sample.xUnit ? ` (${sample.xUnit})` : '';
   const yu = sample.yUnit ? ` (${sample.yUnit})` : '';
+  // Issue 17: the area's unit is y-unit × x-unit.
+  const areaUnit = sample.yUnit || sample.xUnit ? ` (${sample.yUnit || 'y-units'}·${sample.xUnit || 'x-units'})` : '';
   const counts = { q: 0, d: 0, b: 0 };
   for (const p of all) if (!p.removedByUser) { if (p.flag === 'quantifiable') counts.q++; else if (p.flag === 'detectable') counts.d++; else counts.b++; }
   const lim = result.peakOptions?.limits;
+  // Issue 17: area % of the summed area of every kept peak (the CSV-wide total, not only the rows shown).
+  let totalArea = 0;
+  for (const p of all) if (!p.removedByUser) totalArea += p.area;
   return (
     <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq}>
       <div className="panel-head">
         <h2 id="peaks-title">Peaks</h2>
         <div className="row">
           <button type="button" aria-pressed={addPeakMode} onClick={() => setAddPeakMode(!addPeakMode)}>{addPeakMode ? 'Adding: click the trace' : 'Add a peak by clicking'}</button>
-          {(decisions.added.length > 0 || decisions.removed.length > 0) && <button type="button" className="link" onClick={clearDecisions}>undo all hand edits</button>}
+          {(decisions.added.length > 0 || decisions.removed.length > 0 || (decisions.bounds?.length ?? 0) > 0) && <button type="button" className="link" onClick={clearDecisions}>undo all hand edits</button>}
         </div>
       </div>
       {result.peakProblem && <p className="step-problem" role="alert">{result.peakProblem}</p>}
@@ -96,7 +101,8 @@ export function PeakTable() {
               <th scope="col">Height{yu}</th>
               <th scope="col">Prominence{yu}</th>
               <th scope="col">FWHM{xu}</th>
-              <th scope="col">Area</th>
+              <th scope="col">Area{areaUnit}</th>
+              <th scope="col" title="Each peak's area as a share of the summed area of every peak kept in the table (all rows, not only those shown; removed peaks left out)">Area %</th>
               <th scope="col">Bounds{xu}</th>
               <th scope="col">S/N ({def === 'rms' ? 'H/σ' : def === 'pharmacopoeial' ? '2H/h' : 'mean/SD'})</th>
               <th scope="col">Status and marks</th>
@@ -127,6 +133,7 @@ export function PeakTable() {
                 <td>{num(p.prominence)}</td>
                 <td>{num(p.fwhm)}</td>
                 <td>{num(p.area)}</td>
+                <td>{p.removedByUser || !(totalArea > 0) ? '—' : num((100 * p.area) / totalArea, 3)}</td>
                 <td title={`start: ${BOUND_TEXT[p.startKind]}; end: ${BOUND_TEXT[p.endKind]}${p.split !== 'none' ? `; shared valley split by ${SPLIT_TEXT[p.split]}` : ''}`}>{num(p.start, 4)} – {num(p.end, 4)}</td>
                 <td><strong>{num(p.snr, 3)}</strong></td>
                 <td className="marks" title={[...p.marks.map((m) => (m === 'also-in-blank' && p.blankHeight !== undefined ? `${MARK_TEXT[m]}; the blank's height there ${num(p.blankHeight)}` : MARK_TEXT[m])), p.note ?? ''].filter(Boolean).join('; ')}>
@@ -140,13 +147,13 @@ export function PeakTable() {
                   {p.removedByUser ? (
                     <>removed by hand <button type="button" className="link" onClick={(e) => { e.stopPropagation(); restorePeakAt(p.x, Math.max(p.fwhm, 1e-12)); }}>restore</button></>
                   ) : (
-                    <>{p.origin === 'added-by-user' ? 'added by hand ' : ''}<button type="button" className="link danger" onClick={(e) => { e.stopPropagation(); removePeakAt(p.origin === 'added-by-user' ? decisions.added.reduce((best, a) => (Math.abs(a - p.x) < Math.abs(best - p.x) ? a : best), decisions.added[0]) : p.x); }} aria-label={`Remove peak ${i + 1}`}>remove</button></>
+                    <>{p.origin === 'added-by-user' ? 'added by hand ' : ''}{p.boundsByUser ? 'start and end set by hand ' : ''}<button type="button" className="link danger" onClick={(e) => { e.stopPropagation(); removePeakAt(p.origin === 'added-by-user' ? decisions.added.reduce((best, a) => (Math.abs(a - p.x) < Math.abs(best - p.x) ? a : best), decisions.added[0]) : p.x); }} aria-label={`Remove peak ${i + 1}`}>remove</button></>
                   )}
                 </td>
                 {extras.cells(p, all.indexOf(p)).map((c, j) => <td key={`x${j}`}>{c}</td>)}
               </tr>
             ))}
-            {peaks.length === 0 && <tr><td colSpan={12} className="muted">No peaks pass the thresholds.</td></tr>}
+            {peaks.length === 0 && <tr><td colSpan={13} className="muted">No peaks pass the thresholds.</td></tr>}
           </tbody>
         </table>
       </div>

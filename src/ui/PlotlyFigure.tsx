@@ -8,6 +8,8 @@ export interface FigureEvents {
   onXRange?: (range: [number, number] | null) => void;
   onClickPoint?: (x: number, y: number, curve: number) => void;
   onSelectX?: (range: [number, number]) => void;
+  /** A shape the user dragged (issue 17: a peak's start or end): its index in layout.shapes and its new x0, in data units. */
+  onShapeX?: (index: number, x0: number) => void;
 }
 
 interface Props extends FigureEvents {
@@ -23,6 +25,8 @@ interface Props extends FigureEvents {
   testId?: string;
   /** File name (without extension) of a picture saved from the toolbar. */
   pictureName?: string;
+  /** Let the user drag the figure's shapes (issue 17: the selected peak's start and end); only onShapeX reads the result. */
+  dragShapes?: boolean;
   /** Set as the element's data-drawn attribute once Plotly has drawn this data (timing scripts wait for it). */
   drawnTag?: string;
 }
@@ -36,10 +40,10 @@ interface Props extends FigureEvents {
  * library fails, the figure says what failed in its place and the rest of
  * the page goes on.
  */
-export function PlotlyFigure({ data, layout, className, label, onXRange, onClickPoint, onSelectX, onReady, onDrawn, testId = 'figure', pictureName = 'tracewright-plot', drawnTag }: Props) {
+export function PlotlyFigure({ data, layout, className, label, onXRange, onClickPoint, onSelectX, onShapeX, dragShapes, onReady, onDrawn, testId = 'figure', pictureName = 'tracewright-plot', drawnTag }: Props) {
   const ref = useRef<HTMLDivElement>(null);
   const handlers = useRef<FigureEvents>({});
-  handlers.current = { onXRange, onClickPoint, onSelectX };
+  handlers.current = { onXRange, onClickPoint, onSelectX, onShapeX };
   const drawn = useRef(onDrawn);
   drawn.current = onDrawn;
   const bound = useRef(false);
@@ -64,7 +68,7 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
       drawn.current?.(message);
     };
     try {
-      Plotly.react(el, guarded.data, guarded.layout, plotConfig(pictureName))
+      Plotly.react(el, guarded.data, guarded.layout, dragShapes ? { ...plotConfig(pictureName), edits: { shapePosition: true } } : plotConfig(pictureName))
         .then((gd) => {
           if (cancelled) return;
           if (drawnTag !== undefined) el.setAttribute('data-drawn', drawnTag);
@@ -79,7 +83,7 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
       fail(e);
     }
     return () => { cancelled = true; };
-  }, [guarded, pictureName, attempt, drawnTag]);
+  }, [guarded, pictureName, attempt, drawnTag, dragShapes]);
 
   useEffect(() => {
     const el = ref.current;
@@ -117,6 +121,10 @@ function bindEvents(gd: PlotlyHTMLElement, handlers: { current: FigureEvents }, 
     const b = e['xaxis.range[1]'] ?? (Array.isArray(e['xaxis.range']) ? (e['xaxis.range'] as number[])[1] : undefined);
     if (typeof a === 'number' && typeof b === 'number') handlers.current.onXRange?.([x(a), x(b)]);
     else if (e['xaxis.autorange'] === true) handlers.current.onXRange?.(null);
+    for (const [k, v] of Object.entries(e)) {
+      const m = /^shapes\[(\d+)\]\.x0$/.exec(k);
+      if (m && typeof v === 'number') handlers.current.onShapeX?.(Number(m[1]), x(v));
+    }
   });
   gd.on('plotly_click', (ev) => {
     const pts = (ev as { points?: { x: number; y: number; curveNumber: number; yaxis?: { _id?: string } }[] }).points;

@@ -3,6 +3,7 @@ import { STEP_REGISTRY, stepDefinition } from '../core/steps/registry.ts';
 import { meanStep } from '../core/numeric/interpolate.ts';
 import { useApp } from '../state/store.ts';
 import { ParamControl } from './ParamControl.tsx';
+import { stepFigureText } from './step-figures.ts';
 import { windowVariants } from './alternatives.ts';
 import { StepExtras } from './StepExtras.tsx';
 import { ScanAlignment } from './steps/ScanAlignment.tsx';
@@ -100,7 +101,7 @@ export function StepStack() {
                 <div className="step-notes">
                   {run.notes.map((n, k) => <p key={k}>{n}</p>)}
                   {run.figures && Object.keys(run.figures).length > 0 && (
-                    <p className="figures">{Object.entries(run.figures).map(([k, v]) => `${k} ${Number.isFinite(v) ? Number(v.toPrecision(4)) : v}`).join(' · ')}</p>
+                    <p className="figures">{Object.entries(run.figures).map(([k, v]) => stepFigureText(k, v, sample?.yUnit ?? '')).join(' · ')}</p>
                   )}
                   {run.events && run.events.length > 0 && (
                     <details className="events" open={run.events.length <= 5}>

@@ -19,39 +19,73 @@ const VIEW = 330;
 /** Rows drawn beyond the window at each end, so scrolling shows no gap. */
 const SPARE = 6;
 
+/** Above this many traces the list offers a filter box and roles for every trace shown. */
+const FILTER_FROM = 6;
+
+/** The name a trace goes by in the list: its own column name when its file gave several traces, else its full name. */
+function shortName(t: Trace, several: boolean): string {
+  const prefix = `${t.source.fileName}: `;
+  return several && t.name.startsWith(prefix) ? t.name.slice(prefix.length) : t.name;
+}
+
 /** Loaded traces and what each one is. Long lists draw only the rows in view. */
 export function TraceList() {
-  const traces = useApp((s) => s.traces);
+  const allTraces = useApp((s) => s.traces);
+  const sampleId = useApp((s) => s.sampleId);
   const [scrollTop, setScrollTop] = useState(0);
+  const [filter, setFilter] = useState('');
+  const perFile = new Map<string, number>();
+  for (const t of allTraces) perFile.set(`${t.source.fileName}\n${t.source.sha256}`, (perFile.get(`${t.source.fileName}\n${t.source.sha256}`) ?? 0) + 1);
+  const several = (t: Trace) => (perFile.get(`${t.source.fileName}\n${t.source.sha256}`) ?? 0) > 1;
+  const needle = filter.trim().toLowerCase();
+  const traces = needle ? allTraces.filter((t) => t.name.toLowerCase().includes(needle)) : allTraces;
   const virtual = traces.length > VIRTUAL_FROM;
   const first = virtual ? Math.max(0, Math.floor(scrollTop / ROW) - SPARE) : 0;
   const last = virtual ? Math.min(traces.length, Math.ceil((scrollTop + VIEW) / ROW) + SPARE) : traces.length;
+  const shownOthers = traces.filter((t) => t.id !== sampleId);
+  const setAll = (role: TraceRole) => {
+    const changes: Record<string, TraceRole> = {};
+    for (const t of shownOthers) changes[t.id] = role;
+    useApp.getState().setRoles(changes);
+  };
   return (
     <section className="panel" aria-labelledby="traces-title">
-      <h2 id="traces-title">Traces{traces.length > 0 ? <span className="muted small"> ({traces.length.toLocaleString('en')})</span> : null}</h2>
-      {traces.length === 0 && <p className="muted">Nothing loaded.</p>}
+      <h2 id="traces-title">Traces{allTraces.length > 0 ? <span className="muted small"> ({allTraces.length.toLocaleString('en')})</span> : null}</h2>
+      {allTraces.length === 0 && <p className="muted">Nothing loaded.</p>}
+      {allTraces.length > FILTER_FROM && (
+        <div className="trace-filter">
+          <label htmlFor="trace-filter" className="small">Show traces whose name contains</label>
+          <input id="trace-filter" type="search" value={filter} placeholder="part of a name" onChange={(e) => { setFilter(e.target.value); setScrollTop(0); }} data-testid="trace-filter" />
+          <div className="row small">
+            <span className="muted" data-testid="trace-filter-count">{needle ? `${traces.length} of ${allTraces.length} shown` : `all ${allTraces.length} shown`}</span>
+            <button type="button" className="link" disabled={shownOthers.length === 0} onClick={() => setAll('scan')}>all shown are repeated scans</button>
+            <button type="button" className="link" disabled={shownOthers.length === 0} onClick={() => setAll('ignore')}>set all shown aside</button>
+          </div>
+        </div>
+      )}
       <ul
         className={`trace-list${virtual ? ' trace-list-virtual' : ''}`}
         data-testid="trace-list"
         onScroll={virtual ? (e) => setScrollTop(e.currentTarget.scrollTop) : undefined}
       >
         {virtual && first > 0 && <li aria-hidden="true" style={{ height: first * ROW }} className="trace-spacer" />}
-        {traces.slice(first, last).map((t) => <TraceRow key={t.id} trace={t} virtual={virtual} />)}
+        {traces.slice(first, last).map((t) => <TraceRow key={t.id} trace={t} virtual={virtual} label={shortName(t, several(t))} fromFile={several(t) ? t.source.fileName : null} />)}
         {virtual && last < traces.length && <li aria-hidden="true" style={{ height: (traces.length - last) * ROW }} className="trace-spacer" />}
       </ul>
+      {needle && traces.length === 0 && <p className="muted small">No trace name contains “{filter.trim()}”.</p>}
     </section>
   );
 }
 
-function TraceRow({ trace: t, virtual }: { trace: Trace; virtual: boolean }) {
+function TraceRow({ trace: t, virtual, label, fromFile }: { trace: Trace; virtual: boolean; label: string; fromFile: string | null }) {
   const role = useApp((s) => s.roles[t.id]);
   const setRole = useApp((s) => s.setRole);
   const removeTrace = useApp((s) => s.removeTrace);
   return (
     <li className={`trace-item role-${role}`} style={virtual ? { height: ROW - 6 } : undefined}>
       <div className="trace-text">
-        <div className="trace-name" title={`${t.source.fileName}\nSHA-256 ${t.source.sha256}`}>{t.name}</div>
-        <div className="trace-meta">{t.x.length.toLocaleString('en')} points{t.source.rowsSkipped ? ` · ${t.source.rowsSkipped} rows skipped` : ''}</div>
+        <div className="trace-name" title={`${t.name}\nSHA-256 ${t.source.sha256}`}>{label}</div>
+        <div className="trace-meta">{fromFile ? `${fromFile} · ` : ''}{t.x.length.toLocaleString('en')} points{t.source.rowsSkipped ? ` · ${t.source.rowsSkipped} rows skipped` : ''}</div>
       </div>
       <div className="row trace-controls">
         <label className="sr-only" htmlFor={`role-${t.id}`}>Role of {t.name}</label>

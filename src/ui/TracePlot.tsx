@@ -10,6 +10,7 @@ import { MARK_TEXT } from '../core/export/peak-csv.ts';
 import { markDrawFailed, markDrawn } from './draw-health.ts';
 import { useNameOfPeak } from './calibration/derive.ts';
 import { pickNamedPeakAt } from './calibration/pick.ts';
+import { visibleYRange } from './plot-view.ts';
 
 /** Plot width in pixel columns used for decimation (two points per column). */
 function useWidth(): [React.RefObject<HTMLDivElement | null>, number] {
@@ -42,11 +43,12 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const setMarked = useApp((s) => s.setMarkedRange);
   const marked = useApp((s) => s.markedRange);
   const selectedX = useApp((s) => s.selectedPeakX);
-  const addPeakMode = useApp((s) => s.addPeakMode);
-  const addPeakAt = useApp((s) => s.addPeakAt);
+  const yFits = useApp((s) => s.yFitsView);
   const [boxRef, width] = useWidth();
   const names = useNameOfPeak(); // issue 21: named peaks carry their name
   const namePick = useApp((s) => s.namePickMode);
+  /** Which shapes are the selected peak's start and end (issue 17), for dragging. */
+  const boundShapes = useRef<{ start: number; end: number; peak: { x: number; start: number; end: number } } | null>(null);
 
   const data = useMemo<PlotData[]>(() => {
     if (!sample) return [];
@@ -139,20 +141,29 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
     return traces;
   }, [sample, result, xRange, showRaw, width, showAlt, altList, names]);
 
+  const yView = useMemo(() => {
+    if (!xRange || !yFits) return null;
+    const y = visibleYRange(data, xRange[0], xRange[1], 'y');
+    return y ? { y, y2: visibleYRange(data, xRange[0], xRange[1], 'y2') } : null;
+  }, [data, xRange, yFits]);
+
   const layout = useMemo<PlotLayout>(() => {
     const xTitle = sample ? axisLabel(sample.xName, sample.xUnit) : 'x';
     const yTitle = sample ? axisLabel(sample.yName, sample.yUnit) : 'y';
     const shapes: Record<string, unknown>[] = marked ? [{ type: 'rect', xref: 'x', yref: 'paper', x0: marked[0], x1: marked[1], y0: 0, y1: 1, fillcolor: 'rgba(0,158,115,0.10)', line: { width: 0 } }] : [];
     const pk = selectedX === null ? undefined : result?.peaks.find((p) => Math.abs(p.x - selectedX) < 1e-12);
+    boundShapes.current = null;
     if (pk) {
       // The peak's own local baseline between its bounds, and its half-height width measured above that line.
       const base = (v: number) => (pk.end === pk.start ? pk.baselineStart : pk.baselineStart + ((pk.baselineEnd - pk.baselineStart) * (v - pk.start)) / (pk.end - pk.start));
       shapes.push(
         { type: 'line', xref: 'x', yref: 'y', x0: pk.start, x1: pk.end, y0: pk.baselineStart, y1: pk.baselineEnd, line: { color: COLOURS.peak, width: 2, dash: 'dash' } },
         { type: 'line', xref: 'x', yref: 'y', x0: pk.leftHalf, x1: pk.rightHalf, y0: base(pk.leftHalf) + pk.height / 2, y1: base(pk.rightHalf) + pk.height / 2, line: { color: COLOURS.peak, width: 2 } },
-        { type: 'line', xref: 'x', yref: 'paper', x0: pk.start, x1: pk.start, y0: 0.3, y1: 1, line: { color: COLOURS.peak, width: 1, dash: 'dot' } },
-        { type: 'line', xref: 'x', yref: 'paper', x0: pk.end, x1: pk.end, y0: 0.3, y1: 1, line: { color: COLOURS.peak, width: 1, dash: 'dot' } },
+        // Issue 17: start and end can be dragged; the new ones are kept as a decision (setPeakBounds).
+        { type: 'line', xref: 'x', yref: 'paper', x0: pk.start, x1: pk.start, y0: 0.3, y1: 1, line: { color: COLOURS.peak, width: 3, dash: 'dot' }, name: 'start' },
+        { type: 'line', xref: 'x', yref: 'paper', x0: pk.end, x1: pk.end, y0: 0.3, y1: 1, line: { color: COLOURS.peak, width: 3, dash: 'dot' }, name: 'end' },
       );
+      boundShapes.current = { start: shapes.length - 2, end: shapes.length - 1, peak: pk };
     }
     return {
       autosize: true,
@@ -164,19 +175,27 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       selectdirection: 'h',
       hovermode: 'closest',
       xaxis: { title: { text: xTitle }, anchor: 'y2', range: xRange ?? undefined, autorange: xRange ? false : true, gridcolor: COLOURS.grid, zeroline: false },
-      yaxis: { title: { text: yTitle }, domain: [0.3, 1], gridcolor: COLOURS.grid, zeroline: false },
-      yaxis2: { title: { text: 'residual' }, domain: [0, 0.22], gridcolor: COLOURS.grid, zeroline: true, zerolinecolor: '#b0b6bd' },
+      // Issue 17: zoomed in x, y fits the data in view (unless the user keeps y where they put it).
+      yaxis: { title: { text: yTitle }, domain: [0.3, 1], gridcolor: COLOURS.grid, zeroline: false, ...(yView ? { range: yView.y, autorange: false } : { autorange: true }) },
+      yaxis2: { title: { text: sample?.yUnit ? `residual (${sample.yUnit})` : 'residual' }, domain: [0, 0.22], gridcolor: COLOURS.grid, zeroline: true, zerolinecolor: '#b0b6bd', ...(yView?.y2 ? { range: yView.y2, autorange: false } : { autorange: true }) },
       shapes,
       uirevision: sample?.id ?? 'none',
       paper_bgcolor: '#ffffff',
       plot_bgcolor: '#ffffff',
       font: { family: 'system-ui, sans-serif', size: 12, color: COLOURS.ink },
     };
-  }, [sample, xRange, markMode, marked, selectedX, result]);
+  }, [sample, xRange, markMode, marked, selectedX, result, yView]);
 
   const onXRange = useCallback((r: [number, number] | null) => setXRange(r), [setXRange]);
+  const onShapeX = useCallback((index: number, x0: number) => {
+    const b = boundShapes.current;
+    if (!b || (index !== b.start && index !== b.end)) return;
+    const start = index === b.start ? x0 : b.peak.start, end = index === b.end ? x0 : b.peak.end;
+    useApp.getState().setPeakBounds(b.peak.x, start, end);
+  }, []);
   const onSelectX = useCallback((r: [number, number]) => setMarked(r), [setMarked]);
-  const onClickPoint = useCallback((x: number) => { if (namePick) pickNamedPeakAt(x); else if (addPeakMode) addPeakAt(x); }, [addPeakMode, addPeakAt, namePick]);
+  // Issue 21: a click names a peak while naming is on (clicks to add peaks go through the cursor readout, issue 17).
+  const onClickPoint = useCallback((x: number) => { if (namePick) pickNamedPeakAt(x); }, [namePick]);
   const onDrawn = useCallback((problem: string | null) => { if (problem) markDrawFailed(`the plot: ${problem}`); else markDrawn(); }, []);
 
   if (!sample) {
@@ -184,7 +203,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   }
   return (
     <div ref={boxRef} className="plot-box">
-      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onReady={onFigure} onDrawn={onDrawn} pictureName={`${sample.source.fileName.replace(/\.[^.]*$/, '')}-plot`} drawnTag={String(result ? resultSeq : 0)} />
+      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onShapeX={onShapeX} dragShapes={selectedX !== null} onReady={onFigure} onDrawn={onDrawn} pictureName={`${sample.source.fileName.replace(/\.[^.]*$/, '')}-plot`} drawnTag={String(result ? resultSeq : 0)} />
     </div>
   );
 }

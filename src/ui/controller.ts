@@ -7,6 +7,7 @@ import type { AnalyseRequest, AnalyseResult } from '../core/analyse.ts';
 import { MAX_FILE_BYTES, type LoadOptions, type LoadResult } from '../core/io/types.ts';
 import type { TraceRole } from '../core/trace.ts';
 import { useApp } from '../state/store.ts';
+import { SNAP_POINTS, snapHandPeak } from '../core/measure/hand-peak.ts';
 import { inProcessBackend, LatestOnly, workerBackend, type ComputeBackend } from '../worker/bridge.ts';
 
 let backend: ComputeBackend | null = null;
@@ -38,6 +39,9 @@ function describeLoad(result: Extract<LoadResult, { ok: true }>): string[] {
   return lines;
 }
 
+/** Counts demo loads and opened files; a demo load stops when the count moves on (issue 17). */
+let demoRun = 0;
+
 /** What notices offer to do, by key (functions stay out of the store). */
 const noticeActions = new Map<string, () => void>();
 let actionCount = 0;
@@ -55,6 +59,8 @@ interface LoadBytesOptions {
   quiet?: boolean;
   /** How numbers are written, when the user said so. */
   numberFormat?: LoadOptions['numberFormat'];
+  /** Checked when the file has been read: false drops it (a demo file overtaken by the user's own file). */
+  stillWanted?: () => boolean;
   /** Read the file again (for a second try with what the user said); absent for the demo. */
   reread?: () => Promise<Uint8Array>;
 }
@@ -88,11 +94,13 @@ export async function loadBytes(bytes: Uint8Array, fileName: string, opts: LoadB
       useApp.getState().notify('error', `${e.fileName}${e.line ? `, line ${e.line}` : ''}: ${e.problem}`, [e.advice, 'Nothing already loaded was changed.'], action);
       return false;
     }
+    if (opts.stillWanted && !opts.stillWanted()) return false;
     useApp.getState().addTraces(result.traces, result.report, { roles: opts.roles, replace: opts.replace });
     if (!opts.quiet) {
       const n = result.traces.length;
-      const names = n <= 4 ? result.traces.map((t) => t.name).join(', ') : `${n} traces from ${fileName} (${result.traces[0].name} … ${result.traces[n - 1].name})`;
-      useApp.getState().notify(result.report.skipped.length ? 'warning' : 'info', `Loaded ${names}`, describeLoad(result));
+      // The title names the file and the count; the traces themselves are in the trace list (60 names in a title help nobody).
+      const title = n === 1 ? `Loaded ${result.traces[0].name}` : `Loaded ${fileName}: ${n.toLocaleString('en')} traces`;
+      useApp.getState().notify(result.report.skipped.length ? 'warning' : 'info', title, describeLoad(result));
     }
     return true;
   } catch (e) {
@@ -103,8 +111,26 @@ export async function loadBytes(bytes: Uint8Array, fileName: string, opts: LoadB
   }
 }
 
-/** Load files the user dropped or picked. */
+/** True for a trace of the invented demo run (by its file name). */
+export function isDemoTrace(t: { source: { fileName: string } }): boolean {
+  return DEMO_FILES.some((d) => d.file === t.source.fileName);
+}
+
+/**
+ * Load files the user dropped or picked. The first file that loads gives the
+ * sample (its first trace); later files are loaded set aside, and a notice says
+ * so. The user's own file sets the whole demo aside in one change, which the
+ * notice offers to undo.
+ */
 export async function openFiles(files: readonly File[]): Promise<void> {
+  // The user's own files win over a demo still arriving: its remaining files are not loaded.
+  demoRun += 1;
+  const before = useApp.getState();
+  const rolesBefore = { ...before.roles };
+  const sampleBefore = before.sampleId;
+  const demoInUse = before.traces.filter((t) => isDemoTrace(t) && before.roles[t.id] !== 'ignore').map((t) => t.id);
+  let sampleFile: string | null = null;
+  const laterFiles: string[] = [];
   for (const f of files) {
     if (f.size > MAX_FILE_BYTES) {
       useApp.getState().notify('error', `${f.name}: the file is too large (${(f.size / 1048576).toFixed(0)} MB)`, [`The page holds files up to ${MAX_FILE_BYTES / 1048576} MB. Nothing already loaded was changed.`]);
@@ -117,7 +143,33 @@ export async function openFiles(files: readonly File[]): Promise<void> {
       useApp.getState().notify('error', `${f.name}: the browser could not read the file`, [(e as Error).message]);
       continue;
     }
-    await loadBytes(bytes, f.name, { reread: () => f.arrayBuffer().then((b) => new Uint8Array(b)) });
+    const ok = await loadBytes(bytes, f.name, { roles: sampleFile ? ['ignore'] : undefined, reread: () => f.arrayBuffer().then((b) => new Uint8Array(b)) });
+    if (ok) { if (sampleFile === null) sampleFile = f.name; else laterFiles.push(f.name); }
+  }
+  if (sampleFile === null) return;
+  const app = useApp.getState();
+  if (laterFiles.length) {
+    app.notify('info', `Opened ${laterFiles.length + 1} files: ${sampleFile} is the sample`, [
+      `The first file opened gives the sample. ${laterFiles.join(', ')} ${laterFiles.length === 1 ? 'is' : 'are'} loaded and set aside: choose another sample, a blank or repeated scans in the trace list.`,
+    ]);
+  }
+  if (demoInUse.length) {
+    const aside: Record<string, TraceRole> = {};
+    for (const id of demoInUse) if (app.roles[id] !== undefined) aside[id] = 'ignore';
+    app.setRoles(aside);
+    const newIds = app.traces.filter((t) => !(t.id in rolesBefore)).map((t) => t.id);
+    const key = `demo-back-${++actionCount}`;
+    noticeActions.set(key, () => {
+      const s = useApp.getState();
+      const back: Record<string, TraceRole> = {};
+      for (const [id, role] of Object.entries(rolesBefore)) if (s.roles[id] !== undefined) back[id] = role;
+      for (const id of newIds) if (s.roles[id] !== undefined) back[id] = 'ignore';
+      s.setRoles(back, sampleBefore && s.roles[sampleBefore] !== undefined ? sampleBefore : null);
+      s.notify('info', 'The demo is back as it was', ['Its sample, blank and scans have their roles again; your file stays loaded, set aside.']);
+    });
+    app.notify('info', `The demo is set aside: ${demoInUse.length} trace${demoInUse.length === 1 ? '' : 's'} (its sample, blank and repeated scans)`, [
+      'They stay loaded with the role “set aside”, so nothing of the demo is subtracted from your trace or averaged with it. Give any of them a role again in the trace list, or undo this in one step.',
+    ], { label: 'Undo: put the demo back', key });
   }
 }
 
@@ -131,12 +183,18 @@ export const DEMO_FILES = [
 export async function loadDemo(): Promise<void> {
   const base = new URL('demo/', document.baseURI);
   let first = true;
+  const run = ++demoRun;
   for (const d of DEMO_FILES) {
+    if (run !== demoRun) {
+      useApp.getState().notify('info', 'The rest of the demo was not loaded', ['A file of your own was opened while the demo was arriving; the demo files already loaded are set aside.']);
+      return;
+    }
     try {
       const res = await fetch(new URL(d.file, base));
       if (!res.ok) throw new Error(`HTTP ${res.status}`);
       const bytes = new Uint8Array(await res.arrayBuffer());
-      await loadBytes(bytes, d.file, { roles: [d.role], replace: first, quiet: true });
+      // A file of the user's opened while this one was read wins: this one is dropped (it could replace the user's).
+      await loadBytes(bytes, d.file, { roles: [d.role], replace: first, quiet: true, stillWanted: () => run === demoRun });
       first = false;
     } catch (e) {
       useApp.getState().notify('error', `The demo file ${d.file} could not be fetched`, [(e as Error).message]);
@@ -191,6 +249,8 @@ export function requestAnalysis(): void {
 export function startController(): () => void {
   let lastTraces = useApp.getState().traces;
   const unsub = useApp.subscribe((s, prev) => {
+    // Issue 17: each trace keeps its own zoom; a trace not zoomed before opens at full range.
+    if (s.sampleId !== prev.sampleId) s.switchZoom(prev.sampleId, s.sampleId);
     if (s.traces !== lastTraces) {
       lastTraces = s.traces;
       getBackend().setInputs(s.traces);
@@ -207,4 +267,23 @@ export function cancelLoad(): void {
   backend?.cancelLoad();
   useApp.getState().setLoading(null);
   useApp.getState().notify('warning', 'Loading cancelled', ['Nothing already loaded was changed.']);
+}
+
+/**
+ * Issue 17: a click in "add a peak" mode. The click moves to the nearest top
+ * of the trace the peaks are measured on (within SNAP_POINTS samples) and is
+ * kept as a decision there, or is refused; either way the plot says so.
+ */
+export function addPeakByHand(at: number): void {
+  const s = useApp.getState();
+  const sample = s.traces.find((t) => t.id === s.sampleId);
+  const result = s.result && s.result.sampleId === s.sampleId ? s.result : null;
+  if (!sample || !result) { s.setHandNote({ kind: 'refused', text: 'The trace is still being measured; click again when the peak table shows.' }); return; }
+  const on = s.peakSettings.measureOn === 'raw' ? { x: sample.x, y: sample.y } : result.processed;
+  const taken = result.peaks.filter((p) => !p.removedByUser).map((p) => p.x);
+  const place = snapHandPeak(on.x, on.y, at, { negative: s.peakSettings.negative, taken, xUnit: sample.xUnit });
+  if (!place.ok) { s.setHandNote({ kind: 'refused', text: `Peak not added: ${place.reason}` }); return; }
+  s.addPeakAt(place.x);
+  const u = sample.xUnit ? ` ${sample.xUnit}` : '';
+  s.setHandNote({ kind: 'added', text: `Peak added at the ${s.peakSettings.negative ? 'bottom' : 'top'} x = ${Number(place.x.toPrecision(6))}${u}${place.moved ? ` (the click at ${Number(at.toPrecision(6))}${u} was moved to the nearest ${s.peakSettings.negative ? 'bottom' : 'top'}, at most ${SNAP_POINTS} points away)` : ''}. It is kept as a decision and marked “added by hand”.` });
 }

@@ -7,7 +7,7 @@
 import { describe, expect, it } from 'vitest';
 import { readFileSync, readdirSync } from 'node:fs';
 import fc from 'fast-check';
-import { decideDialect, parseColumnHeader, parseDelimited, splitFields } from '../../src/core/io/delimited.ts';
+import { decideDialect, parseColumnHeader, parseDelimited, parseTraceHeader, splitFields } from '../../src/core/io/delimited.ts';
 import type { RowSplitter } from '../../src/core/io/delimited.ts';
 import type { LoadOptions, LoadResult } from '../../src/core/io/types.ts';
 import { checkTraceData } from '../../src/core/trace.ts';
@@ -335,6 +335,26 @@ describe('column headers', () => {
     expect(parseColumnHeader('Absorbance 520 nm (mAU)')).toEqual({ name: 'Absorbance 520 nm', unit: 'mAU' });
     expect(parseColumnHeader('Ratio A/B')).toEqual({ name: 'Ratio A/B', unit: '' });
     expect(parseColumnHeader('Signal')).toEqual({ name: 'Signal', unit: '' });
+  });
+
+  // Issue 17: name_unit only for the stated list (SUFFIX_UNITS) and a name longer than one letter.
+  it('reads name_unit for trace columns when the suffix is a listed unit', () => {
+    expect(parseTraceHeader('time_s')).toEqual({ name: 'time', unit: 's' });
+    expect(parseTraceHeader('voltage_mV')).toEqual({ name: 'voltage', unit: 'mV' });
+    expect(parseTraceHeader('signal_MAU')).toEqual({ name: 'signal', unit: 'MAU' });
+    expect(parseTraceHeader('detector_2_counts')).toEqual({ name: 'detector_2', unit: 'counts' });
+    expect(parseTraceHeader('x_s')).toEqual({ name: 'x_s', unit: '' });
+    expect(parseTraceHeader('peak_a')).toEqual({ name: 'peak_a', unit: '' });
+    expect(parseTraceHeader('run_07')).toEqual({ name: 'run_07', unit: '' });
+    expect(parseTraceHeader('Time_s (min)')).toEqual({ name: 'Time_s', unit: 'min' });
+    // The calibration tables keep the plain forms: a compound called vitamin_nm is not read as nanometres there.
+    expect(parseColumnHeader('voltage_mV')).toEqual({ name: 'voltage_mV', unit: '' });
+  });
+
+  it('gives units to a whole file written with underscores', () => {
+    const r = parseDelimited(new TextEncoder().encode('time_s,voltage_mV\n0,1\n1,2\n2,3\n3,2\n4,1\n5,0\n'), 'logger.csv');
+    expect(r.ok).toBe(true);
+    if (r.ok) expect([r.traces[0].xName, r.traces[0].xUnit, r.traces[0].yName, r.traces[0].yUnit]).toEqual(['time', 's', 'voltage', 'mV']);
   });
 
   it('takes units from a line under the names when they are bracketed or known units', () => {

@@ -101,7 +101,8 @@ function withParams(def: StepDefinition, c: Case, overrides: Partial<Record<stri
         // Two stretches of about a fifth of the trace each, at the two ends.
         const x = c.signal.x;
         const k = Math.floor(n / 5);
-        out[spec.key] = [[x[0], x[k]], [x[n - 1 - k], x[n - 1]]];
+        // trim keeps one range: the middle three fifths.
+        out[spec.key] = def.id === 'trim' ? [[x[k], x[n - 1 - k]]] : [[x[0], x[k]], [x[n - 1 - k], x[n - 1]]];
       } else {
         out[spec.key] = p[spec.key] as StepParams[string];
       }
@@ -116,10 +117,11 @@ const caseAndParams = (def: StepDefinition, overrides?: Partial<Record<string, f
 function expectedLength(def: StepDefinition, p: StepParams, n: number): number {
   if (def.id === 'boxcar') return p.tail === 'keep' ? Math.ceil(n / (p.size as number)) : Math.floor(n / (p.size as number));
   if (def.id === 'resample') return (p.points as number) === 0 ? n : (p.points as number);
+  if (def.id === 'trim') { const k = Math.floor(n / 5); return n - 2 * k; }
   return n;
 }
 
-const REGRIDDING = new Set(['boxcar', 'resample']);
+const REGRIDDING = new Set(['boxcar', 'resample', 'trim']);
 
 function checkStep(def: StepDefinition, c: Case, p: StepParams): void {
   const { signal, ctx } = c;
@@ -154,9 +156,9 @@ function checkStep(def: StepDefinition, c: Case, p: StepParams): void {
 }
 
 describe('every registered step: length, input unchanged, finite out, residual exact', () => {
-  it('the registry holds the ten steps this test knows', () => {
+  it('the registry holds the eleven steps this test knows', () => {
     expect(STEP_REGISTRY.map((d) => d.id).sort()).toEqual(
-      ['baseline', 'blank-subtraction', 'boxcar', 'despike', 'ensemble-average', 'frequency-filter', 'local-order', 'moving-average', 'resample', 'savitzky-golay'],
+      ['baseline', 'blank-subtraction', 'boxcar', 'despike', 'ensemble-average', 'frequency-filter', 'local-order', 'moving-average', 'resample', 'savitzky-golay', 'trim'],
     );
   });
   STEP_REGISTRY.forEach((def, k) => {
@@ -164,6 +166,8 @@ describe('every registered step: length, input unchanged, finite out, residual e
       fc.assert(
         fc.property(caseArb, (c) => {
           const problem = def.validate(def.defaults, c.signal, c.ctx);
+          // trim has no range until the user marks one: its defaults are refused with what to do (issue 17).
+          if (def.id === 'trim') { expect(problem).toMatch(/No x-range chosen yet/); return; }
           expect(problem, problem ?? '').toBeNull();
           checkStep(def, c, def.defaults);
         }),

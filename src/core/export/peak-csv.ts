@@ -53,6 +53,7 @@ export const BOUND_TEXT: Record<BoundKind, string> = {
   'shared-valley': 'valley shared with a neighbour',
   'width-limit': `width limit (${WIDTH_LIMIT} half-widths)`,
   'trace-end': 'end of the trace',
+  'set-by-hand': 'set by hand',
 };
 
 /** How a shared valley splits the area, in words. */
@@ -71,6 +72,7 @@ export function peakMarksText(p: Peak): string {
 export function peakDecisionText(p: Peak): string {
   if (p.removedByUser) return 'removed by hand';
   if (p.origin === 'added-by-user') return 'added by hand';
+  if (p.boundsByUser) return 'start and end set by hand';
   return '';
 }
 

@@ -138,8 +138,8 @@ export function analysisSummary(input: SummaryInput): Summary {
   const peaks: SummaryPeak[] = result.peaks.map((p, i) => ({
     x: num(p.x), height: num(p.height), area: num(p.area), fwhm: num(p.fwhm), start: num(p.start), end: num(p.end), snr: num(p.snr),
     status: STATUS[p.flag],
-    // 'bounds' (start or end moved by hand) has no source in the core yet (issue 17 adds dragging the bounds).
-    hand: p.removedByUser ? 'removed' : p.origin === 'added-by-user' ? 'added' : null,
+    // 'bounds': start or end moved by hand (issue 17, hand-bounds.ts); an added peak stays 'added'.
+    hand: p.removedByUser ? 'removed' : p.origin === 'added-by-user' ? 'added' : p.boundsByUser ? 'bounds' : null,
     // Marked when the raw trace has nothing there that passes the same thresholds (measure/peak-table.ts).
     afterProcessingOnly: p.marks.includes('appears-only-after-processing'),
     name: naming?.names[i] ?? null,

@@ -270,6 +270,36 @@ export function parseColumnHeader(raw: string): ColumnHeader {
   return { name: s, unit: '' };
 }
 
+/**
+ * Units a trace column may carry after an underscore (`time_s`,
+ * `voltage_mV`), as they are spelt; the match ignores case and keeps the
+ * file's spelling. Only units usual for detector traces and their x axes
+ * (common practice in instrument and logger exports; our own list): time,
+ * wavelength and wavenumber, detector signals (absorbance, voltage,
+ * current, counts, refractive index), and frequency. Single letters that
+ * are also words or labels (a, h, k, v) are left out, so `peak_a` stays a
+ * name.
+ */
+export const SUFFIX_UNITS: readonly string[] = [
+  's', 'ms', 'min', 'nm', 'um', 'µm', 'cm-1',
+  'AU', 'mAU', 'uAU', 'µAU', 'mV', 'uV', 'µV', 'nA', 'pA', 'uA', 'µA',
+  'counts', 'cps', 'Hz', 'RIU', 'nRIU', 'ppm',
+];
+const SUFFIX_LOWER = new Map(SUFFIX_UNITS.map((u) => [u.toLowerCase(), u]));
+
+/**
+ * A trace column's header: the forms of {@link parseColumnHeader}, and
+ * `name_unit` when the suffix is one of {@link SUFFIX_UNITS} and the name
+ * before it is longer than one letter (`x_s` stays a name).
+ */
+export function parseTraceHeader(raw: string): ColumnHeader {
+  const h = parseColumnHeader(raw);
+  if (h.unit) return h;
+  const m = /^(.+)_([^_\s]+)$/.exec(h.name);
+  if (m && m[1].trim().length > 1 && SUFFIX_LOWER.has(m[2].toLowerCase())) return { name: m[1].trim(), unit: m[2] };
+  return h;
+}
+
 /** Units recognised on a separate units line (lower case). Common practice in instrument exports; not exhaustive. */
 const KNOWN_UNITS = new Set([
   's', 'sec', 'ms', 'min', 'h', 'nm', 'µm', 'um', 'cm-1', '1/cm', 'cm^-1', 'au', 'mau', 'µau', 'uau', 'abs', 'a.u.', 'v', 'mv', 'µv', 'uv',
@@ -629,7 +659,7 @@ function findLayout(sample: readonly SampleLine[], fileName: string, fixed?: Loa
     }
     if (fields.length === K) {
       headerIndex = above;
-      headers = fields.map(parseColumnHeader);
+      headers = fields.map(parseTraceHeader);
       // Names on one line and units on the next: only when every cell of the lower line is a known unit,
       // so a preamble line such as "Rig,bench 2" above a plain header is never taken for names.
       const twoAbove = above - 1;
@@ -638,7 +668,7 @@ function findLayout(sample: readonly SampleLine[], fileName: string, fixed?: Loa
         fields.every((f) => stripQuotes(f) === '' || looksLikeUnit(f)) &&
         fields.some((f) => stripQuotes(f) !== '')
       ) {
-        const names = rows[twoAbove].fields.map(parseColumnHeader);
+        const names = rows[twoAbove].fields.map(parseTraceHeader);
         headers = names.map((h, c) => ({ name: h.name, unit: h.unit || stripQuotes(fields[c]).replace(/^[([](.*)[)\]]$/, '$1') }));
         headerIndex = twoAbove;
       }

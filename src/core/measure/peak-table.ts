@@ -5,6 +5,7 @@
  * for what the numbers cannot show (thin sampling, a flat top at the
  * trace's largest value, a feature only processing made).
  */
+import { applyHandBounds } from './hand-bounds.ts';
 import { indexRange } from '../noise.ts';
 import { lowerBound } from '../numeric/decimate.ts';
 import {
@@ -334,7 +335,8 @@ export function applyPeakDecisions(peaks: readonly Peak[], decisions: PeakDecisi
     if (kept.some((k) => k.m.index === i)) continue;
     kept.push(candidateAt(c, i));
   }
-  const out = finish(c, y, options.negative ? -1 : 1, kept, options).concat(removed);
+  // Issue 17: start and end set by hand replace the found ones (hand-bounds.ts).
+  const out = applyHandBounds(finish(c, y, options.negative ? -1 : 1, kept, options), decisions.bounds, x, y, options).concat(removed);
   out.sort((a, b) => a.x - b.x);
   return out;
 }

@@ -34,7 +34,7 @@ export type SplitRule = 'perpendicular-drop' | 'valley-to-valley';
  *   own half-height half-width.
  * * 'trace-end': the end of the trace came first.
  */
-export type BoundKind = 'returned' | 'valley' | 'shared-valley' | 'width-limit' | 'trace-end';
+export type BoundKind = 'returned' | 'valley' | 'shared-valley' | 'width-limit' | 'trace-end' | 'set-by-hand';
 
 /**
  * Something the user should know about a row.
@@ -172,6 +172,8 @@ export interface Peak {
   readonly origin: 'detected' | 'added-by-user';
   /** Set when the user removed this detected peak; it stays in the table so exports show the decision. */
   readonly removedByUser?: boolean;
+  /** Set when the user moved the start or end by hand (issue 17); area and height are then measured between those. */
+  readonly boundsByUser?: boolean;
   /** A sentence about something the user should know about this peak's measures. */
   readonly note?: string;
 }
@@ -182,4 +184,13 @@ export interface PeakDecisions {
   readonly added: readonly number[];
   /** x positions (x-units) of detected peaks the user removed. */
   readonly removed: readonly number[];
+  /** Start and end the user set for the peak at x (issue 17; absent in sessions saved before). */
+  readonly bounds?: readonly HandBounds[];
+}
+
+/** A peak's start and end set by hand: the peak whose apex is nearest x (within half its FWHM) takes them. */
+export interface HandBounds {
+  readonly x: number;
+  readonly start: number;
+  readonly end: number;
 }

@@ -38,7 +38,7 @@ export function gridCoverageProblem(target: Float64Array, other: Float64Array, w
   if (b0 > s0) parts.push(`x = ${formatNumber(s0)} to ${formatNumber(b0)}`);
   if (b1 < s1) parts.push(`x = ${formatNumber(b1)} to ${formatNumber(s1)}`);
   if (parts.length > 0) {
-    return `${capitalise(what)} does not cover the sample from ${parts.join(' and from ')} (${ranges}); values there would have to be invented by extrapolation, so the step refuses. Trim the sample to the common range or load ${what} that covers it.`;
+    return `${capitalise(what)} does not cover the sample from ${parts.join(' and from ')} (${ranges}); values there would have to be invented by extrapolation, so the step refuses. Keep the common range with the "Keep an x-range (trim)" step before this one, or load ${what} that covers it.`;
   }
   return null;
 }

@@ -14,6 +14,7 @@ import { savitzkyGolayStep } from './savitzky-golay.ts';
 import { localOrderStep } from './local-order.ts';
 import { resampleStep } from './resample.ts';
 import { frequencyFilterStep } from './frequency-filter.ts';
+import { trimStep } from './trim.ts';
 
 export const STEP_REGISTRY: readonly StepDefinition[] = [
   savitzkyGolayStep,
@@ -26,6 +27,7 @@ export const STEP_REGISTRY: readonly StepDefinition[] = [
   ensembleAverageStep,
   frequencyFilterStep,
   resampleStep,
+  trimStep,
 ] as unknown as readonly StepDefinition[];
 
 /** The definition for a step id, or undefined. */

@@ -1,0 +1,55 @@
+/**
+ * What the trace plot shows in y when the user zooms in x (issue 17): the
+ * smallest and largest y of the drawn series inside the x-range, with a
+ * margin, so a shoulder fills the plot instead of staying a bump.
+ */
+export interface DrawnSeries {
+  x?: ArrayLike<number>;
+  y?: ArrayLike<number>;
+  yaxis?: string;
+  visible?: boolean | 'legendonly';
+}
+
+/** y-range of the series on `axis` between from and to (x-units), padded by `pad` of the span; null when nothing is in view. */
+export function visibleYRange(series: readonly DrawnSeries[], from: number, to: number, axis = 'y', pad = 0.06): [number, number] | null {
+  let lo = Infinity, hi = -Infinity;
+  for (const s of series) {
+    if ((s.yaxis ?? 'y') !== axis || s.visible === false || s.visible === 'legendonly' || !s.x || !s.y) continue;
+    const n = Math.min(s.x.length, s.y.length);
+    for (let i = 0; i < n; i++) {
+      const xv = s.x[i], yv = s.y[i];
+      if (xv < from || xv > to || !Number.isFinite(yv)) continue;
+      if (yv < lo) lo = yv;
+      if (yv > hi) hi = yv;
+    }
+  }
+  if (!(hi >= lo)) return null;
+  const span = hi - lo || Math.abs(hi) * 0.1 || 1;
+  return [lo - span * pad, hi + span * pad];
+}
+
+/** One series as the readout reads it: full-resolution x (ascending) and y. */
+export interface ReadSeries { name: string; x: ArrayLike<number>; y: ArrayLike<number> }
+
+/** The sample of `s` nearest to x (in x); null for an empty series. */
+export function nearestPoint(s: ReadSeries, x: number): { x: number; y: number; index: number } | null {
+  const n = Math.min(s.x.length, s.y.length);
+  if (n === 0 || !Number.isFinite(x)) return null;
+  let lo = 0, hi = n;
+  while (lo < hi) { const mid = (lo + hi) >>> 1; if (s.x[mid] < x) lo = mid + 1; else hi = mid; }
+  let i = Math.min(lo, n - 1);
+  if (i > 0 && Math.abs(s.x[i - 1] - x) <= Math.abs(s.x[i] - x)) i -= 1;
+  return { x: s.x[i], y: s.y[i], index: i };
+}
+
+/** Δx, Δy and slope Δy/Δx from a to b (slope null when Δx is 0). */
+export function twoPointMeasure(a: { x: number; y: number }, b: { x: number; y: number }): { dx: number; dy: number; slope: number | null } {
+  const dx = b.x - a.x, dy = b.y - a.y;
+  return { dx, dy, slope: dx === 0 ? null : dy / dx };
+}
+
+/** A unit for a ratio of units, e.g. "mAU/min"; empty parts stay visible as "1". */
+export function slopeUnit(yUnit: string, xUnit: string): string {
+  if (!yUnit && !xUnit) return '';
+  return `${yUnit || '1'}/${xUnit ? (/[\s/·*]/.test(xUnit) ? `(${xUnit})` : xUnit) : '1'}`;
+}

@@ -1,0 +1,44 @@
+import { describe, expect, it } from 'vitest';
+import { visibleYRange } from '../../src/ui/plot-view.ts';
+
+// Hand-computed cases (issue 17): y fits the drawn data inside the x-range only.
+describe('visibleYRange', () => {
+  const a = { x: [0, 1, 2, 3, 4], y: [10, 1, 2, 3, -50] };
+  const b = { x: [1.5, 2.5], y: [4, 0], yaxis: 'y' };
+  const r = { x: [0, 1, 2, 3, 4], y: [100, 100, 100, 100, 100], yaxis: 'y2' };
+  it('takes the extremes of every series on the axis inside the range, padded by 6 % of the span', () => {
+    // inside [1, 3]: a gives 1, 2, 3; b gives 4, 0 → 0 … 4, span 4, pad 0.24
+    const got = visibleYRange([a, b, r], 1, 3)!;
+    expect(got[0]).toBeCloseTo(-0.24, 12);
+    expect(got[1]).toBeCloseTo(4.24, 12);
+  });
+  it('reads the other axis apart, and says null when nothing is in view', () => {
+    // a flat series: span taken as 10 % of its level, 100 ± 0.06 × 10
+    expect(visibleYRange([a, b, r], 1, 3, 'y2')).toEqual([99.4, 100.6]);
+    expect(visibleYRange([a], 10, 20)).toBeNull();
+  });
+  it('leaves out hidden series', () => {
+    expect(visibleYRange([{ ...a, visible: 'legendonly' as const }, b], 0, 4, 'y', 0)).toEqual([0, 4]);
+  });
+});
+
+import { nearestPoint, slopeUnit, twoPointMeasure } from '../../src/ui/plot-view.ts';
+
+// Hand-computed (issue 17): the readout takes the nearest sample in x, ties to the left.
+describe('readout helpers', () => {
+  const s = { name: 'raw', x: [0, 1, 2, 4], y: [5, 6, 7, 9] };
+  it('finds the nearest sample', () => {
+    expect(nearestPoint(s, 2.9)).toEqual({ x: 2, y: 7, index: 2 });
+    expect(nearestPoint(s, 3)).toEqual({ x: 2, y: 7, index: 2 });
+    expect(nearestPoint(s, 3.1)).toEqual({ x: 4, y: 9, index: 3 });
+    expect(nearestPoint(s, -5)).toEqual({ x: 0, y: 5, index: 0 });
+    expect(nearestPoint(s, 99)).toEqual({ x: 4, y: 9, index: 3 });
+  });
+  it('measures Δx, Δy and the slope with its unit', () => {
+    expect(twoPointMeasure({ x: 1, y: 2 }, { x: 3, y: 8 })).toEqual({ dx: 2, dy: 6, slope: 3 });
+    expect(twoPointMeasure({ x: 1, y: 2 }, { x: 1, y: 8 }).slope).toBeNull();
+    expect(slopeUnit('mAU', 'min')).toBe('mAU/min');
+    expect(slopeUnit('mV', 'ml/min')).toBe('mV/(ml/min)');
+    expect(slopeUnit('', '')).toBe('');
+  });
+});
