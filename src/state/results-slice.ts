@@ -1,5 +1,5 @@
 import type { StateCreator } from 'zustand';
-import type { AnalyseResult } from '../core/analyse.ts';
+import type { AnalyseResult } from '../core/analysis/index.ts';
 import type { AppState } from './store.ts';
 
 export interface ResultsSlice {

@@ -3,7 +3,7 @@ import { useApp } from '../state/store.ts';
 import { presetAlternative, PRESETS } from './alternatives.ts';
 import { num, FLAG_WORDS } from './format.ts';
 import { ALTERNATIVE_COLOURS } from './palette.ts';
-import { MAX_ALTERNATIVES } from '../core/analyse.ts';
+import { MAX_ALTERNATIVES } from '../core/analysis/index.ts';
 
 function standingText(c: LedgerCell): string {
   if (!c.found) return 'lost';

@@ -3,7 +3,7 @@
  * once, and asks for a fresh analysis whenever the inputs or the recipe
  * change (latest request wins). Holds no state the store should hold.
  */
-import type { AnalyseRequest } from '../core/analyse.ts';
+import type { AnalyseRequest } from '../core/analysis/index.ts';
 import { MAX_FILE_BYTES, type LoadOptions, type LoadResult } from '../core/io/types.ts';
 import type { TraceRole } from '../core/trace.ts';
 import { useApp } from '../state/store.ts';

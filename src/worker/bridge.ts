@@ -7,7 +7,7 @@
  * and the newest. Loads go to a second worker so a big file never holds up
  * the plot. Where no Worker exists (Node tests) everything runs in-process.
  */
-import type { AnalyseRequest, AnalyseResult } from '../core/analyse.ts';
+import type { AnalyseRequest, AnalyseResult } from '../core/analysis/index.ts';
 import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import type { Trace } from '../core/trace.ts';
 import { Engine } from './engine.ts';

@@ -8,7 +8,7 @@ import type { Recipe } from '../core/recipe.ts';
 import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import type { SpikeEvent } from '../core/steps/types.ts';
 import type { Trace } from '../core/trace.ts';
-import type { AnalyseRequest, AnalyseResult } from '../core/analyse.ts';
+import type { AnalyseRequest, AnalyseResult } from '../core/analysis/index.ts';
 
 export type { AnalyseRequest, AnalyseResult };
 

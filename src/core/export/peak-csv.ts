@@ -4,7 +4,7 @@
  * how and where the noise was measured, the detection and quantitation
  * limits, and which peaks were added or removed by hand.
  */
-import type { AnalyseResult } from '../analyse.ts';
+import type { AnalyseResult } from '../analysis/index.ts';
 import { writeCsv, type CsvCellOptions } from '../io/csv-write.ts';
 import type { NoiseEstimate } from '../noise.ts';
 import type { BoundKind, Peak, PeakFlag, PeakMark, SnrDefinition, SplitRule } from '../measure/peak-types.ts';
