@@ -1,4 +1,5 @@
 import { useState } from 'react';
+import { useShallow } from 'zustand/react/shallow';
 import type { Peak, PeakMark } from '../core/measure/peak-types.ts';
 import { noiseBumpSentence } from '../core/measure/noise-bumps.ts';
 import { BOUND_TEXT, MARK_TEXT, SPLIT_TEXT } from '../core/export/peak-csv.ts';
@@ -29,8 +30,12 @@ function pickRows(all: readonly Peak[]): Peak[] {
 
 /** The peak table: a real table with headers; a click on a row zooms to the peak. */
 export function PeakTable() {
-  const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
-  const resultSeq = useApp((s) => s.resultSeq);
+  // Only the fields shown: earlier stages of a newer request do not re-render the table.
+  const result = useApp(useShallow((s) => (s.result && s.result.sampleId === s.sampleId
+    ? { peaks: s.result.peaks, peakOptions: s.result.peakOptions, peakProblem: s.result.peakProblem, noiseBumps: s.result.noiseBumps }
+    : null)));
+  const resultSeq = useApp((s) => s.stageSeq.peaks);
+  const provisional = useApp((s) => s.pending.includes('peaks'));
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const selected = useApp((s) => s.selectedPeakX);
   const addPeakMode = useApp((s) => s.addPeakMode);
@@ -52,7 +57,7 @@ export function PeakTable() {
   for (const p of all) if (!p.removedByUser) { if (p.flag === 'quantifiable') counts.q++; else if (p.flag === 'detectable') counts.d++; else counts.b++; }
   const lim = result.peakOptions?.limits;
   return (
-    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq}>
+    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq} data-provisional={provisional ? 'true' : undefined}>
       <div className="panel-head">
         <h2 id="peaks-title">Peaks</h2>
         <div className="row">
@@ -60,6 +65,7 @@ export function PeakTable() {
           {(decisions.added.length > 0 || decisions.removed.length > 0) && <button type="button" className="link" onClick={clearDecisions}>undo all hand edits</button>}
         </div>
       </div>
+      {provisional && <p className="small provisional" data-testid="peaks-provisional">Provisional: these rows are from before the latest change; the new table is being worked out.</p>}
       {result.peakProblem && <p className="step-problem" role="alert">{result.peakProblem}</p>}
       <p className="small" data-testid="peak-summary">
         {counts.q} quantifiable (S/N ≥ {lim?.quantitation}), {counts.d} detected but not quantifiable ({lim?.detection} ≤ S/N &lt; {lim?.quantitation}), {counts.b} below the detection limit (kept, marked).

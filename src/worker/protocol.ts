@@ -8,9 +8,9 @@ import type { Recipe } from '../core/recipe.ts';
 import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import type { SpikeEvent } from '../core/steps/types.ts';
 import type { Trace } from '../core/trace.ts';
-import type { AnalyseRequest, AnalyseResult } from '../core/analysis/index.ts';
+import type { AnalyseRequest, StageUpdate } from '../core/analysis/index.ts';
 
-export type { AnalyseRequest, AnalyseResult };
+export type { AnalyseRequest, StageUpdate };
 
 export type ToWorker =
   /** New traces, and (when given) the ids of every trace that stays: traces the worker holds already are not sent again. */
@@ -25,7 +25,12 @@ export type ToWorker =
 export type ThroughPort = { type: 'traces'; traces: Trace[] };
 
 export type FromWorker =
-  | { type: 'result'; jobId: number; result: AnalyseResult }
+  /** One stage of an analysis, as soon as it is ready (its arrays transferred); more follow until 'done' or 'cancelled'. */
+  | { type: 'stage'; jobId: number; update: StageUpdate }
+  /** Every stage of the analysis was posted. */
+  | { type: 'done'; jobId: number; ms: number }
+  /** A newer analysis came in before this one finished: the stages not yet posted never will be. */
+  | { type: 'cancelled'; jobId: number }
   /** `shared`: the traces went to the computation worker through the port too. */
   | { type: 'loaded'; jobId: number; result: LoadResult; shared?: boolean }
   | { type: 'progress'; jobId: number; fraction: number }

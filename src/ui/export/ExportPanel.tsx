@@ -60,7 +60,9 @@ export function ExportPanel({ figure, getFigure, lossSentences, ledger }: Props)
   const [askStartOver, setAskStartOver] = useState(false);
   const recipeInput = useRef<HTMLInputElement>(null);
   const batchInput = useRef<HTMLInputElement>(null);
-  const ready = !!(sample && result);
+  // Exports wait until every stage of the newest analysis has landed (issue 16): never a mix of old and new figures.
+  const settled = useApp((s) => s.pending.length === 0);
+  const ready = !!(sample && result && settled);
   // The loss check's own list and ledger are used unless the page passes others.
   const losses = lossSentences ?? result?.loss?.currentWarnings ?? [];
   const ledgerOut: LossLedgerLike | null = ledger ?? result?.loss?.ledger ?? null;
