@@ -15,6 +15,8 @@ import type { Trace } from '../core/trace.ts';
 import { Engine } from './engine.ts';
 import type { FromWorker, ToWorker } from './protocol.ts';
 import { macrotask, runStages } from './stager.ts';
+import { fromColumns } from './columns.ts';
+import type { Peak } from '../core/measure/peak-types.ts';
 
 type Pending<T> = { resolve: (v: T) => void; reject: (e: Error) => void };
 
@@ -42,7 +44,11 @@ class WorkerChannel {
       const job = this.jobs.get(msg.jobId);
       if (!job) return;
       if (msg.type === 'progress') { job.onProgress?.(msg.fraction); return; }
-      if (msg.type === 'stage') { job.onStage?.(msg.update); return; }
+      if (msg.type === 'stage') {
+        const update = msg.peakColumns ? { ...msg.update, patch: { ...msg.update.patch, peaks: fromColumns<Peak>(msg.peakColumns) } } : msg.update;
+        job.onStage?.(update);
+        return;
+      }
       this.jobs.delete(msg.jobId);
       if (msg.type === 'failed') job.reject(Object.assign(new Error(msg.message), { missing: msg.missing === true }));
       else job.resolve(msg);

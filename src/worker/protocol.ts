@@ -9,6 +9,7 @@ import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import type { SpikeEvent } from '../core/steps/types.ts';
 import type { Trace } from '../core/trace.ts';
 import type { AnalyseRequest, StageUpdate } from '../core/analysis/index.ts';
+import type { Columns } from './columns.ts';
 
 export type { AnalyseRequest, StageUpdate };
 
@@ -25,8 +26,11 @@ export type ToWorker =
 export type ThroughPort = { type: 'traces'; traces: Trace[] };
 
 export type FromWorker =
-  /** One stage of an analysis, as soon as it is ready (its arrays transferred); more follow until 'done' or 'cancelled'. */
-  | { type: 'stage'; jobId: number; update: StageUpdate }
+  /**
+   * One stage of an analysis, as soon as it is ready (its arrays transferred); more follow until 'done' or
+   * 'cancelled'. The peak table crosses as typed-array columns (`peakColumns`, transferred) in place of `patch.peaks`.
+   */
+  | { type: 'stage'; jobId: number; update: StageUpdate; peakColumns?: Columns }
   /** Every stage of the analysis was posted. */
   | { type: 'done'; jobId: number; ms: number }
   /** A newer analysis came in before this one finished: the stages not yet posted never will be. */

@@ -7,6 +7,7 @@ import type { FromWorker, ThroughPort, ToWorker } from './protocol.ts';
 import { Engine, transferablesOf } from './engine.ts';
 import { cloneResultForTransfer } from './clone.ts';
 import { runStages } from './stager.ts';
+import { columnBuffers, toColumns } from './columns.ts';
 
 const engine = new Engine();
 const scope = self as unknown as DedicatedWorkerGlobalScope;
@@ -54,9 +55,11 @@ async function handle(msg: ToWorker): Promise<void> {
       const t0 = Date.now();
       const jobId = msg.jobId;
       const outcome = await runStages(engine.stages(msg.request), (update) => {
-        // Cached outputs must stay usable here, so send copies and transfer those.
-        const patch = cloneResultForTransfer(update.patch);
-        post({ type: 'stage', jobId, update: { ...update, patch } }, transferablesOf(patch));
+        // Cached outputs must stay usable here, so send copies and transfer those; the peak table goes as columns.
+        const { peaks, ...rest } = update.patch;
+        const patch = cloneResultForTransfer(rest);
+        const peakColumns = peaks ? toColumns(peaks as unknown as Record<string, unknown>[]) : undefined;
+        post({ type: 'stage', jobId, update: { ...update, patch }, peakColumns }, [...transferablesOf(patch), ...(peakColumns ? columnBuffers(peakColumns) : [])]);
       }, () => latestJob !== jobId);
       post(outcome === 'done' ? { type: 'done', jobId, ms: Date.now() - t0 } : { type: 'cancelled', jobId });
     } else if (msg.type === 'load') {
