@@ -344,7 +344,7 @@ async function main() {
     const med = (key) => median(moves.map((m) => m[key]));
     const longest = Math.max(...moves.map((m) => m.longest));
     console.log(`peak table after the moves: ${rows} rows; heap counted on the page and ${heap.workers} worker(s)`);
-    console.log('processed, peaks and loss come in one result from the worker (no stages yet): the three differ only by drawing.');
+    console.log('the worker posts processed, peaks and loss as separate stages: each figure is when the page shows that part of the new value.');
     console.log(`Chromium ${version}, node ${process.version}, ${new Date().toISOString()}, LOAD end ${loadavg().map((v) => v.toFixed(2)).join(' ')}`);
     if (errors.length) console.log(`page errors: ${errors.join(' | ')}`);
     console.log(`TIMING points=${o.rows} load_to_drawn_ms=${loadMs.toFixed(0)} slider_to_processed_ms=${med('processed').toFixed(0)} slider_to_peaks_ms=${med('peaks').toFixed(0)} slider_to_loss_ms=${med('loss').toFixed(0)} longest_task_ms=${longest.toFixed(0)} heap_mb=${(heap.bytes / 1048576).toFixed(0)}`);

@@ -4,7 +4,7 @@ import type { AppState } from './store.ts';
 
 /** How many times each stage has landed (panels carry their own as data-result-seq). */
 export type StageSeq = Record<StageName, number>;
-const NO_SEQ: StageSeq = { processed: 0, residual: 0, noise: 0, peaks: 0, alternative: 0, loss: 0 };
+const NO_SEQ: StageSeq = { processed: 0, residual: 0, noise: 0, peaks: 0, bumps: 0, alternative: 0, loss: 0 };
 
 export interface ResultsSlice {
   /**

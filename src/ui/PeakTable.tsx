@@ -36,6 +36,7 @@ export function PeakTable() {
     : null)));
   const resultSeq = useApp((s) => s.stageSeq.peaks);
   const provisional = useApp((s) => s.pending.includes('peaks'));
+  const bumpsPending = useApp((s) => s.pending.includes('bumps'));
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const selected = useApp((s) => s.selectedPeakX);
   const addPeakMode = useApp((s) => s.addPeakMode);
@@ -57,7 +58,7 @@ export function PeakTable() {
   for (const p of all) if (!p.removedByUser) { if (p.flag === 'quantifiable') counts.q++; else if (p.flag === 'detectable') counts.d++; else counts.b++; }
   const lim = result.peakOptions?.limits;
   return (
-    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq} data-provisional={provisional ? 'true' : undefined}>
+    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq} data-provisional={provisional || bumpsPending ? 'true' : undefined}>
       <div className="panel-head">
         <h2 id="peaks-title">Peaks</h2>
         <div className="row">
@@ -72,7 +73,8 @@ export function PeakTable() {
         {' '}S/N column: <strong>{SNR_WORDS[def]}</strong>.
         {capped && <> Showing the {peaks.length} of {all.length} candidates with the highest S/N (and every hand decision); the peak table CSV holds every one. Raise the smallest S/N or prominence to thin the list.</>}
       </p>
-      {result.noiseBumps && (
+      {bumpsPending && !provisional && <p className="small provisional" data-testid="noise-bumps-pending">Counting how many bumps pure noise would give with these settings…</p>}
+      {result.noiseBumps && !bumpsPending && (
         <p className="small" data-testid="noise-bumps" title={result.noiseBumps.method}>
           {noiseBumpSentence(result.noiseBumps)}{' '}
           <span className="muted">(Simulated with these settings; hover for how.)</span>

@@ -60,12 +60,13 @@ describe('staged analysis', () => {
       alternatives: [{ id: 'a', label: 'a', recipe: recipeOf([{ step: 'savitzky-golay', size: 2 }]) }, { id: 'b', label: 'b', recipe: recipeOf([{ step: 'moving-average', size: 1 }]) }],
     };
     const updates = [...analyseStaged(req, new Map([[t.id, t]]), STEP_REGISTRY)];
-    expect(updates.map((u) => u.stage)).toEqual(['processed', 'residual', 'noise', 'peaks', 'alternative', 'alternative', 'loss']);
-    expect(updates[4].pending).toEqual(['alternative', 'loss']);
+    expect(updates.map((u) => u.stage)).toEqual(['processed', 'residual', 'noise', 'peaks', 'bumps', 'alternative', 'alternative', 'loss']);
+    expect(updates[5].pending).toEqual(['alternative', 'loss']);
     expect(updates.at(-1)!.pending).toEqual([]);
     // Every update names only later stages as pending.
     for (const u of updates) for (const p of u.pending) expect(STAGES.indexOf(p)).toBeGreaterThanOrEqual(STAGES.indexOf(u.stage));
     // The residual verdict before the loss check is the tests alone; the loss stage sets the final one.
+    expect(updates[0].patch).toHaveProperty('residual');
     expect(updates[1].patch).toHaveProperty('diagnostics');
     expect(updates.at(-1)!.patch).toHaveProperty('diagnostics');
   });

@@ -52,7 +52,7 @@ describe('staged work on the worker side', () => {
     expect(await first).toBeNull();
     expect(await second).toBe(true);
     expect(got.filter(([w]) => w === 5)).toEqual([]);
-    expect(got.map(([, s]) => s)).toEqual(['processed', 'residual', 'noise', 'peaks', 'alternative', 'loss']);
+    expect(got.map(([, s]) => s)).toEqual(['processed', 'residual', 'noise', 'peaks', 'bumps', 'alternative', 'loss']);
   });
 
   test('a request superseded between stages stops there (the backend reports it unfinished)', async () => {
@@ -80,9 +80,10 @@ describe('the store takes partial results', () => {
     await backend.analyse(request(5), (u) => updates.push(u));
     const snapshots = updates.map((u) => { store.getState().takeStage(u); return store.getState(); });
     const [processed, residual, noise, peaks] = snapshots;
-    expect(processed.pending).toEqual(['residual', 'noise', 'peaks', 'alternative', 'loss']);
+    expect(processed.pending).toEqual(['residual', 'noise', 'peaks', 'bumps', 'alternative', 'loss']);
     expect(residual.result!.processed).toBe(processed.result!.processed);
-    expect(noise.result!.residual).toBe(residual.result!.residual);
+    expect(noise.result!.residual).toBe(processed.result!.residual);
+    expect(noise.result!.diagnostics).toBe(residual.result!.diagnostics);
     expect(peaks.result!.noise).toBe(noise.result!.noise);
     expect(noise.stageSeq.peaks).toBe(0);
     expect(peaks.stageSeq.peaks).toBe(1);

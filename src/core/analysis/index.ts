@@ -5,12 +5,13 @@
  * check are still being worked out, and a newer request can stop older work
  * between stages (the consumer simply stops pulling).
  *
- *   1. processed    the recipe run on the sample (steps cached by the pipeline cache)
- *   2. residual     raw − processed and its tests (verdict provisional until 5)
+ *   1. processed    the recipe run on the sample (steps cached by the pipeline cache) and the residual curve
+ *   2. residual     the residual's tests (verdict provisional until 7)
  *   3. noise        σ of the measured trace (raw σ carried through the stack)
  *   4. peaks        the peak table, marked against the raw trace's own table (memo)
- *   5. alternative  one job per alternative stack (memo: the current stack's edit cannot change them)
- *   6. loss         the ledger, the window advice, and the final residual verdict
+ *   5. bumps        how many bumps pure noise would give with these settings (a simulation, cached)
+ *   6. alternative  one job per alternative stack (memo: the current stack's edit cannot change them)
+ *   7. loss         the ledger, the window advice, and the final residual verdict
  *
  * `analyse()` collects every update into one result: tests, the CLI, the
  * bench and batch runs use it. Pure: nothing here changes its input.
@@ -24,7 +25,7 @@ import { combineVerdict } from '../diagnostics.ts';
 import { markAppearsOnlyAfterProcessing, markSaturatedOnRaw } from '../measure/peak-table.ts';
 import { expectedNoiseBumps } from '../measure/noise-bumps.ts';
 import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, MAX_ALTERNATIVES, type AnalyseRequest } from './request.ts';
-import type { AnalyseResult, StageName, StageUpdate } from './result.ts';
+import { STAGES, type AnalyseResult, type StageName, type StageUpdate } from './result.ts';
 import { AnalysisMemo, type AlternativeMeasured } from './memo.ts';
 import { intermediateOf, processedSomething, processSample, runSummaries, stackOf } from './stages/process.ts';
 import { residualOfRun, residualTests } from './stages/residual.ts';
@@ -60,22 +61,23 @@ export function* analyseStaged(
   const raw: Signal = { x: sample.x, y: sample.y };
   const alts = (request.alternatives ?? []).slice(0, MAX_ALTERNATIVES);
   const pendingAfter = (stage: StageName): StageName[] => {
-    const order: StageName[] = ['processed', 'residual', 'noise', 'peaks', 'alternative', 'loss'];
+    const order: StageName[] = [...STAGES];
     return order.slice(order.indexOf(stage) + 1).filter((s) => s !== 'alternative' || alts.length > 0);
   };
 
   // 1. The processed trace.
   const run = processSample(raw, sampleId, request.recipe, registry, ctx, cache);
   const ran = processedSomething(run);
+  // The residual curve is cheap and drawn under the processed trace, so it lands with it (one redraw of the plot).
+  const { residual, note } = residualOfRun(raw, run);
   yield {
     stage: 'processed', sampleId, pending: pendingAfter('processed'),
-    patch: { sampleId, processed: run.final, baseline: run.baseline, intermediate: intermediateOf(run, request.showUid), runs: runSummaries(run), events: run.events },
+    patch: { sampleId, processed: run.final, residual, residualNote: note, baseline: run.baseline, intermediate: intermediateOf(run, request.showUid), runs: runSummaries(run), events: run.events },
   };
 
-  // 2. The residual and its tests (the verdict is provisional: the loss check may hold it back).
-  const { residual, note } = residualOfRun(raw, run);
+  // 2. The residual's tests (the verdict is provisional: the loss check may hold it back).
   const tests = residualTests(raw, residual, ran);
-  yield { stage: 'residual', sampleId, pending: pendingAfter('residual'), patch: { residual, residualNote: note, diagnostics: tests } };
+  yield { stage: 'residual', sampleId, pending: pendingAfter('residual'), patch: { diagnostics: tests } };
 
   // 3. Noise on the measured trace.
   const ps = request.peaks ?? DEFAULT_PEAK_SETTINGS;
@@ -93,12 +95,16 @@ export function* analyseStaged(
     // What the raw trace does not have, and tops flat at the raw trace's largest value (smoothing rounds them).
     main.peaks = markSaturatedOnRaw(markAppearsOnlyAfterProcessing(main.peaks, reference.peaks, meanStep(raw.x)), raw.x, raw.y, ps.negative);
   }
+  yield { stage: 'peaks', sampleId, pending: pendingAfter('peaks'), patch: { peaks: main.peaks, peakOptions: main.peakOptions, peakProblem: main.peakProblem } };
+
+  // 5. The expected count of noise-only bumps: a simulation for each new set of thresholds and noise correlation
+  //    (0.3–1 s), so it lands after the table.
   const noiseBumps = main.peakOptions && main.peakOptions.noiseSigma > 0
     ? expectedNoiseBumps(measured.y.length, meanStep(measured.x), main.peakOptions, main.noise?.measuredRho)
     : null;
-  yield { stage: 'peaks', sampleId, pending: pendingAfter('peaks'), patch: { peaks: main.peaks, peakOptions: main.peakOptions, peakProblem: main.peakProblem, noiseBumps } };
+  yield { stage: 'bumps', sampleId, pending: pendingAfter('bumps'), patch: { noiseBumps } };
 
-  // 5. One job per alternative.
+  // 6. One job per alternative.
   const measuredAlts: AlternativeMeasured[] = [];
   for (let k = 0; k < alts.length; k++) {
     measuredAlts.push(measureAlternative(request, alts[k], raw, ctx, registry, memo, cache));
@@ -106,7 +112,7 @@ export function* analyseStaged(
     yield { stage: 'alternative', sampleId, pending: k + 1 < alts.length ? ['alternative', ...pending] : pending, patch: {}, progress: { done: k + 1, of: alts.length } };
   }
 
-  // 6. The loss check, and with it the final residual verdict.
+  // 7. The loss check, and with it the final residual verdict.
   let loss = null;
   if (ran || alts.length > 0) {
     // Hand decisions belong to the current table only; the comparison uses what detection finds.

@@ -94,7 +94,7 @@ export interface AnalyseResult {
 }
 
 /** The stages in the order they land. */
-export const STAGES = ['processed', 'residual', 'noise', 'peaks', 'alternative', 'loss'] as const;
+export const STAGES = ['processed', 'residual', 'noise', 'peaks', 'bumps', 'alternative', 'loss'] as const;
 export type StageName = typeof STAGES[number];
 
 /**
@@ -118,7 +118,8 @@ export interface StageUpdate {
 export function provisionalFields(pending: readonly StageName[]): (keyof AnalyseResult)[] {
   const out: (keyof AnalyseResult)[] = [];
   if (pending.includes('loss')) out.push('diagnostics', 'loss');
-  if (pending.includes('peaks')) out.push('peaks', 'peakOptions', 'noiseBumps');
+  if (pending.includes('peaks')) out.push('peaks', 'peakOptions');
+  if (pending.includes('bumps')) out.push('noiseBumps');
   if (pending.includes('noise')) out.push('noise');
   return out;
 }
