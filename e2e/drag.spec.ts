@@ -48,7 +48,7 @@ test('a drag of 10 slider steps on 10⁶ points ends with the table of the last 
       w.__table = () => {
         const panel = document.querySelector('[data-testid="peak-panel"]');
         if (!panel) return '';
-        const rows = [...panel.querySelectorAll('tbody tr')].slice(0, 5).map((r) => r.textContent);
+        const rows = Array.from(panel.querySelectorAll('tbody tr')).slice(0, 5).map((r) => r.textContent);
         return [panel.querySelector('[data-testid="peak-summary"]')?.textContent, panel.querySelector('[data-testid="noise-bumps"]')?.textContent, ...rows].join(' | ');
       };
       w.__seen = [];

@@ -5,7 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { matchPeaks, type Alternative, type Ledger, type LedgerCell, type LedgerRow, type MatchOptions, type Standing } from '../../src/core/loss.ts';
-import type { Peak, PeakFlag } from '../../src/core/peaks.ts';
+import type { Peak, PeakFlag } from '../../src/core/measure/peak-types.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';
 
 // ---------------------------------------------------------------------------
