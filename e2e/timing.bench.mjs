@@ -24,9 +24,9 @@
 //   heap_mb                 after the moves: JS heap in use plus array-buffer and external-string
 //                           storage (CDP Runtime.getHeapUsage: usedSize + backingStorageSize) of the
 //                           page and of every worker, in MiB
-// Slider figures are medians over the moves. The page still posts one result for the whole
-// analysis, so processed, peaks and loss arrive together and differ only by drawing: the three
-// figures say what the page shows, not separate stages of the worker.
+// Slider figures are medians over the moves. The worker posts each stage as it lands (issue 16),
+// so the three figures are when the page shows the processed trace, the peak table and the loss
+// check of the new value.
 //
 // It serves dist/ with `vite preview` on 127.0.0.1 at TRACEWRIGHT_E2E_PORT (default 4173, or the
 // first free port from 4180 when that one is taken) and drives the system Chromium
@@ -186,7 +186,8 @@ async function moveSlider({ value, timeoutMs }) {
     peaks: ['[data-testid="peak-panel"]', 'data-result-seq'],
     loss: ['[data-testid="loss-panel"]', 'data-result-seq'],
   };
-  const before = w.__seq(...targets.peaks);
+  // Each part carries its own count (the plot the processed stage's, the table the peaks stage's, the loss panel the loss stage's).
+  const before = Object.fromEntries(Object.entries(targets).map(([name, [sel, attr]]) => [name, w.__seq(sel, attr)]));
   const tasksBefore = w.__longTasks.length;
   const got = {};
   const t0 = performance.now();
@@ -198,7 +199,7 @@ async function moveSlider({ value, timeoutMs }) {
   await new Promise((resolve, reject) => {
     const tick = (frameTime) => {
       for (const [name, [sel, attr]] of Object.entries(targets)) {
-        if (got[name] === undefined && w.__seq(sel, attr) > before) got[name] = Math.max(0, frameTime - t0);
+        if (got[name] === undefined && w.__seq(sel, attr) > before[name]) got[name] = Math.max(0, frameTime - t0);
       }
       if (Object.keys(got).length === 3) resolve();
       else if (performance.now() - t0 > timeoutMs) reject(new Error(`not everything was redrawn within ${timeoutMs / 1000} s (${JSON.stringify(got)})`));
@@ -207,7 +208,7 @@ async function moveSlider({ value, timeoutMs }) {
     requestAnimationFrame(tick);
   });
   const tasks = w.__longTasks.slice(tasksBefore).filter((t) => t.start + t.duration >= t0);
-  return { ...got, longest: tasks.reduce((m, t) => Math.max(m, t.duration), 0), seqBefore: before, seqAfter: w.__seq(...targets.peaks) };
+  return { ...got, longest: tasks.reduce((m, t) => Math.max(m, t.duration), 0), seqBefore: before.peaks, seqAfter: w.__seq(...targets.peaks) };
 }
 
 // ---------------------------------------------------------------------------
@@ -343,7 +344,7 @@ async function main() {
     const med = (key) => median(moves.map((m) => m[key]));
     const longest = Math.max(...moves.map((m) => m.longest));
     console.log(`peak table after the moves: ${rows} rows; heap counted on the page and ${heap.workers} worker(s)`);
-    console.log('processed, peaks and loss come in one result from the worker (no stages yet): the three differ only by drawing.');
+    console.log('the worker posts processed, peaks and loss as separate stages: each figure is when the page shows that part of the new value.');
     console.log(`Chromium ${version}, node ${process.version}, ${new Date().toISOString()}, LOAD end ${loadavg().map((v) => v.toFixed(2)).join(' ')}`);
     if (errors.length) console.log(`page errors: ${errors.join(' | ')}`);
     console.log(`TIMING points=${o.rows} load_to_drawn_ms=${loadMs.toFixed(0)} slider_to_processed_ms=${med('processed').toFixed(0)} slider_to_peaks_ms=${med('peaks').toFixed(0)} slider_to_loss_ms=${med('loss').toFixed(0)} longest_task_ms=${longest.toFixed(0)} heap_mb=${(heap.bytes / 1048576).toFixed(0)}`);

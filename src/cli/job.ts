@@ -7,7 +7,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { basename } from 'node:path';
-import { analyse } from '../core/analyse.ts';
+import { analyse } from '../core/analysis/index.ts';
 import { cleanedTraceCsv } from '../core/export/cleaned-csv.ts';
 import { peakTableCsv } from '../core/export/peak-csv.ts';
 import { reportHtml } from '../core/export/report-html.ts';

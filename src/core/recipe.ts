@@ -10,7 +10,7 @@
  * every problem listed, and nothing is half-applied. Version 1 files (steps
  * only) still load; their analysis settings are the defaults.
  */
-import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type NoiseMethod, type NoiseSettings, type PeakSettings } from './analyse.ts';
+import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type NoiseMethod, type NoiseSettings, type PeakSettings } from './analysis/request.ts';
 import type { ParamSpec, ParamValue, StepDefinition, StepParams } from './steps/types.ts';
 import { namedPeaksToJson, parseNamedPeaks, type NamedPeakTable } from './calibration/named-peaks.ts';
 import { calibrationSettingsToJson, parseCalibrationSettings, type CalibrationSettings } from './calibration/settings.ts';

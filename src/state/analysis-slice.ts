@@ -1,5 +1,5 @@
 import type { StateCreator } from 'zustand';
-import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, MAX_ALTERNATIVES, type AlternativeRequest, type NoiseSettings, type PeakSettings } from '../core/analyse.ts';
+import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, MAX_ALTERNATIVES, type AlternativeRequest, type NoiseSettings, type PeakSettings } from '../core/analysis/index.ts';
 import type { PeakDecisions } from '../core/measure/peak-types.ts';
 import type { AppState } from './store.ts';
 

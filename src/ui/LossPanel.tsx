@@ -3,7 +3,7 @@ import { useApp } from '../state/store.ts';
 import { presetAlternative, PRESETS } from './alternatives.ts';
 import { num, FLAG_WORDS } from './format.ts';
 import { ALTERNATIVE_COLOURS } from './palette.ts';
-import { MAX_ALTERNATIVES } from '../core/analyse.ts';
+import { MAX_ALTERNATIVES } from '../core/analysis/index.ts';
 
 function standingText(c: LedgerCell): string {
   if (!c.found) return 'lost';
@@ -22,7 +22,8 @@ const MAX_SENTENCES = 300;
 /** The loss check: alternatives side by side, the survival ledger, window advice. */
 export function LossPanel() {
   const loss = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result.loss : null));
-  const resultSeq = useApp((s) => s.resultSeq);
+  const resultSeq = useApp((s) => s.stageSeq.loss);
+  const provisional = useApp((s) => s.pending.includes('loss'));
   const alternatives = useApp((s) => s.alternatives);
   const recipe = useApp((s) => s.recipe);
   const showAlt = useApp((s) => s.showAlternatives);
@@ -36,7 +37,7 @@ export function LossPanel() {
   // Thousands of rows would stall the page; crossed rows first, then by position.
   const shown = rows.length <= 300 ? rows : [...rows.filter((r) => r.crossed), ...rows.filter((r) => !r.crossed)].slice(0, 300).sort((a, b) => a.position - b.position);
   return (
-    <section className="panel" aria-labelledby="loss-title" data-testid="loss-panel" data-result-seq={resultSeq}>
+    <section className="panel" aria-labelledby="loss-title" data-testid="loss-panel" data-result-seq={resultSeq} data-provisional={provisional ? 'true' : undefined}>
       <div className="panel-head">
         <h2 id="loss-title">What each choice keeps</h2>
         <label className="switch"><input type="checkbox" checked={showAlt} onChange={(e) => setShowAlternatives(e.target.checked)} /> overlay alternatives</label>
@@ -45,6 +46,7 @@ export function LossPanel() {
         Compare the raw trace, the current stack and up to {MAX_ALTERNATIVES} alternative stacks, measured with the same noise and peak settings.
         Features are matched by apex position; changes are against the raw trace.
       </p>
+      {provisional && <p className="small provisional" data-testid="loss-provisional">Provisional: the comparison below is from before the latest change; the loss check is being worked out again.</p>}
       <div className="row preset-row">
         <span className="small">Add:</span>
         {PRESETS.map((p) => (

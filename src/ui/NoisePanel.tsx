@@ -1,4 +1,4 @@
-import type { NoiseMethod, PeakSettings } from '../core/analyse.ts';
+import type { NoiseMethod, PeakSettings } from '../core/analysis/index.ts';
 import { useApp } from '../state/store.ts';
 import { num, SNR_WORDS } from './format.ts';
 import { profileRange, type SigmaProfile } from '../core/measure/noise-profile.ts';

@@ -1,4 +1,5 @@
 import { useState } from 'react';
+import { useShallow } from 'zustand/react/shallow';
 import type { Peak, PeakMark } from '../core/measure/peak-types.ts';
 import { noiseBumpSentence } from '../core/measure/noise-bumps.ts';
 import { BOUND_TEXT, MARK_TEXT, SPLIT_TEXT } from '../core/export/peak-csv.ts';
@@ -32,8 +33,13 @@ function pickRows(all: readonly Peak[]): Peak[] {
 
 /** The peak table: a real table with headers; a click on a row zooms to the peak. */
 export function PeakTable() {
-  const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
-  const resultSeq = useApp((s) => s.resultSeq);
+  // Only the fields shown: earlier stages of a newer request do not re-render the table.
+  const result = useApp(useShallow((s) => (s.result && s.result.sampleId === s.sampleId
+    ? { peaks: s.result.peaks, peakOptions: s.result.peakOptions, peakProblem: s.result.peakProblem, noiseBumps: s.result.noiseBumps }
+    : null)));
+  const resultSeq = useApp((s) => s.stageSeq.peaks);
+  const provisional = useApp((s) => s.pending.includes('peaks'));
+  const bumpsPending = useApp((s) => s.pending.includes('bumps'));
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const selected = useApp((s) => s.selectedPeakX);
   const addPeakMode = useApp((s) => s.addPeakMode);
@@ -62,7 +68,7 @@ export function PeakTable() {
   let totalArea = 0;
   for (const p of all) if (!p.removedByUser) totalArea += p.area;
   return (
-    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq}>
+    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq} data-provisional={provisional || bumpsPending ? 'true' : undefined}>
       <div className="panel-head">
         <h2 id="peaks-title">Peaks</h2>
         <div className="row">
@@ -70,13 +76,15 @@ export function PeakTable() {
           {(decisions.added.length > 0 || decisions.removed.length > 0 || (decisions.bounds?.length ?? 0) > 0) && <button type="button" className="link" onClick={clearDecisions}>undo all hand edits</button>}
         </div>
       </div>
+      {provisional && <p className="small provisional" data-testid="peaks-provisional">Provisional: these rows are from before the latest change; the new table is being worked out.</p>}
       {result.peakProblem && <p className="step-problem" role="alert">{result.peakProblem}</p>}
       <p className="small" data-testid="peak-summary">
         {counts.q} quantifiable (S/N ≥ {lim?.quantitation}), {counts.d} detected but not quantifiable ({lim?.detection} ≤ S/N &lt; {lim?.quantitation}), {counts.b} below the detection limit (kept, marked).
         {' '}S/N column: <strong>{SNR_WORDS[def]}</strong>.
         {capped && <> Showing the {peaks.length} of {all.length} candidates with the highest S/N (and every hand decision); the peak table CSV holds every one. Raise the smallest S/N or prominence to thin the list.</>}
       </p>
-      {result.noiseBumps && (
+      {bumpsPending && !provisional && <p className="small provisional" data-testid="noise-bumps-pending">Counting how many bumps pure noise would give with these settings…</p>}
+      {result.noiseBumps && !bumpsPending && (
         <p className="small" data-testid="noise-bumps" title={result.noiseBumps.method}>
           {noiseBumpSentence(result.noiseBumps)}{' '}
           <span className="muted">(Simulated with these settings; hover for how.)</span>

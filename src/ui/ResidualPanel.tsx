@@ -1,10 +1,13 @@
+import { useShallow } from 'zustand/react/shallow';
 import { useApp } from '../state/store.ts';
 
 const VERDICT_CLASS = { 'nothing-removed': 'ok', clean: 'ok', caution: 'warn', structure: 'bad' } as const;
 
 /** What the processing removed, and whether it looks like noise (one verdict with the loss check). */
 export function ResidualPanel() {
-  const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
+  const result = useApp(useShallow((s) => (s.result && s.result.sampleId === s.sampleId ? { diagnostics: s.result.diagnostics, residualNote: s.result.residualNote } : null)));
+  // The verdict is one with the loss check: until that lands it may still be held back from 'clean'.
+  const waiting = useApp((s) => (s.pending.includes('residual') ? 'residual' : s.pending.includes('loss') ? 'loss' : null));
   if (!result) return null;
   const d = result.diagnostics;
   return (
@@ -13,7 +16,11 @@ export function ResidualPanel() {
       {result.residualNote && <p className="muted">{result.residualNote}</p>}
       {d ? (
         <>
-          <p className={`verdict ${VERDICT_CLASS[d.level]}`} data-testid="residual-verdict" data-level={d.level}>{d.verdict}</p>
+          <p className={`verdict ${waiting ? 'provisional' : VERDICT_CLASS[d.level]}`} data-testid="residual-verdict" data-level={d.level} data-provisional={waiting ? 'true' : undefined}>
+            {waiting && <strong>Provisional: </strong>}{d.verdict}
+            {waiting === 'loss' && <> (the loss check is still running; it may hold this verdict back)</>}
+            {waiting === 'residual' && <> (from before the latest change)</>}
+          </p>
           <dl className="figures-grid">
             <dt>RMS of the residual</dt><dd>{d.rms.toPrecision(4)}</dd>
             <dt>Lag-1 autocorrelation</dt><dd>{d.lag1.toFixed(3)} (white noise stays within ±{d.lag1Threshold.toFixed(3)})</dd>

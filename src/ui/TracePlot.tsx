@@ -1,3 +1,4 @@
+import { useShallow } from 'zustand/react/shallow';
 import { useCallback, useMemo, useRef, useState, useEffect } from 'react';
 import type { PlotData, PlotLayout } from 'plotly.js-strict-dist-min';
 import { decimateMinMax } from '../core/numeric/decimate.ts';
@@ -32,8 +33,11 @@ function arr(a: Float64Array): number[] {
 
 export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) => void }) {
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
-  const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
-  const resultSeq = useApp((s) => s.resultSeq);
+  // Only the fields drawn: a stage that changes none of them (noise, say) does not redraw the plot.
+  const result = useApp(useShallow((s) => (s.result && s.result.sampleId === s.sampleId
+    ? { processed: s.result.processed, residual: s.result.residual, baseline: s.result.baseline, intermediate: s.result.intermediate, events: s.result.events, peaks: s.result.peaks, loss: s.result.loss }
+    : null)));
+  const resultSeq = useApp((s) => s.stageSeq.processed);
   const xRange = useApp((s) => s.xRange);
   const showRaw = useApp((s) => s.showRaw);
   const showAlt = useApp((s) => s.showAlternatives);

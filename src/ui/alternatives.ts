@@ -3,7 +3,7 @@
  * (the current corrections plus one smoother), and variants of one step's
  * window (half and double).
  */
-import type { AlternativeRequest } from '../core/analyse.ts';
+import type { AlternativeRequest } from '../core/analysis/index.ts';
 import { cloneParams, makeRecipeStep, newStepUid, type Recipe } from '../core/recipe.ts';
 import { stepDefinition } from '../core/steps/registry.ts';
 

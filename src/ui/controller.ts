@@ -3,7 +3,7 @@
  * once, and asks for a fresh analysis whenever the inputs or the recipe
  * change (latest request wins). Holds no state the store should hold.
  */
-import type { AnalyseRequest, AnalyseResult } from '../core/analyse.ts';
+import { applyStage, STAGES, type AnalyseRequest, type AnalyseResult } from '../core/analysis/index.ts';
 import { MAX_FILE_BYTES, type LoadOptions, type LoadResult } from '../core/io/types.ts';
 import type { TraceRole } from '../core/trace.ts';
 import { useApp } from '../state/store.ts';
@@ -25,8 +25,12 @@ export function getBackend(): ComputeBackend {
 }
 
 /** Issue 21: one analysis outside the latest-only queue (the standards' peaks); the worker runs it in turn. */
-export function analyseTrace(request: AnalyseRequest): Promise<AnalyseResult> {
-  return getBackend().analyse(request);
+export async function analyseTrace(request: AnalyseRequest): Promise<AnalyseResult> {
+  let result: AnalyseResult | null = null;
+  // A side job: it does not cancel the sample's analysis, and the sample's edits do not cancel it (issue 16's order).
+  await getBackend().analyse(request, (u) => { result = applyStage(result, u); }, true);
+  if (!result) throw new Error('The analysis of a standard gave no result.');
+  return result;
 }
 
 function describeLoad(result: Extract<LoadResult, { ok: true }>): string[] {
@@ -233,12 +237,15 @@ export function requestAnalysis(): void {
     if (!req) { useApp.getState().setResult(null); return; }
     getBackend();
     useApp.getState().setBusy(true);
-    scheduler!.run(req).then(
-      (result) => {
-        if (!result) return;
-        const st = useApp.getState();
-        if (result.sampleId === st.sampleId) st.setResult(result);
-        st.setBusy(false);
+    // Until each stage lands, what it sets is shown as provisional (the figures of the previous request).
+    useApp.getState().setPending(STAGES.filter((s) => s !== 'alternative' || (req.alternatives?.length ?? 0) > 0));
+    scheduler!.run(req, (update) => {
+      const st = useApp.getState();
+      if (update.sampleId === st.sampleId) st.takeStage(update);
+    }).then(
+      (done) => {
+        if (done === null) return;
+        useApp.getState().setBusy(false);
       },
       (e: Error) => { useApp.getState().setComputeError(e.message); useApp.getState().setBusy(false); },
     );

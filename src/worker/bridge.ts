@@ -1,24 +1,29 @@
 /**
  * The page's one handle on the computation worker.
  *
- * Only the newest analysis matters: while a job runs, a newer request waits
- * in a single slot (an older waiting request is dropped and its promise
- * resolves to null), so a slider moved ten times runs at most one stale job
- * and the newest. Loads go to a second worker so a big file never holds up
- * the plot. Where no Worker exists (Node tests) everything runs in-process.
+ * Only the newest analysis matters: every request goes to the worker at
+ * once, the worker posts each stage as it lands and stops older work between
+ * stages, and the page drops any update of a request it has superseded (its
+ * promise resolves to null). A slider moved ten times thus waits for at most
+ * one stage of stale work. Loads go to a second worker so a big file never
+ * holds up the plot. Where no Worker exists (Node tests) everything runs
+ * in-process, stage by stage the same way.
  */
-import type { AnalyseRequest, AnalyseResult } from '../core/analyse.ts';
+import type { AnalyseRequest, StageUpdate } from '../core/analysis/index.ts';
 import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import type { Trace } from '../core/trace.ts';
 import { Engine } from './engine.ts';
 import type { FromWorker, ToWorker } from './protocol.ts';
 import type { FitJobOutcome, FitRequest } from './fit-job.ts';
+import { macrotask, runStages } from './stager.ts';
+import { fromColumns } from './columns.ts';
+import type { Peak } from '../core/measure/peak-types.ts';
 
 type Pending<T> = { resolve: (v: T) => void; reject: (e: Error) => void };
 
 class WorkerChannel {
   private worker: Worker | null = null;
-  private jobs = new Map<number, Pending<unknown> & { onProgress?: (f: number) => void }>();
+  private jobs = new Map<number, Pending<unknown> & { onProgress?: (f: number) => void; onStage?: (u: StageUpdate) => void }>();
   private nextId = 1;
   /** Counts the workers made; a new one holds no traces yet. */
   generation = 0;
@@ -40,6 +45,11 @@ class WorkerChannel {
       const job = this.jobs.get(msg.jobId);
       if (!job) return;
       if (msg.type === 'progress') { job.onProgress?.(msg.fraction); return; }
+      if (msg.type === 'stage') {
+        const update = msg.peakColumns ? { ...msg.update, patch: { ...msg.update.patch, peaks: fromColumns<Peak>(msg.peakColumns) } } : msg.update;
+        job.onStage?.(update);
+        return;
+      }
       this.jobs.delete(msg.jobId);
       if (msg.type === 'failed') job.reject(Object.assign(new Error(msg.message), { missing: msg.missing === true }));
       else job.resolve(msg);
@@ -60,10 +70,10 @@ class WorkerChannel {
   }
 
   /** Send a job; the promise gets the worker's whole answer (a result or a loaded file). */
-  request<T extends FromWorker>(build: (jobId: number) => ToWorker, transfer: Transferable[] = [], onProgress?: (f: number) => void): Promise<T> {
+  request<T extends FromWorker>(build: (jobId: number) => ToWorker, transfer: Transferable[] = [], onProgress?: (f: number) => void, onStage?: (u: StageUpdate) => void): Promise<T> {
     const jobId = this.nextId++;
     return new Promise<T>((resolve, reject) => {
-      this.jobs.set(jobId, { resolve: resolve as (v: unknown) => void, reject, onProgress });
+      this.jobs.set(jobId, { resolve: resolve as (v: unknown) => void, reject, onProgress, onStage });
       this.send(build(jobId), transfer);
     });
   }
@@ -80,7 +90,9 @@ class WorkerChannel {
 
 export interface ComputeBackend {
   setInputs(traces: Trace[]): void;
-  analyse(request: AnalyseRequest): Promise<AnalyseResult>;
+  /** Run an analysis; `onStage` gets each stage's update as it lands. True when every stage landed, false when a newer request stopped it. */
+  /** `side`: outside the latest-only order (neither cancels nor is cancelled). */
+  analyse(request: AnalyseRequest, onStage: (u: StageUpdate) => void, side?: boolean): Promise<boolean>;
   load(bytes: Uint8Array, fileName: string, options?: Omit<LoadOptions, 'onProgress'>, onProgress?: (f: number) => void): Promise<LoadResult>;
   cancelLoad(): void;
   /** Fit a region (issue 18); runs after the analysis already sent. */
@@ -126,20 +138,21 @@ export function workerBackend(make: () => Worker): ComputeBackend {
     portFor = [c, l];
     return true;
   };
-  const analyseOnce = (request: AnalyseRequest) => {
+  const analyseOnce = (request: AnalyseRequest, onStage: (u: StageUpdate) => void, side?: boolean) => {
     // A worker made anew (after a fault) is given the traces again first.
     if (compute.live() !== heldBy) sendInputs();
-    return compute.request<Extract<FromWorker, { type: 'result' }>>((jobId) => ({ type: 'analyse', jobId, request })).then((m) => m.result);
+    return compute.request<Extract<FromWorker, { type: 'done' | 'cancelled' }>>((jobId) => ({ type: 'analyse', jobId, request, side }), [], undefined, onStage)
+      .then((m) => m.type === 'done');
   };
   return {
     setInputs(t) { current = t; sendInputs(); },
-    analyse(request) {
-      return analyseOnce(request).catch((e: Error & { missing?: boolean }) => {
+    analyse(request, onStage, side) {
+      return analyseOnce(request, onStage, side).catch((e: Error & { missing?: boolean }) => {
         if (!e.missing) throw e;
         // A trace named by the page never came through the port: send them all and try once more.
         heldBy = 0;
         portedTo = 0;
-        return analyseOnce(request);
+        return analyseOnce(request, onStage, side);
       });
     },
     load(bytes, fileName, options, onProgress) {
@@ -165,9 +178,14 @@ export function workerBackend(make: () => Worker): ComputeBackend {
 /** Backend running in the calling thread (tests, or when Worker is missing). */
 export function inProcessBackend(): ComputeBackend {
   const engine = new Engine();
+  let latest = 0;
   return {
     setInputs(t) { engine.setInputs(t); },
-    analyse(request) { return Promise.resolve().then(() => engine.analyse(request)); },
+    analyse(request, onStage, side) {
+      const mine = side ? 0 : ++latest;
+      // Started on a later task, as a worker would, so a newer request made in the same task wins at once.
+      return macrotask().then(() => runStages(engine.stages(request), onStage, () => !side && mine !== latest)).then((o) => o === 'done');
+    },
     load(bytes, fileName, options, onProgress) {
       return Promise.resolve().then(() => engine.load(bytes, fileName, options, onProgress ?? (() => undefined)));
     },
@@ -177,34 +195,22 @@ export function inProcessBackend(): ComputeBackend {
 }
 
 /**
- * Latest-wins scheduler over a backend: at most one analysis in flight and
- * one waiting; a request superseded while waiting resolves to null.
+ * Latest-wins scheduler over a backend: each request goes out at once (the
+ * backend stops older work between stages); updates of a request that a
+ * newer one has superseded are dropped, and its promise resolves to null.
  */
 export class LatestOnly {
-  private running = false;
-  private waiting: { request: AnalyseRequest; resolve: (r: AnalyseResult | null) => void; reject: (e: Error) => void } | null = null;
-  /** Jobs actually sent to the backend (for tests and timing). */
+  private generation = 0;
+  /** Jobs sent to the backend (for tests and timing). */
   sent = 0;
 
   constructor(private readonly backend: ComputeBackend) {}
 
-  run(request: AnalyseRequest): Promise<AnalyseResult | null> {
-    return new Promise((resolve, reject) => {
-      if (this.waiting) this.waiting.resolve(null);
-      this.waiting = { request, resolve, reject };
-      this.pump();
-    });
-  }
-
-  private pump(): void {
-    if (this.running || !this.waiting) return;
-    const job = this.waiting;
-    this.waiting = null;
-    this.running = true;
+  /** True when every stage landed; null when a newer request superseded this one. */
+  run(request: AnalyseRequest, onStage: (u: StageUpdate) => void): Promise<boolean | null> {
+    const mine = ++this.generation;
     this.sent++;
-    this.backend.analyse(job.request).then(
-      (r) => { this.running = false; job.resolve(r); this.pump(); },
-      (e: Error) => { this.running = false; job.reject(e); this.pump(); },
-    );
+    return this.backend.analyse(request, (u) => { if (mine === this.generation) onStage(u); })
+      .then((done) => (mine === this.generation ? done : null), (e: Error) => { if (mine === this.generation) throw e; return null; });
   }
 }

@@ -2,7 +2,7 @@
  * The worker's side of the bridge, written as a plain object so it can run
  * in-process where no Worker exists (Node tests, very old browsers).
  */
-import { analyse, type AnalyseRequest, type AnalyseResult } from '../core/analyse.ts';
+import { AnalysisMemo, analyse, analyseStaged, type AnalyseRequest, type AnalyseResult, type StageUpdate } from '../core/analysis/index.ts';
 import { loadFileHashed } from '../core/io/load.ts';
 import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import { PipelineCache } from '../core/pipeline.ts';
@@ -13,6 +13,8 @@ import { fitRequest, type FitJobOutcome, type FitRequest } from './fit-job.ts';
 export class Engine {
   private traces = new Map<string, Trace>();
   private cache = new PipelineCache(96);
+  /** Per-trace results the current stack's edits cannot change (the raw reference, each alternative); cleared with the inputs. */
+  private memo = new AnalysisMemo();
 
   /**
    * The traces to analyse. With `keep`, `traces` are the new ones and the
@@ -34,6 +36,7 @@ export class Engine {
     this.traces = next;
     for (const id of [...this.staged.keys()]) if (next.has(id)) this.staged.delete(id);
     this.cache.clear();
+    this.memo.clear();
   }
 
   /**
@@ -43,7 +46,7 @@ export class Engine {
    */
   stage(traces: Trace[]): void {
     for (const t of traces) {
-      if (this.waiting.delete(t.id)) { this.traces.set(t.id, t); this.cache.clear(); }
+      if (this.waiting.delete(t.id)) { this.traces.set(t.id, t); this.cache.clear(); this.memo.clear(); }
       else this.staged.set(t.id, t);
     }
   }
@@ -57,7 +60,12 @@ export class Engine {
   private waiting = new Set<string>();
 
   analyse(request: AnalyseRequest): AnalyseResult {
-    return analyse(request, this.traces, STEP_REGISTRY, this.cache);
+    return analyse(request, this.traces, STEP_REGISTRY, this.cache, this.memo);
+  }
+
+  /** The same analysis stage by stage (the worker posts each update and may stop pulling when a newer request comes). */
+  stages(request: AnalyseRequest): Generator<StageUpdate, void, void> {
+    return analyseStaged(request, this.traces, STEP_REGISTRY, { pipeline: this.cache, memo: this.memo });
   }
 
   /** Fit a region (issue 18), with the same traces and pipeline cache as the analysis. */

@@ -5,7 +5,7 @@
  * core fits the region (core/measure/fit/job.ts). Kept apart from the
  * analysis so the two evolve separately.
  */
-import type { AlternativeRequest } from '../core/analyse.ts';
+import type { AlternativeRequest } from '../core/analysis/index.ts';
 import { runFitJob, type FitJobOutcome, type FitSettings, type FitVersion } from '../core/measure/fit/job.ts';
 import type { PeakStart } from '../core/measure/fit/region.ts';
 import { runPipeline, type PipelineCache } from '../core/pipeline.ts';

@@ -6,6 +6,8 @@
 import type { FromWorker, ThroughPort, ToWorker } from './protocol.ts';
 import { Engine, transferablesOf } from './engine.ts';
 import { cloneResultForTransfer } from './clone.ts';
+import { runStages } from './stager.ts';
+import { columnBuffers, toColumns } from './columns.ts';
 
 const engine = new Engine();
 const scope = self as unknown as DedicatedWorkerGlobalScope;
@@ -13,6 +15,8 @@ const scope = self as unknown as DedicatedWorkerGlobalScope;
 let peer: MessagePort | null = null;
 /** Analyses that came while traces named by the page were still on their way through the port. */
 const deferred: ToWorker[] = [];
+/** The newest analysis asked for: older ones stop between stages. */
+let latestJob = 0;
 
 function post(msg: FromWorker, transfer: Transferable[] = []) {
   scope.postMessage(msg, transfer);
@@ -24,7 +28,10 @@ function fromPeer(ev: MessageEvent<ThroughPort>) {
   while (!engine.incomplete && deferred.length) void handle(deferred.shift()!);
 }
 
-scope.onmessage = (ev: MessageEvent<ToWorker>) => { void handle(ev.data); };
+scope.onmessage = (ev: MessageEvent<ToWorker>) => {
+  if (ev.data?.type === 'analyse' && !ev.data.side) latestJob = ev.data.jobId;
+  void handle(ev.data);
+};
 
 async function handle(msg: ToWorker): Promise<void> {
   try {
@@ -45,9 +52,16 @@ async function handle(msg: ToWorker): Promise<void> {
         post({ type: 'failed', jobId: msg.jobId, message: 'A loaded trace did not reach the computation worker.', missing: true });
       }, 5000);
     } else if (msg.type === 'analyse') {
-      // Cached outputs must stay usable here, so send copies and transfer those.
-      const result = cloneResultForTransfer(engine.analyse(msg.request));
-      post({ type: 'result', jobId: msg.jobId, result }, transferablesOf(result));
+      const t0 = Date.now();
+      const jobId = msg.jobId;
+      const outcome = await runStages(engine.stages(msg.request), (update) => {
+        // Cached outputs must stay usable here, so send copies and transfer those; the peak table goes as columns.
+        const { peaks, ...rest } = update.patch;
+        const patch = cloneResultForTransfer(rest);
+        const peakColumns = peaks ? toColumns(peaks as unknown as Record<string, unknown>[]) : undefined;
+        post({ type: 'stage', jobId, update: { ...update, patch }, peakColumns }, [...transferablesOf(patch), ...(peakColumns ? columnBuffers(peakColumns) : [])]);
+      }, () => !msg.side && latestJob !== jobId);
+      post(outcome === 'done' ? { type: 'done', jobId, ms: Date.now() - t0 } : { type: 'cancelled', jobId });
     } else if (msg.type === 'fit') {
       // Issue 18: a fit's arrays are its own (not cached), so they are transferred as they are.
       const outcome = engine.fit(msg.request);

@@ -33,7 +33,7 @@ import { findLocalMaxima, peakProminences, peakWidths } from '../../src/core/mea
 import { loadFile, loadFileHashed } from '../../src/core/io/load.ts';
 import { parseDelimited } from '../../src/core/io/delimited.ts';
 import { sha256Hex, sha256HexNative } from '../../src/core/io/sha256.ts';
-import { analyse } from '../../src/core/analyse.ts';
+import { analyse } from '../../src/core/analysis/index.ts';
 import { PipelineCache } from '../../src/core/pipeline.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
 import { createTrace } from '../../src/core/trace.ts';

@@ -8,7 +8,7 @@ import { describe, expect, test } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { readNamedPeaksCsv } from '../../src/core/calibration/named-peaks.ts';
 import { defaultCalibrationSettings } from '../../src/core/calibration/settings.ts';
-import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS } from '../../src/core/analyse.ts';
+import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS } from '../../src/core/analysis/index.ts';
 import { analysisOf, emptyRecipe, parseRecipeText, recipeToJson, recipeWithAnalysis } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
 

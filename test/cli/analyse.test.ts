@@ -9,7 +9,7 @@ import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, 
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { afterAll, describe, expect, test } from 'vitest';
-import { analyse, DEFAULT_PEAK_SETTINGS } from '../../src/core/analyse.ts';
+import { analyse, DEFAULT_PEAK_SETTINGS } from '../../src/core/analysis/index.ts';
 import { cleanedTraceCsv } from '../../src/core/export/cleaned-csv.ts';
 import { peakTableCsv } from '../../src/core/export/peak-csv.ts';
 import { reportHtml } from '../../src/core/export/report-html.ts';

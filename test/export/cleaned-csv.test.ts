@@ -1,7 +1,7 @@
 import { describe, expect, test } from 'vitest';
 import fc from 'fast-check';
 import { strToU8 } from 'fflate';
-import type { AnalyseResult } from '../../src/core/analyse.ts';
+import type { AnalyseResult } from '../../src/core/analysis/index.ts';
 import { cleanedTraceCsv } from '../../src/core/export/cleaned-csv.ts';
 import { CAUTION } from '../../src/core/export/version.ts';
 import { loadFile } from '../../src/core/io/load.ts';

@@ -1,6 +1,6 @@
 /** Shared invented data and a small CSV reader for the export tests. */
 import { expect } from 'vitest';
-import { analyse, type AnalyseResult } from '../../src/core/analyse.ts';
+import { analyse, type AnalyseResult } from '../../src/core/analysis/index.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';
 import { emptyRecipe, makeRecipeStep, type Recipe } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';

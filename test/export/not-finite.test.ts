@@ -11,7 +11,7 @@ import { reportHtml } from '../../src/core/export/report-html.ts';
 import { emptyCellNote, writeCsv } from '../../src/core/io/csv-write.ts';
 import { loadFile } from '../../src/core/io/load.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
-import { analyse } from '../../src/core/analyse.ts';
+import { analyse } from '../../src/core/analysis/index.ts';
 import { recipeOf } from './helpers.ts';
 
 /** "NaN", "Infinity" or "-Infinity" standing as a word (not inside a longer word). */

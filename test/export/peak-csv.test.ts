@@ -1,5 +1,5 @@
 import { describe, expect, test } from 'vitest';
-import { analyse } from '../../src/core/analyse.ts';
+import { analyse } from '../../src/core/analysis/index.ts';
 import { BOUND_TEXT, peakMarksText, peakTableCsv, peakTableTsv } from '../../src/core/export/peak-csv.ts';
 import { CAUTION } from '../../src/core/export/version.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';

@@ -1,5 +1,5 @@
 import { describe, expect, test } from 'vitest';
-import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS } from '../../src/core/analyse.ts';
+import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS } from '../../src/core/analysis/index.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';
 import { createTrace } from '../../src/core/trace.ts';
 import { createAppStore } from '../../src/state/store.ts';

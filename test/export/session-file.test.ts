@@ -1,5 +1,5 @@
 import { describe, expect, test } from 'vitest';
-import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS } from '../../src/core/analyse.ts';
+import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS } from '../../src/core/analysis/index.ts';
 import { createTrace } from '../../src/core/trace.ts';
 import type { SessionSnapshot } from '../../src/ui/export/session-db.ts';
 import { base64ToFloat64, float64ToBase64, sessionFileText, sessionFromFileText } from '../../src/ui/export/session-file.ts';

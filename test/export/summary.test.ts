@@ -7,7 +7,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, test } from 'vitest';
-import { analyse, DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type NoiseSettings, type PeakSettings } from '../../src/core/analyse.ts';
+import { analyse, DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type NoiseSettings, type PeakSettings } from '../../src/core/analysis/index.ts';
 import { peakTableCsv } from '../../src/core/export/peak-csv.ts';
 import { loadFile } from '../../src/core/io/load.ts';
 import { analysisSummary, summaryJson, type Summary } from '../../src/core/export/summary.ts';

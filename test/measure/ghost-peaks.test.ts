@@ -5,7 +5,7 @@
  * is checked against the height put in (within 3 σ of the processed noise).
  */
 import { describe, expect, it } from 'vitest';
-import { analyse } from '../../src/core/analyse.ts';
+import { analyse } from '../../src/core/analysis/index.ts';
 import { emptyRecipe, makeRecipeStep, type Recipe } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY, stepDefinition } from '../../src/core/steps/registry.ts';
 import { createTrace } from '../../src/core/trace.ts';

@@ -7,7 +7,7 @@
  * change, S/N came out 2.3–3.4 × too high on such traces after smoothing.
  */
 import { describe, expect, it } from 'vitest';
-import { analyse } from '../../src/core/analyse.ts';
+import { analyse } from '../../src/core/analysis/index.ts';
 import { emptyRecipe, makeRecipeStep, type Recipe } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
 import { createTrace } from '../../src/core/trace.ts';

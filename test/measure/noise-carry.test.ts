@@ -13,7 +13,7 @@
  * checks (mean within 5 %), 8 of 2·10⁴ for each simulated step (within 10 %).
  */
 import { describe, expect, it } from 'vitest';
-import { analyse } from '../../src/core/analyse.ts';
+import { analyse } from '../../src/core/analysis/index.ts';
 import { carryLinear, isLinearStack, noiseShapingTaps, passedVariance, simulatedNoise } from '../../src/core/measure/noise-carry.ts';
 import { constantProfile, sigmaAt } from '../../src/core/measure/noise-profile.ts';
 import { runPipeline } from '../../src/core/pipeline.ts';

@@ -3,7 +3,7 @@
  * CSV header and in the report; a fallback is never silent.
  */
 import { describe, expect, test } from 'vitest';
-import { analyse } from '../../src/core/analyse.ts';
+import { analyse } from '../../src/core/analysis/index.ts';
 import { peakTableCsv } from '../../src/core/export/peak-csv.ts';
 import { reportHtml } from '../../src/core/export/report-html.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';

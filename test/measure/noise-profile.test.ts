@@ -1,7 +1,7 @@
 /** σ profiles (src/core/measure/noise-profile.ts) and their use for each peak's S/N. */
 import { describe, expect, it } from 'vitest';
 import { constantProfile, profileFromValues, profileMedian, profileRange, sigmaAt } from '../../src/core/measure/noise-profile.ts';
-import { analyse } from '../../src/core/analyse.ts';
+import { analyse } from '../../src/core/analysis/index.ts';
 import { emptyRecipe } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
 import { createTrace } from '../../src/core/trace.ts';

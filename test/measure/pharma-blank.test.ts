@@ -10,7 +10,7 @@
  * compares ranges with ranges, measured the same way.
  */
 import { describe, expect, it } from 'vitest';
-import { analyse, DEFAULT_PEAK_SETTINGS } from '../../src/core/analyse.ts';
+import { analyse, DEFAULT_PEAK_SETTINGS } from '../../src/core/analysis/index.ts';
 import { runPipeline } from '../../src/core/pipeline.ts';
 import { emptyRecipe, makeRecipeStep } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY, stepDefinition } from '../../src/core/steps/registry.ts';

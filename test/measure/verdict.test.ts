@@ -6,7 +6,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { combineVerdict, HEIGHT_LOSS_TOLERANCE, residualDiagnostics } from '../../src/core/diagnostics.ts';
-import { analyse } from '../../src/core/analyse.ts';
+import { analyse } from '../../src/core/analysis/index.ts';
 import { emptyRecipe, makeRecipeStep } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
 import { createTrace } from '../../src/core/trace.ts';

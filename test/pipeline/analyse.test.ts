@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { analyse } from '../../src/core/analyse.ts';
+import { analyse } from '../../src/core/analysis/index.ts';
 import { PipelineCache } from '../../src/core/pipeline.ts';
 import { makeRecipeStep, emptyRecipe } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY, stepDefinition } from '../../src/core/steps/registry.ts';

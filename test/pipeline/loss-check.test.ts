@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
-import { analyse, type AlternativeRequest } from '../../src/core/analyse.ts';
+import { analyse, type AlternativeRequest } from '../../src/core/analysis/index.ts';
 import { emptyRecipe, makeRecipeStep, type Recipe } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY, stepDefinition } from '../../src/core/steps/registry.ts';
 import { loadFile } from '../../src/core/io/load.ts';

@@ -5,7 +5,7 @@ import { sha256Hex } from '../../src/core/io/sha256.ts';
 import { emptyRecipe, makeRecipeStep, type Recipe } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY, stepDefinition } from '../../src/core/steps/registry.ts';
 import type { Trace } from '../../src/core/trace.ts';
-import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS } from '../../src/core/analyse.ts';
+import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS } from '../../src/core/analysis/index.ts';
 
 const hashOf = (t: Trace) => `${sha256Hex(new Uint8Array(t.x.buffer, t.x.byteOffset, t.x.byteLength))}/${sha256Hex(new Uint8Array(t.y.buffer, t.y.byteOffset, t.y.byteLength))}`;
 

@@ -4,7 +4,7 @@
  * files still readable, every bad setting named.
  */
 import { describe, expect, test } from 'vitest';
-import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS } from '../../src/core/analyse.ts';
+import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS } from '../../src/core/analysis/index.ts';
 import { analysisOf, emptyRecipe, makeRecipeStep, parseRecipeText, recipeStepsOnly, recipeToJson, recipeWithAnalysis, RECIPE_VERSION } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
 

@@ -35,7 +35,7 @@ describe('traces cross to the worker once', () => {
     expect(inputs.map((m) => [m.traces.map((t) => t.id), m.keep])).toEqual([[['a'], ['a']], [['b'], ['a', 'b']], [['c'], ['b', 'c']]]);
     // A fault: the worker is replaced, and the next analysis first hands it every current trace.
     w.onerror!({ message: 'boom' } as ErrorEvent);
-    void backend.analyse({ sampleId: 'b', scanIds: [], recipe: emptyRecipe() }).catch(() => undefined);
+    void backend.analyse({ sampleId: 'b', scanIds: [], recipe: emptyRecipe() }, () => undefined).catch(() => undefined);
     const w2 = FakeWorker.made.at(-1)!;
     expect(w2).not.toBe(w);
     expect(w2.posted.map((m) => m.type)).toEqual(['inputs', 'analyse']);

@@ -5,7 +5,7 @@
  * cannot be read or analysed is listed with the reason and the rest go on.
  */
 import { strToU8, zipSync, type Zippable } from 'fflate';
-import { analyse, DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type NoiseSettings, type PeakSettings } from '../analyse.ts';
+import { analyse, DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type NoiseSettings, type PeakSettings } from '../analysis/index.ts';
 import { writeCsv, type CsvCellOptions } from '../io/csv-write.ts';
 import { loadFile } from '../io/load.ts';
 import { recipeToJson, type Recipe, type Registry } from '../recipe.ts';

@@ -4,7 +4,7 @@
  * a header of comment lines that ties the numbers to the input bytes
  * (file name, SHA-256), the recipe, the tool version and the time.
  */
-import type { AnalyseResult } from '../analyse.ts';
+import type { AnalyseResult } from '../analysis/index.ts';
 import { writeCsv, type CsvCellOptions } from '../io/csv-write.ts';
 import { interpolateLinear } from '../numeric/interpolate.ts';
 import { recipeInWords, recipeToJson, type Recipe, type Registry } from '../recipe.ts';

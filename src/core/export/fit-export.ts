@@ -4,7 +4,7 @@
  * optional figures), the report's fit section with its plots, and the
  * summary's `fits` field. The page and the command line call the same code.
  */
-import type { AnalyseResult } from '../analyse.ts';
+import type { AnalyseResult } from '../analysis/index.ts';
 import { FIGURE_FORMULAS, chromatographicFigures, type ChromatographicFigureName, type FigureValue, type PeakChromatographicFigures } from '../measure/figures.ts';
 import type { FitJobResult } from '../measure/fit/job.ts';
 import { SHAPES } from '../measure/fit/shapes.ts';

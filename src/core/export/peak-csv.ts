@@ -5,7 +5,7 @@
  * limits, and which peaks were added or removed by hand.
  */
 import { ghostCell, ghostColumnHeader } from '../measure/ghost-peaks.ts'; // issue 20
-import type { AnalyseResult } from '../analyse.ts';
+import type { AnalyseResult } from '../analysis/index.ts';
 import { writeCsv, type CsvCellOptions } from '../io/csv-write.ts';
 import type { NoiseEstimate } from '../noise.ts';
 import type { BoundKind, Peak, PeakFlag, PeakMark, SnrDefinition, SplitRule } from '../measure/peak-types.ts';

@@ -7,7 +7,7 @@
  * limits in amount beside the S/N limits; then this trace's amounts with
  * their intervals and marks.
  */
-import type { AnalyseResult } from '../analyse.ts';
+import type { AnalyseResult } from '../analysis/index.ts';
 import type { CalibrationExport, ExportAmount, ExportCalibration, Num } from '../calibration/export.ts';
 import { escapeText } from './html-text.ts';
 

@@ -11,7 +11,7 @@
  * through. Plot images are accepted only as PNG or SVG data and are shown
  * through <img>, where an SVG cannot run scripts or fetch anything.
  */
-import type { AnalyseResult } from '../analyse.ts';
+import type { AnalyseResult } from '../analysis/index.ts';
 import { recipeInWords, recipeToJson, type Recipe, type Registry } from '../recipe.ts';
 import { axisLabel, type Trace } from '../trace.ts';
 import { escapeText } from './html-text.ts';

@@ -10,7 +10,7 @@
  * This is the one place the summary is built.
  */
 import { fitSummary, type FitForExport } from './fit-export.ts';
-import type { AnalyseResult } from '../analyse.ts';
+import type { AnalyseResult } from '../analysis/index.ts';
 import type { PeakFlag, SnrDefinition } from '../measure/peak-types.ts';
 import { analysisOf, recipeToJson, type Recipe, type Registry } from '../recipe.ts';
 import type { Trace } from '../trace.ts';

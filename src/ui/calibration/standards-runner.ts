@@ -5,7 +5,7 @@
  * with the sample's method (no hand decisions, no alternatives) and its
  * peaks go into the store. A newer change drops the older run's results.
  */
-import type { AnalyseRequest } from '../../core/analyse.ts';
+import type { AnalyseRequest } from '../../core/analysis/index.ts';
 import type { AppState } from '../../state/store.ts';
 import { useApp } from '../../state/store.ts';
 import type { StandardPeaks } from '../../state/calibration-slice.ts';

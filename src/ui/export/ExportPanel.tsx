@@ -61,7 +61,9 @@ export function ExportPanel({ getFigure }: Props) {
   const [askStartOver, setAskStartOver] = useState(false);
   const recipeInput = useRef<HTMLInputElement>(null);
   const batchInput = useRef<HTMLInputElement>(null);
-  const ready = !!(sample && result);
+  // Exports wait until every stage of the newest analysis has landed (issue 16): never a mix of old and new figures.
+  const settled = useApp((s) => s.pending.length === 0);
+  const ready = !!(sample && result && settled);
   // Lost or weakened features (exports ask for a confirmation when there are any) and the ledger, from the loss check.
   const losses = result?.loss?.currentWarnings ?? [];
   const ledgerOut: LossLedgerLike | null = result?.loss?.ledger ?? null;

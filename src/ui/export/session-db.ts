@@ -29,7 +29,7 @@
  * database.
  */
 import { deleteDB, openDB, type IDBPDatabase } from 'idb';
-import type { AlternativeRequest, NoiseSettings, PeakSettings } from '../../core/analyse.ts';
+import type { AlternativeRequest, NoiseSettings, PeakSettings } from '../../core/analysis/index.ts';
 import type { LoadReport } from '../../core/io/types.ts';
 import type { PeakDecisions } from '../../core/measure/peak-types.ts';
 import { emptyRecipe, validateRecipe, type Recipe, type Registry } from '../../core/recipe.ts';

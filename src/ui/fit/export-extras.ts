@@ -3,7 +3,7 @@
  * (marked out of date when the stack changed since a fit of the processed
  * trace), the extra peak table columns and their explaining lines.
  */
-import type { AnalyseResult } from '../../core/analyse.ts';
+import type { AnalyseResult } from '../../core/analysis/index.ts';
 import { extraPeakColumns, figureFormulaLines, fitCommentLines, type ExtraPeakColumns, type FitForExport } from '../../core/export/fit-export.ts';
 import type { Trace } from '../../core/trace.ts';
 import { useApp } from '../../state/store.ts';

@@ -1,0 +1,89 @@
+import { expect, test, type Page } from '@playwright/test';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { openWithDemo } from './helpers.ts';
+import { makeRng } from '../src/core/numeric/random.ts';
+
+/** What identifies one peak table: its counts, the noise-bump sentence and its first rows. */
+async function settledTable(page: Page): Promise<string> {
+  await expect(page.locator('.busy')).toHaveCount(0, { timeout: 180_000 });
+  await expect(page.getByTestId('peak-panel')).not.toHaveAttribute('data-provisional', 'true', { timeout: 180_000 });
+  return page.evaluate(() => (window as unknown as { __table: () => string }).__table());
+}
+
+async function setWindow(page: Page, value: number): Promise<void> {
+  await page.evaluate((v) => {
+    const el = document.querySelector<HTMLInputElement>('[data-testid="step-moving-average"] input[type="range"]')!;
+    Object.getOwnPropertyDescriptor(HTMLInputElement.prototype, 'value')!.set!.call(el, String(v));
+    el.dispatchEvent(new Event('input', { bubbles: true }));
+  }, value);
+}
+
+test('a drag of 10 slider steps on 10⁶ points ends with the table of the last value, and no earlier value’s table appears after it', async ({ page }) => {
+  test.setTimeout(480_000);
+  // Invented: three Gaussian peaks on 10⁶ points of seeded white noise (the project's generator), in a temporary CSV.
+  const n = 1_000_000;
+  const rng = makeRng(16);
+  const peaks = [[200_000, 30, 15], [500_000, 80, 25], [800_000, 12, 40]];
+  const lines = ['time (s),signal (mV)'];
+  for (let i = 0; i < n; i++) {
+    let v = rng.normal();
+    for (const [c, h, s] of peaks) { const d = (i - c) / s; if (d * d < 100) v += h * Math.exp(-0.5 * d * d); }
+    lines.push(`${(i * 0.001).toFixed(3)},${v.toFixed(3)}`);
+  }
+  const dir = mkdtempSync(join(tmpdir(), 'tracewright-e2e-drag-'));
+  const file = join(dir, 'drag-long.csv');
+  writeFileSync(file, `${lines.join('\n')}\n`);
+  try {
+    await openWithDemo(page);
+    await page.getByTestId('file-input').setInputFiles(file);
+    await expect(page.getByRole('heading', { name: /drag-long\.csv/ })).toBeVisible({ timeout: 90_000 });
+    await page.selectOption('#add-step-choice', 'moving-average');
+    await page.getByRole('button', { name: 'Add step' }).click();
+    await expect(page.getByTestId('step-moving-average').locator('input[type="range"]')).toBeVisible();
+    // Every state the peak table passes through, recorded in the page as it changes.
+    await page.evaluate(() => {
+      const w = window as unknown as { __table: () => string; __seen: string[] };
+      w.__table = () => {
+        const panel = document.querySelector('[data-testid="peak-panel"]');
+        if (!panel) return '';
+        const rows = Array.from(panel.querySelectorAll('tbody tr')).slice(0, 5).map((r) => r.textContent);
+        return [panel.querySelector('[data-testid="peak-summary"]')?.textContent, panel.querySelector('[data-testid="noise-bumps"]')?.textContent, ...rows].join(' | ');
+      };
+      w.__seen = [];
+      new MutationObserver(() => {
+        const panel = document.querySelector('[data-testid="peak-panel"]');
+        // Only tables the page shows as final count (a provisional one says so on the page).
+        if (!panel || panel.getAttribute('data-provisional') === 'true') return;
+        const t = w.__table();
+        if (w.__seen.at(-1) !== t) w.__seen.push(t);
+      }).observe(document.body, { subtree: true, childList: true, characterData: true, attributes: true });
+    });
+    await settledTable(page);
+    await page.evaluate(() => { (window as unknown as { __seen: string[] }).__seen = []; });
+
+    // The drag: windows 5, 7, …, 23 points, one step every 40 ms (faster than one analysis of 10⁶ points).
+    const values = Array.from({ length: 10 }, (_, k) => 5 + 2 * k);
+    for (const v of values) {
+      await setWindow(page, v);
+      await page.waitForTimeout(40);
+    }
+    const final = await settledTable(page);
+    const seen = await page.evaluate(() => (window as unknown as { __seen: string[] }).__seen);
+
+    // The last value's own table, worked out on its own (away and back again).
+    await setWindow(page, 41);
+    const other = await settledTable(page);
+    await setWindow(page, values.at(-1)!);
+    const last = await settledTable(page);
+    expect(other).not.toBe(last);
+    expect(final).toBe(last);
+    // Once the last value's table was shown, nothing else was shown as final after it.
+    const first = seen.indexOf(last);
+    expect(first).toBeGreaterThanOrEqual(0);
+    expect(seen.slice(first)).toEqual([last]);
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+});

@@ -1,0 +1,36 @@
+/**
+ * One job per alternative stack: run it, measure noise and peaks with the
+ * same settings as the current stack, and test its residual. Kept per trace
+ * and settings (memo): moving the current stack's slider changes none of it.
+ */
+import type { PipelineCache } from '../../pipeline.ts';
+import type { Registry } from '../../recipe.ts';
+import type { Signal, StepContext } from '../../steps/types.ts';
+import { residualDiagnostics } from '../../diagnostics.ts';
+import type { AlternativeMeasured, AnalysisMemo } from '../memo.ts';
+import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type AlternativeRequest, type AnalyseRequest } from '../request.ts';
+import { measurePeaks } from './measure.ts';
+import { processSample, stackOf } from './process.ts';
+import { maxAbs, residualOfRun } from './residual.ts';
+
+export function measureAlternative(
+  request: AnalyseRequest, alt: AlternativeRequest, raw: Signal, ctx: StepContext, registry: Registry, memo: AnalysisMemo, cache?: PipelineCache,
+): AlternativeMeasured {
+  const ps = { ...(request.peaks ?? DEFAULT_PEAK_SETTINGS), measureOn: 'processed' as const };
+  const noiseSettings = request.noise ?? DEFAULT_NOISE_SETTINGS;
+  const key = JSON.stringify([alt.id, alt.label, alt.recipe.steps, noiseSettings, ps, request.blankId ?? null, request.scanIds]);
+  return memo.alternatives.get(request.sampleId, raw.y, key, () => {
+    const r = processSample(raw, request.sampleId, alt.recipe, registry, ctx, cache);
+    const measured = measurePeaks(r.final, raw, noiseSettings, ps, ctx, stackOf(r, alt.recipe, registry, ctx, request.sampleId));
+    const res = residualOfRun(raw, r);
+    const diag = res.ok && r.runs.some((x) => x.status === 'ok') ? residualDiagnostics(res.residual.y, maxAbs(raw.y)) : null;
+    return {
+      measured,
+      outcome: {
+        id: alt.id, label: alt.label, processed: r.final, diagnostics: diag,
+        noiseSigma: measured.noise?.sigma.sigma ?? null, peakCount: measured.peaks.length,
+        problems: r.runs.filter((x) => x.status === 'error').map((x) => x.message ?? 'a step could not run'),
+      },
+    };
+  });
+}

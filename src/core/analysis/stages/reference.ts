@@ -1,0 +1,16 @@
+/**
+ * The raw trace measured with the user's settings (hand decisions left out):
+ * the loss check's reference column and what "appears only after processing"
+ * is judged against. Worked out once per trace and settings (memo).
+ */
+import type { Signal, StepContext } from '../../steps/types.ts';
+import type { AnalysisMemo } from '../memo.ts';
+import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type AnalyseRequest } from '../request.ts';
+import { measurePeaks, type Measured } from './measure.ts';
+
+export function rawReference(request: AnalyseRequest, raw: Signal, ctx: StepContext, memo: AnalysisMemo): Measured {
+  const ps = { ...(request.peaks ?? DEFAULT_PEAK_SETTINGS), measureOn: 'processed' as const };
+  const noiseSettings = request.noise ?? DEFAULT_NOISE_SETTINGS;
+  const key = JSON.stringify([noiseSettings, ps, ctx.blank?.id ?? null]);
+  return memo.reference.get(request.sampleId, raw.y, key, () => measurePeaks(raw, raw, noiseSettings, ps, ctx, null));
+}

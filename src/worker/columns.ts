@@ -1,0 +1,107 @@
+/**
+ * Rows of plain objects (the peak table) as columns of typed arrays, so they
+ * cross from the worker with a transfer list instead of a structured clone
+ * of one object per row. Exact: every number keeps its bits, and a missing
+ * field stays missing, null stays null.
+ *
+ * A field whose values are all numbers (or null / absent) becomes a
+ * Float64Array, with a Uint8Array of kinds only when some value is not a
+ * number; all strings (or absent), a dictionary of the distinct strings and
+ * a Uint32Array of codes; all booleans (or absent), a Uint8Array; anything
+ * else (a list of marks, a nested object) stays a plain list.
+ */
+type Row = Record<string, unknown>;
+
+const ABSENT = 0, NULL = 1, VALUE = 2;
+
+export type Column =
+  | { kind: 'number'; values: Float64Array; kinds?: Uint8Array }
+  | { kind: 'string'; dictionary: string[]; codes: Uint32Array }
+  | { kind: 'boolean'; values: Uint8Array }
+  | { kind: 'plain'; values: unknown[] };
+
+export interface Columns {
+  readonly columnar: true;
+  length: number;
+  /** Field names in the order the first row had them (then any later ones). */
+  fields: string[];
+  columns: Record<string, Column>;
+}
+
+export function toColumns(rows: readonly Row[]): Columns {
+  const fields: string[] = [];
+  const seen = new Set<string>();
+  for (const r of rows) for (const k of Object.keys(r)) if (!seen.has(k)) { seen.add(k); fields.push(k); }
+  const n = rows.length;
+  const columns: Record<string, Column> = {};
+  for (const f of fields) {
+    let numbers = true, strings = true, booleans = true, someNotNumber = false;
+    for (const r of rows) {
+      const v = r[f];
+      const t = typeof v;
+      if (v === undefined) { someNotNumber = true; continue; }
+      if (t !== 'number') { numbers = numbers && v === null; someNotNumber = true; }
+      if (t !== 'string') strings = false;
+      if (t !== 'boolean') booleans = false;
+    }
+    if (numbers) {
+      const values = new Float64Array(n);
+      const kinds = someNotNumber ? new Uint8Array(n) : undefined;
+      for (let i = 0; i < n; i++) {
+        const v = rows[i][f];
+        if (typeof v === 'number') { values[i] = v; if (kinds) kinds[i] = VALUE; } else if (kinds) kinds[i] = v === null ? NULL : ABSENT;
+      }
+      columns[f] = kinds ? { kind: 'number', values, kinds } : { kind: 'number', values };
+    } else if (strings) {
+      const dictionary: string[] = [];
+      const index = new Map<string, number>();
+      const codes = new Uint32Array(n);
+      for (let i = 0; i < n; i++) {
+        const v = rows[i][f] as string | undefined;
+        if (v === undefined) { codes[i] = 0xffffffff; continue; }
+        let c = index.get(v);
+        if (c === undefined) { c = dictionary.length; dictionary.push(v); index.set(v, c); }
+        codes[i] = c;
+      }
+      columns[f] = { kind: 'string', dictionary, codes };
+    } else if (booleans) {
+      const values = new Uint8Array(n);
+      for (let i = 0; i < n; i++) { const v = rows[i][f]; values[i] = v === undefined ? 2 : v ? 1 : 0; }
+      columns[f] = { kind: 'boolean', values };
+    } else {
+      columns[f] = { kind: 'plain', values: rows.map((r) => r[f]) };
+    }
+  }
+  return { columnar: true, length: n, fields, columns };
+}
+
+export function fromColumns<T>(c: Columns): T[] {
+  const out: Row[] = new Array(c.length);
+  for (let i = 0; i < c.length; i++) {
+    const row: Row = {};
+    for (const f of c.fields) {
+      const col = c.columns[f];
+      if (col.kind === 'number') {
+        const k = col.kinds ? col.kinds[i] : VALUE;
+        if (k === VALUE) row[f] = col.values[i]; else if (k === NULL) row[f] = null;
+      } else if (col.kind === 'string') {
+        if (col.codes[i] !== 0xffffffff) row[f] = col.dictionary[col.codes[i]];
+      } else if (col.kind === 'boolean') {
+        if (col.values[i] !== 2) row[f] = col.values[i] === 1;
+      } else if (col.values[i] !== undefined) row[f] = col.values[i];
+    }
+    out[i] = row;
+  }
+  return out as T[];
+}
+
+/** The typed-array buffers of some columns, for the transfer list. */
+export function columnBuffers(c: Columns): ArrayBuffer[] {
+  const out: ArrayBuffer[] = [];
+  for (const col of Object.values(c.columns)) {
+    if (col.kind === 'number') { out.push(col.values.buffer as ArrayBuffer); if (col.kinds) out.push(col.kinds.buffer as ArrayBuffer); }
+    else if (col.kind === 'string') out.push(col.codes.buffer as ArrayBuffer);
+    else if (col.kind === 'boolean') out.push(col.values.buffer as ArrayBuffer);
+  }
+  return out;
+}
