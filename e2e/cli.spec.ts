@@ -1,10 +1,10 @@
-import { expect, test, type Download, type Page } from '@playwright/test';
+import { expect, test } from '@playwright/test';
 import { execFile } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { buildCli, type BuiltCli } from '../test/cli/build-cli.ts';
-import { openWithDemo } from './helpers.ts';
+import { addStep, csvBody, download, openWithDemo, reportBody, settled } from './helpers.ts';
 
 // The page's exports of the demo, downloaded, against the command line run on the same files with the
 // method the page saved: equal apart from the time stamp line, the byte-order mark and the confirmation.
@@ -21,37 +21,9 @@ test.afterAll(() => {
   if (built) rmSync(built.root, { recursive: true, force: true });
 });
 
-async function download(page: Page, testId: string): Promise<{ d: Download; text: string }> {
-  const waiting = page.waitForEvent('download');
-  await page.getByTestId(testId).click();
-  const dialog = page.getByTestId('loss-confirm');
-  if (await dialog.waitFor({ timeout: 1500 }).then(() => true, () => false)) await dialog.getByRole('button', { name: 'Export anyway' }).click();
-  const d = await waiting;
-  return { d, text: readFileSync(await d.path(), 'utf8') };
-}
-
-async function addStep(page: Page, id: string) {
-  await page.selectOption('#add-step-choice', id);
-  await page.getByRole('button', { name: 'Add step' }).click();
-}
-
-/** Wait until no analysis is running (the busy mark is gone and stays gone). */
-async function settled(page: Page) {
-  for (let i = 0; i < 2; i++) {
-    await expect(page.locator('[aria-label="computing"]')).toHaveCount(0, { timeout: 30_000 });
-    await page.waitForTimeout(300);
-  }
-}
-
 function cli(args: string[]): Promise<{ code: number; stderr: string }> {
   return new Promise((done) => execFile(process.execPath, [built.bin, ...args], { env: { ...process.env } }, (err, _out, stderr) => done({ code: err ? Number(err.code) : 0, stderr })));
 }
-
-const ISO = /\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d{3}Z/g;
-/** A CSV without its byte-order mark and its "Written at" comment line. */
-const csvBody = (text: string) => text.replace(/^\uFEFF/, '').split('\r\n').filter((l) => !l.startsWith('# Written at:')).join('\r\n');
-/** A report without its time stamps and without the user's confirmation block. */
-const reportBody = (html: string) => html.replace(/\n<div class="confirm" data-role="confirmation">[\s\S]*?<\/ul><\/div>/, '').replace(ISO, 'TIME');
 
 test('the command line writes the page\'s exports of the demo, with the method the page saved', async ({ page }) => {
   test.setTimeout(120_000);

@@ -1,21 +1,12 @@
-import { expect, test, type Download, type Page } from '@playwright/test';
+import { expect, test, type Page } from '@playwright/test';
 import { readFileSync } from 'node:fs';
-import { openWithDemo } from './helpers.ts';
+import { download, openWithDemo } from './helpers.ts';
 
 // Issue 18 on the demo (invented data, scripts/make-demo.mjs; truth in public/demo/demo-truth.json): the main
 // peak at 6.0 min carries a shoulder at 6.35 min of true S/N 4.4, which the peak table on the raw trace rarely
 // finds alone. A fit of the region on the raw trace must support two peaks.
 const truth = JSON.parse(readFileSync('public/demo/demo-truth.json', 'utf8')) as { peaks: { label: string; centre: number; height: number; sigma: number }[] };
 const shoulder = truth.peaks.find((p) => p.label === 'shoulder')!;
-
-async function download(page: Page, testId: string): Promise<{ d: Download; text: string }> {
-  const waiting = page.waitForEvent('download');
-  await page.getByTestId(testId).click();
-  const dialog = page.getByTestId('loss-confirm');
-  if (await dialog.waitFor({ timeout: 1500 }).then(() => true, () => false)) await dialog.getByRole('button', { name: 'Export anyway' }).click();
-  const d = await waiting;
-  return { d, text: readFileSync(await d.path()).toString('utf8').replace(/^\uFEFF/, '') };
-}
 
 /** Drag across the main plot from x = a to x = b (data units) with "Mark a range" on. */
 async function markRange(page: Page, a: number, b: number): Promise<void> {
@@ -65,7 +56,7 @@ test('fit the shoulder region on the raw trace: two peaks supported, drawn with 
   expect(Math.abs(Number(position.split(' ± ')[0]) - shoulder.centre)).toBeLessThan(0.03);
 
   // Peak CSV: fitted area columns, the main peak's row carries fit 1, peak 1; the comment names the decision.
-  const csv = (await download(page, 'export-peaks-csv')).text;
+  const csv = (await download(page, 'export-peaks-csv')).text.replace(/^\uFEFF/, '');
   expect(csv).toContain('# Fit 1: raw trace');
   const lines = csv.split('\r\n').filter((l) => l && !l.startsWith('#'));
   const header = lines[0].split(',');
@@ -77,7 +68,7 @@ test('fit the shoulder region on the raw trace: two peaks supported, drawn with 
   expect(main.join(',')).toContain('fit 1, peak 1 of 2');
 
   // Report: the fit section with its plot and residual plot (SVG drawn by the core) and the fitted areas.
-  const html = (await download(page, 'export-report')).text;
+  const html = (await download(page, 'export-report')).text.replace(/^\uFEFF/, '');
   const section = html.slice(html.indexOf('<h2>Region fits</h2>'), html.indexOf('<h2>What the processing may have lost</h2>'));
   expect(section).toContain('supports 2 Gaussian peaks');
   expect((section.match(/<svg/g) ?? []).length).toBe(2);

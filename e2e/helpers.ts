@@ -1,4 +1,5 @@
-import { expect, type Page } from '@playwright/test';
+import { expect, type Download, type Page } from '@playwright/test';
+import { readFileSync } from 'node:fs';
 
 export interface PlottedTrace { name: string; x: number[]; y: number[] }
 
@@ -30,3 +31,33 @@ export async function sessionSaved(page: Page): Promise<void> {
   await expect(status).toContainText('kept in this browser', { timeout: 30_000 });
   await expect(status).toHaveAttribute('data-pending', 'false', { timeout: 30_000 });
 }
+
+/** Click an export button, confirm the loss dialog when it asks, and read the downloaded file as text. */
+export async function download(page: Page, testId: string): Promise<{ d: Download; text: string }> {
+  const waiting = page.waitForEvent('download');
+  await page.getByTestId(testId).click();
+  const dialog = page.getByTestId('loss-confirm');
+  if (await dialog.waitFor({ timeout: 1500 }).then(() => true, () => false)) await dialog.getByRole('button', { name: 'Export anyway' }).click();
+  const d = await waiting;
+  return { d, text: readFileSync(await d.path(), 'utf8') };
+}
+
+/** Add a step by its id from the step menu. */
+export async function addStep(page: Page, id: string): Promise<void> {
+  await page.selectOption('#add-step-choice', id);
+  await page.getByRole('button', { name: 'Add step' }).click();
+}
+
+/** Wait until no analysis is running (the busy mark is gone and stays gone). */
+export async function settled(page: Page): Promise<void> {
+  for (let i = 0; i < 2; i++) {
+    await expect(page.locator('[aria-label="computing"]')).toHaveCount(0, { timeout: 30_000 });
+    await page.waitForTimeout(300);
+  }
+}
+
+const ISO = /\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d{3}Z/g;
+/** A CSV without its byte-order mark and its "Written at" comment line. */
+export const csvBody = (text: string): string => text.replace(/^\uFEFF/, '').split('\r\n').filter((l) => !l.startsWith('# Written at:')).join('\r\n');
+/** A report without its time stamps and without the user's confirmation block. */
+export const reportBody = (html: string): string => html.replace(/\n<div class="confirm" data-role="confirmation">[\s\S]*?<\/ul><\/div>/, '').replace(ISO, 'TIME');
