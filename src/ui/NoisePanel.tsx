@@ -1,4 +1,4 @@
-import type { NoiseMethod, PeakSettings } from '../core/analysis/index.ts';
+import { sigmaProvisional, type NoiseMethod, type PeakSettings } from '../core/analysis/index.ts';
 import { useApp } from '../state/store.ts';
 import { num, SNR_WORDS } from './format.ts';
 import { profileRange, type SigmaProfile } from '../core/measure/noise-profile.ts';
@@ -23,6 +23,8 @@ function NumberField({ label, value, min, max, step, unit, onChange }: { label: 
 /** Noise method, quiet range and peak thresholds. */
 export function NoisePanel() {
   const noise = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result.noise : null));
+  // Issue 14: σ (so every S/N) is provisional until the noise stage of the newest request lands.
+  const sigmaWaiting = useApp((s) => sigmaProvisional(s.pending, s.result && s.result.sampleId === s.sampleId ? s.result.noise : null));
   const settings = useApp((s) => s.noiseSettings);
   const ps = useApp((s) => s.peakSettings);
   const marked = useApp((s) => s.markedRange);
@@ -56,7 +58,7 @@ export function NoisePanel() {
               <dd>
                 <span data-testid="noise-sigma">{num(noise.sigma.sigma)}</span>
                 {range && <span className="small"> (median; {num(range[0])} to {num(range[1])} along the trace, each peak uses the σ at its apex)</span>}
-                {noise.provisional && <span className="badge warn-text" data-testid="noise-provisional"> S/N provisional</span>}
+                {sigmaWaiting && <span className="badge warn-text" data-testid="noise-provisional"> S/N provisional: σ from before the latest change, still being carried through the steps</span>}
               </dd>
               {noise.rawSigma && noise.carried && <><dt>σ of the raw trace</dt><dd>{num(noise.rawSigma.sigma)} ({noise.rawSigma.points} points)</dd></>}
               {noise.carried && noise.carried.route !== 'none' && (

@@ -2,6 +2,7 @@ import { useState } from 'react';
 import { useShallow } from 'zustand/react/shallow';
 import type { Peak, PeakMark } from '../core/measure/peak-types.ts';
 import { noiseBumpSentence } from '../core/measure/noise-bumps.ts';
+import { sigmaProvisional } from '../core/analysis/result.ts';
 import { BOUND_TEXT, MARK_TEXT, SPLIT_TEXT } from '../core/export/peak-csv.ts';
 import { useApp } from '../state/store.ts';
 import { FLAG_WORDS, num, SNR_WORDS } from './format.ts';
@@ -39,6 +40,7 @@ export function PeakTable() {
     : null)));
   const resultSeq = useApp((s) => s.stageSeq.peaks);
   const provisional = useApp((s) => s.pending.includes('peaks'));
+  const sigmaWaiting = useApp((s) => sigmaProvisional(s.pending, s.result?.noise ?? null)); // issue 14
   const bumpsPending = useApp((s) => s.pending.includes('bumps'));
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const selected = useApp((s) => s.selectedPeakX);
@@ -68,7 +70,7 @@ export function PeakTable() {
   let totalArea = 0;
   for (const p of all) if (!p.removedByUser) totalArea += p.area;
   return (
-    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq} data-provisional={provisional || bumpsPending ? 'true' : undefined}>
+    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq} data-provisional={provisional || bumpsPending ? 'true' : undefined} data-snr-provisional={provisional || sigmaWaiting ? 'true' : undefined}>
       <div className="panel-head">
         <h2 id="peaks-title">Peaks</h2>
         <div className="row">
@@ -76,7 +78,7 @@ export function PeakTable() {
           {(decisions.added.length > 0 || decisions.removed.length > 0 || (decisions.bounds?.length ?? 0) > 0) && <button type="button" className="link" onClick={clearDecisions}>undo all hand edits</button>}
         </div>
       </div>
-      {provisional && <p className="small provisional" data-testid="peaks-provisional">Provisional: these rows are from before the latest change; the new table is being worked out.</p>}
+      {provisional && <p className="small provisional" data-testid="peaks-provisional">Provisional: these rows are from before the latest change; the new table is being worked out.{sigmaWaiting && ' S/N provisional: σ is still being carried through the steps.'}</p>}
       {result.peakProblem && <p className="step-problem" role="alert">{result.peakProblem}</p>}
       <p className="small" data-testid="peak-summary">
         {counts.q} quantifiable (S/N ≥ {lim?.quantitation}), {counts.d} detected but not quantifiable ({lim?.detection} ≤ S/N &lt; {lim?.quantitation}), {counts.b} below the detection limit (kept, marked).

@@ -123,3 +123,20 @@ export function provisionalFields(pending: readonly StageName[]): (keyof Analyse
   if (pending.includes('noise')) out.push('noise');
   return out;
 }
+
+/**
+ * Whether σ for S/N is provisional: the noise stage (the raw σ carried through the stack, by simulation where a
+ * step is not linear or changes the grid, which can take seconds on a long trace) has not landed for the newest
+ * request, so the σ shown is the previous request's, or the noise report itself says its σ is not final.
+ */
+export function sigmaProvisional(pending: readonly StageName[], noise: NoiseReport | null): boolean {
+  return pending.includes('noise') || noise?.provisional === true;
+}
+
+/**
+ * Whether the S/N figures shown are provisional: σ is ({@link sigmaProvisional}), or the peak table measured with
+ * the final σ has not landed yet. The page shows no S/N as final before both have.
+ */
+export function snrProvisional(pending: readonly StageName[], noise: NoiseReport | null): boolean {
+  return sigmaProvisional(pending, noise) || pending.includes('peaks');
+}
