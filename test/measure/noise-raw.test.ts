@@ -3,8 +3,9 @@
  * it was not tuned on one by one, and its algebra against definitions.
  *
  * Monte-Carlo design (issue 14's checks; numbers stated so the run stays short):
- * 200 realisations of 10⁴ points per family, 2 of 10⁵ per family and 2 of 10⁶ for the
- * flat family. White-noise families: mean within 5 % of the true σ and every
+ * 200 realisations of 10⁴ points per family, 2 of 10⁵ per family, 2 of 10⁶ for the
+ * flat family and 1 of 10⁶ for every family (200 of 10⁵ per family with
+ * TRACEWRIGHT_LONG_CHECKS=1). White-noise families: mean within 5 % of the true σ and every
  * realisation within 15 %. AR(1) φ = 0.5: the bias is stated, measured here
  * (the finest scale alone reads 0.645 σ — (6 − 8φ + 2φ²)/6 = 2.5/6, worked by
  * hand — and the correlation correction brings it back).
@@ -103,6 +104,23 @@ describe('σ on seeded families (true σ = 1)', () => {
   it('10⁶ points of white noise: within 2 %', () => {
     for (const v of familyRun('flat', 1_000_000, 2, 9000)) expect(Math.abs(v - 1)).toBeLessThan(0.02);
   }, 120_000);
+
+  // Issue 14 asks for families of 10⁴–10⁶ points. One realisation of 10⁶ points per family by default; the mean
+  // biases at 10⁴ (DEVELOPERS.md "Noise": drift +1.8 %, narrow +0.7 %) stay, the scatter shrinks ten-fold.
+  it('10⁶ points, one realisation of every family (AR(1) after the correlation correction): within 3 %', () => {
+    for (const name of FAMILIES) for (const v of familyRun(name, 1_000_000, 1, 11000)) expect(Math.abs(v - 1), name).toBeLessThan(0.03);
+  }, 300_000);
+
+  // 200 realisations of 10⁵ points per family (10⁸ points) take minutes on the project's 2-core machine:
+  // TRACEWRIGHT_LONG_CHECKS=1 runs them.
+  it.runIf(process.env.TRACEWRIGHT_LONG_CHECKS === '1')('10⁵ points, 200 realisations of every family: mean within 5 %, every realisation within 15 % (AR(1) mean within 3 %)', () => {
+    for (const name of FAMILIES) {
+      const r = familyRun(name, 100_000, 200, 13000);
+      console.log(`${name}: mean ${mean(r).toFixed(4)}, range ${Math.min(...r).toFixed(4)}–${Math.max(...r).toFixed(4)}`);
+      expect(Math.abs(mean(r) - 1), name).toBeLessThan(name === 'ar1' ? 0.03 : 0.05);
+      for (const v of r) expect(Math.abs(v - 1), name).toBeLessThan(0.15);
+    }
+  }, 3_600_000);
 });
 
 describe('what each estimate says about itself', () => {
