@@ -32,7 +32,6 @@ MAX_PASSES = 2
 FLANK_RIDER_NARROWER = 4  # a bump on a flank rides only when this many times narrower
 FLANK_LEVEL_SHARE = 0.35  # ... and where the neighbour, at the mirror point, stands this share of its height
 APEX_HALF_WINDOW_MAX = 50
-SAME_TOP_SHARE = 0.25     # rule 6b: two maxima whose apexes lie this share of the narrower width apart are one top
 MIN_PROM, MIN_SNR, MIN_WIDTH, DL, QL = 2.0, 2.0, 2.5, 3.0, 10.0
 SIGMA = 1.0
 
@@ -418,16 +417,10 @@ def merge_shallow(s, ms):
             k += 1
             continue
         v = shared_valley(s, A, B)
-        # Two maxima of one top: apexes within a quarter of the narrower half-height width (x is the sample index);
-        # then the one of smaller prominence goes, otherwise the lower one is tested.
-        same_top = abs(A.xa - B.xa) <= SAME_TOP_SHARE * min(A.rip - A.lip, B.rip - B.lip)
-        if same_top and A.prom != B.prom:
-            lower = k if A.prom < B.prom else k + 1
-        else:
-            lower = k if A.h <= B.h else k + 1
+        lower = k if A.h <= B.h else k + 1
         m = out[lower]
         rise = (box_mean(s, m.i, m.box) - box_mean(s, v, m.box)) / (SIGMA / math.sqrt(2 * m.box + 1))
-        if same_top or rise < DL:
+        if rise < DL:
             out.pop(lower)
             k = max(0, k - 1)
         else:
@@ -488,9 +481,8 @@ def table(s):
     peaks, prom, lb, rb = peaks[keep], prom[keep], lb[keep], rb[keep]
     widths = signal.peak_widths(s, peaks, rel_height=0.5, prominence_data=(prom, lb, rb))[0]
     cands = []
-    for i, wp, pr in zip(peaks, widths, prom):
+    for i, wp in zip(peaks, widths):
         m = measure_local(s, int(i), float(wp))
-        m.prom = float(pr)
         if not m.h > 0:
             continue
         if m.rip - m.lip < MIN_WIDTH:

@@ -88,8 +88,6 @@ const RETURN_BEYOND = 2;
 const FLANK_RIDER_NARROWER = 10;
 /** Half-window of the apex-level fit: FWHM/6 samples, at least 1, at most this many. */
 const APEX_HALF_WINDOW_MAX = 50;
-/** Two touching maxima whose apexes lie within this share of the narrower one's own half-height width are one top (rule 6b). */
-const SAME_TOP_SHARE = 0.25;
 /** Samples averaged for a level beyond a bound, at least. */
 const LEVEL_POINTS_MIN = 5;
 
@@ -678,17 +676,14 @@ export function ridersOf(c: MeasureContext, ms: readonly LocalMeasure[]): Int32A
 }
 
 /**
- * Rule 6b: of two touching neighbours (neither riding on the other), the
- * lower is not a peak of its own (a broad noisy top split in two) when its
- * box average at its apex rises less than `minRise` × σ_B (its own box)
- * above the valley between them, or when the two apexes lie within
- * {@link SAME_TOP_SHARE} of the narrower one's half-height width of each
- * other (both measured the same top; then the one of smaller prominence
- * goes): it is dropped, unless `keep` says otherwise
+ * Rule 6b: of two touching neighbours (neither riding on the other), one
+ * whose box average at its apex rises less than `minRise` × σ_B (its own
+ * box) above the valley between them is not a peak of its own (a broad
+ * noisy top split in two): it is dropped, unless `keep` says otherwise
  * (peaks placed by hand). Repeats until no pair changes. Returns the peaks
  * kept, in order.
  */
-export function mergeShallow(c: MeasureContext, ms: LocalMeasure[], minRise: number, keep: (m: LocalMeasure) => boolean, prominenceOf: (m: LocalMeasure) => number = () => 0): LocalMeasure[] {
+export function mergeShallow(c: MeasureContext, ms: LocalMeasure[], minRise: number, keep: (m: LocalMeasure) => boolean): LocalMeasure[] {
   const { s, noise } = c;
   const out = ms.slice();
   let k = 0;
@@ -697,16 +692,9 @@ export function mergeShallow(c: MeasureContext, ms: LocalMeasure[], minRise: num
     if (!touching(A, B)) { k++; continue; }
     const [v] = sharedValley(c, A, B);
     const rise = (m: LocalMeasure) => (boxMean(s, m.index, m.box) - boxMean(s, v, m.box)) / (noise.ruleSigmaAt(m.index) * noise.boxFactor(2 * m.box + 1));
-    // Two maxima of one broad noisy top both measure that whole peak: their apexes (fitted over the top) fall
-    // together, while the box average at the lower one, a few samples from the valley on the top's curve, can
-    // still rise well above the valley's (the top's own curvature over the box). Of those the one with the
-    // smaller prominence goes (the other carries the peak's own prominence).
-    const fwx = (q: LocalMeasure) => xAt(c.x, q.rightIp) - xAt(c.x, q.leftIp);
-    const sameTop = Math.abs(A.xApex - B.xApex) <= SAME_TOP_SHARE * Math.min(fwx(A), fwx(B));
-    const pa = prominenceOf(A), pb = prominenceOf(B);
-    const lower = sameTop && pa !== pb ? (pa < pb ? k : k + 1) : A.height <= B.height ? k : k + 1;
+    const lower = A.height <= B.height ? k : k + 1;
     const m = out[lower];
-    if ((sameTop || rise(m) < minRise) && !keep(m)) {
+    if (rise(m) < minRise && !keep(m)) {
       out.splice(lower, 1);
       k = Math.max(0, k - 1);
     } else {

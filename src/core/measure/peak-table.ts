@@ -135,7 +135,7 @@ function finish(c: MeasureContext, y: Float64Array, sign: number, all: Candidate
   }
   const of = new Map(all.map((k) => [k.m, k]));
   const free = all.filter((_, k) => riders[k] < 0);
-  const cands = mergeShallow(c, free.map((k) => k.m), o.limits.detection, (m) => of.get(m)?.origin === 'added-by-user', (m) => of.get(m)?.prominence ?? 0).map((m) => of.get(m) as Candidate);
+  const cands = mergeShallow(c, free.map((k) => k.m), o.limits.detection, (m) => of.get(m)?.origin === 'added-by-user').map((m) => of.get(m) as Candidate);
   const grouped = cands.map((k) => {
     if (k.origin === 'added-by-user') return true;
     const snr = snrOf(c, y, k.m, o);
