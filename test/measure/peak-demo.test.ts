@@ -81,7 +81,8 @@ describe(`the demo generator over ${SEEDS} seeds: mean area against the truth (d
     // The valley to the main peak is 62 % of the shoulder's height (make_demo_shoulder.py), 1.75 noise σ deep: the
     // shoulder's own SciPy prominence on the raw samples passes the smallest prominence (2σ) in under half the seeds
     // (measured 90 of 200). Where it is not listed the main peak's bounds take it in: its area then holds both,
-    // within 3 % (measured −0.6 %).
+    // within 3 % (measured −1.2 %; −0.6 % without seed 67, where the main peak's top is split in two rows, see
+    // DEVELOPERS.md).
     expect(r.found, what).toBeGreaterThan(0.3 * SEEDS);
     expect(Math.abs(mean(mainWhenMissing)), what).toBeLessThan(0.03);
     // Finds not marked thinly sampled: within the issue's 10 % of the truth (measured −5.2 %) and of the noiseless
