@@ -29,8 +29,8 @@ RETURN_ABOVE_HULL = 3    # back at the baseline within this many sigma_B above t
 RETURN_BEYOND = 2        # bound this many half-widths beyond the return
 LEVEL_POINTS_MIN = 5     # level: mean of at least 5 samples beyond a bound
 MAX_PASSES = 2
-FLANK_RIDER_NARROWER = 4  # a bump on a flank rides only when this many times narrower
-FLANK_LEVEL_SHARE = 0.35  # ... and where the neighbour, at the mirror point, stands this share of its height
+FLANK_RIDER_NARROWER = 10  # a bump on a flank rides only when this many times narrower (and sharing a valley
+                           # would cut off more of the neighbour than the bump holds)
 APEX_HALF_WINDOW_MAX = 50
 MIN_PROM, MIN_SNR, MIN_WIDTH, DL, QL = 2.0, 2.0, 2.5, 3.0, 10.0
 SIGMA = 1.0
@@ -364,10 +364,23 @@ def shared_valley(s, A, B):
     return valley_between(s, A.i, B.i, r, under)
 
 
+def area_above(s, line, i0, i1):
+    """Area of s - line between samples i0 and i1 (trapezoid rule, x = sample index)."""
+    a = 0.0
+    prev = s[i0] - at(line, i0)
+    for i in range(i0, i1):
+        nxt = s[i + 1] - at(line, i + 1)
+        a += 0.5 * (prev + nxt)
+        prev = nxt
+    return a
+
+
 def riders(s, ms):
     """Rule 6a: narrower than half a higher neighbour, and on its top (within its half-height crossings) or
-    within its bounds when also under a quarter of its width and the neighbour stands at least 0.35 of the
-    bump's height above its own line at the mirror image of the bump's apex about the neighbour's."""
+    within its bounds when also under a tenth of its width and a split at the bump would cut off more of the
+    neighbour than the bump holds: the bump's own area (above its own line between its bounds, at least 0) is
+    less than the neighbour's area above the neighbour's line from the bump's near bound out to the
+    neighbour's bound on that side, less the bump's own. Of several hosts the highest."""
     out = [-1] * len(ms)
     fwo = lambda m: m.rip - m.lip
     # Only peaks whose bounds reach B's apex can host it: scan outward while some peak further out still reaches.
@@ -401,8 +414,12 @@ def riders(s, ms):
                 continue
             if not fwo(B) < fwo(A) / FLANK_RIDER_NARROWER:
                 continue
-            mirror = min(len(s) - 1, max(0, 2 * A.i - B.i))
-            if box_mean(s, mirror, A.box) - at(A.line, mirror) >= FLANK_LEVEL_SHARE * B.h:
+            own = max(0.0, area_above(s, B.line, B.start, B.end))
+            if B.i > A.i:
+                cut = area_above(s, A.line, max(A.i, B.start), A.end)
+            else:
+                cut = area_above(s, A.line, A.start, min(A.i, B.end))
+            if own < cut - own:
                 host = j
         out[k] = host
     return out
