@@ -125,9 +125,10 @@ describe('staged analysis', () => {
     const steps = [...analyseSteps(req(1), traces, STEP_REGISTRY)];
     const stageAt = steps.map((u, k) => (u ? u.stage : steps.slice(k).find((v) => v)!.stage));
     const pauses = stageAt.filter((s, k) => steps[k] === undefined);
-    // The main table and the raw reference (both in the peaks stage) pause; the loss check reuses the main table.
-    expect(pauses.length).toBeGreaterThanOrEqual(1);
-    expect(new Set(pauses)).toEqual(new Set(['peaks']));
+    // The raw reference (in the peaks stage) pauses, and so may the noise-bump simulation (when not cached yet) and
+    // the alternative; the stages before detection never do.
+    expect(pauses.filter((s) => s === 'peaks').length).toBeGreaterThanOrEqual(1);
+    for (const s of pauses) expect(['peaks', 'bumps', 'alternative', 'loss']).toContain(s);
     expect(DETECT_PAUSE_EVERY).toBeLessThan(3000);
     const fresh = numbers(analyse(req(2), traces, STEP_REGISTRY));
     for (let cut = 0; cut < steps.length; cut++) {

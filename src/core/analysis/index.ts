@@ -13,9 +13,9 @@
  *   6. alternative  one job per alternative stack (memo: the current stack's edit cannot change them)
  *   7. loss         the ledger, the window advice, and the final residual verdict
  *
- * Inside stage 4 (and the loss check's own measure) peak detection pauses
- * every few milliseconds (`analyseSteps`, pause.ts), so a worker can stop
- * stale work there too.
+ * Inside stages 4–7 peak detection pauses every few milliseconds (the
+ * tables, the noise-bump simulation, each alternative; `analyseSteps`,
+ * pause.ts), so a worker can stop stale work there too.
  *
  * `analyse()` collects every update into one result: tests, the CLI, the
  * bench and batch runs use it. Pure: nothing here changes its input.
@@ -29,7 +29,7 @@ import type { Trace } from '../trace.ts';
 import { meanStep } from '../numeric/interpolate.ts';
 import { combineVerdict } from '../diagnostics.ts';
 import { markAppearsOnlyAfterProcessing, markSaturatedOnRaw } from '../measure/peak-table.ts';
-import { expectedNoiseBumps } from '../measure/noise-bumps.ts';
+import { expectedNoiseBumpsStepwise } from '../measure/noise-bumps.ts';
 import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, MAX_ALTERNATIVES, type AnalyseRequest } from './request.ts';
 import { STAGES, type AnalyseResult, type StageName, type StageUpdate } from './result.ts';
 import { AnalysisMemo, type AlternativeMeasured } from './memo.ts';
@@ -118,14 +118,14 @@ export function* analyseSteps(
   // 5. The expected count of noise-only bumps: a simulation for each new set of thresholds and noise correlation
   //    (0.3–1 s), so it lands after the table.
   const noiseBumps = main.peakOptions && main.peakOptions.noiseSigma > 0
-    ? expectedNoiseBumps(measured.y.length, meanStep(measured.x), main.peakOptions, main.noise?.measuredRho)
+    ? yield* expectedNoiseBumpsStepwise(measured.y.length, meanStep(measured.x), main.peakOptions, main.noise?.measuredRho)
     : null;
   yield { stage: 'bumps', sampleId, pending: pendingAfter('bumps'), patch: { noiseBumps } };
 
   // 6. One job per alternative.
   const measuredAlts: AlternativeMeasured[] = [];
   for (let k = 0; k < alts.length; k++) {
-    measuredAlts.push(measureAlternative(request, alts[k], raw, ctx, registry, memo, cache));
+    measuredAlts.push(yield* measureAlternative(request, alts[k], raw, ctx, registry, memo, cache));
     const pending = pendingAfter('alternative');
     yield { stage: 'alternative', sampleId, pending: k + 1 < alts.length ? ['alternative', ...pending] : pending, patch: {}, progress: { done: k + 1, of: alts.length } };
   }
