@@ -68,7 +68,7 @@ describe('staged work on the worker side', () => {
     expect(await outcome).toBe('cancelled');
     expect(seen).toEqual(['noise']);
     expect(closed).toBe(true);
-    // It did not yield at every pause (a timer costs up to 4 ms): only after PAUSE_AFTER_MS of work; and it stopped
+    // It did not yield at every pause: only after PAUSE_AFTER_MS of work; and it stopped
     // there, long before the stage's end.
     expect(pulled).toBeGreaterThan(1);
     expect(lastEnd - firstStart).toBeGreaterThanOrEqual(PAUSE_AFTER_MS - 1);
