@@ -17,7 +17,9 @@ let scheduler: LatestOnly | null = null;
 export function getBackend(): ComputeBackend {
   if (!backend) {
     backend = typeof Worker !== 'undefined'
-      ? workerBackend(() => new Worker(new URL('../worker/worker.ts', import.meta.url), { type: 'module', name: 'tracewright-compute' }))
+      ? workerBackend(() => new Worker(new URL('../worker/worker.ts', import.meta.url), { type: 'module', name: 'tracewright-compute' }),
+        // Issue 16: what goes wrong in a worker outside any job the page waits for is a notice, never dropped.
+        (title, lines) => useApp.getState().notify('error', title, lines))
       : inProcessBackend();
     scheduler = new LatestOnly(backend);
   }

@@ -13,22 +13,33 @@ import type { AnalyseRequest, StageUpdate } from '../core/analysis/index.ts';
 import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import type { Trace } from '../core/trace.ts';
 import { Engine } from './engine.ts';
-import type { FromWorker, ToWorker } from './protocol.ts';
+import type { Call, FromWorker, Method, ParamsOf, ProgressOf, ResultOf, ToWorker } from './protocol.ts';
+import { runBatch, type BatchFile, type BatchProgress, type BatchResult, type BatchSettings } from '../core/export/batch.ts';
+import type { Recipe } from '../core/recipe.ts';
+import { STEP_REGISTRY } from '../core/steps/registry.ts';
 import type { FitJobOutcome, FitRequest } from './fit-job.ts';
 import { macrotask, runStages } from './stager.ts';
 import { fromColumns } from './columns.ts';
 import type { Peak } from '../core/measure/peak-types.ts';
 
-type Pending<T> = { resolve: (v: T) => void; reject: (e: Error) => void };
+type Job = {
+  resolve: (v: unknown) => void;
+  reject: (e: Error) => void;
+  onProgress?: (p: unknown) => void;
+  onStage?: (u: StageUpdate) => void;
+};
+
+/** Something went wrong that belongs to no job the page still waits for: the page shows it (a notice). */
+export type ProblemSink = (title: string, lines: string[]) => void;
 
 class WorkerChannel {
   private worker: Worker | null = null;
-  private jobs = new Map<number, Pending<unknown> & { onProgress?: (f: number) => void; onStage?: (u: StageUpdate) => void }>();
+  private jobs = new Map<number, Job>();
   private nextId = 1;
   /** Counts the workers made; a new one holds no traces yet. */
   generation = 0;
 
-  constructor(private readonly make: () => Worker) {}
+  constructor(private readonly make: () => Worker, private readonly problem: ProblemSink, private readonly name: string) {}
 
   /** The generation of the live worker, making one when needed. */
   live(): number {
@@ -40,22 +51,14 @@ class WorkerChannel {
     if (this.worker) return this.worker;
     this.generation++;
     const w = this.make();
-    w.onmessage = (ev: MessageEvent<FromWorker>) => {
-      const msg = ev.data;
-      const job = this.jobs.get(msg.jobId);
-      if (!job) return;
-      if (msg.type === 'progress') { job.onProgress?.(msg.fraction); return; }
-      if (msg.type === 'stage') {
-        const update = msg.peakColumns ? { ...msg.update, patch: { ...msg.update.patch, peaks: fromColumns<Peak>(msg.peakColumns) } } : msg.update;
-        job.onStage?.(update);
-        return;
-      }
-      this.jobs.delete(msg.jobId);
-      if (msg.type === 'failed') job.reject(Object.assign(new Error(msg.message), { missing: msg.missing === true }));
-      else job.resolve(msg);
+    w.onmessage = (ev: MessageEvent<FromWorker>) => this.take(ev.data);
+    w.onmessageerror = () => {
+      // A message that could not be read: which job it answered is unknown, so it is said, not dropped.
+      this.problem(`A message from the ${this.name} worker could not be read`, ['The browser could not copy it across. If a result does not appear, change a setting to ask for it again, or reload the page (your work is kept).']);
     };
     w.onerror = (ev) => {
-      const err = new Error(`The computation worker stopped: ${ev.message || 'unknown error'}`);
+      const err = new Error(`The ${this.name} worker stopped: ${ev.message || 'unknown error'}`);
+      if (this.jobs.size === 0) this.problem(`The ${this.name} worker stopped`, [ev.message || 'unknown error', 'It is started again with the next request.']);
       for (const job of this.jobs.values()) job.reject(err);
       this.jobs.clear();
       this.worker?.terminate();
@@ -65,16 +68,35 @@ class WorkerChannel {
     return w;
   }
 
+  /** One message from the worker. */
+  private take(msg: FromWorker): void {
+    const job = msg.jobId === null ? undefined : this.jobs.get(msg.jobId);
+    if (!job) {
+      // A failure of no job the page waits for (traces, the port, an unreadable message) is shown, not dropped.
+      if (msg.type === 'failed') this.problem(`The ${this.name} worker reported a problem`, [msg.message]);
+      return;
+    }
+    if (msg.type === 'progress') { job.onProgress?.(msg.progress); return; }
+    if (msg.type === 'stage') {
+      const update = msg.peakColumns ? { ...msg.update, patch: { ...msg.update.patch, peaks: fromColumns<Peak>(msg.peakColumns) } } : msg.update;
+      job.onStage?.(update);
+      return;
+    }
+    this.jobs.delete(msg.jobId!);
+    if (msg.type === 'failed') job.reject(Object.assign(new Error(msg.message), { missing: msg.missing === true }));
+    else job.resolve(msg.value);
+  }
+
   send(msg: ToWorker, transfer: Transferable[] = []): void {
     this.ensure().postMessage(msg, transfer);
   }
 
-  /** Send a job; the promise gets the worker's whole answer (a result or a loaded file). */
-  request<T extends FromWorker>(build: (jobId: number) => ToWorker, transfer: Transferable[] = [], onProgress?: (f: number) => void, onStage?: (u: StageUpdate) => void): Promise<T> {
+  /** Call one method; the promise gets that method's result (its type is the method's, not the caller's choice). */
+  call<M extends Method>(method: M, params: ParamsOf<M>, opts: { transfer?: Transferable[]; onProgress?: (p: ProgressOf<M>) => void; onStage?: (u: StageUpdate) => void } = {}): Promise<ResultOf<M>> {
     const jobId = this.nextId++;
-    return new Promise<T>((resolve, reject) => {
-      this.jobs.set(jobId, { resolve: resolve as (v: unknown) => void, reject, onProgress, onStage });
-      this.send(build(jobId), transfer);
+    return new Promise<ResultOf<M>>((resolve, reject) => {
+      this.jobs.set(jobId, { resolve: resolve as (v: unknown) => void, reject, onProgress: opts.onProgress as ((p: unknown) => void) | undefined, onStage: opts.onStage });
+      this.send({ type: 'call', method, jobId, params } as Call, opts.transfer ?? []);
     });
   }
 
@@ -97,6 +119,8 @@ export interface ComputeBackend {
   cancelLoad(): void;
   /** Fit a region (issue 18); runs after the analysis already sent. */
   fit(request: FitRequest): Promise<FitJobOutcome>;
+  /** One recipe over many files (the files' bytes are handed over); off the page's thread where there is a worker. */
+  batch(files: BatchFile[], recipe: Recipe, settings: BatchSettings, onProgress?: (p: BatchProgress) => void): Promise<BatchResult>;
 }
 
 /**
@@ -106,9 +130,9 @@ export interface ComputeBackend {
  * copies a big file), and the page then only names which traces stay;
  * traces that did not come that way (a restored session) are copied once.
  */
-export function workerBackend(make: () => Worker): ComputeBackend {
-  const compute = new WorkerChannel(make);
-  const loader = new WorkerChannel(make);
+export function workerBackend(make: () => Worker, problem: ProblemSink = () => undefined): ComputeBackend {
+  const compute = new WorkerChannel(make, problem, 'computation');
+  const loader = new WorkerChannel(make, problem, 'loading');
   // Ids the compute worker holds, and for which worker.
   let held = new Set<string>();
   let heldBy = 0;
@@ -141,8 +165,7 @@ export function workerBackend(make: () => Worker): ComputeBackend {
   const analyseOnce = (request: AnalyseRequest, onStage: (u: StageUpdate) => void, side?: boolean) => {
     // A worker made anew (after a fault) is given the traces again first.
     if (compute.live() !== heldBy) sendInputs();
-    return compute.request<Extract<FromWorker, { type: 'done' | 'cancelled' }>>((jobId) => ({ type: 'analyse', jobId, request, side }), [], undefined, onStage)
-      .then((m) => m.type === 'done');
+    return compute.call('analyse', { request, side }, { onStage }).then((r) => r.outcome === 'done');
   };
   return {
     setInputs(t) { current = t; sendInputs(); },
@@ -158,7 +181,7 @@ export function workerBackend(make: () => Worker): ComputeBackend {
     load(bytes, fileName, options, onProgress) {
       const share = ensurePort();
       const gen = compute.generation;
-      return loader.request<Extract<FromWorker, { type: 'loaded' }>>((jobId) => ({ type: 'load', jobId, bytes, fileName, options, share }), [bytes.buffer as ArrayBuffer], onProgress)
+      return loader.call('load', { bytes, fileName, options, share }, { transfer: [bytes.buffer as ArrayBuffer], onProgress })
         .then((m) => {
           if (m.shared && m.result.ok && compute.generation === gen) {
             if (portedTo !== gen) { ported = new Set(); portedTo = gen; }
@@ -170,7 +193,12 @@ export function workerBackend(make: () => Worker): ComputeBackend {
     cancelLoad() { loader.cancelAll(); },
     fit(request) {
       if (compute.live() !== heldBy) sendInputs();
-      return compute.request<Extract<FromWorker, { type: 'fitted' }>>((jobId) => ({ type: 'fit', jobId, request })).then((m) => m.outcome);
+      return compute.call('fit', request);
+    },
+    batch(files, recipe, settings, onProgress) {
+      // On the loading worker: a batch of large files then holds up neither the page nor the live analysis.
+      const transfer = [...new Set(files.map((f) => f.bytes.buffer as ArrayBuffer))];
+      return loader.call('batch', { files, recipe, settings }, { transfer, onProgress });
     },
   };
 }
@@ -191,6 +219,10 @@ export function inProcessBackend(): ComputeBackend {
     },
     cancelLoad() { /* an in-process load cannot be interrupted */ },
     fit(request) { return Promise.resolve().then(() => engine.fit(request)); },
+    batch(files, recipe, settings, onProgress) {
+      // In this thread: the page repaints between files (a timer after each).
+      return runBatch(files, recipe, STEP_REGISTRY, settings, (p) => { onProgress?.(p); return macrotask(); });
+    },
   };
 }
 

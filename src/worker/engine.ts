@@ -2,7 +2,7 @@
  * The worker's side of the bridge, written as a plain object so it can run
  * in-process where no Worker exists (Node tests, very old browsers).
  */
-import { AnalysisMemo, analyse, analyseStaged, type AnalyseRequest, type AnalyseResult, type StageUpdate } from '../core/analysis/index.ts';
+import { AnalysisMemo, analyse, analyseSteps, type AnalyseRequest, type AnalyseResult, type StageUpdate } from '../core/analysis/index.ts';
 import { loadFileHashed } from '../core/io/load.ts';
 import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import { PipelineCache } from '../core/pipeline.ts';
@@ -63,9 +63,9 @@ export class Engine {
     return analyse(request, this.traces, STEP_REGISTRY, this.cache, this.memo);
   }
 
-  /** The same analysis stage by stage (the worker posts each update and may stop pulling when a newer request comes). */
-  stages(request: AnalyseRequest): Generator<StageUpdate, void, void> {
-    return analyseStaged(request, this.traces, STEP_REGISTRY, { pipeline: this.cache, memo: this.memo });
+  /** The same analysis stage by stage, with the pauses inside long stages (undefined); the worker posts each update and may stop pulling at a pause or between stages when a newer request comes. */
+  stages(request: AnalyseRequest): Generator<StageUpdate | undefined, void, void> {
+    return analyseSteps(request, this.traces, STEP_REGISTRY, { pipeline: this.cache, memo: this.memo });
   }
 
   /** Fit a region (issue 18), with the same traces and pipeline cache as the analysis. */

@@ -1,5 +1,10 @@
 /**
- * The one typed contract between the page and the computation worker.
+ * The one typed contract between the page and its workers: a method map.
+ * Each method names what the page sends (`params`), what comes back when it
+ * is finished (`result`) and what it reports on the way (`progress`), so the
+ * page's side (bridge.ts) and the worker's side (worker.ts) cannot disagree
+ * and no caller chooses the type of its own answer.
+ *
  * Raw traces cross once (`inputs` sends only traces the worker does not
  * hold yet); after that only recipes and settings. Arrays coming back are
  * transferred, not copied (a loaded file's traces too).
@@ -7,20 +12,48 @@
 import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import type { Trace } from '../core/trace.ts';
 import type { AnalyseRequest, StageUpdate } from '../core/analysis/index.ts';
+import type { BatchFile, BatchProgress, BatchResult, BatchSettings } from '../core/export/batch.ts';
+import type { Recipe } from '../core/recipe.ts';
 import type { Columns } from './columns.ts';
 import type { FitJobOutcome, FitRequest } from './fit-job.ts';
 
 export type { AnalyseRequest, StageUpdate };
 
+/** Every job a worker does for the page. */
+export interface WorkerMethods {
+  /**
+   * An analysis, posted stage by stage ('stage' messages) as each lands. `side`: a job outside the latest-only
+   * order (the standards' analyses, issue 21): it neither cancels nor is cancelled. 'cancelled' when a newer
+   * analysis came in first: the stages not yet posted never will be.
+   */
+  analyse: { params: { request: AnalyseRequest; side?: boolean }; result: { outcome: 'done' | 'cancelled'; ms: number }; progress: never };
+  /** Fit a region (issue 18, worker/fit-job.ts). */
+  fit: { params: FitRequest; result: FitJobOutcome; progress: never };
+  /**
+   * Read a file (the loading worker). `share`: also hand a copy of the traces to the computation worker through
+   * the port (made off the page's thread); `shared` says it was done. Progress: the fraction read.
+   */
+  load: {
+    params: { bytes: Uint8Array; fileName: string; options?: Omit<LoadOptions, 'onProgress'>; share?: boolean };
+    result: { result: LoadResult; shared: boolean };
+    progress: number;
+  };
+  /** One recipe over many files (core/export/batch.ts), off the page's thread; progress after each file. */
+  batch: { params: { files: BatchFile[]; recipe: Recipe; settings: BatchSettings }; result: BatchResult; progress: BatchProgress };
+}
+
+export type Method = keyof WorkerMethods;
+export type ParamsOf<M extends Method> = WorkerMethods[M]['params'];
+export type ResultOf<M extends Method> = WorkerMethods[M]['result'];
+export type ProgressOf<M extends Method> = WorkerMethods[M]['progress'];
+
+/** A call of one method. */
+export type Call = { [M in Method]: { type: 'call'; method: M; jobId: number; params: ParamsOf<M> } }[Method];
+
 export type ToWorker =
+  | Call
   /** New traces, and (when given) the ids of every trace that stays: traces the worker holds already are not sent again. */
   | { type: 'inputs'; traces: Trace[]; keep?: string[] }
-  /** `side`: a job outside the latest-only order (the standards' analyses, issue 21): it neither cancels nor is cancelled. */
-  | { type: 'analyse'; jobId: number; request: AnalyseRequest; side?: boolean }
-  /** Fit a region (issue 18, worker/fit-job.ts). */
-  | { type: 'fit'; jobId: number; request: FitRequest }
-  /** `share`: also hand a copy of the traces to the computation worker through the port (made off the page's thread). */
-  | { type: 'load'; jobId: number; bytes: Uint8Array; fileName: string; options?: Omit<LoadOptions, 'onProgress'>; share?: boolean }
   /** One end of the channel between the loading and the computation worker. */
   | { type: 'port'; port: MessagePort };
 
@@ -28,18 +61,17 @@ export type ToWorker =
 export type ThroughPort = { type: 'traces'; traces: Trace[] };
 
 export type FromWorker =
+  /** A finished call: its method's result type. */
+  | { [M in Method]: { type: 'result'; method: M; jobId: number; value: ResultOf<M> } }[Method]
+  | { [M in Method]: { type: 'progress'; method: M; jobId: number; progress: ProgressOf<M> } }[Method]
   /**
-   * One stage of an analysis, as soon as it is ready (its arrays transferred); more follow until 'done' or
-   * 'cancelled'. The peak table crosses as typed-array columns (`peakColumns`, transferred) in place of `patch.peaks`.
+   * One stage of an analysis, as soon as it is ready (its arrays transferred); more follow until the result.
+   * The peak table crosses as typed-array columns (`peakColumns`, transferred) in place of `patch.peaks`.
    */
   | { type: 'stage'; jobId: number; update: StageUpdate; peakColumns?: Columns }
-  /** Every stage of the analysis was posted. */
-  | { type: 'done'; jobId: number; ms: number }
-  /** A newer analysis came in before this one finished: the stages not yet posted never will be. */
-  | { type: 'cancelled'; jobId: number }
-  | { type: 'fitted'; jobId: number; outcome: FitJobOutcome }
-  /** `shared`: the traces went to the computation worker through the port too. */
-  | { type: 'loaded'; jobId: number; result: LoadResult; shared?: boolean }
-  | { type: 'progress'; jobId: number; fraction: number }
-  /** `missing`: traces the page named never reached this worker (the page sends them again and retries). */
-  | { type: 'failed'; jobId: number; message: string; missing?: boolean };
+  /**
+   * A call, or a message that belongs to none (`jobId` null: traces or a port the worker could not take, a
+   * message it could not read), went wrong. `missing`: traces the page named never reached this worker (the
+   * page sends them again and retries).
+   */
+  | { type: 'failed'; jobId: number | null; message: string; missing?: boolean };

@@ -1,36 +1,55 @@
 /// <reference lib="webworker" />
 /**
- * Worker entry: receives traces once, then analysis and load jobs, and
- * posts results back with their arrays transferred.
+ * Worker entry: receives traces once, then calls of the methods in
+ * protocol.ts (analyses, fits, loads, batches), and posts results back with
+ * their arrays transferred. Whatever goes wrong is posted as 'failed', never
+ * dropped: with the call's id, or with none when the message belonged to no
+ * call (the page then shows it as a notice).
  */
-import type { FromWorker, ThroughPort, ToWorker } from './protocol.ts';
+import type { Call, FromWorker, Method, ParamsOf, ProgressOf, ResultOf, ThroughPort, ToWorker } from './protocol.ts';
 import { Engine, transferablesOf } from './engine.ts';
 import { cloneResultForTransfer } from './clone.ts';
 import { runStages } from './stager.ts';
 import { columnBuffers, toColumns } from './columns.ts';
+import { runBatch } from '../core/export/batch.ts';
+import { STEP_REGISTRY } from '../core/steps/registry.ts';
 
 const engine = new Engine();
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 /** The port to the other worker (the same script runs as the loading and as the computation worker). */
 let peer: MessagePort | null = null;
-/** Analyses that came while traces named by the page were still on their way through the port. */
-const deferred: ToWorker[] = [];
-/** The newest analysis asked for: older ones stop between stages. */
+/** Analyses and fits that came while traces named by the page were still on their way through the port. */
+const deferred: Call[] = [];
+/** The newest analysis asked for: older ones stop between stages and at pauses inside them. */
 let latestJob = 0;
 
 function post(msg: FromWorker, transfer: Transferable[] = []) {
   scope.postMessage(msg, transfer);
 }
 
+/** The answer to one call, typed by its method. */
+function reply<M extends Method>(method: M, jobId: number, value: ResultOf<M>, transfer: Transferable[] = []) {
+  post({ type: 'result', method, jobId, value } as FromWorker, transfer);
+}
+
+function progress<M extends Method>(method: M, jobId: number, p: ProgressOf<M>) {
+  post({ type: 'progress', method, jobId, progress: p } as FromWorker);
+}
+
 function fromPeer(ev: MessageEvent<ThroughPort>) {
   if (ev.data?.type !== 'traces') return;
   engine.stage(ev.data.traces);
-  while (!engine.incomplete && deferred.length) void handle(deferred.shift()!);
+  while (!engine.incomplete && deferred.length) void call(deferred.shift()!);
 }
 
 scope.onmessage = (ev: MessageEvent<ToWorker>) => {
-  if (ev.data?.type === 'analyse' && !ev.data.side) latestJob = ev.data.jobId;
-  void handle(ev.data);
+  const msg = ev.data;
+  if (msg?.type === 'call' && msg.method === 'analyse' && !msg.params.side) latestJob = msg.jobId;
+  void handle(msg);
+};
+
+scope.onmessageerror = () => {
+  post({ type: 'failed', jobId: null, message: 'The computation worker received a message it could not read (the browser could not copy it across); the request was not carried out.' });
 };
 
 async function handle(msg: ToWorker): Promise<void> {
@@ -41,48 +60,77 @@ async function handle(msg: ToWorker): Promise<void> {
       peer.onmessage = fromPeer;
     } else if (msg.type === 'inputs') {
       engine.setInputs(msg.traces, msg.keep);
-      while (!engine.incomplete && deferred.length) void handle(deferred.shift()!);
-    } else if ((msg.type === 'analyse' || msg.type === 'fit') && engine.incomplete) {
+      while (!engine.incomplete && deferred.length) void call(deferred.shift()!);
+    } else if (msg.type === 'call') {
+      await call(msg);
+    } else {
+      throw new Error(`a message of unknown type ${JSON.stringify((msg as { type?: unknown } | null)?.type ?? null)}`);
+    }
+  } catch (e) {
+    post({ type: 'failed', jobId: null, message: `The computation worker could not take in a message: ${e instanceof Error ? `${e.name}: ${e.message}` : String(e)}` });
+  }
+}
+
+async function call(msg: Call): Promise<void> {
+  const jobId = msg.jobId;
+  try {
+    if ((msg.method === 'analyse' || msg.method === 'fit') && engine.incomplete) {
       deferred.push(msg);
       // Traces come through the port within moments of the page naming them; if not, the page is told and sends them itself.
       setTimeout(() => {
         const at = deferred.indexOf(msg);
         if (at < 0) return;
         deferred.splice(at, 1);
-        post({ type: 'failed', jobId: msg.jobId, message: 'A loaded trace did not reach the computation worker.', missing: true });
+        post({ type: 'failed', jobId, message: 'A loaded trace did not reach the computation worker.', missing: true });
       }, 5000);
-    } else if (msg.type === 'analyse') {
-      const t0 = Date.now();
-      const jobId = msg.jobId;
-      const outcome = await runStages(engine.stages(msg.request), (update) => {
-        // Cached outputs must stay usable here, so send copies and transfer those; the peak table goes as columns.
-        const { peaks, ...rest } = update.patch;
-        const patch = cloneResultForTransfer(rest);
-        const peakColumns = peaks ? toColumns(peaks as unknown as Record<string, unknown>[]) : undefined;
-        post({ type: 'stage', jobId, update: { ...update, patch }, peakColumns }, [...transferablesOf(patch), ...(peakColumns ? columnBuffers(peakColumns) : [])]);
-      }, () => !msg.side && latestJob !== jobId);
-      post(outcome === 'done' ? { type: 'done', jobId, ms: Date.now() - t0 } : { type: 'cancelled', jobId });
-    } else if (msg.type === 'fit') {
-      // Issue 18: a fit's arrays are its own (not cached), so they are transferred as they are.
-      const outcome = engine.fit(msg.request);
-      post({ type: 'fitted', jobId: msg.jobId, outcome }, transferablesOf(outcome));
-    } else if (msg.type === 'load') {
-      let last = 0;
-      const result = await engine.load(msg.bytes, msg.fileName, msg.options, (fraction) => {
-        const now = Date.now();
-        if (now - last > 80) { last = now; post({ type: 'progress', jobId: msg.jobId, fraction }); }
-      });
-      // The computation worker gets its own copy straight from here, and the page the originals, handed over
-      // (copying 50 MB on the page's thread took 0.25-0.4 s there).
-      if (result.ok && msg.share && peer) {
-        const copies = result.traces.map((t) => ({ ...t, x: t.x.slice(), y: t.y.slice() }));
-        const through: ThroughPort = { type: 'traces', traces: copies };
-        peer.postMessage(through, copies.flatMap((t) => [t.x.buffer, t.y.buffer]));
+      return;
+    }
+    switch (msg.method) {
+      case 'analyse': await analyse(jobId, msg.params); break;
+      case 'fit': {
+        // Issue 18: a fit's arrays are its own (not cached), so they are transferred as they are.
+        const outcome = engine.fit(msg.params);
+        reply('fit', jobId, outcome, transferablesOf(outcome));
+        break;
       }
-      post({ type: 'loaded', jobId: msg.jobId, result, shared: !!(result.ok && msg.share && peer) }, transferablesOf(result));
+      case 'load': await load(jobId, msg.params); break;
+      case 'batch': {
+        const { files, recipe, settings } = msg.params;
+        const result = await runBatch(files, recipe, STEP_REGISTRY, settings, (p) => progress('batch', jobId, p));
+        reply('batch', jobId, result, [result.zip.buffer]);
+        break;
+      }
     }
   } catch (e) {
-    const jobId = msg.type === 'inputs' || msg.type === 'port' ? -1 : msg.jobId;
     post({ type: 'failed', jobId, message: e instanceof Error ? `${e.name}: ${e.message}` : String(e) });
   }
+}
+
+async function analyse(jobId: number, params: ParamsOf<'analyse'>): Promise<void> {
+  const t0 = Date.now();
+  const outcome = await runStages(engine.stages(params.request), (update) => {
+    // Cached outputs must stay usable here, so send copies and transfer those; the peak table goes as columns.
+    const { peaks, ...rest } = update.patch;
+    const patch = cloneResultForTransfer(rest);
+    const peakColumns = peaks ? toColumns(peaks as unknown as Record<string, unknown>[]) : undefined;
+    post({ type: 'stage', jobId, update: { ...update, patch }, peakColumns }, [...transferablesOf(patch), ...(peakColumns ? columnBuffers(peakColumns) : [])]);
+  }, () => !params.side && latestJob !== jobId);
+  reply('analyse', jobId, { outcome, ms: Date.now() - t0 });
+}
+
+async function load(jobId: number, params: ParamsOf<'load'>): Promise<void> {
+  let last = 0;
+  const result = await engine.load(params.bytes, params.fileName, params.options, (fraction) => {
+    const now = Date.now();
+    if (now - last > 80) { last = now; progress('load', jobId, fraction); }
+  });
+  // The computation worker gets its own copy straight from here, and the page the originals, handed over
+  // (copying 50 MB on the page's thread took 0.25-0.4 s there).
+  const shared = !!(result.ok && params.share && peer);
+  if (result.ok && shared && peer) {
+    const copies = result.traces.map((t) => ({ ...t, x: t.x.slice(), y: t.y.slice() }));
+    const through: ThroughPort = { type: 'traces', traces: copies };
+    peer.postMessage(through, copies.flatMap((t) => [t.x.buffer, t.y.buffer]));
+  }
+  reply('load', jobId, { result, shared }, transferablesOf(result));
 }

@@ -16,6 +16,9 @@ import { hampel, slidingMedian, type MedianEdge } from '../../src/core/numeric/s
 import { solveBandedSymmetric, whittaker } from '../../src/core/numeric/banded.ts';
 import { baselineAsls } from '../../src/core/steps/baseline.ts';
 import { findLocalMaxima, peakProminences, peakWidths, selectByDistance } from '../../src/core/measure/peak-detection.ts';
+import { hullUnder, lineAt } from '../../src/core/measure/peak-bounds.ts';
+import { noiseModel } from '../../src/core/measure/peak-snr.ts';
+import { defaultPeakOptions } from '../../src/core/measure/peak-table.ts';
 
 const REL = 1e-9;
 const RUNS = 200;
@@ -502,5 +505,46 @@ describe('peak primitives equal SciPy’s definitions written out naively', () =
         expect(Array.from(selectByDistance(peaks, y, distance))).toEqual(peaks.filter((_, k) => keep[k]));
       },
     ), { seed: 81011, numRuns: RUNS });
+  });
+});
+
+describe('the hull line under a peak (peak-bounds.ts, run once per candidate) equals its definition', () => {
+  // Definition: the box averages g_j (half-width r, the ends repeated) of samples lo..hi; the lower convex
+  // envelope of the points (x_j, g_j) at x_i is min over a ≤ i ≤ b of the chord from a to b at x_i; the line
+  // returned must meet the envelope there and lie nowhere above any g_j (a supporting line).
+  const input = fc.record({
+    y: fc.array(fc.double({ min: -20, max: 20, noNaN: true }), { minLength: 5, maxLength: 160 }),
+    steps: fc.array(fc.double({ min: 0.1, max: 3, noNaN: true }), { minLength: 160, maxLength: 160 }),
+    r: fc.integer({ min: 0, max: 6 }),
+    a: fc.nat(), b: fc.nat(), at: fc.nat(),
+  });
+  it('one fused pass (running box sum + monotone chain) = brute-force envelope and supporting line, 1e-9 relative', () => {
+    fc.assert(fc.property(input, ({ y: ys, steps, r, a, b, at }) => {
+      const n = ys.length;
+      const s = Float64Array.from(ys);
+      const x = new Float64Array(n);
+      for (let j = 1; j < n; j++) x[j] = x[j - 1] + steps[j];
+      const lo = Math.min(a % n, b % n), hi = Math.max(a % n, b % n);
+      const i = lo + (at % (hi - lo + 1));
+      const c = { x, s, noise: noiseModel(s, defaultPeakOptions(1)) };
+      const copy = Float64Array.from(s);
+      const line = { ...hullUnder(c, i, lo, hi, r) };
+      expect(s).toEqual(copy);
+      const g = (j: number) => {
+        let sum = 0;
+        for (let k = j - r; k <= j + r; k++) sum += s[Math.min(n - 1, Math.max(0, k))];
+        return sum / (2 * r + 1);
+      };
+      let env = g(i);
+      for (let p = lo; p <= i; p++) {
+        for (let q = i; q <= hi; q++) {
+          if (p === q) continue;
+          env = Math.min(env, g(p) + ((g(q) - g(p)) * (x[i] - x[p])) / (x[q] - x[p]));
+        }
+      }
+      const tol = REL * Math.max(1, maxAbs(s)) * Math.max(1, x[n - 1]);
+      expect(Math.abs(lineAt(line, x[i]) - env)).toBeLessThanOrEqual(tol);
+      for (let j = lo; j <= hi; j++) expect(lineAt(line, x[j])).toBeLessThanOrEqual(g(j) + tol);
+    }), { seed: 81012, numRuns: RUNS });
   });
 });

@@ -6,12 +6,13 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { AnalysisMemo, analyse, analyseStaged, applyStage, STAGES, type AnalyseRequest, type AnalyseResult, type StageUpdate } from '../../src/core/analysis/index.ts';
+import { AnalysisMemo, analyse, analyseStaged, analyseSteps, applyStage, STAGES, type AnalyseRequest, type AnalyseResult, type StageUpdate } from '../../src/core/analysis/index.ts';
 import { PipelineCache } from '../../src/core/pipeline.ts';
 import { emptyRecipe, makeRecipeStep, type Recipe } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY, stepDefinition } from '../../src/core/steps/registry.ts';
 import { createTrace, type Trace } from '../../src/core/trace.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';
+import { DETECT_PAUSE_EVERY } from '../../src/core/measure/peak-table.ts';
 
 function synthetic(seed: number, n: number): Trace {
   const rng = makeRng(seed);
@@ -111,5 +112,36 @@ describe('staged analysis', () => {
         expect(numbers(staged)).toEqual(numbers(once));
       },
     ), { numRuns: 25, seed: 16 });
+  });
+
+  it('pauses inside peak detection, and a run dropped at any pause leaves nothing behind that changes the next result', () => {
+    // 30 000 points of noise with two peaks: some 3 000 candidates pass the prominence test, more than one pause's worth.
+    const t = synthetic(11, 30_000);
+    const traces = new Map([[t.id, t]]);
+    const req = (w: number): AnalyseRequest => ({
+      sampleId: t.id, scanIds: [], recipe: recipeOf([{ step: 'moving-average', size: w }]),
+      alternatives: [{ id: 'a', label: 'a', recipe: recipeOf([{ step: 'savitzky-golay', size: 2 }]) }],
+    });
+    const steps = [...analyseSteps(req(1), traces, STEP_REGISTRY)];
+    const stageAt = steps.map((u, k) => (u ? u.stage : steps.slice(k).find((v) => v)!.stage));
+    const pauses = stageAt.filter((s, k) => steps[k] === undefined);
+    // The raw reference (in the peaks stage) pauses, and so may the noise-bump simulation (when not cached yet) and
+    // the alternative; the stages before detection never do.
+    expect(pauses.filter((s) => s === 'peaks').length).toBeGreaterThanOrEqual(1);
+    for (const s of pauses) expect(['peaks', 'bumps', 'alternative', 'loss']).toContain(s);
+    expect(DETECT_PAUSE_EVERY).toBeLessThan(3000);
+    const fresh = numbers(analyse(req(2), traces, STEP_REGISTRY));
+    for (let cut = 0; cut < steps.length; cut++) {
+      if (steps[cut] !== undefined) continue;
+      // What a worker keeps: the first request is dropped at this pause, the next one runs whole on the same caches.
+      const pipeline = new PipelineCache(96);
+      const memo = new AnalysisMemo();
+      const gen = analyseSteps(req(1), traces, STEP_REGISTRY, { pipeline, memo });
+      for (let k = 0; k <= cut; k++) gen.next();
+      gen.return();
+      let result: AnalyseResult | null = null;
+      for (const u of analyseSteps(req(2), traces, STEP_REGISTRY, { pipeline, memo })) if (u) result = applyStage(result, u);
+      expect(numbers(result)).toEqual(fresh);
+    }
   });
 });

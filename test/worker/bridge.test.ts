@@ -7,7 +7,7 @@ import { describe, expect, test } from 'vitest';
 import { createTrace, type Trace } from '../../src/core/trace.ts';
 import { Engine } from '../../src/worker/engine.ts';
 import { workerBackend } from '../../src/worker/bridge.ts';
-import type { ToWorker } from '../../src/worker/protocol.ts';
+import type { Call, FromWorker, ToWorker } from '../../src/worker/protocol.ts';
 import { emptyRecipe } from '../../src/core/recipe.ts';
 
 const mk = (id: string): Trace => createTrace({ id, name: id, x: [0, 1, 2, 3, 4], y: [1, 2, 3, 2, 1], source: { fileName: `${id}.csv`, sha256: '0'.repeat(64), rowsRead: 5, rowsSkipped: 0 } });
@@ -17,6 +17,7 @@ class FakeWorker {
   posted: ToWorker[] = [];
   onmessage: ((ev: MessageEvent) => void) | null = null;
   onerror: ((ev: ErrorEvent) => void) | null = null;
+  onmessageerror: ((ev: MessageEvent) => void) | null = null;
   constructor() { FakeWorker.made.push(this); }
   postMessage(msg: ToWorker) { this.posted.push(msg); }
   terminate() { /* nothing runs */ }
@@ -38,7 +39,7 @@ describe('traces cross to the worker once', () => {
     void backend.analyse({ sampleId: 'b', scanIds: [], recipe: emptyRecipe() }, () => undefined).catch(() => undefined);
     const w2 = FakeWorker.made.at(-1)!;
     expect(w2).not.toBe(w);
-    expect(w2.posted.map((m) => m.type)).toEqual(['inputs', 'analyse']);
+    expect(w2.posted.map((m) => (m.type === 'call' ? m.method : m.type))).toEqual(['inputs', 'analyse']);
     expect((w2.posted[0] as Extract<ToWorker, { type: 'inputs' }>).traces.map((t) => t.id)).toEqual(['b', 'c']);
   });
 
@@ -68,10 +69,10 @@ describe('a loaded file reaches the computation worker through the port, not thr
     const lPort = loader.posted.find((m) => m.type === 'port') as Extract<ToWorker, { type: 'port' }>;
     expect(cPort.port).toBeDefined();
     expect(lPort.port).toBeDefined();
-    const job = loader.posted.find((m) => m.type === 'load') as Extract<ToWorker, { type: 'load' }>;
-    expect(job.share).toBe(true);
+    const job = loader.posted.find((m) => m.type === 'call' && m.method === 'load') as Extract<Call, { method: 'load' }>;
+    expect(job.params.share).toBe(true);
     const b = mk('b');
-    loader.onmessage!({ data: { type: 'loaded', jobId: job.jobId, result: { ok: true, traces: [b], report: {} }, shared: true } } as MessageEvent);
+    loader.onmessage!({ data: { type: 'result', method: 'load', jobId: job.jobId, value: { result: { ok: true, traces: [b], report: {} }, shared: true } } } as MessageEvent);
     const result = await loading;
     expect(result.ok && result.traces[0].id).toBe('b');
     backend.setInputs([a, b]);
@@ -93,5 +94,63 @@ describe('a loaded file reaches the computation worker through the port, not thr
     expect(e.incomplete).toBe(false);
     const held = (e as unknown as { traces: Map<string, Trace> }).traces;
     expect([...held.keys()].sort()).toEqual(['a', 'b', 'c']);
+  });
+});
+
+describe('one typed method map; nothing that goes wrong is dropped', () => {
+  const reply = (w: FakeWorker, msg: FromWorker) => w.onmessage!({ data: msg } as MessageEvent);
+
+  test('each call is answered by its method\'s result; a failed call rejects with the worker\'s message', async () => {
+    FakeWorker.made = [];
+    const backend = workerBackend(() => new FakeWorker() as unknown as Worker);
+    backend.setInputs([mk('a')]);
+    const w = FakeWorker.made[0];
+    const analysing = backend.analyse({ sampleId: 'a', scanIds: [], recipe: emptyRecipe() }, () => undefined);
+    const fitting = backend.fit({ sampleId: 'a', scanIds: [], recipe: emptyRecipe(), settings: {} as never });
+    const calls = w.posted.filter((m): m is Call => m.type === 'call');
+    expect(calls.map((m) => m.method)).toEqual(['analyse', 'fit']);
+    reply(w, { type: 'result', method: 'analyse', jobId: calls[0].jobId, value: { outcome: 'cancelled', ms: 3 } });
+    expect(await analysing).toBe(false);
+    reply(w, { type: 'failed', jobId: calls[1].jobId, message: 'RangeError: no region' });
+    await expect(fitting).rejects.toThrow('RangeError: no region');
+  });
+
+  test('a failure that belongs to no waiting job, an unreadable message and a fault with nothing waiting reach the page', () => {
+    FakeWorker.made = [];
+    const said: string[][] = [];
+    const backend = workerBackend(() => new FakeWorker() as unknown as Worker, (title, lines) => said.push([title, ...lines]));
+    backend.setInputs([mk('a')]);
+    const w = FakeWorker.made[0];
+    reply(w, { type: 'failed', jobId: null, message: 'The computation worker could not take in a message: TypeError: x' });
+    reply(w, { type: 'failed', jobId: 999, message: 'late failure of a job the page no longer waits for' });
+    w.onmessageerror!({} as MessageEvent);
+    w.onerror!({ message: 'out of memory' } as ErrorEvent);
+    expect(said.map((s) => s[0])).toEqual([
+      'The computation worker reported a problem',
+      'The computation worker reported a problem',
+      'A message from the computation worker could not be read',
+      'The computation worker stopped',
+    ]);
+    expect(said[0][1]).toContain('TypeError: x');
+    expect(said[1][1]).toContain('late failure');
+    expect(said[3][1]).toBe('out of memory');
+  });
+
+  test('a batch goes to the loading worker with the files\' bytes handed over, and reports progress per file', async () => {
+    FakeWorker.made = [];
+    const backend = workerBackend(() => new FakeWorker() as unknown as Worker);
+    backend.setInputs([mk('a')]);
+    const bytes = new Uint8Array([1, 2, 3]);
+    const seen: number[] = [];
+    const running = backend.batch([{ name: 'f.csv', bytes }], emptyRecipe(), { now: new Date(0) }, (p) => seen.push(p.done));
+    const loader = FakeWorker.made[1];
+    const job = loader.posted.find((m) => m.type === 'call') as Extract<Call, { method: 'batch' }>;
+    expect(job.method).toBe('batch');
+    expect(job.params.files[0].name).toBe('f.csv');
+    reply(loader, { type: 'progress', method: 'batch', jobId: job.jobId, progress: { done: 1, total: 1, file: 'f.csv' } });
+    const zip = new Uint8Array([80, 75]);
+    reply(loader, { type: 'result', method: 'batch', jobId: job.jobId, value: { zip, errors: [], combinedCsv: '', entries: [] } });
+    expect((await running).zip).toBe(zip);
+    expect(seen).toEqual([1]);
   });
 });

@@ -55,7 +55,7 @@ describe('rows as columns', () => {
 describe('the page side of the bridge', () => {
   it('puts a stage’s peak columns back as rows before the store sees the update, and ends the job on done', async () => {
     const { workerBackend } = await import('../../src/worker/bridge.ts');
-    const posted: { type: string; jobId?: number }[] = [];
+    const posted: { type: string; method?: string; jobId?: number }[] = [];
     let fake: { onmessage: ((ev: MessageEvent) => void) | null } = { onmessage: null };
     const backend = workerBackend(() => {
       fake = { onmessage: null, postMessage: (m: { type: string }) => posted.push(m), terminate: () => undefined } as unknown as typeof fake;
@@ -64,9 +64,9 @@ describe('the page side of the bridge', () => {
     const rows = [{ x: 1.5, snr: null, flag: 'detectable', marks: [] }, { x: 2.5, snr: 12.25, flag: 'quantifiable', marks: ['thinly-sampled'] }];
     const seen: unknown[] = [];
     const job = backend.analyse({ sampleId: 's', scanIds: [], recipe: emptyRecipe() }, (u) => seen.push(u.patch.peaks));
-    const jobId = posted.find((m) => m.type === 'analyse')!.jobId!;
+    const jobId = posted.find((m) => m.type === 'call' && m.method === 'analyse')!.jobId!;
     fake.onmessage!({ data: { type: 'stage', jobId, update: { stage: 'peaks', sampleId: 's', pending: ['loss'], patch: {} }, peakColumns: structuredClone(toColumns(rows)) } } as MessageEvent);
-    fake.onmessage!({ data: { type: 'done', jobId, ms: 1 } } as MessageEvent);
+    fake.onmessage!({ data: { type: 'result', method: 'analyse', jobId, value: { outcome: 'done', ms: 1 } } } as MessageEvent);
     expect(await job).toBe(true);
     expect(seen).toEqual([rows]);
   });

@@ -13,6 +13,10 @@
  *   6. alternative  one job per alternative stack (memo: the current stack's edit cannot change them)
  *   7. loss         the ledger, the window advice, and the final residual verdict
  *
+ * Inside stages 4–7 peak detection pauses every few milliseconds (the
+ * tables, the noise-bump simulation, each alternative; `analyseSteps`,
+ * pause.ts), so a worker can stop stale work there too.
+ *
  * `analyse()` collects every update into one result: tests, the CLI, the
  * bench and batch runs use it. Pure: nothing here changes its input.
  */
@@ -25,14 +29,14 @@ import type { Trace } from '../trace.ts';
 import { meanStep } from '../numeric/interpolate.ts';
 import { combineVerdict } from '../diagnostics.ts';
 import { markAppearsOnlyAfterProcessing, markSaturatedOnRaw } from '../measure/peak-table.ts';
-import { expectedNoiseBumps } from '../measure/noise-bumps.ts';
+import { expectedNoiseBumpsStepwise } from '../measure/noise-bumps.ts';
 import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, MAX_ALTERNATIVES, type AnalyseRequest } from './request.ts';
 import { STAGES, type AnalyseResult, type StageName, type StageUpdate } from './result.ts';
 import { AnalysisMemo, type AlternativeMeasured } from './memo.ts';
 import { intermediateOf, processedSomething, processSample, runSummaries, stackOf } from './stages/process.ts';
 import { residualOfRun, residualTests } from './stages/residual.ts';
-import { measurePeaks, noiseOn, peaksOn } from './stages/measure.ts';
-import { rawReference } from './stages/reference.ts';
+import { measurePeaksStepwise, noiseOn, peaksOnStepwise } from './stages/measure.ts';
+import { rawReferenceStepwise } from './stages/reference.ts';
 import { measureAlternative } from './stages/alternatives.ts';
 import { lossReport } from './stages/loss.ts';
 
@@ -51,6 +55,16 @@ export interface AnalysisCaches {
 export function* analyseStaged(
   request: AnalyseRequest, traces: ReadonlyMap<string, Trace>, registry: Registry, caches: AnalysisCaches = {},
 ): Generator<StageUpdate, void, void> {
+  for (const u of analyseSteps(request, traces, registry, caches)) if (u) yield u;
+}
+
+/**
+ * {@link analyseStaged} with the pauses inside long stages passed on (`undefined` between updates, every few ms
+ * of peak detection; pause.ts): the worker lets a newer request in there and may stop pulling.
+ */
+export function* analyseSteps(
+  request: AnalyseRequest, traces: ReadonlyMap<string, Trace>, registry: Registry, caches: AnalysisCaches = {},
+): Generator<StageUpdate | undefined, void, void> {
   const cache = caches.pipeline;
   const memo = caches.memo ?? new AnalysisMemo();
   const sample = traces.get(request.sampleId);
@@ -91,8 +105,8 @@ export function* analyseStaged(
 
   // 4. Peaks, marked against the raw trace's own table (which the loss check uses too, and only needs when
   //    something processed the trace or alternatives are asked for).
-  const main = peaksOn(measured, raw, noise, ps, ctx, stack, request.decisions);
-  const reference = ran || alts.length > 0 ? rawReference(request, raw, ctx, memo) : main;
+  const main = yield* peaksOnStepwise(measured, raw, noise, ps, ctx, stack, request.decisions);
+  const reference = ran || alts.length > 0 ? yield* rawReferenceStepwise(request, raw, ctx, memo) : main;
   if (measured !== raw && ran) {
     // What the raw trace does not have, and tops flat at the raw trace's largest value (smoothing rounds them).
     main.peaks = markSaturatedOnRaw(markAppearsOnlyAfterProcessing(main.peaks, reference.peaks, meanStep(raw.x)), raw.x, raw.y, ps.negative);
@@ -104,14 +118,14 @@ export function* analyseStaged(
   // 5. The expected count of noise-only bumps: a simulation for each new set of thresholds and noise correlation
   //    (0.3–1 s), so it lands after the table.
   const noiseBumps = main.peakOptions && main.peakOptions.noiseSigma > 0
-    ? expectedNoiseBumps(measured.y.length, meanStep(measured.x), main.peakOptions, main.noise?.measuredRho)
+    ? yield* expectedNoiseBumpsStepwise(measured.y.length, meanStep(measured.x), main.peakOptions, main.noise?.measuredRho)
     : null;
   yield { stage: 'bumps', sampleId, pending: pendingAfter('bumps'), patch: { noiseBumps } };
 
   // 6. One job per alternative.
   const measuredAlts: AlternativeMeasured[] = [];
   for (let k = 0; k < alts.length; k++) {
-    measuredAlts.push(measureAlternative(request, alts[k], raw, ctx, registry, memo, cache));
+    measuredAlts.push(yield* measureAlternative(request, alts[k], raw, ctx, registry, memo, cache));
     const pending = pendingAfter('alternative');
     yield { stage: 'alternative', sampleId, pending: k + 1 < alts.length ? ['alternative', ...pending] : pending, patch: {}, progress: { done: k + 1, of: alts.length } };
   }
@@ -122,7 +136,7 @@ export function* analyseStaged(
     // Hand decisions belong to the current table only; the comparison uses what detection finds.
     const reuse = ps.measureOn === 'processed' && !request.decisions?.added.length && !request.decisions?.removed.length && !request.decisions?.bounds?.length;
     const lossPs = { ...ps, measureOn: 'processed' as const };
-    const current = reuse ? main : measurePeaks(run.final, raw, noiseSettings, lossPs, ctx, stack);
+    const current = reuse ? main : yield* measurePeaksStepwise(run.final, raw, noiseSettings, lossPs, ctx, stack);
     loss = lossReport(request, raw, sample, main, current, reference, measuredAlts, noiseBumps, registry);
   }
   const diagnostics = tests && loss ? combineVerdict(tests, loss.currentWeakened) : tests;

@@ -11,6 +11,7 @@
  */
 import type { Measured } from './stages/measure.ts';
 import type { AlternativeOutcome } from './result.ts';
+import type { Stepwise } from './pause.ts';
 
 interface Entry<T> { y: Float64Array; value: T }
 
@@ -21,12 +22,27 @@ class KeyedMemo<T> {
   private byTrace = new Map<string, Map<string, Entry<T>>>();
 
   get(traceId: string, y: Float64Array, key: string, make: () => T): T {
+    const hit = this.find(traceId, y, key);
+    if (hit) return hit.value;
+    return this.keep(traceId, y, key, make());
+  }
+
+  /** {@link get} for a value made in steps (analysis/pause.ts); nothing is kept when the steps are dropped half-way. */
+  *getStepwise(traceId: string, y: Float64Array, key: string, make: () => Stepwise<T>): Stepwise<T> {
+    const hit = this.find(traceId, y, key);
+    if (hit) return hit.value;
+    return this.keep(traceId, y, key, yield* make());
+  }
+
+  private find(traceId: string, y: Float64Array, key: string): Entry<T> | undefined {
+    const hit = this.byTrace.get(traceId)?.get(key);
+    return hit && hit.y === y ? hit : undefined;
+  }
+
+  private keep(traceId: string, y: Float64Array, key: string, value: T): T {
     let m = this.byTrace.get(traceId);
     if (!m) { m = new Map(); this.byTrace.set(traceId, m); }
-    const hit = m.get(key);
-    if (hit && hit.y === y) return hit.value;
-    const value = make();
-    if (m.size >= PER_TRACE) m.delete(m.keys().next().value as string);
+    if (!m.has(key) && m.size >= PER_TRACE) m.delete(m.keys().next().value as string);
     m.set(key, { y, value });
     return value;
   }

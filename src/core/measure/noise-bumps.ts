@@ -18,7 +18,7 @@
  */
 import { dft } from '../numeric/fft.ts';
 import { makeRng } from '../numeric/random.ts';
-import { detectPeaks } from './peak-table.ts';
+import { detectPeaksStepwise } from './peak-table.ts';
 import type { PeakOptions } from './peak-types.ts';
 
 /** The expected count of noise-only rows, with how it was obtained. */
@@ -91,6 +91,18 @@ const cache = new Map<string, Omit<NoiseBumpCount, 'points' | 'aboveDetection' |
  * @throws RangeError unless points ≥ 1, dx > 0 and σ > 0.
  */
 export function expectedNoiseBumps(points: number, dx: number, options: PeakOptions, correlation?: ArrayLike<number>): NoiseBumpCount {
+  const steps = expectedNoiseBumpsStepwise(points, dx, options, correlation);
+  for (;;) {
+    const r = steps.next();
+    if (r.done) return r.value;
+  }
+}
+
+/**
+ * {@link expectedNoiseBumps} in steps: it pauses inside the detection of each simulated chunk
+ * (detectPeaksStepwise), so the worker can stop it for a newer request; the cache is filled only when it ends.
+ */
+export function* expectedNoiseBumpsStepwise(points: number, dx: number, options: PeakOptions, correlation?: ArrayLike<number>): Generator<undefined, NoiseBumpCount, void> {
   if (!(points >= 1) || !(dx > 0) || !(options.noiseSigma > 0)) {
     throw new RangeError('The expected count of noise bumps needs a trace length, a positive sample spacing and a positive noise σ.');
   }
@@ -120,7 +132,7 @@ export function expectedNoiseBumps(points: number, dx: number, options: PeakOpti
       const y = correlatedNoise(CHUNK, sim.noiseCorrelation, (SEED + chunk * 0x9e3779b9) >>> 0);
       const x = new Float64Array(CHUNK);
       for (let i = 0; i < CHUNK; i++) x[i] = i;
-      for (const p of detectPeaks(x, y, sim)) {
+      for (const p of yield* detectPeaksStepwise(x, y, sim)) {
         const s = p.snr;
         if (s === null) continue;
         if (s >= sim.limits.detection) { dl++; snrs.push(s); }

@@ -399,8 +399,9 @@ const hullLine: { x0: number; y0: number; slope: number } = { x0: 0, y0: 0, slop
  * lo..hi, and its edge that spans x[i]: a straight line that nowhere lies
  * above the averaged trace between its two ends. Noise puts it 2–3 σ_B
  * below the baseline; on a noiseless straight baseline it is the baseline.
+ * The line returned is reused by the next call (copy what you keep).
  */
-function hullUnder(c: MeasureContext, i: number, lo: number, hi: number, r: number): Line {
+export function hullUnder(c: MeasureContext, i: number, lo: number, hi: number, r: number): Line {
   const out = hullLine;
   const { x, s } = c;
   const n = s.length;
@@ -410,17 +411,20 @@ function hullUnder(c: MeasureContext, i: number, lo: number, hi: number, r: numb
   const B = 2 * r + 1, last = n - 1;
   let sum = 0;
   for (let k = lo - r; k <= lo + r; k++) sum += s[k < 0 ? 0 : k > last ? last : k];
-  for (let j = lo; j <= hi; j++) {
-    g[j - lo] = sum / B;
-    const add = j + 1 + r, drop = j - r;
-    sum += s[add < 0 ? 0 : add > last ? last : add] - s[drop < 0 ? 0 : drop > last ? last : drop];
-  }
+  // One pass: each box average is made (running sum, the same additions in the same order as a separate pass)
+  // and pushed on the monotone chain at once. 0 ≤ lo ≤ j ≤ hi ≤ last, so the sum's entering index is ≥ 1 and
+  // its leaving index ≤ last.
   let top = 0;
   for (let j = lo; j <= hi; j++) {
-    const gj = g[j - lo];
+    const gj = sum / B;
+    g[j - lo] = gj;
+    const add = j + 1 + r, drop = j - r;
+    sum += s[add > last ? last : add] - s[drop < 0 ? 0 : drop];
+    const xj = x[j];
     while (top >= 2) {
       const a = st[top - 2], b = st[top - 1];
-      const cross = (x[b] - x[a]) * (gj - g[a - lo]) - (g[b - lo] - g[a - lo]) * (x[j] - x[a]);
+      const xa = x[a], ga = g[a - lo];
+      const cross = (x[b] - xa) * (gj - ga) - (g[b - lo] - ga) * (xj - xa);
       if (cross > 0) break;
       top--;
     }

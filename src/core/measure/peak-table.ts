@@ -219,6 +219,25 @@ export function defaultPeakOptions(noiseSigma: number, dx = 1): PeakOptions {
  *   thresholds that are negative or not numbers (message says which).
  */
 export function detectPeaks(x: Float64Array, y: Float64Array, options: PeakOptions): Peak[] {
+  const steps = detectPeaksStepwise(x, y, options);
+  for (;;) {
+    const r = steps.next();
+    if (r.done) return r.value;
+  }
+}
+
+/** Candidates measured between two pauses of {@link detectPeaksStepwise} (a few ms of work). */
+export const DETECT_PAUSE_EVERY = 2048;
+
+/**
+ * {@link detectPeaks} in steps: it pauses (yields) after every
+ * {@link DETECT_PAUSE_EVERY} candidates measured, so a caller can let other
+ * work in between (the worker lets a newer request stop it there, issue 16)
+ * or drop it; the finished generator returns the table. The state it keeps
+ * across a pause is its own (no shared scratch arrays), so another detection
+ * may run while it is paused.
+ */
+export function* detectPeaksStepwise(x: Float64Array, y: Float64Array, options: PeakOptions): Generator<undefined, Peak[], void> {
   checkOptions(x, y, options);
   const o = options;
   const sign = o.negative ? -1 : 1;
@@ -235,13 +254,15 @@ export function detectPeaks(x: Float64Array, y: Float64Array, options: PeakOptio
       idx[n] = idx[k]; pr[n] = pr[k]; lb[n] = lb[k]; rb[n] = rb[k]; n++;
     }
   }
-  const cIdx = idx.subarray(0, n);
+  // Copies of what the loop reads (the arrays above may be shared scratch, and the loop pauses).
+  const cIdx = idx.slice(0, n), cPr = pr.slice(0, n), cLb = lb.slice(0, n), cRb = rb.slice(0, n);
   // The half-prominence width only limits how far the first feet are looked for.
-  const w: WidthData = { widths: scratchF64('widths', n), widthHeights: scratchF64('widthHeights', n), leftIps: scratchF64('leftIps', n), rightIps: scratchF64('rightIps', n) };
-  widthsInto(s, cIdx, 0.5, { prominences: pr.subarray(0, n), leftBases: lb.subarray(0, n), rightBases: rb.subarray(0, n) }, w);
+  const w: WidthData = { widths: new Float64Array(n), widthHeights: scratchF64('widthHeights', n), leftIps: scratchF64('leftIps', n), rightIps: scratchF64('rightIps', n) };
+  widthsInto(s, cIdx, 0.5, { prominences: cPr, leftBases: cLb, rightBases: cRb }, w);
 
   const kept: Candidate[] = [];
   for (let k = 0; k < n; k++) {
+    if (k % DETECT_PAUSE_EVERY === DETECT_PAUSE_EVERY - 1) yield;
     const m = measureLocal(c, cIdx[k], w.widths[k]);
     if (!(m.height > 0)) continue;
     if (o.minWidth > 0 && xAt(x, m.rightIp) - xAt(x, m.leftIp) < o.minWidth) continue;
@@ -249,7 +270,7 @@ export function detectPeaks(x: Float64Array, y: Float64Array, options: PeakOptio
       const snr = snrOf(c, y, m, o);
       if (snr !== null && snr < o.minSnr) continue;
     }
-    kept.push({ m, prominence: pr[k], leftBase: lb[k], rightBase: rb[k], origin: 'detected' });
+    kept.push({ m, prominence: cPr[k], leftBase: cLb[k], rightBase: cRb[k], origin: 'detected' });
   }
   let cands = kept;
   if (o.minSeparation > 0) {

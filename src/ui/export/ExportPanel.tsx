@@ -1,6 +1,6 @@
 import { useRef, useState } from 'react';
 import Plotly from 'plotly.js-strict-dist-min';
-import { runBatch, type BatchError, type BatchProgress } from '../../core/export/batch.ts';
+import type { BatchError, BatchProgress } from '../../core/export/batch.ts';
 import { zipBaseName } from '../../core/export/names.ts';
 import { cleanedTraceCsv, recipeOneLine } from '../../core/export/cleaned-csv.ts';
 import { peakTableCsv, peakTableTsv } from '../../core/export/peak-csv.ts';
@@ -17,6 +17,7 @@ import { clearSession, SESSION_UNDO_STEPS } from './session-db.ts';
 import { SessionFileControls } from './SessionFileControls.tsx';
 import { markDrawn } from '../draw-health.ts';
 import { exportExtras } from '../fit/export-extras.ts';
+import { getBackend } from '../controller.ts';
 
 type Guarded = 'cleaned' | 'peaks' | 'report';
 
@@ -167,8 +168,8 @@ export function ExportPanel({ getFigure }: Props) {
       for (const f of list) files.push({ name: f.name, bytes: new Uint8Array(await f.arrayBuffer()) });
       const st = useApp.getState();
       const now = new Date();
-      const out = await runBatch(files, recipe, STEP_REGISTRY, { noise: st.noiseSettings, peaks: st.peakSettings, csv: { delimiter, decimal }, now },
-        (p) => { setProgress(p); return new Promise<void>((r) => setTimeout(r, 0)); });
+      // Issue 16: in the loading worker (a large file froze the page when run here).
+      const out = await getBackend().batch(files, recipe, { noise: st.noiseSettings, peaks: st.peakSettings, csv: { delimiter, decimal }, now }, setProgress);
       setBatchErrors(out.errors);
       downloadBlob(out.zip, `tracewright-batch-${stamp(now)}.zip`, 'application/zip');
       notify(out.errors.length ? 'warning' : 'info', `Batch of ${files.length} file(s) done`, out.errors.length ? [`${out.errors.length} problem(s); they are listed in the export panel and in problems.txt in the ZIP.`] : ['Every file was processed.']);

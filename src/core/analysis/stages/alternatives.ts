@@ -9,19 +9,21 @@ import type { Signal, StepContext } from '../../steps/types.ts';
 import { residualDiagnostics } from '../../diagnostics.ts';
 import type { AlternativeMeasured, AnalysisMemo } from '../memo.ts';
 import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type AlternativeRequest, type AnalyseRequest } from '../request.ts';
-import { measurePeaks } from './measure.ts';
+import { measurePeaksStepwise } from './measure.ts';
+import type { Stepwise } from '../pause.ts';
 import { processSample, stackOf } from './process.ts';
 import { maxAbs, residualOfRun } from './residual.ts';
 
+/** Pauses inside detection (pause.ts); kept in the memo only when finished. */
 export function measureAlternative(
   request: AnalyseRequest, alt: AlternativeRequest, raw: Signal, ctx: StepContext, registry: Registry, memo: AnalysisMemo, cache?: PipelineCache,
-): AlternativeMeasured {
+): Stepwise<AlternativeMeasured> {
   const ps = { ...(request.peaks ?? DEFAULT_PEAK_SETTINGS), measureOn: 'processed' as const };
   const noiseSettings = request.noise ?? DEFAULT_NOISE_SETTINGS;
   const key = JSON.stringify([alt.id, alt.label, alt.recipe.steps, noiseSettings, ps, request.blankId ?? null, request.scanIds]);
-  return memo.alternatives.get(request.sampleId, raw.y, key, () => {
+  return memo.alternatives.getStepwise(request.sampleId, raw.y, key, function* () {
     const r = processSample(raw, request.sampleId, alt.recipe, registry, ctx, cache);
-    const measured = measurePeaks(r.final, raw, noiseSettings, ps, ctx, stackOf(r, alt.recipe, registry, ctx, request.sampleId));
+    const measured = yield* measurePeaksStepwise(r.final, raw, noiseSettings, ps, ctx, stackOf(r, alt.recipe, registry, ctx, request.sampleId));
     const res = residualOfRun(raw, r);
     const diag = res.ok && r.runs.some((x) => x.status === 'ok') ? residualDiagnostics(res.residual.y, maxAbs(raw.y)) : null;
     return {

@@ -7,7 +7,8 @@ import type { Signal, StepContext } from '../../steps/types.ts';
 import { meanStep } from '../../numeric/interpolate.ts';
 import { measureNoise, type NoiseReport, type NoiseSettings, type StackRun } from '../../measure/noise-report.ts';
 import type { Peak, PeakDecisions, PeakOptions } from '../../measure/peak-types.ts';
-import { applyPeakDecisions, defaultPeakOptions, detectPeaks } from '../../measure/peak-table.ts';
+import { applyPeakDecisions, defaultPeakOptions, detectPeaksStepwise } from '../../measure/peak-table.ts';
+import { drain, type Stepwise } from '../pause.ts';
 import type { PeakSettings } from '../request.ts';
 import { pharmacopoeialBlank } from '../../measure/companion-noise.ts'; // issue 20
 
@@ -26,6 +27,11 @@ export function noiseOn(measured: Signal, raw: Signal, noiseSettings: NoiseSetti
 
 /** Peaks on one signal with the user's settings and the noise already measured on it. */
 export function peaksOn(measured: Signal, raw: Signal, noise: NoiseReport | null, ps: PeakSettings, ctx: StepContext, stack: StackRun | null, decisions?: PeakDecisions): Measured {
+  return drain(peaksOnStepwise(measured, raw, noise, ps, ctx, stack, decisions));
+}
+
+/** {@link peaksOn} in steps: pauses inside detection (analysis/pause.ts). */
+export function* peaksOnStepwise(measured: Signal, raw: Signal, noise: NoiseReport | null, ps: PeakSettings, ctx: StepContext, stack: StackRun | null, decisions?: PeakDecisions): Stepwise<Measured> {
   if (measured.y.length < 5 || !noise) return { noise, peaks: [], peakOptions: null, peakProblem: 'Fewer than 5 points: no peaks can be measured.' };
   const sigma = noise.sigma.sigma;
   if (!Number.isFinite(sigma)) {
@@ -53,7 +59,7 @@ export function peaksOn(measured: Signal, raw: Signal, noise: NoiseReport | null
     noiseCorrelation: noise.measuredRho,
   };
   try {
-    let peaks = detectPeaks(measured.x, measured.y, peakOptions);
+    let peaks = yield* detectPeaksStepwise(measured.x, measured.y, peakOptions);
     if (decisions && (decisions.added.length || decisions.removed.length || decisions.bounds?.length)) peaks = /* issue 17: bounds */ applyPeakDecisions(peaks, decisions, measured.x, measured.y, peakOptions);
     return { noise, peaks, peakOptions };
   } catch (e) {
@@ -63,5 +69,10 @@ export function peaksOn(measured: Signal, raw: Signal, noise: NoiseReport | null
 
 /** Noise and peaks on one signal with the user's settings. */
 export function measurePeaks(measured: Signal, raw: Signal, noiseSettings: NoiseSettings, ps: PeakSettings, ctx: StepContext, stack: StackRun | null, decisions?: PeakDecisions): Measured {
-  return peaksOn(measured, raw, noiseOn(measured, raw, noiseSettings, stack), ps, ctx, stack, decisions);
+  return drain(measurePeaksStepwise(measured, raw, noiseSettings, ps, ctx, stack, decisions));
+}
+
+/** {@link measurePeaks} in steps: pauses inside detection. */
+export function measurePeaksStepwise(measured: Signal, raw: Signal, noiseSettings: NoiseSettings, ps: PeakSettings, ctx: StepContext, stack: StackRun | null, decisions?: PeakDecisions): Stepwise<Measured> {
+  return peaksOnStepwise(measured, raw, noiseOn(measured, raw, noiseSettings, stack), ps, ctx, stack, decisions);
 }

@@ -6,11 +6,13 @@
 import type { Signal, StepContext } from '../../steps/types.ts';
 import type { AnalysisMemo } from '../memo.ts';
 import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type AnalyseRequest } from '../request.ts';
-import { measurePeaks, type Measured } from './measure.ts';
+import { measurePeaksStepwise, type Measured } from './measure.ts';
+import type { Stepwise } from '../pause.ts';
 
-export function rawReference(request: AnalyseRequest, raw: Signal, ctx: StepContext, memo: AnalysisMemo): Measured {
+/** Pauses inside detection (pause.ts); kept in the memo only when finished. */
+export function rawReferenceStepwise(request: AnalyseRequest, raw: Signal, ctx: StepContext, memo: AnalysisMemo): Stepwise<Measured> {
   const ps = { ...(request.peaks ?? DEFAULT_PEAK_SETTINGS), measureOn: 'processed' as const };
   const noiseSettings = request.noise ?? DEFAULT_NOISE_SETTINGS;
   const key = JSON.stringify([noiseSettings, ps, ctx.blank?.id ?? null]);
-  return memo.reference.get(request.sampleId, raw.y, key, () => measurePeaks(raw, raw, noiseSettings, ps, ctx, null));
+  return memo.reference.getStepwise(request.sampleId, raw.y, key, () => measurePeaksStepwise(raw, raw, noiseSettings, ps, ctx, null));
 }
