@@ -167,7 +167,7 @@ export function ExportPanel({ getFigure }: Props) {
       for (const f of list) files.push({ name: f.name, bytes: new Uint8Array(await f.arrayBuffer()) });
       const st = useApp.getState();
       const now = new Date();
-      const out = await runBatch(files, recipe, STEP_REGISTRY, { noise: st.noiseSettings, peaks: st.peakSettings, csv: { delimiter, decimal }, now },
+      const out = await runBatch(files, recipe, STEP_REGISTRY, { noise: st.noiseSettings, peaks: st.peakSettings, csv: { delimiter, decimal }, now, calibration: calibration?.set ?? null },
         (p) => { setProgress(p); return new Promise<void>((r) => setTimeout(r, 0)); });
       setBatchErrors(out.errors);
       downloadBlob(out.zip, `tracewright-batch-${stamp(now)}.zip`, 'application/zip');
