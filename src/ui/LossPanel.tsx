@@ -1,4 +1,6 @@
 import type { LedgerCell } from '../core/loss.ts';
+import { ledgerFitNote } from '../core/measure/fit/ledger-fit.ts';
+import { useLedgerFits } from './fit/ledger-fits.ts';
 import { useApp } from '../state/store.ts';
 import { presetAlternative, PRESETS } from './alternatives.ts';
 import { num, FLAG_WORDS } from './format.ts';
@@ -33,6 +35,8 @@ export function LossPanel() {
   const xu = sample?.xUnit ?? '';
   const full = alternatives.length >= MAX_ALTERNATIVES;
   const rows = loss ? loss.ledger.rows : [];
+  const fits = useLedgerFits(); // issue 18: a column when a region fit compared the versions
+  const fitColumn = fits.some((f) => f.result.processing);
   const hidden = loss ? loss.noiseLevelRows : 0;
   // Thousands of rows would stall the page; crossed rows first, then by position.
   const shown = rows.length <= 300 ? rows : [...rows.filter((r) => r.crossed), ...rows.filter((r) => !r.crossed)].slice(0, 300).sort((a, b) => a.position - b.position);
@@ -117,6 +121,7 @@ export function LossPanel() {
                 <tr>
                   <th scope="col">Feature at{xu ? ` (${xu})` : ''}</th>
                   {loss.ledger.alternatives.map((a) => <th scope="col" key={a.id}>{a.label}</th>)}
+                  {fitColumn && <th scope="col">Peak count by region fit</th>}
                 </tr>
               </thead>
               <tbody>
@@ -131,6 +136,7 @@ export function LossPanel() {
                         )}
                       </td>
                     ))}
+                    {fitColumn && <td className="small" data-testid="ledger-fit">{ledgerFitNote(r.position, fits)?.text ?? 'not in a fitted region'}</td>}
                   </tr>
                 ))}
               </tbody>
