@@ -1,5 +1,5 @@
 import type { LedgerCell } from '../core/loss.ts';
-import { ledgerFitNote } from '../core/measure/fit/ledger-fit.ts';
+import { ledgerFitNote, type LedgerFitNote } from '../core/measure/fit/ledger-fit.ts';
 import { useLedgerFits } from './fit/ledger-fits.ts';
 import { useApp } from '../state/store.ts';
 import { presetAlternative, PRESETS } from './alternatives.ts';
@@ -20,6 +20,11 @@ function pct(v: number | null, signed = false): string {
 
 /** Sentences listed on the page at most (the report holds every one). */
 const MAX_SENTENCES = 300;
+
+/** The ledger cell of a feature inside a fitted region (issue 18): the count in a few words, the whole sentence on hover. */
+function FitCell({ note }: { note: LedgerFitNote | null }) {
+  return <td className={`small${note?.fewer ? ' down' : ''}`} data-testid="ledger-fit" title={note?.text}>{note?.brief ?? 'not in a fitted region'}</td>;
+}
 
 /** The loss check: alternatives side by side, the survival ledger, window advice. */
 export function LossPanel() {
@@ -136,7 +141,7 @@ export function LossPanel() {
                         )}
                       </td>
                     ))}
-                    {fitColumn && <td className="small" data-testid="ledger-fit">{ledgerFitNote(r.position, fits)?.text ?? 'not in a fitted region'}</td>}
+                    {fitColumn && <FitCell note={ledgerFitNote(r.position, fits)} />}
                   </tr>
                 ))}
               </tbody>

@@ -47,6 +47,7 @@ describe('ledger rows and region fits', () => {
     expect(note).not.toBe(null);
     expect(note!.text).toBe('Fit 1 (3–8, gaussian): 2 peaks supported by the fit on raw, not after 7-point average (1).');
     expect(note!.fewer).toBe(true);
+    expect(note!.brief).toBe('Fit 1: 2 peaks supported by the fit on raw, not after 7-point average (1).');
     expect(note!.counts).toEqual([{ label: 'raw', count: 2 }, { label: '7-point average', count: 1 }, { label: 'gentle step', count: 2 }]);
   });
 
@@ -62,6 +63,7 @@ describe('ledger rows and region fits', () => {
     expect(ledgerFitNote(5.2, both)!.fitNumber).toBe(2);
     expect(ledgerFitNote(5.2, both)!.text).toMatch(/^Fit 2 \(4\.5–6\.5, gaussian\): 2 peaks supported by the fit on raw, not after 7-point average \(1\)\. \(made with an earlier step stack\)$/);
     expect(ledgerFitNote(7, both)!.text).toMatch(/^Fit 1 .*Every version that could be fitted supports at least the 2 peaks found on raw\.$/);
+    expect(ledgerFitNote(7, both)!.brief).toBe('Fit 1: 2 peaks on raw, no fewer after any processing.');
     expect(ledgerFitLines([2, 5.52], both)).toEqual([`Feature at 5.52: ${ledgerFitNote(5.52, both)!.text}`]);
   });
 

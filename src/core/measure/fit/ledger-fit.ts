@@ -20,9 +20,14 @@ export interface LedgerFitNote {
   counts: { label: string; count: number | null }[];
   /** True when some version supports fewer peaks than the raw trace. */
   fewer: boolean;
-  /** The sentence for the row. */
+  /** The sentence for the row (region, shape and the processing check's summary). */
   text: string;
+  /** The same in a few words for a table cell, e.g. "Fit 1: 2 peaks supported by the fit on raw, not after 7-point average (1)." */
+  brief: string;
 }
+
+/** A region end as marked by a drag (5.40312…) in 5 significant digits. */
+const short = (v: number) => String(Number(v.toPrecision(5)));
 
 /**
  * The note for a ledger row at `position` (x-units): from the newest fit
@@ -34,11 +39,16 @@ export function ledgerFitNote(position: number, fits: readonly LedgerFit[]): Led
     const r = fits[i].result;
     if (!r.processing || !(position >= r.settings.from && position <= r.settings.to)) continue;
     const stale = fits[i].outOfDate ? ' (made with an earlier step stack)' : '';
+    const k = r.processing.referenceCount;
+    const brief = r.processing.fewer.length || k === null
+      ? `Fit ${i + 1}: ${r.processing.summary}${stale}`
+      : `Fit ${i + 1}: ${k} peak${k === 1 ? '' : 's'} on ${r.processing.reference}, no fewer after any processing.${stale}`;
     return {
+      brief,
       fitNumber: i + 1,
       counts: r.processing.rows.map((row) => ({ label: row.label, count: row.count })),
       fewer: r.processing.fewer.length > 0,
-      text: `Fit ${i + 1} (${r.settings.from}–${r.settings.to}, ${r.settings.shape}): ${r.processing.summary}${stale}`,
+      text: `Fit ${i + 1} (${short(r.settings.from)}–${short(r.settings.to)}, ${r.settings.shape}): ${r.processing.summary}${stale}`,
     };
   }
   return null;
