@@ -93,6 +93,10 @@ describe('region fits from the command line', () => {
     const summary = JSON.parse(readFileSync(join(out2, 'demo-sample-summary.json'), 'utf8'));
     expect(summary.fits).toHaveLength(1);
     expect(summary.fits[0].processing.map((p: { label: string }) => p.label)).toEqual(['raw', 'the method’s steps']);
+    expect(summary.fits[0].processingSummary).toMatch(/found on raw|supported by the fit on raw/);
+    const schema = JSON.parse(readFileSync('src/core/export/summary.schema.json', 'utf8'));
+    expect(schemaProblems(schema, summary, true)).toEqual([]);
+    expect(readFileSync(join(out2, 'demo-sample-peaks.csv'), 'utf8')).toContain(`Processing check: ${summary.fits[0].processingSummary}`);
     expect(summary.warnings.join(' ')).toMatch(/Region 500:600 was not fitted/);
   });
 });
