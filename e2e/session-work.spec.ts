@@ -77,6 +77,15 @@ test('reload keeps the region fit, the named peaks, the standards and their amou
   const csv = (await download(page, 'export-peaks-csv')).text.replace(/^\uFEFF/, '');
   expect(csv).toContain('# Fit 1: raw trace');
   expect(csv).toMatch(/^peak #,name,apex/m);
+  // The named rows carry their amounts (issue 21), each dye's truth inside its interval.
+  const rows = csv.split('\r\n').filter((l) => l && !l.startsWith('#')).map((l) => l.split(','));
+  const [nameCol, lowCol, highCol] = ['name', 'amount interval low (95 %)', 'amount interval high (95 %)'].map((h) => rows[0].indexOf(h));
+  expect(Math.min(nameCol, lowCol, highCol)).toBeGreaterThanOrEqual(0);
+  for (const d of truth.dyes) {
+    const row = rows.find((r) => r[nameCol] === d.name)!;
+    expect(Number(row[lowCol])).toBeLessThanOrEqual(d.sampleAmount);
+    expect(Number(row[highCol])).toBeGreaterThanOrEqual(d.sampleAmount);
+  }
   const html = (await download(page, 'export-report')).text;
   expect(html).toContain('<h2>Region fits</h2>');
   expect(html).toContain('<h2>Calibration and amounts</h2>');

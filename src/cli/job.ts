@@ -27,6 +27,8 @@ import { exportTime } from '../core/export/version.ts';
 import { fitExportExtras } from '../core/export/fit-extras.ts';
 import type { Peak } from '../core/measure/peak-types.ts';
 import { fitsForTrace, type CliFitOptions } from './fits.ts';
+import { amountPeakColumns, joinExtraColumns } from '../core/export/amount-columns.ts';
+import { peakNamingOf } from '../core/export/peak-names.ts';
 
 /** What every job of a run shares; plain data, so it can be handed to a worker thread. */
 export interface JobSetup {
@@ -244,8 +246,11 @@ export function runJob(ctx: JobContext, index: number, path: string): JobOutcome
       // Issue 18: region fits and figure columns, as the page's exports carry them.
       const fitted = ctx.setup.fit ? fitsForTrace(trace, result, ctx.setup.fit, exportTime(now)) : { fits: [], problems: [] };
       const figures = ctx.setup.figures ?? null;
-      const add = fitted.fits.length || figures ? fitExportExtras({ trace, result, fits: fitted.fits, figures, measureOn: analysisOf(method).peaks.measureOn }) : { extra: null, lines: [] };
-      const summary = analysisSummary({ trace, result, method, registry: STEP_REGISTRY, inputFile: path, loadNotices: loaded.notices, fits: fitted.fits });
+      const fitAdd = fitted.fits.length || figures ? fitExportExtras({ trace, result, fits: fitted.fits, figures, measureOn: analysisOf(method).peaks.measureOn }) : { extra: null, lines: [] };
+      // Issue 21: the named peaks' amounts as peak table columns.
+      const amountColumns = calibration ? amountPeakColumns(calibration.samples[0] ?? null, peakNamingOf(method, result.peaks)?.names ?? [], calibration.confidenceLevel) : null;
+      const add = { extra: joinExtraColumns(fitAdd.extra, amountColumns), lines: fitAdd.lines };
+      const summary = analysisSummary({ trace, result, method, registry: STEP_REGISTRY, inputFile: path, loadNotices: loaded.notices, fits: fitted.fits, calibration });
       summary.warnings.push(...fitted.problems);
       out.outputs.push({
         trace: traceShortName(trace),

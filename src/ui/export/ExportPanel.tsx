@@ -77,7 +77,7 @@ export function ExportPanel({ getFigure }: Props) {
     if (!sample || !result) return;
     const now = new Date();
     try {
-      const add = exportExtras(sample, result); // issue 18: fits and figure columns
+      const add = exportExtras(sample, result, calibration?.exp ?? null); // issue 18: fits and figure columns; issue 21: amounts
       if (kind === 'cleaned') {
         downloadCsv(cleanedTraceCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: { delimiter, decimal }, now }), `${stem}-cleaned.csv`);
       } else if (kind === 'peaks') {

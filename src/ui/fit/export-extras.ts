@@ -7,6 +7,9 @@
 import type { AnalyseResult } from '../../core/analysis/index.ts';
 import type { ExtraPeakColumns, FitForExport } from '../../core/export/fit-export.ts';
 import { fitExportExtras } from '../../core/export/fit-extras.ts';
+import { amountPeakColumns, joinExtraColumns } from '../../core/export/amount-columns.ts';
+import { nameTracePeaks } from '../../core/calibration/named-peaks.ts';
+import type { CalibrationExport } from '../../core/calibration/export.ts';
 import type { Trace } from '../../core/trace.ts';
 import { useApp } from '../../state/store.ts';
 
@@ -16,13 +19,18 @@ export interface ExportExtras {
   lines: string[];
 }
 
-/** The fits and extra columns the exports of `trace` carry now. */
-export function exportExtras(trace: Trace, result: AnalyseResult): ExportExtras {
+/**
+ * The fits and extra columns the exports of `trace` carry now; with the
+ * page's calibration (issue 21) the named rows also get their amounts.
+ */
+export function exportExtras(trace: Trace, result: AnalyseResult, calibration: CalibrationExport | null = null): ExportExtras {
   const s = useApp.getState();
   const stackKey = JSON.stringify(s.recipe.steps);
   const fits: FitForExport[] = s.fits
     .filter((f) => f.sampleId === trace.id)
     .map((f) => ({ madeAt: f.madeAt, result: f.result, outOfDate: f.result.settings.on === 'processed' && f.stackKey !== stackKey }));
   const { extra, lines } = fitExportExtras({ trace, result, fits, figures: s.showFigures ? { deadTime: s.deadTime } : null, measureOn: s.peakSettings.measureOn });
-  return { fits, extra, lines };
+  const names = calibration && s.namedPeaks.peaks.length ? nameTracePeaks(s.namedPeaks, result.peaks).names : [];
+  const amounts = calibration ? amountPeakColumns(calibration.samples[0] ?? null, names, calibration.confidenceLevel) : null;
+  return { fits, extra: joinExtraColumns(extra, amounts), lines };
 }
