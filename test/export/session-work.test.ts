@@ -146,6 +146,8 @@ describe('fits and calibration inputs in the saved session', () => {
     ];
     file.meta.work.standards = { format: 'tracewright-standards', version: 1, names: ['First'], units: ['mg/L'], rows: [{ standard: 'a', amounts: [-1] }] };
     file.meta.work.calibration = { format: 'tracewright-calibration-settings', version: 1, wobble: 1 };
+    file.meta.work.deadTime = -2;
+    file.meta.work.showFigures = 'yes';
     const out = sessionFromFileText(JSON.stringify(file), 'damaged.json');
     expect(out.ok).toBe(true);
     if (!out.ok) return;
@@ -154,6 +156,9 @@ describe('fits and calibration inputs in the saved session', () => {
     expect(notes).toMatch(/region fits could not be read .*whole number of 8-byte values/);
     expect(notes).toMatch(/amounts of the standards could not be restored/);
     expect(notes).toMatch(/calibration settings could not be restored.*Unknown setting "wobble"/);
+    expect(notes).toMatch(/saved dead time \(-2\) is not a positive number/);
+    expect(notes).toMatch(/choice of figure columns could not be read/);
+    expect(out.snapshot.deadTime).toBeUndefined();
     expect(out.snapshot.fits).toEqual([]);
     expect(out.snapshot.standardsTable).toBeUndefined();
     expect(out.snapshot.namedPeaks).toEqual(s.namedPeaks);

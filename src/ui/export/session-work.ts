@@ -177,7 +177,9 @@ export function sessionWorkFromJson(v: unknown, traceIds: ReadonlySet<string>): 
     if (c) work.fitChoices = c; else notes.push('The saved fit choices could not be read; the defaults are used.');
   }
   if (typeof v.showFigures === 'boolean') work.showFigures = v.showFigures;
+  else if (v.showFigures !== undefined) notes.push('The saved choice of figure columns could not be read; they are off.');
   if (v.deadTime === null || (typeof v.deadTime === 'number' && Number.isFinite(v.deadTime) && v.deadTime > 0)) work.deadTime = v.deadTime as number | null;
+  else if (v.deadTime !== undefined) notes.push(`The saved dead time (${JSON.stringify(v.deadTime)}) is not a positive number and was left out.`);
   if (v.namedPeaks !== undefined) {
     const t = namedPeaksBack(v.namedPeaks, notes);
     if (t) work.namedPeaks = t;
