@@ -1,29 +1,12 @@
-import { expect, test, type Page } from '@playwright/test';
+import { expect, test } from '@playwright/test';
 import { readFileSync } from 'node:fs';
-import { download, openWithDemo } from './helpers.ts';
+import { download, markRange, openWithDemo } from './helpers.ts';
 
 // Issue 18 on the demo (invented data, scripts/make-demo.mjs; truth in public/demo/demo-truth.json): the main
 // peak at 6.0 min carries a shoulder at 6.35 min of true S/N 4.4, which the peak table on the raw trace rarely
 // finds alone. A fit of the region on the raw trace must support two peaks.
 const truth = JSON.parse(readFileSync('public/demo/demo-truth.json', 'utf8')) as { peaks: { label: string; centre: number; height: number; sigma: number }[] };
 const shoulder = truth.peaks.find((p) => p.label === 'shoulder')!;
-
-/** Drag across the main plot from x = a to x = b (data units) with "Mark a range" on. */
-async function markRange(page: Page, a: number, b: number): Promise<void> {
-  await page.getByRole('button', { name: 'Mark a range' }).click();
-  const fig = page.getByTestId('figure');
-  const box = (await fig.boundingBox())!;
-  const px = await page.evaluate(([from, to]) => {
-    const gd = document.querySelector('[data-testid="figure"]') as unknown as { _fullLayout: { xaxis: { l2p: (v: number) => number; _offset: number }; yaxis: { _offset: number } } };
-    const xa = gd._fullLayout.xaxis;
-    return { a: xa.l2p(from) + xa._offset, b: xa.l2p(to) + xa._offset, y: gd._fullLayout.yaxis._offset + 80 };
-  }, [a, b]);
-  await page.mouse.move(box.x + px.a, box.y + px.y);
-  await page.mouse.down();
-  await page.mouse.move(box.x + (px.a + px.b) / 2, box.y + px.y + 5, { steps: 4 });
-  await page.mouse.move(box.x + px.b, box.y + px.y + 5, { steps: 4 });
-  await page.mouse.up();
-}
 
 test('fit the shoulder region on the raw trace: two peaks supported, drawn with the residual, fitted areas in the peak CSV and the report', async ({ page }) => {
   await openWithDemo(page);

@@ -61,3 +61,20 @@ const ISO = /\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d{3}Z/g;
 export const csvBody = (text: string): string => text.replace(/^\uFEFF/, '').split('\r\n').filter((l) => !l.startsWith('# Written at:')).join('\r\n');
 /** A report without its time stamps and without the user's confirmation block. */
 export const reportBody = (html: string): string => html.replace(/\n<div class="confirm" data-role="confirmation">[\s\S]*?<\/ul><\/div>/, '').replace(ISO, 'TIME');
+
+/** Drag across the main plot from x = a to x = b (data units) with "Mark a range" on. */
+export async function markRange(page: Page, a: number, b: number): Promise<void> {
+  await page.getByRole('button', { name: 'Mark a range' }).click();
+  const fig = page.getByTestId('figure');
+  const box = (await fig.boundingBox())!;
+  const px = await page.evaluate(([from, to]) => {
+    const gd = document.querySelector('[data-testid="figure"]') as unknown as { _fullLayout: { xaxis: { l2p: (v: number) => number; _offset: number }; yaxis: { _offset: number } } };
+    const xa = gd._fullLayout.xaxis;
+    return { a: xa.l2p(from) + xa._offset, b: xa.l2p(to) + xa._offset, y: gd._fullLayout.yaxis._offset + 80 };
+  }, [a, b]);
+  await page.mouse.move(box.x + px.a, box.y + px.y);
+  await page.mouse.down();
+  await page.mouse.move(box.x + (px.a + px.b) / 2, box.y + px.y + 5, { steps: 4 });
+  await page.mouse.move(box.x + px.b, box.y + px.y + 5, { steps: 4 });
+  await page.mouse.up();
+}

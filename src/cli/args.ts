@@ -4,6 +4,7 @@
  * value (parseArgs refuses a value that starts with a dash).
  */
 import type { LoadOptions } from '../core/io/types.ts';
+import { fitChoicesFromArgs, type CliFitOptions } from './fits.ts';
 
 export interface AnalyseOptions {
   inputs: string[];
@@ -22,6 +23,12 @@ export interface AnalyseOptions {
   standards: string[];
   amounts: string | null;
   namedPeaks: string | null;
+  /** Issue 18: regions to fit (--fit-region, repeatable) with --fit-shape, --fit-baseline, --fit-peaks, --fit-on; null without regions. */
+  fit: CliFitOptions | null;
+  /** Issue 18: figure columns (--figures) with the dead time (--dead-time, x-units) when given; null without --figures. */
+  figures: { deadTime: number | null } | null;
+  /** Issue 18: the combined table across the run's traces (--combine, --match-window in x-units); null without it. */
+  combine: { window: number | null } | null;
 }
 
 export type Parsed =
@@ -36,21 +43,30 @@ const VALUE_OPTIONS: Record<string, { repeat: boolean }> = {
   'trace-index': { repeat: false }, 'quiet-range': { repeat: false }, delimiter: { repeat: false },
   decimal: { repeat: false }, out: { repeat: false }, jobs: { repeat: false },
   standard: { repeat: true }, amounts: { repeat: false }, 'named-peaks': { repeat: false },
+  'fit-region': { repeat: true }, 'fit-shape': { repeat: false }, 'fit-baseline': { repeat: false }, 'fit-peaks': { repeat: false },
+  'fit-on': { repeat: false }, 'dead-time': { repeat: false }, 'match-window': { repeat: false },
 };
-const FLAG_OPTIONS = new Set(['json', 'help']);
+const FLAG_OPTIONS = new Set(['json', 'help', 'figures', 'combine']);
 
 const NUMBER = /^[-+]?(\d+(\.\d*)?|\.\d+)([eE][-+]?\d+)?$/;
 
-/** "FROM:TO" in x-units with a decimal point, negative values allowed; from < to. */
-export function parseQuietRange(text: string): [number, number] | string {
+/** "FROM:TO" in x-units with a decimal point, negative values allowed; from < to. `option` names the option in the sentence. */
+export function parseQuietRange(text: string, option = '--quiet-range'): [number, number] | string {
   const parts = text.split(':');
-  if (parts.length !== 2) return `--quiet-range takes FROM:TO in x-units (e.g. 0.5:1.25); got "${text}".`;
+  if (parts.length !== 2) return `${option} takes FROM:TO in x-units (e.g. 0.5:1.25); got "${text}".`;
   const [a, b] = parts.map((p) => p.trim());
-  if (!NUMBER.test(a) || !NUMBER.test(b)) return `--quiet-range takes numbers with a decimal point (e.g. -0.5:1.25); got "${text}".`;
+  if (!NUMBER.test(a) || !NUMBER.test(b)) return `${option} takes numbers with a decimal point (e.g. -0.5:1.25); got "${text}".`;
   const from = Number(a), to = Number(b);
-  if (!Number.isFinite(from) || !Number.isFinite(to)) return `--quiet-range values must be finite; got "${text}".`;
-  if (!(from < to)) return `--quiet-range needs FROM smaller than TO; got "${text}".`;
+  if (!Number.isFinite(from) || !Number.isFinite(to)) return `${option} values must be finite; got "${text}".`;
+  if (!(from < to)) return `${option} needs FROM smaller than TO; got "${text}".`;
   return [from, to];
+}
+
+/** A positive number of x-units, or the sentence of a usage error. */
+function positiveX(text: string, option: string): number | string {
+  const t = text.trim();
+  if (!NUMBER.test(t) || !(Number(t) > 0) || !Number.isFinite(Number(t))) return `${option} takes a positive number of x-units (e.g. 0.8); got "${text}".`;
+  return Number(t);
 }
 
 const DELIMITERS: Record<string, ',' | ';' | '\t' | 'whitespace'> = {
@@ -140,12 +156,45 @@ export function parseArgs(argv: readonly string[]): Parsed {
   if (standards.length === 0 && one('amounts') !== null) return fail('--amounts needs at least one --standard FILE.');
   const out = one('out');
   if (out !== null && out.trim() === '') return fail('--out needs a folder name.');
+  // Issue 18: regions to fit, the figure columns and the combined table.
+  let fit: CliFitOptions | null = null;
+  const regions: [number, number][] = [];
+  for (const r of values['fit-region'] ?? []) {
+    const range = parseQuietRange(r, '--fit-region');
+    if (typeof range === 'string') return fail(range);
+    regions.push(range);
+  }
+  const fitValues = { shape: one('fit-shape'), baseline: one('fit-baseline'), peaks: one('fit-peaks'), on: one('fit-on') };
+  if (regions.length) {
+    const choices = fitChoicesFromArgs(fitValues);
+    if (typeof choices === 'string') return fail(choices);
+    fit = { regions, ...choices };
+  } else {
+    const stray = Object.entries(fitValues).find(([, v]) => v !== null);
+    if (stray) return fail(`--fit-${stray[0]} needs at least one --fit-region FROM:TO.`);
+  }
+  let figures: AnalyseOptions['figures'] = null;
+  const dt = one('dead-time');
+  if (dt !== null && !flags.has('figures')) return fail('--dead-time needs --figures (it adds the retention factor and selectivity columns).');
+  if (flags.has('figures')) {
+    const deadTime = dt === null ? null : positiveX(dt, '--dead-time');
+    if (typeof deadTime === 'string') return fail(deadTime);
+    figures = { deadTime };
+  }
+  let combine: AnalyseOptions['combine'] = null;
+  const mw = one('match-window');
+  if (mw !== null && !flags.has('combine')) return fail('--match-window needs --combine.');
+  if (flags.has('combine')) {
+    const window = mw === null ? null : positiveX(mw, '--match-window');
+    if (typeof window === 'string') return fail(window);
+    combine = { window };
+  }
   return {
     kind: 'analyse',
     options: {
       inputs, method: one('method'), blank: one('blank'), scans: values.scan ?? [], traceName: one('trace'), traceIndex,
       quietRange, dialect, out: out ?? '.', jobs, json: flags.has('json'),
-      standards, amounts: one('amounts'), namedPeaks: one('named-peaks'),
+      standards, amounts: one('amounts'), namedPeaks: one('named-peaks'), fit, figures, combine,
     },
   };
 }

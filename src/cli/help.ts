@@ -38,6 +38,10 @@ With --standard and --amounts, the run also writes, once:
                             analysed trace's amounts with their intervals
   calibration-table.csv     the standards and curves as a table
   amounts.csv               the amounts with intervals, marks and limits
+With --combine, the run also writes, once:
+  peaks-combined.csv        peaks matched by retention time across every
+                            trace written, with the mean and %RSD of
+                            retention time and area
 <stem> is the file name without its extension, made safe for file names as
 the page does, followed by _<trace name> when the file holds several traces;
 a name used twice in one run gets -2, -3, ... in input order. A folder means
@@ -73,6 +77,26 @@ Options:
   --amounts FILE         known amounts of the named peaks in each standard
                          (CSV: standard,<name> (<unit>),...; one row per
                          standard file); needed with --standard
+  --fit-region FROM:TO   fit this x-range with a sum of peak shapes on a
+                         local baseline and let BIC choose how many peaks
+                         it holds; give once per region. The fits go into
+                         the peak CSV (fitted areas), the report and the
+                         summary's "fits"
+  --fit-shape S          gaussian, lorentzian, pseudo-voigt or emg
+                         (default gaussian)
+  --fit-baseline B       line or quadratic (default line)
+  --fit-peaks N          largest peak count tried, 1 to 4 (default 3)
+  --fit-on raw|processed fit the raw trace (default) or the method's
+                         output; the other is fitted too, to say whether
+                         it supports the same count
+  --figures              add the figures of chromatography to the peak CSV
+                         and report (retention time, tailing, asymmetry,
+                         plate number, resolution)
+  --dead-time T          dead time in x-units, with --figures: adds the
+                         retention factor and selectivity
+  --combine              also write peaks-combined.csv (see above)
+  --match-window W       matching window in x-units for --combine (default:
+                         half the median half-height width)
   -h, --help             show this text
 
 Where the page would have to ask (numbers that read two ways, which column

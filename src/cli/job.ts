@@ -24,6 +24,11 @@ import { defaultCalibrationSettings } from '../core/calibration/settings.ts';
 import { readStandardsCsv } from '../core/calibration/standards.ts';
 import { standardKeyOf } from '../core/calibration/trace-keys.ts';
 import { exportTime } from '../core/export/version.ts';
+import { fitExportExtras } from '../core/export/fit-extras.ts';
+import type { Peak } from '../core/measure/peak-types.ts';
+import { fitsForTrace, type CliFitOptions } from './fits.ts';
+import { amountPeakColumns, joinExtraColumns } from '../core/export/amount-columns.ts';
+import { peakNamingOf } from '../core/export/peak-names.ts';
 
 /** What every job of a run shares; plain data, so it can be handed to a worker thread. */
 export interface JobSetup {
@@ -39,6 +44,9 @@ export interface JobSetup {
   /** Issue 21: standard runs (--standard) and the amounts CSV (--amounts); empty / null without calibration. */
   standards: SupportFile[];
   amounts: SupportFile | null;
+  /** Issue 18: regions to fit on every trace, and the figure columns; null without them. Absent is read as null. */
+  fit?: CliFitOptions | null;
+  figures?: { deadTime: number | null } | null;
 }
 
 /** A blank or scan file: the path as given and its bytes. */
@@ -60,6 +68,8 @@ export interface TraceOutput {
   warnings: string[];
   /** Issue 21: the trace's amounts by the calibration, or null without standards. */
   amounts: SampleAmounts | null;
+  /** Issue 18: the trace's peaks, for the run's combined table (--combine). */
+  peakRows: Peak[];
 }
 
 export interface JobOutcome {
@@ -233,16 +243,25 @@ export function runJob(ctx: JobContext, index: number, path: string): JobOutcome
       // Issue 21: the trace's amounts, named as the inputs are (the path, with the trace's name when the file holds several).
       const amounts = ctx.calibration ? quantifySamples(ctx.calibration, [{ trace: out.multi ? `${path}: ${traceShortName(trace)}` : path, peaks: result.peaks }])[0] : null;
       const calibration = ctx.calibration && amounts ? calibrationExport(ctx.calibration, [amounts], exportTime(now)) : null;
-      const summary = analysisSummary({ trace, result, method, registry: STEP_REGISTRY, inputFile: path, loadNotices: loaded.notices });
+      // Issue 18: region fits and figure columns, as the page's exports carry them.
+      const fitted = ctx.setup.fit ? fitsForTrace(trace, result, ctx.setup.fit, exportTime(now)) : { fits: [], problems: [] };
+      const figures = ctx.setup.figures ?? null;
+      const fitAdd = fitted.fits.length || figures ? fitExportExtras({ trace, result, fits: fitted.fits, figures, measureOn: analysisOf(method).peaks.measureOn }) : { extra: null, lines: [] };
+      // Issue 21: the named peaks' amounts as peak table columns.
+      const amountColumns = calibration ? amountPeakColumns(calibration.samples[0] ?? null, peakNamingOf(method, result.peaks)?.names ?? [], calibration.confidenceLevel) : null;
+      const add = { extra: joinExtraColumns(fitAdd.extra, amountColumns), lines: fitAdd.lines };
+      const summary = analysisSummary({ trace, result, method, registry: STEP_REGISTRY, inputFile: path, loadNotices: loaded.notices, fits: fitted.fits, calibration });
+      summary.warnings.push(...fitted.problems);
       out.outputs.push({
         trace: traceShortName(trace),
         cleaned: cleanedTraceCsv({ trace, result, recipe: method, registry: STEP_REGISTRY, options: CSV, now }),
-        peaks: peakTableCsv({ trace, result, recipe: method, registry: STEP_REGISTRY, options: CSV, now }),
-        report: reportHtml({ trace, result, recipe: method, registry: STEP_REGISTRY, now, calibration }),
+        peaks: peakTableCsv({ trace, result, recipe: method, registry: STEP_REGISTRY, options: CSV, now, extra: add.extra, extraComments: add.lines }),
+        report: reportHtml({ trace, result, recipe: method, registry: STEP_REGISTRY, now, calibration, fits: fitted.fits, extra: add.extra, extraLines: add.lines }),
         summary: summaryJson(summary),
         summaryLine: summaryJson(summary, true),
         warnings: summary.warnings,
         amounts,
+        peakRows: [...result.peaks],
       });
     } catch (e) {
       out.errors.push(`${path}: the trace "${traceShortName(trace)}" could not be analysed (${e instanceof Error ? e.message : String(e)}).`);

@@ -18,7 +18,8 @@ import { calibrationExport, calibrationExportJson } from '../core/calibration/ex
 import type { SampleAmounts } from '../core/calibration/calibrate.ts';
 import { readNamedPeaksCsv } from '../core/calibration/named-peaks.ts';
 import { amountsCsv, calibrationTableCsv } from '../core/export/calibration-csv.ts';
-import { exportTime } from '../core/export/version.ts';
+import { exportTime, TOOL_LABEL, TOOL_NAME, CAUTION } from '../core/export/version.ts';
+import { batchCombinedCsv, type CombinedRun } from '../core/export/batch-combined.ts';
 import { jobContext, runJob, type JobContext, type JobOutcome, type JobSetup, type SupportFile } from './job.ts';
 
 /** Where a run reads and writes besides files: the process's streams and settings, or a test's stand-ins. */
@@ -37,6 +38,8 @@ export interface CliIo {
 
 /** Files a run with standards writes once, beside the summaries (issue 21). */
 const CALIBRATION_FILES = ['calibration.json', 'calibration-table.csv', 'amounts.csv'];
+/** The combined table a run with --combine writes once (issue 18), named as in the page's batch ZIP. */
+const COMBINED_FILE = 'peaks-combined.csv';
 
 export const EXIT_OK = 0;
 export const EXIT_INPUT_FAILED = 1;
@@ -246,6 +249,7 @@ async function analyseRun(options: AnalyseOptions, io: CliIo): Promise<number> {
   const setup: JobSetup = {
     methodJson: recipeToJson(method), blank, scans, dialect: options.dialect,
     traceName: options.traceName, traceIndex: options.traceIndex, nowMs: now, standards, amounts,
+    fit: options.fit, figures: options.figures,
   };
   const ctx: JobContext | string = jobContext(setup);
   if (typeof ctx === 'string') return stop(io, ctx);
@@ -270,6 +274,8 @@ async function analyseRun(options: AnalyseOptions, io: CliIo): Promise<number> {
     if (clash) return stop(io, `The output ${clash} would replace an input of this run; choose another --out.`);
     for (const p of ctx.calibration.problems) io.stderr(`${PREFIX}calibration: ${p}\n`);
   }
+  if (options.combine && protectedPaths.has(join(outDir, COMBINED_FILE))) return stop(io, `The output ${COMBINED_FILE} would replace an input of this run; choose another --out.`);
+  const combinedRuns: CombinedRun[] = [];
   const sampleAmounts: SampleAmounts[] = [];
   const progress = new Progress(io, inputs.length);
   let failed = problems.length > 0;
@@ -299,6 +305,7 @@ async function analyseRun(options: AnalyseOptions, io: CliIo): Promise<number> {
       for (const w of t.warnings) progress.line(`${o.file}${o.multi ? ` (${t.trace})` : ''}: ${w}`);
       if (options.json) io.stdout(`${t.summaryLine}\n`);
       if (t.amounts) sampleAmounts.push(t.amounts);
+      combinedRuns.push({ name: o.multi ? `${o.file}: ${t.trace}` : o.file, peaks: t.peakRows });
     }
     for (const e of o.errors) progress.line(e);
     if (o.errors.length) failed = true;
@@ -332,6 +339,16 @@ async function analyseRun(options: AnalyseOptions, io: CliIo): Promise<number> {
       writeFileSync(join(outDir, 'amounts.csv'), amountsCsv(exp, csv));
     } catch (e) {
       progress.line(`the calibration files could not be written (${(e as Error).message}).`);
+      failed = true;
+    }
+  }
+  if (options.combine) {
+    // Issue 18: peaks matched across the written traces, as the page's batch ZIP holds them.
+    const head = [`${TOOL_NAME} peaks matched across the traces of a run: mean and %RSD of retention time and area`, `Written by: ${TOOL_LABEL}`, `Written at: ${exportTime(new Date(now))}`, `Caution: ${CAUTION}`];
+    try {
+      writeFileSync(join(outDir, COMBINED_FILE), batchCombinedCsv(combinedRuns, { delimiter: ',', decimal: '.' }, head, options.combine.window ?? undefined));
+    } catch (e) {
+      progress.line(`the combined table could not be written (${(e as Error).message}).`);
       failed = true;
     }
   }

@@ -1,4 +1,6 @@
 import type { LedgerCell } from '../core/loss.ts';
+import { ledgerFitNote, type LedgerFitNote } from '../core/measure/fit/ledger-fit.ts';
+import { useLedgerFits } from './fit/ledger-fits.ts';
 import { useApp } from '../state/store.ts';
 import { presetAlternative, PRESETS } from './alternatives.ts';
 import { num, FLAG_WORDS } from './format.ts';
@@ -19,6 +21,11 @@ function pct(v: number | null, signed = false): string {
 /** Sentences listed on the page at most (the report holds every one). */
 const MAX_SENTENCES = 300;
 
+/** The ledger cell of a feature inside a fitted region (issue 18): the count in a few words, the whole sentence on hover. */
+function FitCell({ note }: { note: LedgerFitNote | null }) {
+  return <td className={`small${note?.fewer ? ' down' : ''}`} data-testid="ledger-fit" title={note?.text}>{note?.brief ?? 'not in a fitted region'}</td>;
+}
+
 /** The loss check: alternatives side by side, the survival ledger, window advice. */
 export function LossPanel() {
   const loss = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result.loss : null));
@@ -33,6 +40,8 @@ export function LossPanel() {
   const xu = sample?.xUnit ?? '';
   const full = alternatives.length >= MAX_ALTERNATIVES;
   const rows = loss ? loss.ledger.rows : [];
+  const fits = useLedgerFits(); // issue 18: a column when a region fit compared the versions
+  const fitColumn = fits.some((f) => f.result.processing);
   const hidden = loss ? loss.noiseLevelRows : 0;
   // Thousands of rows would stall the page; crossed rows first, then by position.
   const shown = rows.length <= 300 ? rows : [...rows.filter((r) => r.crossed), ...rows.filter((r) => !r.crossed)].slice(0, 300).sort((a, b) => a.position - b.position);
@@ -117,6 +126,7 @@ export function LossPanel() {
                 <tr>
                   <th scope="col">Feature at{xu ? ` (${xu})` : ''}</th>
                   {loss.ledger.alternatives.map((a) => <th scope="col" key={a.id}>{a.label}</th>)}
+                  {fitColumn && <th scope="col">Peak count by region fit</th>}
                 </tr>
               </thead>
               <tbody>
@@ -131,6 +141,7 @@ export function LossPanel() {
                         )}
                       </td>
                     ))}
+                    {fitColumn && <FitCell note={ledgerFitNote(r.position, fits)} />}
                   </tr>
                 ))}
               </tbody>

@@ -18,7 +18,7 @@ describe('arguments', () => {
   test('defaults', () => {
     expect(options(['a.csv'])).toEqual({
       inputs: ['a.csv'], method: null, blank: null, scans: [], traceName: null, traceIndex: null, quietRange: null,
-      dialect: {}, out: '.', jobs: 1, json: false, standards: [], amounts: null, namedPeaks: null,
+      dialect: {}, out: '.', jobs: 1, json: false, standards: [], amounts: null, namedPeaks: null, fit: null, figures: null, combine: null,
     });
   });
 
@@ -28,6 +28,7 @@ describe('arguments', () => {
     expect(o).toEqual({
       inputs: ['x.csv', 'folder', '--odd-name.csv'], method: 'm.json', blank: 'b.csv', scans: ['s1.csv', 's2.csv'], traceName: 'Signal 2', traceIndex: null,
       quietRange: [-1.5, -0.25], dialect: { delimiter: '\t', decimal: ',' }, out: 'res', jobs: 3, json: true, standards: [], amounts: null, namedPeaks: null,
+      fit: null, figures: null, combine: null,
     });
     expect(options(['x', '--trace-index', '0']).traceIndex).toBe(0);
     expect(options(['x', '--delimiter', ';', '--decimal', 'point']).dialect).toEqual({ delimiter: ';', decimal: '.' });
@@ -43,6 +44,31 @@ describe('arguments', () => {
       [['x', '--delimiter', '|'], /--delimiter takes , ; tab or space/],
       [['x', '-x'], /Unknown option "-x"/],
       [['x', '--jobs', '0'], /from 1 to 256/],
+    ];
+    for (const [argv, message] of cases) {
+      const p = parseArgs(['analyse', ...argv]);
+      expect(p.kind, argv.join(' ')).toBe('usage-error');
+      if (p.kind === 'usage-error') expect(p.message).toMatch(message);
+    }
+  });
+
+  test('fit, figure and combined-table options (issue 18): defaults as the page’s fit panel, regions repeat', () => {
+    const o = options(['x', '--fit-region', '5.4:6.9', '--fit-region=-1:2', '--fit-shape', 'emg', '--fit-baseline', 'quadratic', '--fit-peaks', '2', '--fit-on', 'processed',
+      '--figures', '--dead-time', '0.8', '--combine', '--match-window', '0.05']);
+    expect(o.fit).toEqual({ regions: [[5.4, 6.9], [-1, 2]], shape: 'emg', baseline: 'quadratic', maxPeaks: 2, on: 'processed' });
+    expect(o.figures).toEqual({ deadTime: 0.8 });
+    expect(o.combine).toEqual({ window: 0.05 });
+    expect(options(['x', '--fit-region', '1:2']).fit).toEqual({ regions: [[1, 2]], shape: 'gaussian', baseline: 'line', maxPeaks: 3, on: 'raw' });
+    expect(options(['x', '--figures', '--combine'])).toMatchObject({ figures: { deadTime: null }, combine: { window: null } });
+    const cases: [string[], RegExp][] = [
+      [['x', '--fit-region', '2:1'], /--fit-region needs FROM smaller than TO/],
+      [['x', '--fit-shape', 'emg'], /--fit-shape needs at least one --fit-region/],
+      [['x', '--fit-region', '1:2', '--fit-shape', 'triangle'], /--fit-shape takes gaussian, lorentzian, pseudo-voigt, emg/],
+      [['x', '--fit-region', '1:2', '--fit-peaks', '5'], /--fit-peaks takes a whole number from 1 to 4/],
+      [['x', '--fit-region', '1:2', '--fit-on', 'smoothed'], /--fit-on takes raw or processed/],
+      [['x', '--dead-time', '1'], /--dead-time needs --figures/],
+      [['x', '--figures', '--dead-time', '-1'], /--dead-time takes a positive number/],
+      [['x', '--match-window', '1'], /--match-window needs --combine/],
     ];
     for (const [argv, message] of cases) {
       const p = parseArgs(['analyse', ...argv]);

@@ -75,6 +75,34 @@ describe('the command line calibrates from standards', () => {
   });
 });
 
+describe('amounts in the per-trace exports', () => {
+  test('the summary’s added amounts and the peak CSV’s amount columns: the same numbers as calibration.json, each dye’s truth inside its interval', async () => {
+    const out = join(work, 'demo-amounts');
+    const r = await cli(['analyse', join(DEMO, 'demo-sample.csv'), '--method', METHOD, '--named-peaks', join(DEMO, 'demo-named-peaks.csv'), ...standards, '--amounts', join(DEMO, 'demo-standards.csv'), '--out', out]);
+    expect(r.code, r.stderr).toBe(0);
+    const cal = JSON.parse(readFileSync(join(out, 'calibration.json'), 'utf8'));
+    const summary = JSON.parse(readFileSync(join(out, 'demo-sample-summary.json'), 'utf8'));
+    expect(schemaProblems(JSON.parse(readFileSync('src/core/export/summary.schema.json', 'utf8')), summary, true)).toEqual([]);
+    const csv = readFileSync(join(out, 'demo-sample-peaks.csv'), 'utf8').split('\n').filter((l) => l && !l.startsWith('#')).map((l) => l.split(','));
+    const head = csv[0];
+    const [nameCol, amountCol, lowCol, highCol] = ['name', 'amount', 'amount interval low (95 %)', 'amount interval high (95 %)'].map((h) => head.indexOf(h));
+    expect(Math.min(nameCol, amountCol, lowCol, highCol), head.join(' | ')).toBeGreaterThanOrEqual(0);
+    for (const d of truth.dyes) {
+      const ref = cal.samples[0].amounts.find((v: { name: string }) => v.name === d.name);
+      const s = summary.amounts.find((v: { name: string }) => v.name === d.name);
+      expect(s).toMatchObject({ status: 'measured', amount: ref.amount, low: ref.interval.low, high: ref.interval.high, level: 0.95 });
+      expect(s.low).toBeLessThanOrEqual(d.sampleAmount);
+      expect(s.high).toBeGreaterThanOrEqual(d.sampleAmount);
+      const row = csv.find((c) => c[nameCol] === d.name)!;
+      expect(Number(row[amountCol])).toBe(ref.amount);
+      expect(Number(row[lowCol])).toBe(ref.interval.low);
+      expect(Number(row[highCol])).toBe(ref.interval.high);
+    }
+    // Unnamed rows carry no amount.
+    expect(csv.slice(1).filter((c) => c[nameCol] === '').every((c) => c[amountCol] === '')).toBe(true);
+  });
+});
+
 describe('refusals', () => {
   test('--standard without --amounts, and --amounts without --standard, are usage errors', () => {
     expect(parseArgs(['analyse', 'a.csv', '--standard', 's.csv'])).toMatchObject({ kind: 'usage-error' });

@@ -15,6 +15,9 @@ import { peakMethodLines, peakTableRows } from './peak-csv.ts';
 import { uniqueNamer, zipBaseName } from './names.ts';
 import { reportHtml } from './report-html.ts';
 import { batchCombinedCsv, type CombinedRun } from './batch-combined.ts';
+import { quantifySamples, type CalibrationSet, type SampleAmounts } from '../calibration/calibrate.ts';
+import { calibrationExport, calibrationExportJson } from '../calibration/export.ts';
+import { amountsCsv, calibrationTableCsv } from './calibration-csv.ts';
 
 export { zipBaseName } from './names.ts';
 import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
@@ -34,7 +37,16 @@ export interface BatchSettings {
   version?: string;
   /** Issue 18: matching window (x-units) of the combined table; default half the median half-height width. */
   matchWindow?: number;
+  /**
+   * Issue 21: the calibration from the standards (the page's), or none. With it every file's
+   * named peaks get amounts, each report its calibration section, and the ZIP the calibration
+   * files the command line writes: calibration.json, calibration-table.csv, amounts.csv.
+   */
+  calibration?: CalibrationSet | null;
 }
+
+/** The calibration files of a batch with a calibration, as the command line names them. */
+export const BATCH_CALIBRATION_FILES = ['calibration.json', 'calibration-table.csv', 'amounts.csv'] as const;
 
 export interface BatchProgress {
   /** Files finished so far (0 … total). */
@@ -67,7 +79,9 @@ export interface BatchResult {
  * several columns is used), {@link analyse} with the recipe and settings
  * (no blank or scans: each file stands alone), then `<name>-cleaned.csv`
  * and `<name>-report.html`. The ZIP also holds `peaks-all-files.csv` (one
- * row per peak with the file name and SHA-256), `recipe.json`, and
+ * row per peak with the file name and SHA-256), `peaks-combined.csv`,
+ * with a calibration `calibration.json`, `calibration-table.csv` and
+ * `amounts.csv` (as the command line writes them), `recipe.json`, and
  * `problems.txt` when any file had a problem. A file that cannot be read or
  * analysed is listed in `errors` and skipped; a recipe step that could not
  * run on a file is listed too, but that file's outputs are still written.
@@ -92,6 +106,8 @@ export async function runBatch(
   let combinedHeader: (string | number)[] | null = null;
   const methodLines = new Set<string>();
   const combinedRuns: CombinedRun[] = []; // issue 18: peaks-combined.csv
+  const amounts: SampleAmounts[] = []; // issue 21: each file's amounts
+  const calibration = settings.calibration ?? null;
   let analysed = 0;
 
   const put = (name: string, text: string) => {
@@ -122,7 +138,11 @@ export async function runBatch(
         analysed += 1;
         const base = uniqueBase(fileName);
         put(`${base}-cleaned.csv`, cleanedTraceCsv({ trace, result, recipe, registry, options: csv, now, version }));
-        put(`${base}-report.html`, reportHtml({ trace, result, recipe, registry, now, version }));
+        // Issue 21: the file's named peaks as amounts (named by the file, as the command line names its inputs).
+        const own = calibration ? quantifySamples(calibration, [{ trace: fileName, peaks: result.peaks }])[0] : null;
+        if (own) amounts.push(own);
+        const calibrationPart = calibration && own ? calibrationExport(calibration, [own], when) : null;
+        put(`${base}-report.html`, reportHtml({ trace, result, recipe, registry, now, version, calibration: calibrationPart }));
         const rows = peakTableRows(trace, result, false);
         combinedRuns.push({ name: fileName, peaks: result.peaks });
         if (!combinedHeader) combinedHeader = ['file', 'input SHA-256', 'x unit', 'y unit', ...rows[0]];
@@ -151,6 +171,13 @@ export async function runBatch(
   const combinedCsv = writeCsv([header, ...combined], { ...csv, comments });
   put('peaks-all-files.csv', combinedCsv);
   put('peaks-combined.csv', batchCombinedCsv(combinedRuns, csv, [`${TOOL_NAME} peaks matched across the files of a batch: mean and %RSD of retention time and area`, `Written by: ${version}`, `Written at: ${when}`, `Caution: ${CAUTION}`], settings.matchWindow));
+  if (calibration) {
+    // One calibration for the whole batch, with every analysed file's amounts (the same object as calibration.json).
+    const exp = calibrationExport(calibration, amounts, when);
+    put(BATCH_CALIBRATION_FILES[0], calibrationExportJson(exp));
+    put(BATCH_CALIBRATION_FILES[1], calibrationTableCsv(exp, csv));
+    put(BATCH_CALIBRATION_FILES[2], amountsCsv(exp, csv));
+  }
   put('recipe.json', `${recipeToJson(recipe)}\n`);
   if (errors.length) put('problems.txt', `${errors.map((e) => `${e.file}: ${e.message}`).join('\n')}\n`);
   // ZIP times are local DOS times from 1980 on; the export time keeps the archive reproducible.

@@ -152,9 +152,9 @@ export function figureFormulaLines(deadTime?: number | null): string[] {
   return lines;
 }
 
-/** One line per fit for CSV comments: region, shape, baseline, count and the decision. */
+/** One line per fit for CSV comments: region, shape, baseline, count and the decision, and whether each processing keeps the count (the loss check). */
 export function fitCommentLines(fits: readonly FitForExport[]): string[] {
-  return fits.map((f, i) => `Fit ${i + 1}: ${f.result.fittedLabel} trace, ${f.result.settings.from} to ${f.result.settings.to}; ${f.result.count} peak(s). ${f.result.statement}${f.outOfDate ? ' (Made with an earlier step stack.)' : ''}`);
+  return fits.map((f, i) => `Fit ${i + 1}: ${f.result.fittedLabel} trace, ${f.result.settings.from} to ${f.result.settings.to}; ${f.result.count} peak(s). ${f.result.statement}${f.outOfDate ? ' (Made with an earlier step stack.)' : ''}${f.result.processing ? ` Processing check: ${f.result.processing.summary}` : ''}`);
 }
 
 const FIT_COLOURS = ['#0072B2', '#D55E00', '#009E73', '#CC79A7'];
@@ -237,6 +237,8 @@ export function fitSummary(fits: readonly FitForExport[]): Record<string, unknow
       fwhm: n(q.fwhm.value), fwhmSe: n(q.fwhm.se), area: n(q.area.value), areaSe: n(q.area.se),
     })),
     processing: f.result.processing ? f.result.processing.rows.map((row) => ({ label: row.label, count: row.count, same: row.sameAsReference })) : null,
+    // Added (loss check): the sentence, e.g. "2 peaks supported by the fit on raw, not after 7-point average (1)."
+    processingSummary: f.result.processing ? f.result.processing.summary : null,
     outOfDate: f.outOfDate === true,
   }));
 }

@@ -24,6 +24,7 @@ import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
 import { namedPeakLines, peakNamingOf, withNameColumn } from './peak-names.ts';
 import { calibrationReportSection } from './report-calibration.ts';
 import type { CalibrationExport } from '../calibration/export.ts';
+import { ledgerFitLines } from '../measure/fit/ledger-fit.ts';
 
 /** What the loss check hands over; only the sentences are written (rows are kept for later use). */
 export interface LossLedgerLike {
@@ -240,6 +241,9 @@ export function reportHtml(input: ReportInput): string {
   s.push('<h2>What the processing may have lost</h2>');
   if (ledger && ledger.sentences.length) s.push(`<div data-role="loss-ledger">${list(ledger.sentences)}</div>`);
   else s.push(`<p class="muted">${ledger ? 'The comparison found no lost or weakened features.' : 'No comparison with alternative processing was made for this report.'}</p>`);
+  // Issue 18: ledger rows inside a fitted region, with the fit's count on each version.
+  const fitLines = input.fits?.length && ledger?.rows ? ledgerFitLines(ledger.rows.map((r) => (r as { position?: number }).position ?? NaN).filter(Number.isFinite), input.fits) : [];
+  if (fitLines.length) s.push(`<div data-role="ledger-fits"><p>Does each processing still support the peak count of the region fit?</p>${list(fitLines)}</div>`);
   if (confirmation) {
     const at = confirmation.at instanceof Date ? exportTime(confirmation.at) : String(confirmation.at);
     s.push(`<div class="confirm" data-role="confirmation"><p><strong>Export confirmed at ${escapeText(at)}</strong> after being shown:</p>${list(confirmation.sentences)}</div>`);

@@ -9,6 +9,8 @@
  *
  * This is the one place the summary is built.
  */
+import { amountSummary } from './amount-columns.ts';
+import type { CalibrationExport } from '../calibration/export.ts';
 import { fitSummary, type FitForExport } from './fit-export.ts';
 import type { AnalyseResult } from '../analysis/index.ts';
 import type { PeakFlag, SnrDefinition } from '../measure/peak-types.ts';
@@ -51,6 +53,8 @@ export interface Summary {
   warnings: string[];
   /** Issue 18, added: region fits (export/fit-export.ts fitSummary); present only when fits were made. */
   fits?: Record<string, unknown>[];
+  /** Issue 21, added: amounts of the named peaks (export/amount-columns.ts); present only with a calibration. */
+  amounts?: Record<string, unknown>[];
 }
 
 export interface SummaryInput {
@@ -68,6 +72,8 @@ export interface SummaryInput {
   version?: string;
   /** Issue 18: region fits to add as `fits`. */
   fits?: readonly FitForExport[];
+  /** Issue 21: this trace's amounts (a calibration export holding this trace only), added as `amounts`. */
+  calibration?: CalibrationExport | null;
 }
 
 const STATUS: Record<PeakFlag, SummaryStatus> = {
@@ -167,6 +173,7 @@ export function analysisSummary(input: SummaryInput): Summary {
     residual: { verdict },
     warnings,
     ...(input.fits && input.fits.length ? { fits: fitSummary(input.fits) } : {}),
+    ...(input.calibration?.samples[0] ? { amounts: amountSummary(input.calibration.samples[0], input.calibration.confidenceLevel) } : {}),
   };
 }
 

@@ -78,7 +78,7 @@ export function ExportPanel({ getFigure }: Props) {
     if (!sample || !result) return;
     const now = new Date();
     try {
-      const add = exportExtras(sample, result); // issue 18: fits and figure columns
+      const add = exportExtras(sample, result, calibration?.exp ?? null); // issue 18: fits and figure columns; issue 21: amounts
       if (kind === 'cleaned') {
         downloadCsv(cleanedTraceCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: { delimiter, decimal }, now }), `${stem}-cleaned.csv`);
       } else if (kind === 'peaks') {
@@ -168,8 +168,8 @@ export function ExportPanel({ getFigure }: Props) {
       for (const f of list) files.push({ name: f.name, bytes: new Uint8Array(await f.arrayBuffer()) });
       const st = useApp.getState();
       const now = new Date();
-      // Issue 16: in the loading worker (a large file froze the page when run here).
-      const out = await getBackend().batch(files, recipe, { noise: st.noiseSettings, peaks: st.peakSettings, csv: { delimiter, decimal }, now }, setProgress);
+      // Issue 16: in the loading worker (a large file froze the page when run here); issue 21: with the calibration.
+      const out = await getBackend().batch(files, recipe, { noise: st.noiseSettings, peaks: st.peakSettings, csv: { delimiter, decimal }, now, calibration: calibration?.set ?? null }, setProgress);
       setBatchErrors(out.errors);
       downloadBlob(out.zip, `tracewright-batch-${stamp(now)}.zip`, 'application/zip');
       notify(out.errors.length ? 'warning' : 'info', `Batch of ${files.length} file(s) done`, out.errors.length ? [`${out.errors.length} problem(s); they are listed in the export panel and in problems.txt in the ZIP.`] : ['Every file was processed.']);

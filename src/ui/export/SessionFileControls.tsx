@@ -1,7 +1,7 @@
 import { useRef, useState } from 'react';
 import { useApp } from '../../state/store.ts';
 import { downloadText } from './download.ts';
-import { applySnapshot, snapshotOf, type SessionSnapshot } from './session-db.ts';
+import { applySnapshot, snapshotOf, workWords, type SessionSnapshot } from './session-db.ts';
 import { sessionFileText, sessionFromFileText } from './session-file.ts';
 import { sessionFileName } from '../startup.ts';
 
@@ -38,7 +38,7 @@ export function SessionFileControls() {
     setPending(null);
     applySnapshot(useApp, p.snapshot);
     notify(p.notes.length ? 'warning' : 'info', `Session opened from ${p.name}`, [
-      `${p.snapshot.traces.length} trace(s), the step stack with ${p.snapshot.past.length} undo step(s), settings, decisions and alternatives.`, ...p.notes,
+      `${p.snapshot.traces.length} trace(s), the step stack with ${p.snapshot.past.length} undo step(s), settings, decisions and alternatives${workWords(p.snapshot)}.`, ...p.notes,
     ]);
   };
 

@@ -3,7 +3,9 @@
  * loaded traces (their x and y in chunks), roles, the sample, load reports,
  * the recipe with the last {@link SESSION_UNDO_STEPS} undo and redo steps,
  * noise settings (with the quiet range), peak settings, the hand decisions
- * on peaks and the alternatives.
+ * on peaks and the alternatives, and the work of issues 18 and 21 (region
+ * fits, named peaks, standards' amounts, calibration settings; see
+ * ./session-work.ts).
  *
  * Two stores, because an edit made just before a reload must survive it:
  * * IndexedDB holds everything (below). Its writes are asynchronous, and a
@@ -36,6 +38,7 @@ import { emptyRecipe, validateRecipe, type Recipe, type Registry } from '../../c
 import { STEP_REGISTRY } from '../../core/steps/registry.ts';
 import { createTrace, type Trace, type TraceRole, type TraceSource } from '../../core/trace.ts';
 import type { AppState } from '../../state/store.ts';
+import { JOURNAL_FITS_MAX_CHARS, mergeWorkJson, sessionWorkFromJson, sessionWorkJson, WORK_KEYS, type SessionWork } from './session-work.ts';
 
 export const SESSION_FORMAT = 'tracewright-session';
 export const SESSION_VERSION = 1;
@@ -74,6 +77,14 @@ export interface SessionSnapshot {
   /** Undo history (oldest first) and redo steps (next first). */
   past: Recipe[];
   future: Recipe[];
+  /** Issues 18 and 21: fits and calibration inputs; an absent member was not saved (older sessions) and is left as it is. */
+  fits?: SessionWork['fits'];
+  fitChoices?: SessionWork['fitChoices'];
+  showFigures?: SessionWork['showFigures'];
+  deadTime?: SessionWork['deadTime'];
+  namedPeaks?: SessionWork['namedPeaks'];
+  standardsTable?: SessionWork['standardsTable'];
+  calibrationSettings?: SessionWork['calibrationSettings'];
 }
 
 /** A trace without its numbers. */
@@ -121,6 +132,8 @@ export interface SessionMeta {
   future?: unknown[];
   /** When the page state was taken (ms since 1970); absent in older sessions. */
   takenAt?: number;
+  /** Fits and calibration inputs in their JSON form (./session-work.ts); absent in older sessions. */
+  work?: unknown;
 }
 
 /** The small parts of a session, written to localStorage on every edit. */
@@ -141,6 +154,8 @@ export interface SessionJournal {
   peakSettings: PeakSettings;
   decisions: PeakDecisions;
   alternatives: { id: string; label: string; recipe: unknown }[];
+  /** Fits (when not too large for the journal) and calibration inputs (./session-work.ts); absent in older journals. */
+  work?: unknown;
 }
 
 export type SessionProblem = { ok: false; problem: string };
@@ -153,7 +168,16 @@ export function snapshotOf(state: Pick<AppState, keyof SessionSnapshot>): Sessio
     traces: state.traces, roles: state.roles, sampleId: state.sampleId, reports: state.reports,
     recipe: state.recipe, noiseSettings: state.noiseSettings, peakSettings: state.peakSettings, decisions: state.decisions,
     alternatives: state.alternatives, past: state.past, future: state.future,
+    fits: state.fits, fitChoices: state.fitChoices, showFigures: state.showFigures, deadTime: state.deadTime,
+    namedPeaks: state.namedPeaks, standardsTable: state.standardsTable, calibrationSettings: state.calibrationSettings,
   };
+}
+
+/** The work members of a snapshot. */
+function workOf(s: SessionSnapshot): SessionWork {
+  const w: SessionWork = {};
+  for (const k of WORK_KEYS) if (s[k] !== undefined) (w as Record<string, unknown>)[k] = s[k];
+  return w;
 }
 
 function plainRecipe(r: Recipe): unknown {
@@ -177,6 +201,8 @@ export function sessionJournal(snapshot: SessionSnapshot, takenAt: number): Sess
     noiseSettings: { ...snapshot.noiseSettings }, peakSettings: { ...snapshot.peakSettings },
     decisions: { added: [...snapshot.decisions.added], removed: [...snapshot.decisions.removed] },
     alternatives: snapshot.alternatives.map((a) => ({ id: a.id, label: a.label, recipe: plainRecipe(a.recipe) })),
+    // Large fits wait for the database save rather than fill the small store.
+    work: sessionWorkJson(workOf(snapshot), { maxFitChars: JOURNAL_FITS_MAX_CHARS }),
   };
 }
 
@@ -204,6 +230,7 @@ export function mergeJournal(meta: SessionMeta, journal: SessionJournal | null):
       roles: sampleStored ? journal.roles : meta.roles, sampleId: sampleStored ? journal.sampleId : meta.sampleId,
       recipe: journal.recipe, past: journal.past, future: journal.future,
       noiseSettings: journal.noiseSettings, peakSettings: journal.peakSettings, decisions: journal.decisions, alternatives: journal.alternatives,
+      work: mergeWorkJson(meta.work, journal.work),
     },
   };
 }
@@ -286,6 +313,7 @@ export function sessionMeta(snapshot: SessionSnapshot, generation: number, saved
     alternatives: snapshot.alternatives.map((a) => ({ id: a.id, label: a.label, recipe: plainRecipe(a.recipe) })),
     ...keptHistory(snapshot),
     takenAt,
+    work: sessionWorkJson(workOf(snapshot)),
   };
 }
 
@@ -333,10 +361,13 @@ export function sessionFromRecords(meta: SessionMeta, getChunk: (key: ChunkKey) 
   };
   const past = history(meta.past);
   const future = history(meta.future);
+  const work = sessionWorkFromJson(meta.work, ids);
+  notes.push(...work.notes);
   return {
     ok: true,
     notes,
     snapshot: {
+      ...work.work,
       alternatives, past, future,
       traces, roles, reports, recipe,
       sampleId: meta.sampleId && ids.has(meta.sampleId) ? meta.sampleId : null,
@@ -524,7 +555,7 @@ export interface SessionStore {
 }
 
 const SESSION_KEYS: readonly (keyof SessionSnapshot)[] = [
-  'traces', 'roles', 'sampleId', 'reports', 'recipe', 'noiseSettings', 'peakSettings', 'decisions', 'alternatives', 'past', 'future',
+  'traces', 'roles', 'sampleId', 'reports', 'recipe', 'noiseSettings', 'peakSettings', 'decisions', 'alternatives', 'past', 'future', ...WORK_KEYS,
 ];
 
 /** Where the page listens for being hidden or closed (the window in the page; absent in Node tests). */
@@ -644,7 +675,20 @@ export function applySnapshot(store: SessionStore, s: SessionSnapshot): void {
     traces: s.traces, roles: s.roles, sampleId: s.sampleId, reports: s.reports,
     recipe: s.recipe, past: s.past, future: s.future,
     noiseSettings: s.noiseSettings, peakSettings: s.peakSettings, decisions: s.decisions, alternatives: s.alternatives,
+    // Fits belong to the traces they were made on: a session without them (saved before they were kept) has none.
+    fits: s.fits ?? [], shownFitId: null,
+    ...workOf({ ...s, fits: undefined }),
   });
+}
+
+/** ", 3 region fit(s), the named peaks (4) and the standards' amounts" for the restore notice. */
+export function workWords(s: SessionSnapshot): string {
+  const parts: string[] = [];
+  if (s.fits?.length) parts.push(`${s.fits.length} region fit(s)`);
+  if (s.namedPeaks?.peaks.length) parts.push(`the named peaks (${s.namedPeaks.peaks.length})`);
+  if (s.standardsTable) parts.push('the standards’ amounts');
+  if (s.calibrationSettings) parts.push('the calibration settings');
+  return parts.map((p) => `, ${p}`).join('');
 }
 
 /**
@@ -666,6 +710,6 @@ export async function restoreSession(store: SessionStore): Promise<boolean> {
   }
   applySnapshot(store, s);
   store.getState().notify(out.notes.length ? 'warning' : 'info', 'Your previous session was restored',
-    [`${s.traces.length} trace(s), the step stack with its last ${s.past.length} undo step(s), the quiet range, your peak decisions and the alternatives are as you left them. Use “Start over” to empty it.`, ...out.notes]);
+    [`${s.traces.length} trace(s), the step stack with its last ${s.past.length} undo step(s), the quiet range, your peak decisions, the alternatives${workWords(s)} are as you left them. Use “Start over” to empty it.`, ...out.notes]);
   return true;
 }

@@ -2,8 +2,7 @@
  * The fit panel's service: builds a fit request from the store and sends it
  * to the computation worker as its own job (issue 18). Holds no state.
  */
-import type { PeakStart } from '../../core/measure/fit/region.ts';
-import { MAX_PEAKS } from '../../core/measure/fit/region.ts';
+import { startsInRegion } from '../../core/measure/fit/starts.ts';
 import type { Peak } from '../../core/measure/peak-types.ts';
 import { useApp } from '../../state/store.ts';
 import type { FitRequest } from '../../worker/fit-job.ts';
@@ -13,15 +12,6 @@ import { getBackend } from '../controller.ts';
 export function fitRegion(): [number, number] | null {
   const s = useApp.getState();
   return s.markedRange ?? s.xRange ?? null;
-}
-
-/** Starting peaks: the table's rows (not removed) with their apex inside the region, largest first, at most 4. */
-export function startsInRegion(peaks: readonly Peak[], from: number, to: number): PeakStart[] {
-  return peaks
-    .filter((p) => !p.removedByUser && p.x >= from && p.x <= to && p.height > 0 && p.fwhm > 0)
-    .sort((a, b) => b.height - a.height)
-    .slice(0, MAX_PEAKS)
-    .map((p) => ({ position: p.x, height: p.height, fwhm: p.fwhm }));
 }
 
 /** The region around the selected peak and its overlapping neighbours: their bounds plus one half-height width each side. */
