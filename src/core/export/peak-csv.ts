@@ -219,8 +219,8 @@ export function peakTableCsv(input: PeakCsvInput): string {
 
 /**
  * The peak table as tab-separated text without comment lines, for pasting
- * into a spreadsheet (same guard and numbers as the CSV; decimal sign as given).
+ * into a spreadsheet (same guard and numbers as the CSV; decimal sign and significant digits as given).
  */
-export function peakTableTsv(trace: Trace, result: AnalyseResult, decimal: CsvCellOptions['decimal'] = '.'): string {
-  return writeCsv(peakTableRows(trace, result), { delimiter: '\t', decimal, newline: '\n' });
+export function peakTableTsv(trace: Trace, result: AnalyseResult, decimal: CsvCellOptions['decimal'] = '.', digits?: number): string {
+  return writeCsv(peakTableRows(trace, result), { delimiter: '\t', decimal, digits, newline: '\n' });
 }

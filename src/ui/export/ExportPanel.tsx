@@ -6,7 +6,7 @@ import { cleanedTraceCsv, recipeOneLine } from '../../core/export/cleaned-csv.ts
 import { peakTableCsv, peakTableTsv } from '../../core/export/peak-csv.ts';
 import { reportHtml, type ExportConfirmation, type LossLedgerLike } from '../../core/export/report-html.ts';
 import { CAUTION, TOOL_LABEL } from '../../core/export/version.ts';
-import type { CsvDecimal, CsvDelimiter } from '../../core/io/csv-write.ts';
+import { CSV_DIGIT_CHOICES, type CsvDecimal, type CsvDelimiter } from '../../core/io/csv-write.ts';
 import { jcampFromTrace } from '../../core/io/jcamp-write.ts';
 import { analysisOf, parseRecipeText, recipeStepsOnly, recipeToJson, recipeWithAnalysis } from '../../core/recipe.ts';
 import { STEP_REGISTRY } from '../../core/steps/registry.ts';
@@ -54,6 +54,9 @@ export function ExportPanel({ getFigure }: Props) {
   const offlineReady = useApp((s) => s.offlineReady);
   const [delimiter, setDelimiter] = useState<CsvDelimiter>(',');
   const [decimal, setDecimal] = useState<CsvDecimal>('.');
+  // Issue 17: full precision unless the user asks for fewer significant digits (stated in each CSV's header).
+  const [digits, setDigits] = useState<number | undefined>(undefined);
+  const csv = { delimiter, decimal, digits };
   const [pending, setPending] = useState<Guarded | null>(null);
   const [confirmation, setConfirmation] = useState<ExportConfirmation | null>(null);
   const [progress, setProgress] = useState<BatchProgress | null>(null);
@@ -79,9 +82,9 @@ export function ExportPanel({ getFigure }: Props) {
     try {
       const add = exportExtras(sample, result); // issue 18: fits and figure columns
       if (kind === 'cleaned') {
-        downloadCsv(cleanedTraceCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: { delimiter, decimal }, now }), `${stem}-cleaned.csv`);
+        downloadCsv(cleanedTraceCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: csv, now }), `${stem}-cleaned.csv`);
       } else if (kind === 'peaks') {
-        downloadCsv(peakTableCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: { delimiter, decimal }, now, extra: add.extra, extraComments: add.lines }), `${stem}-peaks.csv`);
+        downloadCsv(peakTableCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: csv, now, extra: add.extra, extraComments: add.lines }), `${stem}-peaks.csv`);
       } else {
         // The plots are drawn by the core, as in the command line's report.
         const html = reportHtml({ trace: sample, result, recipe, registry: STEP_REGISTRY, ledger: ledgerOut, confirmation: confirmed, now, calibration: calibration?.exp ?? null, fits: add.fits, extra: add.extra, extraLines: add.lines });
@@ -123,8 +126,8 @@ export function ExportPanel({ getFigure }: Props) {
   const copyPeaks = async () => {
     if (!sample || !result) return;
     try {
-      await navigator.clipboard.writeText(peakTableTsv(sample, result, decimal));
-      notify('info', 'Peak table copied', [`${result.peaks.length} row(s) as tab-separated text; paste into a spreadsheet.`]);
+      await navigator.clipboard.writeText(peakTableTsv(sample, result, decimal, digits));
+      notify('info', 'Peak table copied', [`${result.peaks.length} row(s) as tab-separated text${digits ? `, numbers to ${digits} significant digits` : ', numbers at full precision'}; paste into a spreadsheet.`]);
     } catch (e) { fail('The clipboard copy', e); }
   };
 
@@ -167,7 +170,7 @@ export function ExportPanel({ getFigure }: Props) {
       for (const f of list) files.push({ name: f.name, bytes: new Uint8Array(await f.arrayBuffer()) });
       const st = useApp.getState();
       const now = new Date();
-      const out = await runBatch(files, recipe, STEP_REGISTRY, { noise: st.noiseSettings, peaks: st.peakSettings, csv: { delimiter, decimal }, now },
+      const out = await runBatch(files, recipe, STEP_REGISTRY, { noise: st.noiseSettings, peaks: st.peakSettings, csv, now },
         (p) => { setProgress(p); return new Promise<void>((r) => setTimeout(r, 0)); });
       setBatchErrors(out.errors);
       downloadBlob(out.zip, `tracewright-batch-${stamp(now)}.zip`, 'application/zip');
@@ -208,6 +211,12 @@ export function ExportPanel({ getFigure }: Props) {
           }}>
             <option value=".">point (1.5)</option>
             <option value=",">comma (1,5)</option>
+          </select>
+        </label>
+        <label>Numbers in CSV files{' '}
+          <select value={digits ?? 'full'} data-testid="csv-digits" onChange={(e) => setDigits(e.target.value === 'full' ? undefined : Number(e.target.value))}>
+            <option value="full">full precision (reloads to the same numbers)</option>
+            {CSV_DIGIT_CHOICES.map((d) => <option key={d} value={d}>{d} significant digits (for a report)</option>)}
           </select>
         </label>
       </div>
