@@ -67,7 +67,7 @@ describe('summary JSON', () => {
     const csv = peakTableCsv({ trace, result, recipe: method, registry: STEP_REGISTRY, options: { delimiter: ',', decimal: '.' }, now: NOW });
     const { header, body } = readCsv(csv, ',', '.');
     const col = (name: string) => header.findIndex((h) => h.startsWith(name));
-    const cells = { x: col('apex'), height: col('height'), area: col('area'), fwhm: col('FWHM ('), start: col('from'), end: col('to'), snr: col('S/N (') };
+    const cells = { x: col('apex'), height: col('height'), area: col('area'), fwhm: col('FWHM ('), start: col('start'), end: col('end'), snr: col('S/N (') };
     expect(Object.values(cells).every((c) => c >= 0)).toBe(true);
     const json = reread(summary);
     expect(json.peaks.length).toBe(body.length);

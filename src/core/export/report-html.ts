@@ -37,6 +37,8 @@ export interface ExportConfirmation {
   at: Date | string;
   /** The sentences they were shown. */
   sentences: readonly string[];
+  /** Issue 17: the short form they were shown first (top items per kind, then counts); absent before. */
+  summary?: readonly string[];
 }
 
 export interface ReportInput {

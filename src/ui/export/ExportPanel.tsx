@@ -6,6 +6,7 @@ import { cleanedTraceCsv, recipeOneLine } from '../../core/export/cleaned-csv.ts
 import { peakTableCsv, peakTableTsv } from '../../core/export/peak-csv.ts';
 import { reportHtml, type ExportConfirmation, type LossLedgerLike } from '../../core/export/report-html.ts';
 import { CAUTION, TOOL_LABEL } from '../../core/export/version.ts';
+import { lossCounts, lossSummaryLines } from '../../core/export/loss-summary.ts';
 import { CSV_DIGIT_CHOICES, type CsvDecimal, type CsvDelimiter } from '../../core/io/csv-write.ts';
 import { jcampFromTrace } from '../../core/io/jcamp-write.ts';
 import { analysisOf, parseRecipeText, recipeStepsOnly, recipeToJson, recipeWithAnalysis } from '../../core/recipe.ts';
@@ -69,6 +70,11 @@ export function ExportPanel({ getFigure }: Props) {
   const ready = !!(sample && result && settled);
   // Lost or weakened features (exports ask for a confirmation when there are any) and the ledger, from the loss check.
   const losses = result?.loss?.currentWarnings ?? [];
+  const lossItems = result?.loss?.currentItems ?? [];
+  const lossSummary = lossSummaryLines(lossItems, losses, sample?.xUnit ?? '');
+  const counts = lossCounts(lossItems);
+  // Issue 17: one confirmation per export session; it holds while the list of losses stays the same (a change of processing asks again).
+  const stillConfirmed = !!confirmation && confirmation.sentences.length === losses.length && confirmation.sentences.every((t, i) => t === losses[i]);
   const ledgerOut: LossLedgerLike | null = result?.loss?.ledger ?? null;
   const stem = sample ? zipBaseName(sample.source.fileName) : 'trace';
 
@@ -96,13 +102,13 @@ export function ExportPanel({ getFigure }: Props) {
   };
 
   const request = (kind: Guarded) => {
-    if (losses.length > 0) { setPending(kind); return; }
-    exportNow(kind, null);
+    if (losses.length > 0 && !stillConfirmed) { setPending(kind); return; }
+    exportNow(kind, losses.length > 0 ? confirmation : null);
   };
 
   const confirmPending = () => {
     if (!pending) return;
-    const c: ExportConfirmation = { at: new Date(), sentences: [...losses] };
+    const c: ExportConfirmation = { at: new Date(), sentences: [...losses], summary: lossSummary };
     setConfirmation(c);
     const kind = pending;
     setPending(null);
@@ -231,16 +237,24 @@ export function ExportPanel({ getFigure }: Props) {
       </div>
       {pending && (
         <div role="alertdialog" aria-labelledby="loss-confirm-title" className="confirm-box" data-testid="loss-confirm" style={{ border: "1px solid var(--bad)", borderRadius: 6, padding: "6px 10px", margin: "6px 0" }}>
-          <p id="loss-confirm-title"><strong>The processing lost or weakened these features:</strong></p>
-          <ul>{losses.map((s, i) => <li key={i}>{s}</li>)}</ul>
-          <p className="small">If you export anyway, the time and this list are written into the report.</p>
+          <p id="loss-confirm-title"><strong>Compared with the raw trace, the processing changed {losses.length} finding{losses.length === 1 ? '' : 's'}</strong>
+            {' '}<span className="small" data-testid="loss-counts">({counts.lost} lost, {counts.weakened} weakened, {counts.appeared} appear only after processing{losses.length > lossItems.length ? '; plus changes within the noise range' : ''})</span></p>
+          <ul data-testid="loss-summary">{lossSummary.map((t, i) => <li key={i}>{t}</li>)}</ul>
+          {lossItems.length > 0 && (
+            <details className="small"><summary>All {losses.length} sentences</summary><ul>{losses.map((t, i) => <li key={i}>{t}</li>)}</ul></details>
+          )}
+          <p className="small">Confirm once for this export session: the exports that follow use this confirmation until the processing changes. The time and this list are written into the report.</p>
           <div className="row" style={{ margin: "6px 0" }}>
             <button type="button" className="primary" onClick={confirmPending}>Export anyway</button>
             <button type="button" onClick={() => setPending(null)}>Cancel</button>
           </div>
         </div>
       )}
-      {confirmation && <p className="small muted">Confirmed at {confirmation.at instanceof Date ? confirmation.at.toLocaleTimeString() : confirmation.at}: {confirmation.sentences.length} lost or weakened feature(s) acknowledged.</p>}
+      {confirmation && (
+        <p className="small muted" data-testid="loss-confirmed">
+          {stillConfirmed ? 'Confirmed' : 'Last confirmed'} at {confirmation.at instanceof Date ? confirmation.at.toLocaleTimeString() : confirmation.at}: {confirmation.sentences.length} lost, weakened or new finding(s) acknowledged{stillConfirmed ? '; further exports use this confirmation' : '; the processing has changed since, so the next export asks again'}.
+        </p>
+      )}
       <div className="row" style={{ margin: "6px 0" }}>
         <button type="button" data-testid="save-recipe" onClick={() => downloadText(`${recipeToJson(recipe)}\n`, 'tracewright-recipe.json', 'application/json')}>Save recipe</button>
         <button type="button" onClick={() => recipeInput.current?.click()}>Load recipe…</button>
