@@ -28,6 +28,7 @@
  * (tested without IndexedDB); only the functions at the bottom touch the
  * database.
  */
+import { cleanHandReasons, cleanReportFields, type HandReason, type ReportFields } from '../../core/export/report-fields.ts';
 import { deleteDB, openDB, type IDBPDatabase } from 'idb';
 import type { AlternativeRequest, NoiseSettings, PeakSettings } from '../../core/analysis/index.ts';
 import type { LoadReport } from '../../core/io/types.ts';
@@ -74,6 +75,9 @@ export interface SessionSnapshot {
   /** Undo history (oldest first) and redo steps (next first). */
   past: Recipe[];
   future: Recipe[];
+  /** Issue 17: the report's fields and the reasons for hand changes (absent in sessions saved before). */
+  reportFields?: ReportFields;
+  handReasons?: HandReason[];
 }
 
 /** A trace without its numbers. */
@@ -121,6 +125,9 @@ export interface SessionMeta {
   future?: unknown[];
   /** When the page state was taken (ms since 1970); absent in older sessions. */
   takenAt?: number;
+  /** Issue 17; absent in older sessions. */
+  reportFields?: ReportFields;
+  handReasons?: HandReason[];
 }
 
 /** The small parts of a session, written to localStorage on every edit. */
@@ -141,6 +148,9 @@ export interface SessionJournal {
   peakSettings: PeakSettings;
   decisions: PeakDecisions;
   alternatives: { id: string; label: string; recipe: unknown }[];
+  /** Issue 17; absent in older journals. */
+  reportFields?: ReportFields;
+  handReasons?: HandReason[];
 }
 
 export type SessionProblem = { ok: false; problem: string };
@@ -148,12 +158,23 @@ export type SaveOutcome = { ok: true; generation: number } | SessionProblem;
 export type LoadOutcome = { ok: true; snapshot: SessionSnapshot; notes: string[] } | SessionProblem | null;
 
 /** The session parts of the page state (same objects, nothing copied). */
-export function snapshotOf(state: Pick<AppState, keyof SessionSnapshot>): SessionSnapshot {
+export function snapshotOf(state: Pick<AppState, Exclude<keyof SessionSnapshot, 'reportFields' | 'handReasons'>> & Partial<Pick<AppState, 'reportFields' | 'handReasons'>>): SessionSnapshot {
   return {
     traces: state.traces, roles: state.roles, sampleId: state.sampleId, reports: state.reports,
     recipe: state.recipe, noiseSettings: state.noiseSettings, peakSettings: state.peakSettings, decisions: state.decisions,
     alternatives: state.alternatives, past: state.past, future: state.future,
+    reportFields: state.reportFields, handReasons: state.handReasons,
   };
+}
+
+/** The decisions as kept: plain copies, hand-set start and end included when there are any (issue 17). */
+function keptDecisions(d: PeakDecisions): PeakDecisions {
+  return { added: [...d.added], removed: [...d.removed], ...(d.bounds?.length ? { bounds: d.bounds.map((b) => ({ ...b })) } : {}) };
+}
+
+/** Issue 17: the report's fields and hand-change reasons as kept (plain copies; cleaned when read back). */
+function keptNotes(s: { reportFields?: unknown; handReasons?: unknown }): { reportFields: ReportFields; handReasons: HandReason[] } {
+  return { reportFields: cleanReportFields(s.reportFields), handReasons: cleanHandReasons(s.handReasons) };
 }
 
 function plainRecipe(r: Recipe): unknown {
@@ -175,8 +196,9 @@ export function sessionJournal(snapshot: SessionSnapshot, takenAt: number): Sess
     traceIds: snapshot.traces.map((t) => t.id), traceNames: snapshot.traces.map((t) => t.name),
     roles: { ...snapshot.roles }, sampleId: snapshot.sampleId, recipe: plainRecipe(snapshot.recipe), ...keptHistory(snapshot),
     noiseSettings: { ...snapshot.noiseSettings }, peakSettings: { ...snapshot.peakSettings },
-    decisions: { added: [...snapshot.decisions.added], removed: [...snapshot.decisions.removed] },
+    decisions: keptDecisions(snapshot.decisions),
     alternatives: snapshot.alternatives.map((a) => ({ id: a.id, label: a.label, recipe: plainRecipe(a.recipe) })),
+    ...keptNotes(snapshot),
   };
 }
 
@@ -204,6 +226,7 @@ export function mergeJournal(meta: SessionMeta, journal: SessionJournal | null):
       roles: sampleStored ? journal.roles : meta.roles, sampleId: sampleStored ? journal.sampleId : meta.sampleId,
       recipe: journal.recipe, past: journal.past, future: journal.future,
       noiseSettings: journal.noiseSettings, peakSettings: journal.peakSettings, decisions: journal.decisions, alternatives: journal.alternatives,
+      ...(journal.reportFields || journal.handReasons ? keptNotes(journal) : {}),
     },
   };
 }
@@ -282,10 +305,11 @@ export function sessionMeta(snapshot: SessionSnapshot, generation: number, saved
     roles: { ...snapshot.roles }, sampleId: snapshot.sampleId, reports,
     recipe: plainRecipe(snapshot.recipe),
     noiseSettings: { ...snapshot.noiseSettings }, peakSettings: { ...snapshot.peakSettings },
-    decisions: { added: [...snapshot.decisions.added], removed: [...snapshot.decisions.removed] },
+    decisions: keptDecisions(snapshot.decisions),
     alternatives: snapshot.alternatives.map((a) => ({ id: a.id, label: a.label, recipe: plainRecipe(a.recipe) })),
     ...keptHistory(snapshot),
     takenAt,
+    ...keptNotes(snapshot),
   };
 }
 
@@ -342,6 +366,7 @@ export function sessionFromRecords(meta: SessionMeta, getChunk: (key: ChunkKey) 
       sampleId: meta.sampleId && ids.has(meta.sampleId) ? meta.sampleId : null,
       noiseSettings: meta.noiseSettings, peakSettings: meta.peakSettings,
       decisions: meta.decisions ?? { added: [], removed: [] },
+      ...keptNotes(meta),
     },
   };
 }
@@ -525,6 +550,7 @@ export interface SessionStore {
 
 const SESSION_KEYS: readonly (keyof SessionSnapshot)[] = [
   'traces', 'roles', 'sampleId', 'reports', 'recipe', 'noiseSettings', 'peakSettings', 'decisions', 'alternatives', 'past', 'future',
+  'reportFields', 'handReasons',
 ];
 
 /** Where the page listens for being hidden or closed (the window in the page; absent in Node tests). */
@@ -644,6 +670,7 @@ export function applySnapshot(store: SessionStore, s: SessionSnapshot): void {
     traces: s.traces, roles: s.roles, sampleId: s.sampleId, reports: s.reports,
     recipe: s.recipe, past: s.past, future: s.future,
     noiseSettings: s.noiseSettings, peakSettings: s.peakSettings, decisions: s.decisions, alternatives: s.alternatives,
+    ...keptNotes(s), lastHandChange: null,
   });
 }
 
