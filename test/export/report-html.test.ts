@@ -59,7 +59,7 @@ describe('HTML report', () => {
     expect(html).toContain('@page{size:A4');
     // Summary rows are the detail's row numbers; ticks stay round (checked in plot-svg.test.ts).
     const rows = summary.slice(summary.indexOf('data-role="summary-peaks"'));
-    expect((rows.slice(0, rows.indexOf('</table>')).match(/<tr>/g) ?? []).length).toBe(Math.min(result.peaks.length, 15) + 1);
+    expect((rows.slice(0, rows.indexOf('</table>')).match(/<tr>/g) ?? []).length).toBe(Math.min(result.peaks.length, 12) + 1);
   });
 
   test('report fields and hand-change reasons appear on the summary and in the detail, escaped; empty fields are left out', () => {

@@ -49,6 +49,29 @@ describe('summary JSON', () => {
     expect(json.residual.verdict.length).toBeGreaterThan(10);
   });
 
+  test('issue 17, added fields: the report fields and each hand change\'s reason validate strictly; without them the summary is unchanged', () => {
+    const trace = inventedTrace({ fileName: 'run-7.csv' });
+    const method = recipeWithAnalysis(recipeOf('savitzky-golay'), DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS);
+    const first = run(trace, recipeOf('savitzky-golay'));
+    const detected = first.result.peaks.find((p) => p.flag === 'quantifiable')!;
+    const result = analyse({ sampleId: trace.id, scanIds: [], recipe: method, decisions: { added: [], removed: [detected.x] } }, new Map([[trace.id, trace]]), STEP_REGISTRY);
+    const plain = reread(analysisSummary({ trace, result, method, registry: STEP_REGISTRY, inputFile: 'x.csv' }));
+    expect('report' in plain).toBe(false);
+    expect(plain.peaks.every((p) => !('reason' in p))).toBe(true);
+    const json = reread(analysisSummary({
+      trace, result, method, registry: STEP_REGISTRY, inputFile: 'x.csv',
+      fields: { analyst: 'A. Chemist', sample: 'Lot 42', instrument: '', run: '7' },
+      reasons: [{ kind: 'removed', x: detected.x, reason: 'carry-over' }],
+    }));
+    expect(schemaProblems(SCHEMA, json, true)).toEqual([]);
+    expect(json.report).toEqual({ analyst: 'A. Chemist', sample: 'Lot 42', instrument: '', run: '7' });
+    expect(json.peaks.filter((p) => p.hand === 'removed').map((p) => p.reason)).toEqual(['carry-over']);
+    expect(json.peaks.filter((p) => p.hand === null).every((p) => p.reason === '')).toBe(true);
+    // Everything else is as before: only fields were added.
+    const { report: _r, ...rest } = json;
+    expect({ ...rest, peaks: rest.peaks.map(({ reason: _x, ...p }) => p) }).toEqual(plain);
+  });
+
   test('the checker itself refuses what breaks the schema (so the check above can fail)', () => {
     const { summary } = run(inventedTrace(), recipeOf());
     const bad = reread(summary) as unknown as Record<string, unknown>;

@@ -80,7 +80,7 @@ const NOT_FINITE = 'not a finite number';
 export const REPORT_DIGITS = 6;
 export const SUMMARY_DIGITS = 4;
 /** Most peak rows on the summary page (the highest S/N and every hand change; the detail has all). */
-export const SUMMARY_MAX_PEAKS = 15;
+export const SUMMARY_MAX_PEAKS = 12;
 /** Most columns in one part of the detail's peak table, so each part fits an A4 page's width. */
 export const DETAIL_MAX_COLUMNS = 8;
 
@@ -124,13 +124,13 @@ const CSS = `
 body{font:14px/1.45 system-ui,-apple-system,"Segoe UI",sans-serif;color:#1d2329;max-width:1000px;margin:24px auto;padding:0 18px}
 h1{font-size:22px;margin:0 0 6px}h2{font-size:17px;margin:26px 0 8px;border-bottom:1px solid #ccd3da;padding-bottom:3px}
 .caution{border:2px solid #b36b00;background:#fff4e0;padding:10px 14px;font-weight:600;margin:12px 0}
-table{border-collapse:collapse;width:100%;font-size:12.5px;margin:6px 0}th,td{border:1px solid #ccd3da;padding:3px 6px;text-align:left;vertical-align:top;overflow-wrap:anywhere}
+table{border-collapse:collapse;width:100%;font-size:12.5px;margin:6px 0}th,td{border:1px solid #ccd3da;padding:3px 6px;text-align:left;vertical-align:top;overflow-wrap:break-word}
 td.num{text-align:right;white-space:nowrap;overflow-wrap:normal}
 th{background:#eef2f5}caption{text-align:left;font-style:italic;padding:2px 0}
 dl{display:grid;grid-template-columns:max-content 1fr;gap:2px 14px;margin:6px 0}dt{font-weight:600}dd{margin:0;overflow-wrap:anywhere}
 pre{background:#f4f6f8;border:1px solid #ccd3da;padding:8px;white-space:pre-wrap;overflow-wrap:anywhere;font-size:12px}
 .muted{color:#5b6670}.hash{font-family:ui-monospace,monospace;overflow-wrap:anywhere}
-figure{margin:10px 0}figure img,svg.plot{max-width:100%;height:auto;border:1px solid #ccd3da}
+figure{margin:10px 0}figure img,svg.plot{max-width:100%;height:auto;border:1px solid #ccd3da;box-sizing:border-box}
 figcaption{font-size:12px;color:#5b6670}.confirm{border:1px solid #5b6670;padding:8px 12px;background:#f4f6f8}
 .summary h2{font-size:14px;margin:10px 0 4px}.summary p,.summary ul,.summary ol{margin:3px 0}.summary li{margin:0}
 .summary table{font-size:11px}.summary th,.summary td{padding:1px 4px}.summary figure{margin:4px 0}
@@ -229,7 +229,7 @@ export function reportHtml(input: ReportInput): string {
   const markers: PlotMarker[] = [];
   result.peaks.forEach((p, i) => { if (!p.removedByUser) markers.push({ x: p.x, y: p.y, label: naming?.names[i] ? `${i + 1} ${naming.names[i]}` : String(i + 1), below: p.height < 0, weight: Math.abs(p.snr ?? 0) }); });
   const cut = markers.length > PLOT_MAX_MARKERS ? ` Only the first ${PLOT_MAX_MARKERS} of ${markers.length} peaks are marked.` : '';
-  s.push(`<figure>${svgLinePlot(series, xLabel, yLabel, 'Raw and processed trace', markers)}<figcaption>Raw and processed trace with the peaks of the table (lines thinned to the minimum and maximum per column for drawing).${cut}</figcaption></figure>`);
+  s.push(`<figure>${svgLinePlot(series, xLabel, yLabel, 'Raw and processed trace', markers)}<figcaption>Raw and processed trace; numbers are rows of the peak table; lines thinned to the lowest and highest value per drawn column.${cut}</figcaption></figure>`);
 
   s.push('<h2>Processing method</h2>');
   s.push(`<ol data-role="method-words">${recipeInWords(recipe, registry).map((w) => `<li>${escapeText(w.replace(/^\d+\.\s*/, ''))}</li>`).join('')}</ol>`);
@@ -239,7 +239,8 @@ export function reportHtml(input: ReportInput): string {
   const def = result.peakOptions?.snrDefinition ?? 'rms';
   if (result.noise) {
     const n = result.noise.sigma;
-    s.push(`<p data-role="sigma">Noise σ = ${fmt(n.sigma, SUMMARY_DIGITS)}${trace.yUnit ? ` ${escapeText(trace.yUnit)}` : ''}, method ${escapeText(n.method)} (${fmt(n.points)} points${n.assumptionsHeld === false ? '; an assumption did not hold or a fallback was used' : ''}): ${escapeText(n.description)}</p>`);
+    // The method's name and whether its assumptions held; its description is in the detail's Noise section.
+    s.push(`<p data-role="sigma">Noise σ = ${fmt(n.sigma, SUMMARY_DIGITS)}${trace.yUnit ? ` ${escapeText(trace.yUnit)}` : ''}, method ${escapeText(n.method)}, over ${fmt(n.points)} points${n.assumptionsHeld === false ? '; an assumption did not hold or a fallback was used (see Noise in the detail)' : n.assumptionsHeld ? '; its assumptions held' : ''}.</p>`);
   } else {
     s.push('<p data-role="sigma">Noise was not measured.</p>');
   }

@@ -16,6 +16,7 @@ import { analysisOf, recipeToJson, type Recipe, type Registry } from '../recipe.
 import type { Trace } from '../trace.ts';
 import { TOOL_VERSION } from './version.ts';
 import { peakNamingOf } from './peak-names.ts';
+import { cleanReportFields, reasonFor, type HandReason, type ReportFields } from './report-fields.ts';
 
 export const SUMMARY_SCHEMA = 1;
 
@@ -35,6 +36,8 @@ export interface SummaryPeak {
   afterProcessingOnly: boolean;
   /** Issue 21: the name the method's named-peak table gives this peak, or null. */
   name: string | null;
+  /** Issue 17, added: the reason given for the hand change, '' when none was given; present only when the page passed its reasons. */
+  reason?: string;
 }
 
 export interface Summary {
@@ -51,6 +54,8 @@ export interface Summary {
   warnings: string[];
   /** Issue 18, added: region fits (export/fit-export.ts fitSummary); present only when fits were made. */
   fits?: Record<string, unknown>[];
+  /** Issue 17, added: analyst, sample, instrument and run as filled in the page; present only when given. */
+  report?: ReportFields;
 }
 
 export interface SummaryInput {
@@ -68,6 +73,9 @@ export interface SummaryInput {
   version?: string;
   /** Issue 18: region fits to add as `fits`. */
   fits?: readonly FitForExport[];
+  /** Issue 17: the report's fields (added as `report`) and the reasons for hand changes (each peak's `reason`). */
+  fields?: ReportFields | null;
+  reasons?: readonly HandReason[] | null;
 }
 
 const STATUS: Record<PeakFlag, SummaryStatus> = {
@@ -135,6 +143,7 @@ export function analysisSummary(input: SummaryInput): Summary {
   const limits = result.peakOptions?.limits ?? { detection: settings.peaks.detectionLimit, quantitation: settings.peaks.quantitationLimit };
   const naming = peakNamingOf(method, result.peaks);
   if (naming?.missing.length) warnings.push(`Named peaks not found: ${naming.missing.join(', ')}.`);
+  const step = trace.x.length > 1 ? Math.abs(trace.x[trace.x.length - 1] - trace.x[0]) / (trace.x.length - 1) : 0;
   const peaks: SummaryPeak[] = result.peaks.map((p, i) => ({
     x: num(p.x), height: num(p.height), area: num(p.area), fwhm: num(p.fwhm), start: num(p.start), end: num(p.end), snr: num(p.snr),
     status: STATUS[p.flag],
@@ -143,6 +152,7 @@ export function analysisSummary(input: SummaryInput): Summary {
     // Marked when the raw trace has nothing there that passes the same thresholds (measure/peak-table.ts).
     afterProcessingOnly: p.marks.includes('appears-only-after-processing'),
     name: naming?.names[i] ?? null,
+    ...(input.reasons ? { reason: reasonFor(p, input.reasons, step) } : {}),
   }));
 
   let verdict: string;
@@ -167,6 +177,7 @@ export function analysisSummary(input: SummaryInput): Summary {
     residual: { verdict },
     warnings,
     ...(input.fits && input.fits.length ? { fits: fitSummary(input.fits) } : {}),
+    ...(input.fields ? { report: cleanReportFields(input.fields) } : {}),
   };
 }
 

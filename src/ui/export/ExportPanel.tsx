@@ -7,6 +7,8 @@ import { peakTableCsv, peakTableTsv } from '../../core/export/peak-csv.ts';
 import { reportHtml, type ExportConfirmation, type LossLedgerLike } from '../../core/export/report-html.ts';
 import { CAUTION, TOOL_LABEL } from '../../core/export/version.ts';
 import { lossCounts, lossSummaryLines } from '../../core/export/loss-summary.ts';
+import { REPORT_FIELD_LABELS, type HandChangeKind } from '../../core/export/report-fields.ts';
+import { analysisSummary, summaryJson } from '../../core/export/summary.ts';
 import { CSV_DIGIT_CHOICES, type CsvDecimal, type CsvDelimiter } from '../../core/io/csv-write.ts';
 import { jcampFromTrace } from '../../core/io/jcamp-write.ts';
 import { analysisOf, parseRecipeText, recipeStepsOnly, recipeToJson, recipeWithAnalysis } from '../../core/recipe.ts';
@@ -19,18 +21,37 @@ import { SessionFileControls } from './SessionFileControls.tsx';
 import { markDrawn } from '../draw-health.ts';
 import { exportExtras } from '../fit/export-extras.ts';
 
-type Guarded = 'cleaned' | 'peaks' | 'report';
+type Guarded = 'cleaned' | 'peaks' | 'report' | 'print' | 'summary';
 
 interface Props {
   /** The main plot's element (for pictures); the first figure on the page is used when it gives none. */
   getFigure?: () => HTMLElement | null;
 }
 
+const CHANGE_WORDS: Record<HandChangeKind, string> = { added: 'Peak added', removed: 'Peak removed', bounds: 'Start and end set' };
+
 const DELIMITERS: { value: CsvDelimiter; label: string }[] = [
   { value: ',', label: 'comma' },
   { value: ';', label: 'semicolon' },
   { value: '\t', label: 'tab' },
 ];
+
+/**
+ * Print the report: it is put in a hidden frame of this page (the report's
+ * own policy still forbids scripts in it) and the browser's print dialog
+ * opens on that frame; the frame is replaced by the next print.
+ */
+function printHtml(html: string): void {
+  document.querySelector('iframe[data-testid="print-frame"]')?.remove();
+  const frame = document.createElement('iframe');
+  frame.dataset.testid = 'print-frame';
+  frame.title = 'Report for printing';
+  frame.setAttribute('aria-hidden', 'true');
+  frame.style.cssText = 'position:fixed;right:0;bottom:0;width:0;height:0;border:0;visibility:hidden';
+  frame.addEventListener('load', () => { frame.contentWindow?.focus(); frame.contentWindow?.print(); }, { once: true });
+  frame.srcdoc = html;
+  document.body.appendChild(frame);
+}
 
 function stamp(d: Date): string {
   return d.toISOString().replace(/[:]/g, '-').replace(/\.\d+Z$/, 'Z');
@@ -49,6 +70,10 @@ export function ExportPanel({ getFigure }: Props) {
   const calibrationSettings = useApp((s) => s.calibrationSettings);
   const calibration = useCalibrationView();
   const recipe = recipeWithAnalysis(stack, noiseSettings, peakSettings, { namedPeaks: namedPeaks.peaks.length ? namedPeaks : null, calibration: namedPeaks.peaks.length ? calibrationSettings : null });
+  // Issue 17: the report's fields and the reasons for hand changes, written into every export.
+  const fields = useApp((s) => s.reportFields);
+  const reasons = useApp((s) => s.handReasons);
+  const decisions = useApp((s) => s.decisions);
   const sessionProblem = useApp((s) => s.sessionProblem);
   const savedAt = useApp((s) => s.sessionSavedAt);
   const savePending = useApp((s) => s.sessionPending);
@@ -78,6 +103,14 @@ export function ExportPanel({ getFigure }: Props) {
   const ledgerOut: LossLedgerLike | null = result?.loss?.ledger ?? null;
   const stem = sample ? zipBaseName(sample.source.fileName) : 'trace';
 
+  // Every hand change the decisions hold, with its reason (kept by kind and the decision's x).
+  const handChanges: { kind: HandChangeKind; x: number }[] = [
+    ...decisions.added.map((x) => ({ kind: 'added' as const, x })),
+    ...decisions.removed.map((x) => ({ kind: 'removed' as const, x })),
+    ...(decisions.bounds ?? []).map((b) => ({ kind: 'bounds' as const, x: b.x })),
+  ];
+  const reasonOf = (kind: HandChangeKind, x: number) => reasons.find((r) => r.kind === kind && r.x === x)?.reason ?? '';
+
   const notify = (kind: 'info' | 'warning' | 'error', title: string, lines: string[] = []) => useApp.getState().notify(kind, title, lines);
   const fail = (what: string, e: unknown) => notify('error', `${what} could not be made`, [e instanceof Error ? e.message : String(e)]);
   const figureElement = (): HTMLElement | null => getFigure?.() ?? document.querySelector<HTMLElement>('[data-testid="figure"]');
@@ -90,14 +123,18 @@ export function ExportPanel({ getFigure }: Props) {
       if (kind === 'cleaned') {
         downloadCsv(cleanedTraceCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: csv, now }), `${stem}-cleaned.csv`);
       } else if (kind === 'peaks') {
-        downloadCsv(peakTableCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: csv, now, extra: add.extra, extraComments: add.lines }), `${stem}-peaks.csv`);
+        downloadCsv(peakTableCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: csv, now, extra: add.extra, extraComments: add.lines, reasons }), `${stem}-peaks.csv`);
+      } else if (kind === 'summary') {
+        const summary = analysisSummary({ trace: sample, result, method: recipe, registry: STEP_REGISTRY, inputFile: sample.source.fileName, fits: add.fits, fields, reasons });
+        downloadText(summaryJson(summary), `${stem}-summary.json`, 'application/json');
       } else {
         // The plots are drawn by the core, as in the command line's report.
-        const html = reportHtml({ trace: sample, result, recipe, registry: STEP_REGISTRY, ledger: ledgerOut, confirmation: confirmed, now, calibration: calibration?.exp ?? null, fits: add.fits, extra: add.extra, extraLines: add.lines });
-        downloadText(html, `${stem}-report.html`, 'text/html;charset=utf-8');
+        const html = reportHtml({ trace: sample, result, recipe, registry: STEP_REGISTRY, ledger: ledgerOut, confirmation: confirmed, now, calibration: calibration?.exp ?? null, fits: add.fits, extra: add.extra, extraLines: add.lines, fields, reasons });
+        if (kind === 'print') printHtml(html);
+        else downloadText(html, `${stem}-report.html`, 'text/html;charset=utf-8');
       }
     } catch (e) {
-      fail(kind === 'cleaned' ? 'The cleaned trace CSV' : kind === 'peaks' ? 'The peak table CSV' : 'The report', e);
+      fail(kind === 'cleaned' ? 'The cleaned trace CSV' : kind === 'peaks' ? 'The peak table CSV' : kind === 'summary' ? 'The summary' : 'The report', e);
     }
   };
 
@@ -226,10 +263,38 @@ export function ExportPanel({ getFigure }: Props) {
           </select>
         </label>
       </div>
+      <fieldset className="report-fields" data-testid="report-fields">
+        <legend>For the report (kept with the session)</legend>
+        <div className="row">
+          {REPORT_FIELD_LABELS.map(([key, label]) => (
+            <label key={key}>{label}{' '}
+              <input type="text" value={fields[key]} maxLength={200} size={14} data-testid={`report-field-${key}`}
+                onChange={(e) => useApp.getState().setReportField(key, e.target.value)} />
+            </label>
+          ))}
+        </div>
+        {handChanges.length > 0 && (
+          <details data-testid="hand-changes" open={handChanges.some((c) => !reasonOf(c.kind, c.x))}>
+            <summary>Hand changes and their reasons ({handChanges.filter((c) => reasonOf(c.kind, c.x)).length} of {handChanges.length} given)</summary>
+            <ul className="small">
+              {handChanges.map((c) => (
+                <li key={`${c.kind}-${c.x}`}>
+                  <label>{CHANGE_WORDS[c.kind]} at {Number(c.x.toPrecision(6))}{sample?.xUnit ? ` ${sample.xUnit}` : ''}:{' '}
+                    <input type="text" value={reasonOf(c.kind, c.x)} maxLength={200} size={36} placeholder="reason"
+                      onChange={(e) => useApp.getState().setHandReason(c.kind, c.x, e.target.value)} />
+                  </label>
+                </li>
+              ))}
+            </ul>
+          </details>
+        )}
+      </fieldset>
       <div className="row" style={{ margin: "6px 0" }}>
         <button type="button" disabled={!ready} data-testid="export-cleaned-csv" onClick={() => request('cleaned')}>Cleaned trace (CSV)</button>
         <button type="button" disabled={!ready} data-testid="export-peaks-csv" onClick={() => request('peaks')}>Peak table (CSV)</button>
         <button type="button" disabled={!ready} data-testid="export-report" onClick={() => request('report')}>Report (HTML)</button>
+        <button type="button" disabled={!ready} data-testid="print-report" onClick={() => request('print')}>Print the report…</button>
+        <button type="button" disabled={!ready} data-testid="export-summary" onClick={() => request('summary')}>Summary (JSON)</button>
         <button type="button" disabled={!ready} data-testid="export-jcamp" onClick={exportJcamp}>Cleaned trace (JCAMP-DX)</button>
         <button type="button" disabled={!ready} onClick={() => void copyPeaks()}>Copy peak table</button>
         <button type="button" disabled={!ready} onClick={() => void savePicture('png')}>Plot as PNG</button>
