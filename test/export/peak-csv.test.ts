@@ -54,7 +54,7 @@ describe('peak table CSV', () => {
     expect(comments).toContain(`# Input SHA-256: ${trace.source.sha256}`);
     // How many rows pure noise would give, and how that was worked out.
     expect(comments.some((c) => c.startsWith('# Noise-only peaks: Pure noise of this length') && c.includes('Simulated:'))).toBe(true);
-    expect(comments.some((c) => c.startsWith('# Bounds: '))).toBe(true);
+    expect(comments.some((c) => c.startsWith('# Start and end: '))).toBe(true);
   });
 
   test('hostile file name and metadata are neutralised; negative heights stay numbers (troughs)', () => {

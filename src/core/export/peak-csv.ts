@@ -25,7 +25,7 @@ import { reasonFor, type HandReason } from './report-fields.ts';
 export const SNR_DEFINITION_WORDS: Record<SnrDefinition, string> = {
   rms: 'S/N = H/σ: the peak height above its local baseline divided by the standard deviation σ of the noise.',
   pharmacopoeial: 'S/N = 2H/h: twice the peak height divided by the range h (largest minus smallest value) of the noise in a window around the peak (the pharmacopoeial definition).',
-  region: 'S/N = mean/SD of the samples between the peak’s integration bounds.',
+  region: 'S/N = mean/SD of the samples between the peak’s start and end.',
 };
 
 /** Short column label for each S/N definition. */
@@ -142,9 +142,9 @@ export function noiseSentence(e: NoiseEstimate): string {
 
 /** How height, width, bounds and area are measured, in words (the table's hint says the same, shorter). */
 export const PEAK_MEASURE_LINES: readonly string[] = [
-  'Height: the apex level (a parabola over the peak\'s own top, ±FWHM/6) above the peak\'s local baseline, a straight line between the levels of the trace at its two bounds (the mean of at least 5 samples beyond each bound, or the averaged trace at a valley).',
-  `Bounds: where the trace, averaged over about half the peak's half-height width, is back at the baseline (within 3 standard deviations of that average above the lower of the baseline and the lower hull of the trace) plus two half-widths, or at the valley before a rise (3 standard deviations; 6 once back at the baseline); never beyond ${WIDTH_LIMIT} of the peak's own half-height half-widths. Peaks sharing a valley are split there: perpendicular drop (one baseline under the group) unless valley to valley was chosen. Narrow peaks on a broad neighbour's top keep their own baseline; two maxima whose valley is shallower than the detection limit count as one peak.`,
-  'FWHM: the peak\'s own width at half its height above the local baseline (crossings linearly interpolated). Area: above the local baseline between the bounds (trapezoid rule). Perpendicular drop is biased by construction where peaks overlap (about −21 % for the smaller of a 5:1 pair at resolution 0.8).',
+  'Height: the apex level (a parabola over the peak\'s own top, ±FWHM/6) above the peak\'s local baseline, a straight line between the levels of the trace at its start and end (the mean of at least 5 samples beyond each, or the averaged trace at a valley).',
+  `Start and end: where the trace, averaged over about half the peak's half-height width, is back at the baseline (within 3 standard deviations of that average above the lower of the baseline and the lower hull of the trace) plus two half-widths, or at the valley before a rise (3 standard deviations; 6 once back at the baseline); never beyond ${WIDTH_LIMIT} of the peak's own half-height half-widths. Peaks sharing a valley are split there: perpendicular drop (one baseline under the group) unless valley to valley was chosen. Narrow peaks on a broad neighbour's top keep their own baseline; two maxima whose valley is shallower than the detection limit count as one peak.`,
+  'FWHM: the peak\'s own width at half its height above the local baseline (crossings linearly interpolated). Area: above the local baseline between start and end (trapezoid rule). Perpendicular drop is biased by construction where peaks overlap (about −21 % for the smaller of a 5:1 pair at resolution 0.8).',
 ];
 
 /** Comment lines on how S/N and the flags were obtained. */

@@ -158,7 +158,7 @@ export function ExportPanel({ getFigure }: Props) {
       const text = jcampFromTrace(
         { x: result.processed.x, y: result.processed.y, xName: sample.xName, xUnit: sample.xUnit, yName: sample.yName, yUnit: sample.yUnit, name: `${sample.name} (processed)` },
         {
-          $SOURCE_FILE: sample.source.fileName, $SOURCE_SHA256: sample.source.sha256, $RECIPE: recipeOneLine(recipe),
+          $SOURCE_FILE: sample.source.fileName, $SOURCE_SHA256: sample.source.sha256, $PROCESSING_METHOD: recipeOneLine(recipe),
           $WRITTEN_BY: TOOL_LABEL, $WRITTEN_AT: new Date().toISOString(), $CAUTION: CAUTION,
         },
       );
@@ -183,10 +183,10 @@ export function ExportPanel({ getFigure }: Props) {
   const loadRecipe = async (file: File | undefined) => {
     if (!file) return;
     let text: string;
-    try { text = await file.text(); } catch (e) { fail('Reading the recipe', e); return; }
+    try { text = await file.text(); } catch (e) { fail('Reading the processing method', e); return; }
     const check = parseRecipeText(text, STEP_REGISTRY);
     if (!check.ok) {
-      notify('error', `${file.name}: the recipe was not loaded`, [...check.problems, 'The current step stack is unchanged.']);
+      notify('error', `${file.name}: the processing method was not loaded`, [...check.problems, 'The current step stack is unchanged.']);
       return;
     }
     const st = useApp.getState();
@@ -196,7 +196,7 @@ export function ExportPanel({ getFigure }: Props) {
     st.setPeakSettings(analysis.peaks);
     if (analysis.namedPeaks) st.setNamedPeaks(analysis.namedPeaks);
     if (analysis.calibration) st.setCalibrationSettings(analysis.calibration);
-    notify('info', `Recipe loaded from ${file.name}`, [
+    notify('info', `Processing method loaded from ${file.name}`, [
       `${check.recipe.steps.length} step(s). Undo (Ctrl+Z) brings back the previous stack.`,
       check.recipe.analysis
         ? 'The noise and peak settings saved with it are in use (undo does not bring back the earlier ones).'
@@ -303,7 +303,7 @@ export function ExportPanel({ getFigure }: Props) {
       {pending && (
         <div role="alertdialog" aria-labelledby="loss-confirm-title" className="confirm-box" data-testid="loss-confirm" style={{ border: "1px solid var(--bad)", borderRadius: 6, padding: "6px 10px", margin: "6px 0" }}>
           <p id="loss-confirm-title"><strong>Compared with the raw trace, the processing changed {losses.length} finding{losses.length === 1 ? '' : 's'}</strong>
-            {' '}<span className="small" data-testid="loss-counts">({counts.lost} lost, {counts.weakened} weakened, {counts.appeared} appear only after processing{losses.length > lossItems.length ? '; plus changes within the noise range' : ''})</span></p>
+            {' '}<span className="small" data-testid="loss-counts">({counts.lost} lost, {counts.weakened} weakened, {counts.appeared} only after processing{losses.length > lossItems.length ? '; plus changes within the noise range' : ''})</span></p>
           <ul data-testid="loss-summary">{lossSummary.map((t, i) => <li key={i}>{t}</li>)}</ul>
           {lossItems.length > 0 && (
             <details className="small"><summary>All {losses.length} sentences</summary><ul>{losses.map((t, i) => <li key={i}>{t}</li>)}</ul></details>
@@ -321,11 +321,11 @@ export function ExportPanel({ getFigure }: Props) {
         </p>
       )}
       <div className="row" style={{ margin: "6px 0" }}>
-        <button type="button" data-testid="save-recipe" onClick={() => downloadText(`${recipeToJson(recipe)}\n`, 'tracewright-recipe.json', 'application/json')}>Save recipe</button>
-        <button type="button" onClick={() => recipeInput.current?.click()}>Load recipe…</button>
-        <input ref={recipeInput} type="file" accept=".json,application/json" className="sr-only" data-testid="recipe-input" aria-label="Load a recipe file"
+        <button type="button" data-testid="save-recipe" onClick={() => downloadText(`${recipeToJson(recipe)}\n`, 'tracewright-method.json', 'application/json')}>Save processing method</button>
+        <button type="button" onClick={() => recipeInput.current?.click()}>Load processing method…</button>
+        <input ref={recipeInput} type="file" accept=".json,application/json" className="sr-only" data-testid="recipe-input" aria-label="Load a processing method file"
           onChange={(e) => { const f = e.target.files?.[0]; e.target.value = ''; void loadRecipe(f); }} />
-        <button type="button" disabled={!!progress} onClick={() => batchInput.current?.click()}>Run the recipe on many files…</button>
+        <button type="button" disabled={!!progress} onClick={() => batchInput.current?.click()}>Run the processing method on many files…</button>
         <input ref={batchInput} type="file" multiple className="sr-only" data-testid="batch-input" aria-label="Files for a batch"
           onChange={(e) => { const files = Array.from(e.target.files ?? []); e.target.value = ''; void startBatch(files); }} />
       </div>
@@ -361,7 +361,7 @@ export function ExportPanel({ getFigure }: Props) {
           <button type="button" data-testid="start-over" onClick={() => setAskStartOver(true)}>Start over…</button>
         )}
       </div>
-      <p className="hint">Every file carries the input’s SHA-256, the recipe, the tool version and the time. Files are made in this browser; nothing is uploaded.</p>
+      <p className="hint">Every file carries the input’s SHA-256, the processing method, the tool version and the time. Files are made in this browser; nothing is uploaded.</p>
     </section>
   );
 }

@@ -339,7 +339,7 @@ export function sessionFromRecords(meta: SessionMeta, getChunk: (key: ChunkKey) 
   const check = validateRecipe(meta.recipe, registry);
   let recipe = emptyRecipe();
   if (check.ok) recipe = check.recipe;
-  else notes.push(`The saved recipe could not be restored: ${check.problems.join(' ')} The stack starts empty.`);
+  else notes.push(`The saved processing method could not be restored: ${check.problems.join(' ')} The stack starts empty.`);
   const alternatives: AlternativeRequest[] = [];
   for (const a of meta.alternatives ?? []) {
     const c = validateRecipe(a.recipe, registry);
