@@ -50,7 +50,7 @@ test('one confirmation per export session, summarised; report fields and a hand 
   await page.getByTestId('export-report').click();
   const dialog = page.getByTestId('loss-confirm');
   await expect(dialog).toBeVisible();
-  await expect(dialog.getByTestId('loss-counts')).toContainText(/\d+ lost, \d+ weakened, \d+ appear only after processing/);
+  await expect(dialog.getByTestId('loss-counts')).toContainText(/\d+ lost, \d+ weakened, \d+ only after processing/);
   await expect(dialog.getByTestId('loss-summary')).toContainText(/^(Lost|Weakened|Appear only after processing): \d+ feature/);
   await dialog.getByRole('button', { name: 'Export anyway' }).click();
   const html = readFileSync(await (await waiting).path(), 'utf8');

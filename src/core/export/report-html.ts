@@ -261,7 +261,7 @@ export function reportHtml(input: ReportInput): string {
   else s.push(`<div data-role="loss-summary">${list(lossLines)}</div>`);
   if (confirmation) {
     const at = confirmation.at instanceof Date ? exportTime(confirmation.at) : String(confirmation.at);
-    s.push(`<p><strong>Export confirmed at ${escapeText(at)}</strong> after being shown these changes (every sentence is in the detail).</p>`);
+    s.push(`<p data-role="confirmation-note"><strong>Export confirmed at ${escapeText(at)}</strong> after being shown these changes (every sentence is in the detail).</p>`);
   }
   if (result.diagnostics) s.push(`<p>Residual check: <strong>${escapeText(result.diagnostics.verdict)}</strong></p>`);
   s.push(`<p class="muted">Numbers on this page: ${SUMMARY_DIGITS} significant digits; in the detail: ${REPORT_DIGITS}; the CSV exports hold every digit unless fewer were chosen.</p>`);
