@@ -693,6 +693,6 @@ export async function restoreSession(store: SessionStore): Promise<boolean> {
   }
   applySnapshot(store, s);
   store.getState().notify(out.notes.length ? 'warning' : 'info', 'Your previous session was restored',
-    [`${s.traces.length} trace(s), the step stack with its last ${s.past.length} undo step(s), the quiet range, your peak decisions and the alternatives are as you left them. Use “Start over” to empty it.`, ...out.notes]);
+    [`${s.traces.length} trace(s), the step stack with its last ${s.past.length} undo step(s), the quiet range, your peak decisions with their reasons, the report fields and the alternatives are as you left them. Use “Start over” to empty it.`, ...out.notes]);
   return true;
 }
