@@ -130,7 +130,8 @@ export function writeCsv(rows: (string | number)[][], opts: CsvOptions): string 
   const lines: string[] = [];
   const comments = [...(opts.comments ?? [])];
   const empty = emptyCellNote(rows);
-  if (opts.comments) comments.push(numbersLine(opts.digits));
+  // How numbers are written, stated whenever the file has comment lines and holds a number.
+  if (opts.comments && rows.some((r) => r.some((c) => typeof c === 'number'))) comments.push(numbersLine(opts.digits));
   if (empty && opts.comments) comments.push(empty);
   for (const comment of comments) {
     for (const part of String(comment).split(/\r\n|\r|\n/)) lines.push(`# ${safeComment(part, opts.delimiter)}`.trimEnd());
