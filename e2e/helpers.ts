@@ -60,7 +60,8 @@ const ISO = /\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d\.\d{3}Z/g;
 /** A CSV without its byte-order mark and its "Written at" comment line. */
 export const csvBody = (text: string): string => text.replace(/^\uFEFF/, '').split('\r\n').filter((l) => !l.startsWith('# Written at:')).join('\r\n');
 /** A report without its time stamps and without the user's confirmation block. */
-export const reportBody = (html: string): string => html.replace(/\n<div class="confirm" data-role="confirmation">[\s\S]*?<\/ul><\/div>/, '').replace(ISO, 'TIME');
+export const reportBody = (html: string): string => html.replace(/\n<div class="confirm" data-role="confirmation">[\s\S]*?<\/ul><\/div>/, '')
+  .replace(/\n<p data-role="confirmation-note">[\s\S]*?<\/p>/, '').replace(ISO, 'TIME');
 
 /** Drag across the main plot from x = a to x = b (data units) with "Mark a range" on. */
 export async function markRange(page: Page, a: number, b: number): Promise<void> {

@@ -130,20 +130,20 @@ function isPlainObject(v: unknown): v is Record<string, unknown> {
  */
 export function validateRecipe(value: unknown, registry: Registry): RecipeCheck {
   const problems: string[] = [];
-  if (!isPlainObject(value)) return { ok: false, problems: ['The file is not a recipe: expected a JSON object.'] };
+  if (!isPlainObject(value)) return { ok: false, problems: ['The file is not a processing method: expected a JSON object.'] };
   if (value.format !== RECIPE_FORMAT) problems.push(`"format" must be "${RECIPE_FORMAT}".`);
   const version = value.version;
   if (typeof version !== 'number' || !Number.isInteger(version) || version < 1) {
     problems.push('"version" must be a whole number.');
   } else if (version > RECIPE_VERSION) {
-    return { ok: false, problems: [`This recipe was written by a newer version of Tracewright (recipe version ${version}; this page reads up to ${RECIPE_VERSION}). Open it with a newer version.`] };
+    return { ok: false, problems: [`This processing method was written by a newer version of Tracewright (method file version ${version}; this page reads up to ${RECIPE_VERSION}). Open it with a newer version.`] };
   }
   if (!Array.isArray(value.steps)) {
     problems.push('"steps" must be a list.');
     return { ok: false, problems };
   }
   if (value.steps.length > RECIPE_MAX_STEPS) {
-    return { ok: false, problems: [`The recipe has ${value.steps.length} steps; at most ${RECIPE_MAX_STEPS} are allowed.`] };
+    return { ok: false, problems: [`The processing method has ${value.steps.length} steps; at most ${RECIPE_MAX_STEPS} are allowed.`] };
   }
   const steps: RecipeStep[] = [];
   const seen = new Set<string>();
@@ -300,13 +300,13 @@ export function jsonDepth(text: string, limit = RECIPE_MAX_DEPTH + 1): number {
  * are too large or nested too deeply before handing them to JSON.parse.
  */
 export function parseRecipeText(text: string, registry: Registry): RecipeCheck {
-  if (text.length > RECIPE_MAX_BYTES) return { ok: false, problems: [`The recipe file is ${text.length} characters; recipes are at most ${RECIPE_MAX_BYTES}.`] };
-  if (jsonDepth(text) > RECIPE_MAX_DEPTH) return { ok: false, problems: [`The recipe file is nested more than ${RECIPE_MAX_DEPTH} levels deep; it is not a recipe.`] };
+  if (text.length > RECIPE_MAX_BYTES) return { ok: false, problems: [`The processing method file is ${text.length} characters; method files are at most ${RECIPE_MAX_BYTES}.`] };
+  if (jsonDepth(text) > RECIPE_MAX_DEPTH) return { ok: false, problems: [`The processing method file is nested more than ${RECIPE_MAX_DEPTH} levels deep; it is not a processing method.`] };
   let value: unknown;
   try {
     value = JSON.parse(text);
   } catch (e) {
-    return { ok: false, problems: [`The recipe file is not valid JSON: ${(e as Error).message}`] };
+    return { ok: false, problems: [`The processing method file is not valid JSON: ${(e as Error).message}`] };
   }
   return validateRecipe(value, registry);
 }

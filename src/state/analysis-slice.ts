@@ -41,17 +41,23 @@ export const createAnalysisSlice: StateCreator<AppState, [], [], AnalysisSlice> 
   selectedPeakX: null,
   setNoiseSettings: (p) => set((s) => ({ noiseSettings: { ...s.noiseSettings, ...p } })),
   setPeakSettings: (p) => set((s) => ({ peakSettings: { ...s.peakSettings, ...p } })),
-  addPeakAt: (x) => set((s) => ({ decisions: { ...s.decisions, added: [...s.decisions.added, x] } })),
-  removePeakAt: (x) => set((s) => ({
-    // Removing a peak the user added undoes the addition; a detected one is kept as a decision.
-    decisions: s.decisions.added.some((a) => a === x)
-      ? { ...s.decisions, added: s.decisions.added.filter((a) => a !== x) }
-      : { ...s.decisions, removed: [...s.decisions.removed, x] },
+  // Issue 17: each hand change waits for its reason (lastHandChange, report-slice.ts).
+  addPeakAt: (x) => set((s) => ({ decisions: { ...s.decisions, added: [...s.decisions.added, x] }, lastHandChange: { kind: 'added', x } })),
+  removePeakAt: (x) => set((s) => (
+    // Removing a peak the user added undoes the addition (and drops its reason); a detected one is kept as a decision.
+    s.decisions.added.some((a) => a === x)
+      ? { decisions: { ...s.decisions, added: s.decisions.added.filter((a) => a !== x) }, handReasons: s.handReasons.filter((r) => !(r.kind === 'added' && r.x === x)), lastHandChange: null }
+      : { decisions: { ...s.decisions, removed: [...s.decisions.removed, x] }, lastHandChange: { kind: 'removed' as const, x } }
+  )),
+  restorePeakAt: (x, tol) => set((s) => ({
+    decisions: { ...s.decisions, removed: s.decisions.removed.filter((r) => Math.abs(r - x) > tol) },
+    handReasons: s.handReasons.filter((r) => !(r.kind === 'removed' && Math.abs(r.x - x) <= tol)),
+    lastHandChange: null,
   })),
-  restorePeakAt: (x, tol) => set((s) => ({ decisions: { ...s.decisions, removed: s.decisions.removed.filter((r) => Math.abs(r - x) > tol) } })),
-  clearDecisions: () => set({ decisions: { added: [], removed: [] } }),
+  clearDecisions: () => set({ decisions: { added: [], removed: [] }, handReasons: [], lastHandChange: null }),
   setPeakBounds: (x, start, end) => set((s) => ({
     decisions: { ...s.decisions, bounds: [...(s.decisions.bounds ?? []).filter((b) => b.x !== x), { x, start: Math.min(start, end), end: Math.max(start, end) }] },
+    lastHandChange: { kind: 'bounds', x },
   })),
   setAddPeakMode: (addPeakMode) => set({ addPeakMode, markMode: false }),
   selectPeak: (selectedPeakX) => set({ selectedPeakX }),

@@ -10,11 +10,12 @@ import { createCalibrationSlice, type CalibrationSlice } from './calibration-sli
 import { createFitSlice, type FitSlice } from './fit-slice.ts';
 import { createInputsSlice, type InputsSlice } from './inputs-slice.ts';
 import { createRecipeSlice, type RecipeSlice } from './recipe-slice.ts';
+import { createReportSlice, type ReportSlice } from './report-slice.ts';
 import { createResultsSlice, type ResultsSlice } from './results-slice.ts';
 import { createSessionSlice, type SessionSlice } from './session-slice.ts';
 import { createViewSlice, type ViewSlice } from './view-slice.ts';
 
-export type AppState = InputsSlice & RecipeSlice & ResultsSlice & ViewSlice & AnalysisSlice & SessionSlice & CalibrationSlice & FitSlice;
+export type AppState = InputsSlice & RecipeSlice & ResultsSlice & ViewSlice & AnalysisSlice & SessionSlice & CalibrationSlice & FitSlice & ReportSlice;
 
 /** A fresh store (tests make one each). */
 export const createAppStore = () => create<AppState>()((...a) => ({
@@ -26,6 +27,7 @@ export const createAppStore = () => create<AppState>()((...a) => ({
   ...createSessionSlice(...a),
   ...createCalibrationSlice(...a),
   ...createFitSlice(...a),
+  ...createReportSlice(...a),
 }));
 
 export const useApp = createAppStore();

@@ -1,3 +1,4 @@
+import { HandReasonField } from './export/HandReasonField.tsx';
 import { useCallback, useEffect, useRef, useState } from 'react';
 import { useApp } from '../state/store.ts';
 import { loadDemo, openFiles } from './controller.ts';
@@ -110,6 +111,7 @@ export function App() {
               <TracePlot onFigure={onFigure} />
             </ErrorBoundary>
             {handNote && <p className={`small hand-note hand-${handNote.kind}`} role="status" data-testid="hand-note">{handNote.text} <button type="button" className="link" onClick={() => setHandNote(null)}>dismiss</button></p>}
+            <HandReasonField />
             <ErrorBoundary area="the cursor readout"><CursorReadout figure={figureEl} /></ErrorBoundary>
           </section>
           <ErrorBoundary area="the residual checks"><ResidualPanel /></ErrorBoundary>

@@ -168,7 +168,7 @@ export function PeakTable() {
         </table>
       </div>
       <p className="hint">
-        Height: apex above the peak’s own local baseline, a straight line between the trace’s levels at its bounds (drawn for the selected peak). Bounds: where the trace is back at the baseline, or a valley shared with a neighbour (split by {SPLIT_TEXT[result.peakOptions?.split ?? 'perpendicular-drop']}); hover a bound for why. FWHM: the peak’s own width at half that height. Area: above the local baseline between the bounds (trapezoid rule).
+        Height: apex above the peak’s own local baseline, a straight line between the trace’s levels at its start and end (drawn for the selected peak). Start and end: where the trace is back at the baseline, or a valley shared with a neighbour (split by {SPLIT_TEXT[result.peakOptions?.split ?? 'perpendicular-drop']}); hover a start or end for why. FWHM: the peak’s own width at half that height. Area: above the local baseline between start and end (trapezoid rule).
         {' '}2H/h: h is the noise range {peaks.some((p) => p.pharmaNoise?.source === 'trace itself') ? 'of the trace itself (*), because no blank is loaded: a deviation from the pharmacopoeial method' : 'of the blank, processed by the same steps as the sample'} over {result.peakOptions?.pharmacopoeialMultiplier ?? 5} × FWHM centred on each peak.
       </p>
     </section>

@@ -133,7 +133,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
           x: live.map((pk) => pk.x), y: live.map((pk) => pk.y),
           text: live.map((pk) => `${names.has(pk) ? `${names.get(pk)} · ` : ''}${pk.snr === null ? '?' : pk.snr.toFixed(pk.snr < 10 ? 1 : 0)}`),
           textposition: 'top center', textfont: { size: 11, color: COLOURS.ink },
-          hovertext: live.map((pk) => `apex ${pk.x.toPrecision(6)}<br>height ${pk.height.toPrecision(4)}<br>FWHM ${pk.fwhm.toPrecision(4)} (${pk.leftHalf.toPrecision(6)} – ${pk.rightHalf.toPrecision(6)})<br>bounds ${pk.start.toPrecision(6)} – ${pk.end.toPrecision(6)}<br>S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)}${pk.marks.map((m) => `<br>${MARK_TEXT[m]}`).join('')}${pk.origin === 'added-by-user' ? '<br>added by hand' : ''}`),
+          hovertext: live.map((pk) => `apex ${pk.x.toPrecision(6)}<br>height ${pk.height.toPrecision(4)}<br>FWHM ${pk.fwhm.toPrecision(4)} (${pk.leftHalf.toPrecision(6)} – ${pk.rightHalf.toPrecision(6)})<br>start – end ${pk.start.toPrecision(6)} – ${pk.end.toPrecision(6)}<br>S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)}${pk.marks.map((m) => `<br>${MARK_TEXT[m]}`).join('')}${pk.origin === 'added-by-user' ? '<br>added by hand' : ''}`),
           hoverinfo: 'text',
           marker: { symbol: live.map((pk) => sym[pk.flag]), color: live.map((pk) => col[pk.flag]), size: 10, line: { width: 1.5, color: live.map((pk) => col[pk.flag]) } },
           xaxis: 'x', yaxis: 'y',

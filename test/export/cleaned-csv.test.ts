@@ -35,9 +35,9 @@ describe('cleaned trace CSV', () => {
     expect(comments).toContain(`# Caution: ${CAUTION}`);
     expect(comments).toContain('# Written at: 2024-05-06T07:08:09.000Z');
     expect(comments).toContain('# Written by: Tracewright 0.1.0');
-    const json = comments.find((c) => c.startsWith('# Recipe (JSON): '))!.slice('# Recipe (JSON): '.length);
+    const json = comments.find((c) => c.startsWith('# Processing method (JSON): '))!.slice('# Processing method (JSON): '.length);
     expect(JSON.parse(json)).toEqual(JSON.parse(recipeToJson(recipe)));
-    expect(comments.filter((c) => c.startsWith('# Recipe in words: ')).length).toBe(2);
+    expect(comments.filter((c) => c.startsWith('# Processing method in words: ')).length).toBe(2);
     // Nothing handed to the export changed.
     expect(trace.x).toEqual(xBefore);
     expect(trace.y).toEqual(yBefore);

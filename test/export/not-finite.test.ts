@@ -25,6 +25,7 @@ describe('cells that are not finite numbers', () => {
     );
     expect(text).toBe([
       '# made by a test',
+      '# Numbers: full precision (the shortest text that reads back to exactly the same double, so reloading gives the same numbers).',
       '# Empty cells: 3 values were not a finite number (an overflow, a division by zero, or no value at that point) and are left empty: 2 in "y", 1 in "z".',
       'x,y,z', '1,,3', '2,,', '3,4,5', '',
     ].join('\n'));

@@ -17,7 +17,7 @@ describe('peak table CSV', () => {
     const result = analyse({ sampleId: trace.id, scanIds: [], recipe, decisions: { added: [3], removed: [tall.x] } }, new Map([[trace.id, trace]]), STEP_REGISTRY);
     const text = peakTableCsv({ trace, result, options: { delimiter: ';', decimal: ',' }, now: NOW, recipe, registry: STEP_REGISTRY });
     const { comments, header, body, num } = readCsv(text, ';', ',');
-    expect(header.slice(0, 9)).toEqual(['peak #', 'apex (min)', 'height (mAU)', 'prominence (mAU)', 'FWHM (min)', 'FWHM (points)', 'area (mAU × min)', 'from (min)', 'to (min)']);
+    expect(header.slice(0, 10)).toEqual(['peak #', 'apex (min)', 'height (mAU)', 'prominence (mAU)', 'FWHM (min)', 'FWHM (points)', 'area (mAU × min)', 'area % of all peaks kept', 'start (min)', 'end (min)']);
     expect(header).toContain('status');
     expect(header).toContain('decision');
     expect(body.length).toBe(result.peaks.length);
@@ -33,10 +33,10 @@ describe('peak table CSV', () => {
       expect(num(row[col('S/N (H/σ, definition in use)')])).toBe(p.snr);
       expect(num(row[col('S/N H/σ')])).toBe(p.snrRms);
       // The local baseline under each peak, why each bound lies where it does, the σ used and the marks.
-      expect(num(row[col('baseline at from')])).toBe(p.baselineStart);
-      expect(num(row[col('baseline at to')])).toBe(p.baselineEnd);
-      expect(row[col('from: why there')]).toBe(BOUND_TEXT[p.startKind]);
-      expect(row[col('to: why there')]).toBe(BOUND_TEXT[p.endKind]);
+      expect(num(row[col('baseline at start')])).toBe(p.baselineStart);
+      expect(num(row[col('baseline at end')])).toBe(p.baselineEnd);
+      expect(row[col('start: why there')]).toBe(BOUND_TEXT[p.startKind]);
+      expect(row[col('end: why there')]).toBe(BOUND_TEXT[p.endKind]);
       expect(num(row[col('noise σ at the peak')])).toBe(p.noiseSigma);
       expect(row[col('marks')]).toBe(peakMarksText(p));
     });
@@ -54,7 +54,7 @@ describe('peak table CSV', () => {
     expect(comments).toContain(`# Input SHA-256: ${trace.source.sha256}`);
     // How many rows pure noise would give, and how that was worked out.
     expect(comments.some((c) => c.startsWith('# Noise-only peaks: Pure noise of this length') && c.includes('Simulated:'))).toBe(true);
-    expect(comments.some((c) => c.startsWith('# Bounds: '))).toBe(true);
+    expect(comments.some((c) => c.startsWith('# Start and end: '))).toBe(true);
   });
 
   test('hostile file name and metadata are neutralised; negative heights stay numbers (troughs)', () => {

@@ -3,6 +3,7 @@ import { escapeHtml, reportHtml } from '../../src/core/export/report-html.ts';
 import { CAUTION } from '../../src/core/export/version.ts';
 import { recipeInWords, recipeToJson } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
+import { analyse } from '../../src/core/analysis/index.ts';
 import { analysed, HOSTILE_NAME, inventedTrace, recipeOf } from './helpers.ts';
 
 const NOW = new Date(Date.UTC(2024, 6, 1, 12, 0, 0));
@@ -27,9 +28,59 @@ describe('HTML report', () => {
     expect(html).toContain('Tracewright 0.1.0');
     expect(html).toContain('2024-07-01T12:00:00.000Z');
     expect(html).toContain('@media print');
-    // One table row per peak in the peak table (plus its header row).
+    // One table row per peak in each part of the peak table (plus its header row); each part has at most 8 columns.
     const peakSection = html.slice(html.indexOf('<h2>Peaks</h2>'), html.indexOf('<h2>What the processing may have lost</h2>'));
-    expect((peakSection.match(/<tr>/g) ?? []).length).toBe(result.peaks.length + 1);
+    const parts = peakSection.split('<table data-role="peak-table">').slice(1).map((t) => t.slice(0, t.indexOf('</table>')));
+    expect(parts.length).toBeGreaterThan(2);
+    for (const t of parts) {
+      expect((t.match(/<tr>/g) ?? []).length).toBe(result.peaks.length + 1);
+      expect((t.slice(0, t.indexOf('</tr>')).match(/<th /g) ?? []).length).toBeLessThanOrEqual(8);
+      expect(t).toContain('<th scope="col">peak #</th>');
+    }
+    // Every column of the peak table CSV is in one of the parts.
+    expect(peakSection).toContain('reason for the hand change');
+    expect(peakSection).toContain('area % of all peaks kept');
+  });
+
+  test('a one-page summary comes first: caution, hash, plot, processing method, σ with its method, a short peak table; the detail follows after a page break', () => {
+    const { html, trace, result } = report();
+    const summary = html.slice(html.indexOf('data-role="summary-page"'), html.indexOf('data-role="detail"'));
+    expect(summary).toContain(CAUTION);
+    expect(summary).toContain(trace.source.sha256);
+    expect(summary).toContain('<svg class="plot"');
+    expect(summary).toContain('<h2>Processing method</h2>');
+    expect(summary).toContain(result.noise!.sigma.method);
+    expect(summary).toMatch(/Noise σ = [\d.e-]+ mAU/);
+    expect(summary).toContain('data-role="summary-peaks"');
+    expect(summary).toContain('4 significant digits');
+    expect(summary).not.toContain('recipe');
+    // The page break: the detail section starts a new printed page.
+    expect(html).toMatch(/\.detail\{break-before:page/);
+    expect(html).toContain('@page{size:A4');
+    // Summary rows are the detail's row numbers; ticks stay round (checked in plot-svg.test.ts).
+    const rows = summary.slice(summary.indexOf('data-role="summary-peaks"'));
+    expect((rows.slice(0, rows.indexOf('</table>')).match(/<tr>/g) ?? []).length).toBe(Math.min(result.peaks.length, 12) + 1);
+  });
+
+  test('report fields and hand-change reasons appear on the summary and in the detail, escaped; empty fields are left out', () => {
+    const trace = inventedTrace();
+    const recipe = recipeOf('savitzky-golay');
+    const first = analysed(trace, recipe);
+    const tall = first.peaks.reduce((a, b) => (b.height > a.height ? b : a));
+    const result = analyse({ sampleId: trace.id, scanIds: [], recipe, decisions: { added: [], removed: [tall.x] } }, new Map([[trace.id, trace]]), STEP_REGISTRY);
+    const html = reportHtml({
+      trace, result, recipe, registry: STEP_REGISTRY, now: NOW,
+      fields: { analyst: 'A. <Chemist>', sample: 'Lot 42', instrument: '', run: 'run 7' },
+      reasons: [{ kind: 'removed', x: tall.x, reason: 'carry-over <from> the wash' }],
+    });
+    const summary = html.slice(0, html.indexOf('data-role="detail"'));
+    expect(summary).toContain('<dt>Analyst</dt><dd>A. &lt;Chemist&gt;</dd>');
+    expect(summary).toContain('<dt>Sample</dt><dd>Lot 42</dd>');
+    expect(summary).toContain('<dt>Run</dt><dd>run 7</dd>');
+    expect(summary).not.toContain('<dt>Instrument</dt>');
+    expect(summary).toContain('removed by hand: carry-over &lt;from&gt; the wash');
+    const detail = html.slice(html.indexOf('data-role="detail"'));
+    expect(detail).toContain('<td>carry-over &lt;from&gt; the wash</td>');
   });
 
   test('no scripts, no external addresses, user text escaped (hostile file name and metadata)', () => {

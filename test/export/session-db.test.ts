@@ -216,3 +216,57 @@ describe('undo history, the journal and keeping every edit', () => {
     stop();
   });
 });
+
+describe('issue 17: report fields, hand-change reasons and hand-set start and end are kept with the session', () => {
+  const base = (): SessionSnapshot => ({
+    traces: [bigTrace(20)], roles: { 'big-1': 'sample' }, sampleId: 'big-1', reports: {},
+    recipe: recipeOf('savitzky-golay'), noiseSettings: { ...DEFAULT_NOISE_SETTINGS }, peakSettings: { ...DEFAULT_PEAK_SETTINGS },
+    decisions: { added: [5.004], removed: [5.01], bounds: [{ x: 5.012, start: 5.008, end: 5.016 }] },
+    alternatives: [], past: [], future: [],
+  });
+
+  test('they round-trip through the stored records and the journal', () => {
+    const snap: SessionSnapshot = {
+      ...base(),
+      reportFields: { analyst: 'A. Chemist', sample: 'Lot 42', instrument: 'LC-2', run: '7' },
+      handReasons: [{ kind: 'removed', x: 5.01, reason: 'carry-over from the wash' }, { kind: 'bounds', x: 5.012, reason: 'tail into the next peak' }],
+    };
+    const { meta, chunks } = sessionToRecords(snap, 1, new Date(0), 16);
+    const out = sessionFromRecords(JSON.parse(JSON.stringify(meta)), lookup(chunks));
+    expect(out && out.ok).toBe(true);
+    if (!out || !out.ok) return;
+    expect(out.snapshot.reportFields).toEqual(snap.reportFields);
+    expect(out.snapshot.handReasons).toEqual(snap.handReasons);
+    expect(out.snapshot.decisions).toEqual(snap.decisions);
+    const journal = JSON.parse(JSON.stringify(sessionJournal(snap, 10)));
+    const merged = mergeJournal({ ...meta, reportFields: undefined, handReasons: undefined, takenAt: 0 }, journal).meta;
+    expect(merged.reportFields).toEqual(snap.reportFields);
+    expect(merged.handReasons).toEqual(snap.handReasons);
+  });
+
+  test('a session saved before they existed still loads, with empty fields and no reasons; malformed entries are dropped', () => {
+    const { meta, chunks } = sessionToRecords(base(), 1, new Date(0), 16);
+    const old = JSON.parse(JSON.stringify(meta));
+    delete old.reportFields; delete old.handReasons;
+    const out = sessionFromRecords(old, lookup(chunks));
+    expect(out && out.ok && out.snapshot.reportFields).toEqual({ analyst: '', sample: '', instrument: '', run: '' });
+    expect(out && out.ok && out.snapshot.handReasons).toEqual([]);
+    const odd = sessionFromRecords({ ...old, reportFields: { analyst: 7, run: 'r1' }, handReasons: [{ kind: 'moved', x: 1, reason: 'a' }, { kind: 'added', x: 'x', reason: 'b' }, { kind: 'added', x: 5.004, reason: 'shoulder' }] }, lookup(chunks));
+    expect(odd && odd.ok && odd.snapshot.reportFields).toEqual({ analyst: '', sample: '', instrument: '', run: 'r1' });
+    expect(odd && odd.ok && odd.snapshot.handReasons).toEqual([{ kind: 'added', x: 5.004, reason: 'shoulder' }]);
+  });
+
+  test('the store asks for a reason after each hand change; removing an added peak drops its reason; typing a reason leaves the decisions alone', () => {
+    const store = createAppStore();
+    store.getState().addPeakAt(2);
+    expect(store.getState().lastHandChange).toEqual({ kind: 'added', x: 2 });
+    const decisions = store.getState().decisions;
+    store.getState().setHandReason('added', 2, 'shoulder on the main peak');
+    expect(store.getState().decisions).toBe(decisions);
+    expect(store.getState().handReasons).toEqual([{ kind: 'added', x: 2, reason: 'shoulder on the main peak' }]);
+    store.getState().removePeakAt(2);
+    expect(store.getState().handReasons).toEqual([]);
+    store.getState().setPeakBounds(3, 3.2, 2.8);
+    expect(store.getState().lastHandChange).toEqual({ kind: 'bounds', x: 3 });
+  });
+});

@@ -49,6 +49,29 @@ describe('summary JSON', () => {
     expect(json.residual.verdict.length).toBeGreaterThan(10);
   });
 
+  test('issue 17, added fields: the report fields and each hand change\'s reason validate strictly; without them the summary is unchanged', () => {
+    const trace = inventedTrace({ fileName: 'run-7.csv' });
+    const method = recipeWithAnalysis(recipeOf('savitzky-golay'), DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS);
+    const first = run(trace, recipeOf('savitzky-golay'));
+    const detected = first.result.peaks.find((p) => p.flag === 'quantifiable')!;
+    const result = analyse({ sampleId: trace.id, scanIds: [], recipe: method, decisions: { added: [], removed: [detected.x] } }, new Map([[trace.id, trace]]), STEP_REGISTRY);
+    const plain = reread(analysisSummary({ trace, result, method, registry: STEP_REGISTRY, inputFile: 'x.csv' }));
+    expect('report' in plain).toBe(false);
+    expect(plain.peaks.every((p) => !('reason' in p))).toBe(true);
+    const json = reread(analysisSummary({
+      trace, result, method, registry: STEP_REGISTRY, inputFile: 'x.csv',
+      fields: { analyst: 'A. Chemist', sample: 'Lot 42', instrument: '', run: '7' },
+      reasons: [{ kind: 'removed', x: detected.x, reason: 'carry-over' }],
+    }));
+    expect(schemaProblems(SCHEMA, json, true)).toEqual([]);
+    expect(json.report).toEqual({ analyst: 'A. Chemist', sample: 'Lot 42', instrument: '', run: '7' });
+    expect(json.peaks.filter((p) => p.hand === 'removed').map((p) => p.reason)).toEqual(['carry-over']);
+    expect(json.peaks.filter((p) => p.hand === null).every((p) => p.reason === '')).toBe(true);
+    // Everything else is as before: only fields were added.
+    const { report: _r, ...rest } = json;
+    expect({ ...rest, peaks: rest.peaks.map(({ reason: _x, ...p }) => p) }).toEqual(plain);
+  });
+
   test('the checker itself refuses what breaks the schema (so the check above can fail)', () => {
     const { summary } = run(inventedTrace(), recipeOf());
     const bad = reread(summary) as unknown as Record<string, unknown>;
@@ -67,7 +90,7 @@ describe('summary JSON', () => {
     const csv = peakTableCsv({ trace, result, recipe: method, registry: STEP_REGISTRY, options: { delimiter: ',', decimal: '.' }, now: NOW });
     const { header, body } = readCsv(csv, ',', '.');
     const col = (name: string) => header.findIndex((h) => h.startsWith(name));
-    const cells = { x: col('apex'), height: col('height'), area: col('area'), fwhm: col('FWHM ('), start: col('from'), end: col('to'), snr: col('S/N (') };
+    const cells = { x: col('apex'), height: col('height'), area: col('area'), fwhm: col('FWHM ('), start: col('start'), end: col('end'), snr: col('S/N (') };
     expect(Object.values(cells).every((c) => c >= 0)).toBe(true);
     const json = reread(summary);
     expect(json.peaks.length).toBe(body.length);

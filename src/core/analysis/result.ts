@@ -48,6 +48,22 @@ export interface LossReport {
   currentWarnings: string[];
   /** The quantifiable ones among them (lost, crossing a limit, or weakened beyond HEIGHT_LOSS_TOLERANCE): they keep the residual verdict from reading clean. */
   currentWeakened: string[];
+  /**
+   * Issue 17: the same warnings sorted by kind, one per feature (the noise-range sum is counted, not itemised),
+   * for the export's one confirmation that lists the top items of each kind and then counts. Absent in results
+   * made before it was added.
+   */
+  currentItems?: LossItem[];
+}
+
+/** One feature the current stack lost, weakened, or made appear (issue 17). */
+export interface LossItem {
+  kind: 'lost' | 'weakened' | 'appeared';
+  /** Apex position (x-units). */
+  x: number;
+  /** S/N on the raw trace (lost, weakened) or after processing (appeared); null when not measured. */
+  snr: number | null;
+  sentence: string;
 }
 
 export interface StepRunSummary {

@@ -161,7 +161,7 @@ export async function runBatch(
     `Written by: ${version}`,
     `Written at: ${when}`,
     `Caution: ${CAUTION}`,
-    `Recipe (JSON): ${recipeOneLine(recipe)}`,
+    `Processing method (JSON): ${recipeOneLine(recipe)}`,
     `Files: ${files.length} given, ${analysed} analysed. Noise and S/N are measured on each file by itself; each file's report states its noise figure.`,
     `Thresholds: prominence at least ${ps.minProminenceSigma} σ of each file's noise, S/N at least ${ps.minSnr}, FWHM at least ${ps.minWidth > 0 ? `${ps.minWidth} x-units` : '2.5 sample spacings'}, apex separation at least ${ps.minSeparation} x-units (0 = off); measured on the ${ps.measureOn} trace.`,
     ...methodLines,

@@ -19,12 +19,13 @@ import { commentText, metadataLines, provenanceLines } from './cleaned-csv.ts';
 import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
 import { namedPeakLines, peakNamingOf, withNameColumn } from './peak-names.ts';
 import type { ExtraPeakColumns } from './fit-export.ts';
+import { reasonFor, type HandReason } from './report-fields.ts';
 
 /** The words for each S/N definition, as exports state them. */
 export const SNR_DEFINITION_WORDS: Record<SnrDefinition, string> = {
   rms: 'S/N = H/σ: the peak height above its local baseline divided by the standard deviation σ of the noise.',
   pharmacopoeial: 'S/N = 2H/h: twice the peak height divided by the range h (largest minus smallest value) of the noise in a window around the peak (the pharmacopoeial definition).',
-  region: 'S/N = mean/SD of the samples between the peak’s integration bounds.',
+  region: 'S/N = mean/SD of the samples between the peak’s start and end.',
 };
 
 /** Short column label for each S/N definition. */
@@ -80,12 +81,20 @@ function unitSuffix(unit: string): string {
   return unit ? ` (${unit})` : '';
 }
 
+/** Each row's area as % of the summed area of every peak not removed by hand (null for removed rows, or no total). */
+export function areaPercents(peaks: readonly Peak[]): (number | null)[] {
+  let total = 0;
+  for (const p of peaks) if (!p.removedByUser && Number.isFinite(p.area)) total += p.area;
+  return peaks.map((p) => (p.removedByUser || total === 0 || !Number.isFinite(p.area) ? null : (100 * p.area) / total));
+}
+
 /**
  * Header and rows of the peak table (no comments); numbers stay numbers, a
  * missing value is an empty cell. With `unitsInHeader` false the header
- * says "(x unit)" and "(y unit)" instead of the trace's units.
+ * says "(x unit)" and "(y unit)" instead of the trace's units. `reasons`
+ * (issue 17) fill the "reason for the hand change" column.
  */
-export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader = true, extra?: ExtraPeakColumns | null): (string | number)[][] {
+export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader = true, extra?: ExtraPeakColumns | null, reasons?: readonly HandReason[] | null): (string | number)[][] {
   // A table that mixes files (batch) names the units in columns of their own instead.
   const xu = unitsInHeader ? unitSuffix(trace.xUnit) : ' (x unit)';
   const yu = unitsInHeader ? unitSuffix(trace.yUnit) : ' (y unit)';
@@ -93,22 +102,24 @@ export function peakTableRows(trace: Trace, result: AnalyseResult, unitsInHeader
     : trace.xUnit || trace.yUnit ? ` (${trace.yUnit || 'y-units'} × ${trace.xUnit || 'x-units'})` : '';
   const def = result.peakOptions?.snrDefinition ?? 'rms';
   const header = [
-    'peak #', `apex${xu}`, `height${yu}`, `prominence${yu}`, `FWHM${xu}`, `FWHM (points)`, `area${areaUnit}`,
-    `from${xu}`, `to${xu}`, 'from: why there', 'to: why there', `baseline at from${yu}`, `baseline at to${yu}`, 'shared valley split',
+    'peak #', `apex${xu}`, `height${yu}`, `prominence${yu}`, `FWHM${xu}`, `FWHM (points)`, `area${areaUnit}`, 'area % of all peaks kept',
+    `start${xu}`, `end${xu}`, 'start: why there', 'end: why there', `baseline at start${yu}`, `baseline at end${yu}`, 'shared valley split',
     `noise σ at the peak${yu}`, `S/N (${SNR_SHORT[def]}, definition in use)`, 'S/N H/σ', 'S/N 2H/h',
-    `noise range h for 2H/h${yu}`, 'h measured on', 'S/N mean/SD of region', 'status', 'marks', 'decision', 'origin', 'note',
+    `noise range h for 2H/h${yu}`, 'h measured on', 'S/N mean/SD of region', 'status', 'marks', 'decision', 'reason for the hand change', 'origin', 'note',
     ghostColumnHeader(yu), // issue 20
     ...(extra?.header ?? []), // issue 18: fitted areas and figures (export/fit-export.ts)
   ];
   const rows: (string | number)[][] = [header];
   const opt = (v: number | null | undefined): string | number => (v === null || v === undefined ? '' : v);
+  const shares = areaPercents(result.peaks);
+  const oneStep = trace.x.length > 1 ? Math.abs(trace.x[trace.x.length - 1] - trace.x[0]) / (trace.x.length - 1) : 0;
   result.peaks.forEach((p, i) => {
     rows.push([
-      i + 1, p.x, p.height, p.prominence, p.fwhm, p.fwhmPoints, p.area, p.start, p.end,
+      i + 1, p.x, p.height, p.prominence, p.fwhm, p.fwhmPoints, p.area, opt(shares[i]), p.start, p.end,
       BOUND_TEXT[p.startKind], BOUND_TEXT[p.endKind], p.baselineStart, p.baselineEnd, SPLIT_TEXT[p.split],
       p.noiseSigma, opt(p.snr), opt(p.snrRms), opt(p.snrPharma), opt(p.pharmaNoise?.h),
       p.pharmaNoise ? `${p.pharmaNoise.source}, ${p.pharmaNoise.points} points${p.pharmaNoise.clipped ? ', window cut by the trace end' : ''}` : '',
-      opt(p.snrRegion), FLAG_TEXT[p.flag], peakMarksText(p), peakDecisionText(p), p.origin, p.note ?? '',
+      opt(p.snrRegion), FLAG_TEXT[p.flag], peakMarksText(p), peakDecisionText(p), reasonFor(p, reasons, oneStep), p.origin, p.note ?? '',
       ghostCell(p), // issue 20
       ...(extra ? extra.cells(p, i) : []),
     ]);
@@ -131,9 +142,9 @@ export function noiseSentence(e: NoiseEstimate): string {
 
 /** How height, width, bounds and area are measured, in words (the table's hint says the same, shorter). */
 export const PEAK_MEASURE_LINES: readonly string[] = [
-  'Height: the apex level (a parabola over the peak\'s own top, ±FWHM/6) above the peak\'s local baseline, a straight line between the levels of the trace at its two bounds (the mean of at least 5 samples beyond each bound, or the averaged trace at a valley).',
-  `Bounds: where the trace, averaged over about half the peak's half-height width, is back at the baseline (within 3 standard deviations of that average above the lower of the baseline and the lower hull of the trace) plus two half-widths, or at the valley before a rise (3 standard deviations; 6 once back at the baseline); never beyond ${WIDTH_LIMIT} of the peak's own half-height half-widths. Peaks sharing a valley are split there: perpendicular drop (one baseline under the group) unless valley to valley was chosen. Narrow peaks on a broad neighbour's top keep their own baseline; two maxima whose valley is shallower than the detection limit count as one peak.`,
-  'FWHM: the peak\'s own width at half its height above the local baseline (crossings linearly interpolated). Area: above the local baseline between the bounds (trapezoid rule). Perpendicular drop is biased by construction where peaks overlap (about −21 % for the smaller of a 5:1 pair at resolution 0.8).',
+  'Height: the apex level (a parabola over the peak\'s own top, ±FWHM/6) above the peak\'s local baseline, a straight line between the levels of the trace at its start and end (the mean of at least 5 samples beyond each, or the averaged trace at a valley).',
+  `Start and end: where the trace, averaged over about half the peak's half-height width, is back at the baseline (within 3 standard deviations of that average above the lower of the baseline and the lower hull of the trace) plus two half-widths, or at the valley before a rise (3 standard deviations; 6 once back at the baseline); never beyond ${WIDTH_LIMIT} of the peak's own half-height half-widths. Peaks sharing a valley are split there: perpendicular drop (one baseline under the group) unless valley to valley was chosen. Narrow peaks on a broad neighbour's top keep their own baseline; two maxima whose valley is shallower than the detection limit count as one peak.`,
+  'FWHM: the peak\'s own width at half its height above the local baseline (crossings linearly interpolated). Area: above the local baseline between start and end (trapezoid rule). Perpendicular drop is biased by construction where peaks overlap (about −21 % for the smaller of a 5:1 pair at resolution 0.8).',
 ];
 
 /** Comment lines on how S/N and the flags were obtained. */
@@ -187,6 +198,8 @@ export interface PeakCsvInput {
   /** Issue 18: extra columns (fitted areas, figures) and the comment lines that explain them. */
   extra?: ExtraPeakColumns | null;
   extraComments?: readonly string[];
+  /** Issue 17: the reasons given for hand changes (the "reason for the hand change" column). */
+  reasons?: readonly HandReason[] | null;
 }
 
 /**
@@ -214,13 +227,13 @@ export function peakTableCsv(input: PeakCsvInput): string {
   // Issue 21: a "name" column and the named peaks found or missing, when the method names peaks.
   const naming = peakNamingOf(input.recipe, result.peaks);
   const comments = [`${TOOL_NAME} peak table`, ...head, ...metadataLines(trace), `Peaks: ${result.peaks.length} rows.`, ...peakMethodLines(result), ...namedPeakLines(naming, trace.xUnit), ...(input.extraComments ?? [])];
-  return writeCsv(withNameColumn(peakTableRows(trace, result, true, input.extra), naming), { ...options, comments });
+  return writeCsv(withNameColumn(peakTableRows(trace, result, true, input.extra, input.reasons), naming), { ...options, comments });
 }
 
 /**
  * The peak table as tab-separated text without comment lines, for pasting
- * into a spreadsheet (same guard and numbers as the CSV; decimal sign as given).
+ * into a spreadsheet (same guard and numbers as the CSV; decimal sign and significant digits as given).
  */
-export function peakTableTsv(trace: Trace, result: AnalyseResult, decimal: CsvCellOptions['decimal'] = '.'): string {
-  return writeCsv(peakTableRows(trace, result), { delimiter: '\t', decimal, newline: '\n' });
+export function peakTableTsv(trace: Trace, result: AnalyseResult, decimal: CsvCellOptions['decimal'] = '.', digits?: number): string {
+  return writeCsv(peakTableRows(trace, result), { delimiter: '\t', decimal, digits, newline: '\n' });
 }

@@ -18,6 +18,7 @@ import { analysisOf, recipeToJson, type Recipe, type Registry } from '../recipe.
 import type { Trace } from '../trace.ts';
 import { TOOL_VERSION } from './version.ts';
 import { peakNamingOf } from './peak-names.ts';
+import { cleanReportFields, reasonFor, type HandReason, type ReportFields } from './report-fields.ts';
 
 export const SUMMARY_SCHEMA = 1;
 
@@ -37,6 +38,8 @@ export interface SummaryPeak {
   afterProcessingOnly: boolean;
   /** Issue 21: the name the method's named-peak table gives this peak, or null. */
   name: string | null;
+  /** Issue 17, added: the reason given for the hand change, '' when none was given; present only when the page passed its reasons. */
+  reason?: string;
 }
 
 export interface Summary {
@@ -55,6 +58,8 @@ export interface Summary {
   fits?: Record<string, unknown>[];
   /** Issue 21, added: amounts of the named peaks (export/amount-columns.ts); present only with a calibration. */
   amounts?: Record<string, unknown>[];
+  /** Issue 17, added: analyst, sample, instrument and run as filled in the page; present only when given. */
+  report?: ReportFields;
 }
 
 export interface SummaryInput {
@@ -74,6 +79,9 @@ export interface SummaryInput {
   fits?: readonly FitForExport[];
   /** Issue 21: this trace's amounts (a calibration export holding this trace only), added as `amounts`. */
   calibration?: CalibrationExport | null;
+  /** Issue 17: the report's fields (added as `report`) and the reasons for hand changes (each peak's `reason`). */
+  fields?: ReportFields | null;
+  reasons?: readonly HandReason[] | null;
 }
 
 const STATUS: Record<PeakFlag, SummaryStatus> = {
@@ -141,6 +149,7 @@ export function analysisSummary(input: SummaryInput): Summary {
   const limits = result.peakOptions?.limits ?? { detection: settings.peaks.detectionLimit, quantitation: settings.peaks.quantitationLimit };
   const naming = peakNamingOf(method, result.peaks);
   if (naming?.missing.length) warnings.push(`Named peaks not found: ${naming.missing.join(', ')}.`);
+  const step = trace.x.length > 1 ? Math.abs(trace.x[trace.x.length - 1] - trace.x[0]) / (trace.x.length - 1) : 0;
   const peaks: SummaryPeak[] = result.peaks.map((p, i) => ({
     x: num(p.x), height: num(p.height), area: num(p.area), fwhm: num(p.fwhm), start: num(p.start), end: num(p.end), snr: num(p.snr),
     status: STATUS[p.flag],
@@ -149,6 +158,7 @@ export function analysisSummary(input: SummaryInput): Summary {
     // Marked when the raw trace has nothing there that passes the same thresholds (measure/peak-table.ts).
     afterProcessingOnly: p.marks.includes('appears-only-after-processing'),
     name: naming?.names[i] ?? null,
+    ...(input.reasons ? { reason: reasonFor(p, input.reasons, step) } : {}),
   }));
 
   let verdict: string;
@@ -174,6 +184,7 @@ export function analysisSummary(input: SummaryInput): Summary {
     warnings,
     ...(input.fits && input.fits.length ? { fits: fitSummary(input.fits) } : {}),
     ...(input.calibration?.samples[0] ? { amounts: amountSummary(input.calibration.samples[0], input.calibration.confidenceLevel) } : {}),
+    ...(input.fields ? { report: cleanReportFields(input.fields) } : {}),
   };
 }
 

@@ -24,6 +24,21 @@ export type CsvDecimal = '.' | ',';
 export interface CsvCellOptions {
   delimiter: CsvDelimiter;
   decimal: CsvDecimal;
+  /**
+   * Significant digits for numbers (1 to 17), for pasting into a report;
+   * absent: full precision (every number reads back to the same double).
+   */
+  digits?: number;
+}
+
+/** Choices of significant digits the page offers besides full precision. */
+export const CSV_DIGIT_CHOICES: readonly number[] = [3, 4, 5, 6, 8];
+
+/** The comment line that states how numbers are written (every CSV with comment lines carries it). */
+export function numbersLine(digits: number | undefined): string {
+  return digits === undefined
+    ? 'Numbers: full precision (the shortest text that reads back to exactly the same double, so reloading gives the same numbers).'
+    : `Numbers: rounded to ${digits} significant digits for pasting into a report; reloading does not give back the numbers of the analysis (export with full precision for that).`;
 }
 
 export interface CsvOptions extends CsvCellOptions {
@@ -41,6 +56,9 @@ function checkOptions(opts: CsvCellOptions): void {
     throw new RangeError('The delimiter must be a comma, a semicolon or a tab.');
   }
   if (opts.decimal !== '.' && opts.decimal !== ',') throw new RangeError('The decimal sign must be "." or ",".');
+  if (opts.digits !== undefined && !(Number.isInteger(opts.digits) && opts.digits >= 1 && opts.digits <= 17)) {
+    throw new RangeError('Significant digits must be a whole number from 1 to 17, or left out for full precision.');
+  }
   if (opts.decimal === ',' && opts.delimiter === ',') {
     throw new RangeError('A decimal comma cannot be used with a comma delimiter; choose a semicolon or tab delimiter, or a decimal point.');
   }
@@ -52,9 +70,11 @@ function checkOptions(opts: CsvCellOptions): void {
  * NaN and ±Infinity give an empty cell: spreadsheets have no such numbers,
  * and an empty cell is how a missing value is usually shown.
  */
-export function csvNumber(value: number, decimal: CsvDecimal = '.'): string {
+export function csvNumber(value: number, decimal: CsvDecimal = '.', digits?: number): string {
   if (!Number.isFinite(value)) return '';
-  const text = Object.is(value, -0) ? '-0' : String(value).replace('e', 'E');
+  // Rounded: the shortest text of the rounded double (no trailing zeros from toPrecision).
+  const v = digits === undefined ? value : Number(value.toPrecision(digits));
+  const text = Object.is(v, -0) ? '-0' : String(v).replace('e', 'E');
   return decimal === ',' ? text.replace('.', ',') : text;
 }
 
@@ -68,7 +88,7 @@ export function csvNumber(value: number, decimal: CsvDecimal = '.'): string {
  */
 export function csvCell(value: string | number, opts: CsvCellOptions): string {
   checkOptions(opts);
-  if (typeof value === 'number') return csvNumber(value, opts.decimal);
+  if (typeof value === 'number') return csvNumber(value, opts.decimal, opts.digits);
   let text = String(value);
   if (FORMULA_START.test(text)) text = `'${text}`;
   const needsQuotes =
@@ -110,11 +130,13 @@ export function writeCsv(rows: (string | number)[][], opts: CsvOptions): string 
   const lines: string[] = [];
   const comments = [...(opts.comments ?? [])];
   const empty = emptyCellNote(rows);
+  // How numbers are written, stated whenever the file has comment lines and holds a number.
+  if (opts.comments && rows.some((r) => r.some((c) => typeof c === 'number'))) comments.push(numbersLine(opts.digits));
   if (empty && opts.comments) comments.push(empty);
   for (const comment of comments) {
     for (const part of String(comment).split(/\r\n|\r|\n/)) lines.push(`# ${safeComment(part, opts.delimiter)}`.trimEnd());
   }
-  const cellOpts: CsvCellOptions = { delimiter: opts.delimiter, decimal: opts.decimal };
+  const cellOpts: CsvCellOptions = { delimiter: opts.delimiter, decimal: opts.decimal, digits: opts.digits };
   for (const row of rows) lines.push(row.map((c) => csvCell(c, cellOpts)).join(opts.delimiter));
   return lines.length ? lines.join(nl) + nl : '';
 }

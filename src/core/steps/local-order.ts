@@ -126,7 +126,7 @@ export type LocalOrderParams = {
 /** The line-or-quadratic local smoothing step. */
 export const localOrderStep: StepDefinition<LocalOrderParams> = {
   id: 'local-order',
-  label: 'Line-or-quadratic local fit',
+  label: 'Smooth, keeping peak tops (local line or quadratic)',
   summary:
     'Fits both a straight line and a quadratic to the window around each point and keeps the quadratic only where an F-test says its curvature is real at the chosen level (default 5 %), then takes the fitted value at the centre. ' +
     'Flat and sloping stretches get the stronger smoothing of a line while peak tops keep the quadratic, so peaks are flattened less than by a line fit alone. ' +

@@ -38,7 +38,7 @@ export function SessionFileControls() {
     setPending(null);
     applySnapshot(useApp, p.snapshot);
     notify(p.notes.length ? 'warning' : 'info', `Session opened from ${p.name}`, [
-      `${p.snapshot.traces.length} trace(s), the step stack with ${p.snapshot.past.length} undo step(s), settings, decisions and alternatives${workWords(p.snapshot)}.`, ...p.notes,
+      `${p.snapshot.traces.length} trace(s), the step stack with ${p.snapshot.past.length} undo step(s), settings, decisions with their reasons, report fields and alternatives${workWords(p.snapshot)}.`, ...p.notes,
     ]);
   };
 

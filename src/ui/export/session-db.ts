@@ -30,6 +30,7 @@
  * (tested without IndexedDB); only the functions at the bottom touch the
  * database.
  */
+import { cleanHandReasons, cleanReportFields, type HandReason, type ReportFields } from '../../core/export/report-fields.ts';
 import { deleteDB, openDB, type IDBPDatabase } from 'idb';
 import type { AlternativeRequest, NoiseSettings, PeakSettings } from '../../core/analysis/index.ts';
 import type { LoadReport } from '../../core/io/types.ts';
@@ -85,6 +86,9 @@ export interface SessionSnapshot {
   namedPeaks?: SessionWork['namedPeaks'];
   standardsTable?: SessionWork['standardsTable'];
   calibrationSettings?: SessionWork['calibrationSettings'];
+  /** Issue 17: the report's fields and the reasons for hand changes (absent in sessions saved before). */
+  reportFields?: ReportFields;
+  handReasons?: HandReason[];
 }
 
 /** A trace without its numbers. */
@@ -134,6 +138,9 @@ export interface SessionMeta {
   takenAt?: number;
   /** Fits and calibration inputs in their JSON form (./session-work.ts); absent in older sessions. */
   work?: unknown;
+  /** Issue 17; absent in older sessions. */
+  reportFields?: ReportFields;
+  handReasons?: HandReason[];
 }
 
 /** The small parts of a session, written to localStorage on every edit. */
@@ -156,6 +163,9 @@ export interface SessionJournal {
   alternatives: { id: string; label: string; recipe: unknown }[];
   /** Fits (when not too large for the journal) and calibration inputs (./session-work.ts); absent in older journals. */
   work?: unknown;
+  /** Issue 17; absent in older journals. */
+  reportFields?: ReportFields;
+  handReasons?: HandReason[];
 }
 
 export type SessionProblem = { ok: false; problem: string };
@@ -163,13 +173,14 @@ export type SaveOutcome = { ok: true; generation: number } | SessionProblem;
 export type LoadOutcome = { ok: true; snapshot: SessionSnapshot; notes: string[] } | SessionProblem | null;
 
 /** The session parts of the page state (same objects, nothing copied). */
-export function snapshotOf(state: Pick<AppState, keyof SessionSnapshot>): SessionSnapshot {
+export function snapshotOf(state: Pick<AppState, Exclude<keyof SessionSnapshot, 'reportFields' | 'handReasons'>> & Partial<Pick<AppState, 'reportFields' | 'handReasons'>>): SessionSnapshot {
   return {
     traces: state.traces, roles: state.roles, sampleId: state.sampleId, reports: state.reports,
     recipe: state.recipe, noiseSettings: state.noiseSettings, peakSettings: state.peakSettings, decisions: state.decisions,
     alternatives: state.alternatives, past: state.past, future: state.future,
     fits: state.fits, fitChoices: state.fitChoices, showFigures: state.showFigures, deadTime: state.deadTime,
     namedPeaks: state.namedPeaks, standardsTable: state.standardsTable, calibrationSettings: state.calibrationSettings,
+    reportFields: state.reportFields, handReasons: state.handReasons,
   };
 }
 
@@ -178,6 +189,16 @@ function workOf(s: SessionSnapshot): SessionWork {
   const w: SessionWork = {};
   for (const k of WORK_KEYS) if (s[k] !== undefined) (w as Record<string, unknown>)[k] = s[k];
   return w;
+}
+
+/** The decisions as kept: plain copies, hand-set start and end included when there are any (issue 17). */
+function keptDecisions(d: PeakDecisions): PeakDecisions {
+  return { added: [...d.added], removed: [...d.removed], ...(d.bounds?.length ? { bounds: d.bounds.map((b) => ({ ...b })) } : {}) };
+}
+
+/** Issue 17: the report's fields and hand-change reasons as kept (plain copies; cleaned when read back). */
+function keptNotes(s: { reportFields?: unknown; handReasons?: unknown }): { reportFields: ReportFields; handReasons: HandReason[] } {
+  return { reportFields: cleanReportFields(s.reportFields), handReasons: cleanHandReasons(s.handReasons) };
 }
 
 function plainRecipe(r: Recipe): unknown {
@@ -199,10 +220,11 @@ export function sessionJournal(snapshot: SessionSnapshot, takenAt: number): Sess
     traceIds: snapshot.traces.map((t) => t.id), traceNames: snapshot.traces.map((t) => t.name),
     roles: { ...snapshot.roles }, sampleId: snapshot.sampleId, recipe: plainRecipe(snapshot.recipe), ...keptHistory(snapshot),
     noiseSettings: { ...snapshot.noiseSettings }, peakSettings: { ...snapshot.peakSettings },
-    decisions: { added: [...snapshot.decisions.added], removed: [...snapshot.decisions.removed] },
+    decisions: keptDecisions(snapshot.decisions),
     alternatives: snapshot.alternatives.map((a) => ({ id: a.id, label: a.label, recipe: plainRecipe(a.recipe) })),
     // Large fits wait for the database save rather than fill the small store.
     work: sessionWorkJson(workOf(snapshot), { maxFitChars: JOURNAL_FITS_MAX_CHARS }),
+    ...keptNotes(snapshot),
   };
 }
 
@@ -231,6 +253,7 @@ export function mergeJournal(meta: SessionMeta, journal: SessionJournal | null):
       recipe: journal.recipe, past: journal.past, future: journal.future,
       noiseSettings: journal.noiseSettings, peakSettings: journal.peakSettings, decisions: journal.decisions, alternatives: journal.alternatives,
       work: mergeWorkJson(meta.work, journal.work),
+      ...(journal.reportFields || journal.handReasons ? keptNotes(journal) : {}),
     },
   };
 }
@@ -309,11 +332,12 @@ export function sessionMeta(snapshot: SessionSnapshot, generation: number, saved
     roles: { ...snapshot.roles }, sampleId: snapshot.sampleId, reports,
     recipe: plainRecipe(snapshot.recipe),
     noiseSettings: { ...snapshot.noiseSettings }, peakSettings: { ...snapshot.peakSettings },
-    decisions: { added: [...snapshot.decisions.added], removed: [...snapshot.decisions.removed] },
+    decisions: keptDecisions(snapshot.decisions),
     alternatives: snapshot.alternatives.map((a) => ({ id: a.id, label: a.label, recipe: plainRecipe(a.recipe) })),
     ...keptHistory(snapshot),
     takenAt,
     work: sessionWorkJson(workOf(snapshot)),
+    ...keptNotes(snapshot),
   };
 }
 
@@ -343,7 +367,7 @@ export function sessionFromRecords(meta: SessionMeta, getChunk: (key: ChunkKey) 
   const check = validateRecipe(meta.recipe, registry);
   let recipe = emptyRecipe();
   if (check.ok) recipe = check.recipe;
-  else notes.push(`The saved recipe could not be restored: ${check.problems.join(' ')} The stack starts empty.`);
+  else notes.push(`The saved processing method could not be restored: ${check.problems.join(' ')} The stack starts empty.`);
   const alternatives: AlternativeRequest[] = [];
   for (const a of meta.alternatives ?? []) {
     const c = validateRecipe(a.recipe, registry);
@@ -373,6 +397,7 @@ export function sessionFromRecords(meta: SessionMeta, getChunk: (key: ChunkKey) 
       sampleId: meta.sampleId && ids.has(meta.sampleId) ? meta.sampleId : null,
       noiseSettings: meta.noiseSettings, peakSettings: meta.peakSettings,
       decisions: meta.decisions ?? { added: [], removed: [] },
+      ...keptNotes(meta),
     },
   };
 }
@@ -556,6 +581,7 @@ export interface SessionStore {
 
 const SESSION_KEYS: readonly (keyof SessionSnapshot)[] = [
   'traces', 'roles', 'sampleId', 'reports', 'recipe', 'noiseSettings', 'peakSettings', 'decisions', 'alternatives', 'past', 'future', ...WORK_KEYS,
+  'reportFields', 'handReasons',
 ];
 
 /** Where the page listens for being hidden or closed (the window in the page; absent in Node tests). */
@@ -678,6 +704,7 @@ export function applySnapshot(store: SessionStore, s: SessionSnapshot): void {
     // Fits belong to the traces they were made on: a session without them (saved before they were kept) has none.
     fits: s.fits ?? [], shownFitId: null,
     ...workOf({ ...s, fits: undefined }),
+    ...keptNotes(s), lastHandChange: null,
   });
 }
 
@@ -710,6 +737,6 @@ export async function restoreSession(store: SessionStore): Promise<boolean> {
   }
   applySnapshot(store, s);
   store.getState().notify(out.notes.length ? 'warning' : 'info', 'Your previous session was restored',
-    [`${s.traces.length} trace(s), the step stack with its last ${s.past.length} undo step(s), the quiet range, your peak decisions, the alternatives${workWords(s)} are as you left them. Use “Start over” to empty it.`, ...out.notes]);
+    [`${s.traces.length} trace(s), the step stack with its last ${s.past.length} undo step(s), the quiet range, your peak decisions with their reasons, the report fields, the alternatives${workWords(s)} are as you left them. Use “Start over” to empty it.`, ...out.notes]);
   return true;
 }

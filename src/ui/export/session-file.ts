@@ -55,7 +55,7 @@ export function sessionFromFileText(text: string, fileName: string, registry: Re
   }
   const f = parsed as { format?: unknown; version?: unknown; meta?: SessionMeta; numbers?: Record<string, { x?: unknown; y?: unknown }> } | null;
   if (!f || typeof f !== 'object' || f.format !== SESSION_FILE_FORMAT) {
-    return refuse('this is not a session file saved by this page. Trace files go through “Open file…”, recipes through “Load recipe…”.');
+    return refuse('this is not a session file saved by this page. Trace files go through “Open file…”, processing methods through “Load processing method…”.');
   }
   if (typeof f.version !== 'number' || f.version > SESSION_FILE_VERSION) return refuse('the session file was written by a newer version of the page.');
   if (!f.meta || typeof f.meta !== 'object' || !Array.isArray(f.meta.heads) || !f.numbers || typeof f.numbers !== 'object') {

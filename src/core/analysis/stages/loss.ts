@@ -12,7 +12,7 @@ import { matchPeaks, type Ledger, type LedgerRow } from '../../loss.ts';
 import type { NoiseBumpCount } from '../../measure/noise-bumps.ts';
 import type { AlternativeMeasured } from '../memo.ts';
 import { DEFAULT_PEAK_SETTINGS, type AnalyseRequest } from '../request.ts';
-import type { LossReport } from '../result.ts';
+import type { LossItem, LossReport } from '../result.ts';
 import type { Measured } from './measure.ts';
 import { windowAdviceRows } from './advice.ts';
 
@@ -58,6 +58,7 @@ export function lossReport(
   // The alternatives' verdicts cannot read clean while they weaken a quantifiable feature either (copies: the memo keeps the originals).
   const outcomes = alternatives.map((a, k) => (a.outcome.diagnostics ? { ...a.outcome, diagnostics: combineVerdict(a.outcome.diagnostics, weakenedIn(k + 2)) } : a.outcome));
   const currentWarnings: string[] = [];
+  const currentItems: LossItem[] = [];
   // Detectable features no higher than what pure noise of this length reaches about once are summed up, not listed.
   const ceiling = noiseBumps?.oneBumpSnr ?? null;
   const withinNoise = (snr: number | null, standing: string) => standing !== 'quantifiable' && ceiling !== null && snr !== null && snr < ceiling;
@@ -68,12 +69,13 @@ export function lossReport(
     const ref = row.cells[0], cur = row.cells[1];
     if (ref.standing !== 'quantifiable' && ref.standing !== 'detectable') continue;
     let sentence: string | null = null;
+    const kind: LossItem['kind'] = cur.found ? 'weakened' : 'lost';
     if (!cur.found) sentence = `The feature at ${where(row.position)} (S/N ${ref.snr?.toFixed(1)} raw) is lost with the current stack.`;
     else if (cur.crossed === 'down') sentence = `The feature at ${where(row.position)} falls from ${ref.standing} (S/N ${ref.snr?.toFixed(1)}) to ${cur.standing.replace('-', ' ')} (S/N ${cur.snr?.toFixed(1)}) with the current stack.`;
     else if (ref.standing === 'quantifiable' && cur.heightKept !== null && cur.heightKept < 100 * (1 - HEIGHT_LOSS_TOLERANCE)) sentence = `The feature at ${where(row.position)} keeps only ${cur.heightKept.toFixed(0)} % of its raw height with the current stack.`;
     if (!sentence) continue;
     if (withinNoise(ref.snr, ref.standing)) noiseLevelLosses++;
-    else currentWarnings.push(sentence);
+    else { currentWarnings.push(sentence); currentItems.push({ kind, x: row.position, snr: ref.snr, sentence }); }
   }
   // Features the raw trace does not have (a spike smoothing spread, a bump smoothing made out of noise).
   let noiseLevelBorn = 0;
@@ -81,7 +83,9 @@ export function lossReport(
     if (p.removedByUser || !p.marks.includes('appears-only-after-processing')) continue;
     if (p.flag !== 'quantifiable' && p.flag !== 'detectable') continue;
     if (withinNoise(p.snr, p.flag)) { noiseLevelBorn++; continue; }
-    currentWarnings.push(`The feature at ${where(p.x)} (S/N ${p.snr?.toFixed(1)}, ${p.flag === 'quantifiable' ? 'quantifiable' : 'detected'}) appears only after processing: the raw trace has nothing there that passes the same thresholds.`);
+    const sentence = `The feature at ${where(p.x)} (S/N ${p.snr?.toFixed(1)}, ${p.flag === 'quantifiable' ? 'quantifiable' : 'detected'}) appears only after processing: the raw trace has nothing there that passes the same thresholds.`;
+    currentWarnings.push(sentence);
+    currentItems.push({ kind: 'appeared', x: p.x, snr: p.snr ?? null, sentence });
   }
   if (noiseLevelLosses + noiseLevelBorn > 0 && ceiling !== null) {
     const parts = [
@@ -90,5 +94,5 @@ export function lossReport(
     ].filter(Boolean);
     currentWarnings.push(`Within the noise range (below S/N ${ceiling.toFixed(1)}, which pure noise of this length reaches about once) ${parts.join(' and ')}; the ledger lists them.`);
   }
-  return { ledger, noiseLevelRows, noiseLevelShown: !!request.ledgerNoiseLevel, outcomes, narrowestFwhmPoints: narrowest, advice, currentWarnings, currentWeakened: weakenedIn(1) };
+  return { ledger, noiseLevelRows, noiseLevelShown: !!request.ledgerNoiseLevel, outcomes, narrowestFwhmPoints: narrowest, advice, currentWarnings, currentWeakened: weakenedIn(1), currentItems };
 }
