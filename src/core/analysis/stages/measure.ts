@@ -9,6 +9,7 @@ import { measureNoise, type NoiseReport, type NoiseSettings, type StackRun } fro
 import type { Peak, PeakDecisions, PeakOptions } from '../../measure/peak-types.ts';
 import { applyPeakDecisions, defaultPeakOptions, detectPeaks } from '../../measure/peak-table.ts';
 import type { PeakSettings } from '../request.ts';
+import { withoutExcluded } from '../../measure/excluded-ranges.ts';
 import { pharmacopoeialBlank } from '../../measure/companion-noise.ts'; // issue 20
 
 export interface Measured {
@@ -52,8 +53,10 @@ export function peaksOn(measured: Signal, raw: Signal, noise: NoiseReport | null
     // The measured trace's own noise correlation (the raw ρ carried through the stack): it sets S/N box factors.
     noiseCorrelation: noise.measuredRho,
   };
+  if (ps.excluded && ps.excluded.length) peakOptions.excluded = ps.excluded.map(([a, b]) => [a, b] as const);
   try {
-    let peaks = detectPeaks(measured.x, measured.y, peakOptions);
+    // Issue 17: excluded ranges drop detected peaks only; hand decisions below still apply everywhere.
+    let peaks = withoutExcluded(detectPeaks(measured.x, measured.y, peakOptions), peakOptions.excluded);
     if (decisions && (decisions.added.length || decisions.removed.length || decisions.bounds?.length)) peaks = /* issue 17: bounds */ applyPeakDecisions(peaks, decisions, measured.x, measured.y, peakOptions);
     return { noise, peaks, peakOptions };
   } catch (e) {
