@@ -16,6 +16,8 @@ import { TraceList } from './TraceList.tsx';
 import { TracePlot } from './TracePlot.tsx';
 import { CursorReadout } from './CursorReadout.tsx';
 import { AxisNames } from './AxisNames.tsx';
+import { FocusedFeature } from './FocusedFeature.tsx';
+import { ExcludedRanges } from './ExcludedRanges.tsx';
 
 export function App() {
   const fileInput = useRef<HTMLInputElement>(null);
@@ -111,6 +113,8 @@ export function App() {
             </ErrorBoundary>
             {handNote && <p className={`small hand-note hand-${handNote.kind}`} role="status" data-testid="hand-note">{handNote.text} <button type="button" className="link" onClick={() => setHandNote(null)}>dismiss</button></p>}
             <ErrorBoundary area="the cursor readout"><CursorReadout figure={figureEl} /></ErrorBoundary>
+            {sample && <ErrorBoundary area="the excluded ranges"><ExcludedRanges xUnit={sample.xUnit ?? ''} /></ErrorBoundary>}
+            <ErrorBoundary area="the selected feature"><FocusedFeature /></ErrorBoundary>
           </section>
           <ErrorBoundary area="the residual checks"><ResidualPanel /></ErrorBoundary>
           <ErrorBoundary area="the peak table"><PeakTable /></ErrorBoundary>
