@@ -185,11 +185,11 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
             text: `${names.has(pk) ? `${names.get(pk)} · ` : ''}${pk.snr === null ? '?' : pk.snr.toFixed(pk.snr < 10 ? 1 : 0)}`,
             priority: (names.has(pk) ? 2e9 : 0) + (pk.origin === 'added-by-user' ? 1e9 : 0) + Math.min(pk.snr ?? 0, 1e8),
           }));
-          const kept = placeLabels(items, geom.w, geom.h).map((i) => ({ pk: inView[i], text: items[i].text }));
+          const kept = placeLabels(items, geom.w, geom.h).map((k) => ({ pk: inView[k.index], text: items[k.index].text, spot: k.spot }));
           traces.push({
             type: 'scatter', mode: 'text', name: 'peak labels (S/N)', showlegend: false, hoverinfo: 'skip',
             x: kept.map((k) => k.pk.x), y: kept.map((k) => k.pk.y), text: kept.map((k) => k.text),
-            textposition: 'top center', textfont: { size: 11, color: COLOURS.ink },
+            textposition: kept.map((k) => k.spot), textfont: { size: 11, color: COLOURS.ink }, cliponaxis: false,
             xaxis: 'x', yaxis: 'y',
           });
           labelCount.current = { shown: kept.length, of: inView.length };

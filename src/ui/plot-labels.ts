@@ -24,27 +24,36 @@ export const LABEL_HEIGHT = 15;
 export const LABEL_GAP = 7;
 export const LABEL_PAD = 2;
 
-/** The box a label would take, centred above its apex. */
-export function labelBox(it: LabelItem): LabelBox {
+/** Where a label may go, in the order tried (the names are the plot library's text positions). */
+export const LABEL_SPOTS = ['top center', 'middle right', 'middle left'] as const;
+export type LabelSpot = (typeof LABEL_SPOTS)[number];
+
+/** The box a label would take at one spot: centred above its apex, or beside it at the apex's height. */
+export function labelBox(it: LabelItem, spot: LabelSpot = 'top center'): LabelBox {
   const w = it.text.length * LABEL_CHAR_WIDTH;
-  return { left: it.px - w / 2 - LABEL_PAD, right: it.px + w / 2 + LABEL_PAD, top: it.py - LABEL_GAP - LABEL_HEIGHT - LABEL_PAD, bottom: it.py - LABEL_GAP + LABEL_PAD };
+  if (spot === 'top center') return { left: it.px - w / 2 - LABEL_PAD, right: it.px + w / 2 + LABEL_PAD, top: it.py - LABEL_GAP - LABEL_HEIGHT - LABEL_PAD, bottom: it.py - LABEL_GAP + LABEL_PAD };
+  const left = spot === 'middle right' ? it.px + LABEL_GAP : it.px - LABEL_GAP - w;
+  return { left: left - LABEL_PAD, right: left + w + LABEL_PAD, top: it.py - LABEL_HEIGHT / 2 - LABEL_PAD, bottom: it.py + LABEL_HEIGHT / 2 + LABEL_PAD };
 }
 
 function overlaps(a: LabelBox, b: LabelBox): boolean {
   return a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom;
 }
 
-/** Indices (into `items`) of the labels kept, in the input order. */
-export function placeLabels(items: readonly LabelItem[], width: number, height: number): number[] {
+/** The labels kept (index into `items` and spot), in the input order; a label is tried above its apex, then right, then left. */
+export function placeLabels(items: readonly LabelItem[], width: number, height: number): { index: number; spot: LabelSpot; box: LabelBox }[] {
   const order = items.map((_, i) => i).sort((a, b) => items[b].priority - items[a].priority || items[a].px - items[b].px);
-  const kept: { i: number; box: LabelBox }[] = [];
+  const kept: { index: number; spot: LabelSpot; box: LabelBox }[] = [];
   for (const i of order) {
     const it = items[i];
     if (!Number.isFinite(it.px) || !Number.isFinite(it.py)) continue;
-    const box = labelBox(it);
-    if (box.left < 0 || box.right > width || box.top < 0 || box.bottom > height) continue;
-    if (kept.some((k) => overlaps(k.box, box))) continue;
-    kept.push({ i, box });
+    for (const spot of LABEL_SPOTS) {
+      const box = labelBox(it, spot);
+      if (box.left < 0 || box.right > width || box.top < 0 || box.bottom > height) continue;
+      if (kept.some((k) => overlaps(k.box, box))) continue;
+      kept.push({ index: i, spot, box });
+      break;
+    }
   }
-  return kept.map((k) => k.i).sort((a, b) => a - b);
+  return kept.sort((a, b) => a.index - b.index);
 }
