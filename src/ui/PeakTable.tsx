@@ -178,8 +178,8 @@ export function PeakTable() {
           <caption className="sr-only">Peaks found on the {result.peakOptions ? 'measured' : ''} trace with their measures; S/N by {SNR_WORDS[def]}</caption>
           <thead>
             <tr>
-              <th scope="col"><span className="sr-only">Details</span></th>
               {visible.map((c) => <th scope="col" key={c.key} title={c.title} data-col={c.key}>{c.label}</th>)}
+              <th scope="col" data-col="details" title="Open a row’s details: the columns not shown and why its start and end are where they are">Details</th>
             </tr>
           </thead>
           <tbody>
@@ -200,10 +200,10 @@ export function PeakTable() {
                     onKeyDown={(e) => { if (e.key === 'Enter' && e.target === e.currentTarget) (e.currentTarget as HTMLElement).click(); }}
                     aria-label={`Peak ${i + 1} at ${num(p.x)}; press Enter to zoom to it`}
                   >
-                    <td className="expander">
-                      <button type="button" className="link" aria-expanded={open} aria-label={`${open ? 'Hide' : 'Show'} the details of peak ${i + 1}`} onClick={(e) => { e.stopPropagation(); toggleRow(key); }}>{open ? '▾' : '▸'}</button>
-                    </td>
                     {visible.map((c) => <td key={c.key} data-col={c.key} className={c.className}>{c.cell(p, i)}</td>)}
+                    <td className="expander">
+                      <button type="button" className="link" aria-expanded={open} aria-label={`${open ? 'Hide' : 'Show'} the details of peak ${i + 1}`} onClick={(e) => { e.stopPropagation(); toggleRow(key); }} data-testid="row-details">{open ? '▾' : '▸'}</button>
+                    </td>
                   </tr>
                   {open && (
                     <tr className="detail-row" data-testid="peak-detail">
@@ -225,7 +225,7 @@ export function PeakTable() {
         </table>
       </div>
       <p className="hint">
-        Height: apex above the peak’s own local baseline, a straight line between the trace’s levels at its start and end (drawn for the selected peak). Start and end: where the trace is back at the baseline, or a valley shared with a neighbour (split by {SPLIT_TEXT[result.peakOptions?.split ?? 'perpendicular-drop']}); hover them, or open a row’s details, for why. FWHM: the peak’s own width at half that height. Area: above the local baseline from start to end (trapezoid rule). The ▸ at the start of a row opens the columns not shown; “Columns…” chooses which are shown.
+        Height: apex above the peak’s own local baseline, a straight line between the trace’s levels at its start and end (drawn for the selected peak). Start and end: where the trace is back at the baseline, or a valley shared with a neighbour (split by {SPLIT_TEXT[result.peakOptions?.split ?? 'perpendicular-drop']}); hover them, or open a row’s details, for why. FWHM: the peak’s own width at half that height. Area: above the local baseline from start to end (trapezoid rule). The ▸ at the end of a row opens the columns not shown; “Columns…” chooses which are shown.
         {' '}2H/h: h is the noise range {peaks.some((p) => p.pharmaNoise?.source === 'trace itself') ? 'of the trace itself (*), because no blank is loaded: a deviation from the pharmacopoeial method' : 'of the blank, processed by the same steps as the sample'} over {result.peakOptions?.pharmacopoeialMultiplier ?? 5} × FWHM centred on each peak.
       </p>
     </section>
