@@ -7,10 +7,13 @@ for (const scheme of ['light', 'dark'] as const) {
     await page.setViewportSize({ width: 1280, height: 800 });
     await page.emulateMedia({ colorScheme: scheme });
     await openWithDemo(page);
+    const dir = process.env.TRACEWRIGHT_SHOTS ?? test.info().outputPath('');
+    await page.getByTestId('guide-toggle').click();
+    await page.screenshot({ path: `${dir}/guide-${scheme}.png` });
+    await page.getByTestId('guide-close').click();
     await addStep(page, 'moving-average');
     await page.getByRole('button', { name: /5-point moving average/ }).click();
     await settled(page);
-    const dir = process.env.TRACEWRIGHT_SHOTS ?? test.info().outputPath('');
     await page.evaluate(() => window.scrollTo(0, 0));
     await page.screenshot({ path: `${dir}/page-${scheme}.png` });
     await page.selectOption('#peak-order', 'snr');
@@ -23,5 +26,8 @@ for (const scheme of ['light', 'dark'] as const) {
     await page.screenshot({ path: `${dir}/table-${scheme}.png` });
     await page.getByTestId('loss-panel').scrollIntoViewIfNeeded();
     await page.screenshot({ path: `${dir}/loss-${scheme}.png` });
+    await page.keyboard.press('?');
+    await page.getByTestId('shortcuts').scrollIntoViewIfNeeded();
+    await page.screenshot({ path: `${dir}/keys-${scheme}.png` });
   });
 }

@@ -24,7 +24,6 @@ async function pixelOf(page: Page, x: number, y: number): Promise<{ x: number; y
 
 test('the self-check in two clicks: a peak-table row or a peak on the plot shows that feature under each choice', async ({ page }) => {
   await openWithDemo(page);
-  await page.getByTestId('guide-close').click();
   await addStep(page, 'moving-average');
   await page.getByRole('button', { name: /^5-point moving average/ }).click();
   await settled(page);
@@ -47,7 +46,7 @@ test('the self-check in two clicks: a peak-table row or a peak on the plot shows
   // Raw, the current stack and the alternative, side by side, each with S/N, height and area, and a verdict word.
   const cards = focus.locator('figure');
   await expect(cards).toHaveCount(3);
-  await expect(cards.nth(0).getByTestId('focus-verdict')).toHaveText('raw');
+  await expect(cards.nth(0).getByTestId('focus-verdict')).toHaveText('reference');
   for (const k of [1, 2]) {
     expect(VERDICTS).toContain(await cards.nth(k).getByTestId('focus-verdict').innerText());
     await expect(cards.nth(k)).toContainText(/S\/N\s*\d/);
@@ -140,7 +139,6 @@ test('labels on the plot never overlap, and every marker shape has a key in the 
 
 test('a range excluded from peak finding: shaded, its peaks gone, the trace unchanged, kept in the method and stated in the peak CSV', async ({ page }) => {
   await openWithDemo(page);
-  await page.getByTestId('guide-close').click();
   const big = truth.peaks.reduce((a, b) => (b.height > a.height ? b : a));
   const rowOf = () => page.getByTestId('peak-table').locator('tbody tr').filter({ hasText: apexRow(big.centre) });
   await expect(rowOf()).toHaveCount(1);
@@ -172,7 +170,8 @@ test('a range excluded from peak finding: shaded, its peaks gone, the trace unch
 });
 
 test('the first-use guide opens once, can be closed and reopened; the shortcut list and the shortcuts work', async ({ page }) => {
-  await openWithDemo(page);
+  await page.goto('/');
+  await expect(page.getByRole('heading', { name: /demo-sample\.csv/ })).toBeVisible({ timeout: 20_000 });
   const guide = page.getByTestId('guide');
   await expect(guide).toBeVisible();
   for (const h of ['What to drop here', 'Where the noise comes from', 'What the flags mean']) await expect(guide.getByRole('heading', { name: h })).toBeVisible();

@@ -56,7 +56,7 @@ export function App() {
       if (e.altKey) return;
       const s = useApp.getState();
       if (e.key === '?') { e.preventDefault(); setKeysOpen((o) => !o); }
-      else if (e.key === 'Escape') { s.setMarkMode(false); s.setAddPeakMode(false); s.selectPeak(null); setKeysOpen(false); }
+      else if (e.key === 'Escape') { s.setMarkMode(false); s.setAddPeakMode(false); s.setMeasureMode(false); s.selectPeak(null); setKeysOpen(false); }
       else if (k === 'a') { const el = document.getElementById('add-step-choice'); if (el) { e.preventDefault(); el.focus(); } }
       else if (k === 'w') s.setXRange(null);
       else if (k === 'm') s.setMarkMode(!s.markMode);

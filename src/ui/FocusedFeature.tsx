@@ -11,7 +11,7 @@ const W = 220, H = 120, PAD = 6;
 
 /** Verdict words as shown; the CSS class keys on the same word. */
 const VERDICT_CLASS: Record<Verdict, string> = {
-  raw: 'v-raw', kept: 'v-kept', weakened: 'v-weakened', lost: 'v-lost', 'appears only after processing': 'v-born', 'not found': 'v-lost',
+  reference: 'v-raw', kept: 'v-kept', weakened: 'v-weakened', lost: 'v-lost', 'appears only after processing': 'v-born', 'not found': 'v-lost',
 };
 
 function pctText(v: number | null): string {

@@ -63,7 +63,7 @@ export const SHORTCUTS: readonly { keys: string; what: string }[] = [
   { keys: 'N / P', what: 'next / previous peak by position: select it, zoom to it and show it under each choice' },
   { keys: 'W', what: 'show the whole trace (undo the zoom)' },
   { keys: 'M', what: 'mark a range on the plot (again to stop)' },
-  { keys: 'Esc', what: 'stop marking, adding peaks or measuring; close the selected feature' },
+  { keys: 'Esc', what: 'stop marking a range, adding peaks or measuring; close the selected feature' },
   { keys: '?', what: 'show or hide this list' },
 ];
 

@@ -235,7 +235,8 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       height: 560,
       margin: { l: 70, r: 20, t: 10, b: 50 },
       showlegend: true,
-      legend: { orientation: 'h', y: 1.02, x: 0, yanchor: 'bottom', font: { size: 11 } },
+      // Issue 17: the key below the plot, clear of the toolbar (one entry per line style and marker shape).
+      legend: { orientation: 'h', y: -0.1, x: 0, yanchor: 'top', font: { size: 11 } },
       dragmode: markMode ? 'select' : 'zoom',
       selectdirection: 'h',
       hovermode: 'closest',
@@ -263,7 +264,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   // Issue 17: otherwise a click on or near a peak (or a feature some choice loses) selects it: the focused view shows it under each choice.
   const onClickPoint = useCallback((x: number) => {
     if (namePick) { pickNamedPeakAt(x); return; }
-    if (addPeakMode || !result) return;
+    if (addPeakMode || useApp.getState().measureMode || !result) return;
     let best: number | null = null, bestD = Infinity;
     for (const pk of result.peaks) {
       if (pk.removedByUser) continue;

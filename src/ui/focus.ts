@@ -6,7 +6,7 @@
 import type { LedgerCell, LedgerRow } from '../core/loss.ts';
 import { HEIGHT_LOSS_TOLERANCE } from '../core/diagnostics.ts';
 
-export type Verdict = 'raw' | 'kept' | 'weakened' | 'lost' | 'appears only after processing' | 'not found';
+export type Verdict = 'reference' | 'kept' | 'weakened' | 'lost' | 'appears only after processing' | 'not found';
 
 /**
  * The verdict of one column against the raw trace (column 0): lost when the
@@ -17,7 +17,7 @@ export type Verdict = 'raw' | 'kept' | 'weakened' | 'lost' | 'appears only after
  * processing when the raw trace does not have it; otherwise kept.
  */
 export function columnVerdict(row: LedgerRow, col: number): Verdict {
-  if (col === 0) return 'raw';
+  if (col === 0) return 'reference';
   const raw = row.cells[0], c = row.cells[col];
   if (!raw.found) return c.found ? 'appears only after processing' : 'not found';
   if (!c.found) return 'lost';

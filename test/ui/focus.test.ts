@@ -14,9 +14,9 @@ const row = (cells: LedgerCell[], position = 5, firstFoundIn = 0): LedgerRow => 
 describe('columnVerdict', () => {
   it('reads kept, weakened (limit crossed or under 80 % height), lost and appears only after processing', () => {
     const r = row([cell(true), cell(true, { heightKept: 80 }), cell(true, { heightKept: 79.9 }), cell(true, { crossed: 'down', standing: 'detectable' }), cell(false)]);
-    expect(r.cells.map((_, k) => columnVerdict(r, k))).toEqual(['raw', 'kept', 'weakened', 'weakened', 'lost']);
+    expect(r.cells.map((_, k) => columnVerdict(r, k))).toEqual(['reference', 'kept', 'weakened', 'weakened', 'lost']);
     const born = row([cell(false), cell(true), cell(false)], 5, 1);
-    expect(born.cells.map((_, k) => columnVerdict(born, k))).toEqual(['raw', 'appears only after processing', 'not found']);
+    expect(born.cells.map((_, k) => columnVerdict(born, k))).toEqual(['reference', 'appears only after processing', 'not found']);
   });
 });
 
