@@ -75,7 +75,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const namePick = useApp((s) => s.namePickMode);
   /** Which shapes are the selected peak's start and end (issue 17), for dragging. */
   const [geom, setGeom] = useState<Geometry | null>(null);
-  const labelCount = useRef<{ shown: number; of: number } | null>(null);
+  const labelCount = useRef<{ shown: number; of: number; below: number } | null>(null);
   const figEl = useRef<HTMLElement | null>(null);
   const excluded = useApp((s) => s.peakSettings.excluded);
   const addPeakMode = useApp((s) => s.addPeakMode);
@@ -178,7 +178,8 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
         // Labels that never overlap (issue 17): placed in the figure's own pixels, thinned by priority (plot-labels.ts).
         // Placed only with the geometry of the view asked for (a zoom redraws once more with the new one).
         if (geom && (!xRange || (Math.abs(geom.x[0] - xRange[0]) <= 1e-9 * Math.abs(xRange[1] - xRange[0]) && Math.abs(geom.x[1] - xRange[1]) <= 1e-9 * Math.abs(xRange[1] - xRange[0])))) {
-          const inView = live.filter((pk) => pk.x >= geom.x[0] && pk.x <= geom.x[1]);
+          // Over the whole trace, bumps below the detection limit get no label (they are mostly noise); zoomed in, they may.
+          const inView = live.filter((pk) => pk.x >= geom.x[0] && pk.x <= geom.x[1] && (xRange !== null || pk.flag !== 'below-detection' || pk.origin === 'added-by-user' || names.has(pk)));
           const items = inView.map((pk) => ({
             px: ((pk.x - geom.x[0]) / (geom.x[1] - geom.x[0])) * geom.w,
             py: geom.h - ((pk.y - geom.y[0]) / (geom.y[1] - geom.y[0])) * geom.h,
@@ -192,7 +193,8 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
             textposition: kept.map((k) => k.spot), textfont: { size: 11, color: COLOURS.ink }, cliponaxis: false,
             xaxis: 'x', yaxis: 'y',
           });
-          labelCount.current = { shown: kept.length, of: inView.length };
+          const below = live.filter((pk) => pk.x >= geom.x[0] && pk.x <= geom.x[1]).length - inView.length;
+          labelCount.current = { shown: kept.length, of: inView.length, below };
         }
       }
       const r = decimateMinMax(result.residual.x, result.residual.y, from, to, cols);
@@ -236,7 +238,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       margin: { l: 70, r: 20, t: 10, b: 50 },
       showlegend: true,
       // Issue 17: the key below the plot, clear of the toolbar (one entry per line style and marker shape).
-      legend: { orientation: 'h', y: -0.1, x: 0, yanchor: 'top', font: { size: 11 } },
+      legend: { orientation: 'h', y: -0.15, x: 0, yanchor: 'top', font: { size: 11 } },
       dragmode: markMode ? 'select' : 'zoom',
       selectdirection: 'h',
       hovermode: 'closest',
@@ -291,8 +293,12 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   return (
     <div ref={boxRef} className="plot-box" data-labels={labelCount.current ? `${labelCount.current.shown}/${labelCount.current.of}` : undefined}>
       <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onShapeX={onShapeX} dragShapes={selectedX !== null} onReady={onReady} onDrawn={onDrawn} pictureName={`${sample.source.fileName.replace(/\.[^.]*$/, '')}-plot`} drawnTag={String(result ? resultSeq : 0)} />
-      {labelCount.current && labelCount.current.shown < labelCount.current.of && (
-        <p className="small muted plot-label-note" data-testid="label-note">S/N labels on {labelCount.current.shown} of the {labelCount.current.of} peaks in view (named, added by hand, then highest S/N; labels never overlap). Hover a marker for the rest, or zoom in.</p>
+      {labelCount.current && (labelCount.current.shown < labelCount.current.of || labelCount.current.below > 0) && (
+        <p className="small muted plot-label-note" data-testid="label-note">
+          S/N labels on {labelCount.current.shown} of {labelCount.current.of} peaks in view
+          {labelCount.current.below > 0 ? ` (and none on the ${labelCount.current.below} below the detection limit until you zoom in)` : ''}:
+          named peaks first, then those added by hand, then the highest S/N; labels never overlap. Hover a marker for its figures.
+        </p>
       )}
     </div>
   );
