@@ -43,11 +43,11 @@ test('the demo sample\'s named peaks: amounts within their 95 % intervals of the
   const table = page.getByTestId('peak-table');
   await expect(table.locator('th', { hasText: 'Name' })).toBeVisible();
   for (const d of truth.dyes) await expect(table.locator('td.peak-name', { hasText: d.name })).toHaveCount(1);
-  const peaks = (await plotted(page)).find((t) => t.name === 'peaks (S/N)');
-  expect(peaks).toBeDefined();
+  // Issue 17: the labels are their own trace (thinned so they never overlap; named peaks are labelled first).
+  await expect.poll(async () => (await plotted(page)).some((t) => t.name === 'peak labels (S/N)')).toBe(true);
   const labels = await page.evaluate(() => {
     const gd = document.querySelector('[data-testid="figure"]') as unknown as { data: { name: string; text?: string[] }[] };
-    return gd.data.find((t) => t.name === 'peaks (S/N)')?.text ?? [];
+    return gd.data.find((t) => t.name === 'peak labels (S/N)')?.text ?? [];
   });
   for (const d of truth.dyes) expect(labels.some((l) => l.startsWith(`${d.name} · `))).toBe(true);
   await panel.screenshot({ path: test.info().outputPath('calibration-panel.png') });

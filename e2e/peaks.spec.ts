@@ -27,7 +27,9 @@ test('the demo peak table lists every true peak that is not a shoulder, with S/N
 test('marking a quiet range changes the noise and the S/N column', async ({ page }) => {
   await openWithDemo(page);
   const sigmaBefore = await page.getByTestId('noise-sigma').innerText();
-  const snrBefore = await page.getByTestId('peak-table').locator('tbody tr td:nth-child(8)').allInnerTexts();
+  // The S/N column, found by its header (issue 17: the columns shown can change).
+  const snrCol = (await page.getByTestId('peak-table').locator('thead th').allInnerTexts()).findIndex((h) => h.startsWith('S/N')) + 1;
+  const snrBefore = await page.getByTestId('peak-table').locator(`tbody tr td:nth-child(${snrCol})`).allInnerTexts();
   await page.getByRole('button', { name: 'Mark a range' }).click();
   // Drag across 9.2–9.8 min on the plot (peak-free in the demo's ground truth).
   const box = await page.evaluate(() => {
@@ -46,6 +48,6 @@ test('marking a quiet range changes the noise and the S/N column', async ({ page
   const sigma = parseFloat(await page.getByTestId('noise-sigma').innerText());
   // The demo's true noise SD is 0.05 mAU; ~60 points give a relative SE of about 9 %, so 30 % is a wide bound.
   expect(Math.abs(sigma - truth.noiseSd) / truth.noiseSd).toBeLessThan(0.3);
-  await expect.poll(async () => JSON.stringify(await page.getByTestId('peak-table').locator('tbody tr td:nth-child(8)').allInnerTexts())).not.toBe(JSON.stringify(snrBefore));
+  await expect.poll(async () => JSON.stringify(await page.getByTestId('peak-table').locator(`tbody tr td:nth-child(${snrCol})`).allInnerTexts())).not.toBe(JSON.stringify(snrBefore));
   await expect(page.locator('#noise-method')).toHaveValue('rms');
 });

@@ -45,6 +45,10 @@ export interface LedgerCell {
   readonly x: number | null;
   readonly snr: number | null;
   readonly standing: Standing;
+  /** The matched peak's own height (y-units), area (y·x-units) and FWHM (x-units) in this column; null when lost (issue 17: the focused view). */
+  readonly height: number | null;
+  readonly area: number | null;
+  readonly fwhm: number | null;
   /** Height as % of the height in the first alternative. */
   readonly heightKept: number | null;
   /** FWHM change, % (positive = broader). */
@@ -317,6 +321,7 @@ export function matchPeaks(alternatives: readonly Alternative[], options: MatchO
       const cmp = pk !== null && a >= refCol;
       return {
         found: pk !== null, peakIndex: p, x: pk ? pk.x : null, snr: pk ? pk.snr : null, standing,
+        height: pk ? pk.height : null, area: pk ? pk.area : null, fwhm: pk ? pk.fwhm : null,
         heightKept: cmp ? pct(pk.height, ref.height) : null,
         widthChange: cmp ? (pct(pk.fwhm - ref.fwhm, ref.fwhm)) : null,
         apexShift: shift, apexShiftPoints: shift === null ? null : shift / dx,

@@ -200,6 +200,7 @@ const PEAK_SETTING_SPECS: Record<keyof PeakSettings, ParamSpec> = {
   detectionLimit: { key: 'detectionLimit', label: 'Detection limit S/N', kind: 'number', unit: 'ratio', min: 1, max: 100 },
   quantitationLimit: { key: 'quantitationLimit', label: 'Quantitation limit S/N', kind: 'number', unit: 'ratio', min: 1, max: 1000 },
   split: { key: 'split', label: 'Peaks sharing a valley', kind: 'choice', unit: 'none', choices: [{ value: 'perpendicular-drop', label: 'perpendicular drop' }, { value: 'valley-to-valley', label: 'valley to valley' }] },
+  excluded: { key: 'excluded', label: 'Ranges excluded from peak finding', kind: 'ranges', unit: 'x-units' },
 };
 
 /** Fresh copies of the default analysis settings. */

@@ -26,6 +26,9 @@ export interface ViewSlice {
   /** What became of the last peak added by hand (issue 17), said under the plot. */
   handNote: { kind: 'added' | 'refused'; text: string } | null;
   setHandNote: (n: { kind: 'added' | 'refused'; text: string } | null) => void;
+  /** Two-point measuring on the plot (issue 17): clicks then measure and select nothing. */
+  measureMode: boolean;
+  setMeasureMode: (v: boolean) => void;
 }
 
 export const createViewSlice: StateCreator<AppState, [], [], ViewSlice> = (set) => ({
@@ -48,5 +51,7 @@ export const createViewSlice: StateCreator<AppState, [], [], ViewSlice> = (set) 
   yFitsView: true,
   setYFitsView: (yFitsView) => set({ yFitsView }),
   handNote: null,
+  measureMode: false,
+  setMeasureMode: (measureMode) => set(measureMode ? { measureMode, addPeakMode: false } : { measureMode }),
   setHandNote: (handNote) => set({ handNote }),
 });

@@ -17,6 +17,10 @@ import { TraceList } from './TraceList.tsx';
 import { TracePlot } from './TracePlot.tsx';
 import { CursorReadout } from './CursorReadout.tsx';
 import { AxisNames } from './AxisNames.tsx';
+import { FocusedFeature } from './FocusedFeature.tsx';
+import { ExcludedRanges } from './ExcludedRanges.tsx';
+import { FirstUseGuide, guideDismissed, rememberGuideDismissed, ShortcutList } from './Guide.tsx';
+import { nextPeak } from './peak-steps.ts';
 
 export function App() {
   const fileInput = useRef<HTMLInputElement>(null);
@@ -34,13 +38,37 @@ export function App() {
   const [figureEl, setFigureEl] = useState<HTMLElement | null>(null);
   const onFigure = useCallback((el: HTMLElement | null) => { figure.current = el; setFigureEl(el); }, []);
 
+  const [guideOpen, setGuideOpen] = useState(() => !guideDismissed());
+  const [guideAsked, setGuideAsked] = useState(false);
+  const [keysOpen, setKeysOpen] = useState(false);
+  const closeGuide = useCallback(() => { setGuideOpen(false); rememberGuideDismissed(); }, []);
+
   useEffect(() => {
+    // Issue 17: the shortcuts listed in Guide.tsx (SHORTCUTS); none acts while typing in a field.
     const onKey = (e: KeyboardEvent) => {
       const target = e.target as HTMLElement | null;
-      if (target && (target.tagName === 'INPUT' || target.tagName === 'TEXTAREA' || target.tagName === 'SELECT')) return;
-      if ((e.ctrlKey || e.metaKey) && e.key.toLowerCase() === 'z') {
-        e.preventDefault();
-        if (e.shiftKey) redo(); else undo();
+      if (target && (target.tagName === 'INPUT' || target.tagName === 'TEXTAREA' || target.tagName === 'SELECT' || target.isContentEditable)) return;
+      const k = e.key.toLowerCase();
+      if ((e.ctrlKey || e.metaKey) && !e.altKey) {
+        if (k === 'z') { e.preventDefault(); if (e.shiftKey) redo(); else undo(); }
+        else if (k === 'y') { e.preventDefault(); redo(); }
+        return;
+      }
+      if (e.altKey) return;
+      const s = useApp.getState();
+      if (e.key === '?') { e.preventDefault(); setKeysOpen((o) => !o); }
+      else if (e.key === 'Escape') { s.setMarkMode(false); s.setAddPeakMode(false); s.setMeasureMode(false); s.selectPeak(null); setKeysOpen(false); }
+      else if (k === 'a') { const el = document.getElementById('add-step-choice'); if (el) { e.preventDefault(); el.focus(); } }
+      else if (k === 'w') s.setXRange(null);
+      else if (k === 'm') s.setMarkMode(!s.markMode);
+      else if (k === 'n' || k === 'p') {
+        const r = s.result && s.result.sampleId === s.sampleId ? s.result : null;
+        const pk = r ? nextPeak(r.peaks, s.selectedPeakX, k === 'n' ? 1 : -1) : null;
+        if (pk) {
+          s.selectPeak(pk.x);
+          const pad = Math.max(pk.fwhm * 3, (pk.end - pk.start) * 0.5);
+          s.setXRange([pk.start - pad, pk.end + pad]);
+        }
       }
     };
     window.addEventListener('keydown', onKey);
@@ -80,11 +108,15 @@ export function App() {
             }}
           />
           <button type="button" onClick={() => void loadDemo()}>Reload demo</button>
+          <button type="button" aria-expanded={guideOpen} onClick={() => { if (guideOpen) closeGuide(); else { setGuideOpen(true); setGuideAsked(true); } }} data-testid="guide-toggle">Guide</button>
+          <button type="button" aria-expanded={keysOpen} onClick={() => setKeysOpen(!keysOpen)} title="Keyboard shortcuts (?)">Shortcuts</button>
         </div>
       </header>
       <p className="caution" role="note">
         Not a validated system. Results are for exploration and review; your laboratory’s procedures, validated methods and regulators’ requirements govern. Data stays on this computer.
       </p>
+      {guideOpen && <div className="guide-wrap"><FirstUseGuide onClose={closeGuide} focus={guideAsked} /></div>}
+      {keysOpen && <div className="guide-wrap"><ShortcutList onClose={() => setKeysOpen(false)} /></div>}
       <StartChoice />
       <div className="notices"><SessionBanner /></div>
       <Notices />
@@ -113,6 +145,8 @@ export function App() {
             {handNote && <p className={`small hand-note hand-${handNote.kind}`} role="status" data-testid="hand-note">{handNote.text} <button type="button" className="link" onClick={() => setHandNote(null)}>dismiss</button></p>}
             <HandReasonField />
             <ErrorBoundary area="the cursor readout"><CursorReadout figure={figureEl} /></ErrorBoundary>
+            {sample && <ErrorBoundary area="the excluded ranges"><ExcludedRanges xUnit={sample.xUnit ?? ''} /></ErrorBoundary>}
+            <ErrorBoundary area="the selected feature"><FocusedFeature /></ErrorBoundary>
           </section>
           <ErrorBoundary area="the residual checks"><ResidualPanel /></ErrorBoundary>
           <ErrorBoundary area="the peak table"><PeakTable /></ErrorBoundary>

@@ -21,7 +21,8 @@ export function CursorReadout({ figure }: { figure: HTMLElement | null }) {
   const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
   const showRaw = useApp((s) => s.showRaw);
   const [cursorX, setCursorX] = useState<number | null>(null);
-  const [measuring, setMeasuring] = useState(false);
+  const measuring = useApp((s) => s.measureMode);
+  const setMeasuring = useApp((s) => s.setMeasureMode);
   const [points, setPoints] = useState<Point[]>([]);
 
   const series = useMemo<ReadSeries[]>(() => {
@@ -53,7 +54,7 @@ export function CursorReadout({ figure }: { figure: HTMLElement | null }) {
     const onMove = (e: MouseEvent) => setCursorX(xAt(e));
     const onLeave = () => setCursorX(null);
     const onClick = (e: MouseEvent) => {
-      // Only clicks on the plotting area itself (not the legend or the toolbar above it).
+      // Only clicks on the plotting area itself (not the legend below it or the toolbar above it).
       const size = (figure as unknown as { _fullLayout?: { _size?: { t: number; h: number } } })._fullLayout?._size;
       const py = e.clientY - figure.getBoundingClientRect().top;
       if (!size || py < size.t || py > size.t + size.h) return;
@@ -93,7 +94,7 @@ export function CursorReadout({ figure }: { figure: HTMLElement | null }) {
         )}
       </div>
       <div className="row">
-        <button type="button" aria-pressed={measuring} onClick={() => { setMeasuring(!measuring); setPoints([]); if (!measuring) useApp.getState().setAddPeakMode(false); }} data-testid="measure-toggle">
+        <button type="button" aria-pressed={measuring} onClick={() => { setMeasuring(!measuring); setPoints([]); }} data-testid="measure-toggle">
           {measuring ? 'Measuring: click two points' : 'Measure between two points'}
         </button>
         {measuring && points.length === 0 && <span className="muted">Click the first point on the plot (the nearest point of the processed line is taken).</span>}

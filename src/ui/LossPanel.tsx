@@ -37,6 +37,14 @@ export function LossPanel() {
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const noiseRowsOn = useApp((s) => s.ledgerNoiseLevel);
   const { addAlternatives, removeAlternative, setShowAlternatives, setLedgerNoiseLevel, notify } = useApp.getState();
+  const selected = useApp((s) => s.selectedPeakX);
+  /** Issue 17: select the feature (the focused view under the plot shows it) and zoom the plot to it. */
+  const focusOn = (x: number, cells: readonly LedgerCell[]) => {
+    useApp.getState().selectPeak(x);
+    const w = Math.max(...cells.map((c) => c.fwhm ?? 0));
+    if (w > 0) useApp.getState().setXRange([x - 6 * w, x + 6 * w]);
+    setTimeout(() => document.querySelector('[data-testid="focus-view"]')?.scrollIntoView?.({ block: 'nearest' }), 50);
+  };
   const xu = sample?.xUnit ?? '';
   const full = alternatives.length >= MAX_ALTERNATIVES;
   const rows = loss ? loss.ledger.rows : [];
@@ -51,9 +59,10 @@ export function LossPanel() {
         <h2 id="loss-title">What each choice keeps</h2>
         <label className="switch"><input type="checkbox" checked={showAlt} onChange={(e) => setShowAlternatives(e.target.checked)} /> overlay alternatives</label>
       </div>
-      <p className="small muted">
+      <p className="small muted" data-testid="loss-header">
         Compare the raw trace, the current stack and up to {MAX_ALTERNATIVES} alternative stacks, measured with the same noise and peak settings.
-        Features are matched by apex position; changes are against the raw trace.
+        {' '}{loss ? loss.ledger.rule : 'Features are matched by apex position; each feature’s changes are against the least-processed column that has it (the raw trace when found there).'}
+        {' '}Click a row, a peak on the plot or a row of the peak table to see that feature under each choice side by side.
       </p>
       {provisional && <p className="small provisional" data-testid="loss-provisional">Provisional: the comparison below is from before the latest change; the loss check is being worked out again.</p>}
       <div className="row preset-row">
@@ -131,7 +140,14 @@ export function LossPanel() {
               </thead>
               <tbody>
                 {shown.map((r) => (
-                  <tr key={r.position} className={r.crossed ? 'crossed' : ''}>
+                  <tr
+                    key={r.position}
+                    className={`${r.crossed ? 'crossed' : ''} ${selected !== null && Math.abs(selected - r.position) <= r.tolerance ? 'selected' : ''}`}
+                    onClick={() => focusOn(r.position, r.cells)}
+                    tabIndex={0}
+                    onKeyDown={(e) => { if (e.key === 'Enter') focusOn(r.position, r.cells); }}
+                    aria-label={`Feature at ${num(r.position, 5)}; press Enter to see it under each choice`}
+                  >
                     <th scope="row">{num(r.position, 5)}</th>
                     {r.cells.map((c, i) => (
                       <td key={i} className={`cell-${c.found ? c.standing : 'lost'} ${c.crossed === 'down' ? 'down' : ''}`}>
@@ -149,7 +165,6 @@ export function LossPanel() {
           </div>
           {shown.length < rows.length && <p className="small muted">Showing {shown.length} of {rows.length} rows (every row where a limit is crossed first). The report lists every sentence.</p>}
           {hidden > 0 && !loss.noiseLevelShown && <p className="small muted">{hidden} noise-level candidate{hidden === 1 ? '' : 's'} (below the detection limit in every column) left out of the ledger; tick the box above to list them.</p>}
-          <p className="hint">{loss.ledger.rule}</p>
         </>
       )}
       {!loss && <p className="muted">Add a step or an alternative to see what each choice keeps.</p>}

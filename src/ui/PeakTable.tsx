@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { Fragment, useState, type ReactNode } from 'react';
 import { useShallow } from 'zustand/react/shallow';
 import type { Peak, PeakMark } from '../core/measure/peak-types.ts';
 import { noiseBumpSentence } from '../core/measure/noise-bumps.ts';
@@ -10,6 +10,23 @@ import { useNameOfPeak } from './calibration/derive.ts';
 import { FigureControls, usePeakExtras } from './fit/peak-extras.tsx';
 
 const MAX_ROWS = 500;
+
+/** One column of the peak table (issue 17); `fixed` columns are always shown. */
+interface PeakColumn { key: string; label: string; title?: string; fixed?: boolean; className?: string; cell: (p: Peak, i: number) => ReactNode }
+
+/** Optional columns shown until the user hides them; the others start in each row's details (the table then fits a 1,280-pixel window). */
+const DEFAULT_SHOWN = new Set(['height', 'area', 'area-pct']);
+const COLUMNS_KEY = 'tracewright.peak-columns';
+
+function readColumnPrefs(): Record<string, boolean> {
+  try {
+    const v: unknown = JSON.parse(localStorage.getItem(COLUMNS_KEY) ?? '{}');
+    if (!v || typeof v !== 'object' || Array.isArray(v)) return {};
+    return Object.fromEntries(Object.entries(v as Record<string, unknown>).filter(([, b]) => typeof b === 'boolean')) as Record<string, boolean>;
+  } catch {
+    return {}; // storage blocked or unreadable: the defaults
+  }
+}
 
 /** Marks in two or three words for the table; the full sentence is in the cell's title, the CSV and the report. */
 const MARK_SHORT: Record<PeakMark, string> = {
@@ -48,6 +65,14 @@ export function PeakTable() {
   const decisions = useApp((s) => s.decisions);
   const { selectPeak, setXRange, removePeakAt, restorePeakAt, setAddPeakMode, clearDecisions } = useApp.getState();
   const [orderChoice, setOrderChoice] = useState<'x' | 'snr' | null>(null);
+  const [colPrefs, setColPrefs] = useState<Record<string, boolean>>(readColumnPrefs);
+  const [openRows, setOpenRows] = useState<ReadonlySet<string>>(new Set());
+  const toggleColumn = (key: string, on: boolean) => {
+    const next = { ...colPrefs, [key]: on };
+    setColPrefs(next);
+    try { localStorage.setItem(COLUMNS_KEY, JSON.stringify(next)); } catch { /* not remembered where storage is blocked */ }
+  };
+  const toggleRow = (key: string) => setOpenRows((old) => { const n = new Set(old); if (n.has(key)) n.delete(key); else n.add(key); return n; });
   const names = useNameOfPeak(); // issue 21
   const extras = usePeakExtras(); // issue 18: optional figure and fitted-area columns
   if (!result || !sample) return null;
@@ -69,6 +94,45 @@ export function PeakTable() {
   // Issue 17: area % of the summed area of every kept peak (the CSV-wide total, not only the rows shown).
   let totalArea = 0;
   for (const p of all) if (!p.removedByUser) totalArea += p.area;
+  const removeThis = (p: Peak) => removePeakAt(p.origin === 'added-by-user' ? decisions.added.reduce((best, a) => (Math.abs(a - p.x) < Math.abs(best - p.x) ? a : best), decisions.added[0]) : p.x);
+  // Issue 17: columns as a list; the optional ones can be shown or hidden (remembered), the hidden ones are in each row's details.
+  const columns: PeakColumn[] = [
+    { key: 'n', label: '#', fixed: true, cell: (_p, i) => i + 1 },
+    ...(names.size > 0 ? [{ key: 'name', label: 'Name', fixed: true, className: 'peak-name', cell: (p: Peak) => names.get(p) ?? '' }] : []),
+    { key: 'apex', label: `Apex${xu}`, fixed: true, cell: (p) => num(p.x, 5) },
+    { key: 'height', label: `Height${yu}`, cell: (p) => num(p.height) },
+    { key: 'prominence', label: `Prominence${yu}`, cell: (p) => num(p.prominence) },
+    { key: 'fwhm', label: `FWHM${xu}`, cell: (p) => num(p.fwhm) },
+    { key: 'area', label: `Area${areaUnit}`, cell: (p) => num(p.area) },
+    { key: 'area-pct', label: 'Area %', title: 'Each peak’s area as a share of the summed area of every peak kept in the table (all rows, not only those shown; removed peaks left out)', cell: (p) => (p.removedByUser || !(totalArea > 0) ? '—' : num((100 * p.area) / totalArea, 3)) },
+    { key: 'bounds', label: `Start – end${xu}`, cell: (p) => <span title={`start: ${BOUND_TEXT[p.startKind]}; end: ${BOUND_TEXT[p.endKind]}${p.split !== 'none' ? `; shared valley split by ${SPLIT_TEXT[p.split]}` : ''}`}>{num(p.start, 4)} – {num(p.end, 4)}</span> },
+    { key: 'snr', label: `S/N (${def === 'rms' ? 'H/σ' : def === 'pharmacopoeial' ? '2H/h' : 'mean/SD'})`, fixed: true, cell: (p) => <strong>{num(p.snr, 3)}</strong> },
+    {
+      key: 'status', label: 'Status and marks', fixed: true, className: 'marks',
+      cell: (p) => (
+        <span title={[...p.marks.map((m) => (m === 'also-in-blank' && p.blankHeight !== undefined ? `${MARK_TEXT[m]}; the blank's height there ${num(p.blankHeight)}` : MARK_TEXT[m])), p.note ?? ''].filter(Boolean).join('; ')}>
+          <span className={`flag flag-${p.flag}`}>{FLAG_WORDS[p.flag]}</span>
+          {p.marks.map((m) => <span key={m} className={`mark mark-${m}`}>{MARK_SHORT[m]}{m === 'also-in-blank' && p.blankHeight !== undefined ? ` (height ${num(p.blankHeight)})` : ''}</span>)}
+          {p.note && <span className="mark">see note</span>}
+        </span>
+      ),
+    },
+    { key: 'snr-rms', label: 'H/σ', cell: (p) => num(p.snrRms, 3) },
+    { key: 'snr-pharma', label: '2H/h', cell: (p) => <span title={p.pharmaNoise ? `h = ${num(p.pharmaNoise.h)} over ${p.pharmaNoise.points} points of ${p.pharmaNoise.source}` : ''}>{num(p.snrPharma, 3)}{p.pharmaNoise?.source === 'trace itself' ? '*' : ''}</span> },
+    {
+      key: 'decision', label: 'Decision', fixed: true, className: 'decision',
+      cell: (p, i) => (p.removedByUser ? (
+        <>removed by hand <button type="button" className="link" onClick={(e) => { e.stopPropagation(); restorePeakAt(p.x, Math.max(p.fwhm, 1e-12)); }}>restore</button></>
+      ) : (
+        <>{p.origin === 'added-by-user' ? 'added by hand ' : ''}{p.boundsByUser ? 'start and end set by hand ' : ''}<button type="button" className="link danger" onClick={(e) => { e.stopPropagation(); removeThis(p); }} aria-label={`Remove peak ${i + 1}`}>remove</button></>
+      )),
+    },
+    ...extras.headers.map((h, j) => ({ key: `x-${h.key}`, label: h.label, title: h.title, cell: (p: Peak) => extras.cells(p, all.indexOf(p))[j] })),
+  ];
+  const optional = columns.filter((c) => !c.fixed);
+  const isShown = (c: PeakColumn) => c.fixed === true || (colPrefs[c.key] ?? (DEFAULT_SHOWN.has(c.key) || c.key.startsWith('x-')));
+  const visible = columns.filter(isShown);
+  const hiddenCols = columns.filter((c) => !isShown(c));
   return (
     <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq} data-provisional={provisional || bumpsPending ? 'true' : undefined} data-snr-provisional={provisional || sigmaWaiting ? 'true' : undefined}>
       <div className="panel-head">
@@ -99,76 +163,71 @@ export function PeakTable() {
           <option value="snr">S/N, highest first</option>
         </select>
         <FigureControls />
+        <details className="column-chooser" data-testid="column-chooser">
+          <summary>Columns…</summary>
+          <fieldset>
+            <legend className="small">Show in the table (the others are in each row’s details; remembered in this browser)</legend>
+            {optional.map((c) => (
+              <label key={c.key} className="switch small">
+                <input type="checkbox" checked={isShown(c)} onChange={(e) => toggleColumn(c.key, e.target.checked)} data-testid={`col-${c.key}`} /> {c.label}
+              </label>
+            ))}
+          </fieldset>
+        </details>
       </div>
       <div className="table-wrap" tabIndex={0} role="region" aria-label="Peak table (scrolls)">
-        <table className="data" data-testid="peak-table">
+        <table className="data peaks" data-testid="peak-table">
           <caption className="sr-only">Peaks found on the {result.peakOptions ? 'measured' : ''} trace with their measures; S/N by {SNR_WORDS[def]}</caption>
           <thead>
             <tr>
-              <th scope="col">#</th>
-              {names.size > 0 && <th scope="col">Name</th>}
-              <th scope="col">Apex{xu}</th>
-              <th scope="col">Height{yu}</th>
-              <th scope="col">Prominence{yu}</th>
-              <th scope="col">FWHM{xu}</th>
-              <th scope="col">Area{areaUnit}</th>
-              <th scope="col" title="Each peak's area as a share of the summed area of every peak kept in the table (all rows, not only those shown; removed peaks left out)">Area %</th>
-              <th scope="col">Bounds{xu}</th>
-              <th scope="col">S/N ({def === 'rms' ? 'H/σ' : def === 'pharmacopoeial' ? '2H/h' : 'mean/SD'})</th>
-              <th scope="col">Status and marks</th>
-              <th scope="col">H/σ</th>
-              <th scope="col">2H/h</th>
-              <th scope="col">Decision</th>
-              {extras.headers.map((h) => <th scope="col" key={h.key} title={h.title}>{h.label}</th>)}
+              {visible.map((c) => <th scope="col" key={c.key} title={c.title} data-col={c.key}>{c.label}</th>)}
+              <th scope="col" data-col="details" title="Open a row’s details: the columns not shown and why its start and end are where they are">Details</th>
             </tr>
           </thead>
           <tbody>
-            {peaks.map((p, i) => (
-              <tr
-                key={`${p.index}-${p.origin}-${p.removedByUser ? 'r' : 'k'}`}
-                className={`${selected !== null && Math.abs(selected - p.x) < 1e-12 ? 'selected' : ''} ${p.removedByUser ? 'removed' : ''}`}
-                onClick={() => {
-                  selectPeak(p.x);
-                  const pad = Math.max(p.fwhm * 3, (p.end - p.start) * 0.5);
-                  setXRange([p.start - pad, p.end + pad]);
-                }}
-                tabIndex={0}
-                onKeyDown={(e) => { if (e.key === 'Enter') (e.currentTarget as HTMLElement).click(); }}
-                aria-label={`Peak ${i + 1} at ${num(p.x)}; press Enter to zoom to it`}
-              >
-                <td>{i + 1}</td>
-                {names.size > 0 && <td className="peak-name">{names.get(p) ?? ''}</td>}
-                <td>{num(p.x, 5)}</td>
-                <td>{num(p.height)}</td>
-                <td>{num(p.prominence)}</td>
-                <td>{num(p.fwhm)}</td>
-                <td>{num(p.area)}</td>
-                <td>{p.removedByUser || !(totalArea > 0) ? '—' : num((100 * p.area) / totalArea, 3)}</td>
-                <td title={`start: ${BOUND_TEXT[p.startKind]}; end: ${BOUND_TEXT[p.endKind]}${p.split !== 'none' ? `; shared valley split by ${SPLIT_TEXT[p.split]}` : ''}`}>{num(p.start, 4)} – {num(p.end, 4)}</td>
-                <td><strong>{num(p.snr, 3)}</strong></td>
-                <td className="marks" title={[...p.marks.map((m) => (m === 'also-in-blank' && p.blankHeight !== undefined ? `${MARK_TEXT[m]}; the blank's height there ${num(p.blankHeight)}` : MARK_TEXT[m])), p.note ?? ''].filter(Boolean).join('; ')}>
-                  <span className={`flag flag-${p.flag}`}>{FLAG_WORDS[p.flag]}</span>
-                  {p.marks.map((m) => <span key={m} className={`mark mark-${m}`}>{MARK_SHORT[m]}{m === 'also-in-blank' && p.blankHeight !== undefined ? ` (height ${num(p.blankHeight)})` : ''}</span>)}
-                  {p.note && <span className="mark">see note</span>}
-                </td>
-                <td>{num(p.snrRms, 3)}</td>
-                <td title={p.pharmaNoise ? `h = ${num(p.pharmaNoise.h)} over ${p.pharmaNoise.points} points of ${p.pharmaNoise.source}` : ''}>{num(p.snrPharma, 3)}{p.pharmaNoise?.source === 'trace itself' ? '*' : ''}</td>
-                <td>
-                  {p.removedByUser ? (
-                    <>removed by hand <button type="button" className="link" onClick={(e) => { e.stopPropagation(); restorePeakAt(p.x, Math.max(p.fwhm, 1e-12)); }}>restore</button></>
-                  ) : (
-                    <>{p.origin === 'added-by-user' ? 'added by hand ' : ''}{p.boundsByUser ? 'start and end set by hand ' : ''}<button type="button" className="link danger" onClick={(e) => { e.stopPropagation(); removePeakAt(p.origin === 'added-by-user' ? decisions.added.reduce((best, a) => (Math.abs(a - p.x) < Math.abs(best - p.x) ? a : best), decisions.added[0]) : p.x); }} aria-label={`Remove peak ${i + 1}`}>remove</button></>
+            {peaks.map((p, i) => {
+              const key = `${p.index}-${p.origin}-${p.removedByUser ? 'r' : 'k'}`;
+              const open = openRows.has(key);
+              return (
+                <Fragment key={key}>
+                  <tr
+                    className={`${selected !== null && Math.abs(selected - p.x) < 1e-12 ? 'selected' : ''} ${p.removedByUser ? 'removed' : ''}`}
+                    onClick={() => {
+                      selectPeak(p.x);
+                      const pad = Math.max(p.fwhm * 3, (p.end - p.start) * 0.5);
+                      setXRange([p.start - pad, p.end + pad]);
+                      setTimeout(() => document.querySelector('[data-testid="focus-view"]')?.scrollIntoView?.({ block: 'nearest' }), 50); // issue 17
+                    }}
+                    tabIndex={0}
+                    onKeyDown={(e) => { if (e.key === 'Enter' && e.target === e.currentTarget) (e.currentTarget as HTMLElement).click(); }}
+                    aria-label={`Peak ${i + 1} at ${num(p.x)}; press Enter to zoom to it`}
+                  >
+                    {visible.map((c) => <td key={c.key} data-col={c.key} className={c.className}>{c.cell(p, i)}</td>)}
+                    <td className="expander">
+                      <button type="button" className="link" aria-expanded={open} aria-label={`${open ? 'Hide' : 'Show'} the details of peak ${i + 1}`} onClick={(e) => { e.stopPropagation(); toggleRow(key); }} data-testid="row-details">{open ? '▾' : '▸'}</button>
+                    </td>
+                  </tr>
+                  {open && (
+                    <tr className="detail-row" data-testid="peak-detail">
+                      <td colSpan={visible.length + 1}>
+                        <dl className="peak-detail">
+                          {hiddenCols.map((c) => <div key={c.key}><dt>{c.label}</dt><dd>{c.cell(p, i)}</dd></div>)}
+                          <div><dt>Why these start and end</dt><dd>start: {BOUND_TEXT[p.startKind]}; end: {BOUND_TEXT[p.endKind]}{p.split !== 'none' ? `; shared valley split by ${SPLIT_TEXT[p.split]}` : ''}</dd></div>
+                          {p.marks.length > 0 && <div><dt>Marks</dt><dd>{p.marks.map((m) => MARK_TEXT[m]).join('; ')}</dd></div>}
+                          {p.note && <div><dt>Note</dt><dd>{p.note}</dd></div>}
+                        </dl>
+                      </td>
+                    </tr>
                   )}
-                </td>
-                {extras.cells(p, all.indexOf(p)).map((c, j) => <td key={`x${j}`}>{c}</td>)}
-              </tr>
-            ))}
-            {peaks.length === 0 && <tr><td colSpan={13} className="muted">No peaks pass the thresholds.</td></tr>}
+                </Fragment>
+              );
+            })}
+            {peaks.length === 0 && <tr><td colSpan={visible.length + 1} className="muted">No peaks pass the thresholds.</td></tr>}
           </tbody>
         </table>
       </div>
       <p className="hint">
-        Height: apex above the peak’s own local baseline, a straight line between the trace’s levels at its start and end (drawn for the selected peak). Start and end: where the trace is back at the baseline, or a valley shared with a neighbour (split by {SPLIT_TEXT[result.peakOptions?.split ?? 'perpendicular-drop']}); hover a start or end for why. FWHM: the peak’s own width at half that height. Area: above the local baseline between start and end (trapezoid rule).
+        Height: apex above the peak’s own local baseline, a straight line between the trace’s levels at its start and end (drawn for the selected peak). Start and end: where the trace is back at the baseline, or a valley shared with a neighbour (split by {SPLIT_TEXT[result.peakOptions?.split ?? 'perpendicular-drop']}); hover them, or open a row’s details, for why. FWHM: the peak’s own width at half that height. Area: above the local baseline from start to end (trapezoid rule). The ▸ at the end of a row opens the columns not shown; “Columns…” chooses which are shown.
         {' '}2H/h: h is the noise range {peaks.some((p) => p.pharmaNoise?.source === 'trace itself') ? 'of the trace itself (*), because no blank is loaded: a deviation from the pharmacopoeial method' : 'of the blank, processed by the same steps as the sample'} over {result.peakOptions?.pharmacopoeialMultiplier ?? 5} × FWHM centred on each peak.
       </p>
     </section>

@@ -2,6 +2,7 @@ import { useEffect, useMemo, useRef, useState } from 'react';
 import Plotly, { type PlotData, type PlotLayout, type PlotlyHTMLElement } from 'plotly.js-strict-dist-min';
 import { plotConfig } from './plot-config.ts';
 import { guardFigure, toDataUnits, type AxisTransform } from './plot-guard.ts';
+import { themedData, themedLayout, useDarkScheme } from './theme.ts';
 
 export interface FigureEvents {
   /** x-range after a zoom or pan; null after autoscale. */
@@ -47,7 +48,8 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
   const drawn = useRef(onDrawn);
   drawn.current = onDrawn;
   const bound = useRef(false);
-  const guarded = useMemo(() => guardFigure(data, layout), [data, layout]);
+  const dark = useDarkScheme(); // issue 17: figures follow the system's dark setting too
+  const guarded = useMemo(() => guardFigure(themedData(data, dark), themedLayout(layout, dark)), [data, layout, dark]);
   const transforms = useRef<Record<string, AxisTransform>>({});
   transforms.current = guarded.transforms;
   const [failure, setFailure] = useState<string | null>(null);

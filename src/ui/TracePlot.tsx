@@ -12,6 +12,28 @@ import { markDrawFailed, markDrawn } from './draw-health.ts';
 import { useNameOfPeak } from './calibration/derive.ts';
 import { pickNamedPeakAt } from './calibration/pick.ts';
 import { visibleYRange } from './plot-view.ts';
+import { placeLabels } from './plot-labels.ts';
+import type { Peak } from '../core/measure/peak-types.ts';
+
+/** The main plotting area as last drawn: axis ranges and size in pixels (issue 17: label placement). */
+interface Geometry { x: [number, number]; y: [number, number]; w: number; h: number }
+
+function sameGeometry(a: Geometry | null, b: Geometry): boolean {
+  if (!a) return false;
+  const close = (u: number, v: number, span: number) => Math.abs(u - v) <= 1e-6 * Math.abs(span);
+  return Math.abs(a.w - b.w) < 1 && Math.abs(a.h - b.h) < 1
+    && close(a.x[0], b.x[0], b.x[1] - b.x[0]) && close(a.x[1], b.x[1], b.x[1] - b.x[0])
+    && close(a.y[0], b.y[0], b.y[1] - b.y[0]) && close(a.y[1], b.y[1], b.y[1] - b.y[0]);
+}
+
+/** The x-axis and y-axis ranges and lengths Plotly used, read from the drawn figure. */
+function readGeometry(el: HTMLElement | null): Geometry | null {
+  const fl = (el as unknown as { _fullLayout?: { xaxis?: { range?: number[]; _length?: number; type?: string }; yaxis?: { range?: number[]; _length?: number; type?: string } } } | null)?._fullLayout;
+  const xa = fl?.xaxis, ya = fl?.yaxis;
+  if (!xa?.range || !ya?.range || !xa._length || !ya._length || xa.type !== 'linear' || ya.type !== 'linear') return null;
+  const g: Geometry = { x: [Number(xa.range[0]), Number(xa.range[1])], y: [Number(ya.range[0]), Number(ya.range[1])], w: xa._length, h: ya._length };
+  return [...g.x, ...g.y].every(Number.isFinite) && g.x[1] > g.x[0] && g.y[1] > g.y[0] ? g : null;
+}
 
 /** Plot width in pixel columns used for decimation (two points per column). */
 function useWidth(): [React.RefObject<HTMLDivElement | null>, number] {
@@ -35,7 +57,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   // Only the fields drawn: a stage that changes none of them (noise, say) does not redraw the plot.
   const result = useApp(useShallow((s) => (s.result && s.result.sampleId === s.sampleId
-    ? { processed: s.result.processed, residual: s.result.residual, baseline: s.result.baseline, intermediate: s.result.intermediate, events: s.result.events, peaks: s.result.peaks, loss: s.result.loss }
+    ? { processed: s.result.processed, residual: s.result.residual, baseline: s.result.baseline, intermediate: s.result.intermediate, events: s.result.events, peaks: s.result.peaks, loss: s.result.loss, peakOptions: s.result.peakOptions }
     : null)));
   const resultSeq = useApp((s) => s.stageSeq.processed);
   const xRange = useApp((s) => s.xRange);
@@ -52,6 +74,11 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const names = useNameOfPeak(); // issue 21: named peaks carry their name
   const namePick = useApp((s) => s.namePickMode);
   /** Which shapes are the selected peak's start and end (issue 17), for dragging. */
+  const [geom, setGeom] = useState<Geometry | null>(null);
+  const labelCount = useRef<{ shown: number; of: number; below: number } | null>(null);
+  const figEl = useRef<HTMLElement | null>(null);
+  const excluded = useApp((s) => s.peakSettings.excluded);
+  const addPeakMode = useApp((s) => s.addPeakMode);
   const boundShapes = useRef<{ start: number; end: number; peak: { x: number; start: number; end: number } } | null>(null);
 
   const data = useMemo<PlotData[]>(() => {
@@ -60,6 +87,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
     const to = xRange ? xRange[1] : Infinity;
     const cols = Math.max(200, width - 120);
     const traces: PlotData[] = [];
+    labelCount.current = null;
     if (showRaw || !result) {
       const d = decimateMinMax(sample.x, sample.y, from, to, cols);
       traces.push({ type: 'scatter', mode: 'lines', name: 'raw', x: arr(d.x), y: arr(d.y), line: { color: COLOURS.raw, width: 1 }, hoverinfo: 'x+y', xaxis: 'x', yaxis: 'y' });
@@ -126,24 +154,54 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
         });
       }
       if (live.length) {
-        const sym: Record<string, string> = { quantifiable: 'triangle-down', detectable: 'diamond', 'below-detection': 'circle-open', 'not-measured': 'circle-open' };
-        const col: Record<string, string> = { quantifiable: COLOURS.peak, detectable: COLOURS.baseline, 'below-detection': COLOURS.spike, 'not-measured': COLOURS.raw };
-        traces.push({
-          type: 'scatter', mode: 'text+markers', name: 'peaks (S/N)',
-          x: live.map((pk) => pk.x), y: live.map((pk) => pk.y),
-          text: live.map((pk) => `${names.has(pk) ? `${names.get(pk)} · ` : ''}${pk.snr === null ? '?' : pk.snr.toFixed(pk.snr < 10 ? 1 : 0)}`),
-          textposition: 'top center', textfont: { size: 11, color: COLOURS.ink },
-          hovertext: live.map((pk) => `apex ${pk.x.toPrecision(6)}<br>height ${pk.height.toPrecision(4)}<br>FWHM ${pk.fwhm.toPrecision(4)} (${pk.leftHalf.toPrecision(6)} – ${pk.rightHalf.toPrecision(6)})<br>start – end ${pk.start.toPrecision(6)} – ${pk.end.toPrecision(6)}<br>S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)}${pk.marks.map((m) => `<br>${MARK_TEXT[m]}`).join('')}${pk.origin === 'added-by-user' ? '<br>added by hand' : ''}`),
-          hoverinfo: 'text',
-          marker: { symbol: live.map((pk) => sym[pk.flag]), color: live.map((pk) => col[pk.flag]), size: 10, line: { width: 1.5, color: live.map((pk) => col[pk.flag]) } },
-          xaxis: 'x', yaxis: 'y',
-        });
+        // Issue 17: one trace per marker shape, so the legend has a key for each; peaks added by hand have their own.
+        const lim = result.peakOptions?.limits ?? { detection: 3, quantitation: 10 };
+        const kinds: { name: string; keep: (pk: Peak) => boolean; symbol: string; colour: string; size: number }[] = [
+          { name: `quantifiable peak (S/N ≥ ${lim.quantitation})`, keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'quantifiable', symbol: 'triangle-down', colour: COLOURS.peak, size: 10 },
+          { name: `detected peak (S/N ${lim.detection}–${lim.quantitation})`, keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'detectable', symbol: 'diamond', colour: COLOURS.baseline, size: 10 },
+          { name: `below the detection limit (S/N < ${lim.detection})`, keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'below-detection', symbol: 'circle-open', colour: COLOURS.spike, size: 10 },
+          { name: 'S/N not measured', keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'not-measured', symbol: 'hexagon-open', colour: COLOURS.raw, size: 10 },
+          { name: 'peak added by hand', keep: (pk) => pk.origin === 'added-by-user', symbol: 'star', colour: COLOURS.processed, size: 13 },
+        ];
+        for (const k of kinds) {
+          const pks = live.filter(k.keep);
+          if (!pks.length) continue;
+          traces.push({
+            type: 'scatter', mode: 'markers', name: k.name,
+            x: pks.map((pk) => pk.x), y: pks.map((pk) => pk.y),
+            hovertext: pks.map((pk) => `${names.has(pk) ? `${names.get(pk)}<br>` : ''}apex ${pk.x.toPrecision(6)}<br>height ${pk.height.toPrecision(4)}<br>FWHM ${pk.fwhm.toPrecision(4)} (${pk.leftHalf.toPrecision(6)} – ${pk.rightHalf.toPrecision(6)})<br>start – end ${pk.start.toPrecision(6)} – ${pk.end.toPrecision(6)}<br>S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)}${pk.marks.map((m) => `<br>${MARK_TEXT[m]}`).join('')}${pk.origin === 'added-by-user' ? '<br>added by hand' : ''}<br>click: see it under each choice`),
+            hoverinfo: 'text',
+            marker: { symbol: k.symbol, color: k.colour, size: k.size, line: { width: 1.5, color: k.colour } },
+            xaxis: 'x', yaxis: 'y',
+          });
+        }
+        // Labels that never overlap (issue 17): placed in the figure's own pixels, thinned by priority (plot-labels.ts).
+        // Placed only with the geometry of the view asked for (a zoom redraws once more with the new one).
+        if (geom && (!xRange || (Math.abs(geom.x[0] - xRange[0]) <= 1e-9 * Math.abs(xRange[1] - xRange[0]) && Math.abs(geom.x[1] - xRange[1]) <= 1e-9 * Math.abs(xRange[1] - xRange[0])))) {
+          // Over the whole trace, bumps below the detection limit get no label (they are mostly noise); zoomed in, they may.
+          const inView = live.filter((pk) => pk.x >= geom.x[0] && pk.x <= geom.x[1] && (xRange !== null || pk.flag !== 'below-detection' || pk.origin === 'added-by-user' || names.has(pk)));
+          const items = inView.map((pk) => ({
+            px: ((pk.x - geom.x[0]) / (geom.x[1] - geom.x[0])) * geom.w,
+            py: geom.h - ((pk.y - geom.y[0]) / (geom.y[1] - geom.y[0])) * geom.h,
+            text: `${names.has(pk) ? `${names.get(pk)} · ` : ''}${pk.snr === null ? '?' : pk.snr.toFixed(pk.snr < 10 ? 1 : 0)}`,
+            priority: (names.has(pk) ? 2e9 : 0) + (pk.origin === 'added-by-user' ? 1e9 : 0) + Math.min(pk.snr ?? 0, 1e8),
+          }));
+          const kept = placeLabels(items, geom.w, geom.h).map((k) => ({ pk: inView[k.index], text: items[k.index].text, spot: k.spot }));
+          traces.push({
+            type: 'scatter', mode: 'text', name: 'peak labels (S/N)', showlegend: false, hoverinfo: 'skip',
+            x: kept.map((k) => k.pk.x), y: kept.map((k) => k.pk.y), text: kept.map((k) => k.text),
+            textposition: kept.map((k) => k.spot), textfont: { size: 11, color: COLOURS.ink }, cliponaxis: false,
+            xaxis: 'x', yaxis: 'y',
+          });
+          const below = live.filter((pk) => pk.x >= geom.x[0] && pk.x <= geom.x[1]).length - inView.length;
+          labelCount.current = { shown: kept.length, of: inView.length, below };
+        }
       }
       const r = decimateMinMax(result.residual.x, result.residual.y, from, to, cols);
       traces.push({ type: 'scatter', mode: 'lines', name: 'residual (raw − processed)', x: arr(r.x), y: arr(r.y), line: { color: COLOURS.residual, width: 1 }, xaxis: 'x', yaxis: 'y2' });
     }
     return traces;
-  }, [sample, result, xRange, showRaw, width, showAlt, altList, names]);
+  }, [sample, result, xRange, showRaw, width, showAlt, altList, names, geom]);
 
   const yView = useMemo(() => {
     if (!xRange || !yFits) return null;
@@ -155,6 +213,11 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
     const xTitle = sample ? axisLabel(sample.xName, sample.xUnit) : 'x';
     const yTitle = sample ? axisLabel(sample.yName, sample.yUnit) : 'y';
     const shapes: Record<string, unknown>[] = marked ? [{ type: 'rect', xref: 'x', yref: 'paper', x0: marked[0], x1: marked[1], y0: 0, y1: 1, fillcolor: 'rgba(0,158,115,0.10)', line: { width: 0 } }] : [];
+    // Issue 17: ranges left out of peak finding, shaded grey with a legend key (the trace itself is unchanged).
+    (excluded ?? []).forEach(([a, b], i) => shapes.push({
+      type: 'rect', xref: 'x', yref: 'y domain', x0: a, x1: b, y0: 0, y1: 1, fillcolor: 'rgba(120,128,140,0.22)', line: { width: 0 }, layer: 'below',
+      name: 'left out of peak finding', showlegend: i === 0, legendgroup: 'excluded',
+    }));
     const pk = selectedX === null ? undefined : result?.peaks.find((p) => Math.abs(p.x - selectedX) < 1e-12);
     boundShapes.current = null;
     if (pk) {
@@ -174,7 +237,8 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       height: 560,
       margin: { l: 70, r: 20, t: 10, b: 50 },
       showlegend: true,
-      legend: { orientation: 'h', y: 1.02, x: 0, yanchor: 'bottom' },
+      // Issue 17: the key below the plot, clear of the toolbar (one entry per line style and marker shape).
+      legend: { orientation: 'h', y: -0.15, x: 0, yanchor: 'top', font: { size: 11 } },
       dragmode: markMode ? 'select' : 'zoom',
       selectdirection: 'h',
       hovermode: 'closest',
@@ -188,7 +252,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       plot_bgcolor: '#ffffff',
       font: { family: 'system-ui, sans-serif', size: 12, color: COLOURS.ink },
     };
-  }, [sample, xRange, markMode, marked, selectedX, result, yView]);
+  }, [sample, xRange, markMode, marked, selectedX, result, yView, excluded]);
 
   const onXRange = useCallback((r: [number, number] | null) => setXRange(r), [setXRange]);
   const onShapeX = useCallback((index: number, x0: number) => {
@@ -199,15 +263,43 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   }, []);
   const onSelectX = useCallback((r: [number, number]) => setMarked(r), [setMarked]);
   // Issue 21: a click names a peak while naming is on (clicks to add peaks go through the cursor readout, issue 17).
-  const onClickPoint = useCallback((x: number) => { if (namePick) pickNamedPeakAt(x); }, [namePick]);
-  const onDrawn = useCallback((problem: string | null) => { if (problem) markDrawFailed(`the plot: ${problem}`); else markDrawn(); }, []);
+  // Issue 17: otherwise a click on or near a peak (or a feature some choice loses) selects it: the focused view shows it under each choice.
+  const onClickPoint = useCallback((x: number) => {
+    if (namePick) { pickNamedPeakAt(x); return; }
+    if (addPeakMode || useApp.getState().measureMode || !result) return;
+    let best: number | null = null, bestD = Infinity;
+    for (const pk of result.peaks) {
+      if (pk.removedByUser) continue;
+      const d = Math.abs(pk.x - x);
+      if (d <= Math.max(pk.fwhm, (pk.end - pk.start) / 4) && d < bestD) { best = pk.x; bestD = d; }
+    }
+    for (const r of result.loss?.ledger.rows ?? []) {
+      const d = Math.abs(r.position - x);
+      if (d <= r.tolerance && d < bestD) { best = r.position; bestD = d; }
+    }
+    if (best !== null) useApp.getState().selectPeak(best);
+  }, [namePick, addPeakMode, result]);
+  const onDrawn = useCallback((problem: string | null) => {
+    if (problem) { markDrawFailed(`the plot: ${problem}`); return; }
+    markDrawn();
+    const g = readGeometry(figEl.current);
+    if (g) setGeom((old) => (sameGeometry(old, g) ? old : g));
+  }, []);
+  const onReady = useCallback((el: HTMLElement | null) => { figEl.current = el; onFigure?.(el); }, [onFigure]);
 
   if (!sample) {
     return <div className="plot-empty" ref={boxRef}>No trace yet. Drop a file here or choose one with “Open file”.</div>;
   }
   return (
-    <div ref={boxRef} className="plot-box">
-      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onShapeX={onShapeX} dragShapes={selectedX !== null} onReady={onFigure} onDrawn={onDrawn} pictureName={`${sample.source.fileName.replace(/\.[^.]*$/, '')}-plot`} drawnTag={String(result ? resultSeq : 0)} />
+    <div ref={boxRef} className="plot-box" data-labels={labelCount.current ? `${labelCount.current.shown}/${labelCount.current.of}` : undefined}>
+      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onShapeX={onShapeX} dragShapes={selectedX !== null} onReady={onReady} onDrawn={onDrawn} pictureName={`${sample.source.fileName.replace(/\.[^.]*$/, '')}-plot`} drawnTag={String(result ? resultSeq : 0)} />
+      {labelCount.current && (labelCount.current.shown < labelCount.current.of || labelCount.current.below > 0) && (
+        <p className="small muted plot-label-note" data-testid="label-note">
+          S/N labels on {labelCount.current.shown} of {labelCount.current.of} peaks in view
+          {labelCount.current.below > 0 ? ` (and none on the ${labelCount.current.below} below the detection limit until you zoom in)` : ''}:
+          named peaks first, then those added by hand, then the highest S/N; labels never overlap. Hover a marker for its figures.
+        </p>
+      )}
     </div>
   );
 }

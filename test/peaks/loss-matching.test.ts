@@ -92,6 +92,7 @@ function naiveMatchPeaks(alternatives: readonly Alternative[], options: MatchOpt
       const cmp = pk !== null && a >= refCol;
       return {
         found: pk !== null, peakIndex: p, x: pk ? pk.x : null, snr: pk ? pk.snr : null, standing,
+        height: pk ? pk.height : null, area: pk ? pk.area : null, fwhm: pk ? pk.fwhm : null,
         heightKept: cmp ? pct(pk.height, ref.height) : null,
         widthChange: cmp ? (pct(pk.fwhm - ref.fwhm, ref.fwhm)) : null,
         apexShift: shift, apexShiftPoints: shift === null ? null : shift / dx,

@@ -27,6 +27,8 @@ export interface PeakSettings {
   quantitationLimit: number;
   /** How peaks sharing a valley split the area (absent in sessions saved before it existed: perpendicular drop). */
   split?: SplitRule;
+  /** Issue 17: x-ranges left out of peak finding (the trace is unchanged); absent or empty = none. */
+  excluded?: [number, number][];
 }
 
 export const DEFAULT_PEAK_SETTINGS: PeakSettings = {

@@ -5,6 +5,7 @@
  * limits, and which peaks were added or removed by hand.
  */
 import { ghostCell, ghostColumnHeader } from '../measure/ghost-peaks.ts'; // issue 20
+import { excludedRangesSentence } from '../measure/excluded-ranges.ts';
 import type { AnalyseResult } from '../analysis/index.ts';
 import { writeCsv, type CsvCellOptions } from '../io/csv-write.ts';
 import type { NoiseEstimate } from '../noise.ts';
@@ -166,6 +167,8 @@ export function peakMethodLines(result: AnalyseResult): string[] {
     lines.push(`Limits: detection S/N ${o.limits.detection}, quantitation S/N ${o.limits.quantitation}.`);
     lines.push(`Flags: "${FLAG_TEXT['below-detection']}" when S/N < ${o.limits.detection}; "${FLAG_TEXT.detectable}" when ${o.limits.detection} ≤ S/N < ${o.limits.quantitation}; "${FLAG_TEXT.quantifiable}" when S/N ≥ ${o.limits.quantitation}; "${FLAG_TEXT['not-measured']}" when S/N could not be computed.`);
     lines.push(`Thresholds: prominence at least ${num(o.minProminence)} (y-units), S/N at least ${num(o.minSnr)}, FWHM at least ${num(o.minWidth)} (x-units), apex separation at least ${num(o.minSeparation)} (x-units, 0 = off)${o.negative ? '; troughs detected (heights and areas negative)' : ''}.`);
+    const excludedLine = excludedRangesSentence(o.excluded); // issue 17
+    if (excludedLine) lines.push(excludedLine);
     if (def === 'pharmacopoeial') lines.push(`2H/h noise window: ${o.pharmacopoeialMultiplier} half-height widths${o.pharmacopoeialNoise?.fromBlank ? '; h from the blank, processed by the same steps as the trace measured' : ''}.`);
   }
   lines.push(...PEAK_MEASURE_LINES);

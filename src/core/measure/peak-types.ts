@@ -101,6 +101,8 @@ export interface PeakOptions {
   regionSnr?: boolean;
   /** How peaks sharing a valley split the area (default 'perpendicular-drop'). */
   split?: SplitRule;
+  /** Issue 17: x-ranges left out of peak finding (measure/excluded-ranges.ts); absent = none. */
+  excluded?: readonly (readonly [number, number])[];
   /** S/N limits: detection (3; some labs accept 2) and quantitation (10), ICH Q2(R1). */
   limits: { detection: number; quantitation: number };
 }

@@ -10,6 +10,7 @@ import type { Peak, PeakDecisions, PeakOptions } from '../../measure/peak-types.
 import { applyPeakDecisions, defaultPeakOptions, detectPeaksStepwise } from '../../measure/peak-table.ts';
 import { drain, type Stepwise } from '../pause.ts';
 import type { PeakSettings } from '../request.ts';
+import { withoutExcluded } from '../../measure/excluded-ranges.ts';
 import { pharmacopoeialBlank } from '../../measure/companion-noise.ts'; // issue 20
 
 export interface Measured {
@@ -58,8 +59,10 @@ export function* peaksOnStepwise(measured: Signal, raw: Signal, noise: NoiseRepo
     // The measured trace's own noise correlation (the raw ρ carried through the stack): it sets S/N box factors.
     noiseCorrelation: noise.measuredRho,
   };
+  if (ps.excluded && ps.excluded.length) peakOptions.excluded = ps.excluded.map(([a, b]) => [a, b] as const);
   try {
-    let peaks = yield* detectPeaksStepwise(measured.x, measured.y, peakOptions);
+    // Issue 17: excluded ranges drop detected peaks only; hand decisions below still apply everywhere.
+    let peaks = withoutExcluded(yield* detectPeaksStepwise(measured.x, measured.y, peakOptions), peakOptions.excluded);
     if (decisions && (decisions.added.length || decisions.removed.length || decisions.bounds?.length)) peaks = /* issue 17: bounds */ applyPeakDecisions(peaks, decisions, measured.x, measured.y, peakOptions);
     return { noise, peaks, peakOptions };
   } catch (e) {

@@ -1,0 +1,59 @@
+/**
+ * Issue 17: peak labels that never overlap. Labels are taken in order of
+ * priority (named peaks, then peaks added by hand, then the highest S/N) and
+ * each is kept only when its box, centred above its apex, overlaps no label
+ * already kept and lies inside the plotting area; the rest are dropped (their
+ * markers stay, with the figures on hover).
+ */
+
+export interface LabelItem {
+  /** Apex in pixels from the plotting area's left and top edges. */
+  px: number;
+  py: number;
+  text: string;
+  /** Higher first. */
+  priority: number;
+}
+
+export interface LabelBox { left: number; right: number; top: number; bottom: number }
+
+/** Pixel size of the label font (11 px system sans): a generous width per character, and the line height. */
+export const LABEL_CHAR_WIDTH = 7;
+export const LABEL_HEIGHT = 15;
+/** Gap between the apex and the label's bottom edge (the marker sits between), and the clear space kept around each label. */
+export const LABEL_GAP = 7;
+export const LABEL_PAD = 2;
+
+/** Where a label may go, in the order tried (the names are the plot library's text positions). */
+export const LABEL_SPOTS = ['top center', 'middle right', 'middle left'] as const;
+export type LabelSpot = (typeof LABEL_SPOTS)[number];
+
+/** The box a label would take at one spot: centred above its apex, or beside it at the apex's height. */
+export function labelBox(it: LabelItem, spot: LabelSpot = 'top center'): LabelBox {
+  const w = it.text.length * LABEL_CHAR_WIDTH;
+  if (spot === 'top center') return { left: it.px - w / 2 - LABEL_PAD, right: it.px + w / 2 + LABEL_PAD, top: it.py - LABEL_GAP - LABEL_HEIGHT - LABEL_PAD, bottom: it.py - LABEL_GAP + LABEL_PAD };
+  const left = spot === 'middle right' ? it.px + LABEL_GAP : it.px - LABEL_GAP - w;
+  return { left: left - LABEL_PAD, right: left + w + LABEL_PAD, top: it.py - LABEL_HEIGHT / 2 - LABEL_PAD, bottom: it.py + LABEL_HEIGHT / 2 + LABEL_PAD };
+}
+
+function overlaps(a: LabelBox, b: LabelBox): boolean {
+  return a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom;
+}
+
+/** The labels kept (index into `items` and spot), in the input order; a label is tried above its apex, then right, then left. */
+export function placeLabels(items: readonly LabelItem[], width: number, height: number): { index: number; spot: LabelSpot; box: LabelBox }[] {
+  const order = items.map((_, i) => i).sort((a, b) => items[b].priority - items[a].priority || items[a].px - items[b].px);
+  const kept: { index: number; spot: LabelSpot; box: LabelBox }[] = [];
+  for (const i of order) {
+    const it = items[i];
+    if (!Number.isFinite(it.px) || !Number.isFinite(it.py)) continue;
+    for (const spot of LABEL_SPOTS) {
+      const box = labelBox(it, spot);
+      if (box.left < 0 || box.right > width || box.top < 0 || box.bottom > height) continue;
+      if (kept.some((k) => overlaps(k.box, box))) continue;
+      kept.push({ index: i, spot, box });
+      break;
+    }
+  }
+  return kept.sort((a, b) => a.index - b.index);
+}
