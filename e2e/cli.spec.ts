@@ -1,29 +1,13 @@
 import { expect, test } from '@playwright/test';
-import { execFile } from 'node:child_process';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { buildCli, type BuiltCli } from '../test/cli/build-cli.ts';
+import { useBuiltCli } from './cli-fixture.ts';
 import { addStep, csvBody, download, openWithDemo, reportBody, settled } from './helpers.ts';
 
 // The page's exports of the demo, downloaded, against the command line run on the same files with the
 // method the page saved: equal apart from the time stamp line, the byte-order mark and the confirmation.
 
-let built: BuiltCli;
-const work = mkdtempSync(join(tmpdir(), 'tracewright-e2e-cli-'));
-
-test.beforeAll(async () => {
-  test.setTimeout(180_000);
-  built = await buildCli();
-});
-test.afterAll(() => {
-  rmSync(work, { recursive: true, force: true });
-  if (built) rmSync(built.root, { recursive: true, force: true });
-});
-
-function cli(args: string[]): Promise<{ code: number; stderr: string }> {
-  return new Promise((done) => execFile(process.execPath, [built.bin, ...args], { env: { ...process.env } }, (err, _out, stderr) => done({ code: err ? Number(err.code) : 0, stderr })));
-}
+const { work, cli } = useBuiltCli('tracewright-e2e-cli-');
 
 test('the command line writes the page\'s exports of the demo, with the method the page saved', async ({ page }) => {
   test.setTimeout(120_000);

@@ -1,29 +1,14 @@
 import { expect, test } from '@playwright/test';
-import { execFile } from 'node:child_process';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { buildCli, type BuiltCli } from '../test/cli/build-cli.ts';
+import { useBuiltCli } from './cli-fixture.ts';
 import { addStep, csvBody, download, openWithDemo, reportBody, settled } from './helpers.ts';
 
 // Issue 20: with the blank and the scans following the sample (a moving average before blank subtraction and
 // aligned averaging), the page's exports of the demo against the command line's --blank/--scan on the same files.
 
-let built: BuiltCli;
-const work = mkdtempSync(join(tmpdir(), 'tracewright-e2e-companions-'));
-
-test.beforeAll(async () => {
-  test.setTimeout(180_000);
-  built = await buildCli();
-});
-test.afterAll(() => {
-  rmSync(work, { recursive: true, force: true });
-  if (built) rmSync(built.root, { recursive: true, force: true });
-});
-
-function cli(args: string[]): Promise<{ code: number; stderr: string }> {
-  return new Promise((done) => execFile(process.execPath, [built.bin, ...args], { env: { ...process.env } }, (err, _out, stderr) => done({ code: err ? Number(err.code) : 0, stderr })));
-}
+const { work, cli } = useBuiltCli('tracewright-e2e-companions-');
 
 test('blank and scans follow the sample: the command line\'s --blank and --scan give the page\'s numbers; a scan leaves with one click', async ({ page }) => {
   test.setTimeout(150_000);
