@@ -9,7 +9,7 @@
 import { expect, test, type Page } from '@playwright/test';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { openWithDemo, plotted } from './helpers.ts';
+import { exportFile, openWithDemo, plotted } from './helpers.ts';
 
 const DEMO = 'public/demo';
 const truth = JSON.parse(readFileSync(join(DEMO, 'demo-standards-truth.json'), 'utf8')) as { dyes: { name: string; sampleAmount: number }[]; files: { file: string }[] };
@@ -58,11 +58,8 @@ test('the report and the peak CSV carry the names, the calibration table and the
   await setUp(page);
   await expect(page.getByTestId('amounts-result').locator('td[data-role="interval"][data-low]:not([data-low=""])')).toHaveCount(3, { timeout: 60_000 });
   const get = async (id: string) => {
-    const waiting = page.waitForEvent('download');
-    await page.getByTestId(id).click();
-    const dialog = page.getByTestId('loss-confirm');
-    if (await dialog.waitFor({ timeout: 1500 }).then(() => true, () => false)) await dialog.getByRole('button', { name: 'Export anyway' }).click();
-    return readFileSync(await (await waiting).path(), 'utf8').replace(/^\uFEFF/, '');
+    const { d } = await exportFile(page, id);
+    return readFileSync(await d.path(), 'utf8').replace(/^\uFEFF/, '');
   };
   const report = await get('export-report');
   expect(report).toContain('<h2>Calibration and amounts</h2>');

@@ -2,19 +2,14 @@ import { expect, test, type Download, type Page } from '@playwright/test';
 import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import { strFromU8, unzipSync } from 'fflate';
-import { openWithDemo, trace } from './helpers.ts';
+import { exportFile, openWithDemo, trace } from './helpers.ts';
 
 const CAUTION = "This is not a validated system; the laboratory's own procedures, validated methods and regulators' requirements govern.";
 const DEMO_SHA = createHash('sha256').update(readFileSync('public/demo/demo-sample.csv')).digest('hex');
 
-/** Click an export button; when the loss check asks for a confirmation, give it. */
+/** Click an export button (confirming a loss dialog when asked) and read the file's bytes. */
 async function download(page: Page, testId: string): Promise<{ d: Download; bytes: Buffer; confirmed: boolean }> {
-  const waiting = page.waitForEvent('download');
-  await page.getByTestId(testId).click();
-  const dialog = page.getByTestId('loss-confirm');
-  const confirmed = await dialog.waitFor({ timeout: 1500 }).then(() => true, () => false);
-  if (confirmed) await dialog.getByRole('button', { name: 'Export anyway' }).click();
-  const d = await waiting;
+  const { d, confirmed } = await exportFile(page, testId);
   return { d, bytes: readFileSync(await d.path()), confirmed };
 }
 

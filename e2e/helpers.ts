@@ -36,13 +36,24 @@ export async function sessionSaved(page: Page): Promise<void> {
   await expect(status).toHaveAttribute('data-pending', 'false', { timeout: 30_000 });
 }
 
-/** Click an export button, confirm the loss dialog when it asks, and read the downloaded file as text. */
-export async function download(page: Page, testId: string): Promise<{ d: Download; text: string }> {
+/**
+ * Click an export button and give the loss confirmation when the page asks for one.
+ * Waits for whichever comes first, the download or the dialog, with no short timeout of its own:
+ * on a loaded machine the dialog can take longer than any fixed guess to render (a CI run missed it at 1.5 s).
+ */
+export async function exportFile(page: Page, testId: string): Promise<{ d: Download; confirmed: boolean }> {
   const waiting = page.waitForEvent('download');
   await page.getByTestId(testId).click();
   const dialog = page.getByTestId('loss-confirm');
-  if (await dialog.waitFor({ timeout: 1500 }).then(() => true, () => false)) await dialog.getByRole('button', { name: 'Export anyway' }).click();
-  const d = await waiting;
+  const asked = dialog.waitFor().then(() => true, () => false);
+  const first = await Promise.race([waiting.then(() => 'download' as const), asked.then((shown) => (shown ? 'dialog' as const : 'download' as const))]);
+  if (first === 'dialog') await dialog.getByRole('button', { name: 'Export anyway' }).click();
+  return { d: await waiting, confirmed: first === 'dialog' };
+}
+
+/** Click an export button, confirm the loss dialog when it asks, and read the downloaded file as text. */
+export async function download(page: Page, testId: string): Promise<{ d: Download; text: string }> {
+  const { d } = await exportFile(page, testId);
   return { d, text: readFileSync(await d.path(), 'utf8') };
 }
 

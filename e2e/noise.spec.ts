@@ -1,6 +1,6 @@
 import { expect, test, type Page } from '@playwright/test';
 import { readFileSync } from 'node:fs';
-import { openWithDemo } from './helpers.ts';
+import { exportFile, openWithDemo } from './helpers.ts';
 
 const truth = JSON.parse(readFileSync('public/demo/demo-truth.json', 'utf8'));
 
@@ -21,11 +21,8 @@ test('σ of the raw demo, carried exactly through Savitzky–Golay 11/2, with ev
   await expect(page.getByTestId('noise-checks').locator('li')).not.toHaveCount(0);
   // A smoother's residual has too many runs: the verdict must not read clean.
   await expect(page.getByTestId('residual-verdict')).not.toHaveAttribute('data-level', 'clean');
-  const waiting = page.waitForEvent('download');
-  await page.getByTestId('export-peaks-csv').click();
-  const dialog = page.getByTestId('loss-confirm');
-  if (await dialog.waitFor({ timeout: 1500 }).then(() => true, () => false)) await dialog.getByRole('button', { name: 'Export anyway' }).click();
-  const csv = readFileSync(await (await waiting).path(), 'utf8');
+  const { d } = await exportFile(page, 'export-peaks-csv');
+  const csv = readFileSync(await d.path(), 'utf8');
   expect(csv).toMatch(/# Noise assumptions: /);
   expect(csv).toMatch(/# Noise check \((held|DID NOT HOLD|not tested)\): /);
   expect(csv).toContain('Carried exactly through the linear stack');
