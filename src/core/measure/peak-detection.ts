@@ -235,6 +235,119 @@ export function prominencesOfMaxima(y: ArrayLike<number>, maxima: Int32Array, sc
   return { prominences: p, leftBases: l, rightBases: r };
 }
 
+/** The local maxima whose prominence passes a threshold, as columns (see {@link prominentMaxima}). */
+export interface ProminentMaxima {
+  /** How many passed; every column holds exactly this many entries, in ascending index. */
+  readonly count: number;
+  readonly index: Int32Array;
+  /** SciPy's prominence and bases (peak_prominences, no window). */
+  readonly prominence: Float64Array;
+  readonly leftBase: Int32Array;
+  readonly rightBase: Int32Array;
+  /** SciPy's width at half prominence, in samples (peak_widths, rel_height 0.5). */
+  readonly halfWidth: Float64Array;
+}
+
+/**
+ * The local maxima with prominence ≥ `minProminence`, their bases and their
+ * widths at half prominence, in merged passes: one forward pass over the
+ * samples finds each maximum ({@link localMaxima}'s loop), the lowest
+ * samples of the valley just before it (read while still in cache) and its
+ * left minimum (the left stack sweep of {@link prominencesOfMaxima}); one
+ * backward sweep over the maxima gives the right minimum and the
+ * prominence, and the candidates that pass are written straight into their
+ * columns, widths measured as {@link widthsInto} does. The same operations
+ * on the same numbers as those three functions and the threshold, so the
+ * same indices and bit-identical values (property test in
+ * `test/speed-peaks/`). No array of every sample's size is made: the
+ * per-maximum arrays are only written as far as there are maxima. The
+ * columns returned are the caller's own.
+ */
+export function prominentMaxima(y: Float64Array, minProminence: number): ProminentMaxima {
+  const n = y.length;
+  const cap = Math.max(0, (n >> 1) + 1);
+  const pk = scratchI32('pmIndex', cap), leftMin = scratchF64('pmLeftMin', cap), lBase = scratchI32('pmLeftBase', cap);
+  // Valley k lies before maximum k; valley m after the last one.
+  const vMin = scratchF64('pmValleyMin', cap + 1), vFirst = scratchI32('pmValleyFirst', cap + 1);
+  const stVal = scratchF64('pmStackValue', cap), stMin = scratchF64('pmStackMin', cap), stArg = scratchI32('pmStackArg', cap);
+  let m = 0, top = -1, a = 0;
+  let i = 1;
+  const iMax = n - 1;
+  while (i < iMax) {
+    if (y[i - 1] < y[i]) {
+      let ahead = i + 1;
+      while (ahead < iMax && y[ahead] === y[i]) ahead++;
+      if (y[ahead] < y[i]) {
+        const p = (i + ahead - 1) >> 1;
+        // The valley a … p − 1: lowest value, its first and last sample.
+        let vm = Infinity, first = -1, last = -1;
+        for (let j = a; j < p; j++) {
+          const v = y[j];
+          if (v < vm) { vm = v; first = j; last = j; } else if (v === vm) last = j;
+        }
+        vMin[m] = vm; vFirst[m] = first;
+        const v = y[p];
+        let mn = v, arg = p;
+        if (vm < mn) { mn = vm; arg = last; }
+        while (top >= 0 && stVal[top] <= v) {
+          if (stMin[top] < mn) { mn = stMin[top]; arg = stArg[top]; }
+          top--;
+        }
+        pk[m] = p; leftMin[m] = mn; lBase[m] = arg; m++;
+        top++; stVal[top] = v; stMin[top] = mn; stArg[top] = arg;
+        a = p + 1;
+        i = ahead;
+      }
+    }
+    i++;
+  }
+  if (m > 0) {
+    let vm = Infinity, first = -1;
+    for (let j = a; j < n; j++) { const v = y[j]; if (v < vm) { vm = v; first = j; } }
+    vMin[m] = vm; vFirst[m] = first;
+  }
+  // Backward over the maxima: right minimum and prominence; the passing ones counted, then written in order.
+  const prom = scratchF64('pmProm', m), rBase = scratchI32('pmRightBase', m);
+  let count = 0;
+  top = -1;
+  for (let k = m - 1; k >= 0; k--) {
+    const p = pk[k], v = y[p];
+    let mn = v, arg = p;
+    if (vMin[k + 1] < mn) { mn = vMin[k + 1]; arg = vFirst[k + 1]; }
+    while (top >= 0 && stVal[top] <= v) {
+      if (stMin[top] < mn) { mn = stMin[top]; arg = stArg[top]; }
+      top--;
+    }
+    rBase[k] = arg;
+    const pr = v - Math.max(leftMin[k], mn);
+    prom[k] = pr;
+    if (pr >= minProminence) count++;
+    top++; stVal[top] = v; stMin[top] = mn; stArg[top] = arg;
+  }
+  const index = new Int32Array(count), prominence = new Float64Array(count), leftBase = new Int32Array(count), rightBase = new Int32Array(count);
+  const halfWidth = new Float64Array(count);
+  let c = 0;
+  for (let k = 0; k < m; k++) {
+    const pr = prom[k];
+    if (!(pr >= minProminence)) continue;
+    const p = pk[k], iMin = lBase[k], iMax2 = rBase[k];
+    index[c] = p; prominence[c] = pr; leftBase[c] = iMin; rightBase[c] = iMax2;
+    // widthsInto's walk at relHeight 0.5.
+    const h = y[p] - pr * 0.5;
+    let j = p;
+    while (iMin < j && h < y[j]) j--;
+    let lip = j;
+    if (y[j] < h) lip += (h - y[j]) / (y[j + 1] - y[j]);
+    j = p;
+    while (j < iMax2 && h < y[j]) j++;
+    let rip = j;
+    if (y[j] < h) rip -= (h - y[j]) / (y[j - 1] - y[j]);
+    halfWidth[c] = rip - lip;
+    c++;
+  }
+  return { count, index, prominence, leftBase, rightBase, halfWidth };
+}
+
 function sameIndices(a: ArrayLike<number>, b: Int32Array): boolean {
   if (a.length !== b.length) return false;
   for (let k = 0; k < b.length; k++) if (a[k] !== b[k]) return false;

@@ -9,8 +9,7 @@ import { applyHandBounds } from './hand-bounds.ts';
 import { indexRange } from '../noise.ts';
 import { lowerBound } from '../numeric/decimate.ts';
 import {
-  keepByGap, localMaxima, peakWidths, prominencesOfMaxima, prominenceWalk, scratchF64, widthsInto, checkPeaks,
-  type ProminenceData, type WidthData,
+  keepByGap, peakWidths, prominentMaxima, prominenceWalk, checkPeaks, type ProminenceData,
 } from './peak-detection.ts';
 import { areaAbove, lineAt, measureLocal, mergeShallow, ridersOf, shareValleys, xAt, type LocalMeasure, type MeasureContext } from './peak-bounds.ts';
 import { noiseModel, pharmacopoeialNoise, regionSnr, snrFlag, snrRms } from './peak-snr.ts';
@@ -244,26 +243,16 @@ export function* detectPeaksStepwise(x: Float64Array, y: Float64Array, options: 
   const s = detectionSignal(y, o.negative);
   const c = context(x, s, o);
 
-  const maxima = localMaxima(s, true);
-  const prom = prominencesOfMaxima(s, maxima, true);
-  // Compact the candidates that pass the prominence test in place: these arrays are our own.
-  const idx = maxima, pr = prom.prominences as Float64Array, lb = prom.leftBases as Int32Array, rb = prom.rightBases as Int32Array;
-  let n = 0;
-  for (let k = 0; k < maxima.length; k++) {
-    if (pr[k] >= o.minProminence) {
-      idx[n] = idx[k]; pr[n] = pr[k]; lb[n] = lb[k]; rb[n] = rb[k]; n++;
-    }
-  }
-  // Copies of what the loop reads (the arrays above may be shared scratch, and the loop pauses).
-  const cIdx = idx.slice(0, n), cPr = pr.slice(0, n), cLb = lb.slice(0, n), cRb = rb.slice(0, n);
-  // The half-prominence width only limits how far the first feet are looked for.
-  const w: WidthData = { widths: new Float64Array(n), widthHeights: scratchF64('widthHeights', n), leftIps: scratchF64('leftIps', n), rightIps: scratchF64('rightIps', n) };
-  widthsInto(s, cIdx, 0.5, { prominences: cPr, leftBases: cLb, rightBases: cRb }, w);
+  // Maxima, prominences, the prominence test and the half-prominence widths in merged passes (peak-detection.ts);
+  // the columns are this call's own (the loop pauses). The half-prominence width only limits how far the first
+  // feet are looked for.
+  const cand = prominentMaxima(s, o.minProminence);
+  const n = cand.count, cIdx = cand.index, cPr = cand.prominence, cLb = cand.leftBase, cRb = cand.rightBase, cW = cand.halfWidth;
 
   const kept: Candidate[] = [];
   for (let k = 0; k < n; k++) {
     if (k % DETECT_PAUSE_EVERY === DETECT_PAUSE_EVERY - 1) yield;
-    const m = measureLocal(c, cIdx[k], w.widths[k]);
+    const m = measureLocal(c, cIdx[k], cW[k]);
     if (!(m.height > 0)) continue;
     if (o.minWidth > 0 && xAt(x, m.rightIp) - xAt(x, m.leftIp) < o.minWidth) continue;
     if (o.minSnr > 0) {
