@@ -38,14 +38,16 @@ export interface WidthData {
  * Temporaries of the detector, reused between calls: detection is
  * synchronous, so one set serves every call and the collector has less to
  * free. Only arrays up to SCRATCH_KEEP entries are kept (traces up to about
- * 5·10⁵ points, at most some 6 MB); longer ones are made for the call only,
- * since at 10⁶ points keeping them would pin about 20 MB for good.
- * Nothing returned to a caller is ever a scratch array.
+ * 5·10⁵ points: the merged candidate pass keeps eight arrays of up to 2¹⁸
+ * entries, 12 MB reserved, of which only as many entries as the trace has
+ * maxima, and the stack's depth, are ever written); longer ones are made for
+ * the call only, since at 10⁶ points keeping them would pin about 20 MB for
+ * good. Nothing returned to a caller is ever a scratch array.
  */
 const SCRATCH_KEEP = 1 << 18;
 const scratchPool = new Map<string, Float64Array | Int32Array>();
 
-export function scratchF64(name: string, length: number): Float64Array {
+function scratchF64(name: string, length: number): Float64Array {
   if (length > SCRATCH_KEEP) return new Float64Array(length);
   const a = scratchPool.get(name);
   if (a instanceof Float64Array && a.length >= length) return a.subarray(0, length);
@@ -54,7 +56,7 @@ export function scratchF64(name: string, length: number): Float64Array {
   return b.subarray(0, length);
 }
 
-export function scratchI32(name: string, length: number): Int32Array {
+function scratchI32(name: string, length: number): Int32Array {
   if (length > SCRATCH_KEEP) return new Int32Array(length);
   const a = scratchPool.get(name);
   if (a instanceof Int32Array && a.length >= length) return a.subarray(0, length);
@@ -78,11 +80,11 @@ export function findLocalMaxima(y: ArrayLike<number>): Int32Array {
   return localMaxima(y).slice();
 }
 
-/** {@link findLocalMaxima} as a view on a larger array (no copy; `scratch` true: a reused one), for internal use. */
-export function localMaxima(y: ArrayLike<number>, scratch = false): Int32Array {
+/** {@link findLocalMaxima} as a view on a larger array (no copy), for internal use. */
+function localMaxima(y: ArrayLike<number>): Int32Array {
   const n = y.length;
   const len = Math.max(0, (n >> 1) + 1);
-  const out = scratch ? scratchI32('maxima', len) : new Int32Array(len);
+  const out = new Int32Array(len);
   let m = 0;
   let i = 1;
   const iMax = n - 1;
@@ -188,11 +190,9 @@ function prominenceSweep(y: ArrayLike<number>, peaks: ArrayLike<number>, out: { 
  * prominences as the sample-by-sample walk. `maxima` must be
  * {@link findLocalMaxima}(y).
  */
-export function prominencesOfMaxima(y: ArrayLike<number>, maxima: Int32Array, scratch = false): ProminenceData {
+function prominencesOfMaxima(y: ArrayLike<number>, maxima: Int32Array): ProminenceData {
   const n = y.length, m = maxima.length;
-  const p = scratch ? scratchF64('prom', m) : new Float64Array(m);
-  const l = scratch ? scratchI32('leftBase', m) : new Int32Array(m);
-  const r = scratch ? scratchI32('rightBase', m) : new Int32Array(m);
+  const p = new Float64Array(m), l = new Int32Array(m), r = new Int32Array(m);
   if (m === 0) return { prominences: p, leftBases: l, rightBases: r };
   // Valley k lies between maximum k − 1 and maximum k (valley 0 and valley m touch the ends).
   // For walks going left the nearest lowest sample is the last one; going right, the first.
@@ -307,7 +307,9 @@ export function prominentMaxima(y: Float64Array, minProminence: number): Promine
     vMin[m] = vm; vFirst[m] = first;
   }
   // Backward over the maxima: right minimum and prominence; the passing ones counted, then written in order.
-  const prom = scratchF64('pmProm', m), rBase = scratchI32('pmRightBase', m);
+  // The prominence of maximum k replaces its left minimum, its right base the first sample of valley k + 1
+  // (read just before, never again).
+  const prom = leftMin, rBase = vFirst;
   let count = 0;
   top = -1;
   for (let k = m - 1; k >= 0; k--) {
@@ -318,7 +320,7 @@ export function prominentMaxima(y: Float64Array, minProminence: number): Promine
       if (stMin[top] < mn) { mn = stMin[top]; arg = stArg[top]; }
       top--;
     }
-    rBase[k] = arg;
+    rBase[k + 1] = arg;
     const pr = v - Math.max(leftMin[k], mn);
     prom[k] = pr;
     if (pr >= minProminence) count++;
@@ -330,7 +332,7 @@ export function prominentMaxima(y: Float64Array, minProminence: number): Promine
   for (let k = 0; k < m; k++) {
     const pr = prom[k];
     if (!(pr >= minProminence)) continue;
-    const p = pk[k], iMin = lBase[k], iMax2 = rBase[k];
+    const p = pk[k], iMin = lBase[k], iMax2 = rBase[k + 1];
     index[c] = p; prominence[c] = pr; leftBase[c] = iMin; rightBase[c] = iMax2;
     // widthsInto's walk at relHeight 0.5.
     const h = y[p] - pr * 0.5;
