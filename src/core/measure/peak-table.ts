@@ -154,7 +154,7 @@ function finish(c: MeasureContext, y: Float64Array, sign: number, all: Candidate
     if (k.origin === 'detected' && ((row.snr !== null && row.snr < o.minSnr) || (o.minWidth > 0 && row.fwhm < o.minWidth))) continue;
     // A peak is more signal than its baseline between its bounds: a detected bump whose area above its own line is
     // not positive (its apex above the line, its flanks below: noise on a sagging stretch) is no peak.
-    if (!process.env.NOAREA && k.origin === 'detected' && !(sign * row.area > 0)) continue;
+    if (k.origin === 'detected' && !(sign * row.area > 0)) continue;
     out.push(row);
   }
   return out;
