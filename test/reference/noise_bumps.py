@@ -32,6 +32,7 @@ MAX_PASSES = 2
 FLANK_RIDER_NARROWER = 10  # a bump on a flank rides only when this many times narrower (and sharing a valley
                            # would cut off more of the neighbour than the bump holds)
 APEX_HALF_WINDOW_MAX = 50
+SAME_TOP_SHARE = 0.25     # rule 6b: two maxima whose apexes lie this share of the narrower width apart are one top
 MIN_PROM, MIN_SNR, MIN_WIDTH, DL, QL = 2.0, 2.0, 2.5, 3.0, 10.0
 SIGMA = 1.0
 
@@ -434,15 +435,67 @@ def merge_shallow(s, ms):
             k += 1
             continue
         v = shared_valley(s, A, B)
-        lower = k if A.h <= B.h else k + 1
+        # Two maxima of one top: apexes within a quarter of the narrower half-height width (x is the sample index);
+        # then the one of smaller prominence goes, otherwise the lower one is tested.
+        same_top = abs(A.xa - B.xa) <= SAME_TOP_SHARE * min(A.rip - A.lip, B.rip - B.lip)
+        if same_top and A.prom != B.prom:
+            lower = k if A.prom < B.prom else k + 1
+        else:
+            lower = k if A.h <= B.h else k + 1
         m = out[lower]
         rise = (box_mean(s, m.i, m.box) - box_mean(s, v, m.box)) / (SIGMA / math.sqrt(2 * m.box + 1))
-        if rise < DL:
+        if same_top or rise < DL:
             out.pop(lower)
             k = max(0, k - 1)
         else:
             k += 1
     return out
+
+
+def side_cap(m, d):
+    hw = m.i - m.lip if d < 0 else m.rip - m.i
+    return max(2, math.ceil(WIDTH_LIMIT * max(hw, 0.5)))
+
+
+def clamp_once(s, m):
+    cl, cr = side_cap(m, -1), side_cap(m, 1)
+    now = False
+    if m.i - m.start > cl:
+        m.start, m.sk, now = max(0, m.i - cl), 'width-limit', True
+    if m.end - m.i > cr:
+        m.end, m.ek, now = min(len(s) - 1, m.i + cr), 'width-limit', True
+    return now
+
+
+def own_line(s, m):
+    xa, ya = level(s, m.start, -1, m.sk, m.box)
+    xb, yb = level(s, m.end, 1, m.ek, m.box)
+    m.line = line_through(xa, ya, xb, yb)
+    shape(s, m, m.rip - m.lip)
+
+
+def clamp_to_cap(s, m):
+    moved = False
+    for _ in range(4):
+        if not clamp_once(s, m):
+            break
+        moved = True
+        if m.split == 'perpendicular-drop':
+            break
+        own_line(s, m)
+    return moved
+
+
+def cap_bounds(s, m):
+    """The width limit, last (capBounds in peak-bounds.ts): bounds pulled in to 8 final half-widths; own lines
+    again; a group member with no area above the group's line gets its own valley-to-valley line."""
+    moved = clamp_to_cap(s, m)
+    if m.split == 'perpendicular-drop' and (moved or m.h > 0) and not area_above(s, m.line, m.start, m.end) > 0:
+        m.split = 'valley-to-valley'
+        own_line(s, m)
+        moved = clamp_to_cap(s, m)
+    if moved:
+        clamp_once(s, m)
 
 
 def share_valleys(s, ms, grouped):
@@ -498,8 +551,9 @@ def table(s):
     peaks, prom, lb, rb = peaks[keep], prom[keep], lb[keep], rb[keep]
     widths = signal.peak_widths(s, peaks, rel_height=0.5, prominence_data=(prom, lb, rb))[0]
     cands = []
-    for i, wp in zip(peaks, widths):
+    for i, wp, pr in zip(peaks, widths, prom):
         m = measure_local(s, int(i), float(wp))
+        m.prom = float(pr)
         if not m.h > 0:
             continue
         if m.rip - m.lip < MIN_WIDTH:
@@ -514,10 +568,13 @@ def table(s):
     rows = free + [m for m, h in zip(cands, rid) if h >= 0]
     out = []
     for m in rows:
+        cap_bounds(s, m)
         if not m.h > 0:
             continue
         snr = m.h / SIGMA
         if snr < MIN_SNR or (m.rip - m.lip) < MIN_WIDTH:
+            continue
+        if not area_above(s, m.line, m.start, m.end) > 0:  # a bump with no area above its own line is no peak
             continue
         out.append(snr)
     return out

@@ -62,10 +62,20 @@
  *    peak's (the row's note says so). And of
  *    two touching peaks, one whose box average rises less than the
  *    detection limit × σ_B above the valley is part of the other (a broad
- *    noisy top split in two) and is dropped ({@link mergeShallow}). Where at least one of the two stands at or
+ *    noisy top split in two) and is dropped; so is the one of smaller
+ *    SciPy prominence where their fitted apexes lie within a quarter of the
+ *    narrower one's half-height width of each other (two maxima of one top,
+ *    both measuring the whole top) ({@link mergeShallow}). Where at least one of the two stands at or
  *    above the detection limit the split rule applies (perpendicular drop:
  *    one line under the group; valley to valley: each its own line); a
  *    valley between two peaks below the limit just stops both bounds.
+ * 7. The width limit, last ({@link capBounds}): a bound further than
+ *    {@link WIDTH_LIMIT} of the peak's final own half-widths (per side)
+ *    from the apex sample, as a shared valley can be, is pulled in to that
+ *    distance; a peak with its own line gets it again from the new bounds;
+ *    a member of a perpendicular-drop group with no area above the group's
+ *    line gets its own valley-to-valley line (as one with no height does).
+ *    peak-table.ts drops a detected peak whose area is not positive.
  *
  * Area: trapezoid rule of (trace − baseline line) between the bounds.
  */
@@ -88,6 +98,8 @@ const RETURN_BEYOND = 2;
 const FLANK_RIDER_NARROWER = 10;
 /** Half-window of the apex-level fit: FWHM/6 samples, at least 1, at most this many. */
 const APEX_HALF_WINDOW_MAX = 50;
+/** Two touching maxima whose apexes lie within this share of the narrower one's own half-height width are one top (rule 6b). */
+const SAME_TOP_SHARE = 0.25;
 /** Samples averaged for a level beyond a bound, at least. */
 const LEVEL_POINTS_MIN = 5;
 
@@ -580,6 +592,12 @@ function rewalk(c: MeasureContext, m: LocalMeasure, left: boolean, right: boolea
   return moved;
 }
 
+/** The farthest a bound of m may lie from its apex on side dir, in samples: {@link WIDTH_LIMIT} own half-widths of that side (as in rule 3). */
+function sideCap(m: LocalMeasure, dir: -1 | 1): number {
+  const hw = dir < 0 ? m.index - m.leftIp : m.rightIp - m.index;
+  return Math.max(2, Math.ceil(WIDTH_LIMIT * Math.max(hw, 0.5)));
+}
+
 /** Area of s − line between samples i0 and i1 (trapezoid rule). */
 export function areaAbove(x: Float64Array, s: Float64Array, line: Line, i0: number, i1: number): number {
   let a = 0;
@@ -680,14 +698,17 @@ export function ridersOf(c: MeasureContext, ms: readonly LocalMeasure[]): Int32A
 }
 
 /**
- * Rule 6b: of two touching neighbours (neither riding on the other), one
- * whose box average at its apex rises less than `minRise` × σ_B (its own
- * box) above the valley between them is not a peak of its own (a broad
- * noisy top split in two): it is dropped, unless `keep` says otherwise
+ * Rule 6b: of two touching neighbours (neither riding on the other), the
+ * lower is not a peak of its own (a broad noisy top split in two) when its
+ * box average at its apex rises less than `minRise` × σ_B (its own box)
+ * above the valley between them, or when the two apexes lie within
+ * {@link SAME_TOP_SHARE} of the narrower one's half-height width of each
+ * other (both measured the same top; then the one of smaller prominence
+ * goes): it is dropped, unless `keep` says otherwise
  * (peaks placed by hand). Repeats until no pair changes. Returns the peaks
  * kept, in order.
  */
-export function mergeShallow(c: MeasureContext, ms: LocalMeasure[], minRise: number, keep: (m: LocalMeasure) => boolean): LocalMeasure[] {
+export function mergeShallow(c: MeasureContext, ms: LocalMeasure[], minRise: number, keep: (m: LocalMeasure) => boolean, prominenceOf: (m: LocalMeasure) => number = () => 0): LocalMeasure[] {
   const { s, noise } = c;
   const out = ms.slice();
   let k = 0;
@@ -696,9 +717,16 @@ export function mergeShallow(c: MeasureContext, ms: LocalMeasure[], minRise: num
     if (!touching(A, B)) { k++; continue; }
     const [v] = sharedValley(c, A, B);
     const rise = (m: LocalMeasure) => (boxMean(s, m.index, m.box) - boxMean(s, v, m.box)) / (noise.ruleSigmaAt(m.index) * noise.boxFactor(2 * m.box + 1));
-    const lower = A.height <= B.height ? k : k + 1;
+    // Two maxima of one broad noisy top both measure that whole peak: their apexes (fitted over the top) fall
+    // together, while the box average at the lower one, a few samples from the valley on the top's curve, can
+    // still rise well above the valley's (the top's own curvature over the box). Of those the one with the
+    // smaller prominence goes (the other carries the peak's own prominence).
+    const fwx = (q: LocalMeasure) => xAt(c.x, q.rightIp) - xAt(c.x, q.leftIp);
+    const sameTop = Math.abs(A.xApex - B.xApex) <= SAME_TOP_SHARE * Math.min(fwx(A), fwx(B));
+    const pa = prominenceOf(A), pb = prominenceOf(B);
+    const lower = sameTop && pa !== pb ? (pa < pb ? k : k + 1) : A.height <= B.height ? k : k + 1;
     const m = out[lower];
-    if (rise(m) < minRise && !keep(m)) {
+    if ((sameTop || rise(m) < minRise) && !keep(m)) {
       out.splice(lower, 1);
       k = Math.max(0, k - 1);
     } else {
@@ -779,4 +807,59 @@ export function shareValleys(c: MeasureContext, ms: LocalMeasure[], grouped: rea
     }
     k = e + 1;
   }
+}
+
+/**
+ * The width limit, last: a bound further than {@link WIDTH_LIMIT} of the
+ * peak's final half-widths (of that side) from its apex is pulled in to
+ * that distance ('width-limit'). Shared valleys are found between apexes
+ * whatever their distance, and a width can narrow after the bounds were
+ * walked: a 6-sample-wide peak between two neighbours kept valleys 26 and
+ * 49 samples out. A peak with its own line gets that line again from the
+ * levels at its bounds; a member of a perpendicular-drop group keeps the
+ * group's line unless its area above it is not positive (a small peak in a
+ * sagging stretch, as for a height below the line in
+ * {@link shareValleys}): then its own valley-to-valley line. Changes m in place.
+ */
+export function capBounds(c: MeasureContext, m: LocalMeasure): void {
+  const sigma = c.noise.ruleSigmaAt(m.index);
+  let moved = clampToCap(c, m, sigma);
+  if (m.split === 'perpendicular-drop' && (moved || m.height > 0) && !(areaAbove(c.x, c.s, m.line, m.start, m.end) > 0)) {
+    m.split = 'valley-to-valley';
+    ownLine(c, m, sigma);
+    moved = clampToCap(c, m, sigma);
+  }
+  // A width that kept moving with its line: the bounds are pulled in once more, the line kept.
+  if (moved) clampOnce(c, m);
+}
+
+/** Pull m's bounds in to its cap; where m has its own line, that line and the shape again, until they settle (at most 4 times). True when a bound moved. */
+function clampToCap(c: MeasureContext, m: LocalMeasure, sigma: number): boolean {
+  let moved = false;
+  for (let pass = 0; pass < 4; pass++) {
+    if (!clampOnce(c, m)) break;
+    moved = true;
+    if (m.split === 'perpendicular-drop') break;
+    ownLine(c, m, sigma);
+  }
+  return moved;
+}
+
+/** One clamp of m's bounds to {@link WIDTH_LIMIT} own half-widths; true when one moved. */
+function clampOnce(c: MeasureContext, m: LocalMeasure): boolean {
+  const last = c.s.length - 1;
+  const capL = sideCap(m, -1), capR = sideCap(m, 1);
+  let now = false;
+  if (m.index - m.start > capL) { m.start = Math.max(0, m.index - capL); m.startKind = 'width-limit'; now = true; }
+  if (m.end - m.index > capR) { m.end = Math.min(last, m.index + capR); m.endKind = 'width-limit'; now = true; }
+  return now;
+}
+
+/** m's own line through the levels at its bounds (rule 4), and its shape against it. */
+function ownLine(c: MeasureContext, m: LocalMeasure, sigma: number): void {
+  level(c, m.start, -1, m.startKind, m.box, sigma);
+  const xa = outA, ya = outB;
+  level(c, m.end, 1, m.endKind, m.box, sigma);
+  m.line = lineThrough(xa, ya, outA, outB);
+  shape(c, m, m.rightIp - m.leftIp);
 }

@@ -11,7 +11,7 @@ import { lowerBound } from '../numeric/decimate.ts';
 import {
   keepByGap, peakWidths, prominentMaxima, prominenceWalk, checkPeaks, type ProminenceData,
 } from './peak-detection.ts';
-import { areaAbove, lineAt, measureLocal, mergeShallow, ridersOf, shareValleys, xAt, type LocalMeasure, type MeasureContext } from './peak-bounds.ts';
+import { areaAbove, capBounds, lineAt, measureLocal, mergeShallow, ridersOf, shareValleys, xAt, type LocalMeasure, type MeasureContext } from './peak-bounds.ts';
 import { noiseModel, pharmacopoeialNoise, regionSnr, snrFlag, snrRms } from './peak-snr.ts';
 import type { Peak, PeakDecisions, PeakMark, PeakOptions } from './peak-types.ts';
 
@@ -123,7 +123,8 @@ function makePeak(c: MeasureContext, y: Float64Array, sign: number, k: Candidate
  * are merged, and neighbours share valleys (rule 6 of peak-bounds.ts); then
  * the rows are made. A peak joins a group when it stands at or above the detection
  * limit by its own measure, when its S/N cannot be measured, or when the
- * user placed it. Detected peaks left at or below their baseline are dropped.
+ * user placed it. Detected peaks left at or below their baseline (height or
+ * area not positive) are dropped.
  */
 function finish(c: MeasureContext, y: Float64Array, sign: number, all: Candidate[], o: PeakOptions): Peak[] {
   all.sort((a, b) => a.m.index - b.m.index);
@@ -134,7 +135,7 @@ function finish(c: MeasureContext, y: Float64Array, sign: number, all: Candidate
   }
   const of = new Map(all.map((k) => [k.m, k]));
   const free = all.filter((_, k) => riders[k] < 0);
-  const cands = mergeShallow(c, free.map((k) => k.m), o.limits.detection, (m) => of.get(m)?.origin === 'added-by-user').map((m) => of.get(m) as Candidate);
+  const cands = mergeShallow(c, free.map((k) => k.m), o.limits.detection, (m) => of.get(m)?.origin === 'added-by-user', (m) => of.get(m)?.prominence ?? 0).map((m) => of.get(m) as Candidate);
   const grouped = cands.map((k) => {
     if (k.origin === 'added-by-user') return true;
     const snr = snrOf(c, y, k.m, o);
@@ -145,10 +146,14 @@ function finish(c: MeasureContext, y: Float64Array, sign: number, all: Candidate
   const top = maxOf(c.s);
   const out: Peak[] = [];
   for (const k of rows) {
+    capBounds(c, k.m);
     if (k.origin === 'detected' && !(k.m.height > 0)) continue;
     const row = makePeak(c, y, sign, k, o, top);
     // Sharing a valley can lower a height: the thresholds hold for the final measures too.
     if (k.origin === 'detected' && ((row.snr !== null && row.snr < o.minSnr) || (o.minWidth > 0 && row.fwhm < o.minWidth))) continue;
+    // A peak is more signal than its baseline between its bounds: a detected bump whose area above its own line is
+    // not positive (its apex above the line, its flanks below: noise on a sagging stretch) is no peak.
+    if (k.origin === 'detected' && !(sign * row.area > 0)) continue;
     out.push(row);
   }
   return out;
@@ -200,8 +205,8 @@ export function defaultPeakOptions(noiseSigma: number, dx = 1): PeakOptions {
  * with prominence ≥ minProminence. Each is measured against its own local
  * baseline (peak-bounds.ts: own half-height width, apex from a parabola
  * over its own top, bounds where the trace returns to the baseline or at a
- * valley, never beyond 6 half-widths of its own) and kept when its height
- * above that baseline is positive (looking for peaks never lists a dip,
+ * valley, never beyond 8 half-widths of its own) and kept when its height
+ * and area above that baseline are positive (looking for peaks never lists a dip,
  * and the other way round), its own half-height width is ≥ minWidth
  * (x-units) and its S/N ≥ minSnr (definition in use; S/N that cannot be
  * measured, e.g. with σ = 0, keeps the candidate). Then SciPy's distance
