@@ -43,7 +43,11 @@ export async function sessionSaved(page: Page): Promise<void> {
  */
 export async function exportFile(page: Page, testId: string): Promise<{ d: Download; confirmed: boolean }> {
   const waiting = page.waitForEvent('download');
-  await page.getByTestId(testId).click();
+  const button = page.getByTestId(testId);
+  await expect(button).toBeEnabled({ timeout: 30_000 });
+  // A click event on the button itself, not a mouse click at its coordinates: a notice appearing above the panel
+  // moves the button between Playwright's position check and the click, and a mouse click then lands beside it.
+  await button.dispatchEvent('click');
   const dialog = page.getByTestId('loss-confirm');
   const asked = dialog.waitFor().then(() => true, () => false);
   const first = await Promise.race([waiting.then(() => 'download' as const), asked.then((shown) => (shown ? 'dialog' as const : 'download' as const))]);
