@@ -14,6 +14,10 @@ import { pickNamedPeakAt } from './calibration/pick.ts';
 import { visibleYRange } from './plot-view.ts';
 import { placeLabels } from './plot-labels.ts';
 import type { Peak } from '../core/measure/peak-types.ts';
+import type { Signal } from '../core/steps/types.ts';
+import { farOf } from '../worker/bridge.ts';
+import { sameView, type Drawn, type FarSeries, type View } from '../worker/series.ts';
+import { getBackend } from './controller.ts';
 
 /** The main plotting area as last drawn: axis ranges and size in pixels (issue 17: label placement). */
 interface Geometry { x: [number, number]; y: [number, number]; w: number; h: number }
@@ -49,8 +53,41 @@ function useWidth(): [React.RefObject<HTMLDivElement | null>, number] {
   return [ref, w];
 }
 
-function arr(a: Float64Array): number[] {
-  return Array.from(a);
+/** Every series of a result that stayed in the worker (worker/series.ts). */
+function farSeriesOf(r: { processed: Signal; residual: Signal; baseline?: Float64Array; intermediate?: Signal | null; loss: { outcomes: { processed: Signal }[] } | null } | null): FarSeries[] {
+  if (!r) return [];
+  return [r.processed, r.residual, r.baseline, r.intermediate, ...(r.loss?.outcomes.map((o) => o.processed) ?? [])]
+    .map(farOf).filter((f): f is FarSeries => f !== undefined);
+}
+
+/**
+ * The worker's drawings of its long series for the view shown: those that came with a stage for another view
+ * (a zoom, a pan or a resize since) are asked for again; the view goes to the worker so later stages come
+ * drawn for it. Short series are decimated here.
+ */
+function useDrawn(far: FarSeries[], view: View): (f: FarSeries) => Drawn {
+  const [fresh, setFresh] = useState<ReadonlyMap<number, Drawn>>(new Map());
+  useEffect(() => {
+    const have = (f: FarSeries) => sameView(f.drawn.view, view) || (fresh.get(f.ref) !== undefined && sameView(fresh.get(f.ref)!.view, view));
+    const need = far.filter((f) => !have(f));
+    if (!need.length && !far.length) return;
+    let stale = false;
+    getBackend().draw(need.map((f) => f.ref), view).then((ds) => {
+      if (stale || !ds.length) return;
+      setFresh((m) => {
+        const keep = new Map([...m].filter(([ref]) => far.some((f) => f.ref === ref)));
+        ds.forEach((d, i) => keep.set(need[i].ref, d));
+        return keep;
+      });
+    }, () => undefined /* a series let go meanwhile: the next stage brings its own drawing */);
+    return () => { stale = true; };
+    // `fresh` is read, not watched: a drawing that lands must not ask again.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [far, view]);
+  return useCallback((f: FarSeries) => {
+    const d = fresh.get(f.ref);
+    return d && sameView(d.view, view) ? d : f.drawn;
+  }, [fresh, view]);
 }
 
 export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) => void }) {
@@ -81,31 +118,39 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const addPeakMode = useApp((s) => s.addPeakMode);
   const boundShapes = useRef<{ start: number; end: number; peak: { x: number; start: number; end: number } } | null>(null);
 
+  const view = useMemo<View>(() => ({ from: xRange ? xRange[0] : -Infinity, to: xRange ? xRange[1] : Infinity, columns: Math.max(200, width - 120) }), [xRange, width]);
+  const far = useMemo(() => farSeriesOf(result), [result]);
+  const drawnFar = useDrawn(far, view);
+  // The raw trace lives on the page (its master copy): decimated here, again only when the view changes.
+  const rawDrawn = useMemo(() => (sample ? decimateMinMax(sample.x, sample.y, view.from, view.to, view.columns * 2) : null), [sample, view]);
+
   const data = useMemo<PlotData[]>(() => {
     if (!sample) return [];
-    const from = xRange ? xRange[0] : -Infinity;
-    const to = xRange ? xRange[1] : Infinity;
-    const cols = Math.max(200, width - 120);
+    const { from, to, columns } = view;
+    /** A series as drawn: the worker's drawing when it stayed there, else decimated here (it is short). */
+    const line = (x: Float64Array, y: Float64Array, key: Signal | Float64Array): { x: Float64Array; y: Float64Array } => {
+      const f = farOf(key);
+      return f ? drawnFar(f) : decimateMinMax(x, y, from, to, columns * 2);
+    };
     const traces: PlotData[] = [];
     labelCount.current = null;
-    if (showRaw || !result) {
-      const d = decimateMinMax(sample.x, sample.y, from, to, cols);
-      traces.push({ type: 'scatter', mode: 'lines', name: 'raw', x: arr(d.x), y: arr(d.y), line: { color: COLOURS.raw, width: 1 }, hoverinfo: 'x+y', xaxis: 'x', yaxis: 'y' });
+    if ((showRaw || !result) && rawDrawn) {
+      traces.push({ type: 'scatter', mode: 'lines', name: 'raw', x: rawDrawn.x, y: rawDrawn.y, line: { color: COLOURS.raw, width: 1 }, hoverinfo: 'x+y', xaxis: 'x', yaxis: 'y' });
     }
     if (result) {
-      if (result.baseline && result.baseline.length === result.processed.x.length) {
-        const d = decimateMinMax(result.processed.x, result.baseline, from, to, cols);
-        traces.push({ type: 'scatter', mode: 'lines', name: 'baseline', x: arr(d.x), y: arr(d.y), line: { color: COLOURS.baseline, width: 1.5, dash: 'dash' }, xaxis: 'x', yaxis: 'y' });
+      if (result.baseline && (farOf(result.baseline) || result.baseline.length === result.processed.x.length)) {
+        const d = line(result.processed.x, result.baseline, result.baseline);
+        traces.push({ type: 'scatter', mode: 'lines', name: 'baseline', x: d.x, y: d.y, line: { color: COLOURS.baseline, width: 1.5, dash: 'dash' }, xaxis: 'x', yaxis: 'y' });
       }
       if (result.intermediate) {
-        const d = decimateMinMax(result.intermediate.x, result.intermediate.y, from, to, cols);
-        traces.push({ type: 'scatter', mode: 'lines', name: 'chosen step output', x: arr(d.x), y: arr(d.y), line: { color: COLOURS.intermediate, width: 1.2, dash: 'dot' }, xaxis: 'x', yaxis: 'y' });
+        const d = line(result.intermediate.x, result.intermediate.y, result.intermediate);
+        traces.push({ type: 'scatter', mode: 'lines', name: 'chosen step output', x: d.x, y: d.y, line: { color: COLOURS.intermediate, width: 1.2, dash: 'dot' }, xaxis: 'x', yaxis: 'y' });
       }
       if (showAlt && result.loss) {
         result.loss.outcomes.forEach((o) => {
           const i = altList.findIndex((a) => a.id === o.id);
-          const d = decimateMinMax(o.processed.x, o.processed.y, from, to, cols);
-          traces.push({ type: 'scatter', mode: 'lines', name: o.label, x: arr(d.x), y: arr(d.y), line: { color: ALTERNATIVE_COLOURS[(i < 0 ? 0 : i) % ALTERNATIVE_COLOURS.length], width: 1.2, dash: ['dash', 'dot', 'dashdot', 'longdash', 'longdashdot', 'solid'][(i < 0 ? 0 : i) % 6] }, xaxis: 'x', yaxis: 'y' });
+          const d = line(o.processed.x, o.processed.y, o.processed);
+          traces.push({ type: 'scatter', mode: 'lines', name: o.label, x: d.x, y: d.y, line: { color: ALTERNATIVE_COLOURS[(i < 0 ? 0 : i) % ALTERNATIVE_COLOURS.length], width: 1.2, dash: ['dash', 'dot', 'dashdot', 'longdash', 'longdashdot', 'solid'][(i < 0 ? 0 : i) % 6] }, xaxis: 'x', yaxis: 'y' });
         });
       }
       if (result.loss) {
@@ -116,7 +161,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
           const ly = interpolateLinear(sample.x, sample.y, lx);
           traces.push({
             type: 'scatter', mode: 'markers', name: 'features lost by some choice',
-            x: arr(lx), y: arr(ly),
+            x: lx, y: ly,
             text: lost.map((r) => `lost with: ${r.cells.map((c, k) => (c.found || k < r.firstFoundIn ? null : result.loss!.ledger.alternatives[k].label)).filter(Boolean).join(', ')}`),
             hoverinfo: 'x+text',
             marker: { symbol: 'circle-open', size: 22, color: '#c0392b', line: { width: 2.5, color: '#c0392b' } },
@@ -124,8 +169,8 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
           });
         }
       }
-      const p = decimateMinMax(result.processed.x, result.processed.y, from, to, cols);
-      traces.push({ type: 'scatter', mode: 'lines', name: 'processed', x: arr(p.x), y: arr(p.y), line: { color: COLOURS.processed, width: 1.8 }, xaxis: 'x', yaxis: 'y' });
+      const p = line(result.processed.x, result.processed.y, result.processed);
+      traces.push({ type: 'scatter', mode: 'lines', name: 'processed', x: p.x, y: p.y, line: { color: COLOURS.processed, width: 1.8 }, xaxis: 'x', yaxis: 'y' });
       if (result.events.length) {
         traces.push({
           type: 'scatter', mode: 'markers', name: 'replaced points',
@@ -197,11 +242,11 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
           labelCount.current = { shown: kept.length, of: inView.length, below };
         }
       }
-      const r = decimateMinMax(result.residual.x, result.residual.y, from, to, cols);
-      traces.push({ type: 'scatter', mode: 'lines', name: 'residual (raw − processed)', x: arr(r.x), y: arr(r.y), line: { color: COLOURS.residual, width: 1 }, xaxis: 'x', yaxis: 'y2' });
+      const r = line(result.residual.x, result.residual.y, result.residual);
+      traces.push({ type: 'scatter', mode: 'lines', name: 'residual (raw − processed)', x: r.x, y: r.y, line: { color: COLOURS.residual, width: 1 }, xaxis: 'x', yaxis: 'y2' });
     }
     return traces;
-  }, [sample, result, xRange, showRaw, width, showAlt, altList, names, geom]);
+  }, [sample, result, xRange, showRaw, view, rawDrawn, drawnFar, showAlt, altList, names, geom]);
 
   const yView = useMemo(() => {
     if (!xRange || !yFits) return null;

@@ -29,7 +29,13 @@ export function visibleYRange(series: readonly DrawnSeries[], from: number, to: 
 }
 
 /** One series as the readout reads it: full-resolution x (ascending) and y. */
-export interface ReadSeries { name: string; x: ArrayLike<number>; y: ArrayLike<number> }
+export interface ReadSeries {
+  name: string;
+  x: ArrayLike<number>;
+  y: ArrayLike<number>;
+  /** The number of the series in the worker when it stayed there (worker/series.ts); x and y are then empty. */
+  far?: number;
+}
 
 /** The sample of `s` nearest to x (in x); null for an empty series. */
 export function nearestPoint(s: ReadSeries, x: number): { x: number; y: number; index: number } | null {

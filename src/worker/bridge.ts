@@ -21,6 +21,29 @@ import type { FitJobOutcome, FitRequest } from './fit-job.ts';
 import { macrotask, runStages } from './stager.ts';
 import { fromColumns } from './columns.ts';
 import type { Peak } from '../core/measure/peak-types.ts';
+import type { AnalyseResult } from '../core/analysis/index.ts';
+import type { Signal } from '../core/steps/types.ts';
+import type { Drawn, FarSeries, NearestPoint, View } from './series.ts';
+
+/**
+ * Series kept in the worker (series.ts), by the placeholder that stands in for them in the page's result: the
+ * Signal object (processed, residual, intermediate, an alternative's output) or the empty baseline array.
+ */
+const farSeries = new WeakMap<object, FarSeries>();
+
+/** The series kept in the worker that this field of a result stands for; undefined when it crossed whole. */
+export function farOf(s: Signal | Float64Array | null | undefined): FarSeries | undefined {
+  return s ? farSeries.get(s) : undefined;
+}
+
+/** A stage's patch with each placeholder registered against the series it stands for. */
+function markFar(patch: Partial<AnalyseResult>, far: readonly FarSeries[]): void {
+  for (const f of far) {
+    const at: object | undefined = f.field === 'outcome' ? patch.loss?.outcomes.find((o) => o.id === f.id)?.processed
+      : f.field === 'baseline' ? patch.baseline ?? undefined : patch[f.field] ?? undefined;
+    if (at) farSeries.set(at, f);
+  }
+}
 
 type Job = {
   resolve: (v: unknown) => void;
@@ -79,6 +102,7 @@ class WorkerChannel {
     if (msg.type === 'progress') { job.onProgress?.(msg.progress); return; }
     if (msg.type === 'stage') {
       const update = msg.peakColumns ? { ...msg.update, patch: { ...msg.update.patch, peaks: fromColumns<Peak>(msg.peakColumns) } } : msg.update;
+      if (msg.far) markFar(update.patch, msg.far);
       job.onStage?.(update);
       return;
     }
@@ -121,6 +145,41 @@ export interface ComputeBackend {
   fit(request: FitRequest): Promise<FitJobOutcome>;
   /** One recipe over many files (the files' bytes are handed over); off the page's thread where there is a worker. */
   batch(files: BatchFile[], recipe: Recipe, settings: BatchSettings, onProgress?: (p: BatchProgress) => void): Promise<BatchResult>;
+  /** Series kept in the worker, drawn for a view (which later stages then use too). */
+  draw(refs: number[], view: View): Promise<Drawn[]>;
+  /** Exact copies of series kept in the worker, whole or between two x. */
+  slice(refs: number[], from?: number, to?: number): Promise<Signal[]>;
+  /** The sample of each series kept in the worker nearest to x. */
+  nearest(refs: number[], x: number): Promise<(NearestPoint | null)[]>;
+}
+
+/** The exact arrays of one field of a result (fetched from the worker when they stayed there). */
+export async function exactSignal(backend: ComputeBackend, s: Signal, from?: number, to?: number): Promise<Signal> {
+  const f = farOf(s);
+  return f ? (await backend.slice([f.ref], from, to))[0] : s;
+}
+
+/**
+ * A copy of a result with every series that stayed in the worker fetched whole (exports, reports): exactly
+ * the arrays the analysis made, in one call. The result itself is not changed.
+ */
+export async function exactResult(backend: ComputeBackend, r: AnalyseResult): Promise<AnalyseResult> {
+  const outcomes = r.loss?.outcomes ?? [];
+  const fields: (Signal | Float64Array | null | undefined)[] = [r.processed, r.residual, r.baseline, r.intermediate, ...outcomes.map((o) => o.processed)];
+  const far = fields.map(farOf);
+  const refs = far.filter((f): f is FarSeries => f !== undefined).map((f) => f.ref);
+  if (!refs.length) return r;
+  const got = new Map<number, Signal>();
+  (await backend.slice(refs)).forEach((s, i) => got.set(refs[i], s));
+  const sig = (s: Signal, f: FarSeries | undefined) => (f ? got.get(f.ref)! : s);
+  return {
+    ...r,
+    processed: sig(r.processed, far[0]),
+    residual: sig(r.residual, far[1]),
+    baseline: far[2] ? got.get(far[2].ref)!.y : r.baseline,
+    intermediate: r.intermediate ? sig(r.intermediate, far[3]) : r.intermediate,
+    loss: r.loss ? { ...r.loss, outcomes: outcomes.map((o, k) => ({ ...o, processed: sig(o.processed, far[4 + k]) })) } : r.loss,
+  };
 }
 
 /**
@@ -200,6 +259,9 @@ export function workerBackend(make: () => Worker, problem: ProblemSink = () => u
       const transfer = [...new Set(files.map((f) => f.bytes.buffer as ArrayBuffer))];
       return loader.call('batch', { files, recipe, settings }, { transfer, onProgress });
     },
+    draw(refs, view) { return compute.call('draw', { refs, view }); },
+    slice(refs, from, to) { return compute.call('slice', { refs, from, to }); },
+    nearest(refs, x) { return compute.call('nearest', { refs, x }); },
   };
 }
 
@@ -223,6 +285,10 @@ export function inProcessBackend(): ComputeBackend {
       // In this thread: the page repaints between files (a timer after each).
       return runBatch(files, recipe, STEP_REGISTRY, settings, (p) => { onProgress?.(p); return macrotask(); });
     },
+    // In this thread every series is handed over whole, so nothing is ever kept apart to ask for.
+    draw() { return Promise.reject(new Error('No series are kept apart when the analysis runs in the page.')); },
+    slice() { return Promise.reject(new Error('No series are kept apart when the analysis runs in the page.')); },
+    nearest() { return Promise.reject(new Error('No series are kept apart when the analysis runs in the page.')); },
   };
 }
 

@@ -12,9 +12,12 @@ import { cloneResultForTransfer } from './clone.ts';
 import { runStages } from './stager.ts';
 import { columnBuffers, toColumns } from './columns.ts';
 import { runBatch } from '../core/export/batch.ts';
+import { SeriesStore } from './series.ts';
 import { STEP_REGISTRY } from '../core/steps/registry.ts';
 
 const engine = new Engine();
+/** Long series of the newest analyses, kept here so they need not cross to the page (series.ts). */
+const series = new SeriesStore();
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 /** The port to the other worker (the same script runs as the loading and as the computation worker). */
 let peer: MessagePort | null = null;
@@ -94,6 +97,17 @@ async function call(msg: Call): Promise<void> {
         break;
       }
       case 'load': await load(jobId, msg.params); break;
+      case 'draw': {
+        const drawn = series.draw(msg.params.refs, msg.params.view);
+        reply('draw', jobId, drawn, drawn.flatMap((d) => [d.x.buffer as ArrayBuffer, d.y.buffer as ArrayBuffer]));
+        break;
+      }
+      case 'slice': {
+        const parts = series.slice(msg.params.refs, msg.params.from, msg.params.to);
+        reply('slice', jobId, parts, parts.flatMap((d) => [d.x.buffer as ArrayBuffer, d.y.buffer as ArrayBuffer]));
+        break;
+      }
+      case 'nearest': reply('nearest', jobId, series.nearest(msg.params.refs, msg.params.x)); break;
       case 'batch': {
         const { files, recipe, settings } = msg.params;
         const result = await runBatch(files, recipe, STEP_REGISTRY, settings, (p) => progress('batch', jobId, p));
@@ -109,11 +123,15 @@ async function call(msg: Call): Promise<void> {
 async function analyse(jobId: number, params: ParamsOf<'analyse'>): Promise<void> {
   const t0 = Date.now();
   const outcome = await runStages(engine.stages(params.request), (update) => {
-    // Cached outputs must stay usable here, so send copies and transfer those; the peak table goes as columns.
-    const { peaks, ...rest } = update.patch;
+    // Long series stay here (drawn for the page's view); cached outputs must stay usable, so the rest goes as
+    // copies, transferred; the peak table goes as columns.
+    const thin = series.thin(update.patch, jobId);
+    const { peaks, ...rest } = thin.patch;
     const patch = cloneResultForTransfer(rest);
     const peakColumns = peaks ? toColumns(peaks as unknown as Record<string, unknown>[]) : undefined;
-    post({ type: 'stage', jobId, update: { ...update, patch }, peakColumns }, [...transferablesOf(patch), ...(peakColumns ? columnBuffers(peakColumns) : [])]);
+    const far = thin.far.length ? thin.far : undefined;
+    const drawn = thin.far.flatMap((f) => [f.drawn.x.buffer as ArrayBuffer, f.drawn.y.buffer as ArrayBuffer]);
+    post({ type: 'stage', jobId, update: { ...update, patch }, peakColumns, far }, [...transferablesOf(patch), ...(peakColumns ? columnBuffers(peakColumns) : []), ...drawn]);
   }, () => !params.side && latestJob !== jobId);
   reply('analyse', jobId, { outcome, ms: Date.now() - t0 });
 }

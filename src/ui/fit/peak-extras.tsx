@@ -10,6 +10,7 @@ import { dropLineWords, FIGURE_HEADERS, figureColumnsFor, fittedPeakFor, peakFig
 import type { Peak } from '../../core/measure/peak-types.ts';
 import { useApp } from '../../state/store.ts';
 import { num } from '../format.ts';
+import { useExactSignal } from '../plot-exact.ts';
 
 export interface PeakExtras {
   headers: { key: string; label: string; title: string }[];
@@ -24,6 +25,8 @@ export function usePeakExtras(): PeakExtras {
   const showFigures = useApp((s) => s.showFigures);
   const deadTime = useApp((s) => s.deadTime);
   const allFits = useApp((s) => s.fits);
+  // The figures are measured on the exact processed trace (fetched from the worker when it stayed there).
+  const processed = useExactSignal(result?.processed ?? null, showFigures && measureOn !== 'raw');
   return useMemo(() => {
     const headers: PeakExtras['headers'] = [];
     const parts: ((p: Peak, i: number) => ReactNode[])[] = [];
@@ -38,9 +41,9 @@ export function usePeakExtras(): PeakExtras {
         return [<span key="f" title={`fit ${hit.fitNumber}, peak ${hit.peakNumber} of ${hit.fit.result.count} on the ${hit.fit.result.fittedLabel} trace`}>{num(a.value)} ± {Number.isFinite(a.se) ? num(a.se, 2) : 'n/a'}</span>];
       });
     }
-    if (showFigures) {
+    const measured = measureOn === 'raw' ? { x: sample.x, y: sample.y } : processed;
+    if (showFigures && measured) {
       const names = figureColumnsFor(deadTime);
-      const measured = measureOn === 'raw' ? { x: sample.x, y: sample.y } : result.processed;
       const figs = peakFigures(measured, result.peaks, deadTime);
       for (const n of names) headers.push({ key: n, label: FIGURE_HEADERS[n], title: FIGURE_FORMULAS[n].formula });
       parts.push((_p, i) => names.map((n) => {
@@ -51,7 +54,7 @@ export function usePeakExtras(): PeakExtras {
       }));
     }
     return { headers, cells: (p: Peak, i: number) => parts.flatMap((f) => f(p, i)) };
-  }, [result, sample, measureOn, showFigures, deadTime, allFits]);
+  }, [result, sample, measureOn, showFigures, deadTime, allFits, processed]);
 }
 
 /** The switch for the figure columns and the dead time field. */
