@@ -138,7 +138,9 @@ export class SeriesStore {
       const h = this.held(r);
       if (from === -Infinity && to === Infinity) return { x: h.x.slice(), y: h.y.slice() };
       const a = Math.max(0, lowerBound(h.x, from) - 1);
-      const b = Math.min(h.x.length, lowerBound(h.x, to) + 1);
+      let b = lowerBound(h.x, to);
+      if (b < h.x.length && h.x[b] <= to) b++;
+      b = Math.min(h.x.length, b + 1);
       return { x: h.x.slice(a, b), y: h.y.slice(a, b) };
     });
   }
