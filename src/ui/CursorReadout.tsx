@@ -1,4 +1,5 @@
 import { useEffect, useMemo, useState } from 'react';
+import { useShallow } from 'zustand/react/shallow';
 import { useApp } from '../state/store.ts';
 import { num } from './format.ts';
 import { addPeakByHand } from './controller.ts';
@@ -20,7 +21,8 @@ const withUnit = (v: number | null, unit: string, digits = 6) => `${num(v, digit
  */
 export function CursorReadout({ figure }: { figure: HTMLElement | null }) {
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
-  const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
+  // Only the series read: other stages do not re-render the readout (issue 16).
+  const result = useApp(useShallow((s) => (s.result && s.result.sampleId === s.sampleId ? { processed: s.result.processed, baseline: s.result.baseline, residual: s.result.residual } : null)));
   const showRaw = useApp((s) => s.showRaw);
   const [cursorX, setCursorX] = useState<number | null>(null);
   const measuring = useApp((s) => s.measureMode);

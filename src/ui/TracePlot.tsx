@@ -124,6 +124,77 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   // The raw trace lives on the page (its master copy): decimated here, again only when the view changes.
   const rawDrawn = useMemo(() => (sample ? decimateMinMax(sample.x, sample.y, view.from, view.to, view.columns * 2) : null), [sample, view]);
 
+  // The peak markers and labels: rebuilt only when the peaks, their names or the view change, not at every stage (issue 16).
+  const peaks = result?.peaks, peakOptions = result?.peakOptions;
+  const peakTraces = useMemo<PlotData[]>(() => {
+    const traces: PlotData[] = [];
+    labelCount.current = null;
+    if (!peaks) return traces;
+    // At most 300 markers (highest S/N first, hand-added always): thousands of labels would stall the page.
+    let live = peaks.filter((pk) => !pk.removedByUser);
+    if (live.length > 300) {
+      const mine = live.filter((pk) => pk.origin === 'added-by-user');
+      live = [...mine, ...live.filter((pk) => pk.origin !== 'added-by-user').sort((a, b) => (b.snr ?? 0) - (a.snr ?? 0)).slice(0, 300 - mine.length)];
+    }
+    // Features the raw trace does not have: ringed again, so they cannot be taken for ordinary peaks.
+    const born = live.filter((pk) => pk.marks.includes('appears-only-after-processing') && pk.flag !== 'below-detection');
+    if (born.length) {
+      traces.push({
+        type: 'scatter', mode: 'markers', name: 'appears only after processing',
+        x: born.map((pk) => pk.x), y: born.map((pk) => pk.y),
+        text: born.map((pk) => `appears only after processing: the raw trace has nothing here that passes the same thresholds (S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)} now)`),
+        hoverinfo: 'x+text',
+        marker: { symbol: 'square-open', size: 20, color: COLOURS.spike, line: { width: 2.5, color: COLOURS.spike } },
+        xaxis: 'x', yaxis: 'y',
+      });
+    }
+    if (live.length) {
+      // Issue 17: one trace per marker shape, so the legend has a key for each; peaks added by hand have their own.
+      const lim = peakOptions?.limits ?? { detection: 3, quantitation: 10 };
+      const kinds: { name: string; keep: (pk: Peak) => boolean; symbol: string; colour: string; size: number }[] = [
+        { name: `quantifiable peak (S/N ≥ ${lim.quantitation})`, keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'quantifiable', symbol: 'triangle-down', colour: COLOURS.peak, size: 10 },
+        { name: `detected peak (S/N ${lim.detection}–${lim.quantitation})`, keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'detectable', symbol: 'diamond', colour: COLOURS.baseline, size: 10 },
+        { name: `below the detection limit (S/N < ${lim.detection})`, keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'below-detection', symbol: 'circle-open', colour: COLOURS.spike, size: 10 },
+        { name: 'S/N not measured', keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'not-measured', symbol: 'hexagon-open', colour: COLOURS.raw, size: 10 },
+        { name: 'peak added by hand', keep: (pk) => pk.origin === 'added-by-user', symbol: 'star', colour: COLOURS.processed, size: 13 },
+      ];
+      for (const k of kinds) {
+        const pks = live.filter(k.keep);
+        if (!pks.length) continue;
+        traces.push({
+          type: 'scatter', mode: 'markers', name: k.name,
+          x: pks.map((pk) => pk.x), y: pks.map((pk) => pk.y),
+          hovertext: pks.map((pk) => `${names.has(pk) ? `${names.get(pk)}<br>` : ''}apex ${pk.x.toPrecision(6)}<br>height ${pk.height.toPrecision(4)}<br>FWHM ${pk.fwhm.toPrecision(4)} (${pk.leftHalf.toPrecision(6)} – ${pk.rightHalf.toPrecision(6)})<br>start – end ${pk.start.toPrecision(6)} – ${pk.end.toPrecision(6)}<br>S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)}${pk.marks.map((m) => `<br>${MARK_TEXT[m]}`).join('')}${pk.origin === 'added-by-user' ? '<br>added by hand' : ''}<br>click: see it under each choice`),
+          hoverinfo: 'text',
+          marker: { symbol: k.symbol, color: k.colour, size: k.size, line: { width: 1.5, color: k.colour } },
+          xaxis: 'x', yaxis: 'y',
+        });
+      }
+      // Labels that never overlap (issue 17): placed in the figure's own pixels, thinned by priority (plot-labels.ts).
+      // Placed only with the geometry of the view asked for (a zoom redraws once more with the new one).
+      if (geom && (!xRange || (Math.abs(geom.x[0] - xRange[0]) <= 1e-9 * Math.abs(xRange[1] - xRange[0]) && Math.abs(geom.x[1] - xRange[1]) <= 1e-9 * Math.abs(xRange[1] - xRange[0])))) {
+        // Over the whole trace, bumps below the detection limit get no label (they are mostly noise); zoomed in, they may.
+        const inView = live.filter((pk) => pk.x >= geom.x[0] && pk.x <= geom.x[1] && (xRange !== null || pk.flag !== 'below-detection' || pk.origin === 'added-by-user' || names.has(pk)));
+        const items = inView.map((pk) => ({
+          px: ((pk.x - geom.x[0]) / (geom.x[1] - geom.x[0])) * geom.w,
+          py: geom.h - ((pk.y - geom.y[0]) / (geom.y[1] - geom.y[0])) * geom.h,
+          text: `${names.has(pk) ? `${names.get(pk)} · ` : ''}${pk.snr === null ? '?' : pk.snr.toFixed(pk.snr < 10 ? 1 : 0)}`,
+          priority: (names.has(pk) ? 2e9 : 0) + (pk.origin === 'added-by-user' ? 1e9 : 0) + Math.min(pk.snr ?? 0, 1e8),
+        }));
+        const kept = placeLabels(items, geom.w, geom.h).map((k) => ({ pk: inView[k.index], text: items[k.index].text, spot: k.spot }));
+        traces.push({
+          type: 'scatter', mode: 'text', name: 'peak labels (S/N)', showlegend: false, hoverinfo: 'skip',
+          x: kept.map((k) => k.pk.x), y: kept.map((k) => k.pk.y), text: kept.map((k) => k.text),
+          textposition: kept.map((k) => k.spot), textfont: { size: 11, color: COLOURS.ink }, cliponaxis: false,
+          xaxis: 'x', yaxis: 'y',
+        });
+        const below = live.filter((pk) => pk.x >= geom.x[0] && pk.x <= geom.x[1]).length - inView.length;
+        labelCount.current = { shown: kept.length, of: inView.length, below };
+      }
+    }
+    return traces;
+  }, [peaks, peakOptions, names, geom, xRange]);
+
   const data = useMemo<PlotData[]>(() => {
     if (!sample) return [];
     const { from, to, columns } = view;
@@ -133,7 +204,6 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       return f ? drawnFar(f) : decimateMinMax(x, y, from, to, columns * 2);
     };
     const traces: PlotData[] = [];
-    labelCount.current = null;
     if ((showRaw || !result) && rawDrawn) {
       traces.push({ type: 'scatter', mode: 'lines', name: 'raw', x: rawDrawn.x, y: rawDrawn.y, line: { color: COLOURS.raw, width: 1 }, hoverinfo: 'x+y', xaxis: 'x', yaxis: 'y' });
     }
@@ -180,73 +250,12 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
           hoverinfo: 'x+text', xaxis: 'x', yaxis: 'y',
         });
       }
-      // At most 300 markers (highest S/N first, hand-added always): thousands of labels would stall the page.
-      let live = result.peaks.filter((pk) => !pk.removedByUser);
-      if (live.length > 300) {
-        const mine = live.filter((pk) => pk.origin === 'added-by-user');
-        live = [...mine, ...live.filter((pk) => pk.origin !== 'added-by-user').sort((a, b) => (b.snr ?? 0) - (a.snr ?? 0)).slice(0, 300 - mine.length)];
-      }
-      // Features the raw trace does not have: ringed again, so they cannot be taken for ordinary peaks.
-      const born = live.filter((pk) => pk.marks.includes('appears-only-after-processing') && pk.flag !== 'below-detection');
-      if (born.length) {
-        traces.push({
-          type: 'scatter', mode: 'markers', name: 'appears only after processing',
-          x: born.map((pk) => pk.x), y: born.map((pk) => pk.y),
-          text: born.map((pk) => `appears only after processing: the raw trace has nothing here that passes the same thresholds (S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)} now)`),
-          hoverinfo: 'x+text',
-          marker: { symbol: 'square-open', size: 20, color: COLOURS.spike, line: { width: 2.5, color: COLOURS.spike } },
-          xaxis: 'x', yaxis: 'y',
-        });
-      }
-      if (live.length) {
-        // Issue 17: one trace per marker shape, so the legend has a key for each; peaks added by hand have their own.
-        const lim = result.peakOptions?.limits ?? { detection: 3, quantitation: 10 };
-        const kinds: { name: string; keep: (pk: Peak) => boolean; symbol: string; colour: string; size: number }[] = [
-          { name: `quantifiable peak (S/N ≥ ${lim.quantitation})`, keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'quantifiable', symbol: 'triangle-down', colour: COLOURS.peak, size: 10 },
-          { name: `detected peak (S/N ${lim.detection}–${lim.quantitation})`, keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'detectable', symbol: 'diamond', colour: COLOURS.baseline, size: 10 },
-          { name: `below the detection limit (S/N < ${lim.detection})`, keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'below-detection', symbol: 'circle-open', colour: COLOURS.spike, size: 10 },
-          { name: 'S/N not measured', keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'not-measured', symbol: 'hexagon-open', colour: COLOURS.raw, size: 10 },
-          { name: 'peak added by hand', keep: (pk) => pk.origin === 'added-by-user', symbol: 'star', colour: COLOURS.processed, size: 13 },
-        ];
-        for (const k of kinds) {
-          const pks = live.filter(k.keep);
-          if (!pks.length) continue;
-          traces.push({
-            type: 'scatter', mode: 'markers', name: k.name,
-            x: pks.map((pk) => pk.x), y: pks.map((pk) => pk.y),
-            hovertext: pks.map((pk) => `${names.has(pk) ? `${names.get(pk)}<br>` : ''}apex ${pk.x.toPrecision(6)}<br>height ${pk.height.toPrecision(4)}<br>FWHM ${pk.fwhm.toPrecision(4)} (${pk.leftHalf.toPrecision(6)} – ${pk.rightHalf.toPrecision(6)})<br>start – end ${pk.start.toPrecision(6)} – ${pk.end.toPrecision(6)}<br>S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)}${pk.marks.map((m) => `<br>${MARK_TEXT[m]}`).join('')}${pk.origin === 'added-by-user' ? '<br>added by hand' : ''}<br>click: see it under each choice`),
-            hoverinfo: 'text',
-            marker: { symbol: k.symbol, color: k.colour, size: k.size, line: { width: 1.5, color: k.colour } },
-            xaxis: 'x', yaxis: 'y',
-          });
-        }
-        // Labels that never overlap (issue 17): placed in the figure's own pixels, thinned by priority (plot-labels.ts).
-        // Placed only with the geometry of the view asked for (a zoom redraws once more with the new one).
-        if (geom && (!xRange || (Math.abs(geom.x[0] - xRange[0]) <= 1e-9 * Math.abs(xRange[1] - xRange[0]) && Math.abs(geom.x[1] - xRange[1]) <= 1e-9 * Math.abs(xRange[1] - xRange[0])))) {
-          // Over the whole trace, bumps below the detection limit get no label (they are mostly noise); zoomed in, they may.
-          const inView = live.filter((pk) => pk.x >= geom.x[0] && pk.x <= geom.x[1] && (xRange !== null || pk.flag !== 'below-detection' || pk.origin === 'added-by-user' || names.has(pk)));
-          const items = inView.map((pk) => ({
-            px: ((pk.x - geom.x[0]) / (geom.x[1] - geom.x[0])) * geom.w,
-            py: geom.h - ((pk.y - geom.y[0]) / (geom.y[1] - geom.y[0])) * geom.h,
-            text: `${names.has(pk) ? `${names.get(pk)} · ` : ''}${pk.snr === null ? '?' : pk.snr.toFixed(pk.snr < 10 ? 1 : 0)}`,
-            priority: (names.has(pk) ? 2e9 : 0) + (pk.origin === 'added-by-user' ? 1e9 : 0) + Math.min(pk.snr ?? 0, 1e8),
-          }));
-          const kept = placeLabels(items, geom.w, geom.h).map((k) => ({ pk: inView[k.index], text: items[k.index].text, spot: k.spot }));
-          traces.push({
-            type: 'scatter', mode: 'text', name: 'peak labels (S/N)', showlegend: false, hoverinfo: 'skip',
-            x: kept.map((k) => k.pk.x), y: kept.map((k) => k.pk.y), text: kept.map((k) => k.text),
-            textposition: kept.map((k) => k.spot), textfont: { size: 11, color: COLOURS.ink }, cliponaxis: false,
-            xaxis: 'x', yaxis: 'y',
-          });
-          const below = live.filter((pk) => pk.x >= geom.x[0] && pk.x <= geom.x[1]).length - inView.length;
-          labelCount.current = { shown: kept.length, of: inView.length, below };
-        }
-      }
+      traces.push(...peakTraces);
       const r = line(result.residual.x, result.residual.y, result.residual);
       traces.push({ type: 'scatter', mode: 'lines', name: 'residual (raw − processed)', x: r.x, y: r.y, line: { color: COLOURS.residual, width: 1 }, xaxis: 'x', yaxis: 'y2' });
     }
     return traces;
-  }, [sample, result, xRange, showRaw, view, rawDrawn, drawnFar, showAlt, altList, names, geom]);
+  }, [sample, result, showRaw, view, rawDrawn, drawnFar, showAlt, altList, peakTraces]);
 
   const yView = useMemo(() => {
     if (!xRange || !yFits) return null;

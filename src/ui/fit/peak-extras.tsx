@@ -5,6 +5,8 @@
  * table's drop-line area. Kept here so PeakTable.tsx changes by a few lines.
  */
 import { useMemo, type ReactNode } from 'react';
+import { useShallow } from 'zustand/react/shallow';
+import type { AnalyseResult } from '../../core/analysis/index.ts';
 import { FIGURE_FORMULAS } from '../../core/measure/figures.ts';
 import { dropLineWords, FIGURE_HEADERS, figureColumnsFor, fittedPeakFor, peakFigures } from '../../core/export/fit-export.ts';
 import type { Peak } from '../../core/measure/peak-types.ts';
@@ -19,7 +21,8 @@ export interface PeakExtras {
 
 /** Headers and cells of the optional columns for the current result. */
 export function usePeakExtras(): PeakExtras {
-  const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
+  // Only the fields the columns read: a stage that leaves them alone keeps the same columns, so the table's rows do not re-render (issue 16).
+  const result = useApp(useShallow((s) => (s.result && s.result.sampleId === s.sampleId ? { peaks: s.result.peaks, processed: s.result.processed, peakOptions: s.result.peakOptions } : null)));
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const measureOn = useApp((s) => s.peakSettings.measureOn);
   const showFigures = useApp((s) => s.showFigures);
@@ -33,7 +36,7 @@ export function usePeakExtras(): PeakExtras {
     if (!result || !sample) return { headers, cells: () => [] };
     const fits = allFits.filter((f) => f.sampleId === sample.id);
     if (fits.length) {
-      headers.push({ key: 'fitted-area', label: 'Fitted area ± SE', title: `Area of the fitted peak whose apex lies within this row's half-height crossings (region fit, fit panel); the Area column is the drop-line area (${dropLineWords(result)}).` });
+      headers.push({ key: 'fitted-area', label: 'Fitted area ± SE', title: `Area of the fitted peak whose apex lies within this row's half-height crossings (region fit, fit panel); the Area column is the drop-line area (${dropLineWords(result as AnalyseResult)}).` });
       parts.push((p) => {
         const hit = fittedPeakFor(p, fits);
         if (!hit) return [<span className="muted" key="f">not fitted</span>];
