@@ -1,6 +1,6 @@
 import { useShallow } from 'zustand/react/shallow';
 import { useCallback, useMemo, useRef, useState, useEffect } from 'react';
-import type { PlotData, PlotLayout } from 'plotly.js-strict-dist-min';
+import type { PlotData, PlotLayout, PlotShape } from 'plotly.js-strict-dist-min';
 import { decimateMinMax } from '../core/numeric/decimate.ts';
 import { axisLabel } from '../core/trace.ts';
 import { useApp } from '../state/store.ts';
@@ -266,7 +266,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const layout = useMemo<PlotLayout>(() => {
     const xTitle = sample ? axisLabel(sample.xName, sample.xUnit) : 'x';
     const yTitle = sample ? axisLabel(sample.yName, sample.yUnit) : 'y';
-    const shapes: Record<string, unknown>[] = marked ? [{ type: 'rect', xref: 'x', yref: 'paper', x0: marked[0], x1: marked[1], y0: 0, y1: 1, fillcolor: 'rgba(0,158,115,0.10)', line: { width: 0 } }] : [];
+    const shapes: PlotShape[] = marked ? [{ type: 'rect', xref: 'x', yref: 'paper', x0: marked[0], x1: marked[1], y0: 0, y1: 1, fillcolor: 'rgba(0,158,115,0.10)', line: { width: 0 } }] : [];
     // Issue 17: ranges left out of peak finding, shaded grey with a legend key (the trace itself is unchanged).
     (excluded ?? []).forEach(([a, b], i) => shapes.push({
       type: 'rect', xref: 'x', yref: 'y domain', x0: a, x1: b, y0: 0, y1: 1, fillcolor: 'rgba(120,128,140,0.22)', line: { width: 0 }, layer: 'below',

@@ -9,19 +9,18 @@
  * holds up the plot. Where no Worker exists (Node tests) everything runs
  * in-process, stage by stage the same way.
  */
-import type { AnalyseRequest, StageUpdate } from '../core/analysis/index.ts';
+import type { AnalyseRequest, AnalyseResult, StageUpdate } from '../core/analysis/index.ts';
 import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import type { Trace } from '../core/trace.ts';
-import { Engine } from './engine.ts';
-import type { Call, FromWorker, Method, ParamsOf, ProgressOf, ResultOf, ToWorker } from './protocol.ts';
+import { HeldTraces } from './held-traces.ts';
+import type { Call, FromWorker, Method, ParamsOf, ProgressOf, ResultOf, ToWorker } from './api.ts';
 import { runBatch, type BatchFile, type BatchProgress, type BatchResult, type BatchSettings } from '../core/export/batch.ts';
 import type { Recipe } from '../core/recipe.ts';
 import { STEP_REGISTRY } from '../core/steps/registry.ts';
 import type { FitJobOutcome, FitRequest } from './fit-job.ts';
 import { macrotask, runStages } from './stager.ts';
-import { fromColumns } from './columns.ts';
+import { fromColumns } from './transfer.ts';
 import type { Peak } from '../core/measure/peak-types.ts';
-import type { AnalyseResult } from '../core/analysis/index.ts';
 import type { Signal } from '../core/steps/types.ts';
 import type { Drawn, FarSeries, NearestPoint, View } from './series.ts';
 
@@ -267,20 +266,20 @@ export function workerBackend(make: () => Worker, problem: ProblemSink = () => u
 
 /** Backend running in the calling thread (tests, or when Worker is missing). */
 export function inProcessBackend(): ComputeBackend {
-  const engine = new Engine();
+  const held = new HeldTraces();
   let latest = 0;
   return {
-    setInputs(t) { engine.setInputs(t); },
+    setInputs(t) { held.setInputs(t); },
     analyse(request, onStage, side) {
       const mine = side ? 0 : ++latest;
       // Started on a later task, as a worker would, so a newer request made in the same task wins at once.
-      return macrotask().then(() => runStages(engine.stages(request), onStage, () => !side && mine !== latest)).then((o) => o === 'done');
+      return macrotask().then(() => runStages(held.stages(request), onStage, () => !side && mine !== latest)).then((o) => o === 'done');
     },
     load(bytes, fileName, options, onProgress) {
-      return Promise.resolve().then(() => engine.load(bytes, fileName, options, onProgress ?? (() => undefined)));
+      return Promise.resolve().then(() => held.load(bytes, fileName, options, onProgress ?? (() => undefined)));
     },
     cancelLoad() { /* an in-process load cannot be interrupted */ },
-    fit(request) { return Promise.resolve().then(() => engine.fit(request)); },
+    fit(request) { return Promise.resolve().then(() => held.fit(request)); },
     batch(files, recipe, settings, onProgress) {
       // In this thread: the page repaints between files (a timer after each).
       return runBatch(files, recipe, STEP_REGISTRY, settings, (p) => { onProgress?.(p); return macrotask(); });

@@ -6,16 +6,15 @@
  * dropped: with the call's id, or with none when the message belonged to no
  * call (the page then shows it as a notice).
  */
-import type { Call, FromWorker, Method, ParamsOf, ProgressOf, ResultOf, ThroughPort, ToWorker } from './protocol.ts';
-import { Engine, transferablesOf } from './engine.ts';
-import { cloneResultForTransfer } from './clone.ts';
+import type { Call, FromWorker, Method, ParamsOf, ProgressOf, ResultOf, ThroughPort, ToWorker } from './api.ts';
+import { HeldTraces } from './held-traces.ts';
+import { cloneResultForTransfer, columnBuffers, toColumns, transferablesOf } from './transfer.ts';
 import { runStages } from './stager.ts';
-import { columnBuffers, toColumns } from './columns.ts';
 import { runBatch } from '../core/export/batch.ts';
 import { SeriesStore } from './series.ts';
 import { STEP_REGISTRY } from '../core/steps/registry.ts';
 
-const engine = new Engine();
+const held = new HeldTraces();
 /** Long series of the newest analyses, kept here so they need not cross to the page (series.ts). */
 const series = new SeriesStore();
 const scope = self as unknown as DedicatedWorkerGlobalScope;
@@ -41,8 +40,8 @@ function progress<M extends Method>(method: M, jobId: number, p: ProgressOf<M>) 
 
 function fromPeer(ev: MessageEvent<ThroughPort>) {
   if (ev.data?.type !== 'traces') return;
-  engine.stage(ev.data.traces);
-  while (!engine.incomplete && deferred.length) void call(deferred.shift()!);
+  held.stage(ev.data.traces);
+  while (!held.incomplete && deferred.length) void call(deferred.shift()!);
 }
 
 scope.onmessage = (ev: MessageEvent<ToWorker>) => {
@@ -62,8 +61,8 @@ async function handle(msg: ToWorker): Promise<void> {
       peer = msg.port;
       peer.onmessage = fromPeer;
     } else if (msg.type === 'inputs') {
-      engine.setInputs(msg.traces, msg.keep);
-      while (!engine.incomplete && deferred.length) void call(deferred.shift()!);
+      held.setInputs(msg.traces, msg.keep);
+      while (!held.incomplete && deferred.length) void call(deferred.shift()!);
     } else if (msg.type === 'call') {
       await call(msg);
     } else {
@@ -77,7 +76,7 @@ async function handle(msg: ToWorker): Promise<void> {
 async function call(msg: Call): Promise<void> {
   const jobId = msg.jobId;
   try {
-    if ((msg.method === 'analyse' || msg.method === 'fit') && engine.incomplete) {
+    if ((msg.method === 'analyse' || msg.method === 'fit') && held.incomplete) {
       deferred.push(msg);
       // Traces come through the port within moments of the page naming them; if not, the page is told and sends them itself.
       setTimeout(() => {
@@ -92,7 +91,7 @@ async function call(msg: Call): Promise<void> {
       case 'analyse': await analyse(jobId, msg.params); break;
       case 'fit': {
         // Issue 18: a fit's arrays are its own (not cached), so they are transferred as they are.
-        const outcome = engine.fit(msg.params);
+        const outcome = held.fit(msg.params);
         reply('fit', jobId, outcome, transferablesOf(outcome));
         break;
       }
@@ -122,7 +121,7 @@ async function call(msg: Call): Promise<void> {
 
 async function analyse(jobId: number, params: ParamsOf<'analyse'>): Promise<void> {
   const t0 = Date.now();
-  const outcome = await runStages(engine.stages(params.request), (update) => {
+  const outcome = await runStages(held.stages(params.request), (update) => {
     // Long series stay here (drawn for the page's view); cached outputs must stay usable, so the rest goes as
     // copies, transferred; the peak table goes as columns.
     const thin = series.thin(update.patch, jobId);
@@ -138,7 +137,7 @@ async function analyse(jobId: number, params: ParamsOf<'analyse'>): Promise<void
 
 async function load(jobId: number, params: ParamsOf<'load'>): Promise<void> {
   let last = 0;
-  const result = await engine.load(params.bytes, params.fileName, params.options, (fraction) => {
+  const result = await held.load(params.bytes, params.fileName, params.options, (fraction) => {
     const now = Date.now();
     if (now - last > 80) { last = now; progress('load', jobId, fraction); }
   });

@@ -10,7 +10,7 @@ import { describe, expect, test } from 'vitest';
 import { drawSeries, SeriesStore, WHOLE_UP_TO, type View } from '../../src/worker/series.ts';
 import { exactResult, farOf, workerBackend, type ComputeBackend } from '../../src/worker/bridge.ts';
 import type { AnalyseResult, StageUpdate } from '../../src/core/analysis/index.ts';
-import type { FromWorker, ToWorker } from '../../src/worker/protocol.ts';
+import type { FromWorker, ToWorker } from '../../src/worker/api.ts';
 import { nearestPoint } from '../../src/ui/plot-view.ts';
 import { emptyRecipe } from '../../src/core/recipe.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';

@@ -14,7 +14,7 @@ import type { Trace } from '../core/trace.ts';
 import type { AnalyseRequest, StageUpdate } from '../core/analysis/index.ts';
 import type { BatchFile, BatchProgress, BatchResult, BatchSettings } from '../core/export/batch.ts';
 import type { Recipe } from '../core/recipe.ts';
-import type { Columns } from './columns.ts';
+import type { Columns } from './transfer.ts';
 import type { FitJobOutcome, FitRequest } from './fit-job.ts';
 import type { Signal } from '../core/steps/types.ts';
 import type { Drawn, FarSeries, NearestPoint, View } from './series.ts';
