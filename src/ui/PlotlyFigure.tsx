@@ -69,22 +69,31 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
       setFailure(message);
       drawn.current?.(message);
     };
-    try {
-      Plotly.react(el, guarded.data, guarded.layout, dragShapes ? { ...plotConfig(pictureName), edits: { shapePosition: true } } : plotConfig(pictureName))
-        .then((gd) => {
-          if (cancelled) return;
-          if (drawnTag !== undefined) el.setAttribute('data-drawn', drawnTag);
-          setFailure(null);
-          drawn.current?.(null);
-          if (bound.current) return;
-          bound.current = true;
-          bindEvents(gd, handlers, transforms);
-        })
-        .catch(fail);
-    } catch (e) {
-      fail(e);
-    }
-    return () => { cancelled = true; };
+    const draw = () => {
+      if (cancelled) return;
+      try {
+        Plotly.react(el, guarded.data, guarded.layout, dragShapes ? { ...plotConfig(pictureName), edits: { shapePosition: true } } : plotConfig(pictureName))
+          .then((gd) => {
+            if (cancelled) return;
+            if (drawnTag !== undefined) el.setAttribute('data-drawn', drawnTag);
+            setFailure(null);
+            drawn.current?.(null);
+            if (bound.current) return;
+            bound.current = true;
+            bindEvents(gd, handlers, transforms);
+          })
+          .catch(fail);
+      } catch (e) {
+        fail(e);
+      }
+    };
+    // Drawn in a task of its own after the browser has laid out what React just changed (issue 16): the plot
+    // library measures the figure's size on every draw, which forced a layout of the whole page (a 500-row
+    // table) inside React's task and made one long task of both.
+    let timer: ReturnType<typeof setTimeout> | undefined;
+    const frame = typeof requestAnimationFrame === 'function' ? requestAnimationFrame(() => { timer = setTimeout(draw, 0); }) : undefined;
+    if (frame === undefined) draw();
+    return () => { cancelled = true; if (frame !== undefined) cancelAnimationFrame(frame); if (timer !== undefined) clearTimeout(timer); };
   }, [guarded, pictureName, attempt, drawnTag, dragShapes]);
 
   useEffect(() => {
