@@ -53,6 +53,9 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
   const transforms = useRef<Record<string, AxisTransform>>({});
   transforms.current = guarded.transforms;
   const [failure, setFailure] = useState<string | null>(null);
+  /** The newest drawing waiting for its task, and whether that task is scheduled. */
+  const pendingDraw = useRef<(() => void) | null>(null);
+  const drawScheduled = useRef(false);
   /** Bumped by "Draw again" to run the drawing once more with the same data. */
   const [attempt, setAttempt] = useState(0);
 
@@ -89,11 +92,21 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
     };
     // Drawn in a task of its own after the browser has laid out what React just changed (issue 16): the plot
     // library measures the figure's size on every draw, which forced a layout of the whole page (a 500-row
-    // table) inside React's task and made one long task of both.
-    let timer: ReturnType<typeof setTimeout> | undefined;
-    const frame = typeof requestAnimationFrame === 'function' ? requestAnimationFrame(() => { timer = setTimeout(draw, 0); }) : undefined;
-    if (frame === undefined) draw();
-    return () => { cancelled = true; if (frame !== undefined) cancelAnimationFrame(frame); if (timer !== undefined) clearTimeout(timer); };
+    // table) inside React's task and made one long task of both. Changes that come before that task runs are
+    // drawn together, with the newest data (a pending draw is replaced, never dropped: no stream of stages can
+    // keep the plot from drawing).
+    pendingDraw.current = draw;
+    if (typeof requestAnimationFrame !== 'function') draw();
+    else if (!drawScheduled.current) {
+      drawScheduled.current = true;
+      requestAnimationFrame(() => setTimeout(() => {
+        drawScheduled.current = false;
+        const next = pendingDraw.current;
+        pendingDraw.current = null;
+        next?.();
+      }, 0));
+    }
+    return () => { cancelled = true; };
   }, [guarded, pictureName, attempt, drawnTag, dragShapes]);
 
   useEffect(() => {
