@@ -53,9 +53,6 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
   const transforms = useRef<Record<string, AxisTransform>>({});
   transforms.current = guarded.transforms;
   const [failure, setFailure] = useState<string | null>(null);
-  /** The newest drawing waiting for its task, and whether that task is scheduled. */
-  const pendingDraw = useRef<(() => void) | null>(null);
-  const drawScheduled = useRef(false);
   /** Bumped by "Draw again" to run the drawing once more with the same data. */
   const [attempt, setAttempt] = useState(0);
 
@@ -72,39 +69,20 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
       setFailure(message);
       drawn.current?.(message);
     };
-    const draw = () => {
-      if (cancelled) return;
-      try {
-        Plotly.react(el, guarded.data, guarded.layout, dragShapes ? { ...plotConfig(pictureName), edits: { shapePosition: true } } : plotConfig(pictureName))
-          .then((gd) => {
-            if (cancelled) return;
-            if (drawnTag !== undefined) el.setAttribute('data-drawn', drawnTag);
-            setFailure(null);
-            drawn.current?.(null);
-            if (bound.current) return;
-            bound.current = true;
-            bindEvents(gd, handlers, transforms);
-          })
-          .catch(fail);
-      } catch (e) {
-        fail(e);
-      }
-    };
-    // Drawn in a task of its own after the browser has laid out what React just changed (issue 16): the plot
-    // library measures the figure's size on every draw, which forced a layout of the whole page (a 500-row
-    // table) inside React's task and made one long task of both. Changes that come before that task runs are
-    // drawn together, with the newest data (a pending draw is replaced, never dropped: no stream of stages can
-    // keep the plot from drawing).
-    pendingDraw.current = draw;
-    if (typeof requestAnimationFrame !== 'function') draw();
-    else if (!drawScheduled.current) {
-      drawScheduled.current = true;
-      requestAnimationFrame(() => setTimeout(() => {
-        drawScheduled.current = false;
-        const next = pendingDraw.current;
-        pendingDraw.current = null;
-        next?.();
-      }, 0));
+    try {
+      Plotly.react(el, guarded.data, guarded.layout, dragShapes ? { ...plotConfig(pictureName), edits: { shapePosition: true } } : plotConfig(pictureName))
+        .then((gd) => {
+          if (cancelled) return;
+          if (drawnTag !== undefined) el.setAttribute('data-drawn', drawnTag);
+          setFailure(null);
+          drawn.current?.(null);
+          if (bound.current) return;
+          bound.current = true;
+          bindEvents(gd, handlers, transforms);
+        })
+        .catch(fail);
+    } catch (e) {
+      fail(e);
     }
     return () => { cancelled = true; };
   }, [guarded, pictureName, attempt, drawnTag, dragShapes]);
