@@ -90,7 +90,7 @@ describe('what the page asks for afterwards is exact', () => {
     expect(part.x.length).toBe(1003);
     for (const x of [-5, 0, 12.3456, 49.9994, 1e9]) {
       const [p] = store.nearest([f.ref], x);
-      const q = nearestPoint(r.processed, x)!;
+      const q = nearestPoint({ name: 'processed', ...r.processed }, x)!;
       expect([p!.x, p!.y, p!.index]).toEqual([q.x, q.y, q.index]);
     }
   });
