@@ -124,7 +124,9 @@ async function analyse(jobId: number, params: ParamsOf<'analyse'>): Promise<void
   const outcome = await runStages(held.stages(params.request), (update) => {
     // Long series stay here (drawn for the page's view); cached outputs must stay usable, so the rest goes as
     // copies, transferred; the peak table goes as columns.
-    const thin = series.thin(update.patch, jobId);
+    // Side jobs (the standards' analyses) cross whole as before: only their peaks are used, and keeping their
+    // series here would push out the sample's, which exports may still ask for.
+    const thin = params.side ? { patch: update.patch, far: [] } : series.thin(update.patch, jobId);
     const { peaks, ...rest } = thin.patch;
     const patch = cloneResultForTransfer(rest);
     const peakColumns = peaks ? toColumns(peaks as unknown as Record<string, unknown>[]) : undefined;
