@@ -132,7 +132,7 @@ function topSelf(profile, count) {
   const self = new Map();
   profile.samples.forEach((id, i) => {
     const f = byId.get(id).callFrame;
-    const key = `${f.functionName || '(anonymous)'} ${f.url.split('/').pop()}:${f.lineNumber + 1}`;
+    const key = `${f.functionName || "(anonymous)"} ${f.url.split("/").pop()}:${f.lineNumber + 1}:${f.columnNumber + 1}`;
     self.set(key, (self.get(key) ?? 0) + profile.timeDeltas[i] / 1000);
   });
   return [...self.entries()].sort((a, b) => b[1] - a[1]).slice(0, count).map(([k, ms]) => `    ${ms.toFixed(0).padStart(7)} ms  ${k}`);

@@ -22,11 +22,16 @@ import { ExcludedRanges } from './ExcludedRanges.tsx';
 import { FirstUseGuide, guideDismissed, rememberGuideDismissed, ShortcutList } from './Guide.tsx';
 import { nextPeak } from './peak-steps.ts';
 
+/** The busy mark beside the plot title: re-renders on its own, not the whole page (issue 16). */
+function BusyMark() {
+  const busy = useApp((s) => s.busy);
+  return busy ? <span className="busy" aria-label="computing"> ·</span> : null;
+}
+
 export function App() {
   const fileInput = useRef<HTMLInputElement>(null);
   const [dragging, setDragging] = useState(false);
   const [editAxes, setEditAxes] = useState(false);
-  const busy = useApp((s) => s.busy);
   const markMode = useApp((s) => s.markMode);
   const marked = useApp((s) => s.markedRange);
   const showRaw = useApp((s) => s.showRaw);
@@ -128,7 +133,7 @@ export function App() {
         <div className="main">
           <section className="panel plot-panel" aria-labelledby="plot-title">
             <div className="panel-head">
-              <h2 id="plot-title">{sample ? sample.name : 'Trace'}{busy ? <span className="busy" aria-label="computing"> ·</span> : null}</h2>
+              <h2 id="plot-title">{sample ? sample.name : 'Trace'}<BusyMark /></h2>
               <div className="row">
                 <label className="switch"><input type="checkbox" checked={showRaw} onChange={(e) => setShowRaw(e.target.checked)} /> raw</label>
                 <label className="switch" title="On: a zoom in x rescales y to the data in view. Off: y stays where you put it (drag a box to zoom both)."><input type="checkbox" checked={yFits} onChange={(e) => setYFitsView(e.target.checked)} data-testid="y-fits" /> y fits the zoom</label>

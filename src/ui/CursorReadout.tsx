@@ -1,9 +1,12 @@
 import { useEffect, useMemo, useState } from 'react';
+import { useShallow } from 'zustand/react/shallow';
 import { useApp } from '../state/store.ts';
 import { num } from './format.ts';
 import { addPeakByHand } from './controller.ts';
 import { axisTransform, toDataUnits } from './plot-guard.ts';
 import { nearestPoint, slopeUnit, twoPointMeasure, type ReadSeries } from './plot-view.ts';
+import { farOf } from '../worker/bridge.ts';
+import { getBackend } from './controller.ts';
 
 interface PlotAxis { _offset: number; _length: number; range: [number, number] }
 interface Point { x: number; y: number; series: string }
@@ -18,7 +21,8 @@ const withUnit = (v: number | null, unit: string, digits = 6) => `${num(v, digit
  */
 export function CursorReadout({ figure }: { figure: HTMLElement | null }) {
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
-  const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
+  // Only the series read: other stages do not re-render the readout (issue 16).
+  const result = useApp(useShallow((s) => (s.result && s.result.sampleId === s.sampleId ? { processed: s.result.processed, baseline: s.result.baseline, residual: s.result.residual } : null)));
   const showRaw = useApp((s) => s.showRaw);
   const [cursorX, setCursorX] = useState<number | null>(null);
   const measuring = useApp((s) => s.measureMode);
@@ -30,12 +34,25 @@ export function CursorReadout({ figure }: { figure: HTMLElement | null }) {
     const out: ReadSeries[] = [];
     if (showRaw || !result) out.push({ name: 'raw', x: sample.x, y: sample.y });
     if (result) {
-      out.push({ name: 'processed', x: result.processed.x, y: result.processed.y });
-      if (result.baseline && result.baseline.length === result.processed.x.length) out.push({ name: 'baseline', x: result.processed.x, y: result.baseline });
-      out.push({ name: 'residual', x: result.residual.x, y: result.residual.y });
+      out.push({ name: 'processed', x: result.processed.x, y: result.processed.y, far: farOf(result.processed)?.ref });
+      const fb = farOf(result.baseline);
+      if (result.baseline && (fb || result.baseline.length === result.processed.x.length)) out.push({ name: 'baseline', x: result.processed.x, y: result.baseline, far: fb?.ref });
+      out.push({ name: 'residual', x: result.residual.x, y: result.residual.y, far: farOf(result.residual)?.ref });
     }
     return out;
   }, [sample, result, showRaw]);
+  // Long series stay in the worker (worker/series.ts): their nearest points are asked for there, the newest question only.
+  const [farNear, setFarNear] = useState<ReadonlyMap<string, { x: number; y: number }>>(new Map());
+  useEffect(() => {
+    const asked = series.filter((s) => s.far !== undefined);
+    if (cursorX === null || !asked.length) { setFarNear(new Map()); return; }
+    let stale = false;
+    getBackend().nearest(asked.map((s) => s.far!), cursorX).then((ps) => {
+      if (!stale) setFarNear(new Map(ps.flatMap((p, i) => (p ? [[asked[i].name, p] as const] : []))));
+    }, () => undefined /* a result let go meanwhile: the next move asks again */);
+    return () => { stale = true; };
+  }, [series, cursorX]);
+  const pointOf = (s: ReadSeries, x: number) => (s.far === undefined ? nearestPoint(s, x) : farNear.get(s.name) ?? null);
 
   // A new trace starts without a measure.
   const sampleId = sample?.id;
@@ -59,11 +76,14 @@ export function CursorReadout({ figure }: { figure: HTMLElement | null }) {
       const py = e.clientY - figure.getBoundingClientRect().top;
       if (!size || py < size.t || py > size.t + size.h) return;
       // Issue 17: in "add a peak" mode a click anywhere over the plot adds a peak at the nearest top (or says why not).
-      if (useApp.getState().addPeakMode) { const at = xAt(e); if (at !== null) addPeakByHand(at); return; }
+      if (useApp.getState().addPeakMode) { const at = xAt(e); if (at !== null) void addPeakByHand(at); return; }
       if (!measuring) return;
       const x = xAt(e);
       const s = series.find((v) => v.name === 'processed') ?? series[0];
-      const p = x === null || !s ? null : nearestPoint(s, x);
+      if (x === null || !s) return;
+      const take = (p: { x: number; y: number } | null) => { if (p) setPoints((prev) => (prev.length >= 2 ? [{ x: p.x, y: p.y, series: s.name }] : [...prev, { x: p.x, y: p.y, series: s.name }])); };
+      if (s.far !== undefined) { getBackend().nearest([s.far], x).then((ps) => take(ps[0]), () => undefined); return; }
+      const p = nearestPoint(s, x);
       if (p) setPoints((prev) => (prev.length >= 2 ? [{ x: p.x, y: p.y, series: s.name }] : [...prev, { x: p.x, y: p.y, series: s.name }]));
     };
     figure.addEventListener('mousemove', onMove);
@@ -87,7 +107,7 @@ export function CursorReadout({ figure }: { figure: HTMLElement | null }) {
           <>
             <span>x {withUnit(cursorX, xu)}</span>
             {series.map((s) => {
-              const p = nearestPoint(s, cursorX);
+              const p = pointOf(s, cursorX);
               return p ? <span key={s.name} data-series={s.name}> · {s.name} {withUnit(p.y, yu)} at {withUnit(p.x, xu)}</span> : null;
             })}
           </>

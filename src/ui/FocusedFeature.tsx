@@ -1,4 +1,4 @@
-import { useMemo } from 'react';
+import { useEffect, useMemo, useState } from 'react';
 import { useShallow } from 'zustand/react/shallow';
 import { useApp } from '../state/store.ts';
 import { decimateMinMax } from '../core/numeric/decimate.ts';
@@ -6,6 +6,8 @@ import { meanStep } from '../core/numeric/interpolate.ts';
 import type { Signal } from '../core/steps/types.ts';
 import { againstRaw, columnVerdict, focusWindow, rowAt, sharedYRange, type Verdict } from './focus.ts';
 import { num } from './format.ts';
+import { farOf } from '../worker/bridge.ts';
+import { getBackend } from './controller.ts';
 
 const W = 220, H = 120, PAD = 6;
 
@@ -60,9 +62,26 @@ export function FocusedFeature() {
       if (k === 1) return res.processed;
       return loss.outcomes.find((o) => o.id === a.id)?.processed ?? null;
     });
-    const y = sharedYRange(signals.filter((s): s is Signal => s !== null), from, to);
-    return { row, from, to, y, signals, labels: loss.ledger.alternatives.map((a) => a.label) } as const;
+    return { row, from, to, signals, labels: loss.ledger.alternatives.map((a) => a.label) } as const;
   }, [x0, sample, res]);
+  // Long series stay in the worker (worker/series.ts): the stretch shown is asked for there, exactly.
+  const [stretches, setStretches] = useState<{ of: unknown; got: ReadonlyMap<Signal, Signal> } | null>(null);
+  useEffect(() => {
+    if (!view?.row) return;
+    const far = view.signals.filter((s): s is Signal => s !== null && farOf(s) !== undefined);
+    if (!far.length) return;
+    let stale = false;
+    getBackend().slice(far.map((s) => farOf(s)!.ref), view.from, view.to).then((got) => {
+      if (!stale) setStretches({ of: view, got: new Map(far.map((s, i) => [s, got[i]])) });
+    }, () => undefined /* a result let go meanwhile: the newer one asks again */);
+    return () => { stale = true; };
+  }, [view]);
+  const shownSignals = useMemo(() => {
+    if (!view?.row) return null;
+    const got = stretches?.of === view ? stretches.got : null;
+    const signals = view.signals.map((s) => (s && farOf(s) ? got?.get(s) ?? null : s));
+    return { signals, y: sharedYRange(signals.filter((s): s is Signal => s !== null), view.from, view.to) };
+  }, [view, stretches]);
 
   if (x0 === null || !sample) return null;
   const xu = sample.xUnit ? ` ${sample.xUnit}` : '';
@@ -86,7 +105,8 @@ export function FocusedFeature() {
       </section>
     );
   }
-  const { row, from, to, y, signals, labels } = view;
+  const { row, from, to, labels } = view;
+  const { signals, y } = shownSignals ?? { signals: view.signals.map(() => null), y: null };
   const raw = row.cells[0];
   return (
     <section className="focus" aria-labelledby="focus-title" data-testid="focus-view" data-position={row.position}>

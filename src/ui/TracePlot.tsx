@@ -1,6 +1,6 @@
 import { useShallow } from 'zustand/react/shallow';
 import { useCallback, useMemo, useRef, useState, useEffect } from 'react';
-import type { PlotData, PlotLayout } from 'plotly.js-strict-dist-min';
+import type { PlotData, PlotLayout, PlotShape } from 'plotly.js-strict-dist-min';
 import { decimateMinMax } from '../core/numeric/decimate.ts';
 import { axisLabel } from '../core/trace.ts';
 import { useApp } from '../state/store.ts';
@@ -14,6 +14,10 @@ import { pickNamedPeakAt } from './calibration/pick.ts';
 import { visibleYRange } from './plot-view.ts';
 import { placeLabels } from './plot-labels.ts';
 import type { Peak } from '../core/measure/peak-types.ts';
+import type { Signal } from '../core/steps/types.ts';
+import { farOf } from '../worker/bridge.ts';
+import { sameView, type Drawn, type FarSeries, type View } from '../worker/series.ts';
+import { getBackend } from './controller.ts';
 
 /** The main plotting area as last drawn: axis ranges and size in pixels (issue 17: label placement). */
 interface Geometry { x: [number, number]; y: [number, number]; w: number; h: number }
@@ -49,8 +53,41 @@ function useWidth(): [React.RefObject<HTMLDivElement | null>, number] {
   return [ref, w];
 }
 
-function arr(a: Float64Array): number[] {
-  return Array.from(a);
+/** Every series of a result that stayed in the worker (worker/series.ts). */
+function farSeriesOf(r: { processed: Signal; residual: Signal; baseline?: Float64Array; intermediate?: Signal | null; loss: { outcomes: { processed: Signal }[] } | null } | null): FarSeries[] {
+  if (!r) return [];
+  return [r.processed, r.residual, r.baseline, r.intermediate, ...(r.loss?.outcomes.map((o) => o.processed) ?? [])]
+    .map(farOf).filter((f): f is FarSeries => f !== undefined);
+}
+
+/**
+ * The worker's drawings of its long series for the view shown: those that came with a stage for another view
+ * (a zoom, a pan or a resize since) are asked for again; the view goes to the worker so later stages come
+ * drawn for it. Short series are decimated here.
+ */
+function useDrawn(far: FarSeries[], view: View): (f: FarSeries) => Drawn {
+  const [fresh, setFresh] = useState<ReadonlyMap<number, Drawn>>(new Map());
+  useEffect(() => {
+    const have = (f: FarSeries) => sameView(f.drawn.view, view) || (fresh.get(f.ref) !== undefined && sameView(fresh.get(f.ref)!.view, view));
+    const need = far.filter((f) => !have(f));
+    if (!need.length && !far.length) return;
+    let stale = false;
+    getBackend().draw(need.map((f) => f.ref), view).then((ds) => {
+      if (stale || !ds.length) return;
+      setFresh((m) => {
+        const keep = new Map([...m].filter(([ref]) => far.some((f) => f.ref === ref)));
+        ds.forEach((d, i) => keep.set(need[i].ref, d));
+        return keep;
+      });
+    }, () => undefined /* a series let go meanwhile: the next stage brings its own drawing */);
+    return () => { stale = true; };
+    // `fresh` is read, not watched: a drawing that lands must not ask again.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [far, view]);
+  return useCallback((f: FarSeries) => {
+    const d = fresh.get(f.ref);
+    return d && sameView(d.view, view) ? d : f.drawn;
+  }, [fresh, view]);
 }
 
 export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) => void }) {
@@ -81,31 +118,109 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const addPeakMode = useApp((s) => s.addPeakMode);
   const boundShapes = useRef<{ start: number; end: number; peak: { x: number; start: number; end: number } } | null>(null);
 
-  const data = useMemo<PlotData[]>(() => {
-    if (!sample) return [];
-    const from = xRange ? xRange[0] : -Infinity;
-    const to = xRange ? xRange[1] : Infinity;
-    const cols = Math.max(200, width - 120);
+  const view = useMemo<View>(() => ({ from: xRange ? xRange[0] : -Infinity, to: xRange ? xRange[1] : Infinity, columns: Math.max(200, width - 120) }), [xRange, width]);
+  const far = useMemo(() => farSeriesOf(result), [result]);
+  const drawnFar = useDrawn(far, view);
+  // The raw trace lives on the page (its master copy): decimated here, again only when the view changes.
+  const rawDrawn = useMemo(() => (sample ? decimateMinMax(sample.x, sample.y, view.from, view.to, view.columns * 2) : null), [sample, view]);
+
+  // The peak markers and labels: rebuilt only when the peaks, their names or the view change, not at every stage (issue 16).
+  const peaks = result?.peaks, peakOptions = result?.peakOptions;
+  const peakTraces = useMemo<PlotData[]>(() => {
     const traces: PlotData[] = [];
     labelCount.current = null;
-    if (showRaw || !result) {
-      const d = decimateMinMax(sample.x, sample.y, from, to, cols);
-      traces.push({ type: 'scatter', mode: 'lines', name: 'raw', x: arr(d.x), y: arr(d.y), line: { color: COLOURS.raw, width: 1 }, hoverinfo: 'x+y', xaxis: 'x', yaxis: 'y' });
+    if (!peaks) return traces;
+    // At most 300 markers (highest S/N first, hand-added always): thousands of labels would stall the page.
+    let live = peaks.filter((pk) => !pk.removedByUser);
+    if (live.length > 300) {
+      const mine = live.filter((pk) => pk.origin === 'added-by-user');
+      live = [...mine, ...live.filter((pk) => pk.origin !== 'added-by-user').sort((a, b) => (b.snr ?? 0) - (a.snr ?? 0)).slice(0, 300 - mine.length)];
+    }
+    // Features the raw trace does not have: ringed again, so they cannot be taken for ordinary peaks.
+    const born = live.filter((pk) => pk.marks.includes('appears-only-after-processing') && pk.flag !== 'below-detection');
+    if (born.length) {
+      traces.push({
+        type: 'scatter', mode: 'markers', name: 'appears only after processing',
+        x: born.map((pk) => pk.x), y: born.map((pk) => pk.y),
+        text: born.map((pk) => `appears only after processing: the raw trace has nothing here that passes the same thresholds (S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)} now)`),
+        hoverinfo: 'x+text',
+        marker: { symbol: 'square-open', size: 20, color: COLOURS.spike, line: { width: 2.5, color: COLOURS.spike } },
+        xaxis: 'x', yaxis: 'y',
+      });
+    }
+    if (live.length) {
+      // Issue 17: one trace per marker shape, so the legend has a key for each; peaks added by hand have their own.
+      const lim = peakOptions?.limits ?? { detection: 3, quantitation: 10 };
+      const kinds: { name: string; keep: (pk: Peak) => boolean; symbol: string; colour: string; size: number }[] = [
+        { name: `quantifiable peak (S/N ≥ ${lim.quantitation})`, keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'quantifiable', symbol: 'triangle-down', colour: COLOURS.peak, size: 10 },
+        { name: `detected peak (S/N ${lim.detection}–${lim.quantitation})`, keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'detectable', symbol: 'diamond', colour: COLOURS.baseline, size: 10 },
+        { name: `below the detection limit (S/N < ${lim.detection})`, keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'below-detection', symbol: 'circle-open', colour: COLOURS.spike, size: 10 },
+        { name: 'S/N not measured', keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'not-measured', symbol: 'hexagon-open', colour: COLOURS.raw, size: 10 },
+        { name: 'peak added by hand', keep: (pk) => pk.origin === 'added-by-user', symbol: 'star', colour: COLOURS.processed, size: 13 },
+      ];
+      for (const k of kinds) {
+        const pks = live.filter(k.keep);
+        if (!pks.length) continue;
+        traces.push({
+          type: 'scatter', mode: 'markers', name: k.name,
+          x: pks.map((pk) => pk.x), y: pks.map((pk) => pk.y),
+          hovertext: pks.map((pk) => `${names.has(pk) ? `${names.get(pk)}<br>` : ''}apex ${pk.x.toPrecision(6)}<br>height ${pk.height.toPrecision(4)}<br>FWHM ${pk.fwhm.toPrecision(4)} (${pk.leftHalf.toPrecision(6)} – ${pk.rightHalf.toPrecision(6)})<br>start – end ${pk.start.toPrecision(6)} – ${pk.end.toPrecision(6)}<br>S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)}${pk.marks.map((m) => `<br>${MARK_TEXT[m]}`).join('')}${pk.origin === 'added-by-user' ? '<br>added by hand' : ''}<br>click: see it under each choice`),
+          hoverinfo: 'text',
+          marker: { symbol: k.symbol, color: k.colour, size: k.size, line: { width: 1.5, color: k.colour } },
+          xaxis: 'x', yaxis: 'y',
+        });
+      }
+      // Labels that never overlap (issue 17): placed in the figure's own pixels, thinned by priority (plot-labels.ts).
+      // Placed only with the geometry of the view asked for (a zoom redraws once more with the new one).
+      if (geom && (!xRange || (Math.abs(geom.x[0] - xRange[0]) <= 1e-9 * Math.abs(xRange[1] - xRange[0]) && Math.abs(geom.x[1] - xRange[1]) <= 1e-9 * Math.abs(xRange[1] - xRange[0])))) {
+        // Over the whole trace, bumps below the detection limit get no label (they are mostly noise); zoomed in, they may.
+        const inView = live.filter((pk) => pk.x >= geom.x[0] && pk.x <= geom.x[1] && (xRange !== null || pk.flag !== 'below-detection' || pk.origin === 'added-by-user' || names.has(pk)));
+        const items = inView.map((pk) => ({
+          px: ((pk.x - geom.x[0]) / (geom.x[1] - geom.x[0])) * geom.w,
+          py: geom.h - ((pk.y - geom.y[0]) / (geom.y[1] - geom.y[0])) * geom.h,
+          text: `${names.has(pk) ? `${names.get(pk)} · ` : ''}${pk.snr === null ? '?' : pk.snr.toFixed(pk.snr < 10 ? 1 : 0)}`,
+          priority: (names.has(pk) ? 2e9 : 0) + (pk.origin === 'added-by-user' ? 1e9 : 0) + Math.min(pk.snr ?? 0, 1e8),
+        }));
+        const kept = placeLabels(items, geom.w, geom.h).map((k) => ({ pk: inView[k.index], text: items[k.index].text, spot: k.spot }));
+        traces.push({
+          type: 'scatter', mode: 'text', name: 'peak labels (S/N)', showlegend: false, hoverinfo: 'skip',
+          x: kept.map((k) => k.pk.x), y: kept.map((k) => k.pk.y), text: kept.map((k) => k.text),
+          textposition: kept.map((k) => k.spot), textfont: { size: 11, color: COLOURS.ink }, cliponaxis: false,
+          xaxis: 'x', yaxis: 'y',
+        });
+        const below = live.filter((pk) => pk.x >= geom.x[0] && pk.x <= geom.x[1]).length - inView.length;
+        labelCount.current = { shown: kept.length, of: inView.length, below };
+      }
+    }
+    return traces;
+  }, [peaks, peakOptions, names, geom, xRange]);
+
+  const data = useMemo<PlotData[]>(() => {
+    if (!sample) return [];
+    const { from, to, columns } = view;
+    /** A series as drawn: the worker's drawing when it stayed there, else decimated here (it is short). */
+    const line = (x: Float64Array, y: Float64Array, key: Signal | Float64Array): { x: Float64Array; y: Float64Array } => {
+      const f = farOf(key);
+      return f ? drawnFar(f) : decimateMinMax(x, y, from, to, columns * 2);
+    };
+    const traces: PlotData[] = [];
+    if ((showRaw || !result) && rawDrawn) {
+      traces.push({ type: 'scatter', mode: 'lines', name: 'raw', x: rawDrawn.x, y: rawDrawn.y, line: { color: COLOURS.raw, width: 1 }, hoverinfo: 'x+y', xaxis: 'x', yaxis: 'y' });
     }
     if (result) {
-      if (result.baseline && result.baseline.length === result.processed.x.length) {
-        const d = decimateMinMax(result.processed.x, result.baseline, from, to, cols);
-        traces.push({ type: 'scatter', mode: 'lines', name: 'baseline', x: arr(d.x), y: arr(d.y), line: { color: COLOURS.baseline, width: 1.5, dash: 'dash' }, xaxis: 'x', yaxis: 'y' });
+      if (result.baseline && (farOf(result.baseline) || result.baseline.length === result.processed.x.length)) {
+        const d = line(result.processed.x, result.baseline, result.baseline);
+        traces.push({ type: 'scatter', mode: 'lines', name: 'baseline', x: d.x, y: d.y, line: { color: COLOURS.baseline, width: 1.5, dash: 'dash' }, xaxis: 'x', yaxis: 'y' });
       }
       if (result.intermediate) {
-        const d = decimateMinMax(result.intermediate.x, result.intermediate.y, from, to, cols);
-        traces.push({ type: 'scatter', mode: 'lines', name: 'chosen step output', x: arr(d.x), y: arr(d.y), line: { color: COLOURS.intermediate, width: 1.2, dash: 'dot' }, xaxis: 'x', yaxis: 'y' });
+        const d = line(result.intermediate.x, result.intermediate.y, result.intermediate);
+        traces.push({ type: 'scatter', mode: 'lines', name: 'chosen step output', x: d.x, y: d.y, line: { color: COLOURS.intermediate, width: 1.2, dash: 'dot' }, xaxis: 'x', yaxis: 'y' });
       }
       if (showAlt && result.loss) {
         result.loss.outcomes.forEach((o) => {
           const i = altList.findIndex((a) => a.id === o.id);
-          const d = decimateMinMax(o.processed.x, o.processed.y, from, to, cols);
-          traces.push({ type: 'scatter', mode: 'lines', name: o.label, x: arr(d.x), y: arr(d.y), line: { color: ALTERNATIVE_COLOURS[(i < 0 ? 0 : i) % ALTERNATIVE_COLOURS.length], width: 1.2, dash: ['dash', 'dot', 'dashdot', 'longdash', 'longdashdot', 'solid'][(i < 0 ? 0 : i) % 6] }, xaxis: 'x', yaxis: 'y' });
+          const d = line(o.processed.x, o.processed.y, o.processed);
+          traces.push({ type: 'scatter', mode: 'lines', name: o.label, x: d.x, y: d.y, line: { color: ALTERNATIVE_COLOURS[(i < 0 ? 0 : i) % ALTERNATIVE_COLOURS.length], width: 1.2, dash: ['dash', 'dot', 'dashdot', 'longdash', 'longdashdot', 'solid'][(i < 0 ? 0 : i) % 6] }, xaxis: 'x', yaxis: 'y' });
         });
       }
       if (result.loss) {
@@ -116,7 +231,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
           const ly = interpolateLinear(sample.x, sample.y, lx);
           traces.push({
             type: 'scatter', mode: 'markers', name: 'features lost by some choice',
-            x: arr(lx), y: arr(ly),
+            x: lx, y: ly,
             text: lost.map((r) => `lost with: ${r.cells.map((c, k) => (c.found || k < r.firstFoundIn ? null : result.loss!.ledger.alternatives[k].label)).filter(Boolean).join(', ')}`),
             hoverinfo: 'x+text',
             marker: { symbol: 'circle-open', size: 22, color: '#c0392b', line: { width: 2.5, color: '#c0392b' } },
@@ -124,8 +239,8 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
           });
         }
       }
-      const p = decimateMinMax(result.processed.x, result.processed.y, from, to, cols);
-      traces.push({ type: 'scatter', mode: 'lines', name: 'processed', x: arr(p.x), y: arr(p.y), line: { color: COLOURS.processed, width: 1.8 }, xaxis: 'x', yaxis: 'y' });
+      const p = line(result.processed.x, result.processed.y, result.processed);
+      traces.push({ type: 'scatter', mode: 'lines', name: 'processed', x: p.x, y: p.y, line: { color: COLOURS.processed, width: 1.8 }, xaxis: 'x', yaxis: 'y' });
       if (result.events.length) {
         traces.push({
           type: 'scatter', mode: 'markers', name: 'replaced points',
@@ -135,73 +250,12 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
           hoverinfo: 'x+text', xaxis: 'x', yaxis: 'y',
         });
       }
-      // At most 300 markers (highest S/N first, hand-added always): thousands of labels would stall the page.
-      let live = result.peaks.filter((pk) => !pk.removedByUser);
-      if (live.length > 300) {
-        const mine = live.filter((pk) => pk.origin === 'added-by-user');
-        live = [...mine, ...live.filter((pk) => pk.origin !== 'added-by-user').sort((a, b) => (b.snr ?? 0) - (a.snr ?? 0)).slice(0, 300 - mine.length)];
-      }
-      // Features the raw trace does not have: ringed again, so they cannot be taken for ordinary peaks.
-      const born = live.filter((pk) => pk.marks.includes('appears-only-after-processing') && pk.flag !== 'below-detection');
-      if (born.length) {
-        traces.push({
-          type: 'scatter', mode: 'markers', name: 'appears only after processing',
-          x: born.map((pk) => pk.x), y: born.map((pk) => pk.y),
-          text: born.map((pk) => `appears only after processing: the raw trace has nothing here that passes the same thresholds (S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)} now)`),
-          hoverinfo: 'x+text',
-          marker: { symbol: 'square-open', size: 20, color: COLOURS.spike, line: { width: 2.5, color: COLOURS.spike } },
-          xaxis: 'x', yaxis: 'y',
-        });
-      }
-      if (live.length) {
-        // Issue 17: one trace per marker shape, so the legend has a key for each; peaks added by hand have their own.
-        const lim = result.peakOptions?.limits ?? { detection: 3, quantitation: 10 };
-        const kinds: { name: string; keep: (pk: Peak) => boolean; symbol: string; colour: string; size: number }[] = [
-          { name: `quantifiable peak (S/N ≥ ${lim.quantitation})`, keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'quantifiable', symbol: 'triangle-down', colour: COLOURS.peak, size: 10 },
-          { name: `detected peak (S/N ${lim.detection}–${lim.quantitation})`, keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'detectable', symbol: 'diamond', colour: COLOURS.baseline, size: 10 },
-          { name: `below the detection limit (S/N < ${lim.detection})`, keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'below-detection', symbol: 'circle-open', colour: COLOURS.spike, size: 10 },
-          { name: 'S/N not measured', keep: (pk) => pk.origin !== 'added-by-user' && pk.flag === 'not-measured', symbol: 'hexagon-open', colour: COLOURS.raw, size: 10 },
-          { name: 'peak added by hand', keep: (pk) => pk.origin === 'added-by-user', symbol: 'star', colour: COLOURS.processed, size: 13 },
-        ];
-        for (const k of kinds) {
-          const pks = live.filter(k.keep);
-          if (!pks.length) continue;
-          traces.push({
-            type: 'scatter', mode: 'markers', name: k.name,
-            x: pks.map((pk) => pk.x), y: pks.map((pk) => pk.y),
-            hovertext: pks.map((pk) => `${names.has(pk) ? `${names.get(pk)}<br>` : ''}apex ${pk.x.toPrecision(6)}<br>height ${pk.height.toPrecision(4)}<br>FWHM ${pk.fwhm.toPrecision(4)} (${pk.leftHalf.toPrecision(6)} – ${pk.rightHalf.toPrecision(6)})<br>start – end ${pk.start.toPrecision(6)} – ${pk.end.toPrecision(6)}<br>S/N ${pk.snr === null ? '—' : pk.snr.toPrecision(3)}${pk.marks.map((m) => `<br>${MARK_TEXT[m]}`).join('')}${pk.origin === 'added-by-user' ? '<br>added by hand' : ''}<br>click: see it under each choice`),
-            hoverinfo: 'text',
-            marker: { symbol: k.symbol, color: k.colour, size: k.size, line: { width: 1.5, color: k.colour } },
-            xaxis: 'x', yaxis: 'y',
-          });
-        }
-        // Labels that never overlap (issue 17): placed in the figure's own pixels, thinned by priority (plot-labels.ts).
-        // Placed only with the geometry of the view asked for (a zoom redraws once more with the new one).
-        if (geom && (!xRange || (Math.abs(geom.x[0] - xRange[0]) <= 1e-9 * Math.abs(xRange[1] - xRange[0]) && Math.abs(geom.x[1] - xRange[1]) <= 1e-9 * Math.abs(xRange[1] - xRange[0])))) {
-          // Over the whole trace, bumps below the detection limit get no label (they are mostly noise); zoomed in, they may.
-          const inView = live.filter((pk) => pk.x >= geom.x[0] && pk.x <= geom.x[1] && (xRange !== null || pk.flag !== 'below-detection' || pk.origin === 'added-by-user' || names.has(pk)));
-          const items = inView.map((pk) => ({
-            px: ((pk.x - geom.x[0]) / (geom.x[1] - geom.x[0])) * geom.w,
-            py: geom.h - ((pk.y - geom.y[0]) / (geom.y[1] - geom.y[0])) * geom.h,
-            text: `${names.has(pk) ? `${names.get(pk)} · ` : ''}${pk.snr === null ? '?' : pk.snr.toFixed(pk.snr < 10 ? 1 : 0)}`,
-            priority: (names.has(pk) ? 2e9 : 0) + (pk.origin === 'added-by-user' ? 1e9 : 0) + Math.min(pk.snr ?? 0, 1e8),
-          }));
-          const kept = placeLabels(items, geom.w, geom.h).map((k) => ({ pk: inView[k.index], text: items[k.index].text, spot: k.spot }));
-          traces.push({
-            type: 'scatter', mode: 'text', name: 'peak labels (S/N)', showlegend: false, hoverinfo: 'skip',
-            x: kept.map((k) => k.pk.x), y: kept.map((k) => k.pk.y), text: kept.map((k) => k.text),
-            textposition: kept.map((k) => k.spot), textfont: { size: 11, color: COLOURS.ink }, cliponaxis: false,
-            xaxis: 'x', yaxis: 'y',
-          });
-          const below = live.filter((pk) => pk.x >= geom.x[0] && pk.x <= geom.x[1]).length - inView.length;
-          labelCount.current = { shown: kept.length, of: inView.length, below };
-        }
-      }
-      const r = decimateMinMax(result.residual.x, result.residual.y, from, to, cols);
-      traces.push({ type: 'scatter', mode: 'lines', name: 'residual (raw − processed)', x: arr(r.x), y: arr(r.y), line: { color: COLOURS.residual, width: 1 }, xaxis: 'x', yaxis: 'y2' });
+      traces.push(...peakTraces);
+      const r = line(result.residual.x, result.residual.y, result.residual);
+      traces.push({ type: 'scatter', mode: 'lines', name: 'residual (raw − processed)', x: r.x, y: r.y, line: { color: COLOURS.residual, width: 1 }, xaxis: 'x', yaxis: 'y2' });
     }
     return traces;
-  }, [sample, result, xRange, showRaw, width, showAlt, altList, names, geom]);
+  }, [sample, result, showRaw, view, rawDrawn, drawnFar, showAlt, altList, peakTraces]);
 
   const yView = useMemo(() => {
     if (!xRange || !yFits) return null;
@@ -212,7 +266,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const layout = useMemo<PlotLayout>(() => {
     const xTitle = sample ? axisLabel(sample.xName, sample.xUnit) : 'x';
     const yTitle = sample ? axisLabel(sample.yName, sample.yUnit) : 'y';
-    const shapes: Record<string, unknown>[] = marked ? [{ type: 'rect', xref: 'x', yref: 'paper', x0: marked[0], x1: marked[1], y0: 0, y1: 1, fillcolor: 'rgba(0,158,115,0.10)', line: { width: 0 } }] : [];
+    const shapes: PlotShape[] = marked ? [{ type: 'rect', xref: 'x', yref: 'paper', x0: marked[0], x1: marked[1], y0: 0, y1: 1, fillcolor: 'rgba(0,158,115,0.10)', line: { width: 0 } }] : [];
     // Issue 17: ranges left out of peak finding, shaded grey with a legend key (the trace itself is unchanged).
     (excluded ?? []).forEach(([a, b], i) => shapes.push({
       type: 'rect', xref: 'x', yref: 'y domain', x0: a, x1: b, y0: 0, y1: 1, fillcolor: 'rgba(120,128,140,0.22)', line: { width: 0 }, layer: 'below',

@@ -8,7 +8,7 @@ import { MAX_FILE_BYTES, type LoadOptions, type LoadResult } from '../core/io/ty
 import type { TraceRole } from '../core/trace.ts';
 import { useApp } from '../state/store.ts';
 import { SNAP_POINTS, snapHandPeak } from '../core/measure/hand-peak.ts';
-import { inProcessBackend, LatestOnly, workerBackend, type ComputeBackend } from '../worker/bridge.ts';
+import { exactSignal, inProcessBackend, LatestOnly, workerBackend, type ComputeBackend } from '../worker/bridge.ts';
 
 let backend: ComputeBackend | null = null;
 let scheduler: LatestOnly | null = null;
@@ -283,12 +283,13 @@ export function cancelLoad(): void {
  * of the trace the peaks are measured on (within SNAP_POINTS samples) and is
  * kept as a decision there, or is refused; either way the plot says so.
  */
-export function addPeakByHand(at: number): void {
+export async function addPeakByHand(at: number): Promise<void> {
   const s = useApp.getState();
   const sample = s.traces.find((t) => t.id === s.sampleId);
   const result = s.result && s.result.sampleId === s.sampleId ? s.result : null;
   if (!sample || !result) { s.setHandNote({ kind: 'refused', text: 'The trace is still being measured; click again when the peak table shows.' }); return; }
-  const on = s.peakSettings.measureOn === 'raw' ? { x: sample.x, y: sample.y } : result.processed;
+  // The exact processed trace (fetched from the worker when it stayed there, worker/series.ts).
+  const on = s.peakSettings.measureOn === 'raw' ? { x: sample.x, y: sample.y } : await exactSignal(getBackend(), result.processed);
   const taken = result.peaks.filter((p) => !p.removedByUser).map((p) => p.x);
   const place = snapHandPeak(on.x, on.y, at, { negative: s.peakSettings.negative, taken, xUnit: sample.xUnit });
   if (!place.ok) { s.setHandNote({ kind: 'refused', text: `Peak not added: ${place.reason}` }); return; }

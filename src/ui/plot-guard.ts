@@ -19,8 +19,7 @@
  */
 
 /** A curve and a layout as the plot library takes them (the same shapes as in plotly.d.ts; no import, so Node tests need no library types). */
-type PlotData = Record<string, unknown>;
-type PlotLayout = Record<string, unknown>;
+import type { PlotData, PlotLayout, PlotShape } from 'plotly.js-strict-dist-min';
 
 /** Largest magnitude drawn as it is (the library drew 1e290 cleanly in Chromium; 1e308 gave NaN paths). */
 export const LARGE = 1e290;
@@ -187,13 +186,13 @@ export function guardFigure(data: readonly PlotData[], layout: PlotLayout): Guar
     }
   }
   if (Array.isArray(layout.shapes) && Object.keys(transforms).length) {
-    outLayout.shapes = (layout.shapes as Record<string, unknown>[]).map((s) => {
-      const c = { ...s };
+    outLayout.shapes = layout.shapes.map((s) => {
+      const c: PlotShape = { ...s };
       for (const [ref, keys] of [['xref', ['x0', 'x1']], ['yref', ['y0', 'y1']]] as const) {
         const axis = typeof s[ref] === 'string' ? (s[ref] as string) : ref[0];
         const tr = transforms[axis];
         if (!tr) continue;
-        for (const k of keys) if (typeof s[k] === 'number') c[k] = toDrawn(s[k] as number, tr);
+        for (const k of keys) if (typeof s[k] === 'number') c[k] = toDrawn(s[k], tr);
       }
       return c;
     });

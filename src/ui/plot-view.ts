@@ -4,8 +4,8 @@
  * margin, so a shoulder fills the plot instead of staying a bump.
  */
 export interface DrawnSeries {
-  x?: ArrayLike<number>;
-  y?: ArrayLike<number>;
+  x?: ArrayLike<number | null>;
+  y?: ArrayLike<number | null>;
   yaxis?: string;
   visible?: boolean | 'legendonly';
 }
@@ -18,7 +18,7 @@ export function visibleYRange(series: readonly DrawnSeries[], from: number, to: 
     const n = Math.min(s.x.length, s.y.length);
     for (let i = 0; i < n; i++) {
       const xv = s.x[i], yv = s.y[i];
-      if (xv < from || xv > to || !Number.isFinite(yv)) continue;
+      if (xv === null || yv === null || xv < from || xv > to || !Number.isFinite(yv)) continue;
       if (yv < lo) lo = yv;
       if (yv > hi) hi = yv;
     }
@@ -29,7 +29,13 @@ export function visibleYRange(series: readonly DrawnSeries[], from: number, to: 
 }
 
 /** One series as the readout reads it: full-resolution x (ascending) and y. */
-export interface ReadSeries { name: string; x: ArrayLike<number>; y: ArrayLike<number> }
+export interface ReadSeries {
+  name: string;
+  x: ArrayLike<number>;
+  y: ArrayLike<number>;
+  /** The number of the series in the worker when it stayed there (worker/series.ts); x and y are then empty. */
+  far?: number;
+}
 
 /** The sample of `s` nearest to x (in x); null for an empty series. */
 export function nearestPoint(s: ReadSeries, x: number): { x: number; y: number; index: number } | null {

@@ -9,18 +9,40 @@
  * holds up the plot. Where no Worker exists (Node tests) everything runs
  * in-process, stage by stage the same way.
  */
-import type { AnalyseRequest, StageUpdate } from '../core/analysis/index.ts';
+import type { AnalyseRequest, AnalyseResult, StageUpdate } from '../core/analysis/index.ts';
 import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import type { Trace } from '../core/trace.ts';
-import { Engine } from './engine.ts';
-import type { Call, FromWorker, Method, ParamsOf, ProgressOf, ResultOf, ToWorker } from './protocol.ts';
+import { HeldTraces } from './held-traces.ts';
+import type { Call, FromWorker, Method, ParamsOf, ProgressOf, ResultOf, ToWorker } from './api.ts';
 import { runBatch, type BatchFile, type BatchProgress, type BatchResult, type BatchSettings } from '../core/export/batch.ts';
 import type { Recipe } from '../core/recipe.ts';
 import { STEP_REGISTRY } from '../core/steps/registry.ts';
 import type { FitJobOutcome, FitRequest } from './fit-job.ts';
 import { macrotask, runStages } from './stager.ts';
-import { fromColumns } from './columns.ts';
+import { fromColumns } from './transfer.ts';
 import type { Peak } from '../core/measure/peak-types.ts';
+import type { Signal } from '../core/steps/types.ts';
+import type { Drawn, FarSeries, NearestPoint, View } from './series.ts';
+
+/**
+ * Series kept in the worker (series.ts), by the placeholder that stands in for them in the page's result: the
+ * Signal object (processed, residual, intermediate, an alternative's output) or the empty baseline array.
+ */
+const farSeries = new WeakMap<object, FarSeries>();
+
+/** The series kept in the worker that this field of a result stands for; undefined when it crossed whole. */
+export function farOf(s: Signal | Float64Array | null | undefined): FarSeries | undefined {
+  return s ? farSeries.get(s) : undefined;
+}
+
+/** A stage's patch with each placeholder registered against the series it stands for. */
+function markFar(patch: Partial<AnalyseResult>, far: readonly FarSeries[]): void {
+  for (const f of far) {
+    const at: object | undefined = f.field === 'outcome' ? patch.loss?.outcomes.find((o) => o.id === f.id)?.processed
+      : f.field === 'baseline' ? patch.baseline ?? undefined : patch[f.field] ?? undefined;
+    if (at) farSeries.set(at, f);
+  }
+}
 
 type Job = {
   resolve: (v: unknown) => void;
@@ -79,6 +101,7 @@ class WorkerChannel {
     if (msg.type === 'progress') { job.onProgress?.(msg.progress); return; }
     if (msg.type === 'stage') {
       const update = msg.peakColumns ? { ...msg.update, patch: { ...msg.update.patch, peaks: fromColumns<Peak>(msg.peakColumns) } } : msg.update;
+      if (msg.far) markFar(update.patch, msg.far);
       job.onStage?.(update);
       return;
     }
@@ -121,6 +144,41 @@ export interface ComputeBackend {
   fit(request: FitRequest): Promise<FitJobOutcome>;
   /** One recipe over many files (the files' bytes are handed over); off the page's thread where there is a worker. */
   batch(files: BatchFile[], recipe: Recipe, settings: BatchSettings, onProgress?: (p: BatchProgress) => void): Promise<BatchResult>;
+  /** Series kept in the worker, drawn for a view (which later stages then use too). */
+  draw(refs: number[], view: View): Promise<Drawn[]>;
+  /** Exact copies of series kept in the worker, whole or between two x. */
+  slice(refs: number[], from?: number, to?: number): Promise<Signal[]>;
+  /** The sample of each series kept in the worker nearest to x. */
+  nearest(refs: number[], x: number): Promise<(NearestPoint | null)[]>;
+}
+
+/** The exact arrays of one field of a result (fetched from the worker when they stayed there). */
+export async function exactSignal(backend: ComputeBackend, s: Signal, from?: number, to?: number): Promise<Signal> {
+  const f = farOf(s);
+  return f ? (await backend.slice([f.ref], from, to))[0] : s;
+}
+
+/**
+ * A copy of a result with every series that stayed in the worker fetched whole (exports, reports): exactly
+ * the arrays the analysis made, in one call. The result itself is not changed.
+ */
+export async function exactResult(backend: ComputeBackend, r: AnalyseResult): Promise<AnalyseResult> {
+  const outcomes = r.loss?.outcomes ?? [];
+  const fields: (Signal | Float64Array | null | undefined)[] = [r.processed, r.residual, r.baseline, r.intermediate, ...outcomes.map((o) => o.processed)];
+  const far = fields.map(farOf);
+  const refs = far.filter((f): f is FarSeries => f !== undefined).map((f) => f.ref);
+  if (!refs.length) return r;
+  const got = new Map<number, Signal>();
+  (await backend.slice(refs)).forEach((s, i) => got.set(refs[i], s));
+  const sig = (s: Signal, f: FarSeries | undefined) => (f ? got.get(f.ref)! : s);
+  return {
+    ...r,
+    processed: sig(r.processed, far[0]),
+    residual: sig(r.residual, far[1]),
+    baseline: far[2] ? got.get(far[2].ref)!.y : r.baseline,
+    intermediate: r.intermediate ? sig(r.intermediate, far[3]) : r.intermediate,
+    loss: r.loss ? { ...r.loss, outcomes: outcomes.map((o, k) => ({ ...o, processed: sig(o.processed, far[4 + k]) })) } : r.loss,
+  };
 }
 
 /**
@@ -200,29 +258,36 @@ export function workerBackend(make: () => Worker, problem: ProblemSink = () => u
       const transfer = [...new Set(files.map((f) => f.bytes.buffer as ArrayBuffer))];
       return loader.call('batch', { files, recipe, settings }, { transfer, onProgress });
     },
+    draw(refs, view) { return compute.call('draw', { refs, view }); },
+    slice(refs, from, to) { return compute.call('slice', { refs, from, to }); },
+    nearest(refs, x) { return compute.call('nearest', { refs, x }); },
   };
 }
 
 /** Backend running in the calling thread (tests, or when Worker is missing). */
 export function inProcessBackend(): ComputeBackend {
-  const engine = new Engine();
+  const held = new HeldTraces();
   let latest = 0;
   return {
-    setInputs(t) { engine.setInputs(t); },
+    setInputs(t) { held.setInputs(t); },
     analyse(request, onStage, side) {
       const mine = side ? 0 : ++latest;
       // Started on a later task, as a worker would, so a newer request made in the same task wins at once.
-      return macrotask().then(() => runStages(engine.stages(request), onStage, () => !side && mine !== latest)).then((o) => o === 'done');
+      return macrotask().then(() => runStages(held.stages(request), onStage, () => !side && mine !== latest)).then((o) => o === 'done');
     },
     load(bytes, fileName, options, onProgress) {
-      return Promise.resolve().then(() => engine.load(bytes, fileName, options, onProgress ?? (() => undefined)));
+      return Promise.resolve().then(() => held.load(bytes, fileName, options, onProgress ?? (() => undefined)));
     },
     cancelLoad() { /* an in-process load cannot be interrupted */ },
-    fit(request) { return Promise.resolve().then(() => engine.fit(request)); },
+    fit(request) { return Promise.resolve().then(() => held.fit(request)); },
     batch(files, recipe, settings, onProgress) {
       // In this thread: the page repaints between files (a timer after each).
       return runBatch(files, recipe, STEP_REGISTRY, settings, (p) => { onProgress?.(p); return macrotask(); });
     },
+    // In this thread every series is handed over whole, so nothing is ever kept apart to ask for.
+    draw() { return Promise.reject(new Error('No series are kept apart when the analysis runs in the page.')); },
+    slice() { return Promise.reject(new Error('No series are kept apart when the analysis runs in the page.')); },
+    nearest() { return Promise.reject(new Error('No series are kept apart when the analysis runs in the page.')); },
   };
 }
 

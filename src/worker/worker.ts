@@ -6,15 +6,17 @@
  * dropped: with the call's id, or with none when the message belonged to no
  * call (the page then shows it as a notice).
  */
-import type { Call, FromWorker, Method, ParamsOf, ProgressOf, ResultOf, ThroughPort, ToWorker } from './protocol.ts';
-import { Engine, transferablesOf } from './engine.ts';
-import { cloneResultForTransfer } from './clone.ts';
+import type { Call, FromWorker, Method, ParamsOf, ProgressOf, ResultOf, ThroughPort, ToWorker } from './api.ts';
+import { HeldTraces } from './held-traces.ts';
+import { cloneResultForTransfer, columnBuffers, toColumns, transferablesOf } from './transfer.ts';
 import { runStages } from './stager.ts';
-import { columnBuffers, toColumns } from './columns.ts';
 import { runBatch } from '../core/export/batch.ts';
+import { SeriesStore } from './series.ts';
 import { STEP_REGISTRY } from '../core/steps/registry.ts';
 
-const engine = new Engine();
+const held = new HeldTraces();
+/** Long series of the newest analyses, kept here so they need not cross to the page (series.ts). */
+const series = new SeriesStore();
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 /** The port to the other worker (the same script runs as the loading and as the computation worker). */
 let peer: MessagePort | null = null;
@@ -38,8 +40,8 @@ function progress<M extends Method>(method: M, jobId: number, p: ProgressOf<M>) 
 
 function fromPeer(ev: MessageEvent<ThroughPort>) {
   if (ev.data?.type !== 'traces') return;
-  engine.stage(ev.data.traces);
-  while (!engine.incomplete && deferred.length) void call(deferred.shift()!);
+  held.stage(ev.data.traces);
+  while (!held.incomplete && deferred.length) void call(deferred.shift()!);
 }
 
 scope.onmessage = (ev: MessageEvent<ToWorker>) => {
@@ -59,8 +61,8 @@ async function handle(msg: ToWorker): Promise<void> {
       peer = msg.port;
       peer.onmessage = fromPeer;
     } else if (msg.type === 'inputs') {
-      engine.setInputs(msg.traces, msg.keep);
-      while (!engine.incomplete && deferred.length) void call(deferred.shift()!);
+      held.setInputs(msg.traces, msg.keep);
+      while (!held.incomplete && deferred.length) void call(deferred.shift()!);
     } else if (msg.type === 'call') {
       await call(msg);
     } else {
@@ -74,7 +76,7 @@ async function handle(msg: ToWorker): Promise<void> {
 async function call(msg: Call): Promise<void> {
   const jobId = msg.jobId;
   try {
-    if ((msg.method === 'analyse' || msg.method === 'fit') && engine.incomplete) {
+    if ((msg.method === 'analyse' || msg.method === 'fit') && held.incomplete) {
       deferred.push(msg);
       // Traces come through the port within moments of the page naming them; if not, the page is told and sends them itself.
       setTimeout(() => {
@@ -89,11 +91,22 @@ async function call(msg: Call): Promise<void> {
       case 'analyse': await analyse(jobId, msg.params); break;
       case 'fit': {
         // Issue 18: a fit's arrays are its own (not cached), so they are transferred as they are.
-        const outcome = engine.fit(msg.params);
+        const outcome = held.fit(msg.params);
         reply('fit', jobId, outcome, transferablesOf(outcome));
         break;
       }
       case 'load': await load(jobId, msg.params); break;
+      case 'draw': {
+        const drawn = series.draw(msg.params.refs, msg.params.view);
+        reply('draw', jobId, drawn, drawn.flatMap((d) => [d.x.buffer as ArrayBuffer, d.y.buffer as ArrayBuffer]));
+        break;
+      }
+      case 'slice': {
+        const parts = series.slice(msg.params.refs, msg.params.from, msg.params.to);
+        reply('slice', jobId, parts, parts.flatMap((d) => [d.x.buffer as ArrayBuffer, d.y.buffer as ArrayBuffer]));
+        break;
+      }
+      case 'nearest': reply('nearest', jobId, series.nearest(msg.params.refs, msg.params.x)); break;
       case 'batch': {
         const { files, recipe, settings } = msg.params;
         const result = await runBatch(files, recipe, STEP_REGISTRY, settings, (p) => progress('batch', jobId, p));
@@ -108,19 +121,25 @@ async function call(msg: Call): Promise<void> {
 
 async function analyse(jobId: number, params: ParamsOf<'analyse'>): Promise<void> {
   const t0 = Date.now();
-  const outcome = await runStages(engine.stages(params.request), (update) => {
-    // Cached outputs must stay usable here, so send copies and transfer those; the peak table goes as columns.
-    const { peaks, ...rest } = update.patch;
+  const outcome = await runStages(held.stages(params.request), (update) => {
+    // Long series stay here (drawn for the page's view); cached outputs must stay usable, so the rest goes as
+    // copies, transferred; the peak table goes as columns.
+    // Side jobs (the standards' analyses) cross whole as before: only their peaks are used, and keeping their
+    // series here would push out the sample's, which exports may still ask for.
+    const thin = params.side ? { patch: update.patch, far: [] } : series.thin(update.patch, jobId);
+    const { peaks, ...rest } = thin.patch;
     const patch = cloneResultForTransfer(rest);
     const peakColumns = peaks ? toColumns(peaks as unknown as Record<string, unknown>[]) : undefined;
-    post({ type: 'stage', jobId, update: { ...update, patch }, peakColumns }, [...transferablesOf(patch), ...(peakColumns ? columnBuffers(peakColumns) : [])]);
+    const far = thin.far.length ? thin.far : undefined;
+    const drawn = thin.far.flatMap((f) => [f.drawn.x.buffer as ArrayBuffer, f.drawn.y.buffer as ArrayBuffer]);
+    post({ type: 'stage', jobId, update: { ...update, patch }, peakColumns, far }, [...transferablesOf(patch), ...(peakColumns ? columnBuffers(peakColumns) : []), ...drawn]);
   }, () => !params.side && latestJob !== jobId);
   reply('analyse', jobId, { outcome, ms: Date.now() - t0 });
 }
 
 async function load(jobId: number, params: ParamsOf<'load'>): Promise<void> {
   let last = 0;
-  const result = await engine.load(params.bytes, params.fileName, params.options, (fraction) => {
+  const result = await held.load(params.bytes, params.fileName, params.options, (fraction) => {
     const now = Date.now();
     if (now - last > 80) { last = now; progress('load', jobId, fraction); }
   });

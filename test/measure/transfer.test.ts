@@ -5,8 +5,7 @@
  * be posted (found on the page: undo after a window change showed a stale result).
  */
 import { describe, expect, it } from 'vitest';
-import { cloneResultForTransfer } from '../../src/worker/clone.ts';
-import { transferablesOf } from '../../src/worker/engine.ts';
+import { cloneResultForTransfer, transferablesOf } from '../../src/worker/transfer.ts';
 
 describe('result copies for transfer', () => {
   it('copy every typed array, so transferring the copies leaves the originals intact', () => {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
-import { Engine } from '../../src/worker/engine.ts';
+import { HeldTraces } from '../../src/worker/held-traces.ts';
 import { sha256Hex } from '../../src/core/io/sha256.ts';
 import { emptyRecipe, makeRecipeStep, type Recipe } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY, stepDefinition } from '../../src/core/steps/registry.ts';
@@ -11,7 +11,7 @@ const hashOf = (t: Trace) => `${sha256Hex(new Uint8Array(t.x.buffer, t.x.byteOff
 
 describe('raw data is never changed', () => {
   it('a full session of edits through the engine leaves every loaded trace bit-identical (SHA-256 of x and y)', async () => {
-    const engine = new Engine();
+    const engine = new HeldTraces();
     const traces: Trace[] = [];
     for (const f of ['demo-sample.csv', 'demo-blank.csv', 'demo-scan-1.csv', 'demo-scan-2.csv']) {
       const r = await engine.load(new Uint8Array(readFileSync(`public/demo/${f}`)), f, undefined, () => undefined);

@@ -8,7 +8,7 @@
 import { describe, expect, test } from 'vitest';
 import { axisTransform, guardFigure, toDataUnits, toDrawn } from '../../src/ui/plot-guard.ts';
 
-const line = (name: string, x: number[], y: (number | null)[], yaxis = 'y') => ({ type: 'scatter', name, x, y, xaxis: 'x', yaxis });
+const line = (name: string, x: number[], y: (number | null)[], yaxis = 'y') => ({ type: 'scatter' as const, name, x, y, xaxis: 'x', yaxis });
 
 describe('guardFigure', () => {
   test('ordinary data pass through as the very same arrays, with no note', () => {

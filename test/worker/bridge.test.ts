@@ -5,9 +5,9 @@
  */
 import { describe, expect, test } from 'vitest';
 import { createTrace, type Trace } from '../../src/core/trace.ts';
-import { Engine } from '../../src/worker/engine.ts';
+import { HeldTraces } from '../../src/worker/held-traces.ts';
 import { workerBackend } from '../../src/worker/bridge.ts';
-import type { Call, FromWorker, ToWorker } from '../../src/worker/protocol.ts';
+import type { Call, FromWorker, ToWorker } from '../../src/worker/api.ts';
 import { emptyRecipe } from '../../src/core/recipe.ts';
 
 const mk = (id: string): Trace => createTrace({ id, name: id, x: [0, 1, 2, 3, 4], y: [1, 2, 3, 2, 1], source: { fileName: `${id}.csv`, sha256: '0'.repeat(64), rowsRead: 5, rowsSkipped: 0 } });
@@ -44,7 +44,7 @@ describe('traces cross to the worker once', () => {
   });
 
   test('the engine keeps the traces it holds whose ids stay, adds the new ones and drops the rest', () => {
-    const e = new Engine();
+    const e = new HeldTraces();
     const [a, b, c] = [mk('a'), mk('b'), mk('c')];
     e.setInputs([a, b]);
     e.setInputs([c], ['b', 'c']);
@@ -84,7 +84,7 @@ describe('a loaded file reaches the computation worker through the port, not thr
   });
 
   test('the computation side takes a handed-over trace whether it comes before or after the page names it', () => {
-    const e = new Engine();
+    const e = new HeldTraces();
     const [a, b, c] = [mk('a'), mk('b'), mk('c')];
     e.setInputs([a]);
     e.stage([b]);

@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { columnBuffers, fromColumns, toColumns } from '../../src/worker/columns.ts';
+import { columnBuffers, fromColumns, toColumns } from '../../src/worker/transfer.ts';
 import { analyse } from '../../src/core/analysis/index.ts';
 import { emptyRecipe } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';

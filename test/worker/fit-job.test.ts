@@ -8,7 +8,7 @@ import { emptyRecipe, makeRecipeStep } from '../../src/core/recipe.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
 import { supportedPeakCount } from '../../src/core/measure/fit/count.ts';
 import { createTrace } from '../../src/core/trace.ts';
-import { Engine } from '../../src/worker/engine.ts';
+import { HeldTraces } from '../../src/worker/held-traces.ts';
 import { inProcessBackend } from '../../src/worker/bridge.ts';
 import type { FitRequest } from '../../src/worker/fit-job.ts';
 
@@ -36,7 +36,7 @@ describe('fit job in the worker engine', () => {
   });
 
   it('raw trace: two peaks supported, the same fit the core gives directly', () => {
-    const engine = new Engine();
+    const engine = new HeldTraces();
     engine.setInputs([trace]);
     const out = engine.fit(request());
     expect(out.ok).toBe(true);
@@ -54,7 +54,7 @@ describe('fit job in the worker engine', () => {
   });
 
   it('processing check: one row per version, raw first, with the ledger sentence', () => {
-    const engine = new Engine();
+    const engine = new HeldTraces();
     engine.setInputs([trace]);
     const out = engine.fit(request());
     expect(out.ok).toBe(true);
@@ -67,7 +67,7 @@ describe('fit job in the worker engine', () => {
   });
 
   it('a processed fit without any step says so; a bad region is a message, not an exception', async () => {
-    const engine = new Engine();
+    const engine = new HeldTraces();
     engine.setInputs([trace]);
     const none = engine.fit({ ...request({ on: 'processed' }), recipe: emptyRecipe() });
     expect(none.ok).toBe(false);

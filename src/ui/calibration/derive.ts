@@ -16,25 +16,30 @@ export function useSampleResult() {
   return useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
 }
 
+/** The sample's peaks only: a stage that leaves them alone (the processed trace, noise, loss) changes nothing here (issue 16). */
+function useSamplePeaks(): Peak[] | null {
+  return useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result.peaks : null));
+}
+
 /** The naming of the sample's peaks, or null when no named peaks are set (or the table has problems). */
 export function useSampleNaming(): PeakNaming | null {
   const table = useApp((s) => s.namedPeaks);
-  const result = useSampleResult();
+  const peaks = useSamplePeaks();
   return useMemo(() => {
-    if (!result || table.peaks.length === 0 || validateNamedPeakTable(table).problems.length) return null;
-    return nameTracePeaks(table, result.peaks);
-  }, [table, result]);
+    if (!peaks || table.peaks.length === 0 || validateNamedPeakTable(table).problems.length) return null;
+    return nameTracePeaks(table, peaks);
+  }, [table, peaks]);
 }
 
 /** Each of the sample's peaks (the result's objects) with its name. */
 export function useNameOfPeak(): Map<Peak, string> {
   const naming = useSampleNaming();
-  const result = useSampleResult();
+  const peaks = useSamplePeaks();
   return useMemo(() => {
     const m = new Map<Peak, string>();
-    if (naming && result) result.peaks.forEach((p, i) => { const n = naming.names[i]; if (n) m.set(p, n); });
+    if (naming && peaks) peaks.forEach((p, i) => { const n = naming.names[i]; if (n) m.set(p, n); });
     return m;
-  }, [naming, result]);
+  }, [naming, peaks]);
 }
 
 export interface CalibrationView {

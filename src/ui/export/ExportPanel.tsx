@@ -21,6 +21,7 @@ import { SessionFileControls } from './SessionFileControls.tsx';
 import { markDrawn } from '../draw-health.ts';
 import { exportExtras } from '../fit/export-extras.ts';
 import { getBackend } from '../controller.ts';
+import { exactResult, exactSignal } from '../../worker/bridge.ts';
 
 type Guarded = 'cleaned' | 'peaks' | 'report' | 'print' | 'summary';
 
@@ -116,10 +117,13 @@ export function ExportPanel({ getFigure }: Props) {
   const fail = (what: string, e: unknown) => notify('error', `${what} could not be made`, [e instanceof Error ? e.message : String(e)]);
   const figureElement = (): HTMLElement | null => getFigure?.() ?? document.querySelector<HTMLElement>('[data-testid="figure"]');
 
-  const exportNow = (kind: Guarded, confirmed: ExportConfirmation | null) => {
-    if (!sample || !result) return;
+  const exportNow = async (kind: Guarded, confirmed: ExportConfirmation | null) => {
+    const shown = result;
+    if (!sample || !shown) return;
     const now = new Date();
     try {
+      // Series longer than the plot needs stay in the worker: the export asks for them whole (worker/series.ts).
+      const result = await exactResult(getBackend(), shown);
       const add = exportExtras(sample, result, calibration?.exp ?? null); // issue 18: fits and figure columns; issue 21: amounts
       if (kind === 'cleaned') {
         downloadCsv(cleanedTraceCsv({ trace: sample, result, recipe, registry: STEP_REGISTRY, options: csv, now }), `${stem}-cleaned.csv`);
@@ -141,7 +145,7 @@ export function ExportPanel({ getFigure }: Props) {
 
   const request = (kind: Guarded) => {
     if (losses.length > 0 && !stillConfirmed) { setPending(kind); return; }
-    exportNow(kind, losses.length > 0 ? confirmation : null);
+    void exportNow(kind, losses.length > 0 ? confirmation : null);
   };
 
   const confirmPending = () => {
@@ -150,14 +154,15 @@ export function ExportPanel({ getFigure }: Props) {
     setConfirmation(c);
     const kind = pending;
     setPending(null);
-    exportNow(kind, c);
+    void exportNow(kind, c);
   };
 
-  const exportJcamp = () => {
+  const exportJcamp = async () => {
     if (!sample || !result) return;
     try {
+      const processed = await exactSignal(getBackend(), result.processed);
       const text = jcampFromTrace(
-        { x: result.processed.x, y: result.processed.y, xName: sample.xName, xUnit: sample.xUnit, yName: sample.yName, yUnit: sample.yUnit, name: `${sample.name} (processed)` },
+        { x: processed.x, y: processed.y, xName: sample.xName, xUnit: sample.xUnit, yName: sample.yName, yUnit: sample.yUnit, name: `${sample.name} (processed)` },
         {
           $SOURCE_FILE: sample.source.fileName, $SOURCE_SHA256: sample.source.sha256, $PROCESSING_METHOD: recipeOneLine(recipe),
           $WRITTEN_BY: TOOL_LABEL, $WRITTEN_AT: new Date().toISOString(), $CAUTION: CAUTION,
@@ -296,7 +301,7 @@ export function ExportPanel({ getFigure }: Props) {
         <button type="button" disabled={!ready} data-testid="export-report" onClick={() => request('report')}>Report (HTML)</button>
         <button type="button" disabled={!ready} data-testid="print-report" onClick={() => request('print')}>Print the report…</button>
         <button type="button" disabled={!ready} data-testid="export-summary" onClick={() => request('summary')}>Summary (JSON)</button>
-        <button type="button" disabled={!ready} data-testid="export-jcamp" onClick={exportJcamp}>Cleaned trace (JCAMP-DX)</button>
+        <button type="button" disabled={!ready} data-testid="export-jcamp" onClick={() => void exportJcamp()}>Cleaned trace (JCAMP-DX)</button>
         <button type="button" disabled={!ready} onClick={() => void copyPeaks()}>Copy peak table</button>
         <button type="button" disabled={!ready} onClick={() => void savePicture('png')}>Plot as PNG</button>
         <button type="button" disabled={!ready} onClick={() => void savePicture('svg')}>Plot as SVG</button>

@@ -5,11 +5,14 @@
  * table's drop-line area. Kept here so PeakTable.tsx changes by a few lines.
  */
 import { useMemo, type ReactNode } from 'react';
+import { useShallow } from 'zustand/react/shallow';
+import type { AnalyseResult } from '../../core/analysis/index.ts';
 import { FIGURE_FORMULAS } from '../../core/measure/figures.ts';
 import { dropLineWords, FIGURE_HEADERS, figureColumnsFor, fittedPeakFor, peakFigures } from '../../core/export/fit-export.ts';
 import type { Peak } from '../../core/measure/peak-types.ts';
 import { useApp } from '../../state/store.ts';
 import { num } from '../format.ts';
+import { useExactSignal } from '../plot-exact.ts';
 
 export interface PeakExtras {
   headers: { key: string; label: string; title: string }[];
@@ -18,19 +21,22 @@ export interface PeakExtras {
 
 /** Headers and cells of the optional columns for the current result. */
 export function usePeakExtras(): PeakExtras {
-  const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
+  // Only the fields the columns read: a stage that leaves them alone keeps the same columns, so the table's rows do not re-render (issue 16).
+  const result = useApp(useShallow((s) => (s.result && s.result.sampleId === s.sampleId ? { peaks: s.result.peaks, processed: s.result.processed, peakOptions: s.result.peakOptions } : null)));
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const measureOn = useApp((s) => s.peakSettings.measureOn);
   const showFigures = useApp((s) => s.showFigures);
   const deadTime = useApp((s) => s.deadTime);
   const allFits = useApp((s) => s.fits);
+  // The figures are measured on the exact processed trace (fetched from the worker when it stayed there).
+  const processed = useExactSignal(result?.processed ?? null, showFigures && measureOn !== 'raw');
   return useMemo(() => {
     const headers: PeakExtras['headers'] = [];
     const parts: ((p: Peak, i: number) => ReactNode[])[] = [];
     if (!result || !sample) return { headers, cells: () => [] };
     const fits = allFits.filter((f) => f.sampleId === sample.id);
     if (fits.length) {
-      headers.push({ key: 'fitted-area', label: 'Fitted area ± SE', title: `Area of the fitted peak whose apex lies within this row's half-height crossings (region fit, fit panel); the Area column is the drop-line area (${dropLineWords(result)}).` });
+      headers.push({ key: 'fitted-area', label: 'Fitted area ± SE', title: `Area of the fitted peak whose apex lies within this row's half-height crossings (region fit, fit panel); the Area column is the drop-line area (${dropLineWords(result as AnalyseResult)}).` });
       parts.push((p) => {
         const hit = fittedPeakFor(p, fits);
         if (!hit) return [<span className="muted" key="f">not fitted</span>];
@@ -38,9 +44,9 @@ export function usePeakExtras(): PeakExtras {
         return [<span key="f" title={`fit ${hit.fitNumber}, peak ${hit.peakNumber} of ${hit.fit.result.count} on the ${hit.fit.result.fittedLabel} trace`}>{num(a.value)} ± {Number.isFinite(a.se) ? num(a.se, 2) : 'n/a'}</span>];
       });
     }
-    if (showFigures) {
+    const measured = measureOn === 'raw' ? { x: sample.x, y: sample.y } : processed;
+    if (showFigures && measured) {
       const names = figureColumnsFor(deadTime);
-      const measured = measureOn === 'raw' ? { x: sample.x, y: sample.y } : result.processed;
       const figs = peakFigures(measured, result.peaks, deadTime);
       for (const n of names) headers.push({ key: n, label: FIGURE_HEADERS[n], title: FIGURE_FORMULAS[n].formula });
       parts.push((_p, i) => names.map((n) => {
@@ -51,7 +57,7 @@ export function usePeakExtras(): PeakExtras {
       }));
     }
     return { headers, cells: (p: Peak, i: number) => parts.flatMap((f) => f(p, i)) };
-  }, [result, sample, measureOn, showFigures, deadTime, allFits]);
+  }, [result, sample, measureOn, showFigures, deadTime, allFits, processed]);
 }
 
 /** The switch for the figure columns and the dead time field. */

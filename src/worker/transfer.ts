@@ -1,4 +1,33 @@
 /**
+ * What crosses between the worker and the page, and how: every typed array
+ * is transferred (moved, not copied), cached arrays are copied first so the
+ * worker's own stay usable, and rows of plain objects (the peak table) cross
+ * as columns of typed arrays instead of one cloned object per row.
+ */
+
+/** Every typed array buffer in a result, for zero-copy transfer. */
+export function transferablesOf(value: unknown, out: Set<ArrayBuffer> = new Set(), depth = 0): ArrayBuffer[] {
+  if (depth > 6 || value === null || typeof value !== 'object') return [...out];
+  if (ArrayBuffer.isView(value)) {
+    if (value.buffer instanceof ArrayBuffer) out.add(value.buffer);
+    return [...out];
+  }
+  for (const v of Object.values(value as Record<string, unknown>)) transferablesOf(v, out, depth + 1);
+  return [...out];
+}
+
+/** Deep copy of the typed arrays in a result (all kinds: σ profiles hold Int32Array) so the originals can stay cached in the worker. */
+export function cloneResultForTransfer<T>(value: T, depth = 0): T {
+  if (value === null || typeof value !== 'object' || depth > 8) return value;
+  // Every typed array is copied: whatever is transferred afterwards must not be an array the worker keeps.
+  if (ArrayBuffer.isView(value)) return (value instanceof DataView ? value : (value as unknown as Float64Array).slice()) as unknown as T;
+  if (Array.isArray(value)) return value.map((v) => cloneResultForTransfer(v, depth + 1)) as unknown as T;
+  const out: Record<string, unknown> = {};
+  for (const [k, v] of Object.entries(value as Record<string, unknown>)) out[k] = cloneResultForTransfer(v, depth + 1);
+  return out as T;
+}
+
+/**
  * Rows of plain objects (the peak table) as columns of typed arrays, so they
  * cross from the worker with a transfer list instead of a structured clone
  * of one object per row. Exact: every number keeps its bits, and a missing

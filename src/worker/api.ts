@@ -14,10 +14,10 @@ import type { Trace } from '../core/trace.ts';
 import type { AnalyseRequest, StageUpdate } from '../core/analysis/index.ts';
 import type { BatchFile, BatchProgress, BatchResult, BatchSettings } from '../core/export/batch.ts';
 import type { Recipe } from '../core/recipe.ts';
-import type { Columns } from './columns.ts';
+import type { Columns } from './transfer.ts';
 import type { FitJobOutcome, FitRequest } from './fit-job.ts';
-
-export type { AnalyseRequest, StageUpdate };
+import type { Signal } from '../core/steps/types.ts';
+import type { Drawn, FarSeries, NearestPoint, View } from './series.ts';
 
 /** Every job a worker does for the page. */
 export interface WorkerMethods {
@@ -40,6 +40,12 @@ export interface WorkerMethods {
   };
   /** One recipe over many files (core/export/batch.ts), off the page's thread; progress after each file. */
   batch: { params: { files: BatchFile[]; recipe: Recipe; settings: BatchSettings }; result: BatchResult; progress: BatchProgress };
+  /** Long series kept in the worker (series.ts) drawn for a view, which also becomes the view of later stages. */
+  draw: { params: { refs: number[]; view: View }; result: Drawn[]; progress: never };
+  /** Exact copies of long series kept in the worker, whole or between two x (exports, the focused view). */
+  slice: { params: { refs: number[]; from?: number; to?: number }; result: Signal[]; progress: never };
+  /** The sample of each long series nearest to an x (the cursor readout). */
+  nearest: { params: { refs: number[]; x: number }; result: (NearestPoint | null)[]; progress: never };
 }
 
 export type Method = keyof WorkerMethods;
@@ -66,9 +72,10 @@ export type FromWorker =
   | { [M in Method]: { type: 'progress'; method: M; jobId: number; progress: ProgressOf<M> } }[Method]
   /**
    * One stage of an analysis, as soon as it is ready (its arrays transferred); more follow until the result.
-   * The peak table crosses as typed-array columns (`peakColumns`, transferred) in place of `patch.peaks`.
+   * The peak table crosses as typed-array columns (`peakColumns`, transferred) in place of `patch.peaks`;
+   * series longer than series.ts's WHOLE_UP_TO stay in the worker (`far`: empty arrays in the patch, drawn for the view).
    */
-  | { type: 'stage'; jobId: number; update: StageUpdate; peakColumns?: Columns }
+  | { type: 'stage'; jobId: number; update: StageUpdate; peakColumns?: Columns; far?: FarSeries[] }
   /**
    * A call, or a message that belongs to none (`jobId` null: traces or a port the worker could not take, a
    * message it could not read), went wrong. `missing`: traces the page named never reached this worker (the

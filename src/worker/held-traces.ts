@@ -10,7 +10,12 @@ import { STEP_REGISTRY } from '../core/steps/registry.ts';
 import type { Trace } from '../core/trace.ts';
 import { fitRequest, type FitJobOutcome, type FitRequest } from './fit-job.ts';
 
-export class Engine {
+/**
+ * The traces the computation worker holds, with the caches of their
+ * analyses (pipeline outputs, per-trace memos), and the jobs that run on
+ * them: analyses stage by stage, fits, loads.
+ */
+export class HeldTraces {
   private traces = new Map<string, Trace>();
   private cache = new PipelineCache(96);
   /** Per-trace results the current stack's edits cannot change (the raw reference, each alternative); cleared with the inputs. */
@@ -77,15 +82,4 @@ export class Engine {
   load(bytes: Uint8Array, fileName: string, options: LoadOptions | undefined, onProgress: (f: number) => void): Promise<LoadResult> {
     return loadFileHashed(bytes, fileName, { ...(options ?? {}), onProgress });
   }
-}
-
-/** Every typed array buffer in a result, for zero-copy transfer. */
-export function transferablesOf(value: unknown, out: Set<ArrayBuffer> = new Set(), depth = 0): ArrayBuffer[] {
-  if (depth > 6 || value === null || typeof value !== 'object') return [...out];
-  if (ArrayBuffer.isView(value)) {
-    if (value.buffer instanceof ArrayBuffer) out.add(value.buffer);
-    return [...out];
-  }
-  for (const v of Object.values(value as Record<string, unknown>)) transferablesOf(v, out, depth + 1);
-  return [...out];
 }
