@@ -20,7 +20,7 @@
  * sample step's key and the companion's role and id.
  */
 import { isEvenlySpaced } from './numeric/interpolate.ts';
-import type { Recipe, Registry } from './recipe.ts';
+import type { Recipe, Registry } from './method.ts';
 import type { Signal, SpikeEvent, StepContext, StepDefinition, StepOutput, StepParams } from './steps/types.ts';
 import type { Trace } from './trace.ts';
 

@@ -1,9 +1,10 @@
 import { useEffect, useMemo, useState } from 'react';
 import { useApp } from '../state/store.ts';
 import { num } from './format.ts';
-import { addPeakByHand } from './controller.ts';
+import { addPeakByHand } from '../state/service.ts';
 import { axisTransform, toDataUnits } from './plot-guard.ts';
 import { nearestPoint, slopeUnit, twoPointMeasure, type ReadSeries } from './plot-view.ts';
+import { currentResult } from '../state/selectors.ts';
 
 interface PlotAxis { _offset: number; _length: number; range: [number, number] }
 interface Point { x: number; y: number; series: string }
@@ -18,7 +19,7 @@ const withUnit = (v: number | null, unit: string, digits = 6) => `${num(v, digit
  */
 export function CursorReadout({ figure }: { figure: HTMLElement | null }) {
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
-  const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
+  const result = useApp((s) => currentResult(s));
   const showRaw = useApp((s) => s.showRaw);
   const [cursorX, setCursorX] = useState<number | null>(null);
   const measuring = useApp((s) => s.measureMode);

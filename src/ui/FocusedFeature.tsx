@@ -6,6 +6,7 @@ import { meanStep } from '../core/numeric/interpolate.ts';
 import type { Signal } from '../core/steps/types.ts';
 import { againstRaw, columnVerdict, focusWindow, rowAt, sharedYRange, type Verdict } from './focus.ts';
 import { num } from './format.ts';
+import { withCurrent } from '../state/selectors.ts';
 
 const W = 220, H = 120, PAD = 6;
 
@@ -44,7 +45,7 @@ function Small({ signal, from, to, y, apex, label }: { signal: Signal; from: num
 export function FocusedFeature() {
   const x0 = useApp((s) => s.selectedPeakX);
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
-  const res = useApp(useShallow((s) => (s.result && s.result.sampleId === s.sampleId ? { processed: s.result.processed, loss: s.result.loss } : null)));
+  const res = useApp(useShallow((s) => (withCurrent(s, (r) => ({ processed: r.processed, loss: r.loss })))));
   const noiseRowsOn = useApp((s) => s.ledgerNoiseLevel);
   const { selectPeak, setLedgerNoiseLevel } = useApp.getState();
 

@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { columnBuffers, fromColumns, toColumns } from '../../src/worker/columns.ts';
 import { analyse } from '../../src/core/analysis/index.ts';
-import { emptyRecipe } from '../../src/core/recipe.ts';
+import { emptyRecipe } from '../../src/core/method.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
 import { createTrace } from '../../src/core/trace.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';

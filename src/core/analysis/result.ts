@@ -5,9 +5,9 @@
  */
 import type { StepStatus } from '../pipeline.ts';
 import type { Signal, SpikeEvent } from '../steps/types.ts';
-import type { ResidualDiagnostics } from '../diagnostics.ts';
+import type { ResidualDiagnostics } from '../measure/residual-tests.ts';
 import type { NoiseReport } from '../measure/noise-report.ts';
-import type { Ledger, WindowAdvice } from '../loss.ts';
+import type { Ledger, WindowAdvice } from '../measure/loss-matching.ts';
 import type { Peak, PeakOptions } from '../measure/peak-types.ts';
 import type { NoiseBumpCount } from '../measure/noise-bumps.ts';
 

@@ -7,7 +7,7 @@
 import type { AnalyseResult } from '../analysis/index.ts';
 import { writeCsv, type CsvCellOptions } from '../io/csv-write.ts';
 import { interpolateLinear } from '../numeric/interpolate.ts';
-import { recipeInWords, recipeToJson, type Recipe, type Registry } from '../recipe.ts';
+import { recipeInWords, recipeToJson, type Recipe, type Registry } from '../method.ts';
 import { axisLabel, type Trace } from '../trace.ts';
 import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
 

@@ -5,7 +5,7 @@
  * Method (chosen by test over seeded families of 10⁴–10⁶ points — flat,
  * drifting baseline, broad bands over the whole range, narrow peaks one every
  * 40 points, AR(1) noise — and the real spectra in test/fixtures/real; see
- * test/measure/noise-raw.test.ts and DEVELOPERS.md):
+ * test/core/measure/noise-raw.test.ts and DEVELOPERS.md):
  *
  * 1. Features are masked: points where the second difference of the trace at
  *    scale s (means of s points, s apart; s = 1, 2, 4, 8, 16) stands more
@@ -52,7 +52,7 @@
  * the lowest and highest thirds of the signal level). When the noise does
  * grow with the signal, σ is given as a profile along the trace, in blocks.
  */
-import type { NoiseCheck } from '../noise.ts';
+import type { NoiseCheck } from './noise-estimators.ts';
 import { MAD_TO_SIGMA, medianInPlace } from '../numeric/median.ts';
 
 export type { NoiseCheck };

@@ -10,6 +10,7 @@ import { dropLineWords, FIGURE_HEADERS, figureColumnsFor, fittedPeakFor, peakFig
 import type { Peak } from '../../core/measure/peak-types.ts';
 import { useApp } from '../../state/store.ts';
 import { num } from '../format.ts';
+import { currentResult } from '../../state/selectors.ts';
 
 export interface PeakExtras {
   headers: { key: string; label: string; title: string }[];
@@ -18,7 +19,7 @@ export interface PeakExtras {
 
 /** Headers and cells of the optional columns for the current result. */
 export function usePeakExtras(): PeakExtras {
-  const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
+  const result = useApp((s) => currentResult(s));
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const measureOn = useApp((s) => s.peakSettings.measureOn);
   const showFigures = useApp((s) => s.showFigures);

@@ -1,6 +1,6 @@
 /** Window advice for the smoothing steps of the current stack, from the raw trace's narrowest quantifiable peak. */
-import type { Recipe, Registry } from '../../recipe.ts';
-import { windowAdvice, type WindowAdvice } from '../../loss.ts';
+import type { Recipe, Registry } from '../../method.ts';
+import { windowAdvice, type WindowAdvice } from '../../measure/loss-matching.ts';
 import type { WindowAdviceRow } from '../result.ts';
 
 /** Smoothing steps whose window gets advice, and how to read it. */

@@ -5,10 +5,10 @@
  */
 import type { Signal } from '../../steps/types.ts';
 import type { Trace } from '../../trace.ts';
-import type { Registry } from '../../recipe.ts';
+import type { Registry } from '../../method.ts';
 import { meanStep } from '../../numeric/interpolate.ts';
-import { combineVerdict, HEIGHT_LOSS_TOLERANCE } from '../../diagnostics.ts';
-import { matchPeaks, type Ledger, type LedgerRow } from '../../loss.ts';
+import { combineVerdict, HEIGHT_LOSS_TOLERANCE } from '../../measure/residual-tests.ts';
+import { matchPeaks, type Ledger, type LedgerRow } from '../../measure/loss-matching.ts';
 import type { NoiseBumpCount } from '../../measure/noise-bumps.ts';
 import type { AlternativeMeasured } from '../memo.ts';
 import { DEFAULT_PEAK_SETTINGS, type AnalyseRequest } from '../request.ts';
