@@ -94,7 +94,7 @@ class JcampProblem extends Error {
 
 const DATA_KEYS = new Set(['XYDATA', 'XYPOINTS', 'PEAKTABLE', 'NTUPLES', 'DATATABLE']);
 
-// Ordinate-character tables of the compression forms (McDonald & Wilks 1988, table in REFERENCES.md).
+// Ordinate-character tables of the compression forms (McDonald & Wilks 1988, Appl. Spectrosc. 42:151).
 const SQZ = '@ABCDEFGHI';
 const SQZ_NEG = 'abcdefghi';
 const DIF = '%JKLMNOPQR';

@@ -361,7 +361,7 @@ function checkSigma(sigmaPoints: number): void {
  * Gaussian of standard deviation σ points:
  * (1/N) Σ_{k=−(N−1)/2}^{(N−1)/2} exp(−k²/2σ²). Exact for an apex on a
  * sample and odd N (even N: the apex midway between samples). For example
- * N = 5, σ = 5 → 0.961326 (REFERENCES.md). Approximately
+ * N = 5, σ = 5 → 0.961326 (the exact sum, worked out by hand). Approximately
  * 1/√(1 + (N² − 1)/(12σ²)).
  * @throws RangeError unless N is a whole number ≥ 1 and σ > 0.
  */
@@ -380,8 +380,8 @@ export function gaussianHeightRatioMovingAverage(N: number, sigmaPoints: number)
  * Height kept by any symmetric smoothing filter with weights c (centred,
  * k = index − (len − 1)/2) at the apex of a sampled Gaussian of σ points:
  * Σ c_k exp(−k²/2σ²). With Savitzky–Golay weights this is the SG height
- * loss (quadratic, window 11 / 25, σ = 5 → 0.98827 / 0.8445, SciPy via
- * REFERENCES.md).
+ * loss (quadratic, window 11 / 25, σ = 5 → 0.98827 / 0.8445, from
+ * scipy.signal.savgol_coeffs).
  * @throws RangeError for empty weights or σ ≤ 0.
  */
 export function gaussianHeightRatioFromCoefficients(coeffs: ArrayLike<number>, sigmaPoints: number): number {

@@ -5,7 +5,7 @@
  * Method (chosen by test over seeded families of 10⁴–10⁶ points — flat,
  * drifting baseline, broad bands over the whole range, narrow peaks one every
  * 40 points, AR(1) noise — and the real spectra in test/fixtures/real; see
- * test/core/measure/noise-raw.test.ts and DEVELOPERS.md):
+ * test/core/measure/noise-raw.test.ts):
  *
  * 1. Features are masked: points where the second difference of the trace at
  *    scale s (means of s points, s apart; s = 1, 2, 4, 8, 16) stands more
@@ -37,8 +37,8 @@
  * 4. σ = finest-scale σ / √r, r = (6 − 8ρ₁ + 2ρ₂)/6 the share of the noise
  *    variance the second difference sees.
  *
- * Known bias (measured, 200 seeded realisations per family; figures in
- * DEVELOPERS.md): white-noise families within 2 % on average; AR(1) φ = 0.5
+ * Known bias (measured, 200 seeded realisations per family, in
+ * test/core/measure/noise-raw.test.ts): white-noise families within 2 % on average; AR(1) φ = 0.5
  * about −1 % after the correction (−35 % without it); a random-walk
  * baseline with steps of 0.1 σ adds +2 % (it is correlated noise at the
  * scale of the pieces, and indistinguishable from it there).

@@ -26,8 +26,9 @@ export function checkOddWindow(window: number, n: number, max: number, min = 3):
 
 /**
  * A sentence naming the resample step when x is not evenly spaced (within
- * 0.1 % of the mean step), or null when it is. Used by every step that
- * assumes even spacing.
+ * 0.1 % of the mean step), or null when it is. The pipeline asks it once
+ * before every step whose definition sets `needsEvenSpacing`, for the
+ * sample and for the blank and scans that follow it.
  */
 export function unevenSpacingProblem(x: Float64Array, stepLabel: string): string | null {
   if (isEvenlySpaced(x)) return null;

@@ -6,6 +6,9 @@ import { movingAverageStep } from '../../../src/core/steps/moving-average.ts';
 import { resampleStep } from '../../../src/core/steps/resample.ts';
 import { savitzkyGolayStep } from '../../../src/core/steps/savitzky-golay.ts';
 import type { Signal, StepDefinition, StepParams } from '../../../src/core/steps/types.ts';
+import { emptyRecipe, makeRecipeStep } from '../../../src/core/method.ts';
+import { runPipeline } from '../../../src/core/pipeline.ts';
+import { STEP_REGISTRY } from '../../../src/core/steps/registry.ts';
 
 const all = [movingAverageStep, boxcarStep, savitzkyGolayStep, localOrderStep, frequencyFilterStep, resampleStep] as unknown as StepDefinition<StepParams>[];
 
@@ -64,11 +67,16 @@ describe.each(all.map((s) => [s.id, s] as const))('%s', (_id, step) => {
     }
   });
 
-  it('steps that assume even spacing send the user to the resample step when x is uneven', () => {
+  it('on uneven x, the pipeline (the one place that checks even spacing) sends the user to the resample step for steps that assume it', () => {
     const uneven = { x: Float64Array.from({ length: n }, (_, i) => i + 0.01 * i * i), y };
-    const msg = step.validate(step.defaults, uneven, {});
-    if (step.needsEvenSpacing) expect(msg).toMatch(/Resample to even spacing/);
-    else expect(msg).toBeNull();
+    // The step's own check no longer speaks of spacing: one check, one wording.
+    expect(step.validate(step.defaults, uneven, {})).toBeNull();
+    const out = runPipeline(uneven, 'uneven', { ...emptyRecipe(), steps: [makeRecipeStep(step)] }, STEP_REGISTRY);
+    if (step.needsEvenSpacing) {
+      expect(out.runs[0].status).toBe('error');
+      expect(out.runs[0].message).toBe(`${step.label} assumes evenly spaced x, but the spacing of this trace varies; add the "Resample to even spacing" step before it.`);
+      expect(Array.from(out.final.y)).toEqual(Array.from(y));
+    } else expect(out.runs[0].status).not.toBe('error');
   });
 
   it('validate answers bad numbers with a sentence instead of throwing', () => {
