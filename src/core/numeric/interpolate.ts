@@ -35,3 +35,13 @@ export function isEvenlySpaced(x: Float64Array, relTol = 1e-3): boolean {
 export function meanStep(x: Float64Array): number {
   return (x[x.length - 1] - x[0]) / (x.length - 1);
 }
+
+/**
+ * The one grid check: true when both arrays have the same length and every
+ * value is exactly equal (two traces on the same x; also used for y).
+ */
+export function sameGrid(a: ArrayLike<number>, b: ArrayLike<number>): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
+}

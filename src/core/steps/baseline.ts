@@ -4,7 +4,7 @@
  */
 import type { StepDefinition, StepOutput } from './types.ts';
 import { whittaker } from '../numeric/banded.ts';
-import { formatNumber } from './blank-subtraction.ts';
+import { formatNumber } from './checks.ts';
 
 export { whittaker } from '../numeric/banded.ts';
 

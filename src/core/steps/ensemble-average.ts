@@ -2,9 +2,9 @@
  * Ensemble averaging: the mean of repeated scans of the same sample, point by point.
  */
 import type { StepDefinition, StepOutput } from './types.ts';
-import { interpolateLinear, isEvenlySpaced, meanStep } from '../numeric/interpolate.ts';
+import { interpolateLinear, isEvenlySpaced, meanStep, sameGrid } from '../numeric/interpolate.ts';
 import { estimateShift, correlationAtLag, shiftSeries, type ShiftInterpolation } from '../numeric/align.ts';
-import { formatNumber, gridCoverageProblem, sameGrid } from './blank-subtraction.ts';
+import { formatNumber, gridCoverageProblem } from './checks.ts';
 import { MAD_TO_SD } from '../numeric/sliding-median.ts';
 
 export interface EnsembleAverageParams extends Record<string, number | string | boolean> {
@@ -38,12 +38,6 @@ export function noiseFromDifferences(y: Float64Array): number {
   const m = median(d);
   for (let i = 0; i < d.length; i++) d[i] = Math.abs(d[i] - m);
   return (MAD_TO_SD * median(d)) / Math.SQRT2;
-}
-
-function sameValues(a: Float64Array, b: Float64Array): boolean {
-  if (a.length !== b.length) return false;
-  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
-  return true;
 }
 
 /** A shift in words: points and x-units. */
@@ -116,7 +110,7 @@ export const ensembleAverageStep: StepDefinition<EnsembleAverageParams> = {
     scans.forEach((scan, k) => {
       const equalGrid = sameGrid(input.x, scan.x);
       // A scan that is the signal itself (the sample also marked as a scan) would be counted twice.
-      if (equalGrid && sameValues(input.y, scan.y)) {
+      if (equalGrid && sameGrid(input.y, scan.y)) {
         notes.push(`The scan "${scan.name}" is identical to the signal; it was counted once.`);
         return;
       }

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { blankSubtractionStep, gridCoverageProblem, subtractBlank } from '../../../src/core/steps/blank-subtraction.ts';
+import { blankSubtractionStep, subtractBlank } from '../../../src/core/steps/blank-subtraction.ts';
+import { gridCoverageProblem } from '../../../src/core/steps/checks.ts';
 import { ensembleAverageStep, noiseFromDifferences } from '../../../src/core/steps/ensemble-average.ts';
 import { createTrace, type Trace } from '../../../src/core/trace.ts';
 import { makeRng } from '../../../src/core/numeric/random.ts';
