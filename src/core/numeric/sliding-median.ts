@@ -438,9 +438,6 @@ function shrinkMedian(y: Float64Array, w: number, out: Float64Array): void {
   }
 }
 
-/** The MAD-to-σ scale ({@link MAD_TO_SIGMA}, defined in median.ts), under the name ensemble-average.ts imports. */
-export const MAD_TO_SD = MAD_TO_SIGMA;
-
 /** Result of {@link hampel}. */
 export interface HampelResult {
   /** The signal with flagged points replaced by their window median (new array). */

@@ -5,7 +5,7 @@ import type { StepDefinition, StepOutput } from './types.ts';
 import { interpolateLinear, isEvenlySpaced, meanStep, sameGrid } from '../numeric/interpolate.ts';
 import { estimateShift, correlationAtLag, shiftSeries, type ShiftInterpolation } from '../numeric/align.ts';
 import { formatNumber, gridCoverageProblem } from './checks.ts';
-import { MAD_TO_SD } from '../numeric/sliding-median.ts';
+import { robustSigmaOfDifferences } from '../numeric/median.ts';
 
 export interface EnsembleAverageParams extends Record<string, number | string | boolean> {
   /** Align each scan to the signal before averaging. */
@@ -16,12 +16,6 @@ export interface EnsembleAverageParams extends Record<string, number | string | 
   interpolation: ShiftInterpolation;
   /** A scan correlating less than this with the signal (after alignment) is named (ratio, Pearson r). */
   minCorrelation: number;
-}
-
-function median(values: Float64Array): number {
-  const s = Float64Array.from(values).sort();
-  const h = s.length >> 1;
-  return s.length & 1 ? s[h] : 0.5 * (s[h - 1] + s[h]);
 }
 
 /**
@@ -35,9 +29,7 @@ export function noiseFromDifferences(y: Float64Array): number {
   if (y.length < 3) throw new RangeError(`A noise estimate needs at least 3 points; there are ${y.length}.`);
   const d = new Float64Array(y.length - 1);
   for (let i = 0; i < d.length; i++) d[i] = y[i + 1] - y[i];
-  const m = median(d);
-  for (let i = 0; i < d.length; i++) d[i] = Math.abs(d[i] - m);
-  return (MAD_TO_SD * median(d)) / Math.SQRT2;
+  return robustSigmaOfDifferences(d, Math.SQRT2);
 }
 
 /** A shift in words: points and x-units. */
