@@ -342,11 +342,6 @@ export function sessionMeta(snapshot: SessionSnapshot, generation: number, saved
   };
 }
 
-/** A snapshot as one meta record and the chunk records of all its traces. */
-export function sessionToRecords(snapshot: SessionSnapshot, generation: number, savedAt: Date, chunkSize: number = SESSION_CHUNK): { meta: SessionMeta; chunks: ChunkRecord[] } {
-  return { meta: sessionMeta(snapshot, generation, savedAt, chunkSize), chunks: snapshot.traces.flatMap((t) => traceToRecords(t, chunkSize).chunks) };
-}
-
 /**
  * A snapshot from a meta record and a chunk lookup. A trace that cannot be
  * rebuilt is left out with a note; a recipe that no longer validates (a

@@ -2,7 +2,7 @@ import { Fragment, useState, type ReactNode } from 'react';
 import { useShallow } from 'zustand/react/shallow';
 import type { Peak, PeakMark } from '../core/measure/peak-types.ts';
 import { noiseBumpSentence } from '../core/measure/noise-bumps.ts';
-import { sigmaProvisional } from '../core/analysis/result.ts';
+import { sigmaProvisional, snrProvisional } from '../core/analysis/result.ts';
 import { BOUND_TEXT, MARK_TEXT, SPLIT_TEXT } from '../core/export/peak-csv.ts';
 import { useApp } from '../state/store.ts';
 import { num } from './format.ts';
@@ -58,6 +58,7 @@ export function PeakTable() {
   const resultSeq = useApp((s) => s.stageSeq.peaks);
   const provisional = useApp((s) => s.pending.includes('peaks'));
   const sigmaWaiting = useApp((s) => sigmaProvisional(s.pending, s.result?.noise ?? null)); // issue 14
+  const snrWaiting = useApp((s) => snrProvisional(s.pending, s.result?.noise ?? null));
   const bumpsPending = useApp((s) => s.pending.includes('bumps'));
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const selected = useApp((s) => s.selectedPeakX);
@@ -134,7 +135,7 @@ export function PeakTable() {
   const visible = columns.filter(isShown);
   const hiddenCols = columns.filter((c) => !isShown(c));
   return (
-    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq} data-provisional={provisional || bumpsPending ? 'true' : undefined} data-snr-provisional={provisional || sigmaWaiting ? 'true' : undefined}>
+    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq} data-provisional={provisional || bumpsPending ? 'true' : undefined} data-snr-provisional={snrWaiting ? 'true' : undefined}>
       <div className="panel-head">
         <h2 id="peaks-title">Peaks</h2>
         <div className="row">

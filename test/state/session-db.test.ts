@@ -4,10 +4,15 @@ import { makeRng } from '../../src/core/numeric/random.ts';
 import { createTrace } from '../../src/core/trace.ts';
 import { createAppStore } from '../../src/state/store.ts';
 import {
-  JOURNAL_KEY, mergeJournal, SESSION_CHUNK, SESSION_UNDO_STEPS, sessionFromRecords, sessionJournal, sessionMeta, sessionToRecords, startSessionAutosave,
+  JOURNAL_KEY, mergeJournal, SESSION_CHUNK, SESSION_UNDO_STEPS, sessionFromRecords, sessionJournal, sessionMeta, startSessionAutosave,
   storageProblem, traceFromRecords, traceToRecords, type ChunkKey, type SessionSnapshot,
 } from '../../src/state/session-db.ts';
 import { recipeOf } from '../core/export/helpers.ts';
+
+/** A snapshot as one meta record and the chunk records of all its traces (what a first save writes). */
+function sessionToRecords(snapshot: SessionSnapshot, generation: number, savedAt: Date, chunkSize: number = SESSION_CHUNK) {
+  return { meta: sessionMeta(snapshot, generation, savedAt, chunkSize), chunks: snapshot.traces.flatMap((t) => traceToRecords(t, chunkSize).chunks) };
+}
 
 function bigTrace(n: number) {
   const rng = makeRng(99);

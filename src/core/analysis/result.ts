@@ -130,16 +130,6 @@ export interface StageUpdate {
   progress?: { done: number; of: number };
 }
 
-/** Fields of the result that a pending stage may still change. */
-export function provisionalFields(pending: readonly StageName[]): (keyof AnalyseResult)[] {
-  const out: (keyof AnalyseResult)[] = [];
-  if (pending.includes('loss')) out.push('diagnostics', 'loss');
-  if (pending.includes('peaks')) out.push('peaks', 'peakOptions');
-  if (pending.includes('bumps')) out.push('noiseBumps');
-  if (pending.includes('noise')) out.push('noise');
-  return out;
-}
-
 /**
  * Whether σ for S/N is provisional: the noise stage (the raw σ carried through the stack, by simulation where a
  * step is not linear or changes the grid, which can take seconds on a long trace) has not landed for the newest
