@@ -1,6 +1,7 @@
 import type { StateCreator } from 'zustand';
 import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, MAX_ALTERNATIVES, type AlternativeRequest, type NoiseSettings, type PeakSettings } from '../core/analysis/index.ts';
 import type { PeakDecisions } from '../core/measure/peak-types.ts';
+import type { XUnits } from '../core/units.ts';
 import type { AppState } from './store.ts';
 
 /** What the user chose about noise and peaks (settings, decisions on peaks, alternatives for the loss check); kept apart from the step stack. */
@@ -12,7 +13,8 @@ export interface SettingsSlice {
   setPeakSettings: (s: Partial<PeakSettings>) => void;
   addPeakAt: (x: number) => void;
   removePeakAt: (x: number) => void;
-  restorePeakAt: (x: number, tolerance: number) => void;
+  /** Undo the removal of the peak at x (removals within `tolerance` of it, in x-units). */
+  restorePeakAt: (x: number, tolerance: XUnits) => void;
   clearDecisions: () => void;
   /** Set the start and end of the peak at x by hand (issue 17); kept as a decision like added and removed peaks. */
   setPeakBounds: (x: number, start: number, end: number) => void;

@@ -10,6 +10,7 @@ import { FLAG_TEXT, SNR_NAME, SNR_SHORT } from '../core/measure/snr-words.ts';
 import { useNameOfPeak } from './calibration/derive.ts';
 import { FigureControls, usePeakExtras } from './fit/peak-extras.tsx';
 import { withCurrent } from '../state/selectors.ts';
+import { xUnits } from '../core/units.ts';
 import { DISPLAY_CAPS } from '../state/display-caps.ts';
 
 
@@ -123,7 +124,7 @@ export function PeakTable() {
     {
       key: 'decision', label: 'Decision', fixed: true, className: 'decision',
       cell: (p, i) => (p.removedByUser ? (
-        <>removed by hand <button type="button" className="link" onClick={(e) => { e.stopPropagation(); restorePeakAt(p.x, Math.max(p.fwhm, 1e-12)); }}>restore</button></>
+        <>removed by hand <button type="button" className="link" onClick={(e) => { e.stopPropagation(); restorePeakAt(p.x, xUnits(Math.max(p.fwhm, 1e-12))); }}>restore</button></>
       ) : (
         <>{p.origin === 'added-by-user' ? 'added by hand ' : ''}{p.boundsByUser ? 'start and end set by hand ' : ''}<button type="button" className="link danger" onClick={(e) => { e.stopPropagation(); removeThis(p); }} aria-label={`Remove peak ${i + 1}`}>remove</button></>
       )),

@@ -12,6 +12,7 @@
  */
 import type { Peak, PeakFlag } from './peak-types.ts';
 import { savgolCoefficients } from '../numeric/savgol.ts';
+import { points, type Points, type XUnits } from '../units.ts';
 
 /** One processing alternative and the peak table measured on its output. */
 export interface Alternative {
@@ -26,13 +27,13 @@ export type Standing = PeakFlag | 'lost';
 
 export interface MatchOptions {
   /** Sample spacing in x-units (for the tolerance floor and apex shifts in points). */
-  dx: number;
+  dx: XUnits;
   /** x unit for sentences, e.g. "min" (default none). */
   xUnit?: string;
   /** Tolerance as a fraction of the reference peak's FWHM (default 0.5). */
   fwhmFraction?: number;
   /** Tolerance floor in samples (default 2). */
-  minPoints?: number;
+  minPoints?: Points;
   /** The S/N limits the flags were made with (default 3 and 10), for the sentences. */
   limits?: { detection: number; quantitation: number };
 }
@@ -365,7 +366,7 @@ function checkSigma(sigmaPoints: number): void {
  * 1/√(1 + (N² − 1)/(12σ²)).
  * @throws RangeError unless N is a whole number ≥ 1 and σ > 0.
  */
-export function gaussianHeightRatioMovingAverage(N: number, sigmaPoints: number): number {
+export function gaussianHeightRatioMovingAverage(N: Points, sigmaPoints: Points): number {
   if (!Number.isInteger(N) || N < 1) throw new RangeError(`The moving-average window must be a whole number of points, at least 1; got ${N}.`);
   checkSigma(sigmaPoints);
   let s = 0;
@@ -384,7 +385,7 @@ export function gaussianHeightRatioMovingAverage(N: number, sigmaPoints: number)
  * scipy.signal.savgol_coeffs).
  * @throws RangeError for empty weights or σ ≤ 0.
  */
-export function gaussianHeightRatioFromCoefficients(coeffs: ArrayLike<number>, sigmaPoints: number): number {
+export function gaussianHeightRatioFromCoefficients(coeffs: ArrayLike<number>, sigmaPoints: Points): number {
   if (coeffs.length === 0) throw new RangeError('The filter needs at least one weight.');
   checkSigma(sigmaPoints);
   const mid = (coeffs.length - 1) / 2;
@@ -425,13 +426,13 @@ export interface WindowAdvice {
  * @throws RangeError for windows or widths that are not positive, or an order the window cannot fit.
  */
 export function windowAdvice(
-  stepKind: 'moving-average' | 'savitzky-golay', windowPoints: number, order: number, narrowestFwhmPoints: number,
+  stepKind: 'moving-average' | 'savitzky-golay', windowPoints: Points, order: number, narrowestFwhmPoints: Points,
 ): WindowAdvice {
   if (!Number.isInteger(windowPoints) || windowPoints < 1) throw new RangeError(`The window must be a whole number of points; got ${windowPoints}.`);
   if (!(narrowestFwhmPoints > 0) || !Number.isFinite(narrowestFwhmPoints)) {
     throw new RangeError(`The narrowest peak width must be a positive number of points; got ${narrowestFwhmPoints}.`);
   }
-  const sigma = narrowestFwhmPoints / GAUSSIAN_FWHM_PER_SIGMA;
+  const sigma = points(narrowestFwhmPoints / GAUSSIAN_FWHM_PER_SIGMA);
   const ratio = windowPoints / narrowestFwhmPoints;
   let kept: number, limit: number, rule: string, name: string;
   if (stepKind === 'moving-average' || order <= 1) {

@@ -1,3 +1,5 @@
+import { xUnits, type XUnits } from '../units.ts';
+
 /**
  * Linear interpolation of (xs, ys) at the points xq. xs must be strictly
  * ascending. Points of xq outside [xs[0], xs[n-1]] get NaN: callers decide
@@ -32,8 +34,8 @@ export function isEvenlySpaced(x: Float64Array, relTol = 1e-3): boolean {
 }
 
 /** Mean spacing of x (x-units per point). */
-export function meanStep(x: Float64Array): number {
-  return (x[x.length - 1] - x[0]) / (x.length - 1);
+export function meanStep(x: Float64Array): XUnits {
+  return xUnits((x[x.length - 1] - x[0]) / (x.length - 1));
 }
 
 /**

@@ -7,6 +7,7 @@ import { loadFile } from '../../../src/core/io/load.ts';
 import { createTrace } from '../../../src/core/trace.ts';
 import { makeRng } from '../../../src/core/numeric/random.ts';
 import { gaussianHeightRatioMovingAverage } from '../../../src/core/measure/loss-matching.ts';
+import { points } from '../../../src/core/units.ts';
 
 function recipeWith(step: string, params: Record<string, number>): Recipe {
   const r = emptyRecipe();
@@ -65,7 +66,7 @@ describe('loss check on the demo', () => {
 
 describe('height kept on Gaussians of known width', () => {
   it('an 11-point moving average keeps the expected fraction of a σ = 5-point Gaussian (REFERENCES.md: 0.831139), within sampling error', () => {
-    const expected = gaussianHeightRatioMovingAverage(11, 5);
+    const expected = gaussianHeightRatioMovingAverage(points(11), points(5));
     expect(expected).toBeCloseTo(0.831139, 6);
     const rng = makeRng(5);
     const n = 6000;

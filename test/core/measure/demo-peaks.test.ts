@@ -5,6 +5,7 @@ import { applyPeakDecisions, defaultPeakOptions, detectPeaks } from '../../../sr
 import { noiseRms } from '../../../src/core/measure/noise-estimators.ts';
 import { gaussianHeightRatioMovingAverage, matchPeaks } from '../../../src/core/measure/loss-matching.ts';
 import { movingAverage } from '../../../src/core/steps/moving-average.ts';
+import { points, xUnits } from '../../../src/core/units.ts';
 
 // The demo's ground truth is written by scripts/make-demo.mjs (invented, seeded data).
 interface Truth {
@@ -77,7 +78,7 @@ describe('the demo trace against its ground truth (public/demo/demo-truth.json)'
       // of the true height times the computed moving-average loss (exact sum).
       const q = nearest(peaks3, t.centre);
       expect(Math.abs(q.x - t.centre)).toBeLessThanOrEqual(dx);
-      const expectedH = t.height * gaussianHeightRatioMovingAverage(3, t.sigma / dx);
+      const expectedH = t.height * gaussianHeightRatioMovingAverage(points(3), points(t.sigma / dx));
       expect(Math.abs(q.height - expectedH)).toBeLessThan(3 * truth.noiseSd);
       // Flags: a height within 3σ puts S/N within about 3.5 of the truth, and a 3-point average
       // raises S/N by at most √3 (noise ÷ √3, height kept ≤ 1); a flag is certain only when no
@@ -117,7 +118,7 @@ describe('the demo trace against its ground truth (public/demo/demo-truth.json)'
       return { id, label, peaks: detectPeaks(x, yy, defaultPeakOptions(n.sigma, dx)) };
     };
     const led = matchPeaks([alt('raw', 'no smoothing', y), alt('ma3', '3-point moving average', movingAverage(y, 3)),
-      alt('ma15', '15-point moving average', movingAverage(y, 15))], { dx, xUnit: 'min' });
+      alt('ma15', '15-point moving average', movingAverage(y, 15))], { dx: xUnits(dx), xUnit: 'min' });
     for (const t of truth.peaks.filter((p) => p.trueSn >= 20)) {
       const row = led.rows.find((r) => Math.abs(r.position - t.centre) <= 2 * dx);
       expect(row, t.label).toBeDefined();
@@ -126,7 +127,7 @@ describe('the demo trace against its ground truth (public/demo/demo-truth.json)'
       expect(c15.heightKept!).toBeLessThan(c3.heightKept!);
     }
     // The sharp early peak (σ = 2 points) loses most: a 15-point average keeps under 40 % of a
-    // Gaussian that narrow (exact sum, gaussianHeightRatioMovingAverage(15, 2) = 0.33).
+    // Gaussian that narrow (exact sum, gaussianHeightRatioMovingAverage(points(15), points(2)) = 0.33).
     const sharp = led.rows.find((r) => Math.abs(r.position - 1.2) <= 2 * dx)!;
     expect(sharp.cells[2].heightKept!).toBeLessThan(45);
   });
@@ -139,7 +140,7 @@ describe('the demo trace against its ground truth (public/demo/demo-truth.json)'
       return { id, label, peaks: detectPeaks(x, yy, defaultPeakOptions(n.sigma, dx)) };
     };
     const led = matchPeaks([alt('ma3', '3-point moving average', movingAverage(y, 3)),
-      alt('ma41', '41-point moving average', movingAverage(y, 41))], { dx, xUnit: 'min' });
+      alt('ma41', '41-point moving average', movingAverage(y, 41))], { dx: xUnits(dx), xUnit: 'min' });
     const row = led.rows.reduce((a, b) => (Math.abs(b.position - shoulder.centre) < Math.abs(a.position - shoulder.centre) ? b : a));
     expect(Math.abs(row.position - shoulder.centre)).toBeLessThanOrEqual(dx);
     expect(row.cells[0].standing).toBe('detectable');

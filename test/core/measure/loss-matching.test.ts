@@ -7,6 +7,7 @@ import fc from 'fast-check';
 import { matchPeaks, type Alternative, type Ledger, type LedgerCell, type LedgerRow, type MatchOptions, type Standing } from '../../../src/core/measure/loss-matching.ts';
 import type { Peak, PeakFlag } from '../../../src/core/measure/peak-types.ts';
 import { makeRng } from '../../../src/core/numeric/random.ts';
+import { points, xUnits } from '../../../src/core/units.ts';
 
 // ---------------------------------------------------------------------------
 // The definition: src/core/measure/loss-matching.ts matchPeaks before the sweep (commit fe7454e), unchanged.
@@ -140,7 +141,7 @@ describe('matchPeaks: sweep along x = every peak against every feature', () => {
     fc.assert(fc.property(
       alternativesArb, fc.constantFrom(0.01, 0.25, 1), fc.constantFrom(0, 0.5, 2), fc.constantFrom(0, 2, 5),
       (alts, dx, fwhmFraction, minPoints) => {
-        const o: MatchOptions = { dx, xUnit: 'min', fwhmFraction, minPoints };
+        const o: MatchOptions = { dx: xUnits(dx), xUnit: 'min', fwhmFraction, minPoints: points(minPoints) };
         expect(matchPeaks(alts, o)).toEqual(naiveMatchPeaks(alts, o));
       },
     ), { seed: 81031, numRuns: 400 });
@@ -152,7 +153,7 @@ describe('matchPeaks: sweep along x = every peak against every feature', () => {
       { id: 'b', label: 'smoothed', peaks: [peak(2, 1, 'detectable', 5, false), peak(Infinity, 1, 'detectable', 4, false), peak(-Infinity, 2, 'below-detection', 1, false)] },
       { id: 'c', label: 'more', peaks: [peak(3.2, 0.2, 'detectable', 6, false), peak(Number.NaN, 1, 'detectable', 4, false)] },
     ];
-    expect(matchPeaks(alts, { dx: 0.1 })).toEqual(naiveMatchPeaks(alts, { dx: 0.1 }));
+    expect(matchPeaks(alts, { dx: xUnits(0.1) })).toEqual(naiveMatchPeaks(alts, { dx: xUnits(0.1) }));
   });
 
   it('the same ledger on a long noisy table (4 columns × 3000 peaks, most within a tolerance of a neighbour)', () => {
@@ -162,8 +163,8 @@ describe('matchPeaks: sweep along x = every peak against every feature', () => {
       id: `c${k}`, label: `column ${k}`,
       peaks: base.filter(() => rng.uniform() > 0.15 * k).map((x) => peak(x + 0.05 * rng.normal() * k, 0.1 + 0.5 * rng.uniform(), FLAGS[Math.floor(rng.uniform() * 3)], 10 * rng.uniform(), rng.uniform() < 0.02)),
     }));
-    const fast: Ledger = matchPeaks(alts, { dx: 0.01, xUnit: 'min' });
-    const slow: Ledger = naiveMatchPeaks(alts, { dx: 0.01, xUnit: 'min' });
+    const fast: Ledger = matchPeaks(alts, { dx: xUnits(0.01), xUnit: 'min' });
+    const slow: Ledger = naiveMatchPeaks(alts, { dx: xUnits(0.01), xUnit: 'min' });
     expect(fast.rows.length).toBe(slow.rows.length);
     expect(fast).toEqual(slow);
     // Not a trivial ledger: features matched across columns and features lost.

@@ -8,6 +8,7 @@ import { noiseRms } from '../../../src/core/measure/noise-estimators.ts';
 import { makeRng } from '../../../src/core/numeric/random.ts';
 import { savgolCoefficients, savitzkyGolay } from '../../../src/core/numeric/savgol.ts';
 import { movingAverage } from '../../../src/core/steps/moving-average.ts';
+import { points, xUnits } from '../../../src/core/units.ts';
 
 function grid(n: number, step = 1, start = 0): Float64Array {
   return Float64Array.from({ length: n }, (_, i) => start + i * step);
@@ -21,30 +22,30 @@ function nearest(peaks: readonly Peak[], at: number): Peak {
 
 describe('expected height kept on a Gaussian (REFERENCES.md "Gaussian peaks and averaging")', () => {
   it('moving average, σ = 5 points: N = 5 → 0.961326, N = 11 → 0.831139 (exact sum)', () => {
-    expect(gaussianHeightRatioMovingAverage(5, 5)).toBeCloseTo(0.961326, 6);
-    expect(gaussianHeightRatioMovingAverage(11, 5)).toBeCloseTo(0.831139, 6);
-    expect(gaussianHeightRatioMovingAverage(1, 5)).toBe(1);
+    expect(gaussianHeightRatioMovingAverage(points(5), points(5))).toBeCloseTo(0.961326, 6);
+    expect(gaussianHeightRatioMovingAverage(points(11), points(5))).toBeCloseTo(0.831139, 6);
+    expect(gaussianHeightRatioMovingAverage(points(1), points(5))).toBe(1);
     // The approximation 1/√(1 + (N² − 1)/(12σ²)) (REFERENCES.md) agrees within 2 % here.
     for (const N of [3, 5, 11]) {
       const approx = 1 / Math.sqrt(1 + (N * N - 1) / (12 * 25));
-      expect(Math.abs(gaussianHeightRatioMovingAverage(N, 5) / approx - 1)).toBeLessThan(0.02);
+      expect(Math.abs(gaussianHeightRatioMovingAverage(points(N), points(5)) / approx - 1)).toBeLessThan(0.02);
     }
   });
 
   it('from weights: uniform weights give the moving-average sum', () => {
-    expect(gaussianHeightRatioFromCoefficients(new Float64Array(7).fill(1 / 7), 3)).toBeCloseTo(gaussianHeightRatioMovingAverage(7, 3), 14);
+    expect(gaussianHeightRatioFromCoefficients(new Float64Array(7).fill(1 / 7), points(3))).toBeCloseTo(gaussianHeightRatioMovingAverage(points(7), points(3)), 14);
   });
 
-  it('Savitzky–Golay on σ = 5: quadratic 11 / 25 → 0.98827 / 0.8445, quartic 25 → 0.96535 (SciPy, REFERENCES.md)', () => {
-    expect(gaussianHeightRatioFromCoefficients(savgolCoefficients(11, 2), 5)).toBeCloseTo(0.98827, 5);
-    expect(gaussianHeightRatioFromCoefficients(savgolCoefficients(25, 2), 5)).toBeCloseTo(0.8445, 4);
-    expect(gaussianHeightRatioFromCoefficients(savgolCoefficients(25, 4), 5)).toBeCloseTo(0.96535, 5);
+  it('Savitzky–Golay on σ = 5: quadratic 11 / 25 → 0.98827 / 0.8445, quartic 25 → 0.96535 (scipy.signal.savgol_coeffs, SciPy 1.17.1)', () => {
+    expect(gaussianHeightRatioFromCoefficients(savgolCoefficients(11, 2), points(5))).toBeCloseTo(0.98827, 5);
+    expect(gaussianHeightRatioFromCoefficients(savgolCoefficients(25, 2), points(5))).toBeCloseTo(0.8445, 4);
+    expect(gaussianHeightRatioFromCoefficients(savgolCoefficients(25, 4), points(5))).toBeCloseTo(0.96535, 5);
   });
 
   it('refuses nonsense', () => {
-    expect(() => gaussianHeightRatioMovingAverage(0, 5)).toThrow(RangeError);
-    expect(() => gaussianHeightRatioMovingAverage(5, 0)).toThrow(/σ/);
-    expect(() => gaussianHeightRatioFromCoefficients([], 5)).toThrow(RangeError);
+    expect(() => gaussianHeightRatioMovingAverage(points(0), points(5))).toThrow(RangeError);
+    expect(() => gaussianHeightRatioMovingAverage(points(5), points(0))).toThrow(/σ/);
+    expect(() => gaussianHeightRatioFromCoefficients([], points(5))).toThrow(RangeError);
   });
 });
 
@@ -53,8 +54,8 @@ describe('measured height kept matches the computed expectation (issue 5 check)'
   const x = grid(400);
   const clean = gauss(x, [[200, 100, 5]]);
   const smoothers: [string, (y: Float64Array) => Float64Array, number][] = [
-    ['MA 5', (y) => movingAverage(y, 5), gaussianHeightRatioMovingAverage(5, 5)],
-    ['MA 11', (y) => movingAverage(y, 11), gaussianHeightRatioMovingAverage(11, 5)],
+    ['MA 5', (y) => movingAverage(y, 5), gaussianHeightRatioMovingAverage(points(5), points(5))],
+    ['MA 11', (y) => movingAverage(y, 11), gaussianHeightRatioMovingAverage(points(11), points(5))],
     ['SG 11/2', (y) => savitzkyGolay(y, 11, 2), 0.98827], // SciPy, REFERENCES.md
     ['SG 25/4', (y) => savitzkyGolay(y, 25, 4), 0.96535], // SciPy, REFERENCES.md
   ];
@@ -119,7 +120,7 @@ describe('matching is stable (issue 5 check)', () => {
   it('a peak shifted by less than the tolerance is one row; shifts and changes are reported', () => {
     const a: Alternative = { id: 'raw', label: 'raw', peaks: [fakePeak(10, 1, 50, 'quantifiable', 50)] };
     const b: Alternative = { id: 'ma', label: 'moving average', peaks: [fakePeak(10.3, 1.2, 40, 'quantifiable', 60)] };
-    const led = matchPeaks([a, b], { dx: 0.1, xUnit: 'min' });
+    const led = matchPeaks([a, b], { dx: xUnits(0.1), xUnit: 'min' });
     expect(led.rows).toHaveLength(1);
     const c = led.rows[0].cells[1];
     expect(c.found).toBe(true);
@@ -134,7 +135,7 @@ describe('matching is stable (issue 5 check)', () => {
   it('a shift beyond the tolerance is a lost feature plus a new one', () => {
     const a: Alternative = { id: 'raw', label: 'raw', peaks: [fakePeak(10, 1, 50, 'quantifiable', 50)] };
     const b: Alternative = { id: 'x', label: 'shifted', peaks: [fakePeak(10.6, 1, 50, 'quantifiable', 50)] };
-    const led = matchPeaks([a, b], { dx: 0.1, xUnit: 'min' });
+    const led = matchPeaks([a, b], { dx: xUnits(0.1), xUnit: 'min' });
     expect(led.rows).toHaveLength(2);
     expect(led.sentences).toContain('The feature at 10.0 min is lost with shifted.');
   });
@@ -142,7 +143,7 @@ describe('matching is stable (issue 5 check)', () => {
   it('two peaks closer than the tolerance are not merged into one row', () => {
     const a: Alternative = { id: 'raw', label: 'raw', peaks: [fakePeak(10, 2, 50, 'quantifiable', 50)] };
     const b: Alternative = { id: 'd', label: 'split', peaks: [fakePeak(9.8, 1, 30, 'quantifiable', 30), fakePeak(10.3, 1, 30, 'quantifiable', 30)] };
-    const led = matchPeaks([a, b], { dx: 0.1 });
+    const led = matchPeaks([a, b], { dx: xUnits(0.1) });
     expect(led.rows).toHaveLength(2);
     expect(led.rows[0].position).toBe(10);
     expect(led.rows[0].cells[1].x).toBe(9.8); // the nearer one joins the feature
@@ -153,10 +154,10 @@ describe('matching is stable (issue 5 check)', () => {
 
   it('peaks the user removed are left out; the tolerance floor is 2 points', () => {
     const removed = { ...fakePeak(5, 0.01, 10, 'detectable', 5), removedByUser: true };
-    const led = matchPeaks([{ id: 'a', label: 'a', peaks: [removed, fakePeak(10, 0.01, 10, 'detectable', 5)] }], { dx: 0.1 });
+    const led = matchPeaks([{ id: 'a', label: 'a', peaks: [removed, fakePeak(10, 0.01, 10, 'detectable', 5)] }], { dx: xUnits(0.1) });
     expect(led.rows).toHaveLength(1);
     expect(led.rows[0].tolerance).toBeCloseTo(0.2, 12);
-    expect(() => matchPeaks([], { dx: 1 })).toThrow(RangeError);
+    expect(() => matchPeaks([], { dx: xUnits(1) })).toThrow(RangeError);
   });
 });
 
@@ -177,7 +178,7 @@ describe('survival ledger on a synthetic trace: raw against moving averages', ()
     alt('ma3', '3-point moving average', movingAverage(raw, 3)),
     alt('ma41', '41-point moving average', movingAverage(raw, 41)),
   ];
-  const led = matchPeaks(alts, { dx: 0.01, xUnit: 'min' });
+  const led = matchPeaks(alts, { dx: xUnits(0.01), xUnit: 'min' });
 
   it('the narrow small peak is found raw, survives 3-point averaging, and is lost or falls below S/N 3 with 41 points', () => {
     const row = led.rows.reduce((a, b) => (Math.abs(b.position - 12.41) < Math.abs(a.position - 12.41) ? b : a));
@@ -218,7 +219,7 @@ describe('window advice (rules of thumb, marked as such)', () => {
   const fwhm = 5 * 2.35482; // σ = 5 points
 
   it('SG quadratic 25 on a peak of FWHM 11.8 points passes about 1 × FWHM; warns with the computed 84.4 %', () => {
-    const a = windowAdvice('savitzky-golay', 25, 2, fwhm);
+    const a = windowAdvice('savitzky-golay', points(25), 2, points(fwhm));
     expect(a.ratio).toBeCloseTo(25 / fwhm, 12);
     expect(a.expectedHeightKept).toBeCloseTo(0.8445, 4);
     expect(a.rule).toMatch(/O'Haver/);
@@ -226,20 +227,20 @@ describe('window advice (rules of thumb, marked as such)', () => {
   });
 
   it('SG quartic 25 is within 1–2 × FWHM (Press & Teukolsky 1990) only up to 2 ×', () => {
-    const a = windowAdvice('savitzky-golay', 25, 4, fwhm);
+    const a = windowAdvice('savitzky-golay', points(25), 4, points(fwhm));
     expect(a.expectedHeightKept).toBeCloseTo(0.96535, 5);
     expect(a.rule).toMatch(/Press & Teukolsky 1990/);
     expect(a.warning).toBeDefined(); // 2.12 × FWHM
-    expect(windowAdvice('savitzky-golay', 21, 4, fwhm).warning).toBeUndefined(); // 1.78 ×
+    expect(windowAdvice('savitzky-golay', points(21), 4, points(fwhm)).warning).toBeUndefined(); // 1.78 ×
   });
 
   it('moving average: 5 points is under half the FWHM (no warning), 11 is over', () => {
-    const a = windowAdvice('moving-average', 5, 0, fwhm);
+    const a = windowAdvice('moving-average', points(5), 0, points(fwhm));
     expect(a.expectedHeightKept).toBeCloseTo(0.961326, 6);
     expect(a.warning).toBeUndefined();
     expect(a.rule).toMatch(/common practice/);
-    const b = windowAdvice('moving-average', 11, 0, fwhm);
+    const b = windowAdvice('moving-average', points(11), 0, points(fwhm));
     expect(b.warning).toMatch(/83\.1 %/);
-    expect(() => windowAdvice('moving-average', 5, 0, 0)).toThrow(RangeError);
+    expect(() => windowAdvice('moving-average', points(5), 0, points(0))).toThrow(RangeError);
   });
 });
