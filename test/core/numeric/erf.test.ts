@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { erfc, erfcx } from '../../../src/core/numeric/erf.ts';
 import { emgFigures, emgPdf } from '../../../src/core/measure/fit/shapes.ts';
-import { fitRef, relErr } from './ref.ts';
+import { fitRef, relErr } from '../measure/ref.ts';
 
 describe('erfc and erfcx', () => {
   it(`match scipy.special.erfc / erfcx (SciPy ${fitRef.scipy}) to 1e-14 relative`, () => {
