@@ -1,7 +1,7 @@
 import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
 import { App } from './ui/App.tsx';
-import { startController } from './ui/controller.ts';
+import { startController } from './state/service.ts';
 import { startStandardsRunner } from './ui/calibration/standards-runner.ts';
 import { ErrorBoundary } from './ui/ErrorBoundary.tsx';
 import { registerOfflineCopy } from './ui/offline.ts';

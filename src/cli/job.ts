@@ -15,7 +15,7 @@ import { analysisSummary, summaryJson, traceShortName } from '../core/export/sum
 import type { CsvCellOptions } from '../core/io/csv-write.ts';
 import { loadFile } from '../core/io/load.ts';
 import type { LoadOptions, LoadResult } from '../core/io/types.ts';
-import { analysisOf, parseRecipeText, type Recipe } from '../core/recipe.ts';
+import { analysisOf, parseRecipeText, type Recipe } from '../core/method.ts';
 import { STEP_REGISTRY } from '../core/steps/registry.ts';
 import type { Trace } from '../core/trace.ts';
 import { calibrate, quantifySamples, type CalibrationSet, type SampleAmounts } from '../core/calibration/calibrate.ts';

@@ -10,7 +10,7 @@ import { basename, join, resolve } from 'node:path';
 import { Worker } from 'node:worker_threads';
 import { exportSafeName, uniqueNamer, zipBaseName } from '../core/export/names.ts';
 import { TOOL_VERSION } from '../core/export/version.ts';
-import { analysisOf, emptyRecipe, parseRecipeText, recipeToJson, recipeWithAnalysis, type Recipe } from '../core/recipe.ts';
+import { analysisOf, emptyRecipe, parseRecipeText, recipeToJson, recipeWithAnalysis, type Recipe } from '../core/method.ts';
 import { STEP_REGISTRY } from '../core/steps/registry.ts';
 import { parseArgs, type AnalyseOptions } from './args.ts';
 import { ANALYSE_HELP, MAIN_HELP } from './help.ts';

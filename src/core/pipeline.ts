@@ -19,8 +19,8 @@
  * as it was, and the note says so. Companion outputs are cached under the
  * sample step's key and the companion's role and id.
  */
-import { isEvenlySpaced } from './numeric/interpolate.ts';
-import type { Recipe, Registry } from './recipe.ts';
+import { unevenSpacingProblem } from './steps/checks.ts';
+import type { Recipe, Registry } from './method.ts';
 import type { Signal, SpikeEvent, StepContext, StepDefinition, StepOutput, StepParams } from './steps/types.ts';
 import type { Trace } from './trace.ts';
 
@@ -165,9 +165,8 @@ export function runPipeline(
       continue;
     }
     let problem: string | null = null;
-    if (def.needsEvenSpacing && !isEvenlySpaced(current.x)) {
-      problem = `${def.label} assumes evenly spaced x, and these x values are not evenly spaced. Add the step "Resample to even spacing" before it.`;
-    }
+    // Even spacing is checked here, once, for every step that declares it needs it (the steps do not check it again).
+    if (def.needsEvenSpacing) problem = unevenSpacingProblem(current.x, def.label);
     if (!problem) {
       try { problem = def.validate(entry.params, current, stepCtx()); } catch (e) { problem = `Could not check the parameters: ${(e as Error).message}`; }
     }
@@ -251,7 +250,7 @@ function processCompanions(
     let out = cache?.get(key);
     if (!out) {
       let problem: string | null = null;
-      if (def.needsEvenSpacing && !isEvenlySpaced(t.x)) problem = 'its x values are not evenly spaced';
+      if (def.needsEvenSpacing) problem = unevenSpacingProblem(t.x, def.label);
       if (!problem) {
         try { problem = def.validate(params as never, t, ctx); } catch (e) { problem = (e as Error).message; }
       }

@@ -3,23 +3,12 @@ import type { LoadReport } from '../core/io/types.ts';
 import type { Trace, TraceRole } from '../core/trace.ts';
 import type { AppState } from './store.ts';
 
-export type NoticeKind = 'info' | 'warning' | 'error';
-export interface Notice {
-  id: number;
-  kind: NoticeKind;
-  title: string;
-  lines: string[];
-  /** A button the notice offers: its words and the key of the action (kept outside the store, which holds data only). */
-  action?: { label: string; key: string };
-}
-
 export interface InputsSlice {
   traces: Trace[];
   roles: Record<string, TraceRole>;
   /** The trace being processed (role sample). */
   sampleId: string | null;
   reports: Record<string, LoadReport>;
-  notices: Notice[];
   loading: { fileName: string; fraction: number } | null;
   addTraces: (traces: Trace[], report: LoadReport, opts?: { replace?: boolean; roles?: TraceRole[] }) => void;
   setRole: (id: string, role: TraceRole) => void;
@@ -29,19 +18,14 @@ export interface InputsSlice {
   removeTrace: (id: string) => void;
   /** Name the axes of a trace and their units (issue 17): the trace is replaced by one with the same id, data and source. */
   setAxisNames: (id: string, names: { xName: string; xUnit: string; yName: string; yUnit: string }) => void;
-  notify: (kind: NoticeKind, title: string, lines?: string[], action?: Notice['action']) => void;
-  dismissNotice: (id: number) => void;
   setLoading: (l: { fileName: string; fraction: number } | null) => void;
 }
-
-let noticeId = 0;
 
 export const createInputsSlice: StateCreator<AppState, [], [], InputsSlice> = (set) => ({
   traces: [],
   roles: {},
   sampleId: null,
   reports: {},
-  notices: [],
   loading: null,
   addTraces: (incoming, report, opts) => set((s) => {
     const traces = opts?.replace ? [...incoming] : [...s.traces, ...incoming];
@@ -97,12 +81,5 @@ export const createInputsSlice: StateCreator<AppState, [], [], InputsSlice> = (s
     delete roles[id];
     return { traces: s.traces.filter((t) => t.id !== id), roles, sampleId: s.sampleId === id ? null : s.sampleId };
   }),
-  notify: (kind, title, lines = [], action) => set((s) => {
-    noticeId += 1;
-    const n: Notice = { id: noticeId, kind, title, lines };
-    if (action) n.action = action;
-    return { notices: [n, ...s.notices].slice(0, 30) };
-  }),
-  dismissNotice: (id) => set((s) => ({ notices: s.notices.filter((n) => n.id !== id) })),
   setLoading: (loading) => set({ loading }),
 });

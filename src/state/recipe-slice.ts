@@ -1,5 +1,5 @@
 import type { StateCreator } from 'zustand';
-import { cloneParams, emptyRecipe, makeRecipeStep, recipeStepsOnly, type Recipe } from '../core/recipe.ts';
+import { cloneParams, emptyRecipe, makeRecipeStep, recipeStepsOnly, type Recipe } from '../core/method.ts';
 import { stepDefinition } from '../core/steps/registry.ts';
 import type { ParamValue } from '../core/steps/types.ts';
 import type { AppState } from './store.ts';
@@ -19,6 +19,19 @@ export interface RecipeSlice {
 }
 
 const HISTORY = 200;
+
+/** The step stack with its undo history (oldest first) and redo steps (next first): what session persistence keeps of this slice. */
+export type StackHistory = Pick<RecipeSlice, 'recipe' | 'past' | 'future'>;
+
+/** The fields {@link StackHistory} names, for watching them change. */
+export const STACK_HISTORY_KEYS = ['recipe', 'past', 'future'] as const satisfies readonly (keyof RecipeSlice)[];
+
+/** The stack and its history as kept (same objects, nothing copied); `keep` limits the undo and redo steps to the newest of each. */
+export function stackHistoryOf(s: StackHistory, keep = Infinity): StackHistory {
+  return keep === Infinity
+    ? { recipe: s.recipe, past: s.past, future: s.future }
+    : { recipe: s.recipe, past: keep > 0 ? s.past.slice(-keep) : [], future: s.future.slice(0, keep) };
+}
 
 function copyRecipe(r: Recipe): Recipe {
   return { ...r, steps: r.steps.map((s) => ({ ...s, params: cloneParams(s.params) })) };
@@ -60,7 +73,7 @@ export const createRecipeSlice: StateCreator<AppState, [], [], RecipeSlice> = (s
       s.params[key] = value;
       return r;
     }),
-    // The stack holds steps only; the analysis settings live in the analysis slice.
+    // The stack holds steps only; the noise and peak settings live in the settings slice.
     replaceRecipe: (recipe) => edit(() => copyRecipe(recipeStepsOnly(recipe))),
     undo: () => set((s) => {
       if (!s.past.length) return {};

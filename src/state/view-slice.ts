@@ -1,6 +1,7 @@
 import type { StateCreator } from 'zustand';
 import type { AppState } from './store.ts';
 
+/** How the page is looked at: zoom, what is drawn, and the plot's click modes (mark, measure, add a peak) and the selected peak. */
 export interface ViewSlice {
   /** Visible x-range, or null for all. */
   xRange: [number, number] | null;
@@ -29,6 +30,12 @@ export interface ViewSlice {
   /** Two-point measuring on the plot (issue 17): clicks then measure and select nothing. */
   measureMode: boolean;
   setMeasureMode: (v: boolean) => void;
+  /** When on, a click on the plot adds a peak there. */
+  addPeakMode: boolean;
+  setAddPeakMode: (v: boolean) => void;
+  /** The peak the table and plot show as chosen (its x), or null. */
+  selectedPeakX: number | null;
+  selectPeak: (x: number | null) => void;
 }
 
 export const createViewSlice: StateCreator<AppState, [], [], ViewSlice> = (set) => ({
@@ -54,4 +61,8 @@ export const createViewSlice: StateCreator<AppState, [], [], ViewSlice> = (set) 
   measureMode: false,
   setMeasureMode: (measureMode) => set(measureMode ? { measureMode, addPeakMode: false } : { measureMode }),
   setHandNote: (handNote) => set({ handNote }),
+  addPeakMode: false,
+  setAddPeakMode: (addPeakMode) => set({ addPeakMode, markMode: false }),
+  selectedPeakX: null,
+  selectPeak: (selectedPeakX) => set({ selectedPeakX }),
 });

@@ -1,7 +1,7 @@
 import { HandReasonField } from './export/HandReasonField.tsx';
 import { useCallback, useEffect, useRef, useState } from 'react';
 import { useApp } from '../state/store.ts';
-import { loadDemo, openFiles } from './controller.ts';
+import { loadDemo, openFiles } from '../state/service.ts';
 import { ErrorBoundary } from './ErrorBoundary.tsx';
 import { Notices } from './Notices.tsx';
 import { SessionBanner, StartChoice } from './SessionBanner.tsx';
@@ -21,6 +21,7 @@ import { FocusedFeature } from './FocusedFeature.tsx';
 import { ExcludedRanges } from './ExcludedRanges.tsx';
 import { FirstUseGuide, guideDismissed, rememberGuideDismissed, ShortcutList } from './Guide.tsx';
 import { nextPeak } from './peak-steps.ts';
+import { currentResult } from '../state/selectors.ts';
 
 /** The busy mark beside the plot title: re-renders on its own, not the whole page (issue 16). */
 function BusyMark() {
@@ -67,7 +68,7 @@ export function App() {
       else if (k === 'w') s.setXRange(null);
       else if (k === 'm') s.setMarkMode(!s.markMode);
       else if (k === 'n' || k === 'p') {
-        const r = s.result && s.result.sampleId === s.sampleId ? s.result : null;
+        const r = currentResult(s);
         const pk = r ? nextPeak(r.peaks, s.selectedPeakX, k === 'n' ? 1 : -1) : null;
         if (pk) {
           s.selectPeak(pk.x);

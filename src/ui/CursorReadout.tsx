@@ -2,11 +2,12 @@ import { useEffect, useMemo, useState } from 'react';
 import { useShallow } from 'zustand/react/shallow';
 import { useApp } from '../state/store.ts';
 import { num } from './format.ts';
-import { addPeakByHand } from './controller.ts';
+import { addPeakByHand } from '../state/service.ts';
 import { axisTransform, toDataUnits } from './plot-guard.ts';
 import { nearestPoint, slopeUnit, twoPointMeasure, type ReadSeries } from './plot-view.ts';
 import { farOf } from '../worker/bridge.ts';
-import { getBackend } from './controller.ts';
+import { getBackend } from '../state/service.ts';
+import { currentResult } from '../state/selectors.ts';
 
 interface PlotAxis { _offset: number; _length: number; range: [number, number] }
 interface Point { x: number; y: number; series: string }
@@ -22,7 +23,7 @@ const withUnit = (v: number | null, unit: string, digits = 6) => `${num(v, digit
 export function CursorReadout({ figure }: { figure: HTMLElement | null }) {
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   // Only the series read: other stages do not re-render the readout (issue 16).
-  const result = useApp(useShallow((s) => (s.result && s.result.sampleId === s.sampleId ? { processed: s.result.processed, baseline: s.result.baseline, residual: s.result.residual } : null)));
+  const result = useApp(useShallow((s) => { const r = currentResult(s); return r ? { processed: r.processed, baseline: r.baseline, residual: r.residual } : null; }));
   const showRaw = useApp((s) => s.showRaw);
   const [cursorX, setCursorX] = useState<number | null>(null);
   const measuring = useApp((s) => s.measureMode);

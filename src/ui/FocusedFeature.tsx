@@ -7,7 +7,8 @@ import type { Signal } from '../core/steps/types.ts';
 import { againstRaw, columnVerdict, focusWindow, rowAt, sharedYRange, type Verdict } from './focus.ts';
 import { num } from './format.ts';
 import { farOf } from '../worker/bridge.ts';
-import { getBackend } from './controller.ts';
+import { getBackend } from '../state/service.ts';
+import { withCurrent } from '../state/selectors.ts';
 
 const W = 220, H = 120, PAD = 6;
 
@@ -46,7 +47,7 @@ function Small({ signal, from, to, y, apex, label }: { signal: Signal; from: num
 export function FocusedFeature() {
   const x0 = useApp((s) => s.selectedPeakX);
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
-  const res = useApp(useShallow((s) => (s.result && s.result.sampleId === s.sampleId ? { processed: s.result.processed, loss: s.result.loss } : null)));
+  const res = useApp(useShallow((s) => (withCurrent(s, (r) => ({ processed: r.processed, loss: r.loss })))));
   const noiseRowsOn = useApp((s) => s.ledgerNoiseLevel);
   const { selectPeak, setLedgerNoiseLevel } = useApp.getState();
 

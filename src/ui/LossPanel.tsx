@@ -1,15 +1,18 @@
-import type { LedgerCell } from '../core/loss.ts';
+import type { LedgerCell } from '../core/measure/loss-matching.ts';
 import { ledgerFitNote, type LedgerFitNote } from '../core/measure/fit/ledger-fit.ts';
 import { useLedgerFits } from './fit/ledger-fits.ts';
 import { useApp } from '../state/store.ts';
 import { presetAlternative, PRESETS } from './alternatives.ts';
-import { num, FLAG_WORDS } from './format.ts';
+import { num } from './format.ts';
+import { FLAG_TEXT } from '../core/measure/snr-words.ts';
 import { ALTERNATIVE_COLOURS } from './palette.ts';
 import { MAX_ALTERNATIVES } from '../core/analysis/index.ts';
+import { currentResult } from '../state/selectors.ts';
+import { DISPLAY_CAPS } from '../state/display-caps.ts';
 
 function standingText(c: LedgerCell): string {
   if (!c.found) return 'lost';
-  return `${FLAG_WORDS[c.standing] ?? c.standing}, S/N ${num(c.snr, 3)}`;
+  return `${c.standing === 'lost' ? 'lost' : FLAG_TEXT[c.standing]}, S/N ${num(c.snr, 3)}`;
 }
 
 function pct(v: number | null, signed = false): string {
@@ -19,7 +22,6 @@ function pct(v: number | null, signed = false): string {
 }
 
 /** Sentences listed on the page at most (the report holds every one). */
-const MAX_SENTENCES = 300;
 
 /** The ledger cell of a feature inside a fitted region (issue 18): the count in a few words, the whole sentence on hover. */
 function FitCell({ note }: { note: LedgerFitNote | null }) {
@@ -28,7 +30,7 @@ function FitCell({ note }: { note: LedgerFitNote | null }) {
 
 /** The loss check: alternatives side by side, the survival ledger, window advice. */
 export function LossPanel() {
-  const loss = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result.loss : null));
+  const loss = useApp((s) => (currentResult(s)?.loss ?? null));
   const resultSeq = useApp((s) => s.stageSeq.loss);
   const provisional = useApp((s) => s.pending.includes('loss'));
   const alternatives = useApp((s) => s.alternatives);
@@ -52,7 +54,7 @@ export function LossPanel() {
   const fitColumn = fits.some((f) => f.result.processing);
   const hidden = loss ? loss.noiseLevelRows : 0;
   // Thousands of rows would stall the page; crossed rows first, then by position.
-  const shown = rows.length <= 300 ? rows : [...rows.filter((r) => r.crossed), ...rows.filter((r) => !r.crossed)].slice(0, 300).sort((a, b) => a.position - b.position);
+  const shown = rows.length <= DISPLAY_CAPS.ledgerRows ? rows : [...rows.filter((r) => r.crossed), ...rows.filter((r) => !r.crossed)].slice(0, DISPLAY_CAPS.ledgerRows).sort((a, b) => a.position - b.position);
   return (
     <section className="panel" aria-labelledby="loss-title" data-testid="loss-panel" data-result-seq={resultSeq} data-provisional={provisional ? 'true' : undefined}>
       <div className="panel-head">
@@ -120,8 +122,8 @@ export function LossPanel() {
           {loss.ledger.sentences.length > 0 && (
             <details>
               <summary>{loss.ledger.sentences.length} change{loss.ledger.sentences.length === 1 ? '' : 's'} across all columns</summary>
-              <ul className="small">{loss.ledger.sentences.slice(0, MAX_SENTENCES).map((s, i) => <li key={i}>{s}</li>)}</ul>
-              {loss.ledger.sentences.length > MAX_SENTENCES && <p className="small muted">… and {loss.ledger.sentences.length - MAX_SENTENCES} more; the report lists every one.</p>}
+              <ul className="small">{loss.ledger.sentences.slice(0, DISPLAY_CAPS.ledgerSentences).map((s, i) => <li key={i}>{s}</li>)}</ul>
+              {loss.ledger.sentences.length > DISPLAY_CAPS.ledgerSentences && <p className="small muted">… and {loss.ledger.sentences.length - DISPLAY_CAPS.ledgerSentences} more; the report lists every one.</p>}
             </details>
           )}
           <label className="switch small">

@@ -1,7 +1,9 @@
 import { sigmaProvisional, type NoiseMethod, type PeakSettings } from '../core/analysis/index.ts';
 import { useApp } from '../state/store.ts';
-import { num, SNR_WORDS } from './format.ts';
+import { num } from './format.ts';
+import { SNR_NAME } from '../core/measure/snr-words.ts';
 import { profileRange, type SigmaProfile } from '../core/measure/noise-profile.ts';
+import { currentResult } from '../state/selectors.ts';
 
 /** The σ range along the trace, or null when σ is the same everywhere. */
 function profileSpan(p: SigmaProfile): [number, number] | null {
@@ -22,9 +24,9 @@ function NumberField({ label, value, min, max, step, unit, onChange }: { label: 
 
 /** Noise method, quiet range and peak thresholds. */
 export function NoisePanel() {
-  const noise = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result.noise : null));
+  const noise = useApp((s) => (currentResult(s)?.noise ?? null));
   // Issue 14: σ (so every S/N) is provisional until the noise stage of the newest request lands.
-  const sigmaWaiting = useApp((s) => sigmaProvisional(s.pending, s.result && s.result.sampleId === s.sampleId ? s.result.noise : null));
+  const sigmaWaiting = useApp((s) => sigmaProvisional(s.pending, currentResult(s)?.noise ?? null));
   const settings = useApp((s) => s.noiseSettings);
   const ps = useApp((s) => s.peakSettings);
   const marked = useApp((s) => s.markedRange);
@@ -85,7 +87,7 @@ export function NoisePanel() {
           <label className="param" htmlFor="snr-def">
             <span className="param-label">S/N definition for the table and flags</span>
             <select id="snr-def" value={ps.snrDefinition} onChange={(e) => set({ snrDefinition: e.target.value as PeakSettings['snrDefinition'] })}>
-              {Object.entries(SNR_WORDS).map(([k, v]) => <option key={k} value={k}>{v}</option>)}
+              {Object.entries(SNR_NAME).map(([k, v]) => <option key={k} value={k}>{v}</option>)}
             </select>
           </label>
           {ps.snrDefinition === 'pharmacopoeial' && (

@@ -1,5 +1,6 @@
 import { useApp } from '../state/store.ts';
-import { cancelLoad, runNoticeAction } from './controller.ts';
+import { cancelLoad, runNoticeAction } from '../state/service.ts';
+import { DISPLAY_CAPS } from '../state/display-caps.ts';
 
 /** Load reports, warnings and errors, newest first. */
 export function Notices() {
@@ -17,7 +18,7 @@ export function Notices() {
         </div>
       )}
       {computeError && <div className="notice notice-error" role="alert"><strong>Computation failed:</strong> {computeError}</div>}
-      {notices.slice(0, 6).map((n) => (
+      {notices.slice(0, DISPLAY_CAPS.noticesShown).map((n) => (
         <div key={n.id} className={`notice notice-${n.kind}`} role={n.kind === 'error' ? 'alert' : undefined} data-testid={`notice-${n.kind}`}>
           <div className="notice-head">
             <strong>{n.title}</strong>

@@ -1,6 +1,6 @@
 import { useEffect, useId, useState } from 'react';
 import type { ParamSpec, ParamValue } from '../core/steps/types.ts';
-import { checkParam } from '../core/recipe.ts';
+import { checkParam } from '../core/method.ts';
 import { useApp } from '../state/store.ts';
 
 interface Props {

@@ -2,14 +2,17 @@ import { Fragment, useState, type ReactNode } from 'react';
 import { useShallow } from 'zustand/react/shallow';
 import type { Peak, PeakMark } from '../core/measure/peak-types.ts';
 import { noiseBumpSentence } from '../core/measure/noise-bumps.ts';
-import { sigmaProvisional } from '../core/analysis/result.ts';
+import { sigmaProvisional, snrProvisional } from '../core/analysis/result.ts';
 import { BOUND_TEXT, MARK_TEXT, SPLIT_TEXT } from '../core/export/peak-csv.ts';
 import { useApp } from '../state/store.ts';
-import { FLAG_WORDS, num, SNR_WORDS } from './format.ts';
+import { num } from './format.ts';
+import { FLAG_TEXT, SNR_NAME, SNR_SHORT } from '../core/measure/snr-words.ts';
 import { useNameOfPeak } from './calibration/derive.ts';
 import { FigureControls, usePeakExtras } from './fit/peak-extras.tsx';
+import { withCurrent } from '../state/selectors.ts';
+import { xUnits } from '../core/units.ts';
+import { DISPLAY_CAPS } from '../state/display-caps.ts';
 
-const MAX_ROWS = 500;
 
 /** One column of the peak table (issue 17); `fixed` columns are always shown. */
 interface PeakColumn { key: string; label: string; title?: string; fixed?: boolean; className?: string; cell: (p: Peak, i: number) => ReactNode }
@@ -40,24 +43,23 @@ const MARK_SHORT: Record<PeakMark, string> = {
 const snrOf = (p: Peak) => p.snr ?? -Infinity;
 
 /**
- * At most MAX_ROWS rows: the user's decisions always, then the highest S/N
+ * At most DISPLAY_CAPS.peakRows rows: the user's decisions always, then the highest S/N
  * (never the first by position: on a long noisy trace those are noise).
  */
 function pickRows(all: readonly Peak[]): Peak[] {
   const mine = (p: Peak) => p.origin === 'added-by-user' || p.removedByUser === true;
   const rest = all.filter((p) => !mine(p)).sort((a, b) => snrOf(b) - snrOf(a));
-  return [...all.filter(mine), ...rest].slice(0, MAX_ROWS);
+  return [...all.filter(mine), ...rest].slice(0, DISPLAY_CAPS.peakRows);
 }
 
 /** The peak table: a real table with headers; a click on a row zooms to the peak. */
 export function PeakTable() {
   // Only the fields shown: earlier stages of a newer request do not re-render the table.
-  const result = useApp(useShallow((s) => (s.result && s.result.sampleId === s.sampleId
-    ? { peaks: s.result.peaks, peakOptions: s.result.peakOptions, peakProblem: s.result.peakProblem, noiseBumps: s.result.noiseBumps }
-    : null)));
+  const result = useApp(useShallow((s) => withCurrent(s, (r) => ({ peaks: r.peaks, peakOptions: r.peakOptions, peakProblem: r.peakProblem, noiseBumps: r.noiseBumps }))));
   const resultSeq = useApp((s) => s.stageSeq.peaks);
   const provisional = useApp((s) => s.pending.includes('peaks'));
   const sigmaWaiting = useApp((s) => sigmaProvisional(s.pending, s.result?.noise ?? null)); // issue 14
+  const snrWaiting = useApp((s) => snrProvisional(s.pending, s.result?.noise ?? null));
   const bumpsPending = useApp((s) => s.pending.includes('bumps'));
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const selected = useApp((s) => s.selectedPeakX);
@@ -77,9 +79,9 @@ export function PeakTable() {
   const extras = usePeakExtras(); // issue 18: optional figure and fitted-area columns
   if (!result || !sample) return null;
   const all = result.peaks;
-  // A long noisy trace can hold thousands of candidates; the page shows at most MAX_ROWS (the user's decisions and
+  // A long noisy trace can hold thousands of candidates; the page shows at most DISPLAY_CAPS.peakRows (the user's decisions and
   // the highest S/N), ordered by S/N when capped unless the user asks for position. The peak CSV holds every one.
-  const capped = all.length > MAX_ROWS;
+  const capped = all.length > DISPLAY_CAPS.peakRows;
   const order = orderChoice ?? (capped ? 'snr' : 'x');
   const shown = capped ? pickRows(all) : all.slice();
   const peaks = order === 'snr' ? shown.sort((a, b) => snrOf(b) - snrOf(a) || a.x - b.x) : shown.sort((a, b) => a.x - b.x);
@@ -106,23 +108,23 @@ export function PeakTable() {
     { key: 'area', label: `Area${areaUnit}`, cell: (p) => num(p.area) },
     { key: 'area-pct', label: 'Area %', title: 'Each peak’s area as a share of the summed area of every peak kept in the table (all rows, not only those shown; removed peaks left out)', cell: (p) => (p.removedByUser || !(totalArea > 0) ? '—' : num((100 * p.area) / totalArea, 3)) },
     { key: 'bounds', label: `Start – end${xu}`, cell: (p) => <span title={`start: ${BOUND_TEXT[p.startKind]}; end: ${BOUND_TEXT[p.endKind]}${p.split !== 'none' ? `; shared valley split by ${SPLIT_TEXT[p.split]}` : ''}`}>{num(p.start, 4)} – {num(p.end, 4)}</span> },
-    { key: 'snr', label: `S/N (${def === 'rms' ? 'H/σ' : def === 'pharmacopoeial' ? '2H/h' : 'mean/SD'})`, fixed: true, cell: (p) => <strong>{num(p.snr, 3)}</strong> },
+    { key: 'snr', label: `S/N (${SNR_SHORT[def]})`, fixed: true, cell: (p) => <strong>{num(p.snr, 3)}</strong> },
     {
       key: 'status', label: 'Status and marks', fixed: true, className: 'marks',
       cell: (p) => (
         <span title={[...p.marks.map((m) => (m === 'also-in-blank' && p.blankHeight !== undefined ? `${MARK_TEXT[m]}; the blank's height there ${num(p.blankHeight)}` : MARK_TEXT[m])), p.note ?? ''].filter(Boolean).join('; ')}>
-          <span className={`flag flag-${p.flag}`}>{FLAG_WORDS[p.flag]}</span>
+          <span className={`flag flag-${p.flag}`}>{FLAG_TEXT[p.flag]}</span>
           {p.marks.map((m) => <span key={m} className={`mark mark-${m}`}>{MARK_SHORT[m]}{m === 'also-in-blank' && p.blankHeight !== undefined ? ` (height ${num(p.blankHeight)})` : ''}</span>)}
           {p.note && <span className="mark">see note</span>}
         </span>
       ),
     },
-    { key: 'snr-rms', label: 'H/σ', cell: (p) => num(p.snrRms, 3) },
-    { key: 'snr-pharma', label: '2H/h', cell: (p) => <span title={p.pharmaNoise ? `h = ${num(p.pharmaNoise.h)} over ${p.pharmaNoise.points} points of ${p.pharmaNoise.source}` : ''}>{num(p.snrPharma, 3)}{p.pharmaNoise?.source === 'trace itself' ? '*' : ''}</span> },
+    { key: 'snr-rms', label: SNR_SHORT.rms, cell: (p) => num(p.snrRms, 3) },
+    { key: 'snr-pharma', label: SNR_SHORT.pharmacopoeial, cell: (p) => <span title={p.pharmaNoise ? `h = ${num(p.pharmaNoise.h)} over ${p.pharmaNoise.points} points of ${p.pharmaNoise.source}` : ''}>{num(p.snrPharma, 3)}{p.pharmaNoise?.source === 'trace itself' ? '*' : ''}</span> },
     {
       key: 'decision', label: 'Decision', fixed: true, className: 'decision',
       cell: (p, i) => (p.removedByUser ? (
-        <>removed by hand <button type="button" className="link" onClick={(e) => { e.stopPropagation(); restorePeakAt(p.x, Math.max(p.fwhm, 1e-12)); }}>restore</button></>
+        <>removed by hand <button type="button" className="link" onClick={(e) => { e.stopPropagation(); restorePeakAt(p.x, xUnits(Math.max(p.fwhm, 1e-12))); }}>restore</button></>
       ) : (
         <>{p.origin === 'added-by-user' ? 'added by hand ' : ''}{p.boundsByUser ? 'start and end set by hand ' : ''}<button type="button" className="link danger" onClick={(e) => { e.stopPropagation(); removeThis(p); }} aria-label={`Remove peak ${i + 1}`}>remove</button></>
       )),
@@ -134,7 +136,7 @@ export function PeakTable() {
   const visible = columns.filter(isShown);
   const hiddenCols = columns.filter((c) => !isShown(c));
   return (
-    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq} data-provisional={provisional || bumpsPending ? 'true' : undefined} data-snr-provisional={provisional || sigmaWaiting ? 'true' : undefined}>
+    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq} data-provisional={provisional || bumpsPending ? 'true' : undefined} data-snr-provisional={snrWaiting ? 'true' : undefined}>
       <div className="panel-head">
         <h2 id="peaks-title">Peaks</h2>
         <div className="row">
@@ -146,7 +148,7 @@ export function PeakTable() {
       {result.peakProblem && <p className="step-problem" role="alert">{result.peakProblem}</p>}
       <p className="small" data-testid="peak-summary">
         {counts.q} quantifiable (S/N ≥ {lim?.quantitation}), {counts.d} detected but not quantifiable ({lim?.detection} ≤ S/N &lt; {lim?.quantitation}), {counts.b} below the detection limit (kept, marked).
-        {' '}S/N column: <strong>{SNR_WORDS[def]}</strong>.
+        {' '}S/N column: <strong>{SNR_NAME[def]}</strong>.
         {capped && <> Showing the {peaks.length} of {all.length} candidates with the highest S/N (and every hand decision); the peak table CSV holds every one. Raise the smallest S/N or prominence to thin the list.</>}
       </p>
       {bumpsPending && !provisional && <p className="small provisional" data-testid="noise-bumps-pending">Counting how many bumps pure noise would give with these settings…</p>}
@@ -177,7 +179,7 @@ export function PeakTable() {
       </div>
       <div className="table-wrap" tabIndex={0} role="region" aria-label="Peak table (scrolls)">
         <table className="data peaks" data-testid="peak-table">
-          <caption className="sr-only">Peaks found on the {result.peakOptions ? 'measured' : ''} trace with their measures; S/N by {SNR_WORDS[def]}</caption>
+          <caption className="sr-only">Peaks found on the {result.peakOptions ? 'measured' : ''} trace with their measures; S/N by {SNR_NAME[def]}</caption>
           <thead>
             <tr>
               {visible.map((c) => <th scope="col" key={c.key} title={c.title} data-col={c.key}>{c.label}</th>)}

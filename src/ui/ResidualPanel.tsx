@@ -1,11 +1,12 @@
 import { useShallow } from 'zustand/react/shallow';
 import { useApp } from '../state/store.ts';
+import { withCurrent } from '../state/selectors.ts';
 
 const VERDICT_CLASS = { 'nothing-removed': 'ok', clean: 'ok', caution: 'warn', structure: 'bad' } as const;
 
 /** What the processing removed, and whether it looks like noise (one verdict with the loss check). */
 export function ResidualPanel() {
-  const result = useApp(useShallow((s) => (s.result && s.result.sampleId === s.sampleId ? { diagnostics: s.result.diagnostics, residualNote: s.result.residualNote } : null)));
+  const result = useApp(useShallow((s) => (withCurrent(s, (r) => ({ diagnostics: r.diagnostics, residualNote: r.residualNote })))));
   // The verdict is one with the loss check: until that lands it may still be held back from 'clean'.
   const waiting = useApp((s) => (s.pending.includes('residual') ? 'residual' : s.pending.includes('loss') ? 'loss' : null));
   if (!result) return null;

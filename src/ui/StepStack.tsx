@@ -7,6 +7,7 @@ import { stepFigureText } from './step-figures.ts';
 import { windowVariants } from './alternatives.ts';
 import { StepExtras } from './StepExtras.tsx';
 import { ScanAlignment } from './steps/ScanAlignment.tsx';
+import { DISPLAY_CAPS } from '../state/display-caps.ts';
 
 const NO_RUNS: never[] = [];
 
@@ -109,12 +110,12 @@ export function StepStack() {
                       <table className="data" data-testid="spike-events">
                         <thead><tr><th scope="col">x</th><th scope="col">was</th><th scope="col">now</th></tr></thead>
                         <tbody>
-                          {run.events.slice(0, 200).map((ev) => (
+                          {run.events.slice(0, DISPLAY_CAPS.stepEvents).map((ev) => (
                             <tr key={ev.index}><td>{Number(ev.x.toPrecision(6))}</td><td>{Number(ev.original.toPrecision(5))}</td><td>{Number(ev.replacement.toPrecision(5))}</td></tr>
                           ))}
                         </tbody>
                       </table>
-                      {run.events.length > 200 && <p className="small">First 200 of {run.events.length}; all are in the exports.</p>}
+                      {run.events.length > DISPLAY_CAPS.stepEvents && <p className="small">First {DISPLAY_CAPS.stepEvents} of {run.events.length}; all are in the exports.</p>}
                     </details>
                   )}
                   {run.extra?.scanCorrelation && run.extra.scanShift && (

@@ -17,7 +17,7 @@ import type { Peak } from '../core/measure/peak-types.ts';
 import type { Signal } from '../core/steps/types.ts';
 import { farOf } from '../worker/bridge.ts';
 import { sameView, type Drawn, type FarSeries, type View } from '../worker/series.ts';
-import { getBackend } from './controller.ts';
+import { getBackend } from '../state/service.ts';
 
 /** The main plotting area as last drawn: axis ranges and size in pixels (issue 17: label placement). */
 interface Geometry { x: [number, number]; y: [number, number]; w: number; h: number }

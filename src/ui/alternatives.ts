@@ -4,7 +4,7 @@
  * window (half and double).
  */
 import type { AlternativeRequest } from '../core/analysis/index.ts';
-import { cloneParams, makeRecipeStep, newStepUid, type Recipe } from '../core/recipe.ts';
+import { cloneParams, makeRecipeStep, newStepUid, type Recipe } from '../core/method.ts';
 import { stepDefinition } from '../core/steps/registry.ts';
 
 /** Steps that smooth (and so can erase features); presets replace them. */

@@ -3,8 +3,8 @@
  * the stretch of trace to show around it, and a one-word verdict per column
  * against the raw trace.
  */
-import type { LedgerCell, LedgerRow } from '../core/loss.ts';
-import { HEIGHT_LOSS_TOLERANCE } from '../core/diagnostics.ts';
+import type { LedgerCell, LedgerRow } from '../core/measure/loss-matching.ts';
+import { HEIGHT_LOSS_TOLERANCE } from '../core/measure/residual-tests.ts';
 
 export type Verdict = 'reference' | 'kept' | 'weakened' | 'lost' | 'appears only after processing' | 'not found';
 

@@ -6,16 +6,3 @@ export function num(v: number | null | undefined, digits = 4): string {
   if (a !== 0 && (a < 1e-3 || a >= 1e6)) return v.toExponential(digits - 1);
   return String(Number(v.toPrecision(digits)));
 }
-
-export const FLAG_WORDS: Record<string, string> = {
-  'below-detection': 'below detection limit',
-  detectable: 'detected, not quantifiable',
-  quantifiable: 'quantifiable',
-  'not-measured': 'S/N not measured',
-};
-
-export const SNR_WORDS: Record<string, string> = {
-  rms: 'H/σ (height over RMS noise)',
-  pharmacopoeial: '2H/h (height over noise range, pharmacopoeial)',
-  region: 'mean/SD of the peak region',
-};

@@ -6,7 +6,7 @@
 import { useEffect, useState } from 'react';
 import type { Signal } from '../core/steps/types.ts';
 import { exactSignal, farOf } from '../worker/bridge.ts';
-import { getBackend } from './controller.ts';
+import { getBackend } from '../state/service.ts';
 
 export function useExactSignal(s: Signal | null, wanted = true): Signal | null {
   const [got, setGot] = useState<{ of: Signal; exact: Signal } | null>(null);

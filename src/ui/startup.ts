@@ -5,11 +5,11 @@
  * the same thing into the same failure again.
  */
 import { useApp } from '../state/store.ts';
-import { loadDemo } from './controller.ts';
+import { loadDemo } from '../state/service.ts';
 import { lastDrawProblem, markDrawn, markRestoring } from './draw-health.ts';
 import { downloadText } from './export/download.ts';
-import { hasSavedSession, loadSession, restoreSession, startSessionAutosave } from './export/session-db.ts';
-import { sessionFileText } from './export/session-file.ts';
+import { hasSavedSession, loadSession, restoreSession, startSessionAutosave } from '../state/session-db.ts';
+import { sessionFileText } from '../state/session-file.ts';
 
 let autosaveStarted = false;
 

@@ -13,7 +13,7 @@ import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import type { Trace } from '../core/trace.ts';
 import type { AnalyseRequest, StageUpdate } from '../core/analysis/index.ts';
 import type { BatchFile, BatchProgress, BatchResult, BatchSettings } from '../core/export/batch.ts';
-import type { Recipe } from '../core/recipe.ts';
+import type { Recipe } from '../core/method.ts';
 import type { Columns } from './transfer.ts';
 import type { FitJobOutcome, FitRequest } from './fit-job.ts';
 import type { Signal } from '../core/steps/types.ts';

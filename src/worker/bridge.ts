@@ -15,7 +15,7 @@ import type { Trace } from '../core/trace.ts';
 import { HeldTraces } from './held-traces.ts';
 import type { Call, FromWorker, Method, ParamsOf, ProgressOf, ResultOf, ToWorker } from './api.ts';
 import { runBatch, type BatchFile, type BatchProgress, type BatchResult, type BatchSettings } from '../core/export/batch.ts';
-import type { Recipe } from '../core/recipe.ts';
+import type { Recipe } from '../core/method.ts';
 import { STEP_REGISTRY } from '../core/steps/registry.ts';
 import type { FitJobOutcome, FitRequest } from './fit-job.ts';
 import { macrotask, runStages } from './stager.ts';

@@ -9,7 +9,7 @@ import type { AlternativeRequest } from '../core/analysis/index.ts';
 import { runFitJob, type FitJobOutcome, type FitSettings, type FitVersion } from '../core/measure/fit/job.ts';
 import type { PeakStart } from '../core/measure/fit/region.ts';
 import { runPipeline, type PipelineCache } from '../core/pipeline.ts';
-import type { Recipe, Registry } from '../core/recipe.ts';
+import type { Recipe, Registry } from '../core/method.ts';
 import type { StepContext } from '../core/steps/types.ts';
 import type { Trace } from '../core/trace.ts';
 

@@ -75,6 +75,20 @@ describe('import direction', () => {
     });
   }
 
+  it('a processing step imports no sibling step: what steps share lives in steps/checks.ts (DEVELOPERS.md, "Folders")', () => {
+    const STEPS = join(SRC, 'core', 'steps');
+    const shared = new Set(['checks.ts', 'types.ts']);
+    const breaches: string[] = [];
+    for (const file of sourceFiles(STEPS)) {
+      if (file.endsWith(`${sep}registry.ts`)) continue;
+      for (const spec of specifiers(readFileSync(file, 'utf8'))) {
+        const target = resolve(dirname(file), spec);
+        if (spec.startsWith('.') && dirname(target) === STEPS && !shared.has(relative(STEPS, target))) breaches.push(`${relative(ROOT, file)} → ${spec}`);
+      }
+    }
+    expect(breaches).toEqual([]);
+  });
+
   it('ESLint reports a breach in src/core and in src/state', async () => {
     const eslint = new ESLint({ cwd: ROOT });
     const core = await eslint.lintText("import { useStore } from '../state/store';\nexport const s = useStore;\n", {

@@ -40,7 +40,7 @@ import { PipelineCache } from '../../src/core/pipeline.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
 import { createTrace } from '../../src/core/trace.ts';
 import type { Trace } from '../../src/core/trace.ts';
-import type { Recipe, RecipeStep } from '../../src/core/recipe.ts';
+import type { Recipe, RecipeStep } from '../../src/core/method.ts';
 import type { StepDefinition, StepParams } from '../../src/core/steps/types.ts';
 
 // ---------------------------------------------------------------------------

@@ -14,7 +14,7 @@ import { cleanedTraceCsv } from '../../src/core/export/cleaned-csv.ts';
 import { peakTableCsv } from '../../src/core/export/peak-csv.ts';
 import { reportHtml } from '../../src/core/export/report-html.ts';
 import { loadFile } from '../../src/core/io/load.ts';
-import { emptyRecipe, makeRecipeStep, recipeToJson, recipeWithAnalysis } from '../../src/core/recipe.ts';
+import { emptyRecipe, makeRecipeStep, recipeToJson, recipeWithAnalysis } from '../../src/core/method.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
 import type { Trace } from '../../src/core/trace.ts';
 import { runCli } from '../../src/cli/run.ts';

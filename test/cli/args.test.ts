@@ -6,7 +6,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, test } from 'vitest';
 import { parseArgs, parseQuietRange } from '../../src/cli/args.ts';
 import { ANALYSE_HELP, MAIN_HELP } from '../../src/cli/help.ts';
-import { schemaProblems } from '../export/json-schema.ts';
+import { schemaProblems } from '../core/export/json-schema.ts';
 
 function options(argv: string[]) {
   const p = parseArgs(['analyse', ...argv]);

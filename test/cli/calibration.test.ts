@@ -13,7 +13,7 @@ import { join, resolve } from 'node:path';
 import { afterAll, describe, expect, test } from 'vitest';
 import { runCli } from '../../src/cli/run.ts';
 import { parseArgs } from '../../src/cli/args.ts';
-import { schemaProblems } from '../export/json-schema.ts';
+import { schemaProblems } from '../core/export/json-schema.ts';
 
 const DEMO = resolve('public/demo');
 const METHOD = resolve('test/fixtures/calibration/demo-method.json');

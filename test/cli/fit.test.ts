@@ -16,8 +16,8 @@ import { afterAll, describe, expect, test } from 'vitest';
 import { runCli } from '../../src/cli/run.ts';
 import { runFitJob } from '../../src/core/measure/fit/job.ts';
 import { FWHM_PER_SIGMA, GAUSS_AREA } from '../../src/core/measure/fit/shapes.ts';
-import { readCsv } from '../export/helpers.ts';
-import { schemaProblems } from '../export/json-schema.ts';
+import { readCsv } from '../core/export/helpers.ts';
+import { schemaProblems } from '../core/export/json-schema.ts';
 
 const DEMO = resolve('public/demo');
 const work = mkdtempSync(join(tmpdir(), 'tracewright-fit-cli-'));

@@ -17,7 +17,7 @@ import { readFileSync } from 'node:fs';
 import { loadFile } from '../../src/core/io/load.ts';
 import type { LoadResult } from '../../src/core/io/types.ts';
 import { MAX_Y_COLUMNS } from '../../src/core/io/types.ts';
-import { parseRecipeText } from '../../src/core/recipe.ts';
+import { parseRecipeText } from '../../src/core/method.ts';
 import { runPipeline } from '../../src/core/pipeline.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
 import * as makers from '../fixtures/hostile/make-hostile.mjs';

@@ -1,6 +1,6 @@
 #!/usr/bin/env python3
 """How high does the apex level of a narrow noisy peak read, by the rule
-alone? An independent simulation for test/measure/peak-broad.test.ts and
+alone? An independent simulation for test/core/measure/peak-broad.test.ts and
 DEVELOPERS.md ("Broad peaks in noise", issue 14).
 
 The rule as stated in src/core/measure/peak-bounds.ts (apexLevel): on a peak
@@ -14,7 +14,7 @@ noise is white (σ = 1), so what is measured is the rule's own bias: the
 noise chooses the apex sample (the largest of several nearly equal noisy
 samples) and the parabola keeps most of that sample's noise.
 
-Cases: Gaussians centred on a sample (as in test/measure/broad.ts) of
+Cases: Gaussians centred on a sample (as in test/core/measure/broad.ts) of
 σ = 3 samples at S/N 10, 20 and 100, and for comparison σ = 10 samples at
 S/N 10 read by the same three-point rule (our rule uses a least-squares
 parabola over ±FWHM/6 there, so that row is not our rule, only the size of

@@ -1,5 +1,5 @@
 #!/usr/bin/env python3
-"""Reference values for test/steps-baseline (running median, Hampel, Whittaker,
+"""Reference values for test/core/steps and test/core/numeric (running median, Hampel, Whittaker,
 AsLS, arPLS, polynomial baseline, runs test).
 
 Run from the repository root:  python3 test/reference/make_baseline.py

@@ -1,5 +1,5 @@
 #!/usr/bin/env python3
-"""Reference values for test/calibration and test/numeric/distributions.
+"""Reference values for test/calibration and test/core/numeric/distributions.
 
 Run from the repository root:  python3 test/reference/make_calibration.py
 Writes test/reference/calibration.json with the SciPy and NumPy versions used.

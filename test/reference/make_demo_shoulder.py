@@ -1,7 +1,7 @@
 #!/usr/bin/env python3
 """The demo's shoulder split from its main peak by perpendicular drop, on the
 noiseless curves: what that split gives by construction, for
-test/measure/peak-demo.test.ts (issue 14).
+test/core/measure/peak-demo.test.ts (issue 14).
 
 Reads the two peaks from public/demo/demo-truth.json (written by
 scripts/make-demo.mjs: Gaussians of given height, centre and sigma on a drift

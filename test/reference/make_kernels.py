@@ -1,5 +1,5 @@
 #!/usr/bin/env python3
-"""Reference values for the fast kernels (test/numeric/kernels-scipy.test.ts):
+"""Reference values for the fast kernels (test/core/numeric/kernels-scipy.test.ts):
 running medians over long windows and short signals (scipy.ndimage.median_filter,
 which SciPy computes with its own double-heap code), and medians of plain arrays
 (numpy.median) for the residual tests' median by selection.

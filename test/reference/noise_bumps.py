@@ -1,5 +1,5 @@
 """How many rows does pure white noise give in the peak table? An independent
-simulation of the stated rules, for test/measure/noise-bumps.test.ts.
+simulation of the stated rules, for test/core/measure/noise-bumps.test.ts.
 
 The rules are those written in src/core/measure/peak-bounds.ts (rules 1-6)
 and peak-table.ts (thresholds), re-implemented here in Python from their text

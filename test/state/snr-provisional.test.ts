@@ -7,7 +7,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { analyseStaged, sigmaProvisional, snrProvisional, STAGES, type AnalyseRequest } from '../../src/core/analysis/index.ts';
-import { emptyRecipe, makeRecipeStep } from '../../src/core/recipe.ts';
+import { emptyRecipe, makeRecipeStep } from '../../src/core/method.ts';
 import { STEP_REGISTRY, stepDefinition } from '../../src/core/steps/registry.ts';
 import { createTrace } from '../../src/core/trace.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';

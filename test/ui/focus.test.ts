@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import type { LedgerCell, LedgerRow } from '../../src/core/loss.ts';
+import type { LedgerCell, LedgerRow } from '../../src/core/measure/loss-matching.ts';
 import { againstRaw, columnVerdict, focusWindow, rowAt, sharedYRange } from '../../src/ui/focus.ts';
 
 // Issue 17: the focused view's verdict words, the feature a click means, the window and the shared y scale.
-// Hand-made ledger rows; the 80 % height rule is HEIGHT_LOSS_TOLERANCE (0.2) of core/diagnostics.ts.
+// Hand-made ledger rows; the 80 % height rule is HEIGHT_LOSS_TOLERANCE (0.2) of core/measure/residual-tests.ts.
 const cell = (found: boolean, over: Partial<LedgerCell> = {}): LedgerCell => ({
   found, peakIndex: found ? 0 : -1, x: found ? 5 : null, snr: found ? 20 : null, standing: found ? 'quantifiable' : 'lost',
   height: found ? 1 : null, area: found ? 2 : null, fwhm: found ? 0.1 : null,

@@ -8,7 +8,7 @@ import { createTrace, type Trace } from '../../src/core/trace.ts';
 import { HeldTraces } from '../../src/worker/held-traces.ts';
 import { workerBackend } from '../../src/worker/bridge.ts';
 import type { Call, FromWorker, ToWorker } from '../../src/worker/api.ts';
-import { emptyRecipe } from '../../src/core/recipe.ts';
+import { emptyRecipe } from '../../src/core/method.ts';
 
 const mk = (id: string): Trace => createTrace({ id, name: id, x: [0, 1, 2, 3, 4], y: [1, 2, 3, 2, 1], source: { fileName: `${id}.csv`, sha256: '0'.repeat(64), rowsRead: 5, rowsSkipped: 0 } });
 

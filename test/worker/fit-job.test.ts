@@ -1,10 +1,10 @@
 // Issue 18: the fit job the worker runs beside the analysis, on the demo's shoulder (invented data,
 // scripts/make-demo.mjs; truth in public/demo/demo-truth.json: main peak at 6.0 min carrying a shoulder
-// at 6.35 min of true S/N 4.4). The numeric checks of the fit itself live in test/measure/fit-*.test.ts
+// at 6.35 min of true S/N 4.4). The numeric checks of the fit itself live in test/core/measure/fit-*.test.ts
 // (noiseless recovery, seeded Monte Carlo, SciPy curve_fit); here: the wiring gives the same answers.
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { emptyRecipe, makeRecipeStep } from '../../src/core/recipe.ts';
+import { emptyRecipe, makeRecipeStep } from '../../src/core/method.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
 import { supportedPeakCount } from '../../src/core/measure/fit/count.ts';
 import { createTrace } from '../../src/core/trace.ts';

@@ -7,7 +7,7 @@
 import { describe, expect, test } from 'vitest';
 import { LatestOnly, type ComputeBackend } from '../../src/worker/bridge.ts';
 import type { AnalyseRequest, StageUpdate } from '../../src/core/analysis/index.ts';
-import { emptyRecipe } from '../../src/core/recipe.ts';
+import { emptyRecipe } from '../../src/core/method.ts';
 
 interface Pending { request: AnalyseRequest; onStage: (u: StageUpdate) => void; resolve: (done: boolean) => void; reject: (e: Error) => void }
 

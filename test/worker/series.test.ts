@@ -12,7 +12,7 @@ import { exactResult, farOf, workerBackend, type ComputeBackend } from '../../sr
 import type { AnalyseResult, StageUpdate } from '../../src/core/analysis/index.ts';
 import type { FromWorker, ToWorker } from '../../src/worker/api.ts';
 import { nearestPoint } from '../../src/ui/plot-view.ts';
-import { emptyRecipe } from '../../src/core/recipe.ts';
+import { emptyRecipe } from '../../src/core/method.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';
 
 function signal(n: number, seed = 1) {

@@ -5,7 +5,7 @@
  */
 import { describe, expect, test } from 'vitest';
 import { createTrace } from '../../src/core/trace.ts';
-import { emptyRecipe, makeRecipeStep } from '../../src/core/recipe.ts';
+import { emptyRecipe, makeRecipeStep } from '../../src/core/method.ts';
 import { stepDefinition } from '../../src/core/steps/registry.ts';
 import { inProcessBackend, LatestOnly } from '../../src/worker/bridge.ts';
 import { PAUSE_AFTER_MS, runStages } from '../../src/worker/stager.ts';

@@ -23,11 +23,11 @@
 import { pharmacopoeialBlank } from '../measure/companion-noise.ts'; // issue 20
 import { markGhostPeaks } from '../measure/ghost-peaks.ts'; // issue 20
 import type { PipelineCache } from '../pipeline.ts';
-import type { Registry } from '../recipe.ts';
+import type { Registry } from '../method.ts';
 import type { Signal, StepContext } from '../steps/types.ts';
 import type { Trace } from '../trace.ts';
 import { meanStep } from '../numeric/interpolate.ts';
-import { combineVerdict } from '../diagnostics.ts';
+import { combineVerdict } from '../measure/residual-tests.ts';
 import { markAppearsOnlyAfterProcessing, markSaturatedOnRaw } from '../measure/peak-table.ts';
 import { expectedNoiseBumpsStepwise } from '../measure/noise-bumps.ts';
 import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, MAX_ALTERNATIVES, type AnalyseRequest } from './request.ts';

@@ -3,7 +3,7 @@
  * the sample and its companions by id, the recipe, and the user's noise and
  * peak settings. Plain data, so it crosses to the worker as it is.
  */
-import type { Recipe } from '../recipe.ts';
+import type { Recipe } from '../method.ts';
 import type { PeakDecisions, SnrDefinition, SplitRule } from '../measure/peak-types.ts';
 import type { NoiseSettings } from '../measure/noise-report.ts';
 

@@ -5,9 +5,9 @@
  */
 import type { StepStatus } from '../pipeline.ts';
 import type { Signal, SpikeEvent } from '../steps/types.ts';
-import type { ResidualDiagnostics } from '../diagnostics.ts';
+import type { ResidualDiagnostics } from '../measure/residual-tests.ts';
 import type { NoiseReport } from '../measure/noise-report.ts';
-import type { Ledger, WindowAdvice } from '../loss.ts';
+import type { Ledger, WindowAdvice } from '../measure/loss-matching.ts';
 import type { Peak, PeakOptions } from '../measure/peak-types.ts';
 import type { NoiseBumpCount } from '../measure/noise-bumps.ts';
 
@@ -128,16 +128,6 @@ export interface StageUpdate {
   pending: StageName[];
   /** For 'alternative': which one of how many just landed. */
   progress?: { done: number; of: number };
-}
-
-/** Fields of the result that a pending stage may still change. */
-export function provisionalFields(pending: readonly StageName[]): (keyof AnalyseResult)[] {
-  const out: (keyof AnalyseResult)[] = [];
-  if (pending.includes('loss')) out.push('diagnostics', 'loss');
-  if (pending.includes('peaks')) out.push('peaks', 'peakOptions');
-  if (pending.includes('bumps')) out.push('noiseBumps');
-  if (pending.includes('noise')) out.push('noise');
-  return out;
 }
 
 /**

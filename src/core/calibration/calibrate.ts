@@ -13,7 +13,7 @@ import { amountLimits } from './limits.ts';
 import type { AmountLimits } from './limits.ts';
 import { nameTracePeaks } from './named-peaks.ts';
 import type { NamedPeakTable, PeakLike, PeakNaming } from './named-peaks.ts';
-import { chooseCurve, modelInWords } from './regression.ts';
+import { chooseCurve } from './regression.ts';
 import type { CurveChoice, CurveFit } from './regression.ts';
 import { settingsForPeak, validateCalibrationSettings } from './settings.ts';
 import type { CalibrationSettings, PeakCalibrationSettings } from './settings.ts';
@@ -288,7 +288,3 @@ export function quantifySamples(set: CalibrationSet, samples: readonly TracePeak
   });
 }
 
-/** A calibration's curve and weights in words, e.g. "straight line, weights 1/x; area". */
-export function calibrationInWords(cal: PeakCalibration): string {
-  return cal.fit ? `${modelInWords(cal.fit.model)}; response: ${cal.responseInWords}` : `not calibrated: ${cal.problem ?? ''}`;
-}

@@ -4,7 +4,7 @@
  * calibration lines from. Every number is finite or null (never NaN or
  * Infinity, which JSON cannot carry); every estimate carries the sentence
  * that says how it was made. The shape is documented field by field on the
- * interfaces below and in DEVELOPERS.md.
+ * interfaces below.
  */
 import { CAUTION, TOOL_LABEL } from '../export/version.ts';
 import type { CalibrationSet, SampleAmounts } from './calibrate.ts';

@@ -35,7 +35,6 @@ export type Weighting = 'none' | '1/x' | '1/x2';
 /** The name of a coefficient: intercept (x⁰), slope (x¹), quadratic (x²). */
 export type TermName = 'intercept' | 'slope' | 'quadratic';
 
-export const CURVE_KINDS: readonly CurveKind[] = ['line', 'quadratic'];
 export const WEIGHTINGS: readonly Weighting[] = ['none', '1/x', '1/x2'];
 
 /** The curve to fit. */

@@ -47,7 +47,6 @@ export const TABLE_MAX_CHARS = 1_000_000;
 /** Most data rows accepted. */
 export const TABLE_MAX_ROWS = 10_000;
 
-const DELIMITER_WORDS = { ',': 'comma', ';': 'semicolon', '\t': 'tab' } as const;
 
 function cleanCell(cell: string): string {
   return cell.trim();
@@ -105,11 +104,6 @@ export function readTextTable(text: string, fileName: string, what: string): { o
     if (commaOnly) decimal = ',';
   }
   return { ok: true, table: { header, rows, delimiter, decimal } };
-}
-
-/** The delimiter and decimal sign in words, for notices: "semicolon-separated, decimal comma". */
-export function tableDialectWords(t: TextTable): string {
-  return `${DELIMITER_WORDS[t.delimiter]}-separated, decimal ${t.decimal === ',' ? 'comma' : 'point'}`;
 }
 
 /** A cell as a number with the table's decimal sign; NaN when it is not one. */

@@ -8,7 +8,7 @@ import { strToU8, zipSync, type Zippable } from 'fflate';
 import { analyse, DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type NoiseSettings, type PeakSettings } from '../analysis/index.ts';
 import { writeCsv, type CsvCellOptions } from '../io/csv-write.ts';
 import { loadFile } from '../io/load.ts';
-import { recipeToJson, type Recipe, type Registry } from '../recipe.ts';
+import { recipeToJson, type Recipe, type Registry } from '../method.ts';
 import type { Trace } from '../trace.ts';
 import { cleanedTraceCsv, commentText, recipeOneLine } from './cleaned-csv.ts';
 import { peakMethodLines, peakTableRows } from './peak-csv.ts';

@@ -6,8 +6,8 @@
  */
 import type { AnalyseResult } from '../analysis/index.ts';
 import { writeCsv, type CsvCellOptions } from '../io/csv-write.ts';
-import { interpolateLinear } from '../numeric/interpolate.ts';
-import { recipeInWords, recipeToJson, type Recipe, type Registry } from '../recipe.ts';
+import { interpolateLinear, sameGrid } from '../numeric/interpolate.ts';
+import { recipeInWords, recipeToJson, type Recipe, type Registry } from '../method.ts';
 import { axisLabel, type Trace } from '../trace.ts';
 import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
 
@@ -23,13 +23,6 @@ export interface CleanedCsvInput {
   now: Date;
   /** Tool name and version; default {@link TOOL_LABEL}. */
   version?: string;
-}
-
-/** True when both grids hold the same x values in the same order. */
-function sameGrid(a: Float64Array, b: Float64Array): boolean {
-  if (a.length !== b.length) return false;
-  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
-  return true;
 }
 
 /** The recipe as one line of JSON (a comment line cannot hold line breaks). */

@@ -8,12 +8,13 @@ import { ghostCell, ghostColumnHeader } from '../measure/ghost-peaks.ts'; // iss
 import { excludedRangesSentence } from '../measure/excluded-ranges.ts';
 import type { AnalyseResult } from '../analysis/index.ts';
 import { writeCsv, type CsvCellOptions } from '../io/csv-write.ts';
-import type { NoiseEstimate } from '../noise.ts';
-import type { BoundKind, Peak, PeakFlag, PeakMark, SnrDefinition, SplitRule } from '../measure/peak-types.ts';
+import type { NoiseEstimate } from '../measure/noise-estimators.ts';
+import type { BoundKind, Peak, PeakMark, SplitRule } from '../measure/peak-types.ts';
+import { FLAG_TEXT, SNR_DEFINITION_WORDS, SNR_SHORT } from '../measure/snr-words.ts';
 import { SIGMA_FLOOR_OF_SPAN } from '../measure/peak-types.ts';
 import { WIDTH_LIMIT } from '../measure/peak-bounds.ts';
 import { noiseBumpSentence } from '../measure/noise-bumps.ts';
-import type { Recipe, Registry } from '../recipe.ts';
+import type { Recipe, Registry } from '../method.ts';
 import type { Trace } from '../trace.ts';
 import { noiseSummaryLines } from '../measure/noise-report.ts';
 import { commentText, metadataLines, provenanceLines } from './cleaned-csv.ts';
@@ -21,24 +22,6 @@ import { CAUTION, exportTime, TOOL_LABEL, TOOL_NAME } from './version.ts';
 import { namedPeakLines, peakNamingOf, withNameColumn } from './peak-names.ts';
 import type { ExtraPeakColumns } from './fit-export.ts';
 import { reasonFor, type HandReason } from './report-fields.ts';
-
-/** The words for each S/N definition, as exports state them. */
-export const SNR_DEFINITION_WORDS: Record<SnrDefinition, string> = {
-  rms: 'S/N = H/σ: the peak height above its local baseline divided by the standard deviation σ of the noise.',
-  pharmacopoeial: 'S/N = 2H/h: twice the peak height divided by the range h (largest minus smallest value) of the noise in a window around the peak (the pharmacopoeial definition).',
-  region: 'S/N = mean/SD of the samples between the peak’s start and end.',
-};
-
-/** Short column label for each S/N definition. */
-export const SNR_SHORT: Record<SnrDefinition, string> = { rms: 'H/σ', pharmacopoeial: '2H/h', region: 'mean/SD' };
-
-/** What each flag means, as exports state it. */
-export const FLAG_TEXT: Record<PeakFlag, string> = {
-  'below-detection': 'below detection limit',
-  detectable: 'detected, not quantifiable',
-  quantifiable: 'quantifiable',
-  'not-measured': 'S/N not measured',
-};
 
 /** What each mark means, in a few words (the table, the plot and the exports). */
 export const MARK_TEXT: Record<PeakMark, string> = {

@@ -6,7 +6,7 @@
  */
 import { nameTracePeaks, type PeakNaming } from '../calibration/named-peaks.ts';
 import type { Peak } from '../measure/peak-types.ts';
-import { analysisOf, type Recipe } from '../recipe.ts';
+import { analysisOf, type Recipe } from '../method.ts';
 
 /** The naming of these peaks by the method's named-peak table, or null when the method has none (or it is empty). */
 export function peakNamingOf(method: Recipe | undefined, peaks: readonly Peak[]): PeakNaming | null {

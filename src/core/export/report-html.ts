@@ -16,7 +16,7 @@
  * through <img>, where an SVG cannot run scripts or fetch anything.
  */
 import type { AnalyseResult } from '../analysis/index.ts';
-import { recipeInWords, recipeToJson, type Recipe, type Registry } from '../recipe.ts';
+import { recipeInWords, recipeToJson, type Recipe, type Registry } from '../method.ts';
 import { axisLabel, type Trace } from '../trace.ts';
 import { escapeText } from './html-text.ts';
 import { fitReportSection, type ExtraPeakColumns, type FitForExport } from './fit-export.ts';
@@ -28,7 +28,8 @@ import { namedPeakLines, peakNamingOf, withNameColumn } from './peak-names.ts';
 import { calibrationReportSection } from './report-calibration.ts';
 import type { CalibrationExport } from '../calibration/export.ts';
 import { ledgerFitLines } from '../measure/fit/ledger-fit.ts';
-import { areaPercents, FLAG_TEXT, noiseSentence, peakDecisionText, peakMethodLines, peakTableRows, SNR_SHORT } from './peak-csv.ts';
+import { areaPercents, noiseSentence, peakDecisionText, peakMethodLines, peakTableRows } from './peak-csv.ts';
+import { FLAG_TEXT, SNR_SHORT } from '../measure/snr-words.ts';
 import { reasonFor, reportFieldPairs, type HandReason, type ReportFields } from './report-fields.ts';
 import { lossSummaryLines } from './loss-summary.ts';
 

@@ -14,7 +14,7 @@ import type { CalibrationExport } from '../calibration/export.ts';
 import { fitSummary, type FitForExport } from './fit-export.ts';
 import type { AnalyseResult } from '../analysis/index.ts';
 import type { PeakFlag, SnrDefinition } from '../measure/peak-types.ts';
-import { analysisOf, recipeToJson, type Recipe, type Registry } from '../recipe.ts';
+import { analysisOf, recipeToJson, type Recipe, type Registry } from '../method.ts';
 import type { Trace } from '../trace.ts';
 import { TOOL_VERSION } from './version.ts';
 import { peakNamingOf } from './peak-names.ts';

@@ -1,6 +1,6 @@
 /**
  * The tool's name, version and the caution every export carries. The
- * version is kept equal to package.json's by a test (test/export/version.test.ts),
+ * version is kept equal to package.json's by a test (test/core/export/version.test.ts),
  * so the pure layer needs no JSON import or build-time define.
  */
 

@@ -382,7 +382,9 @@ function scoreDialect(sample: readonly SampleLine[], d: Dialect, grouping = true
 /**
  * Decide delimiter and decimal sign from sample lines by consistent field
  * counts of numeric fields (see the module comment). Returns null when no
- * line holds a number under any candidate.
+ * line holds a number under any candidate. Part of the reader's API on
+ * purpose: the dialect choice on its own, for callers holding lines rather
+ * than a file (the reader itself goes through the same bestDialect).
  */
 export function decideDialect(lines: readonly string[]): Dialect | null {
   const sample = lines.map((text, i) => ({ line: i + 1, text, start: 0 }));

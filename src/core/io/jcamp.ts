@@ -94,7 +94,7 @@ class JcampProblem extends Error {
 
 const DATA_KEYS = new Set(['XYDATA', 'XYPOINTS', 'PEAKTABLE', 'NTUPLES', 'DATATABLE']);
 
-// Ordinate-character tables of the compression forms (McDonald & Wilks 1988, table in REFERENCES.md).
+// Ordinate-character tables of the compression forms (McDonald & Wilks 1988, Appl. Spectrosc. 42:151).
 const SQZ = '@ABCDEFGHI';
 const SQZ_NEG = 'abcdefghi';
 const DIF = '%JKLMNOPQR';
@@ -329,12 +329,8 @@ function decodeXyData(rec: Record_, cap: PointCap): Decoded {
   const forms = new Set<Form>();
   const lineStarts: Decoded['lineStarts'] = [];
   let prevEndedDif = false;
-  let dataLines = 0;
-  let lastLine = rec.line;
-  for (const { text, line } of rec.more) {
-    if (text.trim() === '') continue;
-    dataLines++;
-    lastLine = line;
+  const lines = dataLinesOf(rec);
+  for (const { text, line } of lines) {
     const tokens = tokenise(text, line);
     const first = tokens[0];
     if (first.kind !== 'abs') {
@@ -413,18 +409,20 @@ function decodeXyData(rec: Record_, cap: PointCap): Decoded {
     for (const y of lineYs) ys.push(y);
     prevEndedDif = prevKind === 'dif';
   }
-  return { ys, forms, lineStarts, dataLines, lastLine };
+  return { ys, forms, lineStarts, dataLines: lines.length, lastLine: lines.at(-1)?.line ?? rec.line };
+}
+
+/** The lines of a record's data that are not blank, in order. */
+function dataLinesOf(rec: Record_): Record_['more'] {
+  return rec.more.filter((l) => l.text.trim() !== '');
 }
 
 /** Decode `(XY..XY)` lines: x, y pairs separated by commas, semicolons or spaces. */
 function decodeXyPoints(rec: Record_): { xs: number[]; ys: number[]; dataLines: number; lastLine: number } {
   const values: number[] = [];
-  let dataLines = 0;
-  let lastLine = rec.line;
-  for (const { text, line } of rec.more) {
-    if (text.trim() === '') continue;
-    dataLines++;
-    lastLine = line;
+  const lines = dataLinesOf(rec);
+  const lastLine = lines.at(-1)?.line ?? rec.line;
+  for (const { text, line } of lines) {
     for (const tok of tokenise(text, line)) {
       if (tok.kind !== 'abs') {
         throw new JcampProblem(
@@ -449,7 +447,7 @@ function decodeXyPoints(rec: Record_): { xs: number[]; ys: number[]; dataLines: 
     xs.push(values[i]);
     ys.push(values[i + 1]);
   }
-  return { xs, ys, dataLines, lastLine };
+  return { xs, ys, dataLines: lines.length, lastLine };
 }
 
 const X_UNITS: Record<string, [string, string]> = {

@@ -113,7 +113,7 @@ export type Sha256Method = 'native' | 'pure';
  * digest (Web Crypto `crypto.subtle.digest`, present in browsers' secure
  * contexts, their workers and Node ≥ 19) where it exists and accepts the
  * bytes; otherwise by {@link sha256Hex}. Both give the same hex (FIPS 180-4;
- * checked in test/io/sha256.test.ts); `method` says which one ran.
+ * checked in test/core/io/sha256.test.ts); `method` says which one ran.
  * The input is only read. Never rejects.
  */
 export async function sha256HexNative(bytes: Uint8Array): Promise<{ hex: string; method: Sha256Method }> {

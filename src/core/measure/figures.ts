@@ -7,7 +7,7 @@
  *
  * Formulas as the pharmacopoeias write them (USP <621> Chromatography;
  * Ph. Eur. 2.2.46 Chromatographic separation techniques; recalled from
- * memory, see /work/shared/REFERENCES.md). The asymmetry factor at 10 % is
+ * memory). The asymmetry factor at 10 % is
  * common practice with no single standard.
  *
  * How a width is measured: the apex is the highest point of y − baseline

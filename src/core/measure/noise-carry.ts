@@ -30,14 +30,14 @@
  *   pair form against 1.24 × one-sided; a Hampel test (7 points, t = 3)
  *   1.02 × against 1.15 ×. Steps whose decisions depend on the noise level
  *   still see √2 × the real noise. Checked in
- *   test/measure/noise-carry.test.ts. The spread is pooled in stretches along the
+ *   test/core/measure/noise-carry.test.ts. The spread is pooled in stretches along the
  *   processed grid to give a profile; a constant shift of the whole trace
  *   (an asymmetric baseline settles lower on noisier data) is taken out of
  *   each series first, as a change of level, not noise. Cached per stack and
  *   noise model.
  */
 import { PipelineCache, runPipeline, type PipelineResult } from '../pipeline.ts';
-import type { Recipe, Registry } from '../recipe.ts';
+import type { Recipe, Registry } from '../method.ts';
 import type { Signal, StepContext } from '../steps/types.ts';
 import type { Trace } from '../trace.ts';
 import { dft, nextPowerOfTwo } from '../numeric/fft.ts';

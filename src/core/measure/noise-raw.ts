@@ -5,7 +5,7 @@
  * Method (chosen by test over seeded families of 10⁴–10⁶ points — flat,
  * drifting baseline, broad bands over the whole range, narrow peaks one every
  * 40 points, AR(1) noise — and the real spectra in test/fixtures/real; see
- * test/measure/noise-raw.test.ts and DEVELOPERS.md):
+ * test/core/measure/noise-raw.test.ts):
  *
  * 1. Features are masked: points where the second difference of the trace at
  *    scale s (means of s points, s apart; s = 1, 2, 4, 8, 16) stands more
@@ -37,8 +37,8 @@
  * 4. σ = finest-scale σ / √r, r = (6 − 8ρ₁ + 2ρ₂)/6 the share of the noise
  *    variance the second difference sees.
  *
- * Known bias (measured, 200 seeded realisations per family; figures in
- * DEVELOPERS.md): white-noise families within 2 % on average; AR(1) φ = 0.5
+ * Known bias (measured, 200 seeded realisations per family, in
+ * test/core/measure/noise-raw.test.ts): white-noise families within 2 % on average; AR(1) φ = 0.5
  * about −1 % after the correction (−35 % without it); a random-walk
  * baseline with steps of 0.1 σ adds +2 % (it is correlated noise at the
  * scale of the pieces, and indistinguishable from it there).
@@ -52,8 +52,8 @@
  * the lowest and highest thirds of the signal level). When the noise does
  * grow with the signal, σ is given as a profile along the trace, in blocks.
  */
-import type { NoiseCheck } from '../noise.ts';
-import { MAD_TO_SIGMA, medianInPlace } from '../numeric/median.ts';
+import type { NoiseCheck } from './noise-estimators.ts';
+import { MAD_TO_SIGMA, medianInPlace, medianMadInPlace } from '../numeric/median.ts';
 
 export type { NoiseCheck };
 import { constantProfile, profileMedian, sigmaAt, type SigmaProfile } from './noise-profile.ts';
@@ -107,18 +107,6 @@ const CORRELATION_POINT_CAP = 1 << 18;
 const fmt = (v: number, d = 3): string => fmtNoiseNumber(v, d);
 
 // ---------------------------------------------------------------------------------------------
-// Robust scale helpers
-
-/** Median and MAD (about the median) of values[0..count), reordering the scratch array. */
-function medianMad(values: Float64Array, count: number): { median: number; mad: number } {
-  if (count === 0) return { median: NaN, mad: NaN };
-  const a = values.subarray(0, count);
-  const med = medianInPlace(a);
-  for (let i = 0; i < count; i++) a[i] = Math.abs(a[i] - med);
-  return { median: med, mad: medianInPlace(a) };
-}
-
-// ---------------------------------------------------------------------------------------------
 // 1. Feature mask
 
 /** Second-difference stencils at scale s: trailing means of s points, then m[i−s] − 2m[i] + m[i+s]. */
@@ -164,7 +152,7 @@ export function curvatureMask(y: Float64Array): Uint8Array {
         let k = 0;
         for (let i = b0; i <= b1; i += step) if (!mask[i]) scratch[k++] = z[i];
         if (k < 32) continue;
-        const r = medianMad(scratch, k);
+        const r = medianMadInPlace(scratch, k);
         meds[b] = r.median; mads[b] = r.mad; ok[b] = 1;
       }
       let g = 0;
@@ -249,7 +237,7 @@ function finestScale(y: Float64Array, mask: Uint8Array | null, c: Float64Array, 
   let ss = 0;
   for (let i = 0; i < k; i++) ss += scratch[i] * scratch[i];
   const norm = Math.sqrt(c.reduce((a, v) => a + v * v, 0));
-  const { mad } = medianMad(scratch, k);
+  const { mad } = medianMadInPlace(scratch, k);
   if (k > 0 && mad === 0) return { sigma: Math.sqrt(ss / k) / norm, points: k, zeroMad: true };
   return { sigma: (MAD_TO_SIGMA * mad) / norm, points: k, zeroMad: false };
 }

@@ -6,9 +6,9 @@
  * failed check.
  */
 import type { PipelineResult } from '../pipeline.ts';
-import type { Recipe, Registry } from '../recipe.ts';
+import type { Recipe, Registry } from '../method.ts';
 import type { Signal, StepContext } from '../steps/types.ts';
-import { noisePeakToPeak, noiseRms, type NoiseEstimate } from '../noise.ts';
+import { noisePeakToPeak, noiseRms, type NoiseEstimate } from './noise-estimators.ts';
 import { correlationModel, differenceShare, MAX_CORRELATION_FACTOR, FEWEST_CORRELATION_POINTS, rawNoiseModel, type NoiseCheck, type RawNoiseModel } from './noise-raw.ts';
 import { carryNoise, type CarriedNoise, type NoiseSources, type SourceNoise } from './noise-carry.ts';
 import { constantProfile, profileRange, type SigmaProfile } from './noise-profile.ts';

@@ -259,7 +259,7 @@ export interface ProminentMaxima {
  * columns, widths measured as {@link widthsInto} does. The same operations
  * on the same numbers as those three functions and the threshold, so the
  * same indices and bit-identical values (property test in
- * `test/speed-peaks/`). No array of every sample's size is made: the
+ * `test/core/measure/peak-detection-merged.test.ts`). No array of every sample's size is made: the
  * per-maximum arrays are only written as far as there are maxima. The
  * columns returned are the caller's own.
  */

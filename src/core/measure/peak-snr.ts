@@ -5,7 +5,7 @@
  * 2H/h (USP <621>, Ph. Eur. 2.2.46), the region form mean/SD, and the flag
  * against the detection and quantitation limits (ICH Q2(R1)).
  */
-import { indexRange, noiseRangeAround } from '../noise.ts';
+import { indexRange, noiseRangeAround } from './noise-estimators.ts';
 import { SIGMA_FLOOR_OF_SPAN, type PeakFlag, type PeakOptions, type PharmacopoeialNoise } from './peak-types.ts';
 import { sigmaAt as sigmaOfProfile } from './noise-profile.ts';
 

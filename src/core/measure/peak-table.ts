@@ -6,7 +6,7 @@
  * trace's largest value, a feature only processing made).
  */
 import { applyHandBounds } from './hand-bounds.ts';
-import { indexRange } from '../noise.ts';
+import { indexRange } from './noise-estimators.ts';
 import { lowerBound } from '../numeric/decimate.ts';
 import {
   keepByGap, peakWidths, prominentMaxima, prominenceWalk, checkPeaks, type ProminenceData,

@@ -145,7 +145,7 @@ export interface AlignmentEstimate {
  * below 10⁻⁴ point. A parabola through three points of a rounded peak is
  * biased toward the nearer whole point; taking it again where the peak sits
  * within a small fraction of a point of 0 leaves that bias negligible
- * (noiseless Gaussians of σ = 3 points: within 0.004 point, test/numeric/align.test.ts).
+ * (noiseless Gaussians of σ = 3 points: within 0.004 point, test/core/numeric/align.test.ts).
  * @param maxShift largest whole-point shift tried, points (≥ 1)
  */
 export function estimateShift(ref: Float64Array, y: Float64Array, maxShift: number, kind: ShiftInterpolation = 'sinc'): AlignmentEstimate {

@@ -13,7 +13,7 @@
  * (Abramowitz & Stegun 1964, 26.5.27 and 26.6.2; 26.7.1 for t).
  *
  * Checked against SciPy 1.17.1 (scipy.special.betainc, scipy.stats.t,
- * scipy.stats.f) in test/numeric/distributions.test.ts.
+ * scipy.stats.f) in test/core/numeric/distributions.test.ts.
  */
 
 const LANCZOS_G = 7;

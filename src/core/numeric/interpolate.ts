@@ -1,3 +1,5 @@
+import { xUnits, type XUnits } from '../units.ts';
+
 /**
  * Linear interpolation of (xs, ys) at the points xq. xs must be strictly
  * ascending. Points of xq outside [xs[0], xs[n-1]] get NaN: callers decide
@@ -32,6 +34,16 @@ export function isEvenlySpaced(x: Float64Array, relTol = 1e-3): boolean {
 }
 
 /** Mean spacing of x (x-units per point). */
-export function meanStep(x: Float64Array): number {
-  return (x[x.length - 1] - x[0]) / (x.length - 1);
+export function meanStep(x: Float64Array): XUnits {
+  return xUnits((x[x.length - 1] - x[0]) / (x.length - 1));
+}
+
+/**
+ * The one grid check: true when both arrays have the same length and every
+ * value is exactly equal (two traces on the same x; also used for y).
+ */
+export function sameGrid(a: ArrayLike<number>, b: ArrayLike<number>): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
 }

@@ -67,3 +67,27 @@ export function medianInPlace(a: Float64Array): number {
 export function medianOf(values: ArrayLike<number>): number {
   return medianInPlace(Float64Array.from(values));
 }
+
+/**
+ * Median and median absolute deviation (about the median) of values[0, count),
+ * reordering that part of the scratch array; NaN for none.
+ */
+export function medianMadInPlace(values: Float64Array, count = values.length): { median: number; mad: number } {
+  if (count === 0) return { median: NaN, mad: NaN };
+  const a = values.subarray(0, count);
+  const med = medianInPlace(a);
+  for (let i = 0; i < count; i++) a[i] = Math.abs(a[i] - med);
+  return { median: med, mad: medianInPlace(a) };
+}
+
+/**
+ * The project's one robust noise estimate from differences: σ of white noise
+ * from the differences d = Σ c_k y[i+k] of a trace, as
+ * {@link MAD_TO_SIGMA} × MAD(d) / √Σc² (the MAD scale of Rousseeuw and Croux
+ * 1993; dividing by √Σc² undoes the growth of the noise's variance by the
+ * stencil). The scratch array holds the differences and is reordered.
+ * @param stencilNorm √Σc² of the stencil (√2 for first differences)
+ */
+export function robustSigmaOfDifferences(d: Float64Array, stencilNorm: number, count = d.length): number {
+  return (MAD_TO_SIGMA * medianMadInPlace(d, count).mad) / stencilNorm;
+}

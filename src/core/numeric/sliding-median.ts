@@ -352,8 +352,8 @@ function runHeaps(src: Float64Array, w: number, out: Float64Array, outStart: num
  *
  * Matches SciPy `ndimage.median_filter(y, size=window, mode=edge, cval=0)` for
  * the modes 'reflect', 'mirror', 'nearest' and 'constant' (checked in
- * test/steps-baseline and test/numeric against SciPy 1.17.1, and against
- * sorting every window in test/bench/props.test.ts). The extra mode 'shrink'
+ * test/core/steps and test/core/numeric against SciPy 1.17.1, and against
+ * sorting every window in test/core/properties.test.ts). The extra mode 'shrink'
  * cuts the window at the ends instead of padding (see {@link MedianEdge}).
  * Method: windows up to 127 points keep the window sorted (Tukey's running
  * median smoother, Tukey 1977, Exploratory Data Analysis) and find both places
@@ -437,9 +437,6 @@ function shrinkMedian(y: Float64Array, w: number, out: Float64Array): void {
     out[i] = medianOfSorted(tail, len);
   }
 }
-
-/** The MAD-to-σ scale ({@link MAD_TO_SIGMA}, defined in median.ts), under the name ensemble-average.ts imports. */
-export const MAD_TO_SD = MAD_TO_SIGMA;
 
 /** Result of {@link hampel}. */
 export interface HampelResult {

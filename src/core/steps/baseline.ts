@@ -4,7 +4,7 @@
  */
 import type { StepDefinition, StepOutput } from './types.ts';
 import { whittaker } from '../numeric/banded.ts';
-import { formatNumber } from './blank-subtraction.ts';
+import { formatNumber } from './checks.ts';
 
 export { whittaker } from '../numeric/banded.ts';
 
@@ -76,7 +76,7 @@ export function baselineAsls(y: Float64Array, lambda: number, p: number, maxIter
 
 /**
  * arPLS weight for a residual d = y − z (Baek, Park, Ahn & Choo 2015, Analyst
- * 140:250; rule as in REFERENCES.md, from memory): 1 / (1 + exp(2(d − (2s − m))/s)),
+ * 140:250; the update rule from memory): 1 / (1 + exp(2(d − (2s − m))/s)),
  * m and s the mean and SD of the negative residuals.
  */
 export function arplsWeight(d: number, m: number, s: number): number {

@@ -3,48 +3,12 @@
  * analyte) away from the sample, point by point.
  */
 import type { Signal, StepDefinition } from './types.ts';
-import { interpolateLinear } from '../numeric/interpolate.ts';
+import { interpolateLinear, sameGrid } from '../numeric/interpolate.ts';
+import { formatNumber, gridCoverageProblem } from './checks.ts';
 
 export interface BlankSubtractionParams extends Record<string, number> {
   /** Factor the blank is multiplied by before subtraction (ratio). */
   scale: number;
-}
-
-/** A number as a short string for messages (6 significant digits). */
-export function formatNumber(v: number): string {
-  return Number.isFinite(v) ? String(Number(v.toPrecision(6))) : String(v);
-}
-
-/** True when both grids have the same length and every x is exactly equal. */
-export function sameGrid(a: Float64Array, b: Float64Array): boolean {
-  if (a.length !== b.length) return false;
-  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
-  return true;
-}
-
-/**
- * Explain why a second trace (blank, scan) cannot be put on the target's x
- * grid without extrapolating, or return null when it covers the whole grid.
- * @param target the x grid that must be covered (ascending)
- * @param other the x grid of the trace to be interpolated (ascending)
- * @param what how to name the other trace in the message, e.g. "the blank"
- */
-export function gridCoverageProblem(target: Float64Array, other: Float64Array, what: string): string | null {
-  const s0 = target[0], s1 = target[target.length - 1];
-  const b0 = other[0], b1 = other[other.length - 1];
-  const ranges = `the sample runs from x = ${formatNumber(s0)} to ${formatNumber(s1)}, ${what} from ${formatNumber(b0)} to ${formatNumber(b1)}`;
-  if (b1 < s0 || b0 > s1) return `The sample and ${what} do not overlap: ${ranges}. Load ${what} measured over the same range.`;
-  const parts: string[] = [];
-  if (b0 > s0) parts.push(`x = ${formatNumber(s0)} to ${formatNumber(b0)}`);
-  if (b1 < s1) parts.push(`x = ${formatNumber(b1)} to ${formatNumber(s1)}`);
-  if (parts.length > 0) {
-    return `${capitalise(what)} does not cover the sample from ${parts.join(' and from ')} (${ranges}); values there would have to be invented by extrapolation, so the step refuses. Keep the common range with the "Keep an x-range (trim)" step before this one, or load ${what} that covers it.`;
-  }
-  return null;
-}
-
-function capitalise(s: string): string {
-  return s.charAt(0).toUpperCase() + s.slice(1);
 }
 
 /**

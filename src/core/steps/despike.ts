@@ -4,7 +4,7 @@
  */
 import type { SpikeEvent, StepDefinition, StepOutput } from './types.ts';
 import { hampel, slidingMedian } from '../numeric/sliding-median.ts';
-import { formatNumber } from './blank-subtraction.ts';
+import { formatNumber } from './checks.ts';
 
 export { hampel, slidingMedian } from '../numeric/sliding-median.ts';
 

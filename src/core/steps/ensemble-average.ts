@@ -2,10 +2,10 @@
  * Ensemble averaging: the mean of repeated scans of the same sample, point by point.
  */
 import type { StepDefinition, StepOutput } from './types.ts';
-import { interpolateLinear, isEvenlySpaced, meanStep } from '../numeric/interpolate.ts';
+import { interpolateLinear, isEvenlySpaced, meanStep, sameGrid } from '../numeric/interpolate.ts';
 import { estimateShift, correlationAtLag, shiftSeries, type ShiftInterpolation } from '../numeric/align.ts';
-import { formatNumber, gridCoverageProblem, sameGrid } from './blank-subtraction.ts';
-import { MAD_TO_SD } from '../numeric/sliding-median.ts';
+import { formatNumber, gridCoverageProblem } from './checks.ts';
+import { robustSigmaOfDifferences } from '../numeric/median.ts';
 
 export interface EnsembleAverageParams extends Record<string, number | string | boolean> {
   /** Align each scan to the signal before averaging. */
@@ -16,12 +16,6 @@ export interface EnsembleAverageParams extends Record<string, number | string | 
   interpolation: ShiftInterpolation;
   /** A scan correlating less than this with the signal (after alignment) is named (ratio, Pearson r). */
   minCorrelation: number;
-}
-
-function median(values: Float64Array): number {
-  const s = Float64Array.from(values).sort();
-  const h = s.length >> 1;
-  return s.length & 1 ? s[h] : 0.5 * (s[h - 1] + s[h]);
 }
 
 /**
@@ -35,15 +29,7 @@ export function noiseFromDifferences(y: Float64Array): number {
   if (y.length < 3) throw new RangeError(`A noise estimate needs at least 3 points; there are ${y.length}.`);
   const d = new Float64Array(y.length - 1);
   for (let i = 0; i < d.length; i++) d[i] = y[i + 1] - y[i];
-  const m = median(d);
-  for (let i = 0; i < d.length; i++) d[i] = Math.abs(d[i] - m);
-  return (MAD_TO_SD * median(d)) / Math.SQRT2;
-}
-
-function sameValues(a: Float64Array, b: Float64Array): boolean {
-  if (a.length !== b.length) return false;
-  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
-  return true;
+  return robustSigmaOfDifferences(d, Math.SQRT2);
 }
 
 /** A shift in words: points and x-units. */
@@ -116,7 +102,7 @@ export const ensembleAverageStep: StepDefinition<EnsembleAverageParams> = {
     scans.forEach((scan, k) => {
       const equalGrid = sameGrid(input.x, scan.x);
       // A scan that is the signal itself (the sample also marked as a scan) would be counted twice.
-      if (equalGrid && sameValues(input.y, scan.y)) {
+      if (equalGrid && sameGrid(input.y, scan.y)) {
         notes.push(`The scan "${scan.name}" is identical to the signal; it was counted once.`);
         return;
       }

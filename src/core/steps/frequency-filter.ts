@@ -19,7 +19,6 @@
  */
 import { dft, nextPowerOfTwo, powerSpectrum } from '../numeric/fft.ts';
 import { meanStep } from '../numeric/interpolate.ts';
-import { unevenSpacingProblem } from './checks.ts';
 import type { Signal, StepDefinition, StepOutput } from './types.ts';
 
 export { powerSpectrum };
@@ -184,8 +183,6 @@ export const frequencyFilterStep: StepDefinition<FrequencyFilterParams> = {
   defaults: { kind: 'low-pass', cutoff: 0.2, cutoffUnit: 'nyquist-fraction', centre: 50, width: 2, harmonics: 1, transition: 0.3, notchTaper: 1 },
   needsEvenSpacing: true,
   validate(params, input) {
-    const spacing = unevenSpacingProblem(input.x, 'The frequency filter');
-    if (spacing) return spacing;
     const ny = nyquist(input.x);
     if (params.kind === 'low-pass') {
       if (bad(params.transition) || params.transition < 0.01 || params.transition > 1) {

@@ -4,7 +4,7 @@
  */
 import { meanStep } from '../numeric/interpolate.ts';
 import { fCdf } from '../numeric/distributions.ts';
-import { checkOddWindow, unevenSpacingProblem } from './checks.ts';
+import { checkOddWindow } from './checks.ts';
 import type { Signal, StepDefinition, StepOutput } from './types.ts';
 
 /** Largest window the step accepts, in points. */
@@ -149,7 +149,7 @@ export const localOrderStep: StepDefinition<LocalOrderParams> = {
     const a = params.alpha;
     if (typeof a !== 'number' || Number.isNaN(a)) return 'The test level is not a number; enter a value such as 0.05.';
     if (!(a >= 0.0001 && a <= 0.5)) return `The test level must lie between 0.0001 and 0.5 (got ${a}).`;
-    return unevenSpacingProblem(input.x, 'The line-or-quadratic local fit');
+    return null;
   },
   apply(input: Signal, params): StepOutput {
     const r = localOrderSmooth(input.y, params.window, params.alpha);

@@ -14,7 +14,7 @@
 import { savgolCoefficients, savitzkyGolay } from '../numeric/savgol.ts';
 import type { SavgolMode } from '../numeric/savgol.ts';
 import { meanStep } from '../numeric/interpolate.ts';
-import { checkOddWindow, unevenSpacingProblem } from './checks.ts';
+import { checkOddWindow } from './checks.ts';
 import type { Signal, StepDefinition, StepOutput } from './types.ts';
 
 export { savgolCoefficients, savitzkyGolay };
@@ -30,7 +30,8 @@ const MODES: readonly SavgolMode[] = ['interp', 'mirror', 'nearest', 'constant',
 /**
  * White-noise gain of a linear filter: √Σc², the factor by which the SD of
  * uncorrelated noise is multiplied (e.g. 0.6969 for the 5-point quadratic;
- * Savitzky & Golay 1964 weights, values in REFERENCES.md).
+ * weights of Savitzky & Golay 1964, Anal. Chem. 36:1627, as corrected by
+ * Steinier, Termonia & Deltour 1972, Anal. Chem. 44:1906).
  */
 export function noiseGain(c: Float64Array): number {
   let s = 0;
@@ -96,7 +97,7 @@ export const savitzkyGolayStep: StepDefinition<SavitzkyGolayParams> = {
     if (typeof d !== 'number' || !Number.isInteger(d) || d < 0 || d > 2) return `The derivative must be 0, 1 or 2 (got ${d}).`;
     if (d > o) return `A polynomial of order ${o} has no derivative of order ${d}; raise the order to at least ${d}.`;
     if (!MODES.includes(params.edge)) return `Unknown end handling "${String(params.edge)}"; choose one of ${MODES.join(', ')}.`;
-    return unevenSpacingProblem(input.x, 'Savitzky–Golay');
+    return null;
   },
   apply(input: Signal, params): StepOutput {
     const dx = meanStep(input.x);

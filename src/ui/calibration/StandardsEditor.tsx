@@ -8,7 +8,7 @@ import { readStandardsCsv } from '../../core/calibration/standards.ts';
 import { tableProblemText } from '../../core/calibration/table-text.ts';
 import { standardKeyOf } from '../../core/calibration/trace-keys.ts';
 import { useApp } from '../../state/store.ts';
-import { loadBytes } from '../controller.ts';
+import { loadBytes } from '../../state/service.ts';
 import { emptyStandards, withAmount, withUnit } from './standards-edit.ts';
 
 export function StandardsEditor() {

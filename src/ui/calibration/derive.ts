@@ -10,10 +10,11 @@ import { nameTracePeaks, validateNamedPeakTable, type PeakNaming } from '../../c
 import { standardKeyOf } from '../../core/calibration/trace-keys.ts';
 import type { Peak } from '../../core/measure/peak-types.ts';
 import { useApp } from '../../state/store.ts';
+import { currentResult } from '../../state/selectors.ts';
 
 /** The sample's result, when it is for the current sample. */
 export function useSampleResult() {
-  return useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
+  return useApp((s) => currentResult(s));
 }
 
 /** The sample's peaks only: a stage that leaves them alone (the processed trace, noise, loss) changes nothing here (issue 16). */

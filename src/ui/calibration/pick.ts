@@ -5,10 +5,11 @@
  */
 import { namedPeakFromPeak } from '../../core/calibration/named-peaks.ts';
 import { useApp } from '../../state/store.ts';
+import { currentResult } from '../../state/selectors.ts';
 
 export function pickNamedPeakAt(x: number): void {
   const s = useApp.getState();
-  const result = s.result && s.result.sampleId === s.sampleId ? s.result : null;
+  const result = currentResult(s);
   const sample = s.traces.find((t) => t.id === s.sampleId);
   const live = result?.peaks.filter((p) => !p.removedByUser && p.height > 0) ?? [];
   if (!live.length) { s.notify('warning', 'No peak to name here', ['The sample has no measured peak; adjust the peak settings first.']); return; }

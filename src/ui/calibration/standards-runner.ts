@@ -9,7 +9,7 @@ import type { AnalyseRequest } from '../../core/analysis/index.ts';
 import type { AppState } from '../../state/store.ts';
 import { useApp } from '../../state/store.ts';
 import type { StandardPeaks } from '../../state/calibration-slice.ts';
-import { analyseTrace } from '../controller.ts';
+import { analyseTrace } from '../../state/service.ts';
 
 let run = 0;
 let timer: ReturnType<typeof setTimeout> | null = null;

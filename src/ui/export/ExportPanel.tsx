@@ -11,16 +11,17 @@ import { REPORT_FIELD_LABELS, type HandChangeKind } from '../../core/export/repo
 import { analysisSummary, summaryJson } from '../../core/export/summary.ts';
 import { CSV_DIGIT_CHOICES, type CsvDecimal, type CsvDelimiter } from '../../core/io/csv-write.ts';
 import { jcampFromTrace } from '../../core/io/jcamp-write.ts';
-import { analysisOf, parseRecipeText, recipeStepsOnly, recipeToJson, recipeWithAnalysis } from '../../core/recipe.ts';
+import { analysisOf, parseRecipeText, recipeStepsOnly, recipeToJson, recipeWithAnalysis } from '../../core/method.ts';
 import { STEP_REGISTRY } from '../../core/steps/registry.ts';
 import { useApp } from '../../state/store.ts';
 import { downloadBlob, downloadCsv, downloadText } from './download.ts';
 import { useCalibrationView } from '../calibration/derive.ts';
-import { clearSession, SESSION_UNDO_STEPS } from './session-db.ts';
+import { clearSession, SESSION_UNDO_STEPS } from '../../state/session-db.ts';
 import { SessionFileControls } from './SessionFileControls.tsx';
 import { markDrawn } from '../draw-health.ts';
 import { exportExtras } from '../fit/export-extras.ts';
-import { getBackend } from '../controller.ts';
+import { getBackend } from '../../state/service.ts';
+import { currentResult } from '../../state/selectors.ts';
 import { exactResult, exactSignal } from '../../worker/bridge.ts';
 
 type Guarded = 'cleaned' | 'peaks' | 'report' | 'print' | 'summary';
@@ -62,7 +63,7 @@ function stamp(d: Date): string {
 /** Results out: files, clipboard, pictures, recipes, batches, and starting over. */
 export function ExportPanel({ getFigure }: Props) {
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
-  const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
+  const result = useApp((s) => currentResult(s));
   const stack = useApp((s) => s.recipe);
   const noiseSettings = useApp((s) => s.noiseSettings);
   const peakSettings = useApp((s) => s.peakSettings);

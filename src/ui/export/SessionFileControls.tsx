@@ -1,8 +1,8 @@
 import { useRef, useState } from 'react';
 import { useApp } from '../../state/store.ts';
 import { downloadText } from './download.ts';
-import { applySnapshot, snapshotOf, workWords, type SessionSnapshot } from './session-db.ts';
-import { sessionFileText, sessionFromFileText } from './session-file.ts';
+import { applySnapshot, snapshotOf, workWords, type SessionSnapshot } from '../../state/session-db.ts';
+import { sessionFileText, sessionFromFileText } from '../../state/session-file.ts';
 import { sessionFileName } from '../startup.ts';
 
 /**

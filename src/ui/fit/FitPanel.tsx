@@ -11,6 +11,7 @@ import { num } from '../format.ts';
 import { COLOURS } from '../palette.ts';
 import { PlotlyFigure } from '../PlotlyFigure.tsx';
 import { fitRegion, regionAroundPeak, requestFit } from './fit-service.ts';
+import { currentResult } from '../../state/selectors.ts';
 
 /** Component fills: Okabe–Ito colours at low opacity, each with a line of its own dash so colour is never the only cue. */
 const COMPONENT = [
@@ -79,7 +80,7 @@ function FitPlot({ kept, xTitle, yTitle }: { kept: KeptFit; xTitle: string; yTit
 /** Fit a region: how many peaks the data support, each fitted peak with standard errors, and whether the processing keeps that count. */
 export function FitPanel() {
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
-  const result = useApp((s) => (s.result && s.result.sampleId === s.sampleId ? s.result : null));
+  const result = useApp((s) => currentResult(s));
   const choices = useApp((s) => s.fitChoices);
   const allFits = useApp((s) => s.fits);
   const shownId = useApp((s) => s.shownFitId);

@@ -6,7 +6,8 @@ import { startsInRegion } from '../../core/measure/fit/starts.ts';
 import type { Peak } from '../../core/measure/peak-types.ts';
 import { useApp } from '../../state/store.ts';
 import type { FitRequest } from '../../worker/fit-job.ts';
-import { getBackend } from '../controller.ts';
+import { getBackend } from '../../state/service.ts';
+import { currentResult } from '../../state/selectors.ts';
 
 /** The region a fit would use: the marked range, else the zoomed x-range; null when neither is set. */
 export function fitRegion(): [number, number] | null {
@@ -31,7 +32,7 @@ export async function requestFit(): Promise<void> {
   if (!s.sampleId) return;
   if (!region) { s.setFitError('Mark a region first: press “Mark a range” and drag across the plot, zoom to the region, or use the selected peak.'); return; }
   const blank = s.traces.find((t) => s.roles[t.id] === 'blank');
-  const peaks = s.result && s.result.sampleId === s.sampleId ? s.result.peaks : [];
+  const peaks = currentResult(s)?.peaks ?? [];
   const request: FitRequest = {
     sampleId: s.sampleId,
     blankId: blank?.id,

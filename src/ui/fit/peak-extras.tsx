@@ -13,6 +13,7 @@ import type { Peak } from '../../core/measure/peak-types.ts';
 import { useApp } from '../../state/store.ts';
 import { num } from '../format.ts';
 import { useExactSignal } from '../plot-exact.ts';
+import { currentResult } from '../../state/selectors.ts';
 
 export interface PeakExtras {
   headers: { key: string; label: string; title: string }[];
@@ -22,7 +23,7 @@ export interface PeakExtras {
 /** Headers and cells of the optional columns for the current result. */
 export function usePeakExtras(): PeakExtras {
   // Only the fields the columns read: a stage that leaves them alone keeps the same columns, so the table's rows do not re-render (issue 16).
-  const result = useApp(useShallow((s) => (s.result && s.result.sampleId === s.sampleId ? { peaks: s.result.peaks, processed: s.result.processed, peakOptions: s.result.peakOptions } : null)));
+  const result = useApp(useShallow((s) => { const r = currentResult(s); return r ? { peaks: r.peaks, processed: r.processed, peakOptions: r.peakOptions } : null; }));
   const sample = useApp((s) => s.traces.find((t) => t.id === s.sampleId) ?? null);
   const measureOn = useApp((s) => s.peakSettings.measureOn);
   const showFigures = useApp((s) => s.showFigures);

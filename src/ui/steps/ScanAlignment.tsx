@@ -23,7 +23,7 @@ export function ScanAlignment({ shifts, correlations, minCorrelation, dx, xUnit 
   const traces = useApp((s) => s.traces) ?? NO_TRACES;
   const roles = useApp((s) => s.roles);
   const { setRole } = useApp.getState();
-  // The same order the controller sends (traces in load order with the role "scan").
+  // The same order the service layer (state/service.ts) sends (traces in load order with the role "scan").
   const scans = traces.filter((t) => roles[t.id] === 'scan');
   if (scans.length !== correlations.length) return null;
   const fmt = (v: number, d: number) => (Number.isFinite(v) ? v.toFixed(d) : '—');

@@ -1,11 +1,12 @@
 /** Window advice for the smoothing steps of the current stack, from the raw trace's narrowest quantifiable peak. */
-import type { Recipe, Registry } from '../../recipe.ts';
-import { windowAdvice, type WindowAdvice } from '../../loss.ts';
+import type { Recipe, Registry } from '../../method.ts';
+import { windowAdvice, type WindowAdvice } from '../../measure/loss-matching.ts';
 import type { WindowAdviceRow } from '../result.ts';
+import { points, type Points } from '../../units.ts';
 
 /** Smoothing steps whose window gets advice, and how to read it. */
-function adviceFor(step: string, params: Record<string, unknown>, narrowest: number): WindowAdvice | null {
-  const w = Number(params.window);
+function adviceFor(step: string, params: Record<string, unknown>, narrowest: Points): WindowAdvice | null {
+  const w = points(Number(params.window));
   if (!Number.isInteger(w) || w < 1) return null;
   try {
     if (step === 'moving-average') return windowAdvice('moving-average', w, 0, narrowest);
@@ -16,7 +17,7 @@ function adviceFor(step: string, params: Record<string, unknown>, narrowest: num
   return null;
 }
 
-export function windowAdviceRows(recipe: Recipe, registry: Registry, narrowest: number | null): WindowAdviceRow[] {
+export function windowAdviceRows(recipe: Recipe, registry: Registry, narrowest: Points | null): WindowAdviceRow[] {
   const advice: WindowAdviceRow[] = [];
   if (!narrowest) return advice;
   for (const st of recipe.steps) {

@@ -4,9 +4,9 @@
  * and settings (memo): moving the current stack's slider changes none of it.
  */
 import type { PipelineCache } from '../../pipeline.ts';
-import type { Registry } from '../../recipe.ts';
+import type { Registry } from '../../method.ts';
 import type { Signal, StepContext } from '../../steps/types.ts';
-import { residualDiagnostics } from '../../diagnostics.ts';
+import { residualDiagnostics } from '../../measure/residual-tests.ts';
 import type { AlternativeMeasured, AnalysisMemo } from '../memo.ts';
 import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type AlternativeRequest, type AnalyseRequest } from '../request.ts';
 import { measurePeaksStepwise } from './measure.ts';

@@ -5,16 +5,17 @@
  */
 import type { Signal } from '../../steps/types.ts';
 import type { Trace } from '../../trace.ts';
-import type { Registry } from '../../recipe.ts';
+import type { Registry } from '../../method.ts';
 import { meanStep } from '../../numeric/interpolate.ts';
-import { combineVerdict, HEIGHT_LOSS_TOLERANCE } from '../../diagnostics.ts';
-import { matchPeaks, type Ledger, type LedgerRow } from '../../loss.ts';
+import { combineVerdict, HEIGHT_LOSS_TOLERANCE } from '../../measure/residual-tests.ts';
+import { matchPeaks, type Ledger, type LedgerRow } from '../../measure/loss-matching.ts';
 import type { NoiseBumpCount } from '../../measure/noise-bumps.ts';
 import type { AlternativeMeasured } from '../memo.ts';
 import { DEFAULT_PEAK_SETTINGS, type AnalyseRequest } from '../request.ts';
 import type { LossItem, LossReport } from '../result.ts';
 import type { Measured } from './measure.ts';
 import { windowAdviceRows } from './advice.ts';
+import { points, toPoints, xUnits } from '../../units.ts';
 
 export function lossReport(
   request: AnalyseRequest, raw: Signal, sample: Trace, main: Measured, current: Measured, reference: Measured,
@@ -38,7 +39,7 @@ export function lossReport(
   // make every window look too wide.
   const dxRaw = meanStep(raw.x);
   const quant = reference.peaks.filter((p) => p.flag === 'quantifiable' && !p.removedByUser);
-  const narrowest = quant.length ? Math.min(...quant.map((p) => p.fwhm / dxRaw)) : null;
+  const narrowest = quant.length ? points(Math.min(...quant.map((p) => toPoints(xUnits(p.fwhm), dxRaw)))) : null;
   const advice = windowAdviceRows(request.recipe, registry, narrowest);
   const where = (x: number) => `${x.toPrecision(5)}${sample.xUnit ? ` ${sample.xUnit}` : ''}`;
   const stackName = (col: number) => (col === 1 ? 'the current stack' : `"${columns[col].label}"`);

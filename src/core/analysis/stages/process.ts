@@ -1,6 +1,6 @@
 /** Stage 1: run the recipe on the sample (outputs cached per step by the pipeline cache). */
 import { runPipeline, type PipelineCache, type PipelineResult } from '../../pipeline.ts';
-import type { Recipe, Registry } from '../../recipe.ts';
+import type { Recipe, Registry } from '../../method.ts';
 import type { Signal, StepContext } from '../../steps/types.ts';
 import type { StackRun } from '../../measure/noise-report.ts';
 import type { StepRunSummary } from '../result.ts';

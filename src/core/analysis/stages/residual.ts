@@ -5,7 +5,7 @@
 import type { PipelineResult } from '../../pipeline.ts';
 import type { Signal } from '../../steps/types.ts';
 import { interpolateLinear } from '../../numeric/interpolate.ts';
-import { residual as residualOf, residualDiagnostics, type ResidualDiagnostics } from '../../diagnostics.ts';
+import { residual as residualOf, residualDiagnostics, type ResidualDiagnostics } from '../../measure/residual-tests.ts';
 
 export function maxAbs(y: Float64Array): number {
   let m = 0;

@@ -6,6 +6,7 @@
  * analysis, tests run it in Node. Never changes its inputs.
  */
 import { supportedPeakCount, type CountComparison } from './count.ts';
+import { sameGrid } from '../../numeric/interpolate.ts';
 import { peakCountAcrossProcessing, type CountSupportAcrossProcessing } from './processing.ts';
 import { MAX_PEAKS, type BaselineKind, type PeakStart, type RegionFit } from './region.ts';
 import { SHAPE_KINDS, SHAPES, type ShapeKind } from './shapes.ts';
@@ -81,12 +82,6 @@ export function fitSettingsProblem(s: FitSettings): string | null {
   if (s.baseline !== 'line' && s.baseline !== 'quadratic') return `Unknown baseline “${String(s.baseline)}”.`;
   if (!(Number.isInteger(s.maxPeaks) && s.maxPeaks >= 1 && s.maxPeaks <= MAX_PEAKS)) return `The largest count must be 1 to ${MAX_PEAKS}.`;
   return null;
-}
-
-function sameGrid(a: Float64Array, b: Float64Array): boolean {
-  if (a.length !== b.length) return false;
-  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
-  return true;
 }
 
 /**

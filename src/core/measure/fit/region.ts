@@ -16,6 +16,7 @@
  * Analysis, 3rd ed., 3.2). They assume independent errors of one variance;
  * the result says whether the residuals looked independent.
  */
+import { medianOf as median } from '../../numeric/median.ts';
 import { covarianceFromJacobian, levenbergMarquardt } from './lm.ts';
 import type { LmOptions, LmStopReason } from './lm.ts';
 import { FIGURE_NAMES, SHAPES } from './shapes.ts';
@@ -171,12 +172,6 @@ function evaluateModel(layout: Layout, x: Float64Array, t: Float64Array, params:
     }
   }
   layout.shapes.forEach((m, k) => m.evaluate(x, params, layout.offsets[k], out, jac, layout.offsets[k]));
-}
-
-function median(values: number[]): number {
-  const s = values.slice().sort((a, b) => a - b);
-  const h = s.length >> 1;
-  return s.length % 2 ? s[h] : 0.5 * (s[h - 1] + s[h]);
 }
 
 /** Running mean over an odd window, shrinking at the ends (only for finding starting values). */

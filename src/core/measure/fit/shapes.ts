@@ -312,7 +312,7 @@ const emg: ShapeModel = {
     return rows;
   },
   start(c, h, w) {
-    // A mildly tailing start (τ = σ/2): apex ≈ μ + 0.43σ (REFERENCES.md EMG table), height ≈ h.
+    // A mildly tailing start (τ = σ/2): apex ≈ μ + 0.43σ (the apex of SciPy's stats.exponnorm, K = 0.5), height ≈ h.
     const s = w / FWHM_PER_SIGMA;
     const t = 0.5 * s;
     const mu = c - 0.428 * s;

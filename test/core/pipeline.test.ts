@@ -1,0 +1,124 @@
+import { describe, expect, it } from 'vitest';
+import { type Recipe, jsonDepth, makeRecipeStep, parseRecipeText, recipeInWords, recipeToJson, validateRecipe, RECIPE_VERSION } from '../../src/core/method.ts';
+import { PipelineCache, runPipeline } from '../../src/core/pipeline.ts';
+import type { StepDefinition } from '../../src/core/steps/types.ts';
+
+// Two tiny steps defined here only to exercise the recipe and pipeline
+// machinery (the real steps have their own tests against SciPy).
+const offsetStep: StepDefinition<{ amount: number }> = {
+  id: 'test-offset', label: 'Offset', summary: 'Adds a constant.',
+  params: [{ key: 'amount', label: 'Amount', kind: 'number', unit: 'none', min: -1e6, max: 1e6 }],
+  defaults: { amount: 1 },
+  validate: (p) => (p.amount === 13 ? 'Thirteen is refused by this test step.' : null),
+  apply: (s, p) => ({ x: s.x.slice(), y: s.y.map((v) => v + p.amount), notes: [] }),
+};
+let windowCalls = 0;
+const windowStep: StepDefinition<{ window: number; edge: string }> = {
+  id: 'test-window', label: 'Window', summary: 'Counts calls.',
+  params: [
+    { key: 'window', label: 'Window', kind: 'int', unit: 'points', min: 1, max: 101, odd: true },
+    { key: 'edge', label: 'Edge', kind: 'choice', unit: 'none', choices: [{ value: 'a', label: 'A' }, { value: 'b', label: 'B' }] },
+  ],
+  defaults: { window: 3, edge: 'a' },
+  validate: (p, s) => (p.window > s.y.length ? `Window ${p.window} is longer than the ${s.y.length} points.` : null),
+  apply: (s) => { windowCalls++; return { x: s.x.slice(), y: s.y.map((v) => v * 2), notes: [] }; },
+};
+const registry = [offsetStep, windowStep] as unknown as readonly StepDefinition[];
+
+const signal = { x: Float64Array.from([0, 1, 2, 3, 4, 5]), y: Float64Array.from([1, 2, 3, 4, 5, 6]) };
+
+describe('recipe validation', () => {
+  it('accepts a good recipe, fills defaults and round-trips through JSON', () => {
+    const check = parseRecipeText(JSON.stringify({ format: 'tracewright-recipe', version: 1, steps: [{ step: 'test-window', params: { window: 5 } }] }), registry);
+    expect(check.ok).toBe(true);
+    if (!check.ok) return;
+    expect(check.recipe.steps[0].params).toEqual({ window: 5, edge: 'a' });
+    const again = parseRecipeText(recipeToJson(check.recipe), registry);
+    expect(again.ok && again.recipe.steps).toEqual(check.recipe.steps);
+  });
+
+  it.each([
+    [{ format: 'tracewright-recipe', version: RECIPE_VERSION + 1, steps: [] }, /newer version/],
+    [{ format: 'tracewright-recipe', version: 1, steps: [{ step: 'no-such-step' }] }, /unknown step "no-such-step"/],
+    [{ format: 'tracewright-recipe', version: 1, steps: [{ step: 'test-window', params: { window: 4 } }] }, /must be odd/],
+    [{ format: 'tracewright-recipe', version: 1, steps: [{ step: 'test-window', params: { window: 0 } }] }, /between 1 and 101/],
+    [{ format: 'tracewright-recipe', version: 1, steps: [{ step: 'test-window', params: { window: -5 } }] }, /between 1 and 101/],
+    [{ format: 'tracewright-recipe', version: 1, steps: [{ step: 'test-window', params: { window: 1e9 } }] }, /between 1 and 101/],
+    [{ format: 'tracewright-recipe', version: 1, steps: [{ step: 'test-window', params: { window: 2.5 } }] }, /whole number/],
+    [{ format: 'tracewright-recipe', version: 1, steps: [{ step: 'test-window', params: { window: 'big' } }] }, /must be a number/],
+    [{ format: 'tracewright-recipe', version: 1, steps: [{ step: 'test-window', params: { edge: 'z' } }] }, /one of a, b/],
+    [{ format: 'tracewright-recipe', version: 1, steps: [{ step: 'test-window', params: { colour: 1 } }] }, /unknown parameter "colour"/],
+    [{ format: 'something-else', version: 1, steps: [] }, /"format"/],
+    [[1, 2, 3], /expected a JSON object/],
+  ])('refuses %j', (value, message) => {
+    const check = validateRecipe(value, registry);
+    expect(check.ok).toBe(false);
+    if (!check.ok) expect(check.problems.join(' ')).toMatch(message);
+  });
+
+  it('NaN parameters are refused (JSON has no NaN: it arrives as null or text)', () => {
+    const check = parseRecipeText('{"format":"tracewright-recipe","version":1,"steps":[{"step":"test-offset","params":{"amount":null}}]}', registry);
+    expect(check.ok).toBe(false);
+    const check2 = parseRecipeText('{"format":"tracewright-recipe","version":1,"steps":[{"step":"test-offset","params":{"amount":NaN}}]}', registry);
+    expect(check2.ok).toBe(false);
+    if (!check2.ok) expect(check2.problems[0]).toMatch(/not valid JSON/);
+  });
+
+  it('refuses a deeply nested JSON bomb before parsing it', () => {
+    const bomb = '['.repeat(100000) + ']'.repeat(100000);
+    expect(jsonDepth(bomb)).toBeGreaterThan(16);
+    const check = parseRecipeText(bomb, registry);
+    expect(check.ok).toBe(false);
+    if (!check.ok) expect(check.problems[0]).toMatch(/nested more than/);
+    // brackets inside strings do not count
+    expect(jsonDepth('{"a":"[[[[[[[[[[[[[[[[[[[[[[["}')).toBe(1);
+  });
+
+  it('describes the recipe in words', () => {
+    const words = recipeInWords({ format: 'tracewright-recipe', version: 1, steps: [makeRecipeStep(windowStep as unknown as StepDefinition, { window: 7 })] }, registry);
+    expect(words[0]).toBe('1. Window: Window 7 points; Edge a.');
+  });
+});
+
+describe('pipeline', () => {
+  it('applies steps in order, skips switched-off steps and never changes its input', () => {
+    const before = Array.from(signal.y);
+    const recipe: Recipe = { format: 'tracewright-recipe' as const, version: 1, steps: [
+      { uid: 'a', step: 'test-offset', enabled: true, params: { amount: 1 } },
+      { uid: 'b', step: 'test-window', enabled: false, params: { window: 3, edge: 'a' } },
+      { uid: 'c', step: 'test-window', enabled: true, params: { window: 3, edge: 'a' } },
+    ] };
+    const r = runPipeline(signal, 'in', recipe, registry);
+    expect(Array.from(r.final.y)).toEqual([4, 6, 8, 10, 12, 14]);
+    expect(r.runs.map((x) => x.status)).toEqual(['ok', 'off', 'ok']);
+    expect(Array.from(signal.y)).toEqual(before);
+  });
+
+  it('reports a step that does not fit and passes its input on', () => {
+    const recipe: Recipe = { format: 'tracewright-recipe' as const, version: 1, steps: [
+      { uid: 'a', step: 'test-window', enabled: true, params: { window: 99, edge: 'a' } },
+      { uid: 'b', step: 'test-offset', enabled: true, params: { amount: 13 } },
+    ] };
+    const r = runPipeline(signal, 'in', recipe, registry);
+    expect(r.runs[0].status).toBe('error');
+    expect(r.runs[0].message).toMatch(/longer than the 6 points/);
+    expect(r.runs[1].message).toMatch(/Thirteen/);
+    expect(Array.from(r.final.y)).toEqual(Array.from(signal.y));
+  });
+
+  it('editing step k reruns only steps k onward', () => {
+    const cache = new PipelineCache();
+    const mk = (amount: number): Recipe => ({ format: 'tracewright-recipe' as const, version: 1, steps: [
+      { uid: 'a', step: 'test-window', enabled: true, params: { window: 3, edge: 'a' } },
+      { uid: 'b', step: 'test-offset', enabled: true, params: { amount } },
+      { uid: 'c', step: 'test-window', enabled: true, params: { window: 5, edge: 'a' } },
+    ] });
+    windowCalls = 0;
+    runPipeline(signal, 'in', mk(1), registry, {}, cache);
+    expect(windowCalls).toBe(2);
+    const r = runPipeline(signal, 'in', mk(2), registry, {}, cache);
+    expect(windowCalls).toBe(3); // the first window step came from the cache
+    expect(r.runs.map((x) => x.cached)).toEqual([true, false, false]);
+    expect(Array.from(r.final.y)).toEqual(Array.from(signal.y).map((v) => (2 * v + 2) * 2));
+  });
+});
