@@ -151,7 +151,7 @@ interface RefTrace {
   name: string; y: number[]; maxima: number[]; prominences: number[]; leftBases: number[]; rightBases: number[];
   widths05: { widths: number[] }; minProminence: number; findPeaksProminence: number[];
 }
-const ref = JSON.parse(readFileSync(new URL('../reference/peaks.json', import.meta.url), 'utf8')) as { scipy: string; traces: RefTrace[] };
+const ref = JSON.parse(readFileSync(new URL('../../reference/peaks.json', import.meta.url), 'utf8')) as { scipy: string; traces: RefTrace[] };
 
 describe(`merged candidate pass = SciPy ${ref.scipy} find_peaks(prominence) + peak_widths(rel_height 0.5), 1e-9 relative`, () => {
   for (const t of ref.traces) {
