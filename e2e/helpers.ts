@@ -42,17 +42,24 @@ export async function sessionSaved(page: Page): Promise<void> {
  * on a loaded machine the dialog can take longer than any fixed guess to render (a CI run missed it at 1.5 s).
  */
 export async function exportFile(page: Page, testId: string): Promise<{ d: Download; confirmed: boolean }> {
-  const waiting = page.waitForEvent('download');
+  const waiting = page.waitForEvent('download', { timeout: 0 });
   const button = page.getByTestId(testId);
-  await expect(button).toBeEnabled({ timeout: 30_000 });
-  // A click event on the button itself, not a mouse click at its coordinates: a notice appearing above the panel
-  // moves the button between Playwright's position check and the click, and a mouse click then lands beside it.
-  await button.dispatchEvent('click');
   const dialog = page.getByTestId('loss-confirm');
-  const asked = dialog.waitFor().then(() => true, () => false);
-  const first = await Promise.race([waiting.then(() => 'download' as const), asked.then((shown) => (shown ? 'dialog' as const : 'download' as const))]);
-  if (first === 'dialog') await dialog.getByRole('button', { name: 'Export anyway' }).click();
-  return { d: await waiting, confirmed: first === 'dialog' };
+  const asked = (ms: number) => dialog.waitFor({ timeout: ms }).then(() => 'dialog' as const, () => 'nothing' as const);
+  // Known and not yet explained: after about 25 specs in one browser, the first export of a freshly opened demo
+  // sometimes starts no download and shows no dialog (reproduced only in the whole suite; see DEVELOPERS.md,
+  // "End-to-end"). A second press is what a user would do; it is logged, and a third silent press fails the test.
+  for (let attempt = 1; attempt <= 2; attempt++) {
+    await expect(button).toBeEnabled({ timeout: 30_000 });
+    // A click event on the button itself, not a mouse click at its coordinates: a notice appearing above the panel
+    // moves the button between Playwright's position check and the click, and a mouse click then lands beside it.
+    await button.dispatchEvent('click');
+    const first = await Promise.race([waiting.then(() => 'download' as const), asked(15_000)]);
+    if (first === 'dialog') await dialog.getByRole('button', { name: 'Export anyway' }).click();
+    if (first !== 'nothing') return { d: await waiting, confirmed: first === 'dialog' };
+    console.warn(`[e2e] ${testId}: no download and no loss dialog 15 s after press ${attempt}; pressing again`);
+  }
+  throw new Error(`${testId}: two presses started no download and no loss dialog`);
 }
 
 /** Click an export button, confirm the loss dialog when it asks, and read the downloaded file as text. */
