@@ -39,25 +39,19 @@ Writes test/reference/real-rows.json. Run:  python3 test/reference/make_real_row
 """
 import json
 import pathlib
+import sys
 
 import numpy as np
 
 HERE = pathlib.Path(__file__).parent
+sys.path.insert(0, str(HERE))
+from make_real_snr import load as load_path  # noqa: E402  (one reader for the exported spectra)
 REAL = HERE.parent / "fixtures" / "real"
 
 
 def load(name):
-    xs, ys = [], []
-    for line in open(REAL / name, encoding="utf8"):
-        parts = line.strip().split(",")
-        if len(parts) != 2:
-            continue
-        try:
-            xs.append(float(parts[0]))
-            ys.append(float(parts[1]))
-        except ValueError:
-            pass
-    return np.array(xs), np.array(ys)
+    """One exported MALDI spectrum (m/z, counts), read as make_real_snr.py reads it."""
+    return load_path(REAL / name)
 
 
 x, y = load("maldi-fiedler2009-01.csv")
