@@ -2,35 +2,11 @@ import { describe, expect, test } from 'vitest';
 import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS } from '../../src/core/analysis/index.ts';
 import { createTrace } from '../../src/core/trace.ts';
 import type { SessionSnapshot } from '../../src/state/session-db.ts';
-import { base64ToFloat64, float64ToBase64, sessionFileText, sessionFromFileText } from '../../src/state/session-file.ts';
-import { makeRng } from '../../src/core/numeric/random.ts';
+import { float64ToBase64, sessionFileText, sessionFromFileText } from '../../src/state/session-file.ts';
 import { recipeOf } from '../core/export/helpers.ts';
 
 /** Values where a text round trip would lose bits: subnormals, −0, the largest double, values of 17 significant digits. */
 const AWKWARD = [0, -0, 5e-324, -2.5e-310, Number.MAX_VALUE, -Number.MAX_VALUE, 0.1 + 0.2, 1 / 3, Math.PI * 1e-300, 123456789.12345679];
-
-describe('numbers in a session file', () => {
-  test('base64 of little-endian doubles matches Node’s own base64 (RFC 4648) byte for byte, and reads back bit for bit', () => {
-    const rng = makeRng(5);
-    for (const n of [0, 1, 2, 3, 10, 1001]) {
-      const v = Float64Array.from({ length: n }, (_, i) => (i < AWKWARD.length ? AWKWARD[i] : rng.normal() * 10 ** Math.round(rng.normal() * 50)));
-      const bytes = Buffer.alloc(8 * n);
-      for (let i = 0; i < n; i++) bytes.writeDoubleLE(v[i], 8 * i);
-      const text = float64ToBase64(v);
-      // Node's Buffer is the outside reference for base64 (RFC 4648 section 4, with padding).
-      expect(text).toBe(bytes.toString('base64'));
-      const back = base64ToFloat64(text);
-      expect(back.length).toBe(n);
-      for (let i = 0; i < n; i++) expect(Object.is(back[i], v[i])).toBe(true);
-    }
-  });
-
-  test('text that is not base64 of whole doubles is refused with a reason', () => {
-    expect(() => base64ToFloat64('abc')).toThrow(/4-character groups/);
-    expect(() => base64ToFloat64('AAAA')).toThrow(/not a whole number of 8-byte values/);
-    expect(() => base64ToFloat64('AAAAAAAAAA$=')).toThrow(/not base64/);
-  });
-});
 
 describe('session file', () => {
   const t = createTrace({

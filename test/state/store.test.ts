@@ -1,58 +1,50 @@
+/**
+ * src/state/store.ts: createAppStore gives a fresh, independent store with
+ * every slice, and the store holds data only (its comment: "never a Worker
+ * or a plot"), checked as: every field that is not an action survives
+ * structuredClone (the HTML standard's structured clone refuses functions,
+ * DOM nodes and workers). Each slice's own actions are in its own test file.
+ */
 import { describe, expect, it } from 'vitest';
-import { createAppStore } from '../../src/state/store.ts';
 import { createTrace } from '../../src/core/trace.ts';
-import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
+import { createAppStore, useApp } from '../../src/state/store.ts';
 
 const report = { fileName: 'a.csv', sha256: '0'.repeat(64), format: 'test', rowsRead: 5, skipped: [], notices: [], metadata: {} };
 const mk = (name: string) => createTrace({ name, x: [0, 1, 2, 3, 4], y: [1, 2, 3, 2, 1], source: { fileName: name, sha256: '0'.repeat(64), rowsRead: 5, rowsSkipped: 0 } });
 
-// Fresh store per test (zustand testing guide).
+const data = (s: object) => Object.fromEntries(Object.entries(s).filter(([, v]) => typeof v !== 'function'));
+
 describe('store', () => {
-  it('every stack edit can be undone and redone', () => {
-    const useApp = createAppStore();
-    const ids = STEP_REGISTRY.slice(0, 2).map((d) => d.id);
-    expect(ids.length).toBe(2);
-    const s = useApp.getState();
-    s.addStep(ids[0]);
-    s.addStep(ids[1]);
-    const [a, b] = useApp.getState().recipe.steps;
-    useApp.getState().moveStep(0, 1);
-    expect(useApp.getState().recipe.steps.map((x) => x.uid)).toEqual([b.uid, a.uid]);
-    useApp.getState().toggleStep(a.uid);
-    expect(useApp.getState().recipe.steps[1].enabled).toBe(false);
-    useApp.getState().removeStep(b.uid);
-    expect(useApp.getState().recipe.steps.length).toBe(1);
-    for (let i = 0; i < 5; i++) useApp.getState().undo();
-    expect(useApp.getState().recipe.steps.length).toBe(0);
-    for (let i = 0; i < 5; i++) useApp.getState().redo();
-    expect(useApp.getState().recipe.steps.map((x) => [x.uid, x.enabled])).toEqual([[a.uid, false]]);
+  it('every slice is in the store: a field or action of each', () => {
+    const s = createAppStore().getState();
+    // inputs, notices, recipe, results, view, settings, session, calibration, fit, report
+    for (const k of ['addTraces', 'notify', 'undo', 'takeStage', 'switchZoom', 'addPeakAt', 'setSessionProblem', 'addNamedPeak', 'addFit', 'setReportField'] as const) {
+      expect(typeof s[k], k).toBe('function');
+    }
   });
 
-  it('a parameter edit is one undo step and does not touch the previous recipe', () => {
-    const useApp = createAppStore();
-    const def = STEP_REGISTRY.find((d) => d.params.some((p) => p.kind === 'int'))!;
-    const key = def.params.find((p) => p.kind === 'int')!.key;
-    useApp.getState().addStep(def.id);
-    const before = useApp.getState().recipe;
-    const uid = before.steps[0].uid;
-    const old = before.steps[0].params[key];
-    useApp.getState().setParam(uid, key, (old as number) + 2);
-    expect(before.steps[0].params[key]).toBe(old);
-    useApp.getState().undo();
-    expect(useApp.getState().recipe.steps[0].params[key]).toBe(old);
+  it('two stores made by createAppStore share nothing; the app’s own store is another one', () => {
+    const a = createAppStore(), b = createAppStore();
+    a.getState().addTraces([mk('one')], report);
+    a.getState().addStep('moving-average');
+    a.getState().notify('info', 'only in a');
+    expect(b.getState().traces).toEqual([]);
+    expect(b.getState().recipe.steps).toEqual([]);
+    expect(b.getState().notices).toEqual([]);
+    expect(useApp.getState().traces).toEqual([]);
+    // Initial values are not shared objects either: the fresh store's state equals, but is not, the other's.
+    expect(data(createAppStore().getState())).toEqual(data(b.getState()));
+    expect(createAppStore().getState().noiseSettings).not.toBe(b.getState().noiseSettings);
   });
 
-  it('one sample at a time; a new sample sets the old one aside but keeps it', () => {
-    const useApp = createAppStore();
-    const t1 = mk('one'), t2 = mk('two');
-    useApp.getState().addTraces([t1], report);
-    useApp.getState().addTraces([t2], report);
-    const s = useApp.getState();
-    expect(s.sampleId).toBe(t2.id);
-    expect(s.roles[t1.id]).toBe('ignore');
-    expect(s.traces.length).toBe(2);
-    useApp.getState().setRole(t1.id, 'blank');
-    useApp.getState().setRole(t2.id, 'blank');
-    expect(useApp.getState().roles[t1.id]).toBe('ignore'); // only one blank
+  it('holds data only: every field that is not an action can be structured-cloned, before and after use', () => {
+    const app = createAppStore();
+    expect(() => structuredClone(data(app.getState()))).not.toThrow();
+    app.getState().addTraces([mk('one')], report);
+    app.getState().addStep('savitzky-golay');
+    app.getState().notify('error', 'x', ['y'], { label: 'Retry', key: 'k' });
+    const clone = structuredClone(data(app.getState())) as Record<string, unknown>;
+    expect(clone.notices).toEqual(app.getState().notices);
+    expect(clone.recipe).toEqual(app.getState().recipe);
   });
 });
