@@ -1,9 +1,12 @@
 /**
- * The command line run in this process (runCli with stand-in streams): the
- * exports equal the page's for the demo, the naming rules, trace choice,
- * refusals that name the option settling them, exit statuses 0/1/2, and
- * standard output empty unless --json. Worker threads (--jobs) and the built
- * program are checked in process.test.ts.
+ * src/cli/run.ts: the command line run in this process (runCli with
+ * stand-in streams): the exports equal the page's for the demo, the naming
+ * rules, folders, refusals that name the option settling them, exit
+ * statuses 0/1/2, help and version, every summary file written conforms to
+ * the published summary.schema.json, and standard output empty unless
+ * --json. What one input gives (trace choice and its sentences, loading
+ * refusals, the texts per trace) is in job.test.ts; worker threads (--jobs)
+ * and the built program are checked in process.test.ts.
  */
 import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -17,7 +20,9 @@ import { loadFile } from '../../src/core/io/load.ts';
 import { emptyRecipe, makeRecipeStep, recipeToJson, recipeWithAnalysis } from '../../src/core/method.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
 import type { Trace } from '../../src/core/trace.ts';
+import { ANALYSE_HELP, MAIN_HELP } from '../../src/cli/help.ts';
 import { runCli } from '../../src/cli/run.ts';
+import { schemaProblems } from '../core/export/json-schema.ts';
 import { recipeRows } from './catalogue.ts';
 
 const EPOCH = '1735689600'; // 2025-01-01T00:00:00Z
@@ -169,12 +174,28 @@ describe('standard output and exit status', () => {
   });
 
   test('help and version go to standard output with status 0', async () => {
-    for (const argv of [['--help'], ['analyse', '--help'], ['help', 'analyse'], ['--version']]) {
-      const r = await cli(argv);
+    const version = `tracewright ${JSON.parse(readFileSync('package.json', 'utf8')).version}\n`;
+    for (const [argv, text] of [[['--help'], MAIN_HELP], [['analyse', '--help'], ANALYSE_HELP], [['help', 'analyse'], ANALYSE_HELP], [['--version'], version]] as const) {
+      const r = await cli([...argv]);
       expect(r.code).toBe(0);
       expect(r.stderr).toBe('');
-      expect(r.stdout.length).toBeGreaterThan(10);
+      expect(r.stdout).toBe(text);
     }
+  });
+
+  test('a usage error names the help to read: the main help for the command, the analyse help for its options', async () => {
+    expect((await cli(['frobnicate'])).stderr).toBe('tracewright: Unknown command "frobnicate". The command is "analyse".\nSee "tracewright --help".\n');
+    expect((await cli(['analyse', 'x.csv', '--bogus'])).stderr).toBe('tracewright: Unknown option "--bogus".\nSee "tracewright analyse --help".\n');
+  });
+
+  test('every summary file a run writes conforms to the published schema (strict), for one and for several traces per file', async () => {
+    const schema = JSON.parse(readFileSync('src/core/export/summary.schema.json', 'utf8'));
+    const out = fresh();
+    const r = await cli(['analyse', join(DEMO, 'demo-sample.csv'), join(FIX, 'hostile/ragged.csv'), '--blank', join(DEMO, 'demo-blank.csv'), '--out', out, '--json']);
+    expect(r.code, r.stderr).toBe(0);
+    const files = readdirSync(out).filter((f) => f.endsWith('-summary.json')).sort();
+    expect(files).toEqual(['demo-sample-summary.json', 'ragged_A-summary.json', 'ragged_B-summary.json']);
+    for (const f of files) expect(schemaProblems(schema, JSON.parse(readFileSync(join(out, f), 'utf8')), true), f).toEqual([]);
   });
 });
 
@@ -205,7 +226,7 @@ describe('names, folders and traces', () => {
     expect(r.stdout.trim().split('\n').map((l) => JSON.parse(l).input.file)).toEqual(['B.csv', 'a.csv', 'c.csv'].map((n) => join(dir, n)));
   });
 
-  test('--trace and --trace-index pick one trace; the name keeps its trace part; a wrong choice names the option', async () => {
+  test('--trace and --trace-index pick one trace; the output names keep the trace part; a wrong choice is status 1', async () => {
     const ragged = join(FIX, 'hostile/ragged.csv');
     let out = fresh();
     let r = await cli(['analyse', ragged, '--trace', 'B', '--out', out]);
@@ -215,27 +236,21 @@ describe('names, folders and traces', () => {
     r = await cli(['analyse', ragged, '--trace-index', '0', '--out', out]);
     expect(r.code, r.stderr).toBe(0);
     expect(readdirSync(out)).toContain('ragged_A-summary.json');
+    // The sentences themselves: job.test.ts (chooseTraces).
     r = await cli(['analyse', ragged, '--trace', 'C', '--out', fresh()]);
     expect(r.code).toBe(1);
-    expect(r.stderr).toContain(`${ragged}: no trace is named "C"; the file holds "A", "B". Name one of them with --trace`);
-    r = await cli(['analyse', ragged, '--trace-index', '2', '--out', fresh()]);
-    expect(r.code).toBe(1);
-    expect(r.stderr).toMatch(/--trace-index 2 is past the end; the file holds 2 traces/);
+    expect(r.stderr).toContain(`tracewright: ${ragged}: no trace is named "C"`);
   });
 
-  test('numbers that read two ways: the file fails naming --delimiter and --decimal; either option settles it', async () => {
+  test('numbers that read two ways: status 1 (the sentence: job.test.ts, loadForRun); --decimal settles it', async () => {
     const file = join(work, 'squares.csv');
     writeFileSync(file, '0,1\n1,4\n2,9\n3,16\n4,25\n5,36\n');
     let r = await cli(['analyse', file, '--out', fresh()]);
     expect(r.code).toBe(1);
-    expect(r.stderr).toContain(`${file}, line 1: Line 1 reads as comma, decimal point (2 columns: 0 | 1) or as semicolon, decimal comma (1 column: 0.1), and nothing in the file tells which. Say which with --delimiter (, ; tab or space) or --decimal (point or comma).`);
-    const out = fresh();
-    r = await cli(['analyse', file, '--decimal', 'comma', '--out', out, '--json']);
+    expect(r.stderr).toContain(`tracewright: ${file}, line 1: Line 1 reads as comma, decimal point`);
+    r = await cli(['analyse', file, '--decimal', 'comma', '--out', fresh(), '--json']);
     expect(r.code, r.stderr).toBe(0);
     expect(JSON.parse(r.stdout).points.in).toBe(6);
-    r = await cli(['analyse', file, '--delimiter', ',', '--out', fresh(), '--json']);
-    expect(r.code, r.stderr).toBe(0);
-    expect(JSON.parse(r.stdout).units).toEqual({ x: '', y: '' });
   });
 
   test('an output never replaces an input of the run', async () => {
