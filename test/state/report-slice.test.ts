@@ -33,6 +33,15 @@ describe('report slice', () => {
     expect(app.getState().handReasons.at(-1)!.reason).toHaveLength(FIELD_MAX_CHARS);
   });
 
+  it('typing a reason leaves the decisions alone (the same object: no new analysis is asked for)', () => {
+    const app = createAppStore();
+    app.getState().addPeakAt(2);
+    const decisions = app.getState().decisions;
+    app.getState().setHandReason('added', 2, 'shoulder on the main peak');
+    expect(app.getState().decisions).toBe(decisions);
+    expect(app.getState().handReasons).toEqual([{ kind: 'added', x: 2, reason: 'shoulder on the main peak' }]);
+  });
+
   it('the hand change waiting for its reason is set and cleared', () => {
     const app = createAppStore();
     expect(app.getState().lastHandChange).toBeNull();

@@ -260,18 +260,4 @@ describe('issue 17: report fields, hand-change reasons and hand-set start and en
     expect(odd && odd.ok && odd.snapshot.reportFields).toEqual({ analyst: '', sample: '', instrument: '', run: 'r1' });
     expect(odd && odd.ok && odd.snapshot.handReasons).toEqual([{ kind: 'added', x: 5.004, reason: 'shoulder' }]);
   });
-
-  test('the store asks for a reason after each hand change; removing an added peak drops its reason; typing a reason leaves the decisions alone', () => {
-    const store = createAppStore();
-    store.getState().addPeakAt(2);
-    expect(store.getState().lastHandChange).toEqual({ kind: 'added', x: 2 });
-    const decisions = store.getState().decisions;
-    store.getState().setHandReason('added', 2, 'shoulder on the main peak');
-    expect(store.getState().decisions).toBe(decisions);
-    expect(store.getState().handReasons).toEqual([{ kind: 'added', x: 2, reason: 'shoulder on the main peak' }]);
-    store.getState().removePeakAt(2);
-    expect(store.getState().handReasons).toEqual([]);
-    store.getState().setPeakBounds(3, 3.2, 2.8);
-    expect(store.getState().lastHandChange).toEqual({ kind: 'bounds', x: 3 });
-  });
 });
