@@ -19,6 +19,20 @@ export async function trace(page: Page, name: string): Promise<PlottedTrace | un
 export async function openWithDemo(page: Page): Promise<void> {
   const errors: string[] = [];
   page.on('pageerror', (e) => errors.push(String(e)));
+  // A passive trail of button presses and file offers, read only when an export press goes silent (exportFile).
+  await page.addInitScript(() => {
+    const trail: string[] = [];
+    (window as unknown as { __exportTrail: string[] }).__exportTrail = trail;
+    const offer = HTMLAnchorElement.prototype.click;
+    HTMLAnchorElement.prototype.click = function (this: HTMLAnchorElement) {
+      trail.push(`${performance.now().toFixed(0)} ms: file offered ${this.download || '(no name)'}`);
+      return offer.call(this);
+    };
+    document.addEventListener('click', (e) => {
+      const t = e.target as HTMLElement;
+      if (t instanceof HTMLButtonElement) trail.push(`${performance.now().toFixed(0)} ms: press ${t.dataset.testid ?? t.textContent} (disabled ${t.disabled})`);
+    }, true);
+  });
   await page.goto('/');
   await expect.poll(async () => (await trace(page, 'processed'))?.x.length ?? 0, { timeout: 20_000 }).toBeGreaterThan(100);
   await expect(page.getByRole('heading', { name: /demo-sample\.csv/ })).toBeVisible();
@@ -57,7 +71,9 @@ export async function exportFile(page: Page, testId: string): Promise<{ d: Downl
     const first = await Promise.race([waiting.then(() => 'download' as const), asked(15_000)]);
     if (first === 'dialog') await dialog.getByRole('button', { name: 'Export anyway' }).click();
     if (first !== 'nothing') return { d: await waiting, confirmed: first === 'dialog' };
-    console.warn(`[e2e] ${testId}: no download and no loss dialog 15 s after press ${attempt}; pressing again`);
+    const trail = await page.evaluate(() => (window as unknown as { __exportTrail?: string[] }).__exportTrail?.slice(-8) ?? []);
+    const busy = await page.locator('[aria-label="computing"]').count();
+    console.warn(`[e2e] ${testId}: no download and no loss dialog 15 s after press ${attempt}; pressing again. Busy marks: ${busy}. Last events in the page:\n  ${trail.join('\n  ')}`);
   }
   throw new Error(`${testId}: two presses started no download and no loss dialog`);
 }
