@@ -1,14 +1,8 @@
-// The sped-up smoothing kernels (folded Savitzky–Golay weights with four
-// outputs per pass; moving average with a TwoSum running sum refreshed in
-// blocks) against straightforward loops written here from the definitions:
-//  - Savitzky–Golay: out[i] = Σₖ c[k]·y[i + k − h] with the centre weights of
-//    savgolCoefficients (Savitzky & Golay 1964, Anal. Chem. 36:1627), samples
-//    beyond the ends by SciPy's ndimage padding rules (SciPy reference guide,
-//    scipy.ndimage "mode"), and for 'interp' the end window's fit evaluated at
-//    the outer points (SciPy savgol_filter documentation);
-//  - moving average: the plain mean of the padded or shrunk window.
-// Lengths are chosen to cross the 4-output groups, the 4096-point blocks and
-// the cases where the window is longer than the data.
+// The sped-up moving-average kernel (a TwoSum running sum refreshed in blocks)
+// against the plain mean of the padded or shrunk window, written here from the
+// definition. Lengths cross the 4096-point blocks and the cases where the window
+// is longer than the data. (The Savitzky–Golay half of this file moved to
+// test/core/numeric/savgol.test.ts.)
 //
 // Tolerance: the fast and naive sums round differently; each differs from the
 // exact sum by at most about w·ε·Σ|terms| (Higham 2002, Accuracy and Stability
@@ -17,7 +11,6 @@
 import { describe, expect, it } from 'vitest';
 import { makeRng } from '../../../src/core/numeric/random.ts';
 import { padIndex } from '../../../src/core/numeric/convolve.ts';
-import { savgolCoefficients, savitzkyGolay, type SavgolMode } from '../../../src/core/numeric/savgol.ts';
 import { movingAverage, type MovingAverageEdge } from '../../../src/core/steps/moving-average.ts';
 
 function signal(n: number, seed: number): Float64Array {
@@ -26,32 +19,6 @@ function signal(n: number, seed: number): Float64Array {
   // A drift far from zero plus noise and a few tall spikes, so sums cancel and rounding shows.
   for (let i = 0; i < n; i++) y[i] = 50 + 0.01 * i + rng.normal() + (rng.uniform() < 0.01 ? 1e3 * rng.uniform() : 0);
   return y;
-}
-
-function naiveSavgol(y: Float64Array, w: number, order: number, deriv: number, mode: SavgolMode, cval: number): { out: Float64Array; scale: Float64Array } {
-  const n = y.length, h = (w - 1) / 2;
-  const out = new Float64Array(n), scale = new Float64Array(n);
-  const c = savgolCoefficients(w, order, deriv);
-  for (let i = 0; i < n; i++) {
-    let s = 0, a = 0;
-    if (mode === 'interp' && (i < h || i > n - 1 - h)) {
-      // The fit to the first (last) w points, evaluated at this point.
-      const left = i < h;
-      const base = left ? 0 : n - w;
-      const ce = savgolCoefficients(w, order, deriv, i - base);
-      for (let k = 0; k < w; k++) { s += ce[k] * y[base + k]; a += Math.abs(ce[k] * y[base + k]); }
-    } else {
-      for (let k = 0; k < w; k++) {
-        const j = mode === 'interp' ? i + k - h : padIndex(i + k - h, n, mode);
-        const v = j < 0 ? cval : y[j];
-        s += c[k] * v;
-        a += Math.abs(c[k] * v);
-      }
-    }
-    out[i] = s;
-    scale[i] = a;
-  }
-  return { out, scale };
 }
 
 function naiveMovingAverage(y: Float64Array, w: number, edge: MovingAverageEdge): { out: Float64Array; scale: Float64Array } {
@@ -83,42 +50,6 @@ function worst(fast: Float64Array, ref: { out: Float64Array; scale: Float64Array
 }
 
 const REL = 1e-12;
-
-describe('savitzkyGolay (folded interior) equals the direct correlation', () => {
-  const modes: SavgolMode[] = ['interp', 'mirror', 'nearest', 'constant', 'wrap'];
-  const shapes: [number, number, number][] = [[5, 2, 0], [7, 3, 1], [25, 2, 0], [25, 4, 2], [31, 3, 1], [101, 6, 0], [201, 3, 3]];
-  for (const [w, order, deriv] of shapes) {
-    for (const mode of modes) {
-      it(`window ${w}, order ${order}, derivative ${deriv}, ${mode}`, () => {
-        for (const n of [w, w + 1, w + 2, w + 3, w + 4, 9001]) {
-          const y = signal(n, 1000 * w + n);
-          const copy = Float64Array.from(y);
-          const fast = savitzkyGolay(y, w, order, { deriv, mode, cval: 2.5 });
-          expect(worst(fast, naiveSavgol(y, w, order, deriv, mode, 2.5))).toBeLessThan(REL);
-          expect(y).toEqual(copy);
-        }
-      });
-    }
-    it(`window ${w}, order ${order}, derivative ${deriv}: data shorter than the window, padded modes`, () => {
-      for (const n of [1, 2, 3, Math.max(1, w - 2)]) {
-        const y = signal(n, 7 * n + w);
-        for (const mode of ['mirror', 'nearest', 'constant', 'wrap'] as const) {
-          const fast = savitzkyGolay(y, w, order, { deriv, mode, cval: -1 });
-          expect(worst(fast, naiveSavgol(y, w, order, deriv, mode, -1))).toBeLessThan(REL);
-        }
-      }
-    });
-  }
-
-  it('divides by the sample spacing once per derivative order', () => {
-    const y = signal(3000, 5);
-    const fast = savitzkyGolay(y, 11, 3, { deriv: 1, delta: 0.25 });
-    const ref = naiveSavgol(y, 11, 3, 1, 'interp', 0);
-    for (let i = 0; i < y.length; i++) {
-      expect(Math.abs(fast[i] - ref.out[i] / 0.25)).toBeLessThan(REL * ref.scale[i] / 0.25);
-    }
-  });
-});
 
 describe('movingAverage (block running sum) equals the plain window mean', () => {
   const edges: MovingAverageEdge[] = ['shrink', 'mirror', 'repeat', 'reflect'];
