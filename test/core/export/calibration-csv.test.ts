@@ -28,3 +28,15 @@ describe('calibration CSVs and the report\'s equation', () => {
     expect(Math.abs((a.amount as number) - 2.5)).toBeLessThan(0.05);
   });
 });
+
+describe('the CSVs read back', () => {
+  test('with semicolons and decimal commas every amount reads back to the same number (full precision)', () => {
+    const csv = amountsCsv(exp, { delimiter: ';', decimal: ',' });
+    const line = csv.split('\r\n').find((l) => l.startsWith('sample.csv;A;'))!;
+    const cells = line.split(';');
+    const a = exp.samples[0].amounts[0];
+    expect(Number(cells[5].replace(',', '.'))).toBe(a.amount);
+    expect(Number(cells[6].replace(',', '.'))).toBe(a.interval!.low);
+    expect(Number(cells[7].replace(',', '.'))).toBe(a.interval!.high);
+  });
+});

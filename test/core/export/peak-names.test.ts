@@ -5,8 +5,10 @@
  */
 import { describe, expect, test } from 'vitest';
 import { emptyNamedPeakTable } from '../../../src/core/calibration/named-peaks.ts';
-import { namedPeakLines, withNameColumn } from '../../../src/core/export/peak-names.ts';
-import { samples } from '../calibration/wiring-fixture.ts';
+import { namedPeakLines, peakNamingOf, withNameColumn } from '../../../src/core/export/peak-names.ts';
+import { defaultAnalysis, emptyRecipe } from '../../../src/core/method.ts';
+import type { Peak } from '../../../src/core/measure/peak-types.ts';
+import { named, samples } from '../calibration/wiring-fixture.ts';
 
 describe('names in the exports', () => {
   test('a name column after "peak #", and the found and missing named peaks in words', () => {
@@ -19,5 +21,17 @@ describe('names in the exports', () => {
     expect(lines.at(-1)).toBe('Missing named peaks: B.');
     expect(namedPeakLines(null, '')).toEqual([]);
     expect(emptyNamedPeakTable().peaks).toEqual([]);
+  });
+});
+
+describe('peakNamingOf', () => {
+  test('no naming without a named-peak table; with one, the peak inside A\'s window (1 ± 0.2) is A and B is missing', () => {
+    const peaks = [{ x: 1.05, height: 2, area: 3 }, { x: 5, height: 1, area: 1 }] as unknown as Peak[];
+    expect(peakNamingOf(undefined, peaks)).toBeNull();
+    expect(peakNamingOf(emptyRecipe(), peaks)).toBeNull();
+    const method = { ...emptyRecipe(), analysis: { ...defaultAnalysis(), namedPeaks: named } };
+    const naming = peakNamingOf(method, peaks)!;
+    expect(withNameColumn([['peak #', 'apex'], [1, 1.05], [2, 5]], naming)).toEqual([['peak #', 'name', 'apex'], [1, 'A', 1.05], [2, '', 5]]);
+    expect(naming.missing).toEqual(['B']);
   });
 });
