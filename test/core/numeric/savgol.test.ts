@@ -5,7 +5,7 @@
 // test/reference/make_smoothing.py (smoothing.json), ml-savitzky-golay 5.0.0 in
 // the interior, and a direct correlation written here from the definition.
 // (Cases moved here from test/core/steps/savitzky-golay.test.ts and
-// test/core/numeric/kernels-fast.test.ts.)
+// test/core/steps/moving-average-kernel.test.ts.)
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import mlSavitzkyGolay from 'ml-savitzky-golay';
@@ -169,7 +169,7 @@ describe('properties', () => {
   });
 });
 
-// Direct-correlation check (moved from kernels-fast.test.ts): the sped-up kernel
+// Direct-correlation check (moved from the former test/core/numeric/kernels-fast.test.ts): the sped-up kernel
 //  - Savitzky–Golay: out[i] = Σₖ c[k]·y[i + k − h] with the centre weights of
 //    savgolCoefficients (Savitzky & Golay 1964, Anal. Chem. 36:1627), samples
 //    beyond the ends by SciPy's ndimage padding rules (SciPy reference guide,

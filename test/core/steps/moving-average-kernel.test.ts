@@ -1,7 +1,7 @@
 // The sped-up moving-average kernel (a TwoSum running sum refreshed in blocks)
 // against the plain mean of the padded or shrunk window, written here from the
 // definition. Lengths cross the 4096-point blocks and the cases where the window
-// is longer than the data. (The Savitzky–Golay half of this file moved to
+// is longer than the data. (Was test/core/numeric/kernels-fast.test.ts; its Savitzky–Golay half moved to
 // test/core/numeric/savgol.test.ts.)
 //
 // Tolerance: the fast and naive sums round differently; each differs from the
