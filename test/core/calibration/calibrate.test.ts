@@ -10,57 +10,14 @@ import { calibrate, quantifySamples } from '../../../src/core/calibration/calibr
 import type { TracePeaks } from '../../../src/core/calibration/calibrate.ts';
 import { calibrationExport, calibrationExportJson } from '../../../src/core/calibration/export.ts';
 import { predictAmount } from '../../../src/core/calibration/inverse.ts';
-import { amountLimits } from '../../../src/core/calibration/limits.ts';
 import { emptyNamedPeakTable } from '../../../src/core/calibration/named-peaks.ts';
 import type { PeakLike } from '../../../src/core/calibration/named-peaks.ts';
-import { fitCurve, responseSdAt } from '../../../src/core/calibration/regression.ts';
-import type { CurveFit, CurveModel } from '../../../src/core/calibration/regression.ts';
 import { defaultCalibrationSettings } from '../../../src/core/calibration/settings.ts';
 import type { CalibrationSettings } from '../../../src/core/calibration/settings.ts';
 import { readStandardsCsv } from '../../../src/core/calibration/standards.ts';
 import { CAUTION } from '../../../src/core/export/version.ts';
 
-function fitOk(x: number[], y: number[], model: CurveModel): CurveFit {
-  const r = fitCurve(x, y, model);
-  if (!r.ok) throw new Error(r.problem);
-  return r.fit;
-}
 
-describe('limits in amount (ICH Q2(R1) §6.3, §7.3)', () => {
-  const x = [1, 1, 2, 2, 4, 4, 8, 8];
-  const y = [2.1, 1.9, 4.05, 3.9, 8.2, 7.9, 16.1, 15.8];
-
-  it('straight line: DL = 3.3 s/b and QL = 10 s/b with the residual SD; with the intercept\'s SD when chosen', () => {
-    const fit = fitOk(x, y, { kind: 'line', throughOrigin: false, weighting: 'none' });
-    const r = amountLimits(fit, 'residual');
-    if (!r.ok) throw new Error(r.problem);
-    expect(r.limits.detection).toBeCloseTo((3.3 * fit.residualSd) / fit.coefficients[1], 14);
-    expect(r.limits.quantitation).toBeCloseTo((10 * fit.residualSd) / fit.coefficients[1], 14);
-    expect(r.limits.method).toMatch(/ICH Q2\(R1\)/);
-    const i = amountLimits(fit, 'intercept');
-    if (!i.ok) throw new Error(i.problem);
-    expect(i.limits.sigma).toBe(fit.standardErrors[0]);
-    expect(i.limits.notes[0]).toMatch(/standing in for the SD of the intercepts/);
-  });
-
-  it('through the origin there is no intercept SD, and the message says what to choose instead', () => {
-    const fit = fitOk(x, y, { kind: 'line', throughOrigin: true, weighting: 'none' });
-    expect(amountLimits(fit, 'intercept')).toEqual({ ok: false, problem: expect.stringMatching(/choose the residual standard deviation/) });
-  });
-
-  it('weighted: σ is the response SD at the lowest standard; quadratic: S is the slope there', () => {
-    const w = fitOk(x, y, { kind: 'line', throughOrigin: false, weighting: '1/x2' });
-    const r = amountLimits(w, 'residual');
-    if (!r.ok) throw new Error(r.problem);
-    expect(r.limits.sigma).toBeCloseTo(responseSdAt(w, 1), 14);
-    expect(r.limits.sigma).toBeCloseTo(w.residualSd * Math.sqrt(w.weightScale * 1), 14);
-    const q = fitOk(x, y, { kind: 'quadratic', throughOrigin: false, weighting: 'none' });
-    const rq = amountLimits(q, 'residual');
-    if (!rq.ok) throw new Error(rq.problem);
-    expect(rq.limits.slope).toBeCloseTo(q.coefficients[1] + 2 * q.coefficients[2] * 1, 12);
-    expect(rq.limits.slopeAt).toBe(1);
-  });
-});
 
 // Invented peak tables: "A" near 4.3 min with area 0.4 per unit amount (+ noise), "IS" at 6 min
 // (area 1.0 in every trace), an unnamed peak at 7 min.

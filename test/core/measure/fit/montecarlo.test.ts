@@ -6,10 +6,10 @@
 // single Gaussian at S/N 10 +0.001 %; area SD / RMS of the reported SEs 0.95, 1.02 and 1.07;
 // second peak wrongly chosen for the S/N 100 Gaussian in 2 of 200.
 import { describe, expect, it } from 'vitest';
-import { comparePeakCounts } from '../../../src/core/measure/fit/count.ts';
-import { fitRegion } from '../../../src/core/measure/fit/region.ts';
-import { FWHM_PER_SIGMA, GAUSS_AREA, SHAPES } from '../../../src/core/measure/fit/shapes.ts';
-import { makeRng } from '../../../src/core/numeric/random.ts';
+import { comparePeakCounts } from '../../../../src/core/measure/fit/count.ts';
+import { fitRegion } from '../../../../src/core/measure/fit/region.ts';
+import { FWHM_PER_SIGMA, GAUSS_AREA, SHAPES } from '../../../../src/core/measure/fit/shapes.ts';
+import { makeRng } from '../../../../src/core/numeric/random.ts';
 
 const N = 500;
 const x = Float64Array.from({ length: N }, (_, i) => 3 + i * 0.01);

@@ -2,9 +2,9 @@
 // standard errors (sqrt of the diagonal of pcov, absolute_sigma=False) and the areas' standard
 // errors by the delta method, all within 1e-4 relative. Values from test/reference/make_fit.py.
 import { describe, expect, it } from 'vitest';
-import { fitRegion } from '../../../src/core/measure/fit/region.ts';
-import { SHAPES } from '../../../src/core/measure/fit/shapes.ts';
-import { fitRef, relErr } from './ref.ts';
+import { fitRegion } from '../../../../src/core/measure/fit/region.ts';
+import { SHAPES } from '../../../../src/core/measure/fit/shapes.ts';
+import { fitRef, relErr } from '../ref.ts';
 
 describe(`region fit equals scipy.optimize.curve_fit (SciPy ${fitRef.scipy}, NumPy ${fitRef.numpy})`, () => {
   for (const c of fitRef.cases) {

@@ -1,11 +1,15 @@
+// Region fits (src/core/measure/fit/region.ts); moved from fit-noiseless.test.ts, with the correlation
+// time from fit-count.test.ts.
 // Noiseless sums of peak shapes on a sloped baseline must be recovered exactly (to 1e-6 relative):
 // the model is exact, so any larger error is the solver's. Overlaps are set by the pharmacopoeial
 // resolution from half-height widths, Rs = 1.18 Δt / (W₀.₅,₁ + W₀.₅,₂) (USP <621>, Ph. Eur. 2.2.46).
 import { describe, expect, it } from 'vitest';
-import { fitRegion } from '../../../src/core/measure/fit/region.ts';
-import type { PeakStart } from '../../../src/core/measure/fit/region.ts';
-import { SHAPES } from '../../../src/core/measure/fit/shapes.ts';
-import type { ShapeKind } from '../../../src/core/measure/fit/shapes.ts';
+import { correlationTime, fitRegion } from '../../../../src/core/measure/fit/region.ts';
+import type { PeakStart } from '../../../../src/core/measure/fit/region.ts';
+import { SHAPES } from '../../../../src/core/measure/fit/shapes.ts';
+import { normalArray } from '../../../../src/core/numeric/random.ts';
+import { movingAverage } from '../../../../src/core/steps/moving-average.ts';
+import type { ShapeKind } from '../../../../src/core/measure/fit/shapes.ts';
 
 const x = Float64Array.from({ length: 801 }, (_, i) => 2 + i * 0.01); // 2 … 10 min
 const LINE = { b0: 0.35, slope: 0.04 }; // y = 0.35 + 0.04 (x − 6): sloped under the peaks
@@ -111,5 +115,14 @@ describe('region fit: input the user can get wrong gives a message, not an excep
     bad[300] = NaN;
     const out = fitRegion(x, bad, { from: 2, to: 10 });
     expect(out).toEqual({ ok: false, message: expect.stringMatching(/Point 301/) });
+  });
+});
+
+describe('correlation time of residuals (Geyer 1992 initial positive sequence)', () => {
+  it('white noise ≈ 1; a k-point moving average of white noise ≈ k (τ = (Σc)²/Σc²)', () => {
+    const e = normalArray(42, 20000);
+    expect(correlationTime(e)).toBeLessThan(1.2);
+    for (const k of [5, 15]) expect(correlationTime(movingAverage(e, k)) / k).toBeGreaterThan(0.8);
+    for (const k of [5, 15]) expect(correlationTime(movingAverage(e, k)) / k).toBeLessThan(1.2);
   });
 });

@@ -1,10 +1,10 @@
 // Traces the fit was not designed around: a long region under a strong curved drift, a band wider
 // than the region, correlated (AR(1)) noise on the raw trace. Seeded noise (src/core/numeric/random.ts).
 import { describe, expect, it } from 'vitest';
-import { comparePeakCounts, supportedPeakCount } from '../../../src/core/measure/fit/count.ts';
-import { fitRegion } from '../../../src/core/measure/fit/region.ts';
-import { SHAPES } from '../../../src/core/measure/fit/shapes.ts';
-import { makeRng } from '../../../src/core/numeric/random.ts';
+import { comparePeakCounts, supportedPeakCount } from '../../../../src/core/measure/fit/count.ts';
+import { fitRegion } from '../../../../src/core/measure/fit/region.ts';
+import { SHAPES } from '../../../../src/core/measure/fit/shapes.ts';
+import { makeRng } from '../../../../src/core/numeric/random.ts';
 
 describe('robustness', () => {
   it('20 000 points under a quadratic drift 20× the peak height: both peaks found, left to right, within 5 SE', () => {

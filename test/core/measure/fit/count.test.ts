@@ -1,12 +1,10 @@
-// Peak-count choice (BIC, Schwarz 1978) and the across-processing helper. Seeded noise
+// Peak-count choice (BIC, Schwarz 1978) (src/core/measure/fit/count.ts); the across-processing
+// helper is tested in processing.test.ts, the correlation time in region.test.ts. Seeded noise
 // (src/core/numeric/random.ts); region of 500 points, Gaussians of σ = 0.1 (FWHM 0.2355).
 import { describe, expect, it } from 'vitest';
-import { comparePeakCounts, supportedPeakCount } from '../../../src/core/measure/fit/count.ts';
-import { peakCountAcrossProcessing } from '../../../src/core/measure/fit/processing.ts';
-import { correlationTime } from '../../../src/core/measure/fit/region.ts';
-import { FWHM_PER_SIGMA, SHAPES } from '../../../src/core/measure/fit/shapes.ts';
-import { makeRng, normalArray } from '../../../src/core/numeric/random.ts';
-import { movingAverage } from '../../../src/core/steps/moving-average.ts';
+import { comparePeakCounts, supportedPeakCount } from '../../../../src/core/measure/fit/count.ts';
+import { FWHM_PER_SIGMA, SHAPES } from '../../../../src/core/measure/fit/shapes.ts';
+import { makeRng } from '../../../../src/core/numeric/random.ts';
 
 const N = 500;
 const x = Float64Array.from({ length: N }, (_, i) => 3 + i * 0.01);
@@ -23,14 +21,6 @@ const SHOULDER: [number, number][] = [
   [5.52, 0.3],
 ];
 
-describe('correlation time of residuals (Geyer 1992 initial positive sequence)', () => {
-  it('white noise ≈ 1; a k-point moving average of white noise ≈ k (τ = (Σc)²/Σc²)', () => {
-    const e = normalArray(42, 20000);
-    expect(correlationTime(e)).toBeLessThan(1.2);
-    for (const k of [5, 15]) expect(correlationTime(movingAverage(e, k)) / k).toBeGreaterThan(0.8);
-    for (const k of [5, 15]) expect(correlationTime(movingAverage(e, k)) / k).toBeLessThan(1.2);
-  });
-});
 
 describe('k versus k + 1 peaks', () => {
   it('a clear shoulder: two peaks supported, with the criterion named and F / AIC as figures', () => {
@@ -87,46 +77,6 @@ describe('k versus k + 1 peaks', () => {
   });
 });
 
-describe('does each processing still support the same number of peaks?', () => {
-  it('plain BIC on a 7-point average over-counts; with n/τ it keeps the raw count (20 seeds)', () => {
-    let sameRaw = 0;
-    let sameAvg = 0;
-    let plainWouldAdd = 0;
-    for (let seed = 1; seed <= 20; seed++) {
-      const y = trace(SHOULDER, 0.03, 100 + seed);
-      const r = peakCountAcrossProcessing(x, [{ label: 'raw', y }, { label: '7-point average', y: movingAverage(y, 7), noiseCorrelationTime: 7 }], {
-        from: 3,
-        to: 8,
-      });
-      if (r.rows[0].count === 2) sameRaw++;
-      if (r.rows[1].count === 2) sameAvg++;
-      // The step that stopped the count: would the plain BIC (all n points independent) have gone on?
-      const last = r.rows[1].result?.comparisons.at(-1);
-      if (last && !last.supported && last.deltaBicPlain < 0) plainWouldAdd++;
-    }
-    // Measured with these seeds: 19/20 keep 2 peaks with n/τ; the plain BIC would add a third in 20/20.
-    expect(plainWouldAdd).toBeGreaterThanOrEqual(10);
-    expect(sameRaw).toBe(20);
-    expect(sameAvg).toBeGreaterThanOrEqual(18);
-  });
-  it('a version that lost the shoulder is named in the ledger sentence', () => {
-    const y = trace(SHOULDER, 0.03, 9);
-    // Stand-in for a processing that erased the shoulder: the same noise, the shoulder left out.
-    const lost = trace([SHOULDER[0]], 0.03, 9);
-    const r = peakCountAcrossProcessing(x, [{ label: 'raw', y }, { label: 'shoulder-erasing step', y: lost }], { from: 3, to: 8 });
-    expect(r.referenceCount).toBe(2);
-    expect(r.rows[1].count).toBe(1);
-    expect(r.fewer).toEqual(['shoulder-erasing step']);
-    expect(r.rows[1].statement).toBe('2 peaks supported by the fit on raw, not after shoulder-erasing step (1).');
-    expect(r.summary).toBe('2 peaks supported by the fit on raw, not after shoulder-erasing step (1).');
-  });
-  it('a version on another grid, or one that cannot be fitted, gets a message, not an exception', () => {
-    const y = trace(SHOULDER, 0.03, 10);
-    const r = peakCountAcrossProcessing(x, [{ label: 'raw', y }, { label: 'resampled', y: y.slice(0, 250) }], { from: 3, to: 8 });
-    expect(r.rows[1].count).toBeNull();
-    expect(r.rows[1].statement).toMatch(/not on the same x grid/);
-  });
-});
 
 describe('every fit says how it was made', () => {
   it('the method names the solver, baseline, region and where the starting peaks came from', () => {

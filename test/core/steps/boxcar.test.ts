@@ -1,6 +1,5 @@
 import { describe, expect, it } from 'vitest';
 import { boxcarAverage, boxcarStep } from '../../../src/core/steps/boxcar.ts';
-import { resampleLinear, resampleStep } from '../../../src/core/steps/resample.ts';
 import { normalArray } from '../../../src/core/numeric/random.ts';
 
 describe('boxcarAverage', () => {
@@ -63,30 +62,35 @@ describe('boxcar step', () => {
   });
 });
 
-describe('resample', () => {
-  it('onto evenly spaced points from the first to the last x, by straight lines', () => {
-    const x = Float64Array.from([0, 1, 3, 4, 10]);
-    const y = Float64Array.from([0, 2, 6, 8, 20]); // y = 2x: linear interpolation is exact
-    const r = resampleLinear(x, y, 11);
-    for (let i = 0; i < 11; i++) {
-      expect(r.x[i]).toBeCloseTo(i, 14);
-      expect(r.y[i]).toBeCloseTo(2 * i, 13);
-    }
-    expect(r.x[10]).toBe(10);
+describe('boxcarAverage contract', () => {
+  it('leaves its input unchanged and refuses bad sizes, unequal lengths and a group larger than the data', () => {
+    const x = Float64Array.from({ length: 10 }, (_, i) => i);
+    const y = x.map((v) => v * v);
+    const xc = Float64Array.from(x), yc = Float64Array.from(y);
+    boxcarAverage(x, y, 3, 'keep');
+    expect(x).toEqual(xc);
+    expect(y).toEqual(yc);
+    expect(() => boxcarAverage(x, y, 0)).toThrow(/≥ 1/);
+    expect(() => boxcarAverage(x, y, 2.5)).toThrow(/whole number/);
+    expect(() => boxcarAverage(x, y, 11)).toThrow(/larger than the data/);
+    expect(() => boxcarAverage(x, y.slice(1), 2)).toThrow(RangeError);
+    expect(() => boxcarAverage(x, y, 2, 'wrap' as never)).toThrow(/drop or keep/);
   });
 
-  it('step defaults to the input length and then reads as even', () => {
-    const x = Float64Array.from({ length: 50 }, (_, i) => i + 0.3 * Math.sin(i));
-    const y = x.map((v) => Math.cos(v / 7));
-    const p = resampleStep.defaults;
-    expect(resampleStep.validate(p, { x, y }, {})).toBeNull();
-    const out = resampleStep.apply({ x, y }, p, {});
-    expect(out.x.length).toBe(50);
-    const step = (out.x[49] - out.x[0]) / 49;
-    for (let i = 1; i < 50; i++) expect(out.x[i] - out.x[i - 1]).toBeCloseTo(step, 12);
-    expect(out.notes[0]).toMatch(/50 points interpolated onto 50 evenly spaced points/);
-    expect(resampleStep.validate({ points: 3 }, { x, y }, {})).toMatch(/at least 5/);
-    expect(resampleStep.validate({ points: -4 }, { x, y }, {})).toMatch(/negative/);
-    expect(resampleStep.validate({ points: 2.5 }, { x, y }, {})).toMatch(/whole number/);
+  it('groups of 1 return the data; one group of n returns the mean (definition)', () => {
+    const x = Float64Array.of(1, 2, 4, 8), y = Float64Array.of(3, -1, 5, 9);
+    const one = boxcarAverage(x, y, 1);
+    expect(Array.from(one.y)).toEqual([3, -1, 5, 9]);
+    const all = boxcarAverage(x, y, 4);
+    expect(Array.from(all.x)).toEqual([15 / 4]);
+    expect(Array.from(all.y)).toEqual([4]);
+  });
+
+  it('validate refuses non-numbers, fractions, huge groups and unknown tails', () => {
+    const x = Float64Array.from({ length: 40 }, (_, i) => i), y = new Float64Array(40);
+    expect(boxcarStep.validate({ size: NaN, tail: 'drop' }, { x, y }, {})).toMatch(/not a number/);
+    expect(boxcarStep.validate({ size: 2.5, tail: 'drop' }, { x, y }, {})).toMatch(/whole number/);
+    expect(boxcarStep.validate({ size: 41, tail: 'drop' }, { x, y }, {})).toMatch(/larger than the trace/);
+    expect(boxcarStep.validate({ size: 2, tail: 'wrap' as never }, { x, y }, {})).toMatch(/drop or keep/);
   });
 });

@@ -4,21 +4,21 @@
 // recover the truth within the reported standard errors (3 SE, about 99.7 % for a normal estimate).
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { supportedPeakCount } from '../../../src/core/measure/fit/count.ts';
-import { chromatographicFigures } from '../../../src/core/measure/figures.ts';
-import { FWHM_PER_SIGMA, GAUSS_AREA } from '../../../src/core/measure/fit/shapes.ts';
+import { supportedPeakCount } from '../../../../src/core/measure/fit/count.ts';
+import { chromatographicFigures } from '../../../../src/core/measure/figures.ts';
+import { FWHM_PER_SIGMA, GAUSS_AREA } from '../../../../src/core/measure/fit/shapes.ts';
 
 interface Truth {
   noiseSd: number;
   drift: { c0: number; c1: number; c2: number };
   peaks: { label: string; centre: number; height: number; sigma: number }[];
 }
-const truth = JSON.parse(readFileSync(new URL('../../../public/demo/demo-truth.json', import.meta.url), 'utf8')) as Truth;
+const truth = JSON.parse(readFileSync(new URL('../../../../public/demo/demo-truth.json', import.meta.url), 'utf8')) as Truth;
 
 function readDemo(name: string): { x: Float64Array; y: Float64Array } {
   const xs: number[] = [];
   const ys: number[] = [];
-  for (const line of readFileSync(new URL(`../../../public/demo/${name}`, import.meta.url), 'utf8').split(/\r?\n/)) {
+  for (const line of readFileSync(new URL(`../../../../public/demo/${name}`, import.meta.url), 'utf8').split(/\r?\n/)) {
     const m = /^\s*(-?[\d.]+)\s*,\s*(-?[\d.]+)\s*$/.exec(line);
     if (m) {
       xs.push(Number(m[1]));

@@ -1,5 +1,7 @@
+// The analysis entry point (src/core/analysis/index.ts): analyse and applyStage
+// (this file was analysis.test.ts; the staged run is tested in staged.test.ts).
 import { describe, expect, it } from 'vitest';
-import { analyse } from '../../../src/core/analysis/index.ts';
+import { analyse, applyStage } from '../../../src/core/analysis/index.ts';
 import { PipelineCache } from '../../../src/core/pipeline.ts';
 import { makeRecipeStep, emptyRecipe } from '../../../src/core/method.ts';
 import { STEP_REGISTRY, stepDefinition } from '../../../src/core/steps/registry.ts';
@@ -75,5 +77,22 @@ describe('analyse on extreme values', () => {
     expect(r.noise!.sigma.sigma).toBe(0);
     expect(r.peaks).toEqual([]);
     expect(r.peakProblem).toMatch(/noise is zero/);
+  });
+});
+
+describe('applyStage', () => {
+  it('folds a patch into a new object, keeping the identity of fields the stage did not set; another sample starts afresh', () => {
+    const first = applyStage(null, { stage: 'processed', sampleId: 's', patch: { ms: 1 }, pending: ['residual'] });
+    expect(first.sampleId).toBe('s');
+    expect(first.peaks).toEqual([]);
+    const peaks = first.peaks;
+    const second = applyStage(first, { stage: 'noise', sampleId: 's', patch: { ms: 2 }, pending: [] });
+    expect(second).not.toBe(first);
+    expect(second.ms).toBe(2);
+    expect(second.peaks).toBe(peaks);
+    expect(first.ms).toBe(1);
+    const other = applyStage(second, { stage: 'processed', sampleId: 't', patch: {}, pending: [] });
+    expect(other.sampleId).toBe('t');
+    expect(other.ms).toBe(0);
   });
 });

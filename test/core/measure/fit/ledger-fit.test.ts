@@ -8,14 +8,14 @@
  * 0.235, on a sloped baseline with seeded noise σ 0.03.
  */
 import { describe, expect, it } from 'vitest';
-import { runFitJob } from '../../../src/core/measure/fit/job.ts';
-import { ledgerFitLines, ledgerFitNote } from '../../../src/core/measure/fit/ledger-fit.ts';
-import { FWHM_PER_SIGMA, SHAPES } from '../../../src/core/measure/fit/shapes.ts';
-import { makeRng } from '../../../src/core/numeric/random.ts';
-import { reportHtml } from '../../../src/core/export/report-html.ts';
-import { emptyRecipe } from '../../../src/core/method.ts';
-import { STEP_REGISTRY } from '../../../src/core/steps/registry.ts';
-import { analysed, inventedTrace } from '../export/helpers.ts';
+import { runFitJob } from '../../../../src/core/measure/fit/job.ts';
+import { ledgerFitLines, ledgerFitNote } from '../../../../src/core/measure/fit/ledger-fit.ts';
+import { FWHM_PER_SIGMA, SHAPES } from '../../../../src/core/measure/fit/shapes.ts';
+import { makeRng } from '../../../../src/core/numeric/random.ts';
+import { reportHtml } from '../../../../src/core/export/report-html.ts';
+import { emptyRecipe } from '../../../../src/core/method.ts';
+import { STEP_REGISTRY } from '../../../../src/core/steps/registry.ts';
+import { analysed, inventedTrace } from '../../export/helpers.ts';
 
 const x = Float64Array.from({ length: 500 }, (_, i) => 3 + i * 0.01);
 function trace(peaks: [number, number][], seed: number): Float64Array {
