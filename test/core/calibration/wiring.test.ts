@@ -1,6 +1,6 @@
 /**
- * Issue 21 wiring helpers: which standards row a trace is, the page's edits
- * of the amounts table, the name column of the exports, and the calibration
+ * Issue 21 wiring helpers: which standards row a trace is (the page's edits
+ * of the amounts table are in test/ui/calibration/standards-edit.test.ts), the name column of the exports, and the calibration
  * CSVs and report section drawn from one calibration of the demo standards
  * (the numbers themselves are checked against references in
  * calibrate.test.ts and regression.test.ts; here: that every figure reaches
@@ -16,7 +16,6 @@ import { standardKeyOf, traceKeys } from '../../../src/core/calibration/trace-ke
 import { amountsCsv, calibrationTableCsv } from '../../../src/core/export/calibration-csv.ts';
 import { namedPeakLines, withNameColumn } from '../../../src/core/export/peak-names.ts';
 import { curveEquation } from '../../../src/core/export/report-calibration.ts';
-import { emptyStandards, withAmount, withUnit } from '../../../src/ui/calibration/standards-edit.ts';
 
 const named = (() => { const r = readNamedPeaksCsv('name,position,window\nA,1,0.2\nB,2,0.2\n', 't.csv'); if (!r.ok) throw new Error(); return r.table; })();
 const amounts = (() => { const r = readStandardsCsv('standard,A (mg/L),B (mg/L)\ns1.csv,1,2\ns2.csv,1,2\ns3.csv,2,4\ns4.csv,2,4\ns5.csv,4,8\ns6.csv,4,8\n', 'a.csv'); if (!r.ok) throw new Error(); return r.table; })();
@@ -37,18 +36,6 @@ describe('which standards row a trace is', () => {
     expect(standardKeyOf(trace, { ...amounts, rows: [{ standard: 'run-07.csv', line: 2, amounts: [1, 1] }] })).toBe('run-07.csv');
     expect(standardKeyOf(trace, { ...amounts, rows: [{ standard: 'Absorbance', line: 2, amounts: [1, 1] }] })).toBe('Absorbance');
     expect(standardKeyOf(trace, null)).toBe('run-07.csv: Absorbance');
-  });
-});
-
-describe('the page\'s edits of the amounts table', () => {
-  test('a cell adds its row and column; a unit sets one column; the input is unchanged', () => {
-    const t0 = emptyStandards(['A']);
-    const t1 = withAmount(t0, 's1.csv', 'B', 2);
-    expect(t0.rows).toEqual([]);
-    expect(t1.names).toEqual(['A', 'B']);
-    expect(t1.rows).toEqual([{ standard: 's1.csv', line: null, amounts: [null, 2] }]);
-    expect(withAmount(t1, 's1.csv', 'B', null).rows[0].amounts).toEqual([null, null]);
-    expect(withUnit(t1, 'B', ' mg/L ').units).toEqual(['', 'mg/L']);
   });
 });
 

@@ -1,0 +1,48 @@
+// Shared set-up for the page's own test files (test/ui/**): the app's store
+// put back to its first state, the invented demo's sample (public/demo,
+// made by scripts/make-demo.mjs) loaded through the page's service and
+// analysed in this thread, and a component rendered to static markup
+// without a browser (react-dom/server).
+import { readFileSync } from 'node:fs';
+import { createElement, type FunctionComponent } from 'react';
+import { renderToStaticMarkup } from 'react-dom/server';
+import { useApp } from '../../src/state/store.ts';
+import { analyseTrace, getBackend, loadBytes } from '../../src/state/service.ts';
+
+export const demoBytes = (name: string): Uint8Array => new Uint8Array(readFileSync(new URL(`../../public/demo/${name}`, import.meta.url)));
+
+/** The app's store as it is when the page opens (replacing every field). */
+export function resetStore(): void {
+  useApp.setState(useApp.getInitialState(), true);
+}
+
+/** Load the demo sample (and optionally its blank) and put its whole analysis in the store. */
+export async function loadDemoSample(opts: { blank?: boolean } = {}): Promise<void> {
+  if (!await loadBytes(demoBytes('demo-sample.csv'), 'demo-sample.csv')) throw new Error('demo sample did not load');
+  if (opts.blank && !await loadBytes(demoBytes('demo-blank.csv'), 'demo-blank.csv', { roles: ['blank'] })) throw new Error('demo blank did not load');
+  await analyseNow();
+}
+
+/** Analyse the current sample with the store's settings and put the result in the store. */
+export async function analyseNow(): Promise<void> {
+  const s = useApp.getState();
+  if (!s.sampleId) throw new Error('no sample');
+  getBackend().setInputs(s.traces); // what the page's controller does when the traces change
+  const blank = s.traces.find((t) => s.roles[t.id] === 'blank');
+  const result = await analyseTrace({
+    sampleId: s.sampleId, blankId: blank?.id, scanIds: s.traces.filter((t) => s.roles[t.id] === 'scan').map((t) => t.id),
+    recipe: s.recipe, showUid: s.showUid, noise: s.noiseSettings, peaks: s.peakSettings, decisions: s.decisions,
+    alternatives: s.alternatives, ledgerNoiseLevel: s.ledgerNoiseLevel,
+  });
+  useApp.getState().setResult(result);
+}
+
+/** Static HTML of a component with props (what the page shows before any interaction). */
+export function html<P extends object>(c: FunctionComponent<P>, props: P = {} as P): string {
+  return renderToStaticMarkup(createElement(c, props));
+}
+
+/** The visible text of static markup: tags dropped, entities read, white space folded. */
+export function text(markup: string): string {
+  return markup.replace(/<[^>]+>/g, ' ').replace(/&amp;/g, '&').replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&#x27;/g, "'").replace(/\s+/g, ' ').trim();
+}
