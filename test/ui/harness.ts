@@ -4,7 +4,7 @@
 // analysed in this thread, and a component rendered to static markup
 // without a browser (react-dom/server).
 import { readFileSync } from 'node:fs';
-import { createElement, type FunctionComponent } from 'react';
+import { createElement, isValidElement, type FunctionComponent, type ReactElement, type ReactNode } from 'react';
 import { renderToStaticMarkup } from 'react-dom/server';
 import { useApp } from '../../src/state/store.ts';
 import { analyseTrace, getBackend, loadBytes } from '../../src/state/service.ts';
@@ -54,4 +54,56 @@ export function html<P extends object>(c: FunctionComponent<P>, props: P = {} as
 /** The visible text of static markup: tags dropped, entities read, white space folded. */
 export function text(markup: string): string {
   return markup.replace(/<[^>]+>/g, ' ').replace(/&amp;/g, '&').replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&#x27;/g, "'").replace(/\s+/g, ' ').trim();
+}
+
+/**
+ * The element tree a component returns for the store now, its hooks run in a
+ * probe rendered once. Its buttons' handlers are the component's own, so a
+ * test can press them (see {@link press}) without a browser; nested
+ * components stay unrendered elements in the tree.
+ */
+export function tree<P extends object>(c: (props: P) => ReactNode, props: P = {} as P): ReactNode {
+  let out: ReactNode = null;
+  const Probe = () => { out = c(props); return null; };
+  renderToStaticMarkup(createElement(Probe));
+  return out;
+}
+
+type El = ReactElement<Record<string, unknown> & { children?: ReactNode }>;
+
+/** Every element of a tree (depth first). */
+export function elements(node: ReactNode): El[] {
+  const out: El[] = [];
+  const walk = (n: ReactNode): void => {
+    if (Array.isArray(n)) { n.forEach(walk); return; }
+    if (!isValidElement(n)) return;
+    const e = n as El;
+    out.push(e);
+    walk(e.props.children);
+  };
+  walk(node);
+  return out;
+}
+
+/** The text inside an element of a tree (strings and numbers only). */
+export function textOf(node: ReactNode): string {
+  if (node === null || node === undefined || typeof node === 'boolean') return '';
+  if (typeof node === 'string' || typeof node === 'number') return String(node);
+  if (Array.isArray(node)) return node.map(textOf).join('');
+  if (isValidElement(node)) return textOf((node as El).props.children);
+  return '';
+}
+
+/** The button whose text (or aria-label) is `label`; throws when there is none, so a missing control fails the test. */
+export function button(node: ReactNode, label: string | RegExp): El {
+  const hit = elements(node).find((e) => e.type === 'button' && [textOf(e), String(e.props['aria-label'] ?? '')].some((t) => (typeof label === 'string' ? t === label : label.test(t))));
+  if (!hit) throw new Error(`no button ${String(label)}`);
+  return hit;
+}
+
+/** Press a button of the tree: its own onClick, with a stand-in event. */
+export function press(node: ReactNode, label: string | RegExp): void {
+  const b = button(node, label);
+  if (b.props.disabled) throw new Error(`button ${String(label)} is disabled`);
+  (b.props.onClick as (e: unknown) => void)({ preventDefault() {}, stopPropagation() {}, currentTarget: {}, target: {} });
 }
