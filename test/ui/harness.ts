@@ -51,9 +51,14 @@ export function html<P extends object>(c: FunctionComponent<P>, props: P = {} as
   return renderToStaticMarkup(createElement(c, props));
 }
 
-/** The visible text of static markup: tags dropped, entities read, white space folded. */
-export function text(markup: string): string {
-  return markup.replace(/<[^>]+>/g, ' ').replace(/&amp;/g, '&').replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&#x27;/g, "'").replace(/\s+/g, ' ').trim();
+/**
+ * The visible text of static markup: tags dropped (each as a space, or
+ * with `inline` the tags of running text (strong, em, code, kbd) as
+ * nothing), entities read, white space folded.
+ */
+export function text(markup: string, inline = false): string {
+  const m = inline ? markup.replace(/<\/?(strong|em|code|kbd)(\s[^>]*)?>/g, '') : markup;
+  return m.replace(/<[^>]+>/g, ' ').replace(/&amp;/g, '&').replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&#x27;/g, "'").replace(/\s+/g, ' ').trim();
 }
 
 /**
