@@ -25,7 +25,7 @@ function failed(props: { area: string; drawsSession?: boolean; actions?: ReactNo
 
 describe('ErrorBoundary', () => {
   it('without an error it shows its children unchanged', () => {
-    expect(renderToStaticMarkup(createElement(ErrorBoundary, { area: 'the plot' }, createElement('p', null, 'the part')))).toBe('<p>the part</p>');
+    expect(renderToStaticMarkup(createElement(ErrorBoundary, { area: 'the plot', children: createElement('p', null, 'the part') }))).toBe('<p>the part</p>');
   });
   it('after an error: an alert naming the part and the message, saying the data and the rest of the page are unaffected, with Try again', () => {
     const b = failed({ area: 'the peak table' }, new Error('Cannot read properties of undefined'));
