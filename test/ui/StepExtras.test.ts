@@ -1,5 +1,5 @@
 import { describe, expect, it, vi } from 'vitest';
-import type { PlotData, PlotLayout } from 'plotly.js-strict-dist-min';
+import type { PlotData } from 'plotly.js-strict-dist-min';
 import { StepExtras } from '../../src/ui/StepExtras.tsx';
 import { tree } from './harness.ts';
 
@@ -8,7 +8,7 @@ import { tree } from './harness.ts';
 // props handed to the plot component (nothing is drawn without a browser).
 vi.mock('plotly.js-strict-dist-min', () => ({ default: {} }));
 
-type Fig = { data: (PlotData & { x: number[]; y: (number | null)[] })[]; layout: PlotLayout & Record<string, Record<string, unknown>>; label: string } | null;
+type Fig = { data: (PlotData & { x: number[]; y: (number | null)[] })[]; layout: Record<string, Record<string, unknown>>; label: string } | null;
 const fig = (props: Parameters<typeof StepExtras>[0]): Fig => {
   const el = tree(StepExtras, props) as { props: Fig } | null;
   return el ? el.props : null;
