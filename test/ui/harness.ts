@@ -6,7 +6,9 @@
 import { readFileSync } from 'node:fs';
 import { createElement, isValidElement, type FunctionComponent, type ReactElement, type ReactNode } from 'react';
 import { renderToStaticMarkup } from 'react-dom/server';
+import type { Peak } from '../../src/core/measure/peak-types.ts';
 import { useApp } from '../../src/state/store.ts';
+import { emptyStandards, withAmount, withUnit } from '../../src/ui/calibration/standards-edit.ts';
 import { analyseTrace, getBackend, loadBytes } from '../../src/state/service.ts';
 
 export const demoBytes = (name: string): Uint8Array => new Uint8Array(readFileSync(new URL(`../../public/demo/${name}`, import.meta.url)));
@@ -111,4 +113,39 @@ export function press(node: ReactNode, label: string | RegExp): void {
   const b = button(node, label);
   if (b.props.disabled) throw new Error(`button ${String(label)} is disabled`);
   (b.props.onClick as (e: unknown) => void)({ preventDefault() {}, stopPropagation() {}, currentTarget: {}, target: {} });
+}
+
+/**
+ * Invented standards for the calibration panels: the demo sample, one named
+ * peak "Lagoon Blue" at its large peak (4.3 min), and four standards whose
+ * areas are 2 × amount plus a small made-up scatter. Returns the amounts and
+ * areas, for a least-squares line computed in the test itself.
+ */
+export async function calibrationSetup(): Promise<{ amounts: number[]; areas: number[] }> {
+  await loadDemoSample();
+  const s0 = useApp.getState();
+  s0.setNamedPeaks({ ...s0.namedPeaks, peaks: [{ name: 'Lagoon Blue', position: 4.3, window: 0.05 }], xUnit: 'min' });
+  s0.setCalibrationSettings({ model: 'line' });
+  const amounts = [1, 2, 4, 8];
+  const scatter = [0.01, -0.02, 0.015, -0.005];
+  const areas = amounts.map((a, i) => 2 * a + scatter[i]);
+  let table = withUnit(emptyStandards(['Lagoon Blue']), 'Lagoon Blue', 'mg/L');
+  for (let i = 0; i < amounts.length; i++) {
+    await loadBytes(demoBytes('demo-blank.csv'), `s${i + 1}.csv`, { roles: ['standard'], quiet: true });
+    table = withAmount(table, `s${i + 1}.csv`, 'Lagoon Blue', amounts[i]);
+  }
+  useApp.getState().setStandardsTable(table);
+  const s = useApp.getState();
+  const std = s.traces.filter((t) => s.roles[t.id] === 'standard');
+  useApp.getState().setStandardPeaks(Object.fromEntries(std.map((t, i) => [t.id, { ok: true as const, peaks: [{ x: 4.3, height: amounts[i], area: areas[i], fwhm: 0.2 } as unknown as Peak] }])));
+  return { amounts, areas };
+}
+
+/** Ordinary least-squares line y = a + b x with its residual SD (n − 2 degrees of freedom), from the textbook formulas. */
+export function olsLine(x: number[], y: number[]): { a: number; b: number; sy: number } {
+  const n = x.length, mx = x.reduce((s, v) => s + v, 0) / n, my = y.reduce((s, v) => s + v, 0) / n;
+  const sxx = x.reduce((s, v) => s + (v - mx) ** 2, 0), sxy = x.reduce((s, v, i) => s + (v - mx) * (y[i] - my), 0);
+  const b = sxy / sxx, a = my - b * mx;
+  const ssr = x.reduce((s, v, i) => s + (y[i] - a - b * v) ** 2, 0);
+  return { a, b, sy: Math.sqrt(ssr / (n - 2)) };
 }
