@@ -25,10 +25,11 @@ export function StepExtras({ extra, x, xUnit }: Props) {
   const fig = useMemo<{ data: PlotData[]; layout: PlotLayout; label: string } | null>(() => {
     if (extra.spectrumFreq && extra.spectrumBefore && extra.spectrumAfter) {
       const f = extra.spectrumFreq;
-      // The zero-frequency bin carries the mean, not noise; leave it out of a log axis.
-      const from = f.length > 1 ? f[1] : 0;
-      const b = decimateMinMax(f, extra.spectrumBefore, from, Infinity, 300);
-      const a = decimateMinMax(f, extra.spectrumAfter, from, Infinity, 300);
+      // The zero-frequency bin carries the mean, not noise; leave it out of a log axis
+      // (cut off before thinning: decimateMinMax keeps one point outside the x-range it is given).
+      const k = f.length > 1 ? 1 : 0;
+      const b = decimateMinMax(f.subarray(k), extra.spectrumBefore.subarray(k), -Infinity, Infinity, 300);
+      const a = decimateMinMax(f.subarray(k), extra.spectrumAfter.subarray(k), -Infinity, Infinity, 300);
       const pos = (v: Float64Array) => Array.from(v, (p) => (p > 0 ? p : null));
       return {
         label: 'Power spectrum before and after the frequency filter',
