@@ -30,7 +30,7 @@ import { movingAverage } from '../../src/core/steps/moving-average.ts';
 import { baselineAsls } from '../../src/core/steps/baseline.ts';
 import { defaultPeakOptions, detectPeaks } from '../../src/core/measure/peak-table.ts';
 import { findLocalMaxima, peakProminences, peakWidths, prominentMaxima } from '../../src/core/measure/peak-detection.ts';
-import { measureLocal, xAt } from '../../src/core/measure/peak-bounds.ts';
+import { locatingCopy, measureLocal, xAt } from '../../src/core/measure/peak-bounds.ts';
 import { noiseModel } from '../../src/core/measure/peak-snr.ts';
 import { loadFile, loadFileHashed } from '../../src/core/io/load.ts';
 import { parseDelimited } from '../../src/core/io/delimited.ts';
@@ -251,7 +251,7 @@ function peaksPrefilterFloor(t: BenchTrace) {
   const o = defaultPeakOptions(t.sigma, t.x[1] - t.x[0]);
   let keep = survivorsOf.get(t.y);
   if (!keep) {
-    const c0 = prominentMaxima(t.y, o.minProminence), ctx = { x: t.x, s: t.y, noise: noiseModel(t.y, o) };
+    const c0 = prominentMaxima(t.y, o.minProminence), ctx = { x: t.x, s: t.y, noise: noiseModel(t.y, o), loc: locatingCopy(t.y) };
     const k: number[] = [];
     for (let j = 0; j < c0.count; j++) {
       const m = measureLocal(ctx, c0.index[j], c0.halfWidth[j]);
@@ -260,7 +260,7 @@ function peaksPrefilterFloor(t: BenchTrace) {
     keep = Int32Array.from(k);
     survivorsOf.set(t.y, keep);
   }
-  const c = prominentMaxima(t.y, o.minProminence), ctx = { x: t.x, s: t.y, noise: noiseModel(t.y, o) };
+  const c = prominentMaxima(t.y, o.minProminence), ctx = { x: t.x, s: t.y, noise: noiseModel(t.y, o), loc: locatingCopy(t.y) };
   const out = [];
   for (const j of keep) out.push(measureLocal(ctx, c.index[j], c.halfWidth[j]));
   return { candidates: c.count, measured: out.length };

@@ -16,7 +16,7 @@ import { hampel, slidingMedian, type MedianEdge } from '../../src/core/numeric/s
 import { solveBandedSymmetric, whittaker } from '../../src/core/numeric/banded.ts';
 import { baselineAsls } from '../../src/core/steps/baseline.ts';
 import { findLocalMaxima, peakProminences, peakWidths, selectByDistance } from '../../src/core/measure/peak-detection.ts';
-import { hullUnder, lineAt } from '../../src/core/measure/peak-bounds.ts';
+import { hullUnder, lineAt, locatingCopy } from '../../src/core/measure/peak-bounds.ts';
 import { noiseModel } from '../../src/core/measure/peak-snr.ts';
 import { defaultPeakOptions } from '../../src/core/measure/peak-table.ts';
 
@@ -526,7 +526,7 @@ describe('the hull line under a peak (peak-bounds.ts, run once per candidate) eq
       for (let j = 1; j < n; j++) x[j] = x[j - 1] + steps[j];
       const lo = Math.min(a % n, b % n), hi = Math.max(a % n, b % n);
       const i = lo + (at % (hi - lo + 1));
-      const c = { x, s, noise: noiseModel(s, defaultPeakOptions(1)) };
+      const c = { x, s, noise: noiseModel(s, defaultPeakOptions(1)), loc: locatingCopy(s) };
       const copy = Float64Array.from(s);
       const line = { ...hullUnder(c, i, lo, hi, r) };
       expect(s).toEqual(copy);

@@ -32,6 +32,7 @@ MAX_PASSES = 2
 FLANK_RIDER_NARROWER = 10  # a bump on a flank rides only when this many times narrower (and sharing a valley
                            # would cut off more of the neighbour than the bump holds)
 APEX_HALF_WINDOW_MAX = 50
+LOC_MIN_WIDTH = 2         # rule 2b: narrower features keep their own crossings for the bounds walk
 SAME_TOP_SHARE = 0.25     # rule 6b: two maxima whose apexes lie this share of the narrower width apart are one top
 MIN_PROM, MIN_SNR, MIN_WIDTH, DL, QL = 2.0, 2.0, 2.5, 3.0, 10.0
 SIGMA = 1.0
@@ -283,12 +284,48 @@ class M:
     pass
 
 
+LOC = []  # the 3-point average of the trace being measured (rule 2b), set by table()
+
+
+def locating_copy(s):
+    """3-point centred average, the ends the 2-point average (locatingCopy in peak-bounds.ts)."""
+    n = len(s)
+    out = [(s[0] + s[1]) / 2] + [(s[k - 1] + s[k] + s[k + 1]) / 3 for k in range(1, n - 1)] + [(s[n - 2] + s[n - 1]) / 2]
+    return out
+
+
+def loc_crossings(m):
+    """Rule 2b: the bounds walk's half-widths from the half-height crossings of the 3-point average, at half its own
+    top (its highest sample within the raw crossings, one sample either side), never inside the raw crossings; raw on
+    a side where the copy rises above its top first, and for a feature under LOC_MIN_WIDTH samples."""
+    m.loc_l, m.loc_r = m.lip, m.rip
+    if m.rip - m.lip < LOC_MIN_WIDTH:
+        return
+    loc, l = LOC, m.line
+    a, b = max(m.start, math.floor(m.lip) - 1), min(m.end, math.ceil(m.rip) + 1)
+    top, v = m.i, loc[m.i] - at(l, m.i)
+    for j in range(a, b + 1):
+        w = loc[j] - at(l, j)
+        if w > v:
+            top, v = j, w
+    if not v > 0:
+        return
+    cl, cr = crossings(loc, l, top, v / 2, m.start, m.end)
+    if any(loc[j] - at(l, j) > v for j in range(top - 1, math.floor(cl), -1) if j > cl):
+        cl = m.lip
+    if any(loc[j] - at(l, j) > v for j in range(top + 1, math.ceil(cr)) if j < cr):
+        cr = m.rip
+    m.loc_l, m.loc_r = min(cl, m.lip), max(cr, m.rip)
+
+
 def shape(s, m, fw_guess):
     h0 = apex_level(s, m.line, m.i, fw_guess, m.xa)
     if h0 > 0:
         m.lip, m.rip = crossings(s, m.line, m.i, h0 / 2, m.start, m.end)
+        loc_crossings(m)
     else:
         m.lip = m.rip = float(m.i)
+        m.loc_l = m.loc_r = float(m.i)
     fw = m.rip - m.lip
     m.xa = apex_position(s, m.line, m.i, fw)
     m.h = apex_level(s, m.line, m.i, fw, m.xa)
@@ -298,7 +335,7 @@ def shape(s, m, fw_guess):
 def rewalk(s, m, left, right):
     n = len(s)
     i = m.i
-    hl, hr = max(i - m.lip, 0.5), max(m.rip - i, 0.5)
+    hl, hr = max(i - m.loc_l, 0.5), max(m.loc_r - i, 0.5)
     r = math.floor((hl + hr) / 4)
     sb = SIGMA / math.sqrt(2 * r + 1)
     capl, capr = max(2, math.ceil(WIDTH_LIMIT * hl)), max(2, math.ceil(WIDTH_LIMIT * hr))
@@ -321,6 +358,7 @@ def measure_local(s, i, wp):
     r0, f0, l0, f1, l1 = first_feet(s, i, fl, max(2, math.ceil(WIDTH_LIMIT * max(1.0, wp))))
     m = M()
     m.i, m.xa, m.h, m.lip, m.rip = i, float(i), 0.0, float(i), float(i)
+    m.loc_l, m.loc_r = float(i), float(i)
     m.start, m.end, m.sk, m.ek = f0, f1, 'valley', 'valley'
     m.line, m.box, m.split = line_through(f0, l0, f1, l1), r0, 'none'
     fw = shape(s, m, 2 * r0 + 1)
@@ -545,6 +583,8 @@ def share_valleys(s, ms, grouped):
 
 def table(s):
     """The rows' S/N for white noise s (x = sample index, sigma = 1), default settings."""
+    global LOC
+    LOC = locating_copy(s)
     peaks, _ = signal.find_peaks(s)
     prom, lb, rb = signal.peak_prominences(s, peaks)
     keep = prom >= MIN_PROM

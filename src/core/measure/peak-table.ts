@@ -11,7 +11,7 @@ import { lowerBound } from '../numeric/decimate.ts';
 import {
   keepByGap, peakWidths, prominentMaxima, prominenceWalk, checkPeaks, type ProminenceData,
 } from './peak-detection.ts';
-import { areaAbove, capBounds, lineAt, measureLocal, mergeShallow, ridersOf, shareValleys, xAt, type LocalMeasure, type MeasureContext } from './peak-bounds.ts';
+import { areaAbove, capBounds, locatingCopy, lineAt, measureLocal, mergeShallow, ridersOf, shareValleys, xAt, type LocalMeasure, type MeasureContext } from './peak-bounds.ts';
 import { noiseModel, pharmacopoeialNoise, regionSnr, snrFlag, snrRms } from './peak-snr.ts';
 import type { Peak, PeakDecisions, PeakMark, PeakOptions } from './peak-types.ts';
 
@@ -57,7 +57,7 @@ function detectionSignal(y: Float64Array, negative: boolean | undefined): Float6
 }
 
 function context(x: Float64Array, s: Float64Array, o: PeakOptions): MeasureContext {
-  return { x, s, noise: noiseModel(s, o) };
+  return { x, s, noise: noiseModel(s, o), loc: locatingCopy(s) };
 }
 
 /** S/N of the definition in use from a local measure, before the row is made (for the thresholds). */

@@ -67,7 +67,7 @@ describe(`the demo generator over ${SEEDS} seeds: mean area against the truth (d
     expect(Math.abs(p.area / t.area - 1 - drop.shoulder_drop_relative_error)).toBeLessThan(0.005);
   });
 
-  it('raw trace, the S/N 4.4 shoulder: what is and is not met (the issue asks 10 % for the mean of every find)', () => {
+  it('raw trace, the S/N 4.4 shoulder: mean area of every find within 10 % of the truth (the issue\'s check below S/N 10)', () => {
     const r = meanAreaErrors((y) => y).find((q) => q.peak.label === 'shoulder')!;
     const main = r.tables.map((tb) => tb.find((p) => Math.abs(p.x - 6) < 0.05)!);
     const mainTrue = 3 * 0.1 * Math.sqrt(2 * Math.PI); // demo-truth.json: height 3, σ 0.1
@@ -80,22 +80,20 @@ describe(`the demo generator over ${SEEDS} seeds: mean area against the truth (d
     expect(main.every((p) => p !== undefined), what).toBe(true);
     // The valley to the main peak is 62 % of the shoulder's height (make_demo_shoulder.py), 1.75 noise σ deep: the
     // shoulder's own SciPy prominence on the raw samples passes the smallest prominence (2σ) in under half the seeds
-    // (measured 90 of 200). Where it is not listed the main peak's bounds take it in: its area then holds both,
-    // within 3 % (measured −0.6 %; −1.2 % before the same-top rule, when seed 67 split the main peak's top in two
-    // rows).
+    // (measured 86 of 200). Where it is not listed the main peak's bounds take it in: its area then holds both,
+    // within 3 % (measured −0.5 %).
     expect(r.found, what).toBeGreaterThan(0.3 * SEEDS);
     expect(Math.abs(mean(mainWhenMissing)), what).toBeLessThan(0.03);
-    // Finds not marked thinly sampled: within the issue's 10 % of the truth (measured −5.1 %) and of the noiseless
-    // drop-line share (+3.0 %, make_demo_shoulder.py).
+    // The issue's check: the mean over every find within 10 % of the truth. Measured −4.7 % over 86 finds (78 not
+    // marked thinly sampled at −1.8 %, 8 thin at −33.6 %), since the bounds walk takes its half-widths from the
+    // crossings of a 3-point average (rule 2b in peak-bounds.ts); before that rule −17.8 % over 90 (66 at −5.1 %,
+    // 24 thin noise fragments of the top at −52.5 %), which this fails.
+    expect(Math.abs(r.mean), what).toBeLessThan(0.1);
+    // Finds not marked thinly sampled: within 10 % of the truth and of the noiseless drop-line share (+3.0 %,
+    // make_demo_shoulder.py); most finds are not thin.
     expect(plain.length, what).toBeGreaterThan(0.6 * r.found);
     expect(Math.abs(mean(plain)), what).toBeLessThan(0.1);
     expect(Math.abs((1 + mean(plain)) / (1 + drop.shoulder_drop_relative_error) - 1), what).toBeLessThan(0.1);
-    // Known, not met: the mean of every find is −17.8 % (measured), not within 10 %. About a quarter of the finds
-    // (24 of 90) are a noise fragment of the shoulder's top: a half-height width of 2.5–4 samples (the shoulder's is
-    // 12–14), so its bounds and the level beyond them lie on the shoulder itself (−52 % on average). They carry the
-    // "thinly sampled" mark in the table. Not the perpendicular drop (+3.0 % by construction, above). A 3-point
-    // average brings every find within 10 % (next test). This bound only keeps the known figure from growing.
-    expect(Math.abs(r.mean), what).toBeLessThan(0.2);
   }, 120_000);
 
   it('every row of every seed, raw and after a 3-point average: area above its own line positive; each true peak at S/N ≥ 10 listed once', () => {
@@ -120,7 +118,7 @@ describe(`the demo generator over ${SEEDS} seeds: mean area against the truth (d
     }
   }, 120_000);
 
-  it('after a 3-point average (noise correlation ρ₁ = 2/3, ρ₂ = 1/3 given): within 3 % at S/N ≥ 10 and within 10 % below', () => {
+  it('after a 3-point average (noise correlation ρ₁ = 2/3, ρ₂ = 1/3 given): within 3 % at S/N ≥ 10 and within 10 % below (the shoulder: measured +0.0 % over 157 finds)', () => {
     for (const r of meanAreaErrors((y) => movingAverage(y, 3), [1, 2 / 3, 1 / 3])) {
       expect(Math.abs(r.mean), r.peak.label).toBeLessThan(r.peak.trueSn >= 10 ? 0.03 : 0.1);
     }
