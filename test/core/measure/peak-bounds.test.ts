@@ -13,6 +13,7 @@ import {
   halfCrossings,
   lineAt,
   lineThrough,
+  locatingCopy,
   measureLocal,
   xAt,
   type MeasureContext,
@@ -88,7 +89,7 @@ describe('measureLocal on a noiseless Gaussian (σ_peak = 20 samples, h = 7)', (
 
   function measured(baseline: (xv: number) => number) {
     const s = Float64Array.from(x, (v, i) => gauss(i) + baseline(v));
-    const c: MeasureContext = { x, s, noise: noiseModel(s, defaultPeakOptions(1e-6, 0.5)) };
+    const c: MeasureContext = { x, s, noise: noiseModel(s, defaultPeakOptions(1e-6, 0.5)), loc: locatingCopy(s) };
     const before = Float64Array.from(s);
     const m = measureLocal(c, 300, 2 * Math.sqrt(2 * Math.LN2) * sigma);
     expect(s).toEqual(before);
@@ -121,7 +122,7 @@ describe('measureLocal on a noiseless Gaussian (σ_peak = 20 samples, h = 7)', (
   it('a valley between two Gaussians stops the bound there (kind "valley")', () => {
     // Second Gaussian 10σ away: the walk meets its flank and stops at the lowest point between them.
     const s = Float64Array.from(x, (_, i) => gauss(i) + h * Math.exp(-0.5 * ((i - centre - 10 * sigma / 2) / (sigma / 2)) ** 2));
-    const c: MeasureContext = { x, s, noise: noiseModel(s, defaultPeakOptions(1e-6, 0.5)) };
+    const c: MeasureContext = { x, s, noise: noiseModel(s, defaultPeakOptions(1e-6, 0.5)), loc: locatingCopy(s) };
     const m = measureLocal(c, 300, 2 * Math.sqrt(2 * Math.LN2) * sigma);
     expect(m.endKind).toBe('valley');
     let lowest = 300;
