@@ -1,4 +1,4 @@
-import { Fragment, useState, type ReactNode } from 'react';
+import { Fragment, useEffect, useState, type ReactNode } from 'react';
 import { useShallow } from 'zustand/react/shallow';
 import type { Peak, PeakMark } from '../core/measure/peak-types.ts';
 import { noiseBumpSentence } from '../core/measure/noise-bumps.ts';
@@ -12,6 +12,7 @@ import { FigureControls, usePeakExtras } from './fit/peak-extras.tsx';
 import { withCurrent } from '../state/selectors.ts';
 import { xUnits } from '../core/units.ts';
 import { DISPLAY_CAPS } from '../state/display-caps.ts';
+import { peakTableRows, tableTotals } from '../worker/peak-rank.ts';
 
 
 /** One column of the peak table (issue 17); `fixed` columns are always shown. */
@@ -43,14 +44,19 @@ const MARK_SHORT: Record<PeakMark, string> = {
 const snrOf = (p: Peak) => p.snr ?? -Infinity;
 
 /**
- * At most DISPLAY_CAPS.peakRows rows: the user's decisions always, then the highest S/N
- * (never the first by position: on a long noisy trace those are noise).
+ * A long table is drawn in two pieces (issue 16): the first rows with the new result (the
+ * scrolled box shows about 18), the rest in a task of their own right after, so the page never
+ * lays out 500 new rows in the task that also redraws the plot (Plotly reads the figure's size
+ * there, which lays out the whole page). Never a mix: rows past the first wait empty meanwhile.
+ * (Drawing the rest 80 rows per task was slower: every piece laid the whole table out again.)
  */
-function pickRows(all: readonly Peak[]): Peak[] {
-  const mine = (p: Peak) => p.origin === 'added-by-user' || p.removedByUser === true;
-  const rest = all.filter((p) => !mine(p)).sort((a, b) => snrOf(b) - snrOf(a));
-  return [...all.filter(mine), ...rest].slice(0, DISPLAY_CAPS.peakRows);
-}
+const FIRST_ROWS = 40;
+
+/**
+ * The scrolled boxes of long tables are skipped by layout and paint while off screen
+ * (`content-visibility: auto`), at the height they last had (`contain-intrinsic-size: auto`).
+ */
+export const OFFSCREEN_SKIPPED = { contentVisibility: 'auto', containIntrinsicSize: 'auto 420px' } as const;
 
 /** The peak table: a real table with headers; a click on a row zooms to the peak. */
 export function PeakTable() {
@@ -75,27 +81,36 @@ export function PeakTable() {
     try { localStorage.setItem(COLUMNS_KEY, JSON.stringify(next)); } catch { /* not remembered where storage is blocked */ }
   };
   const toggleRow = (key: string) => setOpenRows((old) => { const n = new Set(old); if (n.has(key)) n.delete(key); else n.add(key); return n; });
+  const [piece, setPiece] = useState({ seq: -1, rows: FIRST_ROWS });
+  const drawnRows = piece.seq === resultSeq ? piece.rows : FIRST_ROWS;
   const names = useNameOfPeak(); // issue 21
   const extras = usePeakExtras(); // issue 18: optional figure and fitted-area columns
+  const rowCount = result ? Math.min(result.peaks.length, DISPLAY_CAPS.peakRows) : 0;
+  useEffect(() => {
+    if (drawnRows >= rowCount) return;
+    const id = setTimeout(() => setPiece({ seq: resultSeq, rows: rowCount }), 0);
+    return () => clearTimeout(id);
+  }, [drawnRows, rowCount, resultSeq]);
   if (!result || !sample) return null;
   const all = result.peaks;
   // A long noisy trace can hold thousands of candidates; the page shows at most DISPLAY_CAPS.peakRows (the user's decisions and
   // the highest S/N), ordered by S/N when capped unless the user asks for position. The peak CSV holds every one.
   const capped = all.length > DISPLAY_CAPS.peakRows;
   const order = orderChoice ?? (capped ? 'snr' : 'x');
-  const shown = capped ? pickRows(all) : all.slice();
+  // The user's decisions and the highest S/N, ranked by the worker (worker/peak-rank.ts).
+  const shown = capped ? peakTableRows(all, DISPLAY_CAPS.peakRows).slice() : all.slice();
   const peaks = order === 'snr' ? shown.sort((a, b) => snrOf(b) - snrOf(a) || a.x - b.x) : shown.sort((a, b) => a.x - b.x);
   const def = result.peakOptions?.snrDefinition ?? 'rms';
   const xu = sample.xUnit ? ` (${sample.xUnit})` : '';
   const yu = sample.yUnit ? ` (${sample.yUnit})` : '';
   // Issue 17: the area's unit is y-unit × x-unit.
   const areaUnit = sample.yUnit || sample.xUnit ? ` (${sample.yUnit || 'y-units'}·${sample.xUnit || 'x-units'})` : '';
-  const counts = { q: 0, d: 0, b: 0 };
-  for (const p of all) if (!p.removedByUser) { if (p.flag === 'quantifiable') counts.q++; else if (p.flag === 'detectable') counts.d++; else counts.b++; }
+  // Counted over every row (by the worker when it sent them: the page then reads only the rows shown).
+  const totals = tableTotals(all);
+  const counts = { q: totals.quantifiable, d: totals.detectable, b: totals.below };
   const lim = result.peakOptions?.limits;
   // Issue 17: area % of the summed area of every kept peak (the CSV-wide total, not only the rows shown).
-  let totalArea = 0;
-  for (const p of all) if (!p.removedByUser) totalArea += p.area;
+  const totalArea = totals.area;
   const removeThis = (p: Peak) => removePeakAt(p.origin === 'added-by-user' ? decisions.added.reduce((best, a) => (Math.abs(a - p.x) < Math.abs(best - p.x) ? a : best), decisions.added[0]) : p.x);
   // Issue 17: columns as a list; the optional ones can be shown or hidden (remembered), the hidden ones are in each row's details.
   const columns: PeakColumn[] = [
@@ -136,7 +151,7 @@ export function PeakTable() {
   const visible = columns.filter(isShown);
   const hiddenCols = columns.filter((c) => !isShown(c));
   return (
-    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq} data-provisional={provisional || bumpsPending ? 'true' : undefined} data-snr-provisional={snrWaiting ? 'true' : undefined}>
+    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq} data-provisional={provisional || bumpsPending ? 'true' : undefined} data-snr-provisional={snrWaiting ? 'true' : undefined} data-rows-pending={drawnRows < peaks.length ? 'true' : undefined}>
       <div className="panel-head">
         <h2 id="peaks-title">Peaks</h2>
         <div className="row">
@@ -177,7 +192,7 @@ export function PeakTable() {
           </fieldset>
         </details>
       </div>
-      <div className="table-wrap" tabIndex={0} role="region" aria-label="Peak table (scrolls)">
+      <div className="table-wrap" style={OFFSCREEN_SKIPPED} tabIndex={0} role="region" aria-label="Peak table (scrolls)">
         <table className="data peaks" data-testid="peak-table">
           <caption className="sr-only">Peaks found on the {result.peakOptions ? 'measured' : ''} trace with their measures; S/N by {SNR_NAME[def]}</caption>
           <thead>
@@ -187,7 +202,7 @@ export function PeakTable() {
             </tr>
           </thead>
           <tbody>
-            {peaks.map((p, i) => {
+            {peaks.slice(0, drawnRows).map((p, i) => {
               const key = `${p.index}-${p.origin}-${p.removedByUser ? 'r' : 'k'}`;
               const open = openRows.has(key);
               return (
