@@ -21,6 +21,7 @@ import type { FitJobOutcome, FitRequest } from './fit-job.ts';
 import { macrotask, runStages } from './stager.ts';
 import { lazyRows } from './transfer.ts';
 import { rememberPeakView } from './peak-rank.ts';
+import { ledgerFromColumns } from './ledger-columns.ts';
 import type { Peak } from '../core/measure/peak-types.ts';
 import type { Signal } from '../core/steps/types.ts';
 import type { Drawn, FarSeries, NearestPoint, View } from './series.ts';
@@ -102,7 +103,9 @@ class WorkerChannel {
     if (msg.type === 'progress') { job.onProgress?.(msg.progress); return; }
     if (msg.type === 'stage') {
       // Rows are made as they are read (the table's shown rows, the plot's markers: the worker ranked them).
-      const update = msg.peakColumns ? { ...msg.update, patch: { ...msg.update.patch, peaks: lazyRows<Peak>(msg.peakColumns) } } : msg.update;
+      let update = msg.peakColumns ? { ...msg.update, patch: { ...msg.update.patch, peaks: lazyRows<Peak>(msg.peakColumns) } } : msg.update;
+      const loss = update.patch.loss;
+      if (msg.ledgerColumns && loss) update = { ...update, patch: { ...update.patch, loss: { ...loss, ledger: ledgerFromColumns(msg.ledgerColumns) } } };
       if (msg.peakView && update.patch.peaks) rememberPeakView(update.patch.peaks, msg.peakView);
       if (msg.far) markFar(update.patch, msg.far);
       job.onStage?.(update);
