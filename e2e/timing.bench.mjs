@@ -20,8 +20,6 @@
 //                           new result (data-drawn on the figure, set once Plotly has drawn it)
 //   slider_to_peaks_ms      … → the first frame after the peak table shows it (data-result-seq)
 //   slider_to_loss_ms       … → the first frame after the loss panel shows it (data-result-seq)
-//   slider_to_all_rows_ms   … → the first frame after the peak table's last row shows it too (a long table is
-//                           drawn in pieces after its first rows: no data-rows-pending on the panel); printed last
 //   longest_task_ms         the longest main-thread task (longtask observer) during the moves
 //   heap_mb                 after the moves: JS heap in use plus array-buffer and external-string
 //                           storage (CDP Runtime.getHeapUsage: usedSize + backingStorageSize) of the
@@ -203,9 +201,7 @@ async function moveSlider({ value, timeoutMs }) {
       for (const [name, [sel, attr]] of Object.entries(targets)) {
         if (got[name] === undefined && w.__seq(sel, attr) > before[name]) got[name] = Math.max(0, frameTime - t0);
       }
-      // A long peak table is drawn in pieces after its first rows (PeakTable.tsx): when its last row shows too.
-      if (got.peaks !== undefined && got.allRows === undefined && !document.querySelector('[data-testid="peak-panel"][data-rows-pending]')) got.allRows = Math.max(0, frameTime - t0);
-      if (Object.keys(got).length === 4) resolve();
+      if (Object.keys(got).length === 3) resolve();
       else if (performance.now() - t0 > timeoutMs) reject(new Error(`not everything was redrawn within ${timeoutMs / 1000} s (${JSON.stringify(got)})`));
       else requestAnimationFrame(tick);
     };
@@ -334,7 +330,7 @@ async function main() {
       const idle = await page.evaluate(waitIdle, 300_000);
       const m = await page.evaluate(moveSlider, { value, timeoutMs: 300_000 });
       moves.push(m);
-      console.log(`  move to ${value} points (idle after ${idle.toFixed(0)} ms): processed ${m.processed.toFixed(0)} ms, peaks ${m.peaks.toFixed(0)} ms (all rows ${m.allRows.toFixed(0)} ms), loss ${m.loss.toFixed(0)} ms, longest task ${m.longest.toFixed(0)} ms${m.seqAfter - m.seqBefore !== 1 ? ` (${m.seqAfter - m.seqBefore} results arrived)` : ''}`);
+      console.log(`  move to ${value} points (idle after ${idle.toFixed(0)} ms): processed ${m.processed.toFixed(0)} ms, peaks ${m.peaks.toFixed(0)} ms, loss ${m.loss.toFixed(0)} ms, longest task ${m.longest.toFixed(0)} ms${m.seqAfter - m.seqBefore !== 1 ? ` (${m.seqAfter - m.seqBefore} results arrived)` : ''}`);
       if (cdp && k === 0) {
         const { profile } = await cdp.send('Profiler.stop');
         console.log('  main thread during the first slider move, top self time:');
@@ -351,7 +347,7 @@ async function main() {
     console.log('the worker posts processed, peaks and loss as separate stages: each figure is when the page shows that part of the new value.');
     console.log(`Chromium ${version}, node ${process.version}, ${new Date().toISOString()}, LOAD end ${loadavg().map((v) => v.toFixed(2)).join(' ')}`);
     if (errors.length) console.log(`page errors: ${errors.join(' | ')}`);
-    console.log(`TIMING points=${o.rows} load_to_drawn_ms=${loadMs.toFixed(0)} slider_to_processed_ms=${med('processed').toFixed(0)} slider_to_peaks_ms=${med('peaks').toFixed(0)} slider_to_loss_ms=${med('loss').toFixed(0)} longest_task_ms=${longest.toFixed(0)} heap_mb=${(heap.bytes / 1048576).toFixed(0)} slider_to_all_rows_ms=${med('allRows').toFixed(0)}`);
+    console.log(`TIMING points=${o.rows} load_to_drawn_ms=${loadMs.toFixed(0)} slider_to_processed_ms=${med('processed').toFixed(0)} slider_to_peaks_ms=${med('peaks').toFixed(0)} slider_to_loss_ms=${med('loss').toFixed(0)} longest_task_ms=${longest.toFixed(0)} heap_mb=${(heap.bytes / 1048576).toFixed(0)}`);
   } finally {
     if (browser) await browser.close();
     try { process.kill(-server.pid, 'SIGTERM'); } catch { /* already gone */ }

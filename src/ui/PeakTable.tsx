@@ -1,4 +1,4 @@
-import { Fragment, useEffect, useState, type ReactNode } from 'react';
+import { Fragment, useState, type ReactNode } from 'react';
 import { useShallow } from 'zustand/react/shallow';
 import type { Peak, PeakMark } from '../core/measure/peak-types.ts';
 import { noiseBumpSentence } from '../core/measure/noise-bumps.ts';
@@ -44,15 +44,6 @@ const MARK_SHORT: Record<PeakMark, string> = {
 const snrOf = (p: Peak) => p.snr ?? -Infinity;
 
 /**
- * A long table is drawn in two pieces (issue 16): the first rows with the new result (the
- * scrolled box shows about 18), the rest in a task of their own right after, so the page never
- * lays out 500 new rows in the task that also redraws the plot (Plotly reads the figure's size
- * there, which lays out the whole page). Never a mix: rows past the first wait empty meanwhile.
- * (Drawing the rest 80 rows per task was slower: every piece laid the whole table out again.)
- */
-const FIRST_ROWS = 40;
-
-/**
  * The scrolled boxes of long tables are skipped by layout and paint while off screen
  * (`content-visibility: auto`), at the height they last had (`contain-intrinsic-size: auto`).
  */
@@ -81,16 +72,8 @@ export function PeakTable() {
     try { localStorage.setItem(COLUMNS_KEY, JSON.stringify(next)); } catch { /* not remembered where storage is blocked */ }
   };
   const toggleRow = (key: string) => setOpenRows((old) => { const n = new Set(old); if (n.has(key)) n.delete(key); else n.add(key); return n; });
-  const [piece, setPiece] = useState({ seq: -1, rows: FIRST_ROWS });
-  const drawnRows = piece.seq === resultSeq ? piece.rows : FIRST_ROWS;
   const names = useNameOfPeak(); // issue 21
   const extras = usePeakExtras(); // issue 18: optional figure and fitted-area columns
-  const rowCount = result ? Math.min(result.peaks.length, DISPLAY_CAPS.peakRows) : 0;
-  useEffect(() => {
-    if (drawnRows >= rowCount) return;
-    const id = setTimeout(() => setPiece({ seq: resultSeq, rows: rowCount }), 0);
-    return () => clearTimeout(id);
-  }, [drawnRows, rowCount, resultSeq]);
   if (!result || !sample) return null;
   const all = result.peaks;
   // A long noisy trace can hold thousands of candidates; the page shows at most DISPLAY_CAPS.peakRows (the user's decisions and
@@ -151,7 +134,7 @@ export function PeakTable() {
   const visible = columns.filter(isShown);
   const hiddenCols = columns.filter((c) => !isShown(c));
   return (
-    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq} data-provisional={provisional || bumpsPending ? 'true' : undefined} data-snr-provisional={snrWaiting ? 'true' : undefined} data-rows-pending={drawnRows < peaks.length ? 'true' : undefined}>
+    <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq} data-provisional={provisional || bumpsPending ? 'true' : undefined} data-snr-provisional={snrWaiting ? 'true' : undefined}>
       <div className="panel-head">
         <h2 id="peaks-title">Peaks</h2>
         <div className="row">
@@ -202,7 +185,7 @@ export function PeakTable() {
             </tr>
           </thead>
           <tbody>
-            {peaks.slice(0, drawnRows).map((p, i) => {
+            {peaks.map((p, i) => {
               const key = `${p.index}-${p.origin}-${p.removedByUser ? 'r' : 'k'}`;
               const open = openRows.has(key);
               return (
