@@ -9,7 +9,6 @@ import { ALTERNATIVE_COLOURS } from './palette.ts';
 import { MAX_ALTERNATIVES } from '../core/analysis/index.ts';
 import { currentResult } from '../state/selectors.ts';
 import { DISPLAY_CAPS } from '../state/display-caps.ts';
-import { OFFSCREEN_SKIPPED } from './PeakTable.tsx';
 
 function standingText(c: LedgerCell): string {
   if (!c.found) return 'lost';
@@ -131,7 +130,7 @@ export function LossPanel() {
             <input type="checkbox" checked={noiseRowsOn} onChange={(e) => setLedgerNoiseLevel(e.target.checked)} data-testid="ledger-noise-toggle" />
             {' '}also list noise-level features (below the detection limit in every column)
           </label>
-          <div className="table-wrap" style={OFFSCREEN_SKIPPED} tabIndex={0} role="region" aria-label="Ledger table (scrolls)">
+          <div className="table-wrap" tabIndex={0} role="region" aria-label="Ledger table (scrolls)">
             <table className="data ledger" data-testid="ledger">
               <caption className="sr-only">Survival of each feature under each processing choice</caption>
               <thead>

@@ -43,12 +43,6 @@ const MARK_SHORT: Record<PeakMark, string> = {
 /** S/N for ordering: not measured sorts last. */
 const snrOf = (p: Peak) => p.snr ?? -Infinity;
 
-/**
- * The scrolled boxes of long tables are skipped by layout and paint while off screen
- * (`content-visibility: auto`), at the height they last had (`contain-intrinsic-size: auto`).
- */
-export const OFFSCREEN_SKIPPED = { contentVisibility: 'auto', containIntrinsicSize: 'auto 420px' } as const;
-
 /** The peak table: a real table with headers; a click on a row zooms to the peak. */
 export function PeakTable() {
   // Only the fields shown: earlier stages of a newer request do not re-render the table.
@@ -175,7 +169,7 @@ export function PeakTable() {
           </fieldset>
         </details>
       </div>
-      <div className="table-wrap" style={OFFSCREEN_SKIPPED} tabIndex={0} role="region" aria-label="Peak table (scrolls)">
+      <div className="table-wrap" tabIndex={0} role="region" aria-label="Peak table (scrolls)">
         <table className="data peaks" data-testid="peak-table">
           <caption className="sr-only">Peaks found on the {result.peakOptions ? 'measured' : ''} trace with their measures; S/N by {SNR_NAME[def]}</caption>
           <thead>
