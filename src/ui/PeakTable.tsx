@@ -12,6 +12,7 @@ import { FigureControls, usePeakExtras } from './fit/peak-extras.tsx';
 import { withCurrent } from '../state/selectors.ts';
 import { xUnits } from '../core/units.ts';
 import { DISPLAY_CAPS } from '../state/display-caps.ts';
+import { peakTableRows, tableTotals } from '../worker/peak-rank.ts';
 
 
 /** One column of the peak table (issue 17); `fixed` columns are always shown. */
@@ -41,16 +42,6 @@ const MARK_SHORT: Record<PeakMark, string> = {
 
 /** S/N for ordering: not measured sorts last. */
 const snrOf = (p: Peak) => p.snr ?? -Infinity;
-
-/**
- * At most DISPLAY_CAPS.peakRows rows: the user's decisions always, then the highest S/N
- * (never the first by position: on a long noisy trace those are noise).
- */
-function pickRows(all: readonly Peak[]): Peak[] {
-  const mine = (p: Peak) => p.origin === 'added-by-user' || p.removedByUser === true;
-  const rest = all.filter((p) => !mine(p)).sort((a, b) => snrOf(b) - snrOf(a));
-  return [...all.filter(mine), ...rest].slice(0, DISPLAY_CAPS.peakRows);
-}
 
 /** The peak table: a real table with headers; a click on a row zooms to the peak. */
 export function PeakTable() {
@@ -83,19 +74,20 @@ export function PeakTable() {
   // the highest S/N), ordered by S/N when capped unless the user asks for position. The peak CSV holds every one.
   const capped = all.length > DISPLAY_CAPS.peakRows;
   const order = orderChoice ?? (capped ? 'snr' : 'x');
-  const shown = capped ? pickRows(all) : all.slice();
+  // The user's decisions and the highest S/N, ranked by the worker (worker/peak-rank.ts).
+  const shown = capped ? peakTableRows(all, DISPLAY_CAPS.peakRows).slice() : all.slice();
   const peaks = order === 'snr' ? shown.sort((a, b) => snrOf(b) - snrOf(a) || a.x - b.x) : shown.sort((a, b) => a.x - b.x);
   const def = result.peakOptions?.snrDefinition ?? 'rms';
   const xu = sample.xUnit ? ` (${sample.xUnit})` : '';
   const yu = sample.yUnit ? ` (${sample.yUnit})` : '';
   // Issue 17: the area's unit is y-unit × x-unit.
   const areaUnit = sample.yUnit || sample.xUnit ? ` (${sample.yUnit || 'y-units'}·${sample.xUnit || 'x-units'})` : '';
-  const counts = { q: 0, d: 0, b: 0 };
-  for (const p of all) if (!p.removedByUser) { if (p.flag === 'quantifiable') counts.q++; else if (p.flag === 'detectable') counts.d++; else counts.b++; }
+  // Counted over every row (by the worker when it sent them: the page then reads only the rows shown).
+  const totals = tableTotals(all);
+  const counts = { q: totals.quantifiable, d: totals.detectable, b: totals.below };
   const lim = result.peakOptions?.limits;
   // Issue 17: area % of the summed area of every kept peak (the CSV-wide total, not only the rows shown).
-  let totalArea = 0;
-  for (const p of all) if (!p.removedByUser) totalArea += p.area;
+  const totalArea = totals.area;
   const removeThis = (p: Peak) => removePeakAt(p.origin === 'added-by-user' ? decisions.added.reduce((best, a) => (Math.abs(a - p.x) < Math.abs(best - p.x) ? a : best), decisions.added[0]) : p.x);
   // Issue 17: columns as a list; the optional ones can be shown or hidden (remembered), the hidden ones are in each row's details.
   const columns: PeakColumn[] = [

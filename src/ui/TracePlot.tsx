@@ -17,6 +17,7 @@ import type { Peak } from '../core/measure/peak-types.ts';
 import type { Signal } from '../core/steps/types.ts';
 import { farOf } from '../worker/bridge.ts';
 import { sameView, type Drawn, type FarSeries, type View } from '../worker/series.ts';
+import { plotMarkers } from '../worker/peak-rank.ts';
 import { getBackend } from '../state/service.ts';
 
 /** The main plotting area as last drawn: axis ranges and size in pixels (issue 17: label placement). */
@@ -130,12 +131,9 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
     const traces: PlotData[] = [];
     labelCount.current = null;
     if (!peaks) return traces;
-    // At most 300 markers (highest S/N first, hand-added always): thousands of labels would stall the page.
-    let live = peaks.filter((pk) => !pk.removedByUser);
-    if (live.length > 300) {
-      const mine = live.filter((pk) => pk.origin === 'added-by-user');
-      live = [...mine, ...live.filter((pk) => pk.origin !== 'added-by-user').sort((a, b) => (b.snr ?? 0) - (a.snr ?? 0)).slice(0, 300 - mine.length)];
-    }
+    // At most PLOT_MARKERS markers (highest S/N first, hand-added always): thousands of labels would stall the page.
+    // Ranked by the worker when it sent the peaks (worker/peak-rank.ts), so only these rows are read here.
+    const live = plotMarkers(peaks);
     // Features the raw trace does not have: ringed again, so they cannot be taken for ordinary peaks.
     const born = live.filter((pk) => pk.marks.includes('appears-only-after-processing') && pk.flag !== 'below-detection');
     if (born.length) {

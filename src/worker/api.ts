@@ -15,6 +15,8 @@ import type { AnalyseRequest, StageUpdate } from '../core/analysis/index.ts';
 import type { BatchFile, BatchProgress, BatchResult, BatchSettings } from '../core/export/batch.ts';
 import type { Recipe } from '../core/method.ts';
 import type { Columns } from './transfer.ts';
+import type { PeakView } from './peak-rank.ts';
+import type { LedgerColumns } from './ledger-columns.ts';
 import type { FitJobOutcome, FitRequest } from './fit-job.ts';
 import type { Signal } from '../core/steps/types.ts';
 import type { Drawn, FarSeries, NearestPoint, View } from './series.ts';
@@ -73,9 +75,12 @@ export type FromWorker =
   /**
    * One stage of an analysis, as soon as it is ready (its arrays transferred); more follow until the result.
    * The peak table crosses as typed-array columns (`peakColumns`, transferred) in place of `patch.peaks`;
+   * `peakView`: the peak table's shown rows and the plot's markers, ranked in the worker, and the table's totals
+   * (peak-rank.ts), so the page reads only those rows (it makes them as they are read, transfer.ts lazyRows);
+   * the loss check's ledger as columns (`ledgerColumns`, ledger-columns.ts) in place of `patch.loss.ledger`;
    * series longer than series.ts's WHOLE_UP_TO stay in the worker (`far`: empty arrays in the patch, drawn for the view).
    */
-  | { type: 'stage'; jobId: number; update: StageUpdate; peakColumns?: Columns; far?: FarSeries[] }
+  | { type: 'stage'; jobId: number; update: StageUpdate; peakColumns?: Columns; peakView?: PeakView; ledgerColumns?: LedgerColumns; far?: FarSeries[] }
   /**
    * A call, or a message that belongs to none (`jobId` null: traces or a port the worker could not take, a
    * message it could not read), went wrong. `missing`: traces the page named never reached this worker (the

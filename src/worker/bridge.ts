@@ -19,7 +19,9 @@ import type { Recipe } from '../core/method.ts';
 import { STEP_REGISTRY } from '../core/steps/registry.ts';
 import type { FitJobOutcome, FitRequest } from './fit-job.ts';
 import { macrotask, runStages } from './stager.ts';
-import { fromColumns } from './transfer.ts';
+import { lazyRows } from './transfer.ts';
+import { rememberPeakView } from './peak-rank.ts';
+import { ledgerFromColumns } from './ledger-columns.ts';
 import type { Peak } from '../core/measure/peak-types.ts';
 import type { Signal } from '../core/steps/types.ts';
 import type { Drawn, FarSeries, NearestPoint, View } from './series.ts';
@@ -100,7 +102,11 @@ class WorkerChannel {
     }
     if (msg.type === 'progress') { job.onProgress?.(msg.progress); return; }
     if (msg.type === 'stage') {
-      const update = msg.peakColumns ? { ...msg.update, patch: { ...msg.update.patch, peaks: fromColumns<Peak>(msg.peakColumns) } } : msg.update;
+      // Rows are made as they are read (the table's shown rows, the plot's markers: the worker ranked them).
+      let update = msg.peakColumns ? { ...msg.update, patch: { ...msg.update.patch, peaks: lazyRows<Peak>(msg.peakColumns) } } : msg.update;
+      const loss = update.patch.loss;
+      if (msg.ledgerColumns && loss) update = { ...update, patch: { ...update.patch, loss: { ...loss, ledger: ledgerFromColumns(msg.ledgerColumns) } } };
+      if (msg.peakView && update.patch.peaks) rememberPeakView(update.patch.peaks, msg.peakView);
       if (msg.far) markFar(update.patch, msg.far);
       job.onStage?.(update);
       return;

@@ -124,6 +124,63 @@ export function fromColumns<T>(c: Columns): T[] {
   return out as T[];
 }
 
+/** Row `i` of some columns, as {@link fromColumns} makes it. */
+function rowAt(c: Columns, i: number): Row {
+  const row: Row = {};
+  for (const f of c.fields) {
+    const col = c.columns[f];
+    if (col.kind === 'number') {
+      const k = col.kinds ? col.kinds[i] : VALUE;
+      if (k === VALUE) row[f] = col.values[i]; else if (k === NULL) row[f] = null;
+    } else if (col.kind === 'string') {
+      if (col.codes[i] !== 0xffffffff) row[f] = col.dictionary[col.codes[i]];
+    } else if (col.kind === 'boolean') {
+      if (col.values[i] !== 2) row[f] = col.values[i] === 1;
+    } else if (col.values[i] !== undefined) row[f] = col.values[i];
+  }
+  return row;
+}
+
+/** A row index named by a property key, or -1. */
+function indexOfKey(key: string | symbol, n: number): number {
+  if (typeof key !== 'string' || key.length === 0 || key.length > 10) return -1;
+  const c0 = key.charCodeAt(0);
+  if (c0 < 48 || c0 > 57 || (c0 === 48 && key.length > 1)) return -1;
+  const i = Number(key);
+  return Number.isInteger(i) && i < n ? i : -1;
+}
+
+/**
+ * The same rows as {@link fromColumns}, as an array that makes each row only when it is first read (and
+ * then keeps it: the same row object every time). A long peak table (tens of thousands of rows) then costs
+ * the page only the rows something reads: the table's shown rows and the plot's markers (issue 16); an
+ * export or a search reads them all, as before. It behaves as an array for reading (length, indexing,
+ * iteration, the array methods, JSON); the browser cannot post it to a worker (nothing does).
+ */
+export function lazyRows<T>(c: Columns): T[] {
+  const n = c.length;
+  const target: Row[] = new Array(n);
+  return new Proxy(target, {
+    get(t, key, receiver) {
+      const i = indexOfKey(key, n);
+      if (i < 0) return Reflect.get(t, key, receiver);
+      return t[i] ?? (t[i] = rowAt(c, i));
+    },
+    has(t, key) {
+      return indexOfKey(key, n) >= 0 || Reflect.has(t, key);
+    },
+    getOwnPropertyDescriptor(t, key) {
+      const i = indexOfKey(key, n);
+      if (i >= 0 && t[i] === undefined) t[i] = rowAt(c, i);
+      return Reflect.getOwnPropertyDescriptor(t, key);
+    },
+    ownKeys(t) {
+      for (let i = 0; i < n; i++) if (t[i] === undefined) t[i] = rowAt(c, i);
+      return Reflect.ownKeys(t);
+    },
+  }) as unknown as T[];
+}
+
 /** The typed-array buffers of some columns, for the transfer list. */
 export function columnBuffers(c: Columns): ArrayBuffer[] {
   const out: ArrayBuffer[] = [];

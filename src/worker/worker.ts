@@ -13,6 +13,14 @@ import { runStages } from './stager.ts';
 import { runBatch } from '../core/export/batch.ts';
 import { SeriesStore } from './series.ts';
 import { STEP_REGISTRY } from '../core/steps/registry.ts';
+import { peakView as viewOf } from './peak-rank.ts';
+import { ledgerBuffers, ledgerToColumns } from './ledger-columns.ts';
+import type { Ledger } from '../core/measure/loss-matching.ts';
+
+/** What stands in a stage's loss report for its ledger, which crosses as columns beside it. */
+const NO_LEDGER: Ledger = { alternatives: [], rows: [], sentences: [], rule: '' };
+import { DISPLAY_CAPS } from '../state/display-caps.ts';
+import type { Peak } from '../core/measure/peak-types.ts';
 
 const held = new HeldTraces();
 /** Long series of the newest analyses, kept here so they need not cross to the page (series.ts). */
@@ -128,11 +136,16 @@ async function analyse(jobId: number, params: ParamsOf<'analyse'>): Promise<void
     // series here would push out the sample's, which exports may still ask for.
     const thin = params.side ? { patch: update.patch, far: [] } : series.thin(update.patch, jobId);
     const { peaks, ...rest } = thin.patch;
-    const patch = cloneResultForTransfer(rest);
+    // The ledger crosses as columns too (ledger-columns.ts), not as an object per row and per cell.
+    const ledgerColumns = rest.loss ? ledgerToColumns(rest.loss.ledger) : undefined;
+    const patch = cloneResultForTransfer(rest.loss ? { ...rest, loss: { ...rest.loss, ledger: NO_LEDGER } } : rest);
     const peakColumns = peaks ? toColumns(peaks as unknown as Record<string, unknown>[]) : undefined;
+    // The peak table's shown rows and the plot's markers ranked here, with the table's totals (issue 16: sorting
+    // ~38,000 peaks took the page 70-150 ms per stage, and making every row as an object about as long).
+    const peakView = peaks && !params.side ? viewOf(peaks as readonly Peak[], DISPLAY_CAPS.peakRows) : undefined;
     const far = thin.far.length ? thin.far : undefined;
     const drawn = thin.far.flatMap((f) => [f.drawn.x.buffer as ArrayBuffer, f.drawn.y.buffer as ArrayBuffer]);
-    post({ type: 'stage', jobId, update: { ...update, patch }, peakColumns, far }, [...transferablesOf(patch), ...(peakColumns ? columnBuffers(peakColumns) : []), ...drawn]);
+    post({ type: 'stage', jobId, update: { ...update, patch }, peakColumns, peakView, ledgerColumns, far }, [...transferablesOf(patch), ...(peakColumns ? columnBuffers(peakColumns) : []), ...(ledgerColumns ? ledgerBuffers(ledgerColumns) : []), ...(peakView ? [peakView.rows.buffer as ArrayBuffer, peakView.markers.buffer as ArrayBuffer] : []), ...drawn]);
   }, () => !params.side && latestJob !== jobId);
   reply('analyse', jobId, { outcome, ms: Date.now() - t0 });
 }

@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { columnBuffers, fromColumns, toColumns } from '../../src/worker/transfer.ts';
+import { columnBuffers, fromColumns, lazyRows, toColumns } from '../../src/worker/transfer.ts';
 import { analyse } from '../../src/core/analysis/index.ts';
 import { emptyRecipe } from '../../src/core/method.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
@@ -69,5 +69,30 @@ describe('the page side of the bridge', () => {
     fake.onmessage!({ data: { type: 'result', method: 'analyse', jobId, value: { outcome: 'done', ms: 1 } } } as MessageEvent);
     expect(await job).toBe(true);
     expect(seen).toEqual([rows]);
+  });
+});
+
+describe('rows made as they are read', () => {
+  it('behaves as the array fromColumns makes: indexing, length, iteration, array methods, JSON, the same object each time', () => {
+    fc.assert(fc.property(
+      fc.array(fc.record({ a: fc.double(), b: fc.option(fc.string(), { nil: undefined }), c: fc.option(fc.double(), { nil: null }) }, { requiredKeys: ['a'] }), { maxLength: 25 }),
+      (rows) => {
+        const cols = structuredClone(toColumns(rows));
+        const eager = fromColumns<Record<string, unknown>>(cols);
+        const lazy = lazyRows<Record<string, unknown>>(cols);
+        expect(Array.isArray(lazy)).toBe(true);
+        expect(lazy.length).toBe(rows.length);
+        if (rows.length) expect(lazy[rows.length - 1]).toBe(lazy[rows.length - 1]);
+        expect(lazy[rows.length]).toBeUndefined();
+        expect(lazy.map((r) => r.a)).toEqual(eager.map((r) => r.a));
+        expect(lazy.filter((r) => r.c === null).length).toBe(eager.filter((r) => r.c === null).length);
+        expect([...lazy]).toEqual(eager);
+        expect(lazy.slice()).toEqual(eager);
+        expect(JSON.stringify(lazy)).toBe(JSON.stringify(eager));
+        expect(Object.keys(lazy)).toEqual(Object.keys(eager));
+        if (rows.length) expect(lazy.indexOf(lazy[0])).toBe(0);
+        expect(lazy).toEqual(eager);
+      },
+    ), { numRuns: 150 });
   });
 });

@@ -1,0 +1,121 @@
+/**
+ * Which rows of a long peak table the page shows (issue 16): the user's
+ * decisions (peaks added or removed by hand) always, then the highest S/N
+ * (never the first by position: on a long noisy trace those are noise), at
+ * most a cap. The worker ranks the table when a peaks stage lands and sends
+ * the chosen rows' indices with it, so the page does not sort tens of
+ * thousands of peaks on its own thread; the page reads them back with
+ * {@link peakTableRows}, which ranks there only when no worker did (the
+ * in-process backend, tests).
+ */
+import type { Peak } from '../core/measure/peak-types.ts';
+
+/** A peak the user decided on: added or removed by hand. */
+const byHand = (p: Peak) => p.origin === 'added-by-user' || p.removedByUser === true;
+
+/**
+ * Indices into `peaks` of the rows shown, in this order: every decision by
+ * hand in table order, then the others by S/N, highest first (not measured
+ * last; equal S/N in table order), cut at `cap`.
+ */
+export function rankTableRows(peaks: readonly Peak[], cap: number): Uint32Array {
+  const n = peaks.length;
+  const mine: number[] = [];
+  const rest = new Uint32Array(n);
+  const key = new Float64Array(n);
+  let m = 0;
+  for (let i = 0; i < n; i++) {
+    const p = peaks[i];
+    if (byHand(p)) mine.push(i);
+    else { rest[m++] = i; key[i] = p.snr ?? -Infinity; }
+  }
+  const others = rest.subarray(0, m).sort((a, b) => key[b] - key[a] || a - b);
+  const take = Math.max(0, Math.min(cap, mine.length + m));
+  const out = new Uint32Array(take);
+  let k = 0;
+  for (; k < take && k < mine.length; k++) out[k] = mine[k];
+  for (let j = 0; k < take; k++, j++) out[k] = others[j];
+  return out;
+}
+
+/** Rankings the worker sent, by the peak table they belong to (that array, as the page holds it). */
+const ranked = new WeakMap<readonly Peak[], { cap: number; rows: Uint32Array }>();
+
+/** The rows of `peaks` the page shows (see {@link rankTableRows}): the worker's ranking when it sent one, else ranked here once. */
+export function peakTableRows(peaks: readonly Peak[], cap: number): readonly Peak[] {
+  let r = ranked.get(peaks);
+  if (!r || r.cap !== cap) {
+    r = { cap, rows: rankTableRows(peaks, cap) };
+    ranked.set(peaks, r);
+  }
+  const rows = r.rows;
+  const out: Peak[] = new Array(rows.length);
+  for (let i = 0; i < rows.length; i++) out[i] = peaks[rows[i]];
+  return out;
+}
+
+/** Peak markers drawn on the plot at most (TracePlot.tsx): thousands of markers and labels would stall the page. */
+export const PLOT_MARKERS = 300;
+
+/**
+ * Indices into `peaks` of the markers the plot draws: every peak not removed by hand in table order while
+ * there are at most `cap`; else the peaks added by hand, then the others by S/N, highest first (not measured
+ * counting as 0; equal S/N in table order), `cap` in all.
+ */
+export function rankMarkers(peaks: readonly Peak[], cap: number): Uint32Array {
+  const live: number[] = [];
+  for (let i = 0; i < peaks.length; i++) if (!peaks[i].removedByUser) live.push(i);
+  if (live.length <= cap) return Uint32Array.from(live);
+  const key = new Float64Array(peaks.length);
+  const mine: number[] = [], others: number[] = [];
+  for (const i of live) {
+    if (peaks[i].origin === 'added-by-user') mine.push(i);
+    else { others.push(i); key[i] = peaks[i].snr ?? 0; }
+  }
+  others.sort((a, b) => key[b] - key[a] || a - b);
+  return Uint32Array.from([...mine, ...others.slice(0, cap - mine.length)]);
+}
+
+/** What the peak table says of the whole table: counts by standing and the summed area, peaks removed by hand left out. */
+export interface PeakTotals { quantifiable: number; detectable: number; below: number; area: number }
+
+export function peakTotals(peaks: readonly Peak[]): PeakTotals {
+  const t: PeakTotals = { quantifiable: 0, detectable: 0, below: 0, area: 0 };
+  for (const p of peaks) {
+    if (p.removedByUser) continue;
+    if (p.flag === 'quantifiable') t.quantifiable++; else if (p.flag === 'detectable') t.detectable++; else t.below++;
+    t.area += p.area;
+  }
+  return t;
+}
+
+/** All the page needs of a long peak table without reading every row (sent by the worker with a peaks stage). */
+export interface PeakView { cap: number; rows: Uint32Array; markerCap: number; markers: Uint32Array; totals: PeakTotals }
+
+/** The worker's side: the view of a peak table, ranked here. */
+export function peakView(peaks: readonly Peak[], cap: number, markerCap: number = PLOT_MARKERS): PeakView {
+  return { cap, rows: rankTableRows(peaks, cap), markerCap, markers: rankMarkers(peaks, markerCap), totals: peakTotals(peaks) };
+}
+
+/** Views the worker sent, by the peak table they belong to. */
+const views = new WeakMap<readonly Peak[], PeakView>();
+
+/** Keep the worker's view of a peak table (bridge.ts, when a peaks stage lands). */
+export function rememberPeakView(peaks: readonly Peak[], view: PeakView): void {
+  views.set(peaks, view);
+  ranked.set(peaks, { cap: view.cap, rows: view.rows });
+}
+
+/** The plot's markers (see {@link rankMarkers}): the worker's when it sent them, else ranked here. */
+export function plotMarkers(peaks: readonly Peak[], cap: number = PLOT_MARKERS): Peak[] {
+  const v = views.get(peaks);
+  const idx = v && v.markerCap === cap ? v.markers : rankMarkers(peaks, cap);
+  const out: Peak[] = new Array(idx.length);
+  for (let i = 0; i < idx.length; i++) out[i] = peaks[idx[i]];
+  return out;
+}
+
+/** The table's counts and summed area: the worker's when it sent them, else counted here. */
+export function tableTotals(peaks: readonly Peak[]): PeakTotals {
+  return views.get(peaks)?.totals ?? peakTotals(peaks);
+}
