@@ -5,7 +5,6 @@
  */
 import { describe, expect, test } from 'vitest';
 import { createTrace, type Trace } from '../../src/core/trace.ts';
-import { HeldTraces } from '../../src/worker/held-traces.ts';
 import { workerBackend } from '../../src/worker/bridge.ts';
 import type { Call, FromWorker, ToWorker } from '../../src/worker/api.ts';
 import { emptyRecipe } from '../../src/core/method.ts';
@@ -42,18 +41,6 @@ describe('traces cross to the worker once', () => {
     expect(w2.posted.map((m) => (m.type === 'call' ? m.method : m.type))).toEqual(['inputs', 'analyse']);
     expect((w2.posted[0] as Extract<ToWorker, { type: 'inputs' }>).traces.map((t) => t.id)).toEqual(['b', 'c']);
   });
-
-  test('the engine keeps the traces it holds whose ids stay, adds the new ones and drops the rest', () => {
-    const e = new HeldTraces();
-    const [a, b, c] = [mk('a'), mk('b'), mk('c')];
-    e.setInputs([a, b]);
-    e.setInputs([c], ['b', 'c']);
-    const held = (e as unknown as { traces: Map<string, Trace> }).traces;
-    expect([...held.keys()].sort()).toEqual(['b', 'c']);
-    expect(held.get('b')).toBe(b);
-    e.setInputs([a]);
-    expect([...(e as unknown as { traces: Map<string, Trace> }).traces.keys()]).toEqual(['a']);
-  });
 });
 
 describe('a loaded file reaches the computation worker through the port, not through the page', () => {
@@ -81,19 +68,6 @@ describe('a loaded file reaches the computation worker through the port, not thr
     expect(last.keep).toEqual(['a', 'b']);
     cPort.port.close();
     lPort.port.close();
-  });
-
-  test('the computation side takes a handed-over trace whether it comes before or after the page names it', () => {
-    const e = new HeldTraces();
-    const [a, b, c] = [mk('a'), mk('b'), mk('c')];
-    e.setInputs([a]);
-    e.stage([b]);
-    e.setInputs([], ['a', 'b', 'c']);
-    expect(e.incomplete).toBe(true);
-    e.stage([c]);
-    expect(e.incomplete).toBe(false);
-    const held = (e as unknown as { traces: Map<string, Trace> }).traces;
-    expect([...held.keys()].sort()).toEqual(['a', 'b', 'c']);
   });
 });
 

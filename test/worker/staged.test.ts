@@ -8,7 +8,6 @@ import { createTrace } from '../../src/core/trace.ts';
 import { emptyRecipe, makeRecipeStep } from '../../src/core/method.ts';
 import { stepDefinition } from '../../src/core/steps/registry.ts';
 import { inProcessBackend, LatestOnly } from '../../src/worker/bridge.ts';
-import { PAUSE_AFTER_MS, runStages } from '../../src/worker/stager.ts';
 import { createAppStore } from '../../src/state/store.ts';
 import type { AnalyseRequest, StageUpdate } from '../../src/core/analysis/index.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';
@@ -27,54 +26,6 @@ function request(window: number): AnalyseRequest {
 }
 
 describe('staged work on the worker side', () => {
-  test('runStages stops before the next stage once stale, and closes the generator', async () => {
-    let closed = false;
-    function* gen(): Generator<StageUpdate, void, void> {
-      try {
-        for (const stage of ['processed', 'residual', 'noise'] as const) yield { stage, sampleId: 's', patch: {}, pending: [] };
-      } finally { closed = true; }
-    }
-    const seen: string[] = [];
-    let stale = false;
-    const outcome = await runStages(gen(), (u) => { seen.push(u.stage); stale = true; }, () => stale);
-    expect(outcome).toBe('cancelled');
-    expect(seen).toEqual(['processed']);
-    expect(closed).toBe(true);
-  });
-
-  test('runStages stops inside a long stage: at a pause, once the work since the last yield passed PAUSE_AFTER_MS and a newer request came', async () => {
-    let closed = false;
-    let pulled = 0, firstStart = 0, lastEnd = 0;
-    function* gen(): Generator<StageUpdate | undefined, void, void> {
-      try {
-        yield { stage: 'noise', sampleId: 's', patch: {}, pending: ['peaks'] };
-        // A long stage: 200 pieces of 2 ms of work, a pause after each.
-        for (let k = 0; k < 200; k++) {
-          // The newer request arrives as a message while the stage works: a timer, which runs only when the stager yields.
-          if (k === 0) setTimeout(() => { stale = true; }, 0);
-          pulled++;
-          if (k === 0) firstStart = performance.now();
-          const until = performance.now() + 2;
-          while (performance.now() < until) { /* work */ }
-          lastEnd = performance.now();
-          yield undefined;
-        }
-        yield { stage: 'peaks', sampleId: 's', patch: {}, pending: [] };
-      } finally { closed = true; }
-    }
-    const seen: string[] = [];
-    let stale = false;
-    const outcome = runStages(gen(), (u) => { seen.push(u.stage); }, () => stale);
-    expect(await outcome).toBe('cancelled');
-    expect(seen).toEqual(['noise']);
-    expect(closed).toBe(true);
-    // It did not yield at every pause: only after PAUSE_AFTER_MS of work; and it stopped
-    // there, long before the stage's end.
-    expect(pulled).toBeGreaterThan(1);
-    expect(lastEnd - firstStart).toBeGreaterThanOrEqual(PAUSE_AFTER_MS - 1);
-    expect(pulled).toBeLessThan(200);
-  });
-
   test('a newer request supersedes an older one: none of the older updates reach the page, the newer lands whole', async () => {
     const backend = inProcessBackend();
     backend.setInputs([trace()]);
