@@ -1,7 +1,7 @@
 /// <reference lib="webworker" />
 /**
  * Worker entry: receives traces once, then calls of the methods in
- * protocol.ts (analyses, fits, loads, batches), and posts results back with
+ * api.ts (analyses, fits, loads, batches), and posts results back with
  * their arrays transferred. Whatever goes wrong is posted as 'failed', never
  * dropped: with the call's id, or with none when the message belonged to no
  * call (the page then shows it as a notice).
@@ -121,6 +121,9 @@ async function call(msg: Call): Promise<void> {
         reply('batch', jobId, result, [result.zip.buffer]);
         break;
       }
+      default:
+        // A method this worker does not know (a page and worker from different builds): said, never left waiting.
+        throw new Error(`This worker has no method "${String((msg as { method: unknown }).method)}".`);
     }
   } catch (e) {
     post({ type: 'failed', jobId, message: e instanceof Error ? `${e.name}: ${e.message}` : String(e) });

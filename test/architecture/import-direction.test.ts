@@ -15,7 +15,11 @@ const SRC = join(ROOT, 'src');
 const FORBIDDEN: Record<string, readonly string[]> = {
   core: ['state', 'ui', 'worker', 'cli'],
   state: ['ui'],
+  worker: ['ui', 'cli'],
 };
+
+/** What src/worker may take from src/state: the display caps only (plain numbers), so it ranks the rows the page shows. */
+const WORKER_FROM_STATE = new Set(['display-caps.ts']);
 
 function sourceFiles(dir: string): string[] {
   const out: string[] = [];
@@ -74,6 +78,19 @@ describe('import direction', () => {
       expect(breaches).toEqual([]);
     });
   }
+
+  it('src/worker takes from src/state only the display caps (DEVELOPERS.md, "Folders")', () => {
+    const breaches: string[] = [];
+    for (const file of files) {
+      if (relative(SRC, file).split(sep)[0] !== 'worker') continue;
+      for (const spec of specifiers(readFileSync(file, 'utf8'))) {
+        if (targetFolder(file, spec) !== 'state') continue;
+        const target = relative(join(SRC, 'state'), resolve(dirname(file), spec));
+        if (!WORKER_FROM_STATE.has(target)) breaches.push(`${relative(ROOT, file)} → ${spec}`);
+      }
+    }
+    expect(breaches).toEqual([]);
+  });
 
   it('a processing step imports no sibling step: what steps share lives in steps/checks.ts (DEVELOPERS.md, "Folders")', () => {
     const STEPS = join(SRC, 'core', 'steps');
