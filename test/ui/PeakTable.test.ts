@@ -19,7 +19,7 @@ import { DISPLAY_CAPS } from '../../src/state/display-caps.ts';
 import { useApp } from '../../src/state/store.ts';
 import { num } from '../../src/ui/format.ts';
 import { PeakTable } from '../../src/ui/PeakTable.tsx';
-import { analyseNow, button, elements, html, loadDemoSample, press, resetStore, text, textOf, tree } from './harness.ts';
+import { analyseNow, elements, html, loadDemoSample, press, resetStore, text, textOf, tree } from './harness.ts';
 
 vi.mock('plotly.js-strict-dist-min', () => ({ default: {} }));
 beforeEach(() => resetStore());
