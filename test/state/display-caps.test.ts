@@ -6,7 +6,7 @@
  * load notice, while the load report keeps all); the notices shown are a
  * part of the notices kept. The peak-table cap ("the user's decisions
  * always, then the highest S/N") is applied in src/ui/PeakTable.tsx (issue
- * 16's file, tested with it); the notices kept in the notices slice
+ * 16's file; test/ui/PeakTable.test.ts); the notices kept in the notices slice
  * (test/state/notices-slice.test.ts).
  */
 import { describe, expect, it } from 'vitest';
