@@ -41,6 +41,10 @@ export async function openWithDemo(page: Page): Promise<void> {
   // (e2e/bench-page.spec.ts checks the guide itself).
   const guide = page.getByTestId('guide-close');
   if (await guide.isVisible()) await guide.click();
+  // The demo arrives file by file (sample, blank, eight scans), and each file starts a new analysis, during which
+  // the export buttons are disabled. A spec starts once the whole demo is in and analysed.
+  await expect(page.locator('.notice').filter({ hasText: 'Demo loaded' })).toBeVisible({ timeout: 30_000 });
+  await expect(page.locator('[aria-label="computing"]')).toHaveCount(0, { timeout: 30_000 });
 }
 
 /** Everything loaded and edited so far is in the browser's database, not only in the journal (issue 13). */
@@ -52,30 +56,31 @@ export async function sessionSaved(page: Page): Promise<void> {
 
 /**
  * Click an export button and give the loss confirmation when the page asks for one.
- * Waits for whichever comes first, the download or the dialog, with no short timeout of its own:
- * on a loaded machine the dialog can take longer than any fixed guess to render (a CI run missed it at 1.5 s).
+ * The press is made inside the page only while the button is enabled, in one step: a press between Playwright's
+ * "enabled" check and the click can otherwise land on a button that a new analysis has just disabled (exports wait
+ * for the newest analysis), which does nothing, as it should. Then it waits for whichever comes first, the download
+ * or the dialog, with no short timeout of its own: on a loaded machine the dialog can take longer than any fixed guess.
  */
 export async function exportFile(page: Page, testId: string): Promise<{ d: Download; confirmed: boolean }> {
-  const waiting = page.waitForEvent('download', { timeout: 0 });
+  const waiting = page.waitForEvent('download', { timeout: 60_000 });
   const button = page.getByTestId(testId);
   const dialog = page.getByTestId('loss-confirm');
-  const asked = (ms: number) => dialog.waitFor({ timeout: ms }).then(() => 'dialog' as const, () => 'nothing' as const);
-  // Known and not yet explained: after about 25 specs in one browser, the first export of a freshly opened demo
-  // sometimes starts no download and shows no dialog (reproduced only in the whole suite; see DEVELOPERS.md,
-  // "End-to-end"). A second press is what a user would do; it is logged, and a third silent press fails the test.
-  for (let attempt = 1; attempt <= 2; attempt++) {
-    await expect(button).toBeEnabled({ timeout: 30_000 });
-    // A click event on the button itself, not a mouse click at its coordinates: a notice appearing above the panel
-    // moves the button between Playwright's position check and the click, and a mouse click then lands beside it.
-    await button.dispatchEvent('click');
-    const first = await Promise.race([waiting.then(() => 'download' as const), asked(15_000)]);
-    if (first === 'dialog') await dialog.getByRole('button', { name: 'Export anyway' }).click();
-    if (first !== 'nothing') return { d: await waiting, confirmed: first === 'dialog' };
+  await expect.poll(() => button.evaluate((b: HTMLButtonElement) => {
+    if (b.disabled) return false;
+    b.click();
+    return true;
+  }), { timeout: 30_000, message: `${testId} stayed disabled` }).toBe(true);
+  const first = await Promise.race([
+    waiting.then(() => 'download' as const, () => 'nothing' as const),
+    dialog.waitFor({ timeout: 60_000 }).then(() => 'dialog' as const, () => 'nothing' as const),
+  ]);
+  if (first === 'nothing') {
+    // What the page saw (a passive log kept by openWithDemo's init script), for the failure message.
     const trail = await page.evaluate(() => (window as unknown as { __exportTrail?: string[] }).__exportTrail?.slice(-8) ?? []);
-    const busy = await page.locator('[aria-label="computing"]').count();
-    console.warn(`[e2e] ${testId}: no download and no loss dialog 15 s after press ${attempt}; pressing again. Busy marks: ${busy}. Last events in the page:\n  ${trail.join('\n  ')}`);
+    throw new Error(`${testId}: no download and no loss dialog within 60 s of the press. Last events in the page:\n  ${trail.join('\n  ')}`);
   }
-  throw new Error(`${testId}: two presses started no download and no loss dialog`);
+  if (first === 'dialog') await dialog.getByRole('button', { name: 'Export anyway' }).click();
+  return { d: await waiting, confirmed: first === 'dialog' };
 }
 
 /** Click an export button, confirm the loss dialog when it asks, and read the downloaded file as text. */

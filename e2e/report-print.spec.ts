@@ -37,7 +37,7 @@ test('one confirmation per export session, summarised; report fields and a hand 
   await page.getByTestId('report-field-run').fill('run 7');
   // A hand change: remove the first peak; the inline field asks why, without blocking anything.
   const table = page.getByTestId('peak-table');
-  await table.getByRole('button', { name: 'Remove peak 1' }).click();
+  await table.getByRole('button', { name: 'Remove peak 1', exact: true }).click();
   const ask = page.getByTestId('hand-reason');
   await expect(ask).toContainText('Why remove the peak at');
   await page.getByTestId('hand-reason-input').fill('carry-over from the wash');
