@@ -106,25 +106,11 @@ export function toColumns(rows: readonly Row[]): Columns {
 
 export function fromColumns<T>(c: Columns): T[] {
   const out: Row[] = new Array(c.length);
-  for (let i = 0; i < c.length; i++) {
-    const row: Row = {};
-    for (const f of c.fields) {
-      const col = c.columns[f];
-      if (col.kind === 'number') {
-        const k = col.kinds ? col.kinds[i] : VALUE;
-        if (k === VALUE) row[f] = col.values[i]; else if (k === NULL) row[f] = null;
-      } else if (col.kind === 'string') {
-        if (col.codes[i] !== 0xffffffff) row[f] = col.dictionary[col.codes[i]];
-      } else if (col.kind === 'boolean') {
-        if (col.values[i] !== 2) row[f] = col.values[i] === 1;
-      } else if (col.values[i] !== undefined) row[f] = col.values[i];
-    }
-    out[i] = row;
-  }
+  for (let i = 0; i < c.length; i++) out[i] = rowAt(c, i);
   return out as T[];
 }
 
-/** Row `i` of some columns, as {@link fromColumns} makes it. */
+/** Row `i` of some columns: a field left out of a row stays left out, a null stays null. */
 function rowAt(c: Columns, i: number): Row {
   const row: Row = {};
   for (const f of c.fields) {

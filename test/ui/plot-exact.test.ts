@@ -15,11 +15,12 @@ import { describe, expect, it, vi } from 'vitest';
 import type { Signal } from '../../src/core/steps/types.ts';
 import type { AnalyseResult, StageUpdate } from '../../src/core/analysis/index.ts';
 import { emptyRecipe } from '../../src/core/method.ts';
-import type { FromWorker, ToWorker } from '../../src/worker/api.ts';
-import { farOf, workerBackend } from '../../src/worker/bridge.ts';
+import type { FromWorker } from '../../src/worker/api.ts';
+import { farOf } from '../../src/worker/bridge.ts';
 import { SeriesStore, WHOLE_UP_TO } from '../../src/worker/series.ts';
 import * as service from '../../src/state/service.ts';
 import { useExactSignal } from '../../src/ui/plot-exact.ts';
+import { fakeWorker } from '../worker/fake-worker.ts';
 
 /** What the hook gives on the page's first drawing of a component. */
 function firstRender(s: Signal | null, wanted?: boolean): Signal | null | 'unset' {
@@ -37,16 +38,14 @@ function farProcessed(): Signal {
   const n = WHOLE_UP_TO + 1000;
   const p = series(n);
   const r = { sampleId: 's', processed: p, residual: { x: p.x, y: p.y }, baseline: undefined, intermediate: null } as unknown as AnalyseResult;
-  const posted: ToWorker[] = [];
-  const worker = { postMessage: (m: ToWorker) => posted.push(m), terminate() {}, onmessage: null as ((ev: MessageEvent) => void) | null, onerror: null, onmessageerror: null };
-  const backend = workerBackend(() => worker as unknown as Worker);
+  const { backend, posted, answer } = fakeWorker();
   backend.setInputs([]);
   let got: StageUpdate | null = null;
   void backend.analyse({ sampleId: 's', scanIds: [], recipe: emptyRecipe() }, (u) => { got = u; });
   const call = posted.find((m) => m.type === 'call') as { jobId: number };
   const thin = store.thin(r, 1);
   const msg: FromWorker = { type: 'stage', jobId: call.jobId, update: { stage: 'loss', sampleId: 's', pending: [], patch: thin.patch }, far: thin.far };
-  worker.onmessage!({ data: structuredClone(msg) } as MessageEvent);
+  answer(msg);
   return got!.patch.processed!;
 }
 

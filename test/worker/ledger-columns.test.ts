@@ -15,6 +15,7 @@ import { createTrace } from '../../src/core/trace.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';
 import { ledgerBuffers, ledgerFromColumns, ledgerToColumns } from '../../src/worker/ledger-columns.ts';
 import type { Ledger } from '../../src/core/measure/loss-matching.ts';
+import { fakeWorker } from './fake-worker.ts';
 
 function recipeWith(step: string, params: Record<string, number>): Recipe {
   const r = emptyRecipe();
@@ -85,21 +86,15 @@ describe('the ledger as columns', () => {
 
 describe('the page side of the bridge', () => {
   it('puts a loss stage’s ledger back from its columns before the store sees the update', async () => {
-    const { workerBackend } = await import('../../src/worker/bridge.ts');
-    const posted: { type: string; method?: string; jobId?: number }[] = [];
-    let fake: { onmessage: ((ev: MessageEvent) => void) | null } = { onmessage: null };
-    const backend = workerBackend(() => {
-      fake = { onmessage: null, postMessage: (m: { type: string }) => posted.push(m), terminate: () => undefined } as unknown as typeof fake;
-      return fake as unknown as Worker;
-    });
+    const { backend, posted, answer } = fakeWorker();
     const cell = { found: false, peakIndex: -1, x: null, snr: null, standing: 'lost', height: null, area: null, fwhm: null, heightKept: null, widthChange: null, apexShift: null, apexShiftPoints: null, areaChange: null, crossed: 'down' } as const;
     const ledger: Ledger = { alternatives: [{ id: 'raw', label: 'raw' }], rows: [{ position: 3.25, tolerance: 0.1, firstFoundIn: 0, cells: [cell], crossed: true, sentences: ['lost'] }], sentences: ['lost'], rule: 'r' };
     const seen: unknown[] = [];
     const job = backend.analyse({ sampleId: 's', scanIds: [], recipe: emptyRecipe() }, (u) => seen.push(u.patch.loss?.ledger));
-    const jobId = posted.find((m) => m.type === 'call' && m.method === 'analyse')!.jobId!;
+    const jobId = (posted.find((m) => m.type === 'call' && m.method === 'analyse') as { jobId: number }).jobId;
     const patch = { loss: { ledger: { alternatives: [], rows: [], sentences: [], rule: '' }, outcomes: [], noiseLevelRows: 0, noiseLevelShown: false } };
-    fake.onmessage!({ data: { type: 'stage', jobId, update: { stage: 'loss', sampleId: 's', pending: [], patch }, ledgerColumns: structuredClone(ledgerToColumns(ledger)) } } as MessageEvent);
-    fake.onmessage!({ data: { type: 'result', method: 'analyse', jobId, value: { outcome: 'done', ms: 1 } } } as MessageEvent);
+    answer({ type: 'stage', jobId, update: { stage: 'loss', sampleId: 's', pending: [], patch }, ledgerColumns: ledgerToColumns(ledger) });
+    answer({ type: 'result', method: 'analyse', jobId, value: { outcome: 'done', ms: 1 } });
     expect(await job).toBe(true);
     expect(seen).toEqual([ledger]);
   });

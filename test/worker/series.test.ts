@@ -8,12 +8,13 @@
  */
 import { describe, expect, test } from 'vitest';
 import { drawSeries, SeriesStore, WHOLE_UP_TO, type View } from '../../src/worker/series.ts';
-import { exactResult, farOf, workerBackend, type ComputeBackend } from '../../src/worker/bridge.ts';
+import { exactResult, farOf, type ComputeBackend } from '../../src/worker/bridge.ts';
 import type { AnalyseResult, StageUpdate } from '../../src/core/analysis/index.ts';
-import type { FromWorker, ToWorker } from '../../src/worker/api.ts';
+import type { FromWorker } from '../../src/worker/api.ts';
 import { nearestPoint } from '../../src/ui/plot-view.ts';
 import { emptyRecipe } from '../../src/core/method.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';
+import { fakeWorker } from './fake-worker.ts';
 
 function signal(n: number, seed = 1) {
   const rng = makeRng(seed);
@@ -105,9 +106,7 @@ describe('what the page asks for afterwards is exact', () => {
   test('a stage through the bridge keeps its placeholders marked, and an export\'s whole result is bit-for-bit the analysis\'s', async () => {
     const store = new SeriesStore();
     const r = result(30_000);
-    const posted: ToWorker[] = [];
-    const worker = { postMessage: (m: ToWorker) => posted.push(m), terminate() {}, onmessage: null as ((ev: MessageEvent) => void) | null, onerror: null, onmessageerror: null };
-    const backend = workerBackend(() => worker as unknown as Worker);
+    const { backend, posted, answer } = fakeWorker();
     backend.setInputs([]);
     let got: StageUpdate | null = null;
     void backend.analyse({ sampleId: 's', scanIds: [], recipe: emptyRecipe() }, (u) => { got = u; });
@@ -116,7 +115,7 @@ describe('what the page asks for afterwards is exact', () => {
     const { peaks: _peaks, ...patch } = thin.patch;
     void _peaks;
     const msg: FromWorker = { type: 'stage', jobId: (call as { jobId: number }).jobId, update: { stage: 'loss', sampleId: 's', pending: [], patch }, far: thin.far };
-    worker.onmessage!({ data: structuredClone(msg) } as MessageEvent);
+    answer(msg);
     const shown = { ...r, ...got!.patch } as AnalyseResult;
     expect(farOf(shown.processed)?.field).toBe('processed');
     expect(farOf(shown.baseline)?.field).toBe('baseline');

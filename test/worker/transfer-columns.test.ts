@@ -11,6 +11,7 @@ import { emptyRecipe } from '../../src/core/method.ts';
 import { STEP_REGISTRY } from '../../src/core/steps/registry.ts';
 import { createTrace } from '../../src/core/trace.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';
+import { fakeWorker } from './fake-worker.ts';
 
 describe('rows as columns', () => {
   it('round-trips random rows exactly, structured-cloned as the worker sends them', () => {
@@ -54,19 +55,13 @@ describe('rows as columns', () => {
 
 describe('the page side of the bridge', () => {
   it('puts a stage’s peak columns back as rows before the store sees the update, and ends the job on done', async () => {
-    const { workerBackend } = await import('../../src/worker/bridge.ts');
-    const posted: { type: string; method?: string; jobId?: number }[] = [];
-    let fake: { onmessage: ((ev: MessageEvent) => void) | null } = { onmessage: null };
-    const backend = workerBackend(() => {
-      fake = { onmessage: null, postMessage: (m: { type: string }) => posted.push(m), terminate: () => undefined } as unknown as typeof fake;
-      return fake as unknown as Worker;
-    });
+    const { backend, posted, answer } = fakeWorker();
     const rows = [{ x: 1.5, snr: null, flag: 'detectable', marks: [] }, { x: 2.5, snr: 12.25, flag: 'quantifiable', marks: ['thinly-sampled'] }];
     const seen: unknown[] = [];
     const job = backend.analyse({ sampleId: 's', scanIds: [], recipe: emptyRecipe() }, (u) => seen.push(u.patch.peaks));
-    const jobId = posted.find((m) => m.type === 'call' && m.method === 'analyse')!.jobId!;
-    fake.onmessage!({ data: { type: 'stage', jobId, update: { stage: 'peaks', sampleId: 's', pending: ['loss'], patch: {} }, peakColumns: structuredClone(toColumns(rows)) } } as MessageEvent);
-    fake.onmessage!({ data: { type: 'result', method: 'analyse', jobId, value: { outcome: 'done', ms: 1 } } } as MessageEvent);
+    const jobId = (posted.find((m) => m.type === 'call' && m.method === 'analyse') as { jobId: number }).jobId;
+    answer({ type: 'stage', jobId, update: { stage: 'peaks', sampleId: 's', pending: ['loss'], patch: {} }, peakColumns: toColumns(rows) });
+    answer({ type: 'result', method: 'analyse', jobId, value: { outcome: 'done', ms: 1 } });
     expect(await job).toBe(true);
     expect(seen).toEqual([rows]);
   });

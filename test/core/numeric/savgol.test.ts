@@ -10,6 +10,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import mlSavitzkyGolay from 'ml-savitzky-golay';
 import { padIndex } from '../../../src/core/numeric/convolve.ts';
+import { worst } from './worst-error.ts';
 import { makeRng } from '../../../src/core/numeric/random.ts';
 import { savgolCoefficients, savitzkyGolay, type SavgolMode } from '../../../src/core/numeric/savgol.ts';
 
@@ -214,15 +215,6 @@ function naiveSavgol(y: Float64Array, w: number, order: number, deriv: number, m
     scale[i] = a;
   }
   return { out, scale };
-}
-
-function worst(fast: Float64Array, ref: { out: Float64Array; scale: Float64Array }): number {
-  let e = 0;
-  for (let i = 0; i < fast.length; i++) {
-    const d = Math.abs(fast[i] - ref.out[i]) / Math.max(ref.scale[i], Number.MIN_VALUE);
-    if (!(d <= e)) e = d; // a NaN in the output makes e NaN, which fails below
-  }
-  return e;
 }
 
 const REL = 1e-12;

@@ -11,6 +11,7 @@
 import { describe, expect, it } from 'vitest';
 import { makeRng } from '../../../src/core/numeric/random.ts';
 import { padIndex } from '../../../src/core/numeric/convolve.ts';
+import { worst } from '../numeric/worst-error.ts';
 import { movingAverage, type MovingAverageEdge } from '../../../src/core/steps/moving-average.ts';
 
 function signal(n: number, seed: number): Float64Array {
@@ -38,15 +39,6 @@ function naiveMovingAverage(y: Float64Array, w: number, edge: MovingAverageEdge)
     scale[i] = a / count;
   }
   return { out, scale };
-}
-
-function worst(fast: Float64Array, ref: { out: Float64Array; scale: Float64Array }): number {
-  let e = 0;
-  for (let i = 0; i < fast.length; i++) {
-    const d = Math.abs(fast[i] - ref.out[i]) / Math.max(ref.scale[i], Number.MIN_VALUE);
-    if (!(d <= e)) e = d; // a NaN in the output makes e NaN, which fails below
-  }
-  return e;
 }
 
 const REL = 1e-12;

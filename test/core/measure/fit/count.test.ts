@@ -3,23 +3,8 @@
 // (src/core/numeric/random.ts); region of 500 points, Gaussians of σ = 0.1 (FWHM 0.2355).
 import { describe, expect, it } from 'vitest';
 import { comparePeakCounts, supportedPeakCount } from '../../../../src/core/measure/fit/count.ts';
-import { FWHM_PER_SIGMA, SHAPES } from '../../../../src/core/measure/fit/shapes.ts';
-import { makeRng } from '../../../../src/core/numeric/random.ts';
+import { N, SHOULDER, trace, x } from './shoulder-fixture.ts';
 
-const N = 500;
-const x = Float64Array.from({ length: N }, (_, i) => 3 + i * 0.01);
-const W = 0.1 * FWHM_PER_SIGMA;
-
-function trace(peaks: [number, number][], noise: number, seed: number): Float64Array {
-  const rng = makeRng(seed);
-  const y = x.map((v) => 0.2 + 0.05 * (v - 3));
-  for (const [c, h] of peaks) SHAPES.gaussian.evaluate(x, [c, h, W], 0, y, null, 0);
-  return y.map((v) => v + noise * rng.normal());
-}
-const SHOULDER: [number, number][] = [
-  [5.2, 1],
-  [5.52, 0.3],
-];
 
 
 describe('k versus k + 1 peaks', () => {
