@@ -7,6 +7,8 @@
 //   node e2e/timing.bench.mjs --rows 100000 --moves 9
 //   node e2e/timing.bench.mjs --build      rebuild dist/ first (otherwise only when missing)
 //   node e2e/timing.bench.mjs --profile    also print the main thread's top functions during the first slider move
+//   node e2e/timing.bench.mjs --profile-out F   … and write that CPU profile to F (.cpuprofile, opens in DevTools)
+//   node e2e/timing.bench.mjs --trace F    also write a Chromium trace (devtools timeline) of the second slider move to F
 //
 // Before the load and before every slider move it waits until the page is
 // idle: no analysis in flight (the busy mark beside the plot title is gone),
@@ -34,20 +36,22 @@
 // neither *.spec.* nor *.test.*.
 import { chromium } from '@playwright/test';
 import { spawn, spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, rmSync, createWriteStream } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync, createWriteStream, writeFileSync } from 'node:fs';
 import { loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 
 const PREFERRED_PORT = Number(process.env.TRACEWRIGHT_E2E_PORT ?? 4173);
 
 function parseArgs(argv) {
-  const o = { rows: 1_000_000, moves: 7, build: false, profile: false };
+  const o = { rows: 1_000_000, moves: 7, build: false, profile: false, profileOut: null, trace: null };
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i];
     if (a === '--rows') o.rows = Number(argv[++i]);
     else if (a === '--moves') o.moves = Number(argv[++i]);
     else if (a === '--build') o.build = true;
     else if (a === '--profile') o.profile = true;
+    else if (a === '--trace') o.trace = argv[++i];
+    else if (a === '--profile-out') { o.profile = true; o.profileOut = argv[++i]; }
     else throw new RangeError(`Unknown option ${a}; see the head of e2e/timing.bench.mjs.`);
   }
   if (!(Number.isInteger(o.rows) && o.rows >= 1000)) throw new RangeError('--rows must be a whole number of at least 1000.');
@@ -328,11 +332,15 @@ async function main() {
     for (let k = 0; k < o.moves; k++) {
       const value = 7 + 2 * k;
       const idle = await page.evaluate(waitIdle, 300_000);
+      const tracing = o.trace && k === Math.min(1, o.moves - 1);
+      if (tracing) await browser.startTracing(page, { path: o.trace, categories: ['devtools.timeline', 'disabled-by-default-devtools.timeline', 'blink.user_timing', 'v8.execute'] });
       const m = await page.evaluate(moveSlider, { value, timeoutMs: 300_000 });
+      if (tracing) { await browser.stopTracing(); console.log(`  trace of this move written to ${o.trace}`); }
       moves.push(m);
       console.log(`  move to ${value} points (idle after ${idle.toFixed(0)} ms): processed ${m.processed.toFixed(0)} ms, peaks ${m.peaks.toFixed(0)} ms, loss ${m.loss.toFixed(0)} ms, longest task ${m.longest.toFixed(0)} ms${m.seqAfter - m.seqBefore !== 1 ? ` (${m.seqAfter - m.seqBefore} results arrived)` : ''}`);
       if (cdp && k === 0) {
         const { profile } = await cdp.send('Profiler.stop');
+        if (o.profileOut) writeFileSync(o.profileOut, JSON.stringify(profile));
         console.log('  main thread during the first slider move, top self time:');
         for (const line of topSelf(profile, 15)) console.log(line);
         cdp = null;

@@ -12,7 +12,7 @@ import { markDrawFailed, markDrawn } from './draw-health.ts';
 import { useNameOfPeak } from './calibration/derive.ts';
 import { pickNamedPeakAt } from './calibration/pick.ts';
 import { visibleYRange } from './plot-view.ts';
-import { placeLabels } from './plot-labels.ts';
+import { labelsStillClear, placeLabels, type PlotGeometry } from './plot-labels.ts';
 import type { Peak } from '../core/measure/peak-types.ts';
 import type { Signal } from '../core/steps/types.ts';
 import { farOf } from '../worker/bridge.ts';
@@ -21,15 +21,7 @@ import { plotMarkers } from '../worker/peak-rank.ts';
 import { getBackend } from '../state/service.ts';
 
 /** The main plotting area as last drawn: axis ranges and size in pixels (issue 17: label placement). */
-interface Geometry { x: [number, number]; y: [number, number]; w: number; h: number }
-
-function sameGeometry(a: Geometry | null, b: Geometry): boolean {
-  if (!a) return false;
-  const close = (u: number, v: number, span: number) => Math.abs(u - v) <= 1e-6 * Math.abs(span);
-  return Math.abs(a.w - b.w) < 1 && Math.abs(a.h - b.h) < 1
-    && close(a.x[0], b.x[0], b.x[1] - b.x[0]) && close(a.x[1], b.x[1], b.x[1] - b.x[0])
-    && close(a.y[0], b.y[0], b.y[1] - b.y[0]) && close(a.y[1], b.y[1], b.y[1] - b.y[0]);
-}
+type Geometry = PlotGeometry;
 
 /** The x-axis and y-axis ranges and lengths Plotly used, read from the drawn figure. */
 function readGeometry(el: HTMLElement | null): Geometry | null {
@@ -170,7 +162,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       }
       // Labels that never overlap (issue 17): placed in the figure's own pixels, thinned by priority (plot-labels.ts).
       // Placed only with the geometry of the view asked for (a zoom redraws once more with the new one).
-      if (geom && (!xRange || (Math.abs(geom.x[0] - xRange[0]) <= 1e-9 * Math.abs(xRange[1] - xRange[0]) && Math.abs(geom.x[1] - xRange[1]) <= 1e-9 * Math.abs(xRange[1] - xRange[0])))) {
+      if (geom && (!xRange || labelsStillClear(geom, { ...geom, x: xRange }))) {
         // Over the whole trace, bumps below the detection limit get no label (they are mostly noise); zoomed in, they may.
         const inView = live.filter((pk) => pk.x >= geom.x[0] && pk.x <= geom.x[1] && (xRange !== null || pk.flag !== 'below-detection' || pk.origin === 'added-by-user' || names.has(pk)));
         const items = inView.map((pk) => ({
@@ -335,7 +327,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
     if (problem) { markDrawFailed(`the plot: ${problem}`); return; }
     markDrawn();
     const g = readGeometry(figEl.current);
-    if (g) setGeom((old) => (sameGeometry(old, g) ? old : g));
+    if (g) setGeom((old) => (labelsStillClear(old, g) ? old : g)); // issue 16: a shift under the labels' clear space draws no second time
   }, []);
   const onReady = useCallback((el: HTMLElement | null) => { figEl.current = el; onFigure?.(el); }, [onFigure]);
 

@@ -57,3 +57,33 @@ export function placeLabels(items: readonly LabelItem[], width: number, height: 
   }
   return kept.sort((a, b) => a.index - b.index);
 }
+
+/** The plotting area a set of labels was placed for: axis ranges in data units and the area's size in pixels. */
+export interface PlotGeometry { x: [number, number]; y: [number, number]; w: number; h: number }
+
+/**
+ * Largest shift, in pixels, of any point of the plotting area between the
+ * geometry the labels were placed for (`placed`) and the one drawn (`drawn`).
+ * Both maps from data to pixels are linear, so the shift is largest at an
+ * end of the drawn ranges.
+ */
+export function labelShift(placed: PlotGeometry, drawn: PlotGeometry): number {
+  const shift = (a: [number, number], la: number, b: [number, number], lb: number) => {
+    const at = (v: number) => Math.abs(((v - a[0]) / (a[1] - a[0])) * la - ((v - b[0]) / (b[1] - b[0])) * lb);
+    return Math.max(at(b[0]), at(b[1]));
+  };
+  return Math.max(shift(placed.x, placed.w, drawn.x, drawn.w), shift(placed.y, placed.h, drawn.y, drawn.h));
+}
+
+/**
+ * Issue 16: labels placed for `placed` stay clear of each other on `drawn`
+ * when no point moves by more than LABEL_PAD pixels: two labels then move
+ * against each other by at most 2 × LABEL_PAD, the clear space kept between
+ * them, so they may touch but never overlap (and a label may come up to
+ * LABEL_PAD pixels nearer the area's edge). Only a larger change places them
+ * again, which costs the figure a second drawing; a slider move that lowers
+ * the tallest peak by a fraction of a pixel does not.
+ */
+export function labelsStillClear(placed: PlotGeometry | null, drawn: PlotGeometry): boolean {
+  return placed !== null && labelShift(placed, drawn) <= LABEL_PAD;
+}
