@@ -8,6 +8,7 @@
 //   node e2e/timing.bench.mjs --build      rebuild dist/ first (otherwise only when missing)
 //   node e2e/timing.bench.mjs --profile    also print the main thread's top functions during the first slider move
 //   node e2e/timing.bench.mjs --profile-out F   … and write that CPU profile to F (.cpuprofile, opens in DevTools)
+//   node e2e/timing.bench.mjs --worker-profile-out F   … a CPU profile of the analysis worker during the first slider move
 //   node e2e/timing.bench.mjs --trace F    also write a Chromium trace (devtools timeline) of the second slider move to F
 //
 // Before the load and before every slider move it waits until the page is
@@ -43,7 +44,7 @@ import { join } from 'node:path';
 const PREFERRED_PORT = Number(process.env.TRACEWRIGHT_E2E_PORT ?? 4173);
 
 function parseArgs(argv) {
-  const o = { rows: 1_000_000, moves: 7, build: false, profile: false, profileOut: null, trace: null };
+  const o = { rows: 1_000_000, moves: 7, build: false, profile: false, profileOut: null, workerProfileOut: null, trace: null };
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i];
     if (a === '--rows') o.rows = Number(argv[++i]);
@@ -52,6 +53,7 @@ function parseArgs(argv) {
     else if (a === '--profile') o.profile = true;
     else if (a === '--trace') o.trace = argv[++i];
     else if (a === '--profile-out') { o.profile = true; o.profileOut = argv[++i]; }
+    else if (a === '--worker-profile-out') o.workerProfileOut = argv[++i];
     else throw new RangeError(`Unknown option ${a}; see the head of e2e/timing.bench.mjs.`);
   }
   if (!(Number.isInteger(o.rows) && o.rows >= 1000)) throw new RangeError('--rows must be a whole number of at least 1000.');
@@ -217,15 +219,9 @@ async function moveSlider({ value, timeoutMs }) {
 
 // ---------------------------------------------------------------------------
 
-/** Heap in use plus array-buffer storage, page and workers (CDP Runtime.getHeapUsage), in bytes. */
-async function heapBytes(page) {
+/** CDP senders for every worker of the page (non-flattened sessions answer through Target messages), and a detach. */
+async function workerSenders(page) {
   const session = await page.context().newCDPSession(page);
-  const usage = async (send) => {
-    const u = await send('Runtime.getHeapUsage', {});
-    return u.usedSize + (u.backingStorageSize ?? 0);
-  };
-  let total = await usage((m, p) => session.send(m, p));
-  // Workers: attach through the page's session (non-flattened sessions answer through Target messages).
   const workers = [];
   const pending = new Map();
   let nextId = 1;
@@ -237,19 +233,30 @@ async function heapBytes(page) {
   });
   await session.send('Target.setAutoAttach', { autoAttach: true, waitForDebuggerOnStart: false, flatten: false });
   await new Promise((res) => setTimeout(res, 300));
+  const senders = workers.map((sessionId) => (method, params) => new Promise((res, rej) => {
+    const id = nextId++;
+    pending.set(id, (msg) => (msg.error ? rej(new Error(msg.error.message)) : res(msg.result)));
+    session.send('Target.sendMessageToTarget', { sessionId, message: JSON.stringify({ id, method, params }) }).catch(rej);
+  }));
+  return { senders, detach: () => session.detach() };
+}
+
+/** Heap in use plus array-buffer storage, page and workers (CDP Runtime.getHeapUsage), in bytes. */
+async function heapBytes(page) {
+  const session = await page.context().newCDPSession(page);
+  const u = await session.send('Runtime.getHeapUsage', {});
+  let total = u.usedSize + (u.backingStorageSize ?? 0);
+  await session.detach();
+  const { senders, detach } = await workerSenders(page);
   let counted = 0;
-  for (const sessionId of workers) {
-    const send = (method, params) => new Promise((res, rej) => {
-      const id = nextId++;
-      pending.set(id, (msg) => (msg.error ? rej(new Error(msg.error.message)) : res(msg.result)));
-      session.send('Target.sendMessageToTarget', { sessionId, message: JSON.stringify({ id, method, params }) }).catch(rej);
-    });
+  for (const send of senders) {
     try {
-      total += await usage(send);
+      const w = await send('Runtime.getHeapUsage', {});
+      total += w.usedSize + (w.backingStorageSize ?? 0);
       counted++;
     } catch { /* a worker that went away */ }
   }
-  await session.detach();
+  await detach();
   return { bytes: total, workers: counted };
 }
 
@@ -324,6 +331,11 @@ async function main() {
 
     const moves = [];
     let cdp = null;
+    let workerProfiling = null;
+    if (o.workerProfileOut) {
+      workerProfiling = await workerSenders(page);
+      for (const send of workerProfiling.senders) { await send('Profiler.enable', {}); await send('Profiler.start', {}); }
+    }
     if (o.profile) {
       cdp = await page.context().newCDPSession(page);
       await cdp.send('Profiler.enable');
@@ -338,6 +350,15 @@ async function main() {
       if (tracing) { await browser.stopTracing(); console.log(`  trace of this move written to ${o.trace}`); }
       moves.push(m);
       console.log(`  move to ${value} points (idle after ${idle.toFixed(0)} ms): processed ${m.processed.toFixed(0)} ms, peaks ${m.peaks.toFixed(0)} ms, loss ${m.loss.toFixed(0)} ms, longest task ${m.longest.toFixed(0)} ms${m.seqAfter - m.seqBefore !== 1 ? ` (${m.seqAfter - m.seqBefore} results arrived)` : ''}`);
+      if (workerProfiling && k === 0) {
+        // The analysis worker is the one whose profile holds the most functions (the load worker sits idle).
+        const profiles = [];
+        for (const send of workerProfiling.senders) { try { profiles.push((await send('Profiler.stop', {})).profile); } catch { /* gone */ } }
+        const best = profiles.sort((a, b) => b.nodes.length - a.nodes.length)[0];
+        if (best) { writeFileSync(o.workerProfileOut, JSON.stringify(best)); console.log(`  worker CPU profile of this move written to ${o.workerProfileOut}`); }
+        await workerProfiling.detach();
+        workerProfiling = null;
+      }
       if (cdp && k === 0) {
         const { profile } = await cdp.send('Profiler.stop');
         if (o.profileOut) writeFileSync(o.profileOut, JSON.stringify(profile));
