@@ -24,6 +24,8 @@
 //   slider_to_peaks_ms      … → the first frame after the peak table shows it (data-result-seq)
 //   slider_to_loss_ms       … → the first frame after the loss panel shows it (data-result-seq)
 //   longest_task_ms         the longest main-thread task (longtask observer) during the moves
+// Printed besides (not in the TIMING line): the figure redrawn with no analysis behind it (the raw
+// trace switched off and on), the plot library's share of every stage that changes the figure.
 //   heap_mb                 after the moves: JS heap in use plus array-buffer and external-string
 //                           storage (CDP Runtime.getHeapUsage: usedSize + backingStorageSize) of the
 //                           page and of every worker, in MiB
@@ -179,6 +181,28 @@ function waitIdle(ms) {
       else setTimeout(check, 50);
     };
     check();
+  });
+}
+
+/**
+ * The figure's redraw alone, no analysis: switch the raw trace off or on (one trace fewer or more, the
+ * rest unchanged) and time the input event → the plot library's drawing done (the figure's data-drawn
+ * attribute is written again) → the next frame. Returns [ms to drawn, ms to the frame].
+ */
+async function toggleRawRedraw() {
+  const box = [...document.querySelectorAll('label.switch')].find((l) => l.textContent.trim() === 'raw')?.querySelector('input');
+  const fig = document.querySelector('[data-testid="figure"]');
+  if (!box || !fig) throw new Error('no raw switch or figure');
+  return await new Promise((resolve) => {
+    let drawnAt = 0;
+    const t0 = performance.now();
+    const mo = new MutationObserver(() => {
+      mo.disconnect();
+      drawnAt = performance.now() - t0;
+      requestAnimationFrame((frame) => resolve([drawnAt, frame - t0]));
+    });
+    mo.observe(fig, { attributes: true, attributeFilter: ['data-drawn'] });
+    box.click();
   });
 }
 
@@ -368,6 +392,14 @@ async function main() {
       }
     }
     await page.evaluate(waitIdle, 300_000);
+    // The plot library's share: the figure redrawn with no analysis behind it (raw off, raw on; 3 times each).
+    const redraws = [];
+    for (let k = 0; k < 6; k++) {
+      await page.evaluate(waitIdle, 60_000);
+      redraws.push(await page.evaluate(toggleRawRedraw));
+    }
+    const drawnMs = redraws.map((r) => r[0]).sort((a, b) => a - b);
+    console.log(`figure redraw alone (raw switched off and on, 6 times): to drawn min ${drawnMs[0].toFixed(0)} ms, median ${median(drawnMs).toFixed(0)} ms; to the next frame median ${median(redraws.map((r) => r[1])).toFixed(0)} ms`);
     const heap = await heapBytes(page);
     const rows = await page.evaluate(() => document.querySelectorAll('[data-testid="peak-table"] tbody tr').length);
     const med = (key) => median(moves.map((m) => m[key]));
