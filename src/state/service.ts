@@ -168,7 +168,7 @@ export function createService(store: StoreApi<AppState>, makeBackend: BackendFac
    * notice offers to undo.
    */
   async function openFiles(files: readonly File[]): Promise<void> {
-    // The user's own files win over a demo still arriving: its remaining files are not loaded.
+    // The user's own files win over a demo still arriving: that demo adds nothing (loadDemo).
     demoRun += 1;
     const before = store.getState();
     const rolesBefore = { ...before.roles };
