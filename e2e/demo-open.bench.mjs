@@ -9,11 +9,12 @@
 // Each run opens the page in a new browser context (no saved session, so the
 // demo loads) and measures in the page with performance.now(), i.e. from the
 // start of the navigation:
+//   shown_ms     the first time the plot is drawn (the sample's raw trace; data-drawn set)
 //   drawn_ms     the first time the plot carries an analysis result (data-drawn not "0")
 //   idle_ms      the last time the busy mark beside the plot title went away (the page
 //                stays idle for 2 s after the "Demo loaded" notice before the run ends)
 //   analyses     analysis calls posted to the computation worker (each newer one cancels the older)
-// One line per run: `DEMO_OPEN build=<n> drawn_ms=… idle_ms=… analyses=… load=…`, then the minimum
+// One line per run: `DEMO_OPEN build=<n> shown_ms=… drawn_ms=… idle_ms=… analyses=… load=…`, then the minimum
 // and median of each build.
 //
 // It serves each dist/ from a small static server on 127.0.0.1 at TRACEWRIGHT_E2E_PORT (default
@@ -59,7 +60,7 @@ function serve(port) {
 
 /** Watches the page from its first script on (an init script). */
 function watch() {
-  const w = { drawn: null, idle: null, notice: null, busy: false, analyses: 0 };
+  const w = { shown: null, drawn: null, idle: null, notice: null, busy: false, analyses: 0 };
   window.__demoOpen = w;
   const post = Worker.prototype.postMessage;
   Worker.prototype.postMessage = function (msg, ...rest) {
@@ -69,6 +70,7 @@ function watch() {
   const look = () => {
     const now = performance.now();
     const fig = document.querySelector('[data-testid="figure"]');
+    if (w.shown === null && fig && fig.hasAttribute('data-drawn')) w.shown = now;
     if (w.drawn === null && fig && (fig.getAttribute('data-drawn') ?? '0') !== '0') w.drawn = now;
     if (w.notice === null && [...document.querySelectorAll('.notice')].some((n) => n.textContent.includes('Demo loaded'))) w.notice = now;
     const busy = document.querySelector('[aria-label="computing"]') !== null;
@@ -93,7 +95,7 @@ async function oneRun(browser, port) {
     w = await read();
   }
   await context.close();
-  return { drawn: w.drawn, idle: w.idle ?? w.drawn, analyses: w.analyses };
+  return { shown: w.shown ?? w.drawn, drawn: w.drawn, idle: w.idle ?? w.drawn, analyses: w.analyses };
 }
 
 const median = (a) => { const s = [...a].sort((x, y) => x - y); const m = s.length >> 1; return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2; };
@@ -114,7 +116,7 @@ async function main() {
         server.state.root = o.dists[i];
         const m = await oneRun(browser, port);
         rows[i].push(m);
-        console.log(`DEMO_OPEN build=${i} run=${r + 1} drawn_ms=${m.drawn.toFixed(0)} idle_ms=${m.idle.toFixed(0)} analyses=${m.analyses} load=${loadavg()[0].toFixed(2)}`);
+        console.log(`DEMO_OPEN build=${i} run=${r + 1} shown_ms=${m.shown.toFixed(0)} drawn_ms=${m.drawn.toFixed(0)} idle_ms=${m.idle.toFixed(0)} analyses=${m.analyses} load=${loadavg()[0].toFixed(2)}`);
       }
     }
   } finally {
@@ -123,7 +125,7 @@ async function main() {
   }
   rows.forEach((rs, i) => {
     const f = (k) => `${Math.min(...rs.map((m) => m[k])).toFixed(0)} / ${median(rs.map((m) => m[k])).toFixed(0)}`;
-    console.log(`build ${i} (min / median of ${rs.length}): drawn ${f('drawn')} ms, idle ${f('idle')} ms, analyses ${f('analyses')}`);
+    console.log(`build ${i} (min / median of ${rs.length}): shown ${f('shown')} ms, drawn ${f('drawn')} ms, idle ${f('idle')} ms, analyses ${f('analyses')}`);
   });
 }
 

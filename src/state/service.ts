@@ -220,27 +220,30 @@ export function createService(store: StoreApi<AppState>, makeBackend: BackendFac
   /**
    * Load the invented demo run: sample, blank and eight repeated scans, each
    * file read as the user's would be, then all of them put in the store in one
-   * change replacing what was there (one analysis, one save). A file of the
+   * change replacing what was there (one analysis, one save; issue 16). A file of the
    * user's opened meanwhile wins: the demo then adds nothing.
    */
   async function loadDemo(): Promise<void> {
     const base = new URL('demo/', document.baseURI);
     const run = ++demoRun;
     latestDemo = run;
-    const traces: Trace[] = [], reports: LoadReport[] = [], roles: TraceRole[] = [];
-    for (const d of DEMO_FILES) {
-      if (run !== demoRun) break;
+    // The ten files are fetched at once and read in the load worker in turn (one round trip each, overlapping).
+    const reads = await Promise.all(DEMO_FILES.map(async (d) => {
       try {
         const res = await fetch(new URL(d.file, base));
         if (!res.ok) throw new Error(`HTTP ${res.status}`);
-        const read = await parseBytes(new Uint8Array(await res.arrayBuffer()), d.file);
-        if (!read) continue;
-        // The file's first trace takes the demo's role; any other column of it is set aside, as loadBytes would.
-        read.traces.forEach((t, i) => { traces.push(t); reports.push(read.report); roles.push(i === 0 ? d.role : 'ignore'); });
+        const bytes = new Uint8Array(await res.arrayBuffer());
+        return run === demoRun ? await parseBytes(bytes, d.file) : null;
       } catch (e) {
         store.getState().notify('error', `The demo file ${d.file} could not be fetched`, [(e as Error).message]);
+        return null;
       }
-    }
+    }));
+    const traces: Trace[] = [], reports: LoadReport[] = [], roles: TraceRole[] = [];
+    reads.forEach((read, k) => {
+      // The file's first trace takes the demo's role; any other column of it is set aside, as loadBytes would.
+      read?.traces.forEach((t, i) => { traces.push(t); reports.push(read.report); roles.push(i === 0 ? DEMO_FILES[k].role : 'ignore'); });
+    });
     const app = store.getState();
     // A file of the user's opened while the demo was arriving wins (it is never replaced); a newer demo load says its own.
     if (run !== demoRun) {
