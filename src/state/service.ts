@@ -44,6 +44,8 @@ export const DEMO_FILES = [
 interface LoadBytesOptions {
   roles?: TraceRole[];
   replace?: boolean;
+  /** No "Loaded …" notice (a problem's notice is still given). */
+  quiet?: boolean;
   /** How numbers are written, when the user said so. */
   numberFormat?: LoadOptions['numberFormat'];
   /** Read the file again (for a second try with what the user said); absent for the demo. */
@@ -153,6 +155,7 @@ export function createService(store: StoreApi<AppState>, makeBackend: BackendFac
     const result = await parseBytes(bytes, fileName, opts);
     if (!result) return false;
     store.getState().addTraces(result.traces, result.report, { roles: opts.roles, replace: opts.replace });
+    if (opts.quiet) return true;
     const n = result.traces.length;
     // The title names the file and the count; the traces themselves are in the trace list (60 names in a title help nobody).
     const title = n === 1 ? `Loaded ${result.traces[0].name}` : `Loaded ${fileName}: ${n.toLocaleString('en')} traces`;
