@@ -41,8 +41,8 @@ export async function openWithDemo(page: Page): Promise<void> {
   // (e2e/bench-page.spec.ts checks the guide itself).
   const guide = page.getByTestId('guide-close');
   if (await guide.isVisible()) await guide.click();
-  // The demo arrives file by file (sample, blank, eight scans), and each file starts a new analysis, during which
-  // the export buttons are disabled. A spec starts once the whole demo is in and analysed.
+  // The demo's ten files (sample, blank, eight scans) enter in one change and start one analysis, during which the
+  // export buttons are disabled. A spec starts once the whole demo is in and analysed.
   await expect(page.locator('.notice').filter({ hasText: 'Demo loaded' })).toBeVisible({ timeout: 30_000 });
   await expect(page.locator('[aria-label="computing"]')).toHaveCount(0, { timeout: 30_000 });
 }

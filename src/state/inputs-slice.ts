@@ -10,7 +10,8 @@ export interface InputsSlice {
   sampleId: string | null;
   reports: Record<string, LoadReport>;
   loading: { fileName: string; fraction: number } | null;
-  addTraces: (traces: Trace[], report: LoadReport, opts?: { replace?: boolean; roles?: TraceRole[] }) => void;
+  /** Add traces in one change, with one load report for all or one per trace (the demo's ten files at once). */
+  addTraces: (traces: Trace[], report: LoadReport | readonly LoadReport[], opts?: { replace?: boolean; roles?: TraceRole[] }) => void;
   setRole: (id: string, role: TraceRole) => void;
   setSample: (id: string) => void;
   /** Give several traces roles in one change (one step for the user, one analysis); a trace given 'sample' becomes the one processed. */
@@ -33,7 +34,7 @@ export const createInputsSlice: StateCreator<AppState, [], [], InputsSlice> = (s
     const reports = opts?.replace ? {} : { ...s.reports };
     incoming.forEach((t, i) => {
       roles[t.id] = opts?.roles?.[i] ?? (i === 0 ? 'sample' : 'ignore');
-      reports[t.id] = report;
+      reports[t.id] = Array.isArray(report) ? report[i] : report;
     });
     let sampleId = opts?.replace ? null : s.sampleId;
     const firstSample = incoming.find((t) => roles[t.id] === 'sample');

@@ -8,8 +8,8 @@
  */
 import { applyStage, STAGES, type AnalyseRequest, type AnalyseResult } from '../core/analysis/index.ts';
 import { sizeProblem, unexpectedLoadProblem } from '../core/io/guards.ts';
-import type { LoadOptions, LoadProblem, LoadResult } from '../core/io/types.ts';
-import type { TraceRole } from '../core/trace.ts';
+import type { LoadOptions, LoadProblem, LoadReport, LoadResult } from '../core/io/types.ts';
+import type { Trace, TraceRole } from '../core/trace.ts';
 import type { StoreApi } from 'zustand';
 import { currentResult } from './selectors.ts';
 import { useApp, type AppState } from './store.ts';
@@ -17,7 +17,10 @@ import { SNAP_POINTS, snapHandPeak } from '../core/measure/hand-peak.ts';
 import { exactSignal, inProcessBackend, LatestOnly, workerBackend, type ComputeBackend } from '../worker/bridge.ts';
 import { DISPLAY_CAPS } from './display-caps.ts';
 
-function describeLoad(result: Extract<LoadResult, { ok: true }>): string[] {
+/** One file read: its traces and load report. */
+type Loaded = Extract<LoadResult, { ok: true }>;
+
+function describeLoad(result: Loaded): string[] {
   const r = result.report;
   const lines = [`${r.format}; ${r.rowsRead} rows read, ${r.skipped.length} skipped; SHA-256 ${r.sha256.slice(0, 16)}…`];
   for (const n of r.notices) lines.push(n);
@@ -41,11 +44,10 @@ export const DEMO_FILES = [
 interface LoadBytesOptions {
   roles?: TraceRole[];
   replace?: boolean;
+  /** No "Loaded …" notice (a problem's notice is still given). */
   quiet?: boolean;
   /** How numbers are written, when the user said so. */
   numberFormat?: LoadOptions['numberFormat'];
-  /** Checked when the file has been read: false drops it (a demo file overtaken by the user's own file). */
-  stillWanted?: () => boolean;
   /** Read the file again (for a second try with what the user said); absent for the demo. */
   reread?: () => Promise<Uint8Array>;
 }
@@ -95,6 +97,8 @@ export function createService(store: StoreApi<AppState>, makeBackend: BackendFac
 
   /** Counts demo loads and opened files; a demo load stops when the count moves on (issue 17). */
   let demoRun = 0;
+  /** The count of the newest demo load (an older one overtaken by it says nothing). */
+  let latestDemo = 0;
 
   /** What notices offer to do, by key (functions stay out of the store). */
   const noticeActions = new Map<string, () => void>();
@@ -108,47 +112,55 @@ export function createService(store: StoreApi<AppState>, makeBackend: BackendFac
   }
 
 
-  /** Load one file's bytes; on success its first trace becomes the sample unless roles say otherwise. */
-  async function loadBytes(bytes: Uint8Array, fileName: string, opts: LoadBytesOptions = {}): Promise<boolean> {
+  /**
+   * Read one file's bytes in the load worker: its traces and load report, or
+   * null when it cannot be read (its notice given). The store is not changed
+   * here; a notice offering to say how numbers are written reads the file
+   * again and adds it as {@link loadBytes} does, with `opts`' roles.
+   */
+  async function parseBytes(bytes: Uint8Array, fileName: string, opts: LoadBytesOptions = {}): Promise<Loaded | null> {
     const tooLarge = sizeProblem(bytes.byteLength, fileName);
-    if (tooLarge) { notifyProblem(tooLarge); return false; }
+    if (tooLarge) { notifyProblem(tooLarge); return null; }
     store.getState().setLoading({ fileName, fraction: 0 });
     try {
       const options = opts.numberFormat ? { numberFormat: opts.numberFormat } : undefined;
       const result = await getBackend().load(bytes, fileName, options, (fraction) => store.getState().setLoading({ fileName, fraction }));
-      if (!result.ok) {
-        const e = result.error;
-        // The page may ask what the file cannot say (how its numbers are written); the answer loads it again.
-        let action: { label: string; key: string } | undefined;
-        const settle = e.settle, reread = opts.reread;
-        if (settle && reread) {
-          const key = `settle-${++actionCount}`;
-          noticeActions.set(key, () => {
-            void reread().then(
-              (again) => loadBytes(again, fileName, { ...opts, numberFormat: settle.numberFormat }),
-              (err: Error) => store.getState().notify('error', `${fileName}: the browser could not read the file again`, [err.message]),
-            );
-          });
-          action = { label: settle.label, key };
-        }
-        notifyProblem(e, action);
-        return false;
+      if (result.ok) return result;
+      const e = result.error;
+      // The page may ask what the file cannot say (how its numbers are written); the answer loads it again.
+      let action: { label: string; key: string } | undefined;
+      const settle = e.settle, reread = opts.reread;
+      if (settle && reread) {
+        const key = `settle-${++actionCount}`;
+        noticeActions.set(key, () => {
+          void reread().then(
+            (again) => loadBytes(again, fileName, { ...opts, numberFormat: settle.numberFormat }),
+            (err: Error) => store.getState().notify('error', `${fileName}: the browser could not read the file again`, [err.message]),
+          );
+        });
+        action = { label: settle.label, key };
       }
-      if (opts.stillWanted && !opts.stillWanted()) return false;
-      store.getState().addTraces(result.traces, result.report, { roles: opts.roles, replace: opts.replace });
-      if (!opts.quiet) {
-        const n = result.traces.length;
-        // The title names the file and the count; the traces themselves are in the trace list (60 names in a title help nobody).
-        const title = n === 1 ? `Loaded ${result.traces[0].name}` : `Loaded ${fileName}: ${n.toLocaleString('en')} traces`;
-        store.getState().notify(result.report.skipped.length ? 'warning' : 'info', title, describeLoad(result));
-      }
-      return true;
+      notifyProblem(e, action);
+      return null;
     } catch (e) {
       notifyProblem(unexpectedLoadProblem(fileName, e));
-      return false;
+      return null;
     } finally {
       store.getState().setLoading(null);
     }
+  }
+
+  /** Load one file's bytes; on success its first trace becomes the sample unless roles say otherwise. */
+  async function loadBytes(bytes: Uint8Array, fileName: string, opts: LoadBytesOptions = {}): Promise<boolean> {
+    const result = await parseBytes(bytes, fileName, opts);
+    if (!result) return false;
+    store.getState().addTraces(result.traces, result.report, { roles: opts.roles, replace: opts.replace });
+    if (opts.quiet) return true;
+    const n = result.traces.length;
+    // The title names the file and the count; the traces themselves are in the trace list (60 names in a title help nobody).
+    const title = n === 1 ? `Loaded ${result.traces[0].name}` : `Loaded ${fileName}: ${n.toLocaleString('en')} traces`;
+    store.getState().notify(result.report.skipped.length ? 'warning' : 'info', title, describeLoad(result));
+    return true;
   }
 
 
@@ -159,7 +171,7 @@ export function createService(store: StoreApi<AppState>, makeBackend: BackendFac
    * notice offers to undo.
    */
   async function openFiles(files: readonly File[]): Promise<void> {
-    // The user's own files win over a demo still arriving: its remaining files are not loaded.
+    // The user's own files win over a demo still arriving: that demo adds nothing (loadDemo).
     demoRun += 1;
     const before = store.getState();
     const rolesBefore = { ...before.roles };
@@ -208,29 +220,42 @@ export function createService(store: StoreApi<AppState>, makeBackend: BackendFac
   }
 
 
-  /** Load the invented demo run: sample, blank and eight repeated scans. */
+  /**
+   * Load the invented demo run: sample, blank and eight repeated scans, each
+   * file read as the user's would be, then all of them put in the store in one
+   * change replacing what was there (one analysis, one save; issue 16). A file of the
+   * user's opened meanwhile wins: the demo then adds nothing.
+   */
   async function loadDemo(): Promise<void> {
     const base = new URL('demo/', document.baseURI);
-    let first = true;
     const run = ++demoRun;
-    for (const d of DEMO_FILES) {
-      if (run !== demoRun) {
-        store.getState().notify('info', 'The rest of the demo was not loaded', ['A file of your own was opened while the demo was arriving; the demo files already loaded are set aside.']);
-        return;
-      }
+    latestDemo = run;
+    // The ten files are fetched at once and read in the load worker in turn (one round trip each, overlapping).
+    const reads = await Promise.all(DEMO_FILES.map(async (d) => {
       try {
         const res = await fetch(new URL(d.file, base));
         if (!res.ok) throw new Error(`HTTP ${res.status}`);
         const bytes = new Uint8Array(await res.arrayBuffer());
-        // A file of the user's opened while this one was read wins: this one is dropped (it could replace the user's).
-        await loadBytes(bytes, d.file, { roles: [d.role], replace: first, quiet: true, stillWanted: () => run === demoRun });
-        first = false;
+        return run === demoRun ? await parseBytes(bytes, d.file) : null;
       } catch (e) {
         store.getState().notify('error', `The demo file ${d.file} could not be fetched`, [(e as Error).message]);
+        return null;
       }
+    }));
+    const traces: Trace[] = [], reports: LoadReport[] = [], roles: TraceRole[] = [];
+    reads.forEach((read, k) => {
+      // The file's first trace takes the demo's role; any other column of it is set aside, as loadBytes would.
+      read?.traces.forEach((t, i) => { traces.push(t); reports.push(read.report); roles.push(i === 0 ? DEMO_FILES[k].role : 'ignore'); });
+    });
+    const app = store.getState();
+    // A file of the user's opened while the demo was arriving wins (it is never replaced); a newer demo load says its own.
+    if (run !== demoRun) {
+      if (latestDemo === run) app.notify('info', 'The demo was not loaded', ['A file of your own was opened while the demo was arriving; the demo added nothing, your file is as you opened it.']);
+      return;
     }
-    const n = store.getState().traces.length;
-    store.getState().notify('info', `Demo loaded: an invented teaching-rig run (${n} traces)`, ['A sample, its blank and eight repeated scans: synthetic data made by scripts/make-demo.mjs, with the true peaks in public/demo/demo-truth.json. Drop your own file to replace the sample.']);
+    if (!traces.length) { app.notify('error', 'The demo was not loaded', ['None of its files could be read (each one\'s notice says why). Nothing already loaded was changed.']); return; }
+    app.addTraces(traces, reports, { roles, replace: true });
+    app.notify('info', `Demo loaded: an invented teaching-rig run (${traces.length} traces)`, ['A sample, its blank and eight repeated scans: synthetic data made by scripts/make-demo.mjs, with the true peaks in public/demo/demo-truth.json. Drop your own file to replace the sample.']);
   }
 
   function buildRequest(): AnalyseRequest | null {

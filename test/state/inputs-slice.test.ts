@@ -35,6 +35,20 @@ describe('inputs slice', () => {
     for (const t of ts) expect(s.reports[t.id]).toBe(report);
   });
 
+  it('traces of several files in one change: each keeps its own file’s load report (one report per trace)', () => {
+    const app = createAppStore();
+    const ts = [mk('a'), mk('b')];
+    const other = { ...report, fileName: 'b.csv', sha256: '1'.repeat(64) };
+    let changes = 0;
+    app.subscribe((s, prev) => { if (s.traces !== prev.traces) changes += 1; });
+    app.getState().addTraces(ts, [report, other], { roles: ['sample', 'blank'] });
+    const s = app.getState();
+    expect(changes).toBe(1);
+    expect(s.reports[ts[0].id]).toBe(report);
+    expect(s.reports[ts[1].id]).toBe(other);
+    expect(ts.map((t) => s.roles[t.id])).toEqual(['sample', 'blank']);
+  });
+
   it('roles given with the traces are taken; replace drops what was there', () => {
     const app = createAppStore();
     const old = mk('old');

@@ -3,12 +3,12 @@
 // Expected peaks are the invented demo's own ground truth
 // (public/demo/demo-truth.json, written by scripts/make-demo.mjs).
 import { readFileSync } from 'node:fs';
-import { describe, expect, it } from 'vitest';
+import { afterEach, describe, expect, it, vi } from 'vitest';
 import { MAX_FILE_BYTES } from '../../src/core/io/types.ts';
 import { currentResult } from '../../src/state/selectors.ts';
-import { createService } from '../../src/state/service.ts';
+import { createService, DEMO_FILES } from '../../src/state/service.ts';
 import { createAppStore } from '../../src/state/store.ts';
-import { inProcessBackend } from '../../src/worker/bridge.ts';
+import { inProcessBackend, type ComputeBackend } from '../../src/worker/bridge.ts';
 
 const demo = (name: string) => new Uint8Array(readFileSync(new URL(`../../public/demo/${name}`, import.meta.url)));
 const truth = JSON.parse(readFileSync(new URL('../../public/demo/demo-truth.json', import.meta.url), 'utf8')) as {
@@ -82,5 +82,138 @@ describe('service layer (src/state/service.ts) over a store it is given', () => 
     } finally {
       stop();
     }
+  });
+});
+
+/**
+ * The demo as the page fetches it: public/demo/ served by a stand-in `fetch`
+ * that answers on a later task, as a network does (so an analysis asked for
+ * between two files would start). `hold` keeps one file back until released;
+ * `fail` answers HTTP 404 for one file; `empty` serves one file with no bytes.
+ */
+function serveDemo(opts: { hold?: string; fail?: string; empty?: string } = {}) {
+  let release = (): void => undefined;
+  const held = new Promise<void>((r) => { release = r; });
+  let reached = (): void => undefined;
+  const holding = new Promise<void>((r) => { reached = r; });
+  vi.stubGlobal('document', { baseURI: 'http://demo.test/' });
+  vi.stubGlobal('fetch', async (url: URL) => {
+    const name = url.pathname.split('/').pop()!;
+    expect(url.href).toBe(`http://demo.test/demo/${name}`);
+    await new Promise((r) => setTimeout(r, 2));
+    if (name === opts.hold) { reached(); await held; }
+    if (name === opts.fail) return { ok: false, status: 404, arrayBuffer: () => Promise.reject(new Error('no body')) };
+    const bytes = name === opts.empty ? new Uint8Array(0) : demo(name);
+    return { ok: true, status: 200, arrayBuffer: () => Promise.resolve(bytes.buffer) };
+  });
+  return { release, holding };
+}
+
+/** A fresh store and service whose in-process backend counts the analyses asked for (the latest-only ones). */
+function counted() {
+  const store = createAppStore();
+  const analyses = { n: 0 };
+  const service = createService(store, () => {
+    const inner = inProcessBackend();
+    const backend: ComputeBackend = { ...inner, analyse: (req, on, side) => { if (!side) analyses.n += 1; return inner.analyse(req, on, side); } };
+    return backend;
+  });
+  /** How many times the store's traces changed. */
+  const changes = { traces: 0 };
+  store.subscribe((s, prev) => { if (s.traces !== prev.traces) changes.traces += 1; });
+  return { store, service, analyses, changes };
+}
+
+const titles = (store: ReturnType<typeof createAppStore>) => store.getState().notices.map((n) => n.title);
+
+describe('the demo run arrives as one change of traces (issue 16)', () => {
+  afterEach(() => { vi.unstubAllGlobals(); });
+
+  it('ten files, one change replacing what was there, each with its role and its own load report; one analysis; one notice after it', async () => {
+    const { store, service, analyses, changes } = counted();
+    expect(await service.loadBytes(demo('demo-sample.csv'), 'mine.csv')).toBe(true);
+    const stop = service.startController();
+    try {
+      changes.traces = 0;
+      serveDemo();
+      const noticesBefore = store.getState().notices.length;
+      // The notice comes after the change: when the traces change, no "Demo loaded" notice is there yet.
+      let noticeAtChange: boolean | null = null;
+      const unsub = store.subscribe((s, prev) => { if (s.traces !== prev.traces) noticeAtChange = titles(store).some((t) => t.startsWith('Demo loaded')); });
+      await service.loadDemo();
+      unsub();
+      await until(() => currentResult(store.getState())?.peaks !== undefined && !store.getState().busy);
+      await new Promise((r) => setTimeout(r, 50));
+      const s = store.getState();
+      expect(changes.traces).toBe(1);
+      expect(noticeAtChange).toBe(false);
+      expect(analyses.n).toBe(1);
+      // mine.csv is gone: the demo replaces what was there, as "Reload demo" always did.
+      expect(s.traces.map((t) => t.source.fileName)).toEqual(DEMO_FILES.map((d) => d.file));
+      expect(s.traces.map((t) => s.roles[t.id])).toEqual(DEMO_FILES.map((d) => d.role));
+      expect(s.sampleId).toBe(s.traces[0].id);
+      for (const t of s.traces) {
+        expect(s.reports[t.id].fileName).toBe(t.source.fileName);
+        // The same hash the loader gives each file read alone (same parse, same report).
+        expect(s.reports[t.id].sha256).toBe(t.source.sha256);
+      }
+      expect(new Set(s.traces.map((t) => s.reports[t.id].sha256)).size).toBe(10);
+      const added = s.notices.length - noticesBefore;
+      expect(added).toBe(1);
+      expect(titles(store).filter((t) => t.startsWith('Demo loaded'))).toEqual(['Demo loaded: an invented teaching-rig run (10 traces)']);
+      expect(s.loading).toBeNull();
+    } finally {
+      stop();
+    }
+  });
+
+  it('a file of the user’s opened while the demo is arriving wins: the demo adds nothing and the notice says so', async () => {
+    const { store, service, changes } = counted();
+    const { release, holding } = serveDemo({ hold: 'demo-scan-3.csv' });
+    const demoDone = service.loadDemo();
+    await holding;
+    const bytes = demo('demo-blank.csv');
+    const mine = { name: 'mine.csv', size: bytes.byteLength, arrayBuffer: () => Promise.resolve(bytes.buffer) } as unknown as File;
+    await service.openFiles([mine]);
+    release();
+    await demoDone;
+    const s = store.getState();
+    expect(s.traces.map((t) => t.source.fileName)).toEqual(['mine.csv']);
+    expect(s.sampleId).toBe(s.traces[0].id);
+    expect(changes.traces).toBe(1);
+    expect(titles(store).some((t) => t.startsWith('Demo loaded'))).toBe(false);
+    const n = s.notices.find((x) => x.title === 'The demo was not loaded')!;
+    expect(n.lines.join(' ')).toMatch(/the demo added nothing, your file is as you opened it/);
+  });
+
+  it('a demo file that cannot be fetched, and one that cannot be read, each give their notice; the other eight arrive in the one change', async () => {
+    const { store, service, changes } = counted();
+    serveDemo({ fail: 'demo-blank.csv', empty: 'demo-scan-4.csv' });
+    await service.loadDemo();
+    const s = store.getState();
+    expect(changes.traces).toBe(1);
+    const kept = DEMO_FILES.filter((d) => d.file !== 'demo-blank.csv' && d.file !== 'demo-scan-4.csv');
+    expect(s.traces.map((t) => t.source.fileName)).toEqual(kept.map((d) => d.file));
+    expect(s.traces.map((t) => s.roles[t.id])).toEqual(kept.map((d) => d.role));
+    const t = titles(store);
+    expect(t).toContain('The demo file demo-blank.csv could not be fetched');
+    expect(s.notices.find((x) => x.title === 'The demo file demo-blank.csv could not be fetched')!.lines).toEqual(['HTTP 404']);
+    // The loaders' own wording for the unreadable file, as for a file of the user's.
+    expect(t).toContain('demo-scan-4.csv: The file is empty (0 bytes).');
+    expect(t.filter((x) => x.startsWith('Demo loaded'))).toEqual(['Demo loaded: an invented teaching-rig run (8 traces)']);
+  });
+
+  it('"Reload demo" pressed while the demo is arriving: one change, one "Demo loaded" notice, and no word of a file of the user’s', async () => {
+    const { store, service, changes } = counted();
+    const { release, holding } = serveDemo({ hold: 'demo-scan-2.csv' });
+    const first = service.loadDemo();
+    await holding;
+    const second = service.loadDemo();
+    release();
+    await Promise.all([first, second]);
+    expect(changes.traces).toBe(1);
+    expect(store.getState().traces).toHaveLength(10);
+    expect(titles(store).filter((x) => x.startsWith('Demo loaded'))).toHaveLength(1);
+    expect(titles(store).some((x) => /not loaded/.test(x))).toBe(false);
   });
 });
