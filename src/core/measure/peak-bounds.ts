@@ -343,6 +343,16 @@ function footAtScale(s: Float64Array, i: number, dir: -1 | 1, r: number, rise: n
   let sum = 0;
   for (let k = i - r; k <= i + r; k++) sum += s[k < 0 ? 0 : k > last ? last : k];
   let min = sum / B, a = i;
+  if (i - r - cap >= 0 && i + r + cap <= last) {
+    // Every sample the walk can reach lies inside the trace: the same sums without the clamps and end tests.
+    for (let j = i + dir, add = i + dir * (r + 1), drop = i - dir * r, k = 1; k <= cap; k++, j += dir, add += dir, drop += dir) {
+      sum += s[add] - s[drop];
+      const v = sum / B;
+      if (v < min) { min = v; a = j; } else if (v > min + rise) break;
+    }
+    outA = a; outB = min;
+    return;
+  }
   for (let j = i, k = 1; k <= cap; k++) {
     const next = j + dir;
     if (next < 0 || next > last) break;
@@ -388,6 +398,15 @@ function boxTop(s: Float64Array, i: number, r: number, h: number): number {
  * fell below its best missed broad peaks.
  */
 export function firstFeet(c: MeasureContext, i: number, widthLimit: number, cap: number): { r: number; f0: number; l0: number; f1: number; l1: number } {
+  feet(c, i, widthLimit, cap);
+  return { r: feetR, f0: feetF0, l0: feetL0, f1: feetF1, l1: feetL1 };
+}
+
+/** {@link firstFeet}'s result, handed back through module variables (no object per candidate). */
+let feetR = 0, feetF0 = 0, feetL0 = 0, feetF1 = 0, feetL1 = 0;
+
+/** {@link firstFeet} into feetR, feetF0, feetL0, feetF1, feetL1. */
+function feet(c: MeasureContext, i: number, widthLimit: number, cap: number): void {
   const { x, s, noise } = c;
   const sigma = noise.ruleSigmaAt(i);
   let bR = 0, bF0 = i, bL0 = s[i], bF1 = i, bL1 = s[i];
@@ -415,12 +434,12 @@ export function firstFeet(c: MeasureContext, i: number, widthLimit: number, cap:
     const z = (boxMean(s, top, r) - base) / sb;
     if (z > bestZ) { bR = r; bF0 = f0; bL0 = l0; bF1 = f1; bL1 = l1; bestZ = z; }
   }
-  return { r: bR, f0: bF0, l0: bL0, f1: bF1, l1: bL1 };
+  feetR = bR; feetF0 = bF0; feetL0 = bL0; feetF1 = bF1; feetL1 = bL1;
 }
 
 /** Reused buffers and result of {@link hullUnder} (measuring is synchronous, so one set serves every call). */
-let hullG = new Float64Array(256);
-let hullStack = new Int32Array(256);
+let hullX = new Float64Array(256);
+let hullY = new Float64Array(256);
 const hullLine: { x0: number; y0: number; slope: number } = { x0: 0, y0: 0, slope: 0 };
 
 /**
@@ -435,35 +454,38 @@ export function hullUnder(c: MeasureContext, i: number, lo: number, hi: number, 
   const { x, s } = c;
   const n = s.length;
   const len = hi - lo + 1;
-  if (hullG.length < len) { hullG = new Float64Array(len * 2); hullStack = new Int32Array(len * 2); }
-  const g = hullG, st = hullStack;
+  if (hullX.length < len) { hullX = new Float64Array(len * 2); hullY = new Float64Array(len * 2); }
+  const hx = hullX, hy = hullY;
   const B = 2 * r + 1, last = n - 1;
   let sum = 0;
   for (let k = lo - r; k <= lo + r; k++) sum += s[k < 0 ? 0 : k > last ? last : k];
   // One pass: each box average is made (running sum, the same additions in the same order as a separate pass)
   // and pushed on the monotone chain at once. 0 ≤ lo ≤ j ≤ hi ≤ last, so the sum's entering index is ≥ 1 and
-  // its leaving index ≤ last.
-  let top = 0;
+  // its leaving index ≤ last. The chain keeps each vertex's x and average (no index to look them up by), and
+  // its last vertex in (bx, by); the cross product is the same expression on the same numbers.
+  let top = 0, bx = 0, by = 0;
+  // Where every sample the sums reach lies inside the trace, the clamps are left out (the same sums).
+  const inside = lo - r >= 0 && hi + 1 + r <= last;
   for (let j = lo; j <= hi; j++) {
     const gj = sum / B;
-    g[j - lo] = gj;
     const add = j + 1 + r, drop = j - r;
-    sum += s[add > last ? last : add] - s[drop < 0 ? 0 : drop];
+    sum += inside ? s[add] - s[drop] : s[add > last ? last : add] - s[drop < 0 ? 0 : drop];
     const xj = x[j];
     while (top >= 2) {
-      const a = st[top - 2], b = st[top - 1];
-      const xa = x[a], ga = g[a - lo];
-      const cross = (x[b] - xa) * (gj - ga) - (g[b - lo] - ga) * (xj - xa);
+      const xa = hx[top - 2], ga = hy[top - 2];
+      const cross = (bx - xa) * (gj - ga) - (by - ga) * (xj - xa);
       if (cross > 0) break;
       top--;
+      bx = xa; by = ga;
     }
-    st[top++] = j;
+    hx[top] = xj; hy[top] = gj; top++;
+    bx = xj; by = gj;
   }
-  if (top === 1) { out.x0 = x[st[0]]; out.y0 = g[st[0] - lo]; out.slope = 0; return out; }
+  if (top === 1) { out.x0 = hx[0]; out.y0 = hy[0]; out.slope = 0; return out; }
   let k = 0;
-  while (k < top - 2 && x[st[k + 1]] < x[i]) k++;
-  const a = st[k], b = st[k + 1];
-  setLine(out, x[a], g[a - lo], x[b], g[b - lo]);
+  const xi = x[i];
+  while (k < top - 2 && hx[k + 1] < xi) k++;
+  setLine(out, hx[k], hy[k], hx[k + 1], hy[k + 1]);
   return out;
 }
 
@@ -488,6 +510,8 @@ function walkBound(c: MeasureContext, i: number, dir: -1 | 1, ref: Line, hull: L
   for (let k = j - r; k <= j + r; k++) sum += s[k < 0 ? 0 : k > last ? last : k];
   let min = Infinity, arg = j;
   let returned = -1;
+  // Where every sample the sums can reach lies inside the trace, the clamps are left out (the same sums).
+  const inside = i - cap - r >= 0 && i + cap + r <= last;
   for (;;) {
     const g = sum / B;
     const lr = ry0 + rsl * (x[j] - rx0);
@@ -508,7 +532,7 @@ function walkBound(c: MeasureContext, i: number, dir: -1 | 1, ref: Line, hull: L
     const next = j + dir;
     if (next < 0 || next > last) { outKind = 'trace-end'; return j; }
     const add = next + dir * r, drop = j - dir * r;
-    sum += s[add < 0 ? 0 : add > last ? last : add] - s[drop < 0 ? 0 : drop > last ? last : drop];
+    sum += inside ? s[add] - s[drop] : s[add < 0 ? 0 : add > last ? last : add] - s[drop < 0 ? 0 : drop > last ? last : drop];
     j = next;
   }
 }
@@ -591,26 +615,57 @@ function shape(c: MeasureContext, m: LocalMeasure, fwhmGuess: number): number {
  *   rule 1, and {@link WIDTH_LIMIT} times it bounds how far the first feet lie.
  */
 export function measureLocal(c: MeasureContext, i: number, firstWidth: number): LocalMeasure {
+  const m = blankMeasure();
+  measureLocalInto(c, i, firstWidth, m);
+  return m;
+}
+
+/** A measure to be filled by {@link measureLocalInto}; every field of the same kind as a finished one's. */
+export function blankMeasure(): LocalMeasure {
+  return {
+    index: 0, xApex: 0, height: 0, leftIp: 0, rightIp: 0, locL: 0, locR: 0, start: 0, end: 0, startKind: 'valley', endKind: 'valley',
+    line: { x0: 0, y0: 0, slope: 0 }, box: 0, split: 'none',
+  };
+}
+
+/** A measure of one's own with the values of m (its line copied too); m may then be filled again. */
+export function copyMeasure(m: LocalMeasure): LocalMeasure {
+  const k: LocalMeasure = {
+    index: m.index, xApex: m.xApex, height: m.height, leftIp: m.leftIp, rightIp: m.rightIp, locL: m.locL, locR: m.locR,
+    start: m.start, end: m.end, startKind: m.startKind, endKind: m.endKind,
+    line: { x0: m.line.x0, y0: m.line.y0, slope: m.line.slope }, box: m.box, split: m.split,
+  };
+  if (m.note !== undefined) k.note = m.note;
+  return k;
+}
+
+/**
+ * {@link measureLocal} into a measure the caller owns (from {@link blankMeasure}; its line object is set in
+ * place, so a caller that keeps the result while measuring the next peak into the same object copies it
+ * first, {@link copyMeasure}). Detection measures some 10⁵ candidates at 10⁶ points and keeps under a tenth:
+ * one object filled again and again instead of one made per candidate.
+ */
+export function measureLocalInto(c: MeasureContext, i: number, firstWidth: number, m: LocalMeasure): void {
   const { x, noise } = c;
   const sigma = noise.ruleSigmaAt(i);
-  const f = firstFeet(c, i, Math.max(1, firstWidth), Math.max(2, Math.ceil(WIDTH_LIMIT * Math.max(1, firstWidth))));
-  const m: LocalMeasure = {
-    index: i, xApex: x[i], height: 0, leftIp: i, rightIp: i, locL: i, locR: i, start: f.f0, end: f.f1, startKind: 'valley', endKind: 'valley',
-    line: lineThrough(x[f.f0], f.l0, x[f.f1], f.l1), box: f.r, split: 'none',
-  };
-  let fw = shape(c, m, 2 * f.r + 1);
+  feet(c, i, Math.max(1, firstWidth), Math.max(2, Math.ceil(WIDTH_LIMIT * Math.max(1, firstWidth))));
+  const f0 = feetF0, f1 = feetF1, fr = feetR;
+  m.index = i; m.xApex = x[i]; m.height = 0; m.leftIp = i; m.rightIp = i; m.locL = i; m.locR = i;
+  m.start = f0; m.end = f1; m.startKind = 'valley'; m.endKind = 'valley'; m.box = fr; m.split = 'none';
+  // The measure owns its line, so it is set in place.
+  const line = m.line as { x0: number; y0: number; slope: number };
+  setLine(line, x[f0], feetL0, x[f1], feetL1);
+  let fw = shape(c, m, 2 * fr + 1);
   for (let pass = 0; pass < MAX_PASSES; pass++) {
-    if (!(m.height > 0)) return m;
+    if (!(m.height > 0)) return;
     const moved = rewalk(c, m, true, true);
     level(c, m.start, -1, m.startKind, m.box, sigma);
     const xa = outA, ya = outB;
     level(c, m.end, 1, m.endKind, m.box, sigma);
-    // The measure owns its line (made in this function), so it is set in place.
-    setLine(m.line as { x0: number; y0: number; slope: number }, xa, ya, outA, outB);
+    setLine(line, xa, ya, outA, outB);
     fw = shape(c, m, fw);
     if (!moved) break;
   }
-  return m;
 }
 
 /**
