@@ -262,7 +262,8 @@ export function* detectPeaksStepwise(x: Float64Array, y: Float64Array, options: 
   const m = blankMeasure();
   for (let k = 0; k < n; k++) {
     if (k % DETECT_PAUSE_EVERY === DETECT_PAUSE_EVERY - 1) yield;
-    measureLocalInto(c, cIdx[k], cW[k], m);
+    // A candidate narrower than minWidth is dropped as soon as its final width is known (the test below, the same).
+    if (!measureLocalInto(c, cIdx[k], cW[k], m, o.minWidth)) continue;
     if (!(m.height > 0)) continue;
     if (o.minWidth > 0 && xAt(x, m.rightIp) - xAt(x, m.leftIp) < o.minWidth) continue;
     if (o.minSnr > 0) {

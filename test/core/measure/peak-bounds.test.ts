@@ -157,4 +157,28 @@ describe('measureLocalInto: one object filled again for each peak gives what mea
       expect(copy.line).not.toBe(into.line);
     }
   });
+
+  it('with a minimum width: false only for candidates whose full measure is narrower; true ones measured in full', () => {
+    // The early stop skips only what cannot change the decision: the same width expression, on the same crossings.
+    const y = longTrace(10_000, 1618, 'ar1');
+    const x = Float64Array.from(y, (_, i) => i * 0.001);
+    const minWidth = 0.0025; // 2.5 samples, detection's default
+    const c: MeasureContext = { x, s: y, noise: noiseModel(y, defaultPeakOptions(0.05, 0.001)), loc: locatingCopy(y) };
+    const cand = prominentMaxima(y, 0.1);
+    const into = blankMeasure();
+    let narrow = 0, wide = 0;
+    for (let k = 0; k < cand.count; k++) {
+      const full = measureLocal(c, cand.index[k], cand.halfWidth[k]);
+      const isNarrow = xAt(x, full.rightIp) - xAt(x, full.leftIp) < minWidth;
+      const complete = measureLocalInto(c, cand.index[k], cand.halfWidth[k], into, minWidth);
+      // Stopped early only where the full measure is narrower; otherwise the full measure (a peak left with no
+      // height returns before its last shape, whatever its width).
+      if (!complete) { narrow++; expect(isNarrow).toBe(true); continue; }
+      wide++;
+      expect({ ...into, line: { ...into.line } }).toEqual({ ...full, line: { ...full.line } });
+    }
+    // Both outcomes occur on this trace (noise bumps are narrow; its Gaussian bands are not).
+    expect(narrow).toBeGreaterThan(50);
+    expect(wide).toBeGreaterThan(5);
+  });
 });
