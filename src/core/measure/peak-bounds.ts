@@ -315,7 +315,7 @@ export function halfCrossings(x: Float64Array, s: Float64Array, line: Line, i: n
  * array, not two module variables: a fractional number written to a module variable is a new heap object
  * each time in Node 20's engine, written to a Float64Array it is not.
  */
-const outs = new Float64Array(2);
+const outs = new Float64Array(3);
 let outKind: BoundKind = 'valley';
 
 /** {@link halfCrossings} into outs[0] (left) and outs[1] (right). */
@@ -337,7 +337,8 @@ function crossings(x: Float64Array, s: Float64Array, line: Line, i: number, half
 /**
  * Rule 1 on one side at one scale: walking out from the apex on the box
  * average of half-width r, the lowest average passed before one rises more
- * than `rise` above it, within `cap` samples. Returns its index and level.
+ * than `rise` above it, within `cap` samples. Its index and level into
+ * outs[0] and outs[1], the box average at i into outs[2].
  */
 function footAtScale(s: Float64Array, i: number, dir: -1 | 1, r: number, rise: number, cap: number): void {
   const n = s.length, last = n - 1;
@@ -345,6 +346,8 @@ function footAtScale(s: Float64Array, i: number, dir: -1 | 1, r: number, rise: n
   let sum = 0;
   for (let k = i - r; k <= i + r; k++) sum += s[k < 0 ? 0 : k > last ? last : k];
   let min = sum / B, a = i;
+  // The box average at the start: boxMean(s, i, r), the same sum in the same order.
+  outs[2] = min;
   if (i - r - cap >= 0 && i + r + cap <= last) {
     // Every sample the walk can reach lies inside the trace: the same sums without the clamps and end tests.
     for (let j = i + dir, add = i + dir * (r + 1), drop = i - dir * r, k = 1; k <= cap; k++, j += dir, add += dir, drop += dir) {
@@ -400,17 +403,16 @@ function boxTop(s: Float64Array, i: number, r: number, h: number): number {
  * fell below its best missed broad peaks.
  */
 export function firstFeet(c: MeasureContext, i: number, widthLimit: number, cap: number): { r: number; f0: number; l0: number; f1: number; l1: number } {
-  feet(c, i, widthLimit, cap);
+  feet(c, i, widthLimit, cap, c.noise.ruleSigmaAt(i));
   return { r: feetOut[0] | 0, f0: feetOut[1] | 0, l0: feetOut[2], f1: feetOut[3] | 0, l1: feetOut[4] };
 }
 
 /** {@link firstFeet}'s result (r, f0, l0, f1, l1), handed back through this array (no object per candidate). */
 const feetOut = new Float64Array(5);
 
-/** {@link firstFeet} into feetOut. */
-function feet(c: MeasureContext, i: number, widthLimit: number, cap: number): void {
+/** {@link firstFeet} into feetOut; sigma is noise.ruleSigmaAt(i). */
+function feet(c: MeasureContext, i: number, widthLimit: number, cap: number, sigma: number): void {
   const { x, s, noise } = c;
-  const sigma = noise.ruleSigmaAt(i);
   let bR = 0, bF0 = i, bL0 = s[i], bF1 = i, bL1 = s[i];
   let bestZ = -Infinity;
   for (let r = 0; ; r = r === 0 ? 1 : 2 * r) {
@@ -432,8 +434,10 @@ function feet(c: MeasureContext, i: number, widthLimit: number, cap: number): vo
       footAtScale(s, top, 1, r, VALLEY_RISE * sb, cap);
       f1 = outs[0] | 0; l1 = outs[1];
     }
+    // The walks just made started at top: the box average there is theirs (boxMean(s, top, r)).
+    const atTop = outs[2];
     const base = x[f1] === x[f0] ? (l0 + l1) / 2 : l0 + ((l1 - l0) * (x[top] - x[f0])) / (x[f1] - x[f0]);
-    const z = (boxMean(s, top, r) - base) / sb;
+    const z = (atTop - base) / sb;
     if (z > bestZ) { bR = r; bF0 = f0; bL0 = l0; bF1 = f1; bL1 = l1; bestZ = z; }
   }
   feetOut[0] = bR; feetOut[1] = bF0; feetOut[2] = bL0; feetOut[3] = bF1; feetOut[4] = bL1;
@@ -668,7 +672,7 @@ export function copyMeasure(m: LocalMeasure): LocalMeasure {
 export function measureLocalInto(c: MeasureContext, i: number, firstWidth: number, m: LocalMeasure, minWidth = 0): boolean {
   const { x, noise } = c;
   const sigma = noise.ruleSigmaAt(i);
-  feet(c, i, Math.max(1, firstWidth), Math.max(2, Math.ceil(WIDTH_LIMIT * Math.max(1, firstWidth))));
+  feet(c, i, Math.max(1, firstWidth), Math.max(2, Math.ceil(WIDTH_LIMIT * Math.max(1, firstWidth))), sigma);
   const fr = feetOut[0] | 0, f0 = feetOut[1] | 0, f1 = feetOut[3] | 0;
   m.index = i; m.xApex = x[i]; m.height = 0; m.leftIp = i; m.rightIp = i; m.locL = i; m.locR = i;
   m.start = f0; m.end = f1; m.startKind = 'valley'; m.endKind = 'valley'; m.box = fr; m.split = 'none';
