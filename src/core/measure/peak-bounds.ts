@@ -306,17 +306,19 @@ export function apexLevel(x: Float64Array, s: Float64Array, line: Line, i: numbe
  */
 export function halfCrossings(x: Float64Array, s: Float64Array, line: Line, i: number, half: number, lo: number, hi: number): [number, number] {
   crossings(x, s, line, i, half, lo, hi);
-  return [outA, outB];
+  return [outs[0], outs[1]];
 }
 
 /*
- * The hot helpers below hand back two numbers through these module variables instead of a new array each
- * call: detection measures every candidate, some 10⁵ at 10⁶ points, and the garbage dominated the time.
+ * The hot helpers below hand back two numbers through this array instead of a new array each call:
+ * detection measures every candidate, some 10⁵ at 10⁶ points, and the garbage dominated the time. A typed
+ * array, not two module variables: a fractional number written to a module variable is a new heap object
+ * each time in Node 20's engine, written to a Float64Array it is not.
  */
-let outA = 0, outB = 0;
+const outs = new Float64Array(3);
 let outKind: BoundKind = 'valley';
 
-/** {@link halfCrossings} into outA (left) and outB (right). */
+/** {@link halfCrossings} into outs[0] (left) and outs[1] (right). */
 function crossings(x: Float64Array, s: Float64Array, line: Line, i: number, half: number, lo: number, hi: number): void {
   const y0 = line.y0, sl = line.slope, x0 = line.x0;
   let j = i;
@@ -329,13 +331,14 @@ function crossings(x: Float64Array, s: Float64Array, line: Line, i: number, half
   while (j < hi && half < dj) { j++; dj = s[j] - (y0 + sl * (x[j] - x0)); }
   let rip = j;
   if (dj < half && j > i) { const dp = s[j - 1] - (y0 + sl * (x[j - 1] - x0)); rip -= (half - dj) / (dp - dj); }
-  outA = lip; outB = rip;
+  outs[0] = lip; outs[1] = rip;
 }
 
 /**
  * Rule 1 on one side at one scale: walking out from the apex on the box
  * average of half-width r, the lowest average passed before one rises more
- * than `rise` above it, within `cap` samples. Returns its index and level.
+ * than `rise` above it, within `cap` samples. Its index and level into
+ * outs[0] and outs[1], the box average at i into outs[2].
  */
 function footAtScale(s: Float64Array, i: number, dir: -1 | 1, r: number, rise: number, cap: number): void {
   const n = s.length, last = n - 1;
@@ -343,6 +346,18 @@ function footAtScale(s: Float64Array, i: number, dir: -1 | 1, r: number, rise: n
   let sum = 0;
   for (let k = i - r; k <= i + r; k++) sum += s[k < 0 ? 0 : k > last ? last : k];
   let min = sum / B, a = i;
+  // The box average at the start: boxMean(s, i, r), the same sum in the same order.
+  outs[2] = min;
+  if (i - r - cap >= 0 && i + r + cap <= last) {
+    // Every sample the walk can reach lies inside the trace: the same sums without the clamps and end tests.
+    for (let j = i + dir, add = i + dir * (r + 1), drop = i - dir * r, k = 1; k <= cap; k++, j += dir, add += dir, drop += dir) {
+      sum += s[add] - s[drop];
+      const v = sum / B;
+      if (v < min) { min = v; a = j; } else if (v > min + rise) break;
+    }
+    outs[0] = a; outs[1] = min;
+    return;
+  }
   for (let j = i, k = 1; k <= cap; k++) {
     const next = j + dir;
     if (next < 0 || next > last) break;
@@ -352,7 +367,7 @@ function footAtScale(s: Float64Array, i: number, dir: -1 | 1, r: number, rise: n
     const v = sum / B;
     if (v < min) { min = v; a = j; } else if (v > min + rise) break;
   }
-  outA = a; outB = min;
+  outs[0] = a; outs[1] = min;
 }
 
 /** The sample within ±h of i where the box average (half-width r) is highest (the first of equals). */
@@ -388,8 +403,16 @@ function boxTop(s: Float64Array, i: number, r: number, h: number): number {
  * fell below its best missed broad peaks.
  */
 export function firstFeet(c: MeasureContext, i: number, widthLimit: number, cap: number): { r: number; f0: number; l0: number; f1: number; l1: number } {
+  feet(c, i, widthLimit, cap, c.noise.ruleSigmaAt(i));
+  return { r: feetOut[0] | 0, f0: feetOut[1] | 0, l0: feetOut[2], f1: feetOut[3] | 0, l1: feetOut[4] };
+}
+
+/** {@link firstFeet}'s result (r, f0, l0, f1, l1), handed back through this array (no object per candidate). */
+const feetOut = new Float64Array(5);
+
+/** {@link firstFeet} into feetOut; sigma is noise.ruleSigmaAt(i). */
+function feet(c: MeasureContext, i: number, widthLimit: number, cap: number, sigma: number): void {
   const { x, s, noise } = c;
-  const sigma = noise.ruleSigmaAt(i);
   let bR = 0, bF0 = i, bL0 = s[i], bF1 = i, bL1 = s[i];
   let bestZ = -Infinity;
   for (let r = 0; ; r = r === 0 ? 1 : 2 * r) {
@@ -398,29 +421,31 @@ export function firstFeet(c: MeasureContext, i: number, widthLimit: number, cap:
     const sb = sigma * noise.boxFactor(B);
     let top = i;
     footAtScale(s, top, -1, r, VALLEY_RISE * sb, cap);
-    let f0 = outA, l0 = outB;
+    let f0 = outs[0] | 0, l0 = outs[1];
     footAtScale(s, top, 1, r, VALLEY_RISE * sb, cap);
-    let f1 = outA, l1 = outB;
+    let f1 = outs[0] | 0, l1 = outs[1];
     if (r > 0 && (f0 === i || f1 === i)) {
       // A walk that ends where it starts: on a broad noisy top the highest sample lies off the top of the box
       // average, whose own slope there ends the walk at once. Walk again from the highest box average within
       // half the half-prominence width of the apex.
       top = boxTop(s, i, r, Math.ceil(widthLimit / 2));
       footAtScale(s, top, -1, r, VALLEY_RISE * sb, cap);
-      f0 = outA; l0 = outB;
+      f0 = outs[0] | 0; l0 = outs[1];
       footAtScale(s, top, 1, r, VALLEY_RISE * sb, cap);
-      f1 = outA; l1 = outB;
+      f1 = outs[0] | 0; l1 = outs[1];
     }
+    // The walks just made started at top: the box average there is theirs (boxMean(s, top, r)).
+    const atTop = outs[2];
     const base = x[f1] === x[f0] ? (l0 + l1) / 2 : l0 + ((l1 - l0) * (x[top] - x[f0])) / (x[f1] - x[f0]);
-    const z = (boxMean(s, top, r) - base) / sb;
+    const z = (atTop - base) / sb;
     if (z > bestZ) { bR = r; bF0 = f0; bL0 = l0; bF1 = f1; bL1 = l1; bestZ = z; }
   }
-  return { r: bR, f0: bF0, l0: bL0, f1: bF1, l1: bL1 };
+  feetOut[0] = bR; feetOut[1] = bF0; feetOut[2] = bL0; feetOut[3] = bF1; feetOut[4] = bL1;
 }
 
 /** Reused buffers and result of {@link hullUnder} (measuring is synchronous, so one set serves every call). */
-let hullG = new Float64Array(256);
-let hullStack = new Int32Array(256);
+let hullX = new Float64Array(256);
+let hullY = new Float64Array(256);
 const hullLine: { x0: number; y0: number; slope: number } = { x0: 0, y0: 0, slope: 0 };
 
 /**
@@ -435,35 +460,38 @@ export function hullUnder(c: MeasureContext, i: number, lo: number, hi: number, 
   const { x, s } = c;
   const n = s.length;
   const len = hi - lo + 1;
-  if (hullG.length < len) { hullG = new Float64Array(len * 2); hullStack = new Int32Array(len * 2); }
-  const g = hullG, st = hullStack;
+  if (hullX.length < len) { hullX = new Float64Array(len * 2); hullY = new Float64Array(len * 2); }
+  const hx = hullX, hy = hullY;
   const B = 2 * r + 1, last = n - 1;
   let sum = 0;
   for (let k = lo - r; k <= lo + r; k++) sum += s[k < 0 ? 0 : k > last ? last : k];
   // One pass: each box average is made (running sum, the same additions in the same order as a separate pass)
   // and pushed on the monotone chain at once. 0 ≤ lo ≤ j ≤ hi ≤ last, so the sum's entering index is ≥ 1 and
-  // its leaving index ≤ last.
-  let top = 0;
+  // its leaving index ≤ last. The chain keeps each vertex's x and average (no index to look them up by), and
+  // its last vertex in (bx, by); the cross product is the same expression on the same numbers.
+  let top = 0, bx = 0, by = 0;
+  // Where every sample the sums reach lies inside the trace, the clamps are left out (the same sums).
+  const inside = lo - r >= 0 && hi + 1 + r <= last;
   for (let j = lo; j <= hi; j++) {
     const gj = sum / B;
-    g[j - lo] = gj;
     const add = j + 1 + r, drop = j - r;
-    sum += s[add > last ? last : add] - s[drop < 0 ? 0 : drop];
+    sum += inside ? s[add] - s[drop] : s[add > last ? last : add] - s[drop < 0 ? 0 : drop];
     const xj = x[j];
     while (top >= 2) {
-      const a = st[top - 2], b = st[top - 1];
-      const xa = x[a], ga = g[a - lo];
-      const cross = (x[b] - xa) * (gj - ga) - (g[b - lo] - ga) * (xj - xa);
+      const xa = hx[top - 2], ga = hy[top - 2];
+      const cross = (bx - xa) * (gj - ga) - (by - ga) * (xj - xa);
       if (cross > 0) break;
       top--;
+      bx = xa; by = ga;
     }
-    st[top++] = j;
+    hx[top] = xj; hy[top] = gj; top++;
+    bx = xj; by = gj;
   }
-  if (top === 1) { out.x0 = x[st[0]]; out.y0 = g[st[0] - lo]; out.slope = 0; return out; }
+  if (top === 1) { out.x0 = hx[0]; out.y0 = hy[0]; out.slope = 0; return out; }
   let k = 0;
-  while (k < top - 2 && x[st[k + 1]] < x[i]) k++;
-  const a = st[k], b = st[k + 1];
-  setLine(out, x[a], g[a - lo], x[b], g[b - lo]);
+  const xi = x[i];
+  while (k < top - 2 && hx[k + 1] < xi) k++;
+  setLine(out, hx[k], hy[k], hx[k + 1], hy[k + 1]);
   return out;
 }
 
@@ -488,6 +516,8 @@ function walkBound(c: MeasureContext, i: number, dir: -1 | 1, ref: Line, hull: L
   for (let k = j - r; k <= j + r; k++) sum += s[k < 0 ? 0 : k > last ? last : k];
   let min = Infinity, arg = j;
   let returned = -1;
+  // Where every sample the sums can reach lies inside the trace, the clamps are left out (the same sums).
+  const inside = i - cap - r >= 0 && i + cap + r <= last;
   for (;;) {
     const g = sum / B;
     const lr = ry0 + rsl * (x[j] - rx0);
@@ -508,7 +538,7 @@ function walkBound(c: MeasureContext, i: number, dir: -1 | 1, ref: Line, hull: L
     const next = j + dir;
     if (next < 0 || next > last) { outKind = 'trace-end'; return j; }
     const add = next + dir * r, drop = j - dir * r;
-    sum += s[add < 0 ? 0 : add > last ? last : add] - s[drop < 0 ? 0 : drop > last ? last : drop];
+    sum += inside ? s[add] - s[drop] : s[add < 0 ? 0 : add > last ? last : add] - s[drop < 0 ? 0 : drop > last ? last : drop];
     j = next;
   }
 }
@@ -516,14 +546,14 @@ function walkBound(c: MeasureContext, i: number, dir: -1 | 1, ref: Line, hull: L
 /** Rule 4: the level (mean point) that fixes the baseline at bound b on side dir. */
 export function boundLevel(c: MeasureContext, b: number, dir: -1 | 1, kind: BoundKind, r: number, sigma: number): [number, number] {
   level(c, b, dir, kind, r, sigma);
-  return [outA, outB];
+  return [outs[0], outs[1]];
 }
 
-/** {@link boundLevel} into outA (x) and outB (level). */
+/** {@link boundLevel} into outs[0] (x) and outs[1] (level). */
 function level(c: MeasureContext, b: number, dir: -1 | 1, kind: BoundKind, r: number, sigma: number): void {
   const { x, s } = c;
   const n = s.length;
-  if (kind === 'valley' || kind === 'shared-valley') { outA = x[b]; outB = boxMean(s, b, r); return; }
+  if (kind === 'valley' || kind === 'shared-valley') { outs[0] = x[b]; outs[1] = boxMean(s, b, r); return; }
   const want = Math.max(2 * r + 1, LEVEL_POINTS_MIN);
   let cnt = 0, sx = 0, sy = 0;
   const half = want >> 1;
@@ -534,8 +564,8 @@ function level(c: MeasureContext, b: number, dir: -1 | 1, kind: BoundKind, r: nu
     sx += x[j]; sy += s[j]; cnt++;
     if (k < half) { near += s[j]; nNear++; } else { far += s[j]; nFar++; }
   }
-  if (cnt < 3 || far / nFar - near / nNear > 2 * sigma * Math.sqrt(1 / nNear + 1 / nFar)) { outA = x[b]; outB = boxMean(s, b, r); return; }
-  outA = sx / cnt; outB = sy / cnt;
+  if (cnt < 3 || far / nFar - near / nNear > 2 * sigma * Math.sqrt(1 / nNear + 1 / nFar)) { outs[0] = x[b]; outs[1] = boxMean(s, b, r); return; }
+  outs[0] = sx / cnt; outs[1] = sy / cnt;
 }
 
 /**
@@ -563,7 +593,7 @@ function locCrossings(c: MeasureContext, m: LocalMeasure): void {
   for (let j = a; j <= b; j++) { const w = loc[j] - lineAt(l, x[j]); if (w > v) { v = w; top = j; } }
   if (!(v > 0)) { m.locL = m.leftIp; m.locR = m.rightIp; return; }
   crossings(x, loc, l, top, v / 2, m.start, m.end);
-  let cl = outA, cr = outB;
+  let cl = outs[0], cr = outs[1];
   // A side where the copy rises above its top before it falls to half lies on a higher neighbour's flank: raw there.
   for (let j = top - 1; j > cl; j--) if (loc[j] - lineAt(l, x[j]) > v) { cl = m.leftIp; break; }
   for (let j = top + 1; j < cr; j++) if (loc[j] - lineAt(l, x[j]) > v) { cr = m.rightIp; break; }
@@ -572,12 +602,25 @@ function locCrossings(c: MeasureContext, m: LocalMeasure): void {
 
 /** Width, apex and height of a peak against a given line and bounds (rule 2). */
 function shape(c: MeasureContext, m: LocalMeasure, fwhmGuess: number): number {
+  return shapeUnlessNarrow(c, m, fwhmGuess, 0);
+}
+
+/**
+ * {@link shape}, except that where `minWidth` (x-units) is positive and the half-height width just measured is
+ * under it (the expression detection's own-width test uses), it stops there and returns -1: the apex, the
+ * height and the bounds walk's half-widths are left unmeasured (the crossings, the width itself, are set).
+ */
+function shapeUnlessNarrow(c: MeasureContext, m: LocalMeasure, fwhmGuess: number, minWidth: number): number {
   const { x, s } = c;
   const h0 = apexLevel(x, s, m.line, m.index, fwhmGuess, m.xApex);
   if (h0 > 0) {
-    crossings(x, s, m.line, m.index, h0 / 2, m.start, m.end); m.leftIp = outA; m.rightIp = outB;
+    crossings(x, s, m.line, m.index, h0 / 2, m.start, m.end); m.leftIp = outs[0]; m.rightIp = outs[1];
+    if (minWidth > 0 && xAt(x, m.rightIp) - xAt(x, m.leftIp) < minWidth) return -1;
     locCrossings(c, m);
-  } else { m.leftIp = m.index; m.rightIp = m.index; m.locL = m.index; m.locR = m.index; }
+  } else {
+    m.leftIp = m.index; m.rightIp = m.index; m.locL = m.index; m.locR = m.index;
+    if (minWidth > 0 && xAt(x, m.rightIp) - xAt(x, m.leftIp) < minWidth) return -1;
+  }
   const fw = m.rightIp - m.leftIp;
   m.xApex = apexPosition(x, s, m.line, m.index, fw);
   m.height = apexLevel(x, s, m.line, m.index, fw, m.xApex);
@@ -591,26 +634,65 @@ function shape(c: MeasureContext, m: LocalMeasure, fwhmGuess: number): number {
  *   rule 1, and {@link WIDTH_LIMIT} times it bounds how far the first feet lie.
  */
 export function measureLocal(c: MeasureContext, i: number, firstWidth: number): LocalMeasure {
+  const m = blankMeasure();
+  measureLocalInto(c, i, firstWidth, m);
+  return m;
+}
+
+/** A measure to be filled by {@link measureLocalInto}; every field of the same kind as a finished one's. */
+export function blankMeasure(): LocalMeasure {
+  return {
+    index: 0, xApex: 0, height: 0, leftIp: 0, rightIp: 0, locL: 0, locR: 0, start: 0, end: 0, startKind: 'valley', endKind: 'valley',
+    line: { x0: 0, y0: 0, slope: 0 }, box: 0, split: 'none',
+  };
+}
+
+/** A measure of one's own with the values of m (its line copied too); m may then be filled again. */
+export function copyMeasure(m: LocalMeasure): LocalMeasure {
+  const k: LocalMeasure = {
+    index: m.index, xApex: m.xApex, height: m.height, leftIp: m.leftIp, rightIp: m.rightIp, locL: m.locL, locR: m.locR,
+    start: m.start, end: m.end, startKind: m.startKind, endKind: m.endKind,
+    line: { x0: m.line.x0, y0: m.line.y0, slope: m.line.slope }, box: m.box, split: m.split,
+  };
+  if (m.note !== undefined) k.note = m.note;
+  return k;
+}
+
+/**
+ * {@link measureLocal} into a measure the caller owns (from {@link blankMeasure}; its line object is set in
+ * place, so a caller that keeps the result while measuring the next peak into the same object copies it
+ * first, {@link copyMeasure}). Detection measures some 10⁵ candidates at 10⁶ points and keeps under a tenth:
+ * one object filled again and again instead of one made per candidate.
+ *
+ * With `minWidth` > 0 (x-units) a peak whose final half-height width is under it (detection's own-width test,
+ * the same expression: `xAt(x, rightIp) − xAt(x, leftIp) < minWidth`) is left half measured, and false is
+ * returned: such a candidate is dropped whatever its apex and height, so they are not measured (93 % of the
+ * candidates on 10⁶ points of noise). True: m is measured in full, as by {@link measureLocal}.
+ */
+export function measureLocalInto(c: MeasureContext, i: number, firstWidth: number, m: LocalMeasure, minWidth = 0): boolean {
   const { x, noise } = c;
   const sigma = noise.ruleSigmaAt(i);
-  const f = firstFeet(c, i, Math.max(1, firstWidth), Math.max(2, Math.ceil(WIDTH_LIMIT * Math.max(1, firstWidth))));
-  const m: LocalMeasure = {
-    index: i, xApex: x[i], height: 0, leftIp: i, rightIp: i, locL: i, locR: i, start: f.f0, end: f.f1, startKind: 'valley', endKind: 'valley',
-    line: lineThrough(x[f.f0], f.l0, x[f.f1], f.l1), box: f.r, split: 'none',
-  };
-  let fw = shape(c, m, 2 * f.r + 1);
+  feet(c, i, Math.max(1, firstWidth), Math.max(2, Math.ceil(WIDTH_LIMIT * Math.max(1, firstWidth))), sigma);
+  const fr = feetOut[0] | 0, f0 = feetOut[1] | 0, f1 = feetOut[3] | 0;
+  m.index = i; m.xApex = x[i]; m.height = 0; m.leftIp = i; m.rightIp = i; m.locL = i; m.locR = i;
+  m.start = f0; m.end = f1; m.startKind = 'valley'; m.endKind = 'valley'; m.box = fr; m.split = 'none';
+  // The measure owns its line, so it is set in place.
+  const line = m.line as { x0: number; y0: number; slope: number };
+  setLine(line, x[f0], feetOut[2], x[f1], feetOut[4]);
+  let fw = shape(c, m, 2 * fr + 1);
   for (let pass = 0; pass < MAX_PASSES; pass++) {
-    if (!(m.height > 0)) return m;
+    if (!(m.height > 0)) return true;
     const moved = rewalk(c, m, true, true);
     level(c, m.start, -1, m.startKind, m.box, sigma);
-    const xa = outA, ya = outB;
+    const xa = outs[0], ya = outs[1];
     level(c, m.end, 1, m.endKind, m.box, sigma);
-    // The measure owns its line (made in this function), so it is set in place.
-    setLine(m.line as { x0: number; y0: number; slope: number }, xa, ya, outA, outB);
-    fw = shape(c, m, fw);
+    setLine(line, xa, ya, outs[0], outs[1]);
+    // The last shape (no bound moved, or the last pass) gives the final width: under minWidth, the rest is not measured.
+    fw = shapeUnlessNarrow(c, m, fw, !moved || pass === MAX_PASSES - 1 ? minWidth : 0);
+    if (fw < 0) return false;
     if (!moved) break;
   }
-  return m;
+  return true;
 }
 
 /**
@@ -911,9 +993,9 @@ function clampOnce(c: MeasureContext, m: LocalMeasure): boolean {
 /** m's own line through the levels at its bounds (rule 4), and its shape against it. */
 function ownLine(c: MeasureContext, m: LocalMeasure, sigma: number): void {
   level(c, m.start, -1, m.startKind, m.box, sigma);
-  const xa = outA, ya = outB;
+  const xa = outs[0], ya = outs[1];
   level(c, m.end, 1, m.endKind, m.box, sigma);
-  m.line = lineThrough(xa, ya, outA, outB);
+  m.line = lineThrough(xa, ya, outs[0], outs[1]);
   shape(c, m, m.rightIp - m.leftIp);
 }
 

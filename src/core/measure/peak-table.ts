@@ -11,7 +11,10 @@ import { lowerBound } from '../numeric/decimate.ts';
 import {
   keepByGap, peakWidths, prominentMaxima, prominenceWalk, checkPeaks, type ProminenceData,
 } from './peak-detection.ts';
-import { areaAbove, capBounds, locatingCopy, lineAt, measureLocal, mergeShallow, ridersOf, shareValleys, xAt, type LocalMeasure, type MeasureContext } from './peak-bounds.ts';
+import {
+  areaAbove, blankMeasure, capBounds, copyMeasure, locatingCopy, lineAt, measureLocal, measureLocalInto, mergeShallow, ridersOf, shareValleys, xAt,
+  type LocalMeasure, type MeasureContext,
+} from './peak-bounds.ts';
 import { noiseModel, pharmacopoeialNoise, regionSnr, snrFlag, snrRms } from './peak-snr.ts';
 import type { Peak, PeakDecisions, PeakMark, PeakOptions } from './peak-types.ts';
 
@@ -255,16 +258,19 @@ export function* detectPeaksStepwise(x: Float64Array, y: Float64Array, options: 
   const n = cand.count, cIdx = cand.index, cPr = cand.prominence, cLb = cand.leftBase, cRb = cand.rightBase, cW = cand.halfWidth;
 
   const kept: Candidate[] = [];
+  // Each candidate is measured into this one object (this call's own); the few kept get a copy of their own.
+  const m = blankMeasure();
   for (let k = 0; k < n; k++) {
     if (k % DETECT_PAUSE_EVERY === DETECT_PAUSE_EVERY - 1) yield;
-    const m = measureLocal(c, cIdx[k], cW[k]);
+    // A candidate narrower than minWidth is dropped as soon as its final width is known (the test below, the same).
+    if (!measureLocalInto(c, cIdx[k], cW[k], m, o.minWidth)) continue;
     if (!(m.height > 0)) continue;
     if (o.minWidth > 0 && xAt(x, m.rightIp) - xAt(x, m.leftIp) < o.minWidth) continue;
     if (o.minSnr > 0) {
       const snr = snrOf(c, y, m, o);
       if (snr !== null && snr < o.minSnr) continue;
     }
-    kept.push({ m, prominence: cPr[k], leftBase: cLb[k], rightBase: cRb[k], origin: 'detected' });
+    kept.push({ m: copyMeasure(m), prominence: cPr[k], leftBase: cLb[k], rightBase: cRb[k], origin: 'detected' });
   }
   let cands = kept;
   if (o.minSeparation > 0) {

@@ -17,7 +17,7 @@ import { readFileSync } from 'node:fs';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { findLocalMaxima, peakProminences, peakWidths, prominentMaxima, type ProminentMaxima } from '../../../src/core/measure/peak-detection.ts';
-import { makeRng } from '../../../src/core/numeric/random.ts';
+import { longTrace } from './long-traces.ts';
 // @ts-expect-error a plain script without type declarations
 import { makeDemo } from '../../../scripts/make-demo.mjs';
 import { loadReal, MALDI_FILES } from '../../real/load-real.ts';
@@ -93,24 +93,6 @@ describe('merged candidate pass = SciPy’s definitions written out (exact)', ()
     }), { seed: 16160, numRuns: 400 });
   });
 });
-
-/** Long traces nobody designed for this: drift, broad bands, correlated noise. */
-function longTrace(n: number, seed: number, kind: 'drift' | 'bands' | 'ar1'): Float64Array {
-  const rng = makeRng(seed);
-  const y = new Float64Array(n);
-  let e = 0;
-  for (let i = 0; i < n; i++) {
-    const t = i / n;
-    y[i] = kind === 'drift' ? 2 * t + 0.8 * Math.sin(9 * t) + 3 * t * t : kind === 'bands' ? 1.5 * Math.exp(-0.5 * ((t - 0.5) / 0.3) ** 2) : 0.2 * t;
-    e = kind === 'ar1' ? 0.9 * e + 0.05 * rng.normal() : 0.05 * rng.normal();
-    y[i] += e;
-  }
-  for (let k = 0; k < n / 2000; k++) {
-    const c = rng.uniform() * n, s = 2 + 80 * rng.uniform(), h = 0.1 + 4 * rng.uniform() ** 2;
-    for (let i = Math.max(0, Math.floor(c - 6 * s)); i <= Math.min(n - 1, Math.ceil(c + 6 * s)); i++) y[i] += h * Math.exp(-0.5 * ((i - c) / s) ** 2);
-  }
-  return y;
-}
 
 describe('merged candidate pass = the separate passes it replaced, on long and real traces (exact)', () => {
   it('drifting baselines, bands over the whole range, AR(1) noise, 10⁵ points, several thresholds', () => {
