@@ -1,0 +1,126 @@
+import { useEffect, useRef, useState, type ReactNode } from 'react';
+import { DRAW_ALL_UP_TO, FIRST_BOX_ESTIMATE, heightsFromTops, meanHeight, rowHeights, rowWindow, scrollToShow, wholeWindow, type BoxView } from './windowed-rows.ts';
+
+/** What a drawn row puts on its first <tr>: its place among all rows for assistive technology, and its key for measuring. */
+export interface RowAttrs { 'aria-rowindex': number; 'data-row-key': string }
+
+export interface WindowedTableProps {
+  /** The scrolled box's accessible name (it is a region the keyboard can reach). */
+  label: string;
+  className: string;
+  testId: string;
+  /** The caption and the <thead>. */
+  head: ReactNode;
+  /** Each row's identity in the order shown (never its position: a re-sorted table keeps focus and measured heights with the row). */
+  keys: readonly string[];
+  /** Columns a spacer row spans. */
+  columns: number;
+  /** Row i's <tr> (and its detail row, if open), keyed by keys[i]; `attrs` go on its first <tr>. */
+  row: (i: number, attrs: RowAttrs) => ReactNode;
+  /** aria-rowindex of row i (default i + 2: the header is row 1). */
+  rowIndex?: (i: number) => number;
+  /** aria-rowcount of the whole table (default one per row plus the header row). */
+  rowCount?: number;
+  /** Shown in the body when there are no rows. */
+  empty?: ReactNode;
+  /** A row to bring into the box when it changes (the selected peak), or null. */
+  reveal?: number | null;
+}
+
+/** The box's scroll offset and height and the sticky header's height (read in a frame callback or after layout, never in render). */
+function boxView(wrap: HTMLElement, body: HTMLTableSectionElement): BoxView {
+  const head = (body.parentElement as HTMLTableElement | null)?.tHead;
+  return { scrollTop: wrap.scrollTop, boxHeight: wrap.clientHeight, headHeight: head ? head.getBoundingClientRect().height : 0 };
+}
+
+/**
+ * A table in its scrolled box (`.table-wrap`) that draws only the rows in or
+ * near the box (issue 16): a long table laid out whole cost the page 150–800 ms
+ * after each analysis stage. Spacer rows above and below stand for the rows not
+ * drawn. Row heights are measured after layout (a ResizeObserver on the body and
+ * the box, reading the drawn rows' tops then, never in render) and kept under
+ * each row's key; rows not drawn yet take the mean. Scrolling re-renders this
+ * component only, once per frame. Tables of at most DRAW_ALL_UP_TO rows draw
+ * every row. The arithmetic is src/ui/windowed-rows.ts.
+ */
+export function WindowedTable({ label, className, testId, head, keys, columns, row, rowIndex = (i) => i + 2, rowCount, empty, reveal = null }: WindowedTableProps) {
+  const wrapRef = useRef<HTMLDivElement>(null);
+  const bodyRef = useRef<HTMLTableSectionElement>(null);
+  const measured = useRef(new Map<string, number>());
+  const [view, setView] = useState<BoxView>({ scrollTop: 0, boxHeight: FIRST_BOX_ESTIMATE, headHeight: 0 });
+  const [, setMeasureCount] = useState(0);
+  const windowed = keys.length > DRAW_ALL_UP_TO;
+
+  useEffect(() => {
+    const wrap = wrapRef.current, body = bodyRef.current;
+    if (!windowed || !wrap || !body) return;
+    const readView = () => boxView(wrap, body);
+    const sameView = (a: BoxView, b: BoxView) => Math.abs(a.scrollTop - b.scrollTop) < 1 && Math.abs(a.boxHeight - b.boxHeight) < 1 && Math.abs(a.headHeight - b.headHeight) < 1;
+    let frame = 0;
+    const onScroll = () => {
+      if (frame) return;
+      frame = requestAnimationFrame(() => {
+        frame = 0;
+        const v = readView();
+        setView((old) => (sameView(old, v) ? old : v));
+      });
+    };
+    // After layout: the drawn rows' heights (a row's detail row counts in it), the box and the header.
+    const measure = () => {
+      const tops: number[] = [], rowKeys: string[] = [];
+      let bottom = body.getBoundingClientRect().bottom;
+      for (const tr of Array.from(body.rows)) {
+        const k = tr.dataset.rowKey;
+        if (k !== undefined) { tops.push(tr.getBoundingClientRect().top); rowKeys.push(k); } else if (tr.classList.contains('spacer') && tops.length > 0) { bottom = tr.getBoundingClientRect().top; break; }
+      }
+      let changed = false;
+      heightsFromTops(tops, bottom).forEach((h, j) => {
+        const old = measured.current.get(rowKeys[j]);
+        if (old === undefined || Math.abs(old - h) > 0.5) { measured.current.set(rowKeys[j], h); changed = true; }
+      });
+      if (changed) setMeasureCount((c) => c + 1);
+      const v = readView();
+      setView((old) => (sameView(old, v) ? old : v));
+    };
+    wrap.addEventListener('scroll', onScroll, { passive: true });
+    const ro = typeof ResizeObserver === 'function' ? new ResizeObserver(measure) : null;
+    ro?.observe(wrap);
+    ro?.observe(body);
+    return () => {
+      wrap.removeEventListener('scroll', onScroll);
+      ro?.disconnect();
+      if (frame) cancelAnimationFrame(frame);
+    };
+  }, [windowed]);
+
+  // Bring the revealed row into the box when it changes (not on every scroll: the user may scroll away from it).
+  useEffect(() => {
+    const wrap = wrapRef.current, body = bodyRef.current;
+    if (!windowed || reveal === null || !wrap || !body) return;
+    const heights = rowHeights(keys, measured.current, meanHeight(measured.current));
+    const to = scrollToShow(heights, reveal, boxView(wrap, body));
+    if (to !== null) wrap.scrollTop = to;
+    // Only a change of the revealed row moves the box; new keys alone do not.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [reveal, windowed]);
+
+  const w = windowed ? rowWindow(rowHeights(keys, measured.current, meanHeight(measured.current)), view) : wholeWindow(keys.length);
+  const drawn: ReactNode[] = [];
+  for (let i = w.start; i < w.end; i++) drawn.push(row(i, { 'aria-rowindex': rowIndex(i), 'data-row-key': keys[i] }));
+  const spacer = (where: string, height: number) => (
+    <tr key={where} className="spacer" aria-hidden="true"><td colSpan={columns} style={{ height }} /></tr>
+  );
+  return (
+    <div className="table-wrap" tabIndex={0} role="region" aria-label={label} ref={wrapRef}>
+      <table className={className} data-testid={testId} aria-rowcount={rowCount ?? keys.length + 1} data-windowed={windowed ? 'true' : undefined}>
+        {head}
+        <tbody ref={bodyRef}>
+          {w.before > 0 && spacer('spacer-before', w.before)}
+          {drawn}
+          {w.after > 0 && spacer('spacer-after', w.after)}
+          {keys.length === 0 && empty}
+        </tbody>
+      </table>
+    </div>
+  );
+}
