@@ -1,4 +1,5 @@
-import { useEffect, useRef, useState, type ReactNode } from 'react';
+import { useEffect, useLayoutEffect, useRef, useState, type ReactNode } from 'react';
+import { flushSync } from 'react-dom';
 import { DRAW_ALL_UP_TO, FIRST_BOX_ESTIMATE, heightsFromTops, meanHeight, rowHeights, rowWindow, scrollToShow, wholeWindow, type BoxView } from './windowed-rows.ts';
 
 /** What a drawn row puts on its first <tr>: its place among all rows for assistive technology, and its key for measuring. */
@@ -33,6 +34,32 @@ function boxView(wrap: HTMLElement, body: HTMLTableSectionElement): BoxView {
   return { scrollTop: wrap.scrollTop, boxHeight: wrap.clientHeight, headHeight: head ? head.getBoundingClientRect().height : 0 };
 }
 
+/** The first row in view: its key and its place in the scrolled content; `due` when a commit is to keep it in place. */
+interface Anchor { key: string; at: number; due: boolean }
+
+/**
+ * When rows above the first row in view are drawn or measured anew (an
+ * estimated height replaced by the real one), the rows in view would move: the
+ * box is scrolled by as much instead, before the frame is painted, so no row
+ * jumps (with `correct`); then the anchor is taken again. The browser's own
+ * scroll anchoring is off for a windowed box (styles.css), so the two never
+ * correct twice.
+ */
+function keepAnchor(wrap: HTMLElement, body: HTMLTableSectionElement, anchor: Anchor, correct: boolean): void {
+  const boxTop = wrap.getBoundingClientRect().top;
+  const rows = Array.from(body.rows).filter((tr) => tr.dataset.rowKey !== undefined);
+  if (correct && anchor.key) {
+    const tr = rows.find((r) => r.dataset.rowKey === anchor.key);
+    if (tr) {
+      const shift = tr.getBoundingClientRect().top - boxTop + wrap.scrollTop - anchor.at;
+      if (Math.abs(shift) >= 0.5) wrap.scrollTop += shift;
+    }
+  }
+  const head = boxView(wrap, body).headHeight;
+  const first = rows.find((r) => r.getBoundingClientRect().bottom > boxTop + head);
+  if (first) { anchor.key = first.dataset.rowKey!; anchor.at = first.getBoundingClientRect().top - boxTop + wrap.scrollTop; }
+}
+
 /**
  * A table in its scrolled box (`.table-wrap`) that draws only the rows in or
  * near the box (issue 16): a long table laid out whole cost the page 150–800 ms
@@ -50,6 +77,16 @@ export function WindowedTable({ label, className, testId, head, keys, columns, r
   const [view, setView] = useState<BoxView>({ scrollTop: 0, boxHeight: FIRST_BOX_ESTIMATE, headHeight: 0 });
   const [, setMeasureCount] = useState(0);
   const windowed = keys.length > DRAW_ALL_UP_TO;
+  const anchor = useRef<Anchor>({ key: '', at: 0, due: false });
+
+  // After a commit this component asked for itself (a scroll, new measured heights), before paint: the rows in
+  // view stay where they were (see keepAnchor). A commit for new rows from outside is left alone.
+  useLayoutEffect(() => {
+    const wrap = wrapRef.current, body = bodyRef.current;
+    if (!anchor.current.due || !wrap || !body) return;
+    anchor.current.due = false;
+    keepAnchor(wrap, body, anchor.current, true);
+  });
 
   useEffect(() => {
     const wrap = wrapRef.current, body = bodyRef.current;
@@ -61,12 +98,15 @@ export function WindowedTable({ label, className, testId, head, keys, columns, r
       if (frame) return;
       frame = requestAnimationFrame(() => {
         frame = 0;
+        keepAnchor(wrap, body, anchor.current, false);
+        anchor.current.due = true;
         const v = readView();
         setView((old) => (sameView(old, v) ? old : v));
       });
     };
-    // After layout: the drawn rows' heights (a row's detail row counts in it), the box and the header.
+    // After layout, before paint: the drawn rows' heights (a row's detail row counts in it), the box and the header.
     const measure = () => {
+      keepAnchor(wrap, body, anchor.current, false);
       const tops: number[] = [], rowKeys: string[] = [];
       let bottom = body.getBoundingClientRect().bottom;
       for (const tr of Array.from(body.rows)) {
@@ -78,9 +118,13 @@ export function WindowedTable({ label, className, testId, head, keys, columns, r
         const old = measured.current.get(rowKeys[j]);
         if (old === undefined || Math.abs(old - h) > 0.5) { measured.current.set(rowKeys[j], h); changed = true; }
       });
-      if (changed) setMeasureCount((c) => c + 1);
       const v = readView();
-      setView((old) => (sameView(old, v) ? old : v));
+      // Drawn again at once, so the new spacer heights are laid out (and the anchor kept) in this same frame.
+      anchor.current.due = true;
+      flushSync(() => {
+        if (changed) setMeasureCount((c) => c + 1);
+        setView((old) => (sameView(old, v) ? old : v));
+      });
     };
     wrap.addEventListener('scroll', onScroll, { passive: true });
     const ro = typeof ResizeObserver === 'function' ? new ResizeObserver(measure) : null;
@@ -94,11 +138,21 @@ export function WindowedTable({ label, className, testId, head, keys, columns, r
   }, [windowed]);
 
   // Bring the revealed row into the box when it changes (not on every scroll: the user may scroll away from it).
+  // A drawn row is placed by its real position (a row clicked at the box's edge moves only as far as it must);
+  // a row not drawn by the estimated heights, then it is drawn and measured.
   useEffect(() => {
     const wrap = wrapRef.current, body = bodyRef.current;
     if (!windowed || reveal === null || !wrap || !body) return;
-    const heights = rowHeights(keys, measured.current, meanHeight(measured.current));
-    const to = scrollToShow(heights, reveal, boxView(wrap, body));
+    const box = boxView(wrap, body);
+    const tr = Array.from(body.rows).find((r) => r.dataset.rowKey === keys[reveal]);
+    if (tr) {
+      const top = tr.getBoundingClientRect().top - wrap.getBoundingClientRect().top - wrap.clientTop;
+      const height = tr.getBoundingClientRect().height;
+      if (top < box.headHeight) wrap.scrollTop += top - box.headHeight;
+      else if (top + height > box.boxHeight) wrap.scrollTop += top + height - box.boxHeight;
+      return;
+    }
+    const to = scrollToShow(rowHeights(keys, measured.current, meanHeight(measured.current)), reveal, box);
     if (to !== null) wrap.scrollTop = to;
     // Only a change of the revealed row moves the box; new keys alone do not.
     // eslint-disable-next-line react-hooks/exhaustive-deps
