@@ -34,6 +34,9 @@ function boxView(wrap: HTMLElement, body: HTMLTableSectionElement): BoxView {
   return { scrollTop: wrap.scrollTop, boxHeight: wrap.clientHeight, headHeight: head ? head.getBoundingClientRect().height : 0 };
 }
 
+/** Measured row heights kept at most (a row's key stays while the table holds it; the rest go oldest first). */
+const MEASURED_KEPT = 5000;
+
 /** The first row in view: its key and its place in the scrolled content; `due` when a commit is to keep it in place. */
 interface Anchor { key: string; at: number; due: boolean }
 
@@ -118,6 +121,8 @@ export function WindowedTable({ label, className, testId, head, keys, columns, r
         const old = measured.current.get(rowKeys[j]);
         if (old === undefined || Math.abs(old - h) > 0.5) { measured.current.set(rowKeys[j], h); changed = true; }
       });
+      // Heights of rows long gone (earlier analyses) are dropped, oldest first, so the mean stays cheap.
+      for (const k of measured.current.keys()) { if (measured.current.size <= MEASURED_KEPT) break; measured.current.delete(k); }
       const v = readView();
       // Drawn again at once, so the new spacer heights are laid out (and the anchor kept) in this same frame.
       anchor.current.due = true;
