@@ -140,6 +140,16 @@ test('10⁵ noisy points: the peak table and the ledger draw only the rows near 
     const deepLabel = await deep.getAttribute('aria-label');
     await deep.click();
     await expect(table.locator('tbody tr.selected')).toHaveAttribute('aria-label', deepLabel!);
+    // Its details open as a row of their own: the rows after it count one more, and the table one more in all.
+    const selectedRow = table.locator('tbody tr.selected');
+    const at = Number(await selectedRow.getAttribute('aria-rowindex'));
+    await selectedRow.getByTestId('row-details').click();
+    await expect(table.getByTestId('peak-detail')).toHaveAttribute('aria-rowindex', String(at + 1));
+    await expect(table).toHaveAttribute('aria-rowcount', String(peakRows + 2));
+    await expect(table.locator(`tbody tr[aria-rowindex="${at + 2}"]`)).toHaveAttribute('aria-label', new RegExp(`^Peak ${at} at `));
+    await selectedRow.getByTestId('row-details').click();
+    await expect(table.getByTestId('peak-detail')).toHaveCount(0);
+    await expect(table).toHaveAttribute('aria-rowcount', String(peakRows + 1));
 
     // The bottom: the last rows are drawn with their places, the last peak's last.
     await checkBottom(table, peakRows);
