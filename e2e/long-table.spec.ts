@@ -22,7 +22,7 @@ async function scrollBox(table: Locator, fraction: number): Promise<void> {
 async function drawn(table: Locator) {
   return table.evaluate((t) => {
     const wrap = t.parentElement as HTMLElement;
-    const rows = Array.from(t.querySelectorAll('tbody tr')) as HTMLElement[];
+    const rows = Array.from(t.querySelectorAll('tbody tr')) as HTMLTableRowElement[];
     return {
       rowCount: Number(t.getAttribute('aria-rowcount')),
       trs: rows.length,
