@@ -171,7 +171,7 @@ export function WindowedTable({ label, className, testId, head, keys, columns, r
   );
   return (
     <div className="table-wrap" tabIndex={0} role="region" aria-label={label} ref={wrapRef}>
-      <table className={className} data-testid={testId} aria-rowcount={rowCount ?? keys.length + 1} data-windowed={windowed ? 'true' : undefined}>
+      <table className={className} data-testid={testId} aria-rowcount={keys.length > 0 ? (rowCount ?? keys.length + 1) : undefined} data-windowed={windowed ? 'true' : undefined}>
         {head}
         <tbody ref={bodyRef}>
           {w.before > 0 && spacer('spacer-before', w.before)}
