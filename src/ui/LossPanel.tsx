@@ -9,6 +9,7 @@ import { ALTERNATIVE_COLOURS } from './palette.ts';
 import { MAX_ALTERNATIVES } from '../core/analysis/index.ts';
 import { currentResult } from '../state/selectors.ts';
 import { DISPLAY_CAPS } from '../state/display-caps.ts';
+import { WindowedTable } from './WindowedTable.tsx';
 
 function standingText(c: LedgerCell): string {
   if (!c.found) return 'lost';
@@ -55,6 +56,8 @@ export function LossPanel() {
   const hidden = loss ? loss.noiseLevelRows : 0;
   // Thousands of rows would stall the page; crossed rows first, then by position.
   const shown = rows.length <= DISPLAY_CAPS.ledgerRows ? rows : [...rows.filter((r) => r.crossed), ...rows.filter((r) => !r.crossed)].slice(0, DISPLAY_CAPS.ledgerRows).sort((a, b) => a.position - b.position);
+  const isSelected = (r: (typeof rows)[number]) => selected !== null && Math.abs(selected - r.position) <= r.tolerance;
+  const selectedRow = shown.findIndex(isSelected);
   return (
     <section className="panel" aria-labelledby="loss-title" data-testid="loss-panel" data-result-seq={resultSeq} data-provisional={provisional ? 'true' : undefined}>
       <div className="panel-head">
@@ -130,41 +133,46 @@ export function LossPanel() {
             <input type="checkbox" checked={noiseRowsOn} onChange={(e) => setLedgerNoiseLevel(e.target.checked)} data-testid="ledger-noise-toggle" />
             {' '}also list noise-level features (below the detection limit in every column)
           </label>
-          <div className="table-wrap" tabIndex={0} role="region" aria-label="Ledger table (scrolls)">
-            <table className="data ledger" data-testid="ledger">
+          <WindowedTable
+            label="Ledger table (scrolls)" className="data ledger" testId="ledger" keys={shown.map((r) => String(r.position))}
+            columns={1 + loss.ledger.alternatives.length + (fitColumn ? 1 : 0)}
+            reveal={selectedRow >= 0 ? selectedRow : null}
+            head={<>
               <caption className="sr-only">Survival of each feature under each processing choice</caption>
               <thead>
-                <tr>
+                <tr aria-rowindex={1}>
                   <th scope="col">Feature at{xu ? ` (${xu})` : ''}</th>
                   {loss.ledger.alternatives.map((a) => <th scope="col" key={a.id}>{a.label}</th>)}
                   {fitColumn && <th scope="col">Peak count by region fit</th>}
                 </tr>
               </thead>
-              <tbody>
-                {shown.map((r) => (
-                  <tr
-                    key={r.position}
-                    className={`${r.crossed ? 'crossed' : ''} ${selected !== null && Math.abs(selected - r.position) <= r.tolerance ? 'selected' : ''}`}
-                    onClick={() => focusOn(r.position, r.cells)}
-                    tabIndex={0}
-                    onKeyDown={(e) => { if (e.key === 'Enter') focusOn(r.position, r.cells); }}
-                    aria-label={`Feature at ${num(r.position, 5)}; press Enter to see it under each choice`}
-                  >
-                    <th scope="row">{num(r.position, 5)}</th>
-                    {r.cells.map((c, i) => (
-                      <td key={i} className={`cell-${c.found ? c.standing : 'lost'} ${c.crossed === 'down' ? 'down' : ''}`}>
-                        <div>{standingText(c)}</div>
-                        {i > r.firstFoundIn && c.heightKept !== null && (
-                          <div className="small muted">height {pct(c.heightKept)} · width {pct(c.widthChange, true)} · shift {num(c.apexShiftPoints, 2)} pt · area {pct(c.areaChange, true)}</div>
-                        )}
-                      </td>
-                    ))}
-                    {fitColumn && <FitCell note={ledgerFitNote(r.position, fits)} />}
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          </div>
+            </>}
+            row={(k, attrs) => {
+              const r = shown[k];
+              return (
+                <tr
+                  {...attrs}
+                  key={r.position}
+                  className={`${r.crossed ? 'crossed' : ''} ${isSelected(r) ? 'selected' : ''}`}
+                  onClick={() => focusOn(r.position, r.cells)}
+                  tabIndex={0}
+                  onKeyDown={(e) => { if (e.key === 'Enter') focusOn(r.position, r.cells); }}
+                  aria-label={`Feature at ${num(r.position, 5)}; press Enter to see it under each choice`}
+                >
+                  <th scope="row">{num(r.position, 5)}</th>
+                  {r.cells.map((c, i) => (
+                    <td key={i} className={`cell-${c.found ? c.standing : 'lost'} ${c.crossed === 'down' ? 'down' : ''}`}>
+                      <div>{standingText(c)}</div>
+                      {i > r.firstFoundIn && c.heightKept !== null && (
+                        <div className="small muted">height {pct(c.heightKept)} · width {pct(c.widthChange, true)} · shift {num(c.apexShiftPoints, 2)} pt · area {pct(c.areaChange, true)}</div>
+                      )}
+                    </td>
+                  ))}
+                  {fitColumn && <FitCell note={ledgerFitNote(r.position, fits)} />}
+                </tr>
+              );
+            }}
+          />
           {shown.length < rows.length && <p className="small muted">Showing {shown.length} of {rows.length} rows (every row where a limit is crossed first). The report lists every sentence.</p>}
           {hidden > 0 && !loss.noiseLevelShown && <p className="small muted">{hidden} noise-level candidate{hidden === 1 ? '' : 's'} (below the detection limit in every column) left out of the ledger; tick the box above to list them.</p>}
         </>

@@ -13,6 +13,7 @@ import { withCurrent } from '../state/selectors.ts';
 import { xUnits } from '../core/units.ts';
 import { DISPLAY_CAPS } from '../state/display-caps.ts';
 import { peakTableRows, tableTotals } from '../worker/peak-rank.ts';
+import { WindowedTable } from './WindowedTable.tsx';
 
 
 /** One column of the peak table (issue 17); `fixed` columns are always shown. */
@@ -127,6 +128,12 @@ export function PeakTable() {
   const isShown = (c: PeakColumn) => c.fixed === true || (colPrefs[c.key] ?? (DEFAULT_SHOWN.has(c.key) || c.key.startsWith('x-')));
   const visible = columns.filter(isShown);
   const hiddenCols = columns.filter((c) => !isShown(c));
+  // Issue 16: rows keyed by the peak, never by position (focus stays with the peak after a re-sort); an open
+  // detail row is a row of its own for assistive technology, so the rows after it count one more.
+  const keys = peaks.map((p) => `${p.index}-${p.origin}-${p.removedByUser ? 'r' : 'k'}`);
+  const openBefore = new Array<number>(peaks.length + 1).fill(0);
+  for (let i = 0; i < peaks.length; i++) openBefore[i + 1] = openBefore[i] + (openRows.has(keys[i]) ? 1 : 0);
+  const selectedRow = selected === null ? -1 : peaks.findIndex((p) => Math.abs(selected - p.x) < 1e-12);
   return (
     <section className="panel" aria-labelledby="peaks-title" data-testid="peak-panel" data-result-seq={resultSeq} data-provisional={provisional || bumpsPending ? 'true' : undefined} data-snr-provisional={snrWaiting ? 'true' : undefined}>
       <div className="panel-head">
@@ -169,57 +176,59 @@ export function PeakTable() {
           </fieldset>
         </details>
       </div>
-      <div className="table-wrap" tabIndex={0} role="region" aria-label="Peak table (scrolls)">
-        <table className="data peaks" data-testid="peak-table">
+      <WindowedTable
+        label="Peak table (scrolls)" className="data peaks" testId="peak-table" keys={keys} columns={visible.length + 1}
+        rowIndex={(i) => i + 2 + openBefore[i]} rowCount={peaks.length + 1 + openBefore[peaks.length]} reveal={selectedRow >= 0 ? selectedRow : null}
+        head={<>
           <caption className="sr-only">Peaks found on the {result.peakOptions ? 'measured' : ''} trace with their measures; S/N by {SNR_NAME[def]}</caption>
           <thead>
-            <tr>
+            <tr aria-rowindex={1}>
               {visible.map((c) => <th scope="col" key={c.key} title={c.title} data-col={c.key}>{c.label}</th>)}
               <th scope="col" data-col="details" title="Open a row’s details: the columns not shown and why its start and end are where they are">Details</th>
             </tr>
           </thead>
-          <tbody>
-            {peaks.map((p, i) => {
-              const key = `${p.index}-${p.origin}-${p.removedByUser ? 'r' : 'k'}`;
-              const open = openRows.has(key);
-              return (
-                <Fragment key={key}>
-                  <tr
-                    className={`${selected !== null && Math.abs(selected - p.x) < 1e-12 ? 'selected' : ''} ${p.removedByUser ? 'removed' : ''}`}
-                    onClick={() => {
-                      selectPeak(p.x);
-                      const pad = Math.max(p.fwhm * 3, (p.end - p.start) * 0.5);
-                      setXRange([p.start - pad, p.end + pad]);
-                      setTimeout(() => document.querySelector('[data-testid="focus-view"]')?.scrollIntoView?.({ block: 'nearest' }), 50); // issue 17
-                    }}
-                    tabIndex={0}
-                    onKeyDown={(e) => { if (e.key === 'Enter' && e.target === e.currentTarget) (e.currentTarget as HTMLElement).click(); }}
-                    aria-label={`Peak ${i + 1} at ${num(p.x)}; press Enter to zoom to it`}
-                  >
-                    {visible.map((c) => <td key={c.key} data-col={c.key} className={c.className}>{c.cell(p, i)}</td>)}
-                    <td className="expander">
-                      <button type="button" className="link" aria-expanded={open} aria-label={`${open ? 'Hide' : 'Show'} the details of peak ${i + 1}`} onClick={(e) => { e.stopPropagation(); toggleRow(key); }} data-testid="row-details">{open ? '▾' : '▸'}</button>
-                    </td>
-                  </tr>
-                  {open && (
-                    <tr className="detail-row" data-testid="peak-detail">
-                      <td colSpan={visible.length + 1}>
-                        <dl className="peak-detail">
-                          {hiddenCols.map((c) => <div key={c.key}><dt>{c.label}</dt><dd>{c.cell(p, i)}</dd></div>)}
-                          <div><dt>Why these start and end</dt><dd>start: {BOUND_TEXT[p.startKind]}; end: {BOUND_TEXT[p.endKind]}{p.split !== 'none' ? `; shared valley split by ${SPLIT_TEXT[p.split]}` : ''}</dd></div>
-                          {p.marks.length > 0 && <div><dt>Marks</dt><dd>{p.marks.map((m) => MARK_TEXT[m]).join('; ')}</dd></div>}
-                          {p.note && <div><dt>Note</dt><dd>{p.note}</dd></div>}
-                        </dl>
-                      </td>
-                    </tr>
-                  )}
-                </Fragment>
-              );
-            })}
-            {peaks.length === 0 && <tr><td colSpan={visible.length + 1} className="muted">No peaks pass the thresholds.</td></tr>}
-          </tbody>
-        </table>
-      </div>
+        </>}
+        row={(i, attrs) => {
+          const p = peaks[i];
+          const key = keys[i];
+          const open = openRows.has(key);
+          return (
+            <Fragment key={key}>
+              <tr
+                {...attrs}
+                className={`${selected !== null && Math.abs(selected - p.x) < 1e-12 ? 'selected' : ''} ${p.removedByUser ? 'removed' : ''}`}
+                onClick={() => {
+                  selectPeak(p.x);
+                  const pad = Math.max(p.fwhm * 3, (p.end - p.start) * 0.5);
+                  setXRange([p.start - pad, p.end + pad]);
+                  setTimeout(() => document.querySelector('[data-testid="focus-view"]')?.scrollIntoView?.({ block: 'nearest' }), 50); // issue 17
+                }}
+                tabIndex={0}
+                onKeyDown={(e) => { if (e.key === 'Enter' && e.target === e.currentTarget) (e.currentTarget as HTMLElement).click(); }}
+                aria-label={`Peak ${i + 1} at ${num(p.x)}; press Enter to zoom to it`}
+              >
+                {visible.map((c) => <td key={c.key} data-col={c.key} className={c.className}>{c.cell(p, i)}</td>)}
+                <td className="expander">
+                  <button type="button" className="link" aria-expanded={open} aria-label={`${open ? 'Hide' : 'Show'} the details of peak ${i + 1}`} onClick={(e) => { e.stopPropagation(); toggleRow(key); }} data-testid="row-details">{open ? '▾' : '▸'}</button>
+                </td>
+              </tr>
+              {open && (
+                <tr className="detail-row" data-testid="peak-detail" aria-rowindex={attrs['aria-rowindex'] + 1}>
+                  <td colSpan={visible.length + 1}>
+                    <dl className="peak-detail">
+                      {hiddenCols.map((c) => <div key={c.key}><dt>{c.label}</dt><dd>{c.cell(p, i)}</dd></div>)}
+                      <div><dt>Why these start and end</dt><dd>start: {BOUND_TEXT[p.startKind]}; end: {BOUND_TEXT[p.endKind]}{p.split !== 'none' ? `; shared valley split by ${SPLIT_TEXT[p.split]}` : ''}</dd></div>
+                      {p.marks.length > 0 && <div><dt>Marks</dt><dd>{p.marks.map((m) => MARK_TEXT[m]).join('; ')}</dd></div>}
+                      {p.note && <div><dt>Note</dt><dd>{p.note}</dd></div>}
+                    </dl>
+                  </td>
+                </tr>
+              )}
+            </Fragment>
+          );
+        }}
+        empty={<tr><td colSpan={visible.length + 1} className="muted">No peaks pass the thresholds.</td></tr>}
+      />
       <p className="hint">
         Height: apex above the peak’s own local baseline, a straight line between the trace’s levels at its start and end (drawn for the selected peak). Start and end: where the trace is back at the baseline, or a valley shared with a neighbour (split by {SPLIT_TEXT[result.peakOptions?.split ?? 'perpendicular-drop']}); hover them, or open a row’s details, for why. FWHM: the peak’s own width at half that height. Area: above the local baseline from start to end (trapezoid rule). The ▸ at the end of a row opens the columns not shown; “Columns…” chooses which are shown.
         {' '}2H/h: h is the noise range {peaks.some((p) => p.pharmaNoise?.source === 'trace itself') ? 'of the trace itself (*), because no blank is loaded: a deviation from the pharmacopoeial method' : 'of the blank, processed by the same steps as the sample'} over {result.peakOptions?.pharmacopoeialMultiplier ?? 5} × FWHM centred on each peak.

@@ -19,13 +19,13 @@ import { useApp } from '../../src/state/store.ts';
 import { num } from '../../src/ui/format.ts';
 import { LossPanel } from '../../src/ui/LossPanel.tsx';
 import { PRESETS } from '../../src/ui/alternatives.ts';
-import { analyseNow, button, elements, html, loadDemoSample, press, resetStore, text, textOf, tree } from './harness.ts';
+import { analyseNow, button, elements, html, loadDemoSample, press, resetStore, text, textOf, tree, withAllRows } from './harness.ts';
 
 vi.mock('plotly.js-strict-dist-min', () => ({ default: {} }));
 beforeEach(() => resetStore());
 
 /** The ledger's rows as shown: aria-label and visible text. */
-const ledgerRows = (t: ReactNode) => elements(t).filter((e) => e.type === 'tr' && /^Feature at /.test(String(e.props['aria-label'] ?? '')))
+const ledgerRows = (t: ReactNode) => elements(withAllRows(t)).filter((e) => e.type === 'tr' && /^Feature at /.test(String(e.props['aria-label'] ?? '')))
   .map((r) => ({ label: String(r.props['aria-label']), text: textOf(r), cells: elements(r.props.children).filter((e) => e.type === 'td').map(textOf) }));
 
 /** The demo sample under a moving average `window` points wide (the current stack). */
@@ -134,6 +134,14 @@ describe('LossPanel', () => {
     for (const row of rows.filter((x) => x.crossed)) expect(labels.has(`Feature at ${num(row.position, 5)}; press Enter to see it under each choice`)).toBe(true);
     const pos = shown.map((s) => Number(/^Feature at ([\d.]+);/.exec(s.label)![1]));
     expect(pos).toEqual([...pos].sort((a, b) => a - b));
+    // Issue 16: the page draws only the first rows of the box; the table counts all of them, and one hidden spacer stands for the rest.
+    const h = html(LossPanel);
+    expect(h).toContain(`aria-rowcount="${DISPLAY_CAPS.ledgerRows + 1}"`);
+    const drawn = Array.from(h.matchAll(/<tr aria-rowindex="(\d+)" data-row-key="([^"]+)"/g));
+    expect(drawn.length).toBeGreaterThan(10);
+    expect(drawn.length).toBeLessThan(DISPLAY_CAPS.ledgerRows / 5);
+    drawn.forEach((m, k) => { expect(Number(m[1])).toBe(k + 2); expect(Number(m[2])).toBe(pos[k]); });
+    expect(h.match(/<tr class="spacer" aria-hidden="true">/g)).toHaveLength(1);
   });
 
   it('an empty stack compared with an alternative loses nothing (the current stack is the raw trace), and the panel says so', async () => {

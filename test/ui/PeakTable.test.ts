@@ -19,14 +19,14 @@ import { DISPLAY_CAPS } from '../../src/state/display-caps.ts';
 import { useApp } from '../../src/state/store.ts';
 import { num } from '../../src/ui/format.ts';
 import { PeakTable } from '../../src/ui/PeakTable.tsx';
-import { analyseNow, elements, html, loadDemoSample, press, resetStore, text, textOf, tree } from './harness.ts';
+import { analyseNow, elements, html, loadDemoSample, press, resetStore, text, textOf, tree, withAllRows } from './harness.ts';
 
 vi.mock('plotly.js-strict-dist-min', () => ({ default: {} }));
 beforeEach(() => resetStore());
 
 /** The table's peak rows, in the order shown: each with its aria-label, visible text and every title inside it. */
 function rows(t: ReactNode) {
-  return elements(t).filter((e) => e.type === 'tr' && /^Peak \d+ at /.test(String(e.props['aria-label'] ?? ''))).map((r) => ({
+  return elements(withAllRows(t)).filter((e) => e.type === 'tr' && /^Peak \d+ at /.test(String(e.props['aria-label'] ?? ''))).map((r) => ({
     label: String(r.props['aria-label']),
     text: textOf(r),
     titles: elements(r.props.children).map((e) => String(e.props.title ?? '')).filter(Boolean),
@@ -151,6 +151,22 @@ describe('PeakTable on a long table (more than DISPLAY_CAPS.peakRows candidates)
     expect(Math.min(...rest.map((p) => p.snr!))).toBeGreaterThan(Math.max(...leftOut.map((p) => p.snr!)));
     expect(shown.filter((r) => r.text.includes('added by hand'))).toHaveLength(2);
     expect(shown.filter((r) => r.text.includes('removed by hand'))).toHaveLength(1);
+  });
+
+  it('issue 16: the page draws only the first rows of the long table; the table says it has them all, each drawn row its place', async () => {
+    await longTable();
+    const h = html(PeakTable);
+    // The header row and DISPLAY_CAPS.peakRows rows (no detail row open).
+    expect(h).toContain(`aria-rowcount="${DISPLAY_CAPS.peakRows + 1}"`);
+    const drawn = Array.from(h.matchAll(/<tr aria-rowindex="(\d+)" data-row-key="[^"]+"[^>]*aria-label="Peak (\d+) at/g)).map((m) => [Number(m[1]), Number(m[2])]);
+    expect(drawn.length).toBeGreaterThan(10);
+    expect(drawn.length).toBeLessThan(DISPLAY_CAPS.peakRows / 5);
+    // Peak n is row n + 1 (the header is row 1), drawn from the top in order.
+    drawn.forEach(([index, n], k) => { expect(n).toBe(k + 1); expect(index).toBe(n + 1); });
+    // One spacer row below, hidden from assistive technology, stands for the rest; the header keeps its <th scope="col"> and the caption.
+    expect(h.match(/<tr class="spacer" aria-hidden="true">/g)).toHaveLength(1);
+    expect(h).toContain('<caption class="sr-only">');
+    expect(h).toMatch(/<thead><tr aria-rowindex="1"><th scope="col"/);
   });
 
   it('“Showing N of M” adds up: N rows shown of all M candidates; the counts cover every row not removed', async () => {

@@ -10,6 +10,7 @@ import type { Peak } from '../../src/core/measure/peak-types.ts';
 import { useApp } from '../../src/state/store.ts';
 import { emptyStandards, withAmount, withUnit } from '../../src/ui/calibration/standards-edit.ts';
 import { analyseTrace, getBackend, loadBytes } from '../../src/state/service.ts';
+import { WindowedTable, type WindowedTableProps } from '../../src/ui/WindowedTable.tsx';
 
 export const demoBytes = (name: string): Uint8Array => new Uint8Array(readFileSync(new URL(`../../public/demo/${name}`, import.meta.url)));
 
@@ -90,6 +91,17 @@ export function elements(node: ReactNode): El[] {
   };
   walk(node);
   return out;
+}
+
+/**
+ * A tree with every row of its windowed tables (src/ui/WindowedTable.tsx) beside
+ * it: such a table draws only the rows in its scrolled box, and stays an
+ * unrendered element in {@link tree}; here each row is made by the table's own
+ * `row` function, as it is when the box is scrolled to it.
+ */
+export function withAllRows(node: ReactNode): ReactNode[] {
+  const tables = elements(node).filter((e) => e.type === WindowedTable).map((e) => e.props as unknown as WindowedTableProps);
+  return [node, ...tables.flatMap((p) => p.keys.map((k, i) => p.row(i, { 'aria-rowindex': (p.rowIndex ?? ((j: number) => j + 2))(i), 'data-row-key': k })))];
 }
 
 /** The text inside an element of a tree (strings and numbers only). */
