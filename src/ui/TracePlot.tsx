@@ -17,7 +17,7 @@ import type { Peak } from '../core/measure/peak-types.ts';
 import type { Signal } from '../core/steps/types.ts';
 import { farOf } from '../worker/bridge.ts';
 import { sameView, type Drawn, type FarSeries, type View } from '../worker/series.ts';
-import { plotMarkers } from '../worker/peak-rank.ts';
+import { plotMarkers, tableTotals } from '../worker/peak-rank.ts';
 import { getBackend } from '../state/service.ts';
 
 /** The main plotting area as last drawn: axis ranges and size in pixels (issue 17: label placement). */
@@ -106,6 +106,8 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   /** Which shapes are the selected peak's start and end (issue 17), for dragging. */
   const [geom, setGeom] = useState<Geometry | null>(null);
   const labelCount = useRef<{ shown: number; of: number; below: number } | null>(null);
+  /** Issue 16: candidates below the detection limit with a marker, and in all (PLOT_MARKERS_BELOW). */
+  const belowMarkers = useRef<{ drawn: number; of: number } | null>(null);
   const figEl = useRef<HTMLElement | null>(null);
   const excluded = useApp((s) => s.peakSettings.excluded);
   const addPeakMode = useApp((s) => s.addPeakMode);
@@ -122,10 +124,15 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const peakTraces = useMemo<PlotData[]>(() => {
     const traces: PlotData[] = [];
     labelCount.current = null;
+    belowMarkers.current = null;
     if (!peaks) return traces;
     // At most PLOT_MARKERS markers (highest S/N first, hand-added always): thousands of labels would stall the page.
     // Ranked by the worker when it sent the peaks (worker/peak-rank.ts), so only these rows are read here.
     const live = plotMarkers(peaks);
+    // Counted from the worker's totals (every row) less the peaks added by hand, which always have their own marker.
+    const belowDrawn = live.filter((pk) => pk.origin !== 'added-by-user' && pk.flag === 'below-detection').length;
+    const belowAll = tableTotals(peaks).below - live.filter((pk) => pk.origin === 'added-by-user' && pk.flag === 'below-detection').length;
+    if (belowAll > belowDrawn) belowMarkers.current = { drawn: belowDrawn, of: belowAll };
     // Features the raw trace does not have: ringed again, so they cannot be taken for ordinary peaks.
     const born = live.filter((pk) => pk.marks.includes('appears-only-after-processing') && pk.flag !== 'below-detection');
     if (born.length) {
@@ -337,6 +344,11 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   return (
     <div ref={boxRef} className="plot-box" data-labels={labelCount.current ? `${labelCount.current.shown}/${labelCount.current.of}` : undefined}>
       <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onShapeX={onShapeX} dragShapes={selectedX !== null} onReady={onReady} onDrawn={onDrawn} pictureName={`${sample.source.fileName.replace(/\.[^.]*$/, '')}-plot`} drawnTag={String(result ? resultSeq : 0)} />
+      {belowMarkers.current && (
+        <p className="small muted plot-label-note" data-testid="marker-note">
+          Markers on {belowMarkers.current.drawn} of the {belowMarkers.current.of.toLocaleString('en')} candidates below the detection limit (those with the highest S/N); the peak table and its CSV list every one.
+        </p>
+      )}
       {labelCount.current && (labelCount.current.shown < labelCount.current.of || labelCount.current.below > 0) && (
         <p className="small muted plot-label-note" data-testid="label-note">
           S/N labels on {labelCount.current.shown} of {labelCount.current.of} peaks in view

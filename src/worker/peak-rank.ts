@@ -58,14 +58,30 @@ export function peakTableRows(peaks: readonly Peak[], cap: number): readonly Pea
 export const PLOT_MARKERS = 300;
 
 /**
- * Indices into `peaks` of the markers the plot draws: every peak not removed by hand in table order while
- * there are at most `cap`; else the peaks added by hand, then the others by S/N, highest first (not measured
- * counting as 0; equal S/N in table order), `cap` in all.
+ * Of those, markers below the detection limit at most (issue 16). On a long noisy trace most candidates are
+ * noise bumps below S/N 3: hundreds of rings laid over the noise tell a reader little and cost the figure
+ * about as much to draw as every line in it (about 50 ms of each redraw for 233 rings, 10⁵ points). The
+ * page says how many it leaves out, and the peak table lists every one.
  */
-export function rankMarkers(peaks: readonly Peak[], cap: number): Uint32Array {
+export const PLOT_MARKERS_BELOW = 40;
+
+const isBelow = (p: Peak) => p.origin !== 'added-by-user' && p.flag === 'below-detection';
+
+/**
+ * Indices into `peaks` of the markers the plot draws: every peak not removed by hand in table order while
+ * there are at most `cap` and at most `belowCap` of them below the detection limit; else the peaks added by
+ * hand, then the others by S/N, highest first (not measured counting as 0; equal S/N in table order), at most
+ * `belowCap` below the detection limit, `cap` in all.
+ */
+export function rankMarkers(peaks: readonly Peak[], cap: number, belowCap: number = PLOT_MARKERS_BELOW): Uint32Array {
   const live: number[] = [];
-  for (let i = 0; i < peaks.length; i++) if (!peaks[i].removedByUser) live.push(i);
-  if (live.length <= cap) return Uint32Array.from(live);
+  let below = 0;
+  for (let i = 0; i < peaks.length; i++) {
+    if (peaks[i].removedByUser) continue;
+    live.push(i);
+    if (isBelow(peaks[i])) below++;
+  }
+  if (live.length <= cap && below <= belowCap) return Uint32Array.from(live);
   const key = new Float64Array(peaks.length);
   const mine: number[] = [], others: number[] = [];
   for (const i of live) {
@@ -73,7 +89,14 @@ export function rankMarkers(peaks: readonly Peak[], cap: number): Uint32Array {
     else { others.push(i); key[i] = peaks[i].snr ?? 0; }
   }
   others.sort((a, b) => key[b] - key[a] || a - b);
-  return Uint32Array.from([...mine, ...others.slice(0, cap - mine.length)]);
+  const out = mine.slice(0, cap);
+  let taken = 0;
+  for (const i of others) {
+    if (out.length >= cap) break;
+    if (isBelow(peaks[i])) { if (taken >= belowCap) continue; taken++; }
+    out.push(i);
+  }
+  return Uint32Array.from(out);
 }
 
 /** What the peak table says of the whole table: counts by standing and the summed area, peaks removed by hand left out. */

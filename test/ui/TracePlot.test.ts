@@ -20,7 +20,7 @@ import { beforeEach, describe, expect, it, vi } from 'vitest';
 import type { PlotData, PlotLayout } from 'plotly.js-strict-dist-min';
 import type { Peak } from '../../src/core/measure/peak-types.ts';
 import { useApp } from '../../src/state/store.ts';
-import { PLOT_MARKERS } from '../../src/worker/peak-rank.ts';
+import { PLOT_MARKERS, PLOT_MARKERS_BELOW } from '../../src/worker/peak-rank.ts';
 import { PlotlyFigure } from '../../src/ui/PlotlyFigure.tsx';
 import { TracePlot } from '../../src/ui/TracePlot.tsx';
 import { analyseNow, elements, html, loadDemoSample, resetStore, text, tree } from './harness.ts';
@@ -132,6 +132,33 @@ describe('TracePlot', () => {
     const others = peaks.filter((p) => p.origin === 'detected' && !p.removedByUser).sort((a, b) => b.snr! - a.snr!);
     const want = [peaks[3].x, ...others.slice(0, PLOT_MARKERS - 1).map((p) => p.x)].sort((a, b) => a - b);
     expect([...drawn].sort((a, b) => a - b)).toEqual(want);
+  });
+
+  it('issue 16: at most PLOT_MARKERS_BELOW markers below the detection limit (highest S/N), and the page says how many of how many', async () => {
+    await loadDemoSample();
+    const r = useApp.getState().result!;
+    const base = r.peaks[0];
+    // 10 quantifiable peaks and 250 noise bumps below S/N 3, one of them added by hand (always drawn, with its own marker).
+    const peaks: Peak[] = Array.from({ length: 260 }, (_, i) => {
+      const snr = i < 10 ? 20 + i : 0.01 * (i - 10);
+      return { ...base, index: i, x: 0.01 * i, snr, flag: snr >= 10 ? 'quantifiable' : 'below-detection', marks: [], origin: 'detected', removedByUser: false };
+    });
+    peaks[12] = { ...peaks[12], origin: 'added-by-user' };
+    useApp.setState({ result: { ...r, peaks } });
+    const { data } = figure();
+    const below = arr(named(data, 'below the detection limit (S/N < 3)')!.x);
+    expect(below).toHaveLength(PLOT_MARKERS_BELOW);
+    // The highest S/N among the 249 detected bumps: S/N 2.49 down to 2.10 (x = 0.01 · (snr/0.01 + 10)).
+    const want = peaks.filter((p) => p.origin === 'detected' && p.flag === 'below-detection').sort((a, b) => b.snr! - a.snr!).slice(0, PLOT_MARKERS_BELOW).map((p) => p.x);
+    expect([...below].sort((a, b) => a - b)).toEqual([...want].sort((a, b) => a - b));
+    expect(arr(named(data, 'quantifiable peak (S/N ≥ 10)')!.x)).toHaveLength(10);
+    expect(arr(named(data, 'peak added by hand')!.x)).toEqual([peaks[12].x]);
+    expect(text(html(TracePlot))).toContain(`Markers on ${PLOT_MARKERS_BELOW} of the 249 candidates below the detection limit (those with the highest S/N); the peak table and its CSV list every one.`);
+  });
+
+  it('no note on markers while every candidate below the detection limit has one (the demo)', async () => {
+    await loadDemoSample();
+    expect(text(html(TracePlot))).not.toContain('candidates below the detection limit');
   });
 
   it('a 41-point average: the lost sharp peak at 1.2 min is ringed as lost', async () => {

@@ -7,7 +7,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { peakTableRows, peakTotals, peakView, plotMarkers, rankMarkers, rankTableRows, rememberPeakView, tableTotals } from '../../src/worker/peak-rank.ts';
+import { PLOT_MARKERS_BELOW, peakTableRows, peakTotals, peakView, plotMarkers, rankMarkers, rankTableRows, rememberPeakView, tableTotals } from '../../src/worker/peak-rank.ts';
 import type { Peak } from '../../src/core/measure/peak-types.ts';
 import { analyse } from '../../src/core/analysis/index.ts';
 import { emptyRecipe } from '../../src/core/method.ts';
@@ -24,12 +24,18 @@ function pickRowsBefore(all: readonly Peak[], cap: number): Peak[] {
   return [...all.filter(mine), ...rest].slice(0, cap);
 }
 
-/** The plot's choice of markers before issue 16 moved it (TracePlot.tsx), word for word. */
-function markersBefore(peaks: readonly Peak[], cap: number): Peak[] {
+/**
+ * The plot's choice of markers, written plainly: before issue 16 moved it (TracePlot.tsx), then with at most
+ * `belowCap` markers below the detection limit (issue 16, PLOT_MARKERS_BELOW; peaks added by hand always drawn).
+ */
+function markersRule(peaks: readonly Peak[], cap: number, belowCap: number): Peak[] {
   let live = peaks.filter((pk) => !pk.removedByUser);
-  if (live.length > cap) {
-    const mine = live.filter((pk) => pk.origin === 'added-by-user');
-    live = [...mine, ...live.filter((pk) => pk.origin !== 'added-by-user').sort((a, b) => (b.snr ?? 0) - (a.snr ?? 0)).slice(0, cap - mine.length)];
+  const below = (pk: Peak) => pk.origin !== 'added-by-user' && pk.flag === 'below-detection';
+  if (live.length > cap || live.filter(below).length > belowCap) {
+    const mine = live.filter((pk) => pk.origin === 'added-by-user').slice(0, cap);
+    const ranked = live.filter((pk) => pk.origin !== 'added-by-user').sort((a, b) => (b.snr ?? 0) - (a.snr ?? 0));
+    const belowKept = ranked.filter(below).slice(0, belowCap);
+    live = [...mine, ...ranked.filter((pk) => !below(pk) || belowKept.includes(pk))].slice(0, cap);
   }
   return live;
 }
@@ -44,8 +50,8 @@ function totalsBefore(all: readonly Peak[]) {
 }
 
 /** Just the fields the ranking reads, plus x to tell rows apart. */
-const fakePeak = (x: number, snr: number | null, origin: string, removed: boolean) =>
-  ({ x, snr, origin, removedByUser: removed || undefined }) as unknown as Peak;
+const fakePeak = (x: number, snr: number | null, origin: string, removed: boolean, flag = 'detectable') =>
+  ({ x, snr, origin, removedByUser: removed || undefined, flag }) as unknown as Peak;
 
 describe('the peak table ranked in the worker', () => {
   it('chooses the same rows in the same order as the page did, on random tables (ties, nulls, infinities, decisions)', () => {
@@ -54,15 +60,17 @@ describe('the peak table ranked in the worker', () => {
         snr: fc.option(fc.oneof(fc.constantFrom(3, 3, 10, Infinity, -Infinity, 0), fc.double({ noNaN: true })), { nil: null }),
         origin: fc.constantFrom('detected', 'detected', 'detected', 'added-by-user'),
         removed: fc.integer({ min: 0, max: 4 }).map((k) => k === 0),
+        flag: fc.constantFrom('quantifiable', 'detectable', 'below-detection', 'below-detection', 'not-measured'),
       }), { maxLength: 80 }),
       fc.integer({ min: 0, max: 90 }),
-      (specs, cap) => {
-        const peaks = specs.map((s, i) => fakePeak(i, s.snr, s.origin, s.removed));
+      fc.integer({ min: 0, max: 40 }),
+      (specs, cap, belowCap) => {
+        const peaks = specs.map((s, i) => fakePeak(i, s.snr, s.origin, s.removed, s.flag));
         const rows = rankTableRows(peaks, cap);
         expect([...rows].map((i) => peaks[i])).toEqual(pickRowsBefore(peaks, cap));
         // The same objects, not copies: the page finds them in its own table.
         rows.forEach((i, k) => expect(peaks[i]).toBe(pickRowsBefore(peaks, cap)[k]));
-        expect([...rankMarkers(peaks, cap)].map((i) => peaks[i])).toEqual(markersBefore(peaks, cap));
+        expect([...rankMarkers(peaks, cap, belowCap)].map((i) => peaks[i])).toEqual(markersRule(peaks, cap, belowCap));
       },
     ), { numRuns: 300 });
   });
@@ -93,7 +101,8 @@ describe('the peak table ranked in the worker', () => {
     expect(made).toBeLessThan(peaks.length);
     expect(shown).toEqual(pickRowsBefore(peaks, 100));
     expect(shown[0]).toBe(onPage[view.rows[0]]);
-    expect(drawn).toEqual(markersBefore(peaks, 50));
+    expect(drawn).toEqual(markersRule(peaks, 50, PLOT_MARKERS_BELOW));
+    expect(drawn.filter((p) => p.flag === 'below-detection' && p.origin !== 'added-by-user').length).toBeLessThanOrEqual(PLOT_MARKERS_BELOW);
     expect(totals).toEqual(totalsBefore(peaks));
     // Without the worker's view (the in-process backend) the page ranks and counts the same itself.
     const plain = fromColumns<Peak>(toColumns(peaks as unknown as Record<string, unknown>[]));
