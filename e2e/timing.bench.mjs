@@ -392,6 +392,8 @@ async function main() {
       }
     }
     await page.evaluate(waitIdle, 300_000);
+    const drawnTraces = await page.evaluate(() => (document.querySelector('[data-testid="figure"]')?.data ?? []).map((d) => `${d.name} ${d.x?.length ?? 0}`).join('; '));
+    console.log(`figure after the moves (trace, points): ${drawnTraces}`);
     // The plot library's share: the figure redrawn with no analysis behind it (raw off, raw on; 3 times each).
     const redraws = [];
     for (let k = 0; k < 6; k++) {

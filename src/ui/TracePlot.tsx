@@ -11,8 +11,8 @@ import { MARK_TEXT } from '../core/export/peak-csv.ts';
 import { markDrawFailed, markDrawn } from './draw-health.ts';
 import { useNameOfPeak } from './calibration/derive.ts';
 import { pickNamedPeakAt } from './calibration/pick.ts';
-import { visibleYRange } from './plot-view.ts';
-import { labelsStillClear, placeLabels, type PlotGeometry } from './plot-labels.ts';
+import { lostFeatures, visibleYRange } from './plot-view.ts';
+import { PLOT_LABELS, labelsStillClear, placeLabels, type PlotGeometry } from './plot-labels.ts';
 import type { Peak } from '../core/measure/peak-types.ts';
 import type { Signal } from '../core/steps/types.ts';
 import { farOf } from '../worker/bridge.ts';
@@ -108,6 +108,8 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const labelCount = useRef<{ shown: number; of: number; below: number } | null>(null);
   /** Issue 16: candidates below the detection limit with a marker, and in all (PLOT_MARKERS_BELOW). */
   const belowMarkers = useRef<{ drawn: number; of: number } | null>(null);
+  /** Issue 16: features some choice loses with a ring, and in all (LOST_RINGS). */
+  const lostRings = useRef<{ drawn: number; of: number } | null>(null);
   const figEl = useRef<HTMLElement | null>(null);
   const excluded = useApp((s) => s.peakSettings.excluded);
   const addPeakMode = useApp((s) => s.addPeakMode);
@@ -178,7 +180,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
           text: `${names.has(pk) ? `${names.get(pk)} · ` : ''}${pk.snr === null ? '?' : pk.snr.toFixed(pk.snr < 10 ? 1 : 0)}`,
           priority: (names.has(pk) ? 2e9 : 0) + (pk.origin === 'added-by-user' ? 1e9 : 0) + Math.min(pk.snr ?? 0, 1e8),
         }));
-        const kept = placeLabels(items, geom.w, geom.h).map((k) => ({ pk: inView[k.index], text: items[k.index].text, spot: k.spot }));
+        const kept = placeLabels(items, geom.w, geom.h, PLOT_LABELS).map((k) => ({ pk: inView[k.index], text: items[k.index].text, spot: k.spot }));
         traces.push({
           type: 'scatter', mode: 'text', name: 'peak labels (S/N)', showlegend: false, hoverinfo: 'skip',
           x: kept.map((k) => k.pk.x), y: kept.map((k) => k.pk.y), text: kept.map((k) => k.text),
@@ -193,6 +195,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   }, [peaks, peakOptions, names, geom, xRange]);
 
   const data = useMemo<PlotData[]>(() => {
+    lostRings.current = null;
     if (!sample) return [];
     const { from, to, columns } = view;
     /** A series as drawn: the worker's drawing when it stayed there, else decimated here (it is short). */
@@ -222,7 +225,9 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       }
       if (result.loss) {
         // Features detectable on the raw trace that some column loses: marked where they were found.
-        const lost = result.loss.ledger.rows.filter((r) => { const ref = r.cells[r.firstFoundIn]; return (ref.standing === 'detectable' || ref.standing === 'quantifiable') && r.cells.some((c, k) => k > r.firstFoundIn && !c.found); });
+        // At most LOST_RINGS of them (quantifiable first, then the highest S/N); a note under the plot says how many of how many.
+        const { ringed: lost, of } = lostFeatures(result.loss.ledger.rows);
+        if (lost.length < of) lostRings.current = { drawn: lost.length, of };
         if (lost.length) {
           const lx = Float64Array.from(lost.map((r) => r.position));
           const ly = interpolateLinear(sample.x, sample.y, lx);
@@ -344,6 +349,11 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   return (
     <div ref={boxRef} className="plot-box" data-labels={labelCount.current ? `${labelCount.current.shown}/${labelCount.current.of}` : undefined}>
       <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onShapeX={onShapeX} dragShapes={selectedX !== null} onReady={onReady} onDrawn={onDrawn} pictureName={`${sample.source.fileName.replace(/\.[^.]*$/, '')}-plot`} drawnTag={String(result ? resultSeq : 0)} />
+      {lostRings.current && (
+        <p className="small muted plot-label-note" data-testid="lost-note">
+          Rings on {lostRings.current.drawn} of the {lostRings.current.of.toLocaleString('en')} features some choice loses (quantifiable first, then the highest S/N); the loss check below lists them.
+        </p>
+      )}
       {belowMarkers.current && (
         <p className="small muted plot-label-note" data-testid="marker-note">
           Markers on {belowMarkers.current.drawn} of the {belowMarkers.current.of.toLocaleString('en')} candidates below the detection limit (those with the highest S/N); the peak table and its CSV list every one.

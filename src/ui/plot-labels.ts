@@ -40,11 +40,23 @@ function overlaps(a: LabelBox, b: LabelBox): boolean {
   return a.left < b.right && b.left < a.right && a.top < b.bottom && b.top < a.bottom;
 }
 
-/** The labels kept (index into `items` and spot), in the input order; a label is tried above its apex, then right, then left. */
-export function placeLabels(items: readonly LabelItem[], width: number, height: number): { index: number; spot: LabelSpot; box: LabelBox }[] {
+/**
+ * Labels the trace plot places at most (issue 16): each text label costs the figure about a millisecond of
+ * every redraw (the plot library measures it), and 150 of them over a whole 10⁶-point trace are more than
+ * a reader takes in; the highest priority are kept, and the note under the plot says how many of how many.
+ */
+export const PLOT_LABELS = 60;
+
+/**
+ * The labels kept (index into `items` and spot), in the input order; a label is tried above its apex, then
+ * right, then left. At most `max`: the placing goes in priority order and stops there, so the labels kept
+ * are the first `max` of those an unlimited placing keeps.
+ */
+export function placeLabels(items: readonly LabelItem[], width: number, height: number, max = Infinity): { index: number; spot: LabelSpot; box: LabelBox }[] {
   const order = items.map((_, i) => i).sort((a, b) => items[b].priority - items[a].priority || items[a].px - items[b].px);
   const kept: { index: number; spot: LabelSpot; box: LabelBox }[] = [];
   for (const i of order) {
+    if (kept.length >= max) break;
     const it = items[i];
     if (!Number.isFinite(it.px) || !Number.isFinite(it.py)) continue;
     for (const spot of LABEL_SPOTS) {

@@ -59,3 +59,30 @@ export function slopeUnit(yUnit: string, xUnit: string): string {
   if (!yUnit && !xUnit) return '';
   return `${yUnit || '1'}/${xUnit ? (/[\s/·*]/.test(xUnit) ? `(${xUnit})` : xUnit) : '1'}`;
 }
+
+/** Rings the trace plot draws at most on features some choice loses (issue 16; the loss ledger lists every one). */
+export const LOST_RINGS = 60;
+
+/** A ledger row as {@link lostFeatures} reads it (core/measure/loss-matching.ts LedgerRow). */
+export interface LostRowLike {
+  readonly position: number;
+  readonly firstFoundIn: number;
+  readonly cells: readonly { readonly found: boolean; readonly snr: number | null; readonly standing: string }[];
+}
+
+/**
+ * Features detectable where first found that some later column loses, and of them the ones the plot rings:
+ * at most `cap`, quantifiable before detectable, then the highest S/N where first found (ties in ledger
+ * order). On a long noisy trace hundreds of noise bumps just above S/N 3 are lost to smoothing; rings on
+ * all of them hide the trace and cost each redraw more than its lines (397 rings at 10⁶ points).
+ */
+export function lostFeatures<R extends LostRowLike>(rows: readonly R[], cap: number = LOST_RINGS): { ringed: R[]; of: number } {
+  const lost = rows.filter((r) => {
+    const ref = r.cells[r.firstFoundIn];
+    return (ref.standing === 'detectable' || ref.standing === 'quantifiable') && r.cells.some((c, k) => k > r.firstFoundIn && !c.found);
+  });
+  if (lost.length <= cap) return { ringed: lost, of: lost.length };
+  const rank = (r: R) => { const ref = r.cells[r.firstFoundIn]; return (ref.standing === 'quantifiable' ? 1e12 : 0) + (ref.snr ?? 0); };
+  const order = lost.map((_, i) => i).sort((a, b) => rank(lost[b]) - rank(lost[a]) || a - b);
+  return { ringed: order.slice(0, cap).sort((a, b) => a - b).map((i) => lost[i]), of: lost.length };
+}

@@ -31,6 +31,15 @@ describe('placeLabels', () => {
     }
   });
 
+  it('issue 16: at most `max` labels, and they are the highest-priority ones an unlimited placing keeps', () => {
+    const rng = makeRng(60);
+    const items: LabelItem[] = Array.from({ length: 2000 }, () => ({ px: rng.uniform() * 800, py: rng.uniform() * 350, text: (rng.uniform() * 500).toFixed(1), priority: rng.uniform() }));
+    const all = placeLabels(items, 800, 350);
+    expect(all.length).toBeGreaterThan(60);
+    const firstByPriority = [...all].sort((a, b) => items[b.index].priority - items[a.index].priority).slice(0, 60).sort((a, b) => a.index - b.index);
+    expect(placeLabels(items, 800, 350, 60)).toEqual(firstByPriority);
+  });
+
   it('a label at the top edge goes beside its apex instead of being dropped', () => {
     const got = placeLabels([{ px: 100, py: 12, text: '350', priority: 1 }], 400, 300);
     expect(got.map((k) => k.spot)).toEqual(['middle right']);

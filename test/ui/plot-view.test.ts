@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { visibleYRange } from '../../src/ui/plot-view.ts';
+import { lostFeatures, visibleYRange, type LostRowLike } from '../../src/ui/plot-view.ts';
+import { makeRng } from '../../src/core/numeric/random.ts';
 
 // Hand-computed cases (issue 17): y fits the drawn data inside the x-range only.
 describe('visibleYRange', () => {
@@ -40,5 +41,41 @@ describe('readout helpers', () => {
     expect(slopeUnit('mAU', 'min')).toBe('mAU/min');
     expect(slopeUnit('mV', 'ml/min')).toBe('mV/(ml/min)');
     expect(slopeUnit('', '')).toBe('');
+  });
+});
+
+// Issue 16: rings on features some choice loses, at most LOST_RINGS, quantifiable first, then the highest S/N where first found.
+describe('lostFeatures', () => {
+  const cell = (found: boolean, snr: number | null, standing: string) => ({ found, snr, standing });
+  it('keeps only features detectable where first found and lost in a later column (worked by hand)', () => {
+    const rows: LostRowLike[] = [
+      { position: 1, firstFoundIn: 0, cells: [cell(true, 12, 'quantifiable'), cell(false, null, 'not-found')] }, // lost: kept
+      { position: 2, firstFoundIn: 0, cells: [cell(true, 2, 'below-detection'), cell(false, null, 'not-found')] }, // below S/N 3 first: not ringed
+      { position: 3, firstFoundIn: 0, cells: [cell(true, 5, 'detectable'), cell(true, 4, 'detectable')] }, // never lost
+      { position: 4, firstFoundIn: 1, cells: [cell(false, null, 'not-found'), cell(true, 6, 'detectable')] }, // born later, not lost after
+      { position: 5, firstFoundIn: 0, cells: [cell(true, 4, 'detectable'), cell(true, 3.5, 'detectable'), cell(false, null, 'not-found')] }, // lost in the third
+    ];
+    expect(lostFeatures(rows).ringed.map((r) => r.position)).toEqual([1, 5]);
+    expect(lostFeatures(rows).of).toBe(2);
+    // Cut to one: the quantifiable loss (S/N 12) before the detectable one (S/N 4).
+    expect(lostFeatures(rows, 1).ringed.map((r) => r.position)).toEqual([1]);
+  });
+
+  it('over the cap: exactly the cap, every quantifiable loss before any detectable one, S/N order within, ledger order kept (random ledgers)', () => {
+    const rng = makeRng(61);
+    for (let t = 0; t < 50; t++) {
+      const rows: LostRowLike[] = Array.from({ length: 40 + Math.floor(rng.uniform() * 200) }, (_, i) => {
+        const snr = 3 + 20 * rng.uniform();
+        return { position: i, firstFoundIn: 0, cells: [cell(true, snr, snr >= 10 ? 'quantifiable' : 'detectable'), cell(rng.uniform() < 0.3, null, 'not-found')] };
+      });
+      const cap = 1 + Math.floor(rng.uniform() * 60);
+      const { ringed, of } = lostFeatures(rows, cap);
+      const lost = rows.filter((r) => !r.cells[1].found);
+      expect(of).toBe(lost.length);
+      expect(ringed).toHaveLength(Math.min(cap, lost.length));
+      expect(ringed.map((r) => r.position)).toEqual([...ringed.map((r) => r.position)].sort((a, b) => a - b));
+      const weakestKept = Math.min(...ringed.map((r) => (r.cells[0].standing === 'quantifiable' ? 1e12 : 0) + r.cells[0].snr!));
+      for (const r of lost) if (!ringed.includes(r)) expect((r.cells[0].standing === 'quantifiable' ? 1e12 : 0) + r.cells[0].snr!).toBeLessThanOrEqual(weakestKept);
+    }
   });
 });
