@@ -17,7 +17,7 @@ import type { Peak } from '../core/measure/peak-types.ts';
 import type { Signal } from '../core/steps/types.ts';
 import { farOf } from '../worker/bridge.ts';
 import { sameView, type Drawn, type FarSeries, type View } from '../worker/series.ts';
-import { plotMarkers, tableTotals } from '../worker/peak-rank.ts';
+import { PLOT_MARKERS, plotMarkers, tableTotals } from '../worker/peak-rank.ts';
 import { getBackend } from '../state/service.ts';
 
 /** The main plotting area as last drawn: axis ranges and size in pixels (issue 17: label placement). */
@@ -356,7 +356,9 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       )}
       {belowMarkers.current && (
         <p className="small muted plot-label-note" data-testid="marker-note">
-          Markers on {belowMarkers.current.drawn} of the {belowMarkers.current.of.toLocaleString('en')} candidates below the detection limit (those with the highest S/N); the peak table and its CSV list every one.
+          {belowMarkers.current.drawn > 0
+            ? `Markers on ${belowMarkers.current.drawn} of the ${belowMarkers.current.of.toLocaleString('en')} candidates below the detection limit (those with the highest S/N); the peak table and its CSV list every one.`
+            : `No markers on the ${belowMarkers.current.of.toLocaleString('en')} candidates below the detection limit: the plot's ${PLOT_MARKERS} markers go to the highest S/N. The peak table and its CSV list every one.`}
         </p>
       )}
       {labelCount.current && (labelCount.current.shown < labelCount.current.of || labelCount.current.below > 0) && (

@@ -156,6 +156,19 @@ describe('TracePlot', () => {
     expect(text(html(TracePlot))).toContain(`Markers on ${PLOT_MARKERS_BELOW} of the 249 candidates below the detection limit (those with the highest S/N); the peak table and its CSV list every one.`);
   });
 
+  it('issue 16: when the higher S/N fill every marker, the note says none below the detection limit has one', async () => {
+    await loadDemoSample();
+    const r = useApp.getState().result!;
+    const base = r.peaks[0];
+    const peaks: Peak[] = Array.from({ length: PLOT_MARKERS + 25 }, (_, i) => {
+      const snr = i < PLOT_MARKERS ? 5 + i : 1;
+      return { ...base, index: i, x: 0.01 * i, snr, flag: snr >= 10 ? 'quantifiable' : snr >= 3 ? 'detectable' : 'below-detection', marks: [], origin: 'detected', removedByUser: false };
+    });
+    useApp.setState({ result: { ...r, peaks } });
+    expect(named(figure().data, 'below the detection limit (S/N < 3)')).toBeUndefined();
+    expect(text(html(TracePlot))).toContain(`No markers on the 25 candidates below the detection limit: the plot's ${PLOT_MARKERS} markers go to the highest S/N. The peak table and its CSV list every one.`);
+  });
+
   it('no note on markers while every candidate below the detection limit has one (the demo)', async () => {
     await loadDemoSample();
     expect(text(html(TracePlot))).not.toContain('candidates below the detection limit');
