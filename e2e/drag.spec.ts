@@ -1,9 +1,6 @@
 import { expect, test, type Page } from '@playwright/test';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { openWithDemo } from './helpers.ts';
-import { makeRng } from '../src/core/numeric/random.ts';
+import { rmSync } from 'node:fs';
+import { openWithDemo, writeNoisyCsv } from './helpers.ts';
 
 /** What identifies one peak table: its counts, the noise-bump sentence and its first rows. */
 async function settledTable(page: Page): Promise<string> {
@@ -32,18 +29,7 @@ async function setWindow(page: Page, value: number): Promise<void> {
 test('a drag of 10 slider steps on 10⁶ points ends with the table of the last value, and no earlier value’s table appears after it', async ({ page }) => {
   test.setTimeout(480_000);
   // Invented: three Gaussian peaks on 10⁶ points of seeded white noise (the project's generator), in a temporary CSV.
-  const n = 1_000_000;
-  const rng = makeRng(16);
-  const peaks = [[200_000, 30, 15], [500_000, 80, 25], [800_000, 12, 40]];
-  const lines = ['time (s),signal (mV)'];
-  for (let i = 0; i < n; i++) {
-    let v = rng.normal();
-    for (const [c, h, s] of peaks) { const d = (i - c) / s; if (d * d < 100) v += h * Math.exp(-0.5 * d * d); }
-    lines.push(`${(i * 0.001).toFixed(3)},${v.toFixed(3)}`);
-  }
-  const dir = mkdtempSync(join(tmpdir(), 'tracewright-e2e-drag-'));
-  const file = join(dir, 'drag-long.csv');
-  writeFileSync(file, `${lines.join('\n')}\n`);
+  const { file, dir } = writeNoisyCsv({ name: 'drag-long.csv', points: 1_000_000, seed: 16, peaks: [[200_000, 30, 15], [500_000, 80, 25], [800_000, 12, 40]] });
   try {
     await openWithDemo(page);
     await page.getByTestId('file-input').setInputFiles(file);

@@ -1,5 +1,8 @@
 import { expect, type Download, type Page } from '@playwright/test';
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { makeRng } from '../src/core/numeric/random.ts';
 
 export interface PlottedTrace { name: string; x: number[]; y: number[] }
 
@@ -125,4 +128,40 @@ export async function markRange(page: Page, a: number, b: number): Promise<void>
   await page.mouse.move(box.x + (px.a + px.b) / 2, box.y + px.y + 5, { steps: 4 });
   await page.mouse.move(box.x + px.b, box.y + px.y + 5, { steps: 4 });
   await page.mouse.up();
+}
+
+/** What {@link writeNoisyCsv} writes: Gaussian peaks [centre, height, σ] in samples on seeded white noise of SD 1. */
+export interface NoisyCsv {
+  name: string;
+  points: number;
+  seed: number;
+  peaks: readonly (readonly [number, number, number])[];
+  /** Header line; default 'time (s),signal (mV)'. */
+  header?: string;
+  /** x step and its decimals; default 0.001 and 3. */
+  dx?: number;
+  xDigits?: number;
+  /** Added to sample i (one-point spikes, say). */
+  extra?: (i: number) => number;
+}
+
+/**
+ * An invented long trace in a temporary CSV (the project's seeded generator, so every run writes the same
+ * file): noise, then each peak within 10 σ of its centre, then `extra`, y to 3 decimals. Returns the file and
+ * its folder (remove the folder when done).
+ */
+export function writeNoisyCsv(o: NoisyCsv): { file: string; dir: string } {
+  const rng = makeRng(o.seed);
+  const dx = o.dx ?? 0.001, xDigits = o.xDigits ?? 3;
+  const lines = [o.header ?? 'time (s),signal (mV)'];
+  for (let i = 0; i < o.points; i++) {
+    let v = rng.normal();
+    for (const [c, h, s] of o.peaks) { const d = (i - c) / s; if (d * d < 100) v += h * Math.exp(-0.5 * d * d); }
+    if (o.extra) v += o.extra(i);
+    lines.push(`${(i * dx).toFixed(xDigits)},${v.toFixed(3)}`);
+  }
+  const dir = mkdtempSync(join(tmpdir(), 'tracewright-e2e-'));
+  const file = join(dir, o.name);
+  writeFileSync(file, `${lines.join('\n')}\n`);
+  return { file, dir };
 }

@@ -1,9 +1,6 @@
 import { expect, test } from '@playwright/test';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { addStep, download, openWithDemo, plotted, settled, trace } from './helpers.ts';
-import { makeRng } from '../src/core/numeric/random.ts';
+import { rmSync } from 'node:fs';
+import { addStep, download, openWithDemo, plotted, settled, trace, writeNoisyCsv } from './helpers.ts';
 
 // Issue 16, "the page takes in little": a 10⁶-point trace is drawn from the worker's min/max drawing (about four
 // points per pixel column), one-point spikes stay visible, a zoom draws the stretch in view anew at full detail,
@@ -11,18 +8,8 @@ import { makeRng } from '../src/core/numeric/random.ts';
 test('10⁶ points: drawn at about four points per pixel column, spikes kept, zoom redraws, export whole', async ({ page }) => {
   test.setTimeout(300_000);
   const n = 1_000_000;
-  const rng = makeRng(7);
   const spikes = new Map([[123_457, 60], [654_321, -45], [900_001, 80]]);
-  const lines = ['time (s),signal (mV)'];
-  for (let i = 0; i < n; i++) {
-    const d = (i - 500_000) / 300;
-    let v = rng.normal() + 25 * Math.exp(-0.5 * d * d);
-    v += spikes.get(i) ?? 0;
-    lines.push(`${(i * 0.001).toFixed(3)},${v.toFixed(3)}`);
-  }
-  const dir = mkdtempSync(join(tmpdir(), 'tracewright-e2e-long-'));
-  const file = join(dir, 'long-spikes.csv');
-  writeFileSync(file, `${lines.join('\n')}\n`);
+  const { file, dir } = writeNoisyCsv({ name: 'long-spikes.csv', points: n, seed: 7, peaks: [[500_000, 25, 300]], extra: (i) => spikes.get(i) ?? 0 });
   const shots = process.env.TRACEWRIGHT_SHOTS;
   try {
     await page.setViewportSize({ width: 1280, height: 900 });

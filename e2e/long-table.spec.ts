@@ -1,9 +1,6 @@
 import { expect, test, type Locator, type Page } from '@playwright/test';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { addStep, openWithDemo, settled } from './helpers.ts';
-import { makeRng } from '../src/core/numeric/random.ts';
+import { rmSync } from 'node:fs';
+import { addStep, openWithDemo, settled, writeNoisyCsv } from './helpers.ts';
 
 // Issue 16, "the page draws little": on a long noisy trace the peak table (up to 500 rows) and the loss ledger
 // (up to 300) draw only the rows in or near their scrolled box; spacer rows keep the scrollbar honest, and
@@ -59,18 +56,10 @@ test('10⁵ noisy points: the peak table and the ledger draw only the rows near 
   test.setTimeout(240_000);
   // Invented: eight Gaussian peaks on 10⁵ points of seeded white noise (the project's generator); the noise gives
   // some three hundred candidates below the detection limit (kept and marked), so the table is long.
-  const n = 100_000;
-  const rng = makeRng(1616);
-  const peaks = Array.from({ length: 8 }, (_, k) => [10_000 + 11_000 * k, 8 + 6 * k, 20 + 5 * k]);
-  const lines = ['time (min),signal (mAU)'];
-  for (let i = 0; i < n; i++) {
-    let v = rng.normal();
-    for (const [c, h, s] of peaks) { const d = (i - c) / s; if (d * d < 100) v += h * Math.exp(-0.5 * d * d); }
-    lines.push(`${(i * 0.0001).toFixed(4)},${v.toFixed(3)}`);
-  }
-  const dir = mkdtempSync(join(tmpdir(), 'tracewright-e2e-table-'));
-  const file = join(dir, 'long-table.csv');
-  writeFileSync(file, `${lines.join('\n')}\n`);
+  const { file, dir } = writeNoisyCsv({
+    name: 'long-table.csv', points: 100_000, seed: 1616, header: 'time (min),signal (mAU)', dx: 0.0001, xDigits: 4,
+    peaks: Array.from({ length: 8 }, (_, k) => [10_000 + 11_000 * k, 8 + 6 * k, 20 + 5 * k] as const),
+  });
   const shots = process.env.TRACEWRIGHT_SHOTS;
   try {
     await page.setViewportSize({ width: 1280, height: 900 });

@@ -1,9 +1,6 @@
 import { expect, test } from '@playwright/test';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { openWithDemo, plotted } from './helpers.ts';
-import { makeRng } from '../src/core/numeric/random.ts';
+import { readFileSync, rmSync } from 'node:fs';
+import { openWithDemo, plotted, writeNoisyCsv } from './helpers.ts';
 
 const truth = JSON.parse(readFileSync('public/demo/demo-truth.json', 'utf8'));
 
@@ -35,18 +32,8 @@ test('with 10⁶ noisy points the peak table shows the real peaks first, and say
   test.setTimeout(240_000);
   // Invented: four Gaussian peaks (S/N 20 to 200) on 10⁶ points of seeded white noise (the project's generator),
   // written to a temporary CSV.
-  const n = 1_000_000;
-  const rng = makeRng(20261202);
-  const peaks = [[150_000, 20, 12], [400_000, 50, 20], [650_000, 200, 8], [900_000, 35, 30]];
-  const lines = ['time (s),signal (mV)'];
-  for (let i = 0; i < n; i++) {
-    let v = rng.normal();
-    for (const [c, h, s] of peaks) { const d = (i - c) / s; if (d * d < 100) v += h * Math.exp(-0.5 * d * d); }
-    lines.push(`${(i * 0.001).toFixed(3)},${v.toFixed(3)}`);
-  }
-  const dir = mkdtempSync(join(tmpdir(), 'tracewright-e2e-'));
-  const file = join(dir, 'long-noisy.csv');
-  writeFileSync(file, `${lines.join('\n')}\n`);
+  const peaks = [[150_000, 20, 12], [400_000, 50, 20], [650_000, 200, 8], [900_000, 35, 30]] as const;
+  const { file, dir } = writeNoisyCsv({ name: 'long-noisy.csv', points: 1_000_000, seed: 20261202, peaks });
   try {
     await openWithDemo(page);
     await page.getByTestId('file-input').setInputFiles(file);
