@@ -1,21 +1,14 @@
 import { beforeEach, describe, expect, it } from 'vitest';
-import { emptyRecipe, makeRecipeStep } from '../../src/core/method.ts';
-import { stepDefinition } from '../../src/core/steps/registry.ts';
 import { currentResult } from '../../src/state/selectors.ts';
 import { useApp } from '../../src/state/store.ts';
 import { num } from '../../src/ui/format.ts';
 import { FocusedFeature } from '../../src/ui/FocusedFeature.tsx';
-import { analyseNow, html, loadDemoSample, press, resetStore, text, tree } from './harness.ts';
+import { html, loadDemoSample, loadDemoSmoothed, press, resetStore, text, tree } from './harness.ts';
 
 // src/ui/FocusedFeature.tsx: the clicked feature under the raw trace and each
 // choice, side by side. A 51-point moving average over the demo's sharp
 // 1.2 min peak (FWHM 0.047 min = about 5 points, demo-truth.json) must weaken it.
 beforeEach(() => resetStore());
-async function smoothed(window: number) {
-  await loadDemoSample();
-  useApp.setState({ recipe: { ...emptyRecipe(), steps: [makeRecipeStep(stepDefinition('moving-average')!, { window })] } });
-  await analyseNow();
-}
 
 describe('FocusedFeature', () => {
   it('nothing selected: nothing shown', async () => {
@@ -28,7 +21,7 @@ describe('FocusedFeature', () => {
     expect(text(html(FocusedFeature))).toContain('Selected: the feature at 4.3 min. Add a step or an alternative');
   });
   it('a narrow peak under a wide average: raw is the reference, the average weakens it, with S/N and the height change against raw', async () => {
-    await smoothed(51);
+    await loadDemoSmoothed(51);
     const row = currentResult(useApp.getState())!.loss!.ledger.rows.find((r) => Math.abs(r.position - 1.2) < 0.05)!;
     useApp.getState().selectPeak(row.position);
     const h = html(FocusedFeature);
@@ -45,13 +38,13 @@ describe('FocusedFeature', () => {
     }
   });
   it('close clears the selection', async () => {
-    await smoothed(5);
+    await loadDemoSmoothed(5);
     useApp.getState().selectPeak(4.3);
     press(tree(FocusedFeature), 'close');
     expect(useApp.getState().selectedPeakX).toBeNull();
   });
   it('a place with no feature: says it is below the detection limit everywhere and offers the noise-level rows', async () => {
-    await smoothed(5);
+    await loadDemoSmoothed(5);
     useApp.getState().selectPeak(3.5);
     expect(text(html(FocusedFeature))).toContain('The feature at 3.5 min is not in the comparison: it is below the detection limit in every column.');
     press(tree(FocusedFeature), 'List noise-level features too');

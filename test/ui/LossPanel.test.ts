@@ -19,7 +19,7 @@ import { useApp } from '../../src/state/store.ts';
 import { num } from '../../src/ui/format.ts';
 import { LossPanel } from '../../src/ui/LossPanel.tsx';
 import { PRESETS } from '../../src/ui/alternatives.ts';
-import { analyseNow, button, elements, html, loadDemoSample, press, resetStore, text, textOf, tree, withAllRows } from './harness.ts';
+import { analyseNow, button, elements, html, loadDemoSample, loadDemoSmoothed, press, resetStore, text, textOf, tree, withAllRows } from './harness.ts';
 
 vi.mock('plotly.js-strict-dist-min', () => ({ default: {} }));
 beforeEach(() => resetStore());
@@ -28,13 +28,6 @@ beforeEach(() => resetStore());
 const ledgerRows = (t: ReactNode) => elements(withAllRows(t)).filter((e) => e.type === 'tr' && /^Feature at /.test(String(e.props['aria-label'] ?? '')))
   .map((r) => ({ label: String(r.props['aria-label']), text: textOf(r), cells: elements(r.props.children).filter((e) => e.type === 'td').map(textOf) }));
 
-/** The demo sample under a moving average `window` points wide (the current stack). */
-async function smoothed(window: number): Promise<void> {
-  await loadDemoSample();
-  useApp.getState().addStep('moving-average');
-  useApp.getState().setParam(useApp.getState().recipe.steps[0].uid, 'window', window);
-  await analyseNow();
-}
 
 describe('LossPanel', () => {
   it('nothing to compare: says how to get a comparison, and no ledger', async () => {
@@ -45,7 +38,7 @@ describe('LossPanel', () => {
   });
 
   it('a 41-point moving average (8.7 × the 0.047-min peak’s width) loses the sharp peak at 1.2 min, and the panel says so in words', async () => {
-    await smoothed(41);
+    await loadDemoSmoothed(41);
     const loss = useApp.getState().result!.loss!;
     const t = text(html(LossPanel));
     expect(t).toContain(`The current stack loses or weakens ${loss.currentWarnings.length} features:`);
@@ -58,7 +51,7 @@ describe('LossPanel', () => {
   });
 
   it('the ledger: one row per feature, each column’s standing in words, height kept as the ledger measured it', async () => {
-    await smoothed(41);
+    await loadDemoSmoothed(41);
     const loss = useApp.getState().result!.loss!;
     const shown = ledgerRows(tree(LossPanel));
     expect(shown).toHaveLength(loss.ledger.rows.length);
@@ -87,7 +80,7 @@ describe('LossPanel', () => {
   });
 
   it('window advice: the height kept follows from the window and the narrowest peak’s width (mean of a Gaussian over the window)', async () => {
-    await smoothed(41);
+    await loadDemoSmoothed(41);
     const t = text(html(LossPanel));
     const w = Number(/Narrowest quantifiable peak: half-height width ([\d.]+) points on the raw trace\./.exec(t)![1]);
     const m = /Moving average: window = ([\d.]+) × that width; a Gaussian that narrow keeps ([\d.]+) % of its height\./.exec(t)!;
@@ -100,7 +93,7 @@ describe('LossPanel', () => {
   });
 
   it('noise-level features: left out and counted until the box is ticked, then listed as rows', async () => {
-    await smoothed(41);
+    await loadDemoSmoothed(41);
     const before = useApp.getState().result!.loss!;
     expect(before.noiseLevelRows).toBeGreaterThan(0);
     const n = before.noiseLevelRows;
@@ -121,7 +114,7 @@ describe('LossPanel', () => {
   });
 
   it('a ledger longer than DISPLAY_CAPS.ledgerRows: rows that cross a limit first, in position order, and “Showing N of M rows”', async () => {
-    await smoothed(41);
+    await loadDemoSmoothed(41);
     const r = useApp.getState().result!;
     const proto = r.loss!.ledger.rows[0];
     const M = DISPLAY_CAPS.ledgerRows + 100;

@@ -23,7 +23,7 @@ import { useApp } from '../../src/state/store.ts';
 import { PLOT_MARKERS, PLOT_MARKERS_BELOW } from '../../src/worker/peak-rank.ts';
 import { PlotlyFigure } from '../../src/ui/PlotlyFigure.tsx';
 import { TracePlot } from '../../src/ui/TracePlot.tsx';
-import { analyseNow, elements, html, loadDemoSample, resetStore, text, tree } from './harness.ts';
+import { elements, html, loadDemoSample, loadDemoSmoothed, resetStore, text, tree } from './harness.ts';
 
 vi.mock('plotly.js-strict-dist-min', () => ({ default: {} }));
 beforeEach(() => resetStore());
@@ -37,12 +37,6 @@ function figure() {
 const named = (data: PlotData[], name: string) => data.find((t) => t.name === name);
 const arr = (v: unknown) => Array.from(v as ArrayLike<number>);
 
-async function smoothed(window: number): Promise<void> {
-  await loadDemoSample();
-  useApp.getState().addStep('moving-average');
-  useApp.getState().setParam(useApp.getState().recipe.steps[0].uid, 'window', window);
-  await analyseNow();
-}
 
 describe('TracePlot', () => {
   it('nothing loaded: says how to load a trace, no figure', () => {
@@ -51,7 +45,7 @@ describe('TracePlot', () => {
   });
 
   it('curves named raw, processed and residual (raw − processed); the residual is raw minus processed, on the lower axis', async () => {
-    await smoothed(5);
+    await loadDemoSmoothed(5);
     const s = useApp.getState();
     const sample = s.traces.find((t) => t.id === s.sampleId)!;
     const { data } = figure();
@@ -70,7 +64,7 @@ describe('TracePlot', () => {
   });
 
   it('the raw curve can be hidden (the processed one stays)', async () => {
-    await smoothed(5);
+    await loadDemoSmoothed(5);
     useApp.setState({ showRaw: false });
     const { data } = figure();
     expect(named(data, 'raw')).toBeUndefined();
@@ -175,7 +169,7 @@ describe('TracePlot', () => {
   });
 
   it('a 41-point average: the lost sharp peak at 1.2 min is ringed as lost', async () => {
-    await smoothed(41);
+    await loadDemoSmoothed(41);
     const { data } = figure();
     const lost = named(data, 'features lost by some choice')!;
     expect(arr(lost.x).some((x) => Math.abs(x - 1.2) < 0.01)).toBe(true); // demo-truth.json: the 0.047-min peak at 1.2 min
@@ -183,7 +177,7 @@ describe('TracePlot', () => {
   });
 
   it('a 3-point average: features at or above the detection limit that only the processed trace has are ringed apart; those below are not', async () => {
-    await smoothed(3);
+    await loadDemoSmoothed(3);
     const { data } = figure();
     const marked = useApp.getState().result!.peaks.filter((p) => p.marks.includes('appears-only-after-processing'));
     const born = marked.filter((p) => p.flag !== 'below-detection');

@@ -35,6 +35,14 @@ export async function loadDemoSample(opts: { blank?: boolean } = {}): Promise<vo
   await analyseNow();
 }
 
+/** The demo sample under a moving average `window` points wide (the only step of the stack), analysed. */
+export async function loadDemoSmoothed(window: number): Promise<void> {
+  await loadDemoSample();
+  useApp.getState().addStep('moving-average');
+  useApp.getState().setParam(useApp.getState().recipe.steps[0].uid, 'window', window);
+  await analyseNow();
+}
+
 /** Analyse the current sample with the store's settings and put the result in the store. */
 export async function analyseNow(): Promise<void> {
   const s = useApp.getState();
