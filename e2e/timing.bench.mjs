@@ -220,6 +220,11 @@ async function moveSlider({ value, timeoutMs }) {
   const before = Object.fromEntries(Object.entries(targets).map(([name, [sel, attr]]) => [name, w.__seq(sel, attr)]));
   const tasksBefore = w.__longTasks.length;
   const got = {};
+  // Issue 16: how the figure was drawn each time during the move ("lines": only changed lines replaced in place; "whole").
+  const fig = document.querySelector('[data-testid="figure"]');
+  const drawings = [];
+  const drawnMo = new MutationObserver((records) => { for (const r of records) drawings.push(`${r.target.getAttribute('data-drawn-as') ?? '?'}${r.target.getAttribute('data-drawn-why') ? ` (${r.target.getAttribute('data-drawn-why')})` : ''}`); });
+  if (fig) drawnMo.observe(fig, { attributes: true, attributeFilter: ['data-drawn'] });
   const t0 = performance.now();
   const setter = Object.getOwnPropertyDescriptor(HTMLInputElement.prototype, 'value').set;
   setter.call(el, String(value));
@@ -237,8 +242,9 @@ async function moveSlider({ value, timeoutMs }) {
     };
     requestAnimationFrame(tick);
   });
+  drawnMo.disconnect();
   const tasks = w.__longTasks.slice(tasksBefore).filter((t) => t.start + t.duration >= t0);
-  return { ...got, longest: tasks.reduce((m, t) => Math.max(m, t.duration), 0), seqBefore: before.peaks, seqAfter: w.__seq(...targets.peaks) };
+  return { ...got, drawings, longest: tasks.reduce((m, t) => Math.max(m, t.duration), 0), seqBefore: before.peaks, seqAfter: w.__seq(...targets.peaks) };
 }
 
 // ---------------------------------------------------------------------------
@@ -373,7 +379,7 @@ async function main() {
       const m = await page.evaluate(moveSlider, { value, timeoutMs: 300_000 });
       if (tracing) { await browser.stopTracing(); console.log(`  trace of this move written to ${o.trace}`); }
       moves.push(m);
-      console.log(`  move to ${value} points (idle after ${idle.toFixed(0)} ms): processed ${m.processed.toFixed(0)} ms, peaks ${m.peaks.toFixed(0)} ms, loss ${m.loss.toFixed(0)} ms, longest task ${m.longest.toFixed(0)} ms${m.seqAfter - m.seqBefore !== 1 ? ` (${m.seqAfter - m.seqBefore} results arrived)` : ''}`);
+      console.log(`  move to ${value} points (idle after ${idle.toFixed(0)} ms): processed ${m.processed.toFixed(0)} ms, peaks ${m.peaks.toFixed(0)} ms, loss ${m.loss.toFixed(0)} ms, longest task ${m.longest.toFixed(0)} ms, figure drawn ${m.drawings.join(' + ') || 'never'}${m.seqAfter - m.seqBefore !== 1 ? ` (${m.seqAfter - m.seqBefore} results arrived)` : ''}`);
       if (workerProfiling && k === 0) {
         // The analysis worker is the one whose profile holds the most functions (the load worker sits idle).
         const profiles = [];

@@ -2,6 +2,7 @@ import { useEffect, useMemo, useRef, useState } from 'react';
 import Plotly, { type PlotData, type PlotLayout, type PlotlyHTMLElement } from 'plotly.js-strict-dist-min';
 import { plotConfig } from './plot-config.ts';
 import { guardFigure, toDataUnits, type AxisTransform } from './plot-guard.ts';
+import { figureUpdate, pointsOf, type LiveFigure } from './plot-update.ts';
 import { themedData, themedLayout, useDarkScheme } from './theme.ts';
 
 export interface FigureEvents {
@@ -55,6 +56,10 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
   const [failure, setFailure] = useState<string | null>(null);
   /** Bumped by "Draw again" to run the drawing once more with the same data. */
   const [attempt, setAttempt] = useState(0);
+  /** What the library last drew (issue 16: only traces whose points changed are drawn again when nothing else did), and under which options. */
+  const last = useRef<{ data: PlotData[]; layout: PlotLayout; options: string } | null>(null);
+  /** Drawings run one after another: an update in place settles a frame later, and no later drawing may overtake it. */
+  const queue = useRef<Promise<unknown>>(Promise.resolve());
 
   useEffect(() => {
     const el = ref.current;
@@ -69,21 +74,53 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
       setFailure(message);
       drawn.current?.(message);
     };
-    try {
-      Plotly.react(el, guarded.data, guarded.layout, dragShapes ? { ...plotConfig(pictureName), edits: { shapePosition: true } } : plotConfig(pictureName))
+    const draw = () => {
+      if (cancelled) return; // a newer drawing is queued behind this one
+      const options = `${pictureName}|${attempt}|${dragShapes ? 1 : 0}`;
+      // Issue 16: when only traces' points changed and no range can move, those traces are replaced in place
+      // (plot-update.ts); anything else is drawn whole.
+      const update = bound.current && last.current?.options === options ? figureUpdate(last.current, guarded, liveFigure(el)) : null;
+      // Copies: the library writes into what it is given (a trace's uid, the ranges it found, a trace hidden from the key).
+      last.current = { data: guarded.data.map((t) => ({ ...t })), layout: structuredClone(guarded.layout), options };
+      // Marks the figure drawn once (timing scripts and e2e specs wait for data-drawn), then tells the caller.
+      let marked = false;
+      const markDrawn = () => {
+        if (marked || cancelled) return;
+        marked = true;
+        if (drawnTag !== undefined) el.setAttribute('data-drawn', drawnTag);
+        // Read by e2e/figure-update.spec.ts and e2e/timing.bench.mjs: how it was drawn, and why whole.
+        el.setAttribute('data-drawn-as', update?.kind === 'in-place' ? 'in place' : 'whole');
+        el.setAttribute('data-drawn-why', update === null ? 'first drawing' : update.kind === 'whole' ? update.why : '');
+        setFailure(null);
+        drawn.current?.(null);
+      };
+      let drawing: Promise<PlotlyHTMLElement>;
+      if (update?.kind === 'in-place' && update.traces.length) {
+        // The library's animation step with no transition and no redraw: the traces' points replaced, only those traces
+        // drawn again, the axes left as they are. It draws in the microtasks after its "transitioning" event and
+        // settles a frame later; the figure counts as drawn when the drawing is done.
+        const gd = el as PlotlyHTMLElement;
+        const onDrawing = () => { gd.removeListener?.('plotly_transitioning', onDrawing); queueMicrotask(markDrawn); };
+        gd.on('plotly_transitioning', onDrawing);
+        drawing = Plotly.animate(el, { data: update.traces.map((i) => pointsOf(guarded.data[i])), traces: update.traces }, { mode: 'immediate', transition: { duration: 0 }, frame: { duration: 0, redraw: false } })
+          .finally(() => gd.removeListener?.('plotly_transitioning', onDrawing));
+      } else if (update?.kind === 'in-place') {
+        drawing = Promise.resolve(el as PlotlyHTMLElement);
+      } else {
+        drawing = Plotly.react(el, guarded.data, guarded.layout, dragShapes ? { ...plotConfig(pictureName), edits: { shapePosition: true } } : plotConfig(pictureName));
+      }
+      return drawing
         .then((gd) => {
-          if (cancelled) return;
-          if (drawnTag !== undefined) el.setAttribute('data-drawn', drawnTag);
-          setFailure(null);
-          drawn.current?.(null);
-          if (bound.current) return;
+          markDrawn();
+          if (cancelled || bound.current) return;
           bound.current = true;
           bindEvents(gd, handlers, transforms);
         })
-        .catch(fail);
-    } catch (e) {
-      fail(e);
-    }
+        .catch((e: unknown) => { last.current = null; fail(e); });
+    };
+    queue.current = queue.current.then(() => {
+      try { return draw(); } catch (e) { last.current = null; fail(e); return undefined; }
+    });
     return () => { cancelled = true; };
   }, [guarded, pictureName, attempt, drawnTag, dragShapes]);
 
@@ -113,6 +150,23 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
       )}
     </>
   );
+}
+
+/** What the drawn figure says now (plot-update.ts): traces the user hid with the key, axes the user let the library range. */
+function liveFigure(el: HTMLElement): LiveFigure {
+  type Axis = { autorange?: unknown; range?: unknown; _length?: unknown; type?: unknown };
+  const gd = el as PlotlyHTMLElement & { _fullData?: { visible?: unknown }[]; _fullLayout?: Record<string, Axis | undefined> };
+  return {
+    shown: (i) => gd._fullData?.[i]?.visible === true,
+    autoRanged: (key) => gd._fullLayout?.[key]?.autorange === true,
+    scale: (key) => {
+      const ax = gd._fullLayout?.[key];
+      const r = ax?.range, len = ax?._length;
+      if (!ax || (ax.type !== undefined && ax.type !== 'linear') || !Array.isArray(r) || typeof len !== 'number' || !(len > 0)) return null;
+      const u = Math.abs(Number(r[1]) - Number(r[0])) / len;
+      return Number.isFinite(u) ? { unitsPerPixel: u, lengthPx: len } : null;
+    },
+  };
 }
 
 function bindEvents(gd: PlotlyHTMLElement, handlers: { current: FigureEvents }, transforms: { current: Record<string, AxisTransform> }) {

@@ -18,6 +18,7 @@ import type { Signal } from '../core/steps/types.ts';
 import { farOf } from '../worker/bridge.ts';
 import { sameView, type Drawn, type FarSeries, type View } from '../worker/series.ts';
 import { PLOT_MARKERS, plotMarkers, tableTotals } from '../worker/peak-rank.ts';
+import { RESIDUAL_RANGE, steadyRange, TRACE_RANGE } from './plot-update.ts';
 import { getBackend } from '../state/service.ts';
 
 /** The main plotting area as last drawn: axis ranges and size in pixels (issue 17: label placement). */
@@ -265,6 +266,28 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
     return y ? { y, y2: visibleYRange(data, xRange[0], xRange[1], 'y2') } : null;
   }, [data, xRange, yFits]);
 
+  // Issue 16: over the whole trace, x spans exactly the trace (the library's own range would widen it by 5 % whenever a
+  // marker sits near an end, so markers that move could move it), and figures can be updated in place (plot-update.ts).
+  const xSpan = useMemo<[number, number] | null>(() => {
+    if (!sample) return null;
+    let lo = Infinity, hi = -Infinity;
+    for (let i = 0; i < sample.x.length; i++) { const v = sample.x[i]; if (v < lo) lo = v; if (v > hi) hi = v; }
+    return hi > lo ? [lo, hi] : null;
+  }, [sample]);
+
+  // Issue 16: both panels keep their range while the data stay about where they were (plot-update.ts), so a slider
+  // move redraws only the traces that changed, not the whole figure. A new trace starts afresh.
+  const heldRanges = useRef<{ trace: string; y: [number, number] | null; y2: [number, number] | null }>({ trace: '', y: null, y2: null });
+  const steadyY = useMemo(() => {
+    const id = sample?.id ?? '';
+    const held = heldRanges.current.trace === id ? heldRanges.current : { trace: id, y: null, y2: null };
+    const keep = (r: [number, number] | null, old: [number, number] | null) => (r && old && r[0] === old[0] && r[1] === old[1] ? old : r);
+    const y = keep(steadyRange(data.filter((t) => (t.yaxis ?? 'y') === 'y').map((t) => t.y), held.y, TRACE_RANGE), held.y);
+    const y2 = keep(steadyRange(data.filter((t) => t.yaxis === 'y2').map((t) => t.y), held.y2, RESIDUAL_RANGE), held.y2);
+    heldRanges.current = { trace: id, y, y2 };
+    return { y, y2 };
+  }, [data, sample]);
+
   const layout = useMemo<PlotLayout>(() => {
     const xTitle = sample ? axisLabel(sample.xName, sample.xUnit) : 'x';
     const yTitle = sample ? axisLabel(sample.yName, sample.yUnit) : 'y';
@@ -298,17 +321,17 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       dragmode: markMode ? 'select' : 'zoom',
       selectdirection: 'h',
       hovermode: 'closest',
-      xaxis: { title: { text: xTitle }, anchor: 'y2', range: xRange ?? undefined, autorange: xRange ? false : true, gridcolor: COLOURS.grid, zeroline: false },
+      xaxis: { title: { text: xTitle }, anchor: 'y2', ...(xRange ?? xSpan ? { range: xRange ?? xSpan ?? undefined, autorange: false } : { autorange: true }), gridcolor: COLOURS.grid, zeroline: false },
       // Issue 17: zoomed in x, y fits the data in view (unless the user keeps y where they put it).
-      yaxis: { title: { text: yTitle }, domain: [0.3, 1], gridcolor: COLOURS.grid, zeroline: false, ...(yView ? { range: yView.y, autorange: false } : { autorange: true }) },
-      yaxis2: { title: { text: sample?.yUnit ? `residual (${sample.yUnit})` : 'residual' }, domain: [0, 0.22], gridcolor: COLOURS.grid, zeroline: true, zerolinecolor: '#b0b6bd', ...(yView?.y2 ? { range: yView.y2, autorange: false } : { autorange: true }) },
+      yaxis: { title: { text: yTitle }, domain: [0.3, 1], gridcolor: COLOURS.grid, zeroline: false, ...(yView ? { range: yView.y, autorange: false } : steadyY.y ? { range: steadyY.y, autorange: false } : { autorange: true }) },
+      yaxis2: { title: { text: sample?.yUnit ? `residual (${sample.yUnit})` : 'residual' }, domain: [0, 0.22], gridcolor: COLOURS.grid, zeroline: true, zerolinecolor: '#b0b6bd', ...(yView?.y2 ? { range: yView.y2, autorange: false } : steadyY.y2 ? { range: steadyY.y2, autorange: false } : { autorange: true }) },
       shapes,
       uirevision: sample?.id ?? 'none',
       paper_bgcolor: '#ffffff',
       plot_bgcolor: '#ffffff',
       font: { family: 'system-ui, sans-serif', size: 12, color: COLOURS.ink },
     };
-  }, [sample, xRange, markMode, marked, selectedX, result, yView, excluded]);
+  }, [sample, xRange, markMode, marked, selectedX, result, yView, excluded, steadyY, xSpan]);
 
   const onXRange = useCallback((r: [number, number] | null) => setXRange(r), [setXRange]);
   const onShapeX = useCallback((index: number, x0: number) => {

@@ -115,6 +115,7 @@ declare module 'plotly.js-strict-dist-min' {
   export interface PlotlyHTMLElement extends HTMLDivElement {
     on(event: 'plotly_relayout' | 'plotly_click' | 'plotly_selected' | string, handler: (ev: unknown) => void): void;
     removeAllListeners?(event: string): void;
+    removeListener?(event: string, handler: (ev: unknown) => void): void;
     _fullLayout?: Record<string, unknown>;
   }
   const Plotly: {
@@ -124,6 +125,12 @@ declare module 'plotly.js-strict-dist-min' {
     toImage(el: HTMLElement, opts: { format: 'png' | 'svg'; width?: number; height?: number; scale?: number }): Promise<string>;
     downloadImage(el: HTMLElement, opts: { format: 'png' | 'svg'; filename?: string; width?: number; height?: number }): Promise<string>;
     Plots: { resize(el: HTMLElement): void };
+    /** Issue 16: replaces traces' data in place; with no transition and no redraw, only those traces are drawn again (plot-update.ts). */
+    animate(
+      el: HTMLElement,
+      frame: { data: Partial<PlotData>[]; traces: number[] },
+      options: { mode?: 'immediate' | 'next' | 'afterall'; transition?: { duration: number }; frame?: { duration: number; redraw: boolean } },
+    ): Promise<PlotlyHTMLElement>;
   };
   export default Plotly;
 }
