@@ -79,7 +79,8 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
       const options = `${pictureName}|${attempt}|${dragShapes ? 1 : 0}`;
       // Issue 16: when only traces' points changed and no range can move, those traces are replaced in place
       // (plot-update.ts); anything else is drawn whole.
-      const update = bound.current && last.current?.options === options ? figureUpdate(last.current, guarded, liveFigure(el)) : null;
+      let update = bound.current && last.current?.options === options ? figureUpdate(last.current, guarded, liveFigure(el)) : null;
+      const config = dragShapes ? { ...plotConfig(pictureName), edits: { shapePosition: true } } : plotConfig(pictureName);
       // Copies: the library writes into what it is given (a trace's uid, the ranges it found, a trace hidden from the key).
       last.current = { data: guarded.data.map((t) => ({ ...t })), layout: structuredClone(guarded.layout), options };
       // Marks the figure drawn once (timing scripts and e2e specs wait for data-drawn), then tells the caller.
@@ -103,11 +104,17 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
         const onDrawing = () => { gd.removeListener?.('plotly_transitioning', onDrawing); queueMicrotask(markDrawn); };
         gd.on('plotly_transitioning', onDrawing);
         drawing = Plotly.animate(el, { data: update.traces.map((i) => pointsOf(guarded.data[i])), traces: update.traces }, { mode: 'immediate', transition: { duration: 0 }, frame: { duration: 0, redraw: false } })
-          .finally(() => gd.removeListener?.('plotly_transitioning', onDrawing));
+          .finally(() => gd.removeListener?.('plotly_transitioning', onDrawing))
+          // An update the library broke off (another drawing of the element interrupted it) is drawn whole instead.
+          .catch(() => {
+            if (cancelled) return gd;
+            update = { kind: 'whole', why: 'an update in place was interrupted' };
+            return Plotly.react(el, guarded.data, guarded.layout, config);
+          });
       } else if (update?.kind === 'in-place') {
         drawing = Promise.resolve(el as PlotlyHTMLElement);
       } else {
-        drawing = Plotly.react(el, guarded.data, guarded.layout, dragShapes ? { ...plotConfig(pictureName), edits: { shapePosition: true } } : plotConfig(pictureName));
+        drawing = Plotly.react(el, guarded.data, guarded.layout, config);
       }
       return drawing
         .then((gd) => {
