@@ -237,7 +237,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
             x: lx, y: ly,
             text: lost.map((r) => `lost with: ${r.cells.map((c, k) => (c.found || k < r.firstFoundIn ? null : result.loss!.ledger.alternatives[k].label)).filter(Boolean).join(', ')}`),
             hoverinfo: 'x+text',
-            marker: { symbol: 'circle-open', size: 22, color: '#c0392b', line: { width: 2.5, color: '#c0392b' } },
+            marker: { symbol: 'circle-open', size: 22, color: COLOURS.lost, line: { width: 2.5, color: COLOURS.lost } },
             xaxis: 'x', yaxis: 'y',
           });
         }

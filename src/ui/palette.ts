@@ -13,6 +13,8 @@ export const COLOURS = {
   intermediate: '#56B4E9',
   ink: '#1d232b',
   grid: '#e4e7eb',
+  /** Rings on features some choice loses: the residual's vermillion, as open rings on the trace panel (the residual is a line on its own panel). */
+  lost: '#D55E00',
 } as const;
 
 /** Alternatives (loss check) get these in order. */

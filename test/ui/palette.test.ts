@@ -32,13 +32,13 @@ describe('COLOURS', () => {
     expect(contrast(DARK.ink, DARK.paper)).toBeGreaterThanOrEqual(4.5);
   });
   it('the main lines (processed, residual, peak marks) stand out from white at 3:1, WCAG 2.1 SC 1.4.11 for graphical objects', () => {
-    for (const c of [COLOURS.processed, COLOURS.residual, COLOURS.peak]) expect(contrast(c, '#ffffff')).toBeGreaterThanOrEqual(3);
+    for (const c of [COLOURS.processed, COLOURS.residual, COLOURS.peak, COLOURS.lost]) expect(contrast(c, '#ffffff')).toBeGreaterThanOrEqual(3);
   });
   it('the grid stays faint: under 1.5:1 against white, so it never competes with a trace', () => {
     expect(contrast(COLOURS.grid, '#ffffff')).toBeLessThan(1.5);
   });
   it('every coloured series is an Okabe–Ito colour; raw is a neutral grey (equal channels)', () => {
-    for (const k of ['processed', 'residual', 'baseline', 'spike', 'peak', 'intermediate'] as const) {
+    for (const k of ['processed', 'residual', 'baseline', 'spike', 'peak', 'intermediate', 'lost'] as const) {
       expect(OKABE_ITO).toContain(COLOURS[k].toUpperCase());
     }
     const raw = COLOURS.raw.slice(1);
