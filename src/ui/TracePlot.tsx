@@ -11,7 +11,7 @@ import { MARK_TEXT } from '../core/export/peak-csv.ts';
 import { markDrawFailed, markDrawn } from './draw-health.ts';
 import { useNameOfPeak } from './calibration/derive.ts';
 import { pickNamedPeakAt } from './calibration/pick.ts';
-import { lostFeatures, visibleYRange } from './plot-view.ts';
+import { bornSquares, lostFeatures, visibleYRange } from './plot-view.ts';
 import { PLOT_LABELS, labelsStillClear, placeLabels, type PlotGeometry } from './plot-labels.ts';
 import type { Peak } from '../core/measure/peak-types.ts';
 import type { Signal } from '../core/steps/types.ts';
@@ -109,6 +109,8 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const labelCount = useRef<{ shown: number; of: number; below: number } | null>(null);
   /** Issue 16: candidates below the detection limit with a marker, and in all (PLOT_MARKERS_BELOW). */
   const belowMarkers = useRef<{ drawn: number; of: number } | null>(null);
+  /** Issue 16: peaks that appear only after processing with a square, and in all (BORN_SQUARES). */
+  const bornSquaresDrawn = useRef<{ drawn: number; of: number } | null>(null);
   /** Issue 16: features some choice loses with a ring, and in all (LOST_RINGS). */
   const lostRings = useRef<{ drawn: number; of: number } | null>(null);
   const figEl = useRef<HTMLElement | null>(null);
@@ -128,6 +130,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
     const traces: PlotData[] = [];
     labelCount.current = null;
     belowMarkers.current = null;
+    bornSquaresDrawn.current = null;
     if (!peaks) return traces;
     // At most PLOT_MARKERS markers (highest S/N first, hand-added always): thousands of labels would stall the page.
     // Ranked by the worker when it sent the peaks (worker/peak-rank.ts), so only these rows are read here.
@@ -137,7 +140,9 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
     const belowAll = tableTotals(peaks).below - live.filter((pk) => pk.origin === 'added-by-user' && pk.flag === 'below-detection').length;
     if (belowAll > belowDrawn) belowMarkers.current = { drawn: belowDrawn, of: belowAll };
     // Features the raw trace does not have: ringed again, so they cannot be taken for ordinary peaks.
-    const born = live.filter((pk) => pk.marks.includes('appears-only-after-processing') && pk.flag !== 'below-detection');
+    // At most BORN_SQUARES of them (quantifiable first, then the highest S/N); a note under the plot says how many of how many.
+    const { squared: born, of: bornOf } = bornSquares(live);
+    bornSquaresDrawn.current = born.length < bornOf ? { drawn: born.length, of: bornOf } : null;
     if (born.length) {
       traces.push({
         type: 'scatter', mode: 'markers', name: 'appears only after processing',
@@ -375,6 +380,11 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       {lostRings.current && (
         <p className="small muted plot-label-note" data-testid="lost-note">
           Rings on {lostRings.current.drawn} of the {lostRings.current.of.toLocaleString('en')} features some choice loses (quantifiable first, then the highest S/N); the loss check below lists them.
+        </p>
+      )}
+      {bornSquaresDrawn.current && (
+        <p className="small muted plot-label-note" data-testid="born-note">
+          Squares on {bornSquaresDrawn.current.drawn} of the {bornSquaresDrawn.current.of.toLocaleString('en')} marked peaks that appear only after processing (quantifiable first, then the highest S/N); the peak table marks every one.
         </p>
       )}
       {belowMarkers.current && (

@@ -79,3 +79,39 @@ describe('lostFeatures', () => {
     }
   });
 });
+
+import { bornSquares, type BornPeakLike } from '../../src/ui/plot-view.ts';
+
+describe('bornSquares', () => {
+  const pk = (flag: string, snr: number | null, born: boolean): BornPeakLike => ({ flag, snr, marks: born ? ['appears-only-after-processing'] : [] });
+  it('squares only peaks marked as appearing only after processing, never below the detection limit (worked by hand)', () => {
+    const peaks = [pk('quantifiable', 40, true), pk('detectable', 5, false), pk('below-detection', 2, true), pk('detectable', 4, true), pk('detectable', 6, true)];
+    expect(bornSquares(peaks).squared).toEqual([peaks[0], peaks[3], peaks[4]]);
+    expect(bornSquares(peaks).of).toBe(3);
+    // Cut to two: the quantifiable one, then the detectable with the higher S/N (6 before 4), in the order given.
+    expect(bornSquares(peaks, 2).squared).toEqual([peaks[0], peaks[4]]);
+  });
+
+  it('over the cap: exactly the cap, every quantifiable one before any detectable, S/N order within, order kept (random tables)', () => {
+    const rng = makeRng(62);
+    for (let t = 0; t < 50; t++) {
+      const peaks = Array.from({ length: 40 + Math.floor(rng.uniform() * 200) }, () => {
+        const snr = 3 + 20 * rng.uniform();
+        return pk(snr >= 10 ? 'quantifiable' : 'detectable', snr, rng.uniform() < 0.5);
+      });
+      const cap = 1 + Math.floor(rng.uniform() * 60);
+      const { squared, of } = bornSquares(peaks, cap);
+      const born = peaks.filter((p) => p.marks.length > 0);
+      expect(of).toBe(born.length);
+      expect(squared).toHaveLength(Math.min(cap, born.length));
+      // Nothing left out outranks anything kept.
+      const rank = (p: BornPeakLike) => (p.flag === 'quantifiable' ? 1e12 : 0) + (p.snr ?? 0);
+      const kept = new Set(squared);
+      const worstKept = Math.min(...squared.map(rank));
+      for (const p of born) if (!kept.has(p)) expect(rank(p)).toBeLessThanOrEqual(worstKept);
+      // The order given is kept.
+      const idx = squared.map((p) => peaks.indexOf(p));
+      expect(idx).toEqual([...idx].sort((a, b) => a - b));
+    }
+  });
+});
