@@ -279,7 +279,7 @@ export function inProcessBackend(): ComputeBackend {
     analyse(request, onStage, side) {
       const mine = side ? 0 : ++latest;
       // Started on a later task, as a worker would, so a newer request made in the same task wins at once.
-      return macrotask().then(() => runStages(held.stages(request), onStage, () => !side && mine !== latest)).then((o) => o === 'done');
+      return macrotask().then(() => runStages(held.stages(request, !!side), onStage, () => !side && mine !== latest)).then((o) => o === 'done');
     },
     load(bytes, fileName, options, onProgress) {
       return Promise.resolve().then(() => held.load(bytes, fileName, options, onProgress ?? (() => undefined)));
