@@ -85,11 +85,11 @@ function storesOf(v: StepOutput): ArrayBufferLike[] {
  *
  * Bounded by use as well (issue 16, the heap at 10⁶ points): the owner
  * calls {@link PipelineCache.beginRun} when a new analysis starts, and
- * every output that neither of the two analyses before it used goes.
- * A slider drag thus keeps the unchanged steps before the edited one (every
- * run uses them) and the outputs of the value just left and the one before
- * (a step back, undo), not every value the slider passed (8 MB each at 10⁶
- * points). Without
+ * once that analysis stores a new output, every output that neither it nor
+ * the analysis before it used goes. A slider drag thus keeps the unchanged
+ * steps before the edited one (every run uses them) and the outputs of the
+ * value just left (a step back, undo), not every value the slider passed
+ * (8 MB each at 10⁶ points). Without
  * beginRun calls (tests, the CLI, batch runs) only the two bounds apply.
  */
 export class PipelineCache {
@@ -107,15 +107,21 @@ export class PipelineCache {
     return v;
   }
   /**
-   * A new analysis starts: outputs that neither the run just before it nor
-   * the one before that used are let go, so the value just left (the
-   * current one until now) and the one before it can come back from the cache.
+   * A new analysis starts. Before it stores its first new output, the
+   * outputs that neither it nor the run just before it used are let go: the
+   * value just left can still come back from the cache (it is looked up
+   * before anything new is stored), and a run that only reads keeps all.
    */
   beginRun(): void {
     this.run++;
-    for (const [key, at] of this.usedIn) if (at < this.run - 2) this.remove(key);
+    this.sweepDue = true;
   }
+  private sweepDue = false;
   set(key: string, value: StepOutput): void {
+    if (this.sweepDue) {
+      this.sweepDue = false;
+      for (const [k, at] of this.usedIn) if (at < this.run - 1) this.remove(k);
+    }
     if (this.map.has(key)) this.remove(key);
     this.map.set(key, value);
     this.usedIn.set(key, this.run);
@@ -140,7 +146,7 @@ export class PipelineCache {
       if (r <= 0) { this.refs.delete(b); this.held -= b.byteLength; } else this.refs.set(b, r);
     }
   }
-  clear(): void { this.map.clear(); this.refs.clear(); this.usedIn.clear(); this.held = 0; }
+  clear(): void { this.map.clear(); this.refs.clear(); this.usedIn.clear(); this.held = 0; this.sweepDue = false; }
   get size(): number { return this.map.size; }
   /** Bytes of the distinct typed-array stores the cached outputs hold. */
   get bytes(): number { return this.held; }
