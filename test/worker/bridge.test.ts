@@ -73,7 +73,7 @@ describe('a loaded file reaches the computation worker through the port, not thr
 });
 
 describe('the loading worker is ended when idle (issue 16: it kept a loaded file\'s bytes and buffers as garbage)', () => {
-  test('ended LOADER_IDLE_MS after its last job, not while a job runs; the next load makes a new one with a new port', async () => {
+  test('replaced LOADER_IDLE_MS after its last job, not while a job runs; the fresh one starts at once and gets a new port with the next load', async () => {
     vi.useFakeTimers();
     try {
       FakeWorker.made = [];
@@ -99,9 +99,11 @@ describe('the loading worker is ended when idle (issue 16: it kept a loaded file
       vi.advanceTimersByTime(20);
       expect(loader.terminated).toBe(true);
       expect(compute.terminated).toBe(false); // the computation worker keeps its traces and caches
-      const third = backend.load(new Uint8Array([3]), 'd.csv');
       const loader2 = FakeWorker.made.at(-1)!;
-      expect(loader2).not.toBe(loader);
+      expect(loader2).not.toBe(loader); // made at once, before any load asks for it
+      expect(FakeWorker.made).toHaveLength(3);
+      const third = backend.load(new Uint8Array([3]), 'd.csv');
+      expect(FakeWorker.made).toHaveLength(3);
       expect(loader2.posted.some((m) => m.type === 'port')).toBe(true);
       expect(compute.posted.filter((m) => m.type === 'port')).toHaveLength(2); // a new channel between the two
       answer(loader2, 'd');
