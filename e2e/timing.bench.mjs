@@ -10,6 +10,11 @@
 //   node e2e/timing.bench.mjs --profile-out F   … and write that CPU profile to F (.cpuprofile, opens in DevTools)
 //   node e2e/timing.bench.mjs --worker-profile-out F   … a CPU profile of the analysis worker during the first slider move
 //   node e2e/timing.bench.mjs --trace F    also write a Chromium trace (devtools timeline) of the second slider move to F
+//   node e2e/timing.bench.mjs --steps 5 --alternatives 3   a longer stack (despike, baseline, Savitzky–Golay,
+//                                          frequency filter before the moving average; 1 = the moving average alone,
+//                                          the default) and that many of the loss panel's preset alternatives
+//   node e2e/timing.bench.mjs --heap-detail   also print each thread's heap before and after a forced collection
+//   node e2e/timing.bench.mjs --heap-snapshots D   … and write a heap snapshot of the page and of each worker to D
 //
 // Before the load and before every slider move it waits until the page is
 // idle: no analysis in flight (the busy mark beside the plot title is gone),
@@ -44,9 +49,13 @@ import { loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 
 const PREFERRED_PORT = Number(process.env.TRACEWRIGHT_E2E_PORT ?? 4173);
+/** Steps added (with their defaults) before the moving average for --steps 2…5, in this order. */
+const EXTRA_STEPS = ['despike', 'baseline', 'savitzky-golay', 'frequency-filter'];
+/** The loss panel's preset buttons clicked for --alternatives 1…4, in this order. */
+const ALTERNATIVE_PRESETS = ['3-point moving average', '5-point moving average', 'Savitzky–Golay 11 points, order 2', 'Savitzky–Golay 25 points, order 4'];
 
 function parseArgs(argv) {
-  const o = { rows: 1_000_000, moves: 7, build: false, profile: false, profileOut: null, workerProfileOut: null, trace: null };
+  const o = { rows: 1_000_000, moves: 7, build: false, profile: false, profileOut: null, workerProfileOut: null, trace: null, steps: 1, alternatives: 0, heapDetail: false, heapSnapshots: null };
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i];
     if (a === '--rows') o.rows = Number(argv[++i]);
@@ -56,10 +65,16 @@ function parseArgs(argv) {
     else if (a === '--trace') o.trace = argv[++i];
     else if (a === '--profile-out') { o.profile = true; o.profileOut = argv[++i]; }
     else if (a === '--worker-profile-out') o.workerProfileOut = argv[++i];
+    else if (a === '--steps') o.steps = Number(argv[++i]);
+    else if (a === '--alternatives') o.alternatives = Number(argv[++i]);
+    else if (a === '--heap-detail') o.heapDetail = true;
+    else if (a === '--heap-snapshots') { o.heapDetail = true; o.heapSnapshots = argv[++i]; }
     else throw new RangeError(`Unknown option ${a}; see the head of e2e/timing.bench.mjs.`);
   }
   if (!(Number.isInteger(o.rows) && o.rows >= 1000)) throw new RangeError('--rows must be a whole number of at least 1000.');
   if (!(Number.isInteger(o.moves) && o.moves >= 1 && o.moves <= 40)) throw new RangeError('--moves must be from 1 to 40.');
+  if (!(Number.isInteger(o.steps) && o.steps >= 1 && o.steps <= 1 + EXTRA_STEPS.length)) throw new RangeError(`--steps must be from 1 to ${1 + EXTRA_STEPS.length}.`);
+  if (!(Number.isInteger(o.alternatives) && o.alternatives >= 0 && o.alternatives <= ALTERNATIVE_PRESETS.length)) throw new RangeError(`--alternatives must be from 0 to ${ALTERNATIVE_PRESETS.length}.`);
   return o;
 }
 
@@ -256,8 +271,10 @@ async function workerSenders(page) {
   const pending = new Map();
   let nextId = 1;
   session.on('Target.attachedToTarget', (ev) => { if (ev.targetInfo.type === 'worker') workers.push(ev.sessionId); });
+  const listeners = [];
   session.on('Target.receivedMessageFromTarget', (ev) => {
     const msg = JSON.parse(ev.message);
+    if (msg.method) { for (const l of listeners) if (l.sessionId === ev.sessionId && l.method === msg.method) l.f(msg.params); return; }
     const done = pending.get(msg.id);
     if (done) { pending.delete(msg.id); done(msg); }
   });
@@ -268,7 +285,8 @@ async function workerSenders(page) {
     pending.set(id, (msg) => (msg.error ? rej(new Error(msg.error.message)) : res(msg.result)));
     session.send('Target.sendMessageToTarget', { sessionId, message: JSON.stringify({ id, method, params }) }).catch(rej);
   }));
-  return { senders, detach: () => session.detach() };
+  const onWorkerEvent = (k, method, f) => listeners.push({ sessionId: workers[k], method, f });
+  return { senders, detach: () => session.detach(), onWorkerEvent };
 }
 
 /** Heap in use plus array-buffer storage, page and workers (CDP Runtime.getHeapUsage), in bytes. */
@@ -288,6 +306,33 @@ async function heapBytes(page) {
   }
   await detach();
   return { bytes: total, workers: counted };
+}
+
+/** Each thread's heap (MiB: used, array buffers) as it stands and after a forced collection; snapshots to `dir` when given. */
+async function heapDetail(page, dir) {
+  const mb = (b) => (b / 1048576).toFixed(1);
+  const one = async (name, send, on) => {
+    const a = await send('Runtime.getHeapUsage', {});
+    await send('HeapProfiler.collectGarbage', {});
+    const b = await send('Runtime.getHeapUsage', {});
+    if (dir) {
+      const chunks = [];
+      on((chunk) => chunks.push(chunk));
+      await send('HeapProfiler.enable', {});
+      await send('HeapProfiler.takeHeapSnapshot', { reportProgress: false });
+      writeFileSync(join(dir, `${name.replace(' ', '-')}.heapsnapshot`), chunks.join(''));
+    }
+    return `  heap ${name}: used ${mb(a.usedSize)} + buffers ${mb(a.backingStorageSize ?? 0)}; after collection ${mb(b.usedSize)} + ${mb(b.backingStorageSize ?? 0)}`;
+  };
+  const session = await page.context().newCDPSession(page);
+  const lines = [await one('page', (m, p) => session.send(m, p), (f) => session.on('HeapProfiler.addHeapSnapshotChunk', (e) => f(e.chunk)))];
+  await session.detach();
+  const { senders, detach, onWorkerEvent } = await workerSenders(page);
+  for (let k = 0; k < senders.length; k++) {
+    try { lines.push(await one(`worker ${k + 1}`, senders[k], (f) => onWorkerEvent(k, 'HeapProfiler.addHeapSnapshotChunk', (p) => f(p.chunk)))); } catch { /* a worker that went away */ }
+  }
+  await detach();
+  return lines;
 }
 
 async function main() {
@@ -352,12 +397,24 @@ async function main() {
     console.log(`load to drawn: ${loadMs.toFixed(0)} ms; main-thread tasks over 50 ms meanwhile: ${loadTasks.length}, longest ${loadTasks.length ? Math.max(...loadTasks).toFixed(0) : 0} ms`);
     await page.evaluate(waitIdle, 300_000);
 
-    // A moving average to move.
-    await page.selectOption('#add-step-choice', 'moving-average');
-    const seq0 = await page.evaluate(() => window.__seq('[data-testid="peak-panel"]', 'data-result-seq'));
-    await page.getByRole('button', { name: 'Add step', exact: true }).click();
-    await page.waitForFunction((s) => window.__seq('[data-testid="peak-panel"]', 'data-result-seq') > s, seq0, { timeout: 300_000 });
-    await page.evaluate(waitIdle, 300_000);
+    // A moving average to move (after --steps − 1 other steps), then the alternatives asked for.
+    for (const step of [...EXTRA_STEPS.slice(0, o.steps - 1), 'moving-average']) {
+      await page.selectOption('#add-step-choice', step);
+      const seq0 = await page.evaluate(() => window.__seq('[data-testid="peak-panel"]', 'data-result-seq'));
+      await page.getByRole('button', { name: 'Add step', exact: true }).click();
+      await page.waitForFunction((s) => window.__seq('[data-testid="peak-panel"]', 'data-result-seq') > s, seq0, { timeout: 300_000 });
+      await page.evaluate(waitIdle, 300_000);
+    }
+    for (const label of ALTERNATIVE_PRESETS.slice(0, o.alternatives)) {
+      const seq0 = await page.evaluate(() => window.__seq('[data-testid="loss-panel"]', 'data-result-seq'));
+      await page.getByTestId('loss-panel').getByRole('button', { name: label, exact: true }).click();
+      await page.waitForFunction((s) => window.__seq('[data-testid="loss-panel"]', 'data-result-seq') > s, seq0, { timeout: 300_000 });
+      await page.evaluate(waitIdle, 300_000);
+    }
+    if (o.steps > 1 || o.alternatives > 0) {
+      const stack = await page.evaluate(() => [...document.querySelectorAll('[data-testid^="step-"]')].map((e) => e.getAttribute('data-testid')).join(', '));
+      console.log(`stack: ${stack}; alternatives: ${o.alternatives}`);
+    }
 
     const moves = [];
     let cdp = null;
@@ -409,6 +466,7 @@ async function main() {
     const drawnMs = redraws.map((r) => r[0]).sort((a, b) => a - b);
     console.log(`figure redraw alone (raw switched off and on, 6 times): to drawn min ${drawnMs[0].toFixed(0)} ms, median ${median(drawnMs).toFixed(0)} ms; to the next frame median ${median(redraws.map((r) => r[1])).toFixed(0)} ms`);
     const heap = await heapBytes(page);
+    if (o.heapDetail) for (const line of await heapDetail(page, o.heapSnapshots)) console.log(line);
     // The table draws only the rows near its scrolled box (ui/WindowedTable.tsx): the count of all is its aria-rowcount less the header row.
     const rows = await page.evaluate(() => Number(document.querySelector('[data-testid="peak-table"]')?.getAttribute('aria-rowcount') ?? 1) - 1);
     const med = (key) => median(moves.map((m) => m[key]));

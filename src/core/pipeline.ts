@@ -82,21 +82,49 @@ function storesOf(v: StepOutput): ArrayBufferLike[] {
  * outputs (steps that keep the grid hand on their input's x) is counted
  * once. When over either bound the least recently used entries go; the
  * newest entry always stays, even when it alone exceeds the byte budget.
+ *
+ * Bounded by use as well (issue 16, the heap at 10⁶ points): the owner
+ * calls {@link PipelineCache.beginRun} when a new analysis starts, and
+ * once that analysis stores a new output, every output that neither it nor
+ * the analysis before it used goes. A slider drag thus keeps the unchanged
+ * steps before the edited one (every run uses them) and the outputs of the
+ * value just left (a step back, undo), not every value the slider passed
+ * (8 MB each at 10⁶ points). Without
+ * beginRun calls (tests, the CLI, batch runs) only the two bounds apply.
  */
 export class PipelineCache {
   private readonly map = new Map<string, StepOutput>();
   /** How many cached outputs hold each store. */
   private readonly refs = new Map<ArrayBufferLike, number>();
+  /** The run in which each key was last read or written. */
+  private readonly usedIn = new Map<string, number>();
+  private run = 0;
   private held = 0;
   constructor(private readonly maxEntries = 64, private readonly maxBytes = PIPELINE_CACHE_BYTES) {}
   get(key: string): StepOutput | undefined {
     const v = this.map.get(key);
-    if (v) { this.map.delete(key); this.map.set(key, v); }
+    if (v) { this.map.delete(key); this.map.set(key, v); this.usedIn.set(key, this.run); }
     return v;
   }
+  /**
+   * A new analysis starts. Before it stores its first new output, the
+   * outputs that neither it nor the run just before it used are let go: the
+   * value just left can still come back from the cache (it is looked up
+   * before anything new is stored), and a run that only reads keeps all.
+   */
+  beginRun(): void {
+    this.run++;
+    this.sweepDue = true;
+  }
+  private sweepDue = false;
   set(key: string, value: StepOutput): void {
+    if (this.sweepDue) {
+      this.sweepDue = false;
+      for (const [k, at] of this.usedIn) if (at < this.run - 1) this.remove(k);
+    }
     if (this.map.has(key)) this.remove(key);
     this.map.set(key, value);
+    this.usedIn.set(key, this.run);
     for (const b of new Set(storesOf(value))) {
       const r = this.refs.get(b) ?? 0;
       if (r === 0) this.held += b.byteLength;
@@ -112,12 +140,13 @@ export class PipelineCache {
     const v = this.map.get(key);
     if (!v) return;
     this.map.delete(key);
+    this.usedIn.delete(key);
     for (const b of new Set(storesOf(v))) {
       const r = (this.refs.get(b) ?? 1) - 1;
       if (r <= 0) { this.refs.delete(b); this.held -= b.byteLength; } else this.refs.set(b, r);
     }
   }
-  clear(): void { this.map.clear(); this.refs.clear(); this.held = 0; }
+  clear(): void { this.map.clear(); this.refs.clear(); this.usedIn.clear(); this.held = 0; this.sweepDue = false; }
   get size(): number { return this.map.size; }
   /** Bytes of the distinct typed-array stores the cached outputs hold. */
   get bytes(): number { return this.held; }
@@ -126,6 +155,24 @@ export class PipelineCache {
 function allFinite(a: Float64Array): boolean {
   for (let i = 0; i < a.length; i++) if (!Number.isFinite(a[i])) return false;
   return true;
+}
+
+/** True when a and b hold the same numbers bit for bit (finite values: equal, and zeros of the same sign). */
+function sameNumbers(a: Float64Array, b: Float64Array): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i] || (a[i] === 0 && 1 / a[i] !== 1 / b[i])) return false;
+  return true;
+}
+
+/**
+ * The output with its x replaced by the input's x array when the step kept
+ * the grid but returned a copy of it (most smoothers do, so their output is
+ * theirs alone): kept in the cache, every such output would hold its own
+ * 8 MB of identical x at 10⁶ points (issue 16). Nothing changes an x array
+ * after a step made it, so sharing it is safe; the numbers are the same bits.
+ */
+function shareGrid<T extends Signal>(output: T, input: Signal): T {
+  return output.x !== input.x && sameNumbers(output.x, input.x) ? { ...output, x: input.x } : output;
 }
 
 /**
@@ -189,6 +236,7 @@ export function runPipeline(
         runs.push({ uid: entry.uid, step: entry.step, status: 'error', message: `${def.label} produced values that are not finite numbers, so its output was not used.`, cached: false, ms: 0 });
         continue;
       }
+      output = shareGrid(output, current);
       cache?.set(stepKey, output);
     }
     // The companions follow: the same step, the same parameters, on each (before any later step uses them).
@@ -265,6 +313,7 @@ function processCompanions(
         notes.push(`Not applied to ${name}, which stays as it was before this step: ${problem}`);
         return t;
       }
+      out = shareGrid(out, t);
       cache?.set(key, out);
     }
     applied.push(name);

@@ -56,14 +56,42 @@ type Job = {
 /** Something went wrong that belongs to no job the page still waits for: the page shows it (a notice). */
 export type ProblemSink = (title: string, lines: string[]) => void;
 
+/**
+ * How long the loading worker may sit idle before it is replaced (ms). An
+ * idle worker collects no garbage: after a 20 MB file it kept the file's
+ * bytes and the parser's buffers, 20–35 MB, until the next load (issue 16).
+ * The fresh one (about 1.5 MB) starts at once, so the next load or batch
+ * does not wait for a worker to start.
+ */
+export const LOADER_IDLE_MS = 2000;
+
 class WorkerChannel {
   private worker: Worker | null = null;
   private jobs = new Map<number, Job>();
   private nextId = 1;
+  private idleTimer: ReturnType<typeof setTimeout> | null = null;
   /** Counts the workers made; a new one holds no traces yet. */
   generation = 0;
 
-  constructor(private readonly make: () => Worker, private readonly problem: ProblemSink, private readonly name: string) {}
+  /** `retireAfterMs`: end the worker once it has had no job for that long (the loading worker). */
+  constructor(private readonly make: () => Worker, private readonly problem: ProblemSink, private readonly name: string, private readonly retireAfterMs: number | null = null) {}
+
+  private stopIdleTimer(): void {
+    if (this.idleTimer !== null) { clearTimeout(this.idleTimer); this.idleTimer = null; }
+  }
+
+  /** No job left: replace the worker by a fresh one after the idle time, unless a call comes first. */
+  private retireWhenIdle(): void {
+    if (this.retireAfterMs === null || this.jobs.size > 0) return;
+    this.stopIdleTimer();
+    this.idleTimer = setTimeout(() => {
+      this.idleTimer = null;
+      if (this.jobs.size > 0 || !this.worker) return;
+      this.worker.terminate();
+      this.worker = null;
+      this.ensure();
+    }, this.retireAfterMs);
+  }
 
   /** The generation of the live worker, making one when needed. */
   live(): number {
@@ -114,9 +142,11 @@ class WorkerChannel {
     this.jobs.delete(msg.jobId!);
     if (msg.type === 'failed') job.reject(Object.assign(new Error(msg.message), { missing: msg.missing === true }));
     else job.resolve(msg.value);
+    this.retireWhenIdle();
   }
 
   send(msg: ToWorker, transfer: Transferable[] = []): void {
+    this.stopIdleTimer();
     this.ensure().postMessage(msg, transfer);
   }
 
@@ -131,6 +161,7 @@ class WorkerChannel {
 
   /** Stop the current job (a long load, say) by replacing the worker. */
   cancelAll(): void {
+    this.stopIdleTimer();
     this.worker?.terminate();
     this.worker = null;
     const err = new Error('Cancelled.');
@@ -196,7 +227,7 @@ export async function exactResult(backend: ComputeBackend, r: AnalyseResult): Pr
  */
 export function workerBackend(make: () => Worker, problem: ProblemSink = () => undefined): ComputeBackend {
   const compute = new WorkerChannel(make, problem, 'computation');
-  const loader = new WorkerChannel(make, problem, 'loading');
+  const loader = new WorkerChannel(make, problem, 'loading', LOADER_IDLE_MS);
   // Ids the compute worker holds, and for which worker.
   let held = new Set<string>();
   let heldBy = 0;
@@ -279,7 +310,7 @@ export function inProcessBackend(): ComputeBackend {
     analyse(request, onStage, side) {
       const mine = side ? 0 : ++latest;
       // Started on a later task, as a worker would, so a newer request made in the same task wins at once.
-      return macrotask().then(() => runStages(held.stages(request), onStage, () => !side && mine !== latest)).then((o) => o === 'done');
+      return macrotask().then(() => runStages(held.stages(request, !!side), onStage, () => !side && mine !== latest)).then((o) => o === 'done');
     },
     load(bytes, fileName, options, onProgress) {
       return Promise.resolve().then(() => held.load(bytes, fileName, options, onProgress ?? (() => undefined)));

@@ -68,8 +68,13 @@ export class HeldTraces {
     return analyse(request, this.traces, STEP_REGISTRY, this.cache, this.memo);
   }
 
-  /** The same analysis stage by stage, with the pauses inside long stages (undefined); the worker posts each update and may stop pulling at a pause or between stages when a newer request comes. */
-  stages(request: AnalyseRequest): Generator<StageUpdate | undefined, void, void> {
+  /**
+   * The same analysis stage by stage, with the pauses inside long stages (undefined); the worker posts each update and may stop pulling at a pause or between stages when a newer request comes.
+   * A request of the page's own (not a `side` job: the standards' analyses) starts a new run of the pipeline cache, which
+   * lets go of step outputs neither this run nor the one before it uses (pipeline.ts, issue 16).
+   */
+  stages(request: AnalyseRequest, side = false): Generator<StageUpdate | undefined, void, void> {
+    if (!side) this.cache.beginRun();
     return analyseSteps(request, this.traces, STEP_REGISTRY, { pipeline: this.cache, memo: this.memo });
   }
 

@@ -98,8 +98,9 @@ async function call(msg: Call): Promise<void> {
     switch (msg.method) {
       case 'analyse': await analyse(jobId, msg.params); break;
       case 'fit': {
-        // Issue 18: a fit's arrays are its own (not cached), so they are transferred as they are.
-        const outcome = held.fit(msg.params);
+        // Issue 18: a fit's arrays are the fit's own (slices of the region).
+        // Copied first all the same: an array the worker keeps (a trace's x, which cached outputs share) must never be detached.
+        const outcome = cloneResultForTransfer(held.fit(msg.params));
         reply('fit', jobId, outcome, transferablesOf(outcome));
         break;
       }
@@ -132,7 +133,7 @@ async function call(msg: Call): Promise<void> {
 
 async function analyse(jobId: number, params: ParamsOf<'analyse'>): Promise<void> {
   const t0 = Date.now();
-  const outcome = await runStages(held.stages(params.request), (update) => {
+  const outcome = await runStages(held.stages(params.request, !!params.side), (update) => {
     // Long series stay here (drawn for the page's view); cached outputs must stay usable, so the rest goes as
     // copies, transferred; the peak table goes as columns.
     // Side jobs (the standards' analyses) cross whole as before: only their peaks are used, and keeping their

@@ -121,4 +121,55 @@ describe('pipeline', () => {
     expect(r.runs.map((x) => x.cached)).toEqual([true, false, false]);
     expect(Array.from(r.final.y)).toEqual(Array.from(signal.y).map((v) => (2 * v + 2) * 2));
   });
+
+  // Issue 16 (the heap at 10^6 points): a drag must not keep every value the slider passed.
+  it('after beginRun, the first new output lets go of outputs neither this run nor the one before used; the unchanged steps before the edited one stay', () => {
+    const cache = new PipelineCache();
+    const mk = (amount: number): Recipe => ({ format: 'tracewright-recipe' as const, version: 1, steps: [
+      { uid: 'a', step: 'test-window', enabled: true, params: { window: 3, edge: 'a' } },
+      { uid: 'b', step: 'test-offset', enabled: true, params: { amount } },
+    ] });
+    const drag = (amount: number) => { cache.beginRun(); return runPipeline(signal, 'in', mk(amount), registry, {}, cache); };
+    windowCalls = 0;
+    drag(1);
+    for (const amount of [2, 3, 4, 5]) expect(drag(amount).runs.map((x) => x.cached)).toEqual([true, false]);
+    expect(windowCalls).toBe(1); // the step before the edited one ran once in five runs
+    expect(cache.size).toBe(3); // the window step's output, and the offsets of this run and the one before
+    expect(drag(4).runs[1].cached).toBe(true); // the value just left: kept
+    expect(drag(5).runs[1].cached).toBe(true); // and back again
+    expect(cache.size).toBe(3);
+    expect(drag(2).runs[1].cached).toBe(false); // let go long ago
+    expect(cache.size).toBe(3); // 5 is now the value just left; 4 went
+    const fresh = runPipeline(signal, 'in', mk(2), registry);
+    expect(Array.from(drag(2).final.y)).toEqual(Array.from(fresh.final.y));
+  });
+
+  it('without beginRun calls only the entry and byte bounds apply (every value stays while they allow)', () => {
+    const cache = new PipelineCache();
+    const mk = (amount: number): Recipe => ({ format: 'tracewright-recipe' as const, version: 1, steps: [{ uid: 'b', step: 'test-offset', enabled: true, params: { amount } }] });
+    for (const amount of [1, 2, 3, 4, 5]) runPipeline(signal, 'in', mk(amount), registry, {}, cache);
+    expect(cache.size).toBe(5);
+    expect(runPipeline(signal, 'in', mk(1), registry, {}, cache).runs[0].cached).toBe(true);
+  });
+
+  it('a step that returns a copy of its input\'s grid has the input\'s x array in its output (shared, same bits); another grid stays its own', () => {
+    const cache = new PipelineCache();
+    const one: Recipe = { format: 'tracewright-recipe' as const, version: 1, steps: [{ uid: 'b', step: 'test-offset', enabled: true, params: { amount: 1 } }] };
+    const r = runPipeline(signal, 'in', one, registry, {}, cache);
+    expect(r.runs[0].output!.x).toBe(signal.x); // offsetStep returns s.x.slice(): the pipeline keeps the input's array instead
+    expect(r.final.x).toBe(signal.x);
+    expect(Array.from(r.final.y)).toEqual(Array.from(signal.y).map((v) => v + 1));
+    const two: Recipe = { ...one, steps: [...one.steps, { uid: 'c', step: 'test-offset', enabled: true, params: { amount: 2 } }] };
+    const r2 = runPipeline(signal, 'in', two, registry, {}, cache);
+    expect(r2.runs[1].output!.x).toBe(signal.x);
+    expect(cache.bytes).toBe(signal.x.byteLength + 2 * signal.y.byteLength); // two outputs: their own y each, one x between them
+    // A zero of the other sign is another number (its bits differ): that grid is not the input's.
+    const minusZero = { x: Float64Array.from([-0, 1, 2, 3, 4, 5]), y: signal.y };
+    const z = runPipeline(minusZero, 'mz', one, registry);
+    expect(Object.is(z.final.x[0], -0)).toBe(true);
+    const shifted: StepDefinition<{ amount: number }> = { ...offsetStep, id: 'test-shift', apply: (s) => ({ x: s.x.map((v) => v + 0.5), y: s.y.slice(), notes: [] }) };
+    const moved = runPipeline(signal, 'in', { format: 'tracewright-recipe', version: 1, steps: [{ uid: 's', step: 'test-shift', enabled: true, params: { amount: 0 } }] }, [shifted] as unknown as readonly StepDefinition[]);
+    expect(moved.final.x).not.toBe(signal.x);
+    expect(Array.from(moved.final.x)).toEqual([0.5, 1.5, 2.5, 3.5, 4.5, 5.5]);
+  });
 });

@@ -3,9 +3,9 @@
  * send every trace again, a 50 MB trace at each file dropped later), and a
  * worker made anew after a fault is given them all again.
  */
-import { describe, expect, test } from 'vitest';
+import { describe, expect, test, vi } from 'vitest';
 import { createTrace, type Trace } from '../../src/core/trace.ts';
-import { workerBackend } from '../../src/worker/bridge.ts';
+import { LOADER_IDLE_MS, workerBackend } from '../../src/worker/bridge.ts';
 import type { Call, FromWorker, ToWorker } from '../../src/worker/api.ts';
 import { emptyRecipe } from '../../src/core/method.ts';
 
@@ -18,8 +18,9 @@ class FakeWorker {
   onerror: ((ev: ErrorEvent) => void) | null = null;
   onmessageerror: ((ev: MessageEvent) => void) | null = null;
   constructor() { FakeWorker.made.push(this); }
+  terminated = false;
   postMessage(msg: ToWorker) { this.posted.push(msg); }
-  terminate() { /* nothing runs */ }
+  terminate() { this.terminated = true; }
 }
 
 describe('traces cross to the worker once', () => {
@@ -68,6 +69,49 @@ describe('a loaded file reaches the computation worker through the port, not thr
     expect(last.keep).toEqual(['a', 'b']);
     cPort.port.close();
     lPort.port.close();
+  });
+});
+
+describe('the loading worker is ended when idle (issue 16: it kept a loaded file\'s bytes and buffers as garbage)', () => {
+  test('replaced LOADER_IDLE_MS after its last job, not while a job runs; the fresh one starts at once and gets a new port with the next load', async () => {
+    vi.useFakeTimers();
+    try {
+      FakeWorker.made = [];
+      const backend = workerBackend(() => new FakeWorker() as unknown as Worker);
+      backend.setInputs([mk('a')]);
+      const answered = new Set<number>();
+      const answer = (w: FakeWorker, name: string) => {
+        const job = w.posted.find((m) => m.type === 'call' && m.method === 'load' && !answered.has(m.jobId)) as Extract<Call, { method: 'load' }>;
+        answered.add(job.jobId);
+        w.onmessage!({ data: { type: 'result', method: 'load', jobId: job.jobId, value: { result: { ok: true, traces: [mk(name)], report: {} }, shared: true } } } as MessageEvent);
+      };
+      const first = backend.load(new Uint8Array([1]), 'b.csv');
+      const second = backend.load(new Uint8Array([2]), 'c.csv');
+      const [compute, loader] = FakeWorker.made;
+      answer(loader, 'b');
+      await first;
+      vi.advanceTimersByTime(LOADER_IDLE_MS + 10);
+      expect(loader.terminated).toBe(false); // the second load still runs there
+      answer(loader, 'c');
+      await second;
+      vi.advanceTimersByTime(LOADER_IDLE_MS - 10);
+      expect(loader.terminated).toBe(false);
+      vi.advanceTimersByTime(20);
+      expect(loader.terminated).toBe(true);
+      expect(compute.terminated).toBe(false); // the computation worker keeps its traces and caches
+      const loader2 = FakeWorker.made.at(-1)!;
+      expect(loader2).not.toBe(loader); // made at once, before any load asks for it
+      expect(FakeWorker.made).toHaveLength(3);
+      const third = backend.load(new Uint8Array([3]), 'd.csv');
+      expect(FakeWorker.made).toHaveLength(3);
+      expect(loader2.posted.some((m) => m.type === 'port')).toBe(true);
+      expect(compute.posted.filter((m) => m.type === 'port')).toHaveLength(2); // a new channel between the two
+      answer(loader2, 'd');
+      expect((await third).ok).toBe(true);
+      for (const w of [compute, loader, loader2]) for (const m of w.posted) if (m.type === 'port') m.port.close();
+    } finally {
+      vi.useRealTimers();
+    }
   });
 });
 

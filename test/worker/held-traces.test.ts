@@ -145,6 +145,47 @@ describe('analyses', () => {
   });
 });
 
+describe('the pipeline cache through a drag (issue 16: the heap at 10^6 points)', () => {
+  /** A Savitzky–Golay step before the moving average whose window is dragged. */
+  function dragRequest(window: number): AnalyseRequest {
+    const r = emptyRecipe();
+    r.steps.push({ ...makeRecipeStep(stepDefinition('savitzky-golay')!, { window: 11, order: 2 }), uid: 'sg' });
+    r.steps.push({ ...makeRecipeStep(stepDefinition('moving-average')!, { window }), uid: 'ma' });
+    return { sampleId: 'a', scanIds: [], recipe: r };
+  }
+  const fold = (e: HeldTraces, req: AnalyseRequest, side = false): AnalyseResult => {
+    let out: AnalyseResult | null = null;
+    for (const u of e.stages(req, side)) if (u) out = applyStage(out, u);
+    return out!;
+  };
+  const cacheOf = (e: HeldTraces) => (e as unknown as { cache: { size: number } }).cache;
+
+  test('each move reuses the step before the slider\'s and the previous value; older values are let go, and every result equals a fresh analysis', () => {
+    const traces = [bands('a', 1)];
+    const e = new HeldTraces();
+    e.setInputs(traces);
+    for (const w of [5, 7, 9, 11]) {
+      const r = fold(e, dragRequest(w));
+      if (w > 5) expect(r.runs.map((x) => x.cached)).toEqual([true, false]);
+      expect(cacheOf(e).size).toBeLessThanOrEqual(3); // the Savitzky–Golay output, this value's and the one before
+    }
+    expect(fold(e, dragRequest(9)).runs[1].cached).toBe(true); // the value just left: kept
+    expect(fold(e, dragRequest(11)).runs[1].cached).toBe(true); // and back
+    expect(fold(e, dragRequest(5)).runs[1].cached).toBe(false); // let go long ago
+    const core = analyse(dragRequest(5), new Map(traces.map((t) => [t.id, t])), STEP_REGISTRY);
+    expect(numbers(fold(e, dragRequest(5)))).toEqual(numbers(core));
+  });
+
+  test('a side analysis (a standard\'s) does not start a run, so it does not push out the sample\'s outputs', () => {
+    const e = new HeldTraces();
+    e.setInputs([bands('a', 1), bands('s', 2)]);
+    fold(e, dragRequest(5));
+    fold(e, dragRequest(7));
+    for (let k = 0; k < 3; k++) fold(e, { ...dragRequest(9), sampleId: 's' }, true);
+    expect(fold(e, dragRequest(5)).runs.map((x) => x.cached)).toEqual([true, true]);
+  });
+});
+
 describe('loads', () => {
   test('load() reads a CSV and stamps it with the SHA-256 of its bytes (node:crypto gives the check value)', async () => {
     const text = 'x,y\n0,1\n1,2\n2,3\n3,2\n4,1\n';

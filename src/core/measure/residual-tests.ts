@@ -188,7 +188,8 @@ export interface ResidualResult {
 }
 
 /**
- * Residual raw − processed. When both have the same x values it is the exact
+ * Residual raw − processed, on the processed trace's own x array (shared,
+ * not copied: 8 MB at 10⁶ points; issue 16). When both have the same x values it is the exact
  * point-by-point difference; when the processed grid differs (e.g. after
  * binning) raw is interpolated linearly onto the processed x first, and the
  * returned note says so.
@@ -201,7 +202,7 @@ export function residual(raw: Signal, processed: Signal): ResidualResult {
   const y = new Float64Array(px.length);
   if (sameGrid) {
     for (let i = 0; i < y.length; i++) y[i] = raw.y[i] - processed.y[i];
-    return { x: Float64Array.from(px), y, note: null };
+    return { x: px, y, note: null };
   }
   const r = interpolateLinear(raw.x, raw.y, px);
   for (let i = 0; i < y.length; i++) {
@@ -209,7 +210,7 @@ export function residual(raw: Signal, processed: Signal): ResidualResult {
     y[i] = r[i] - processed.y[i];
   }
   return {
-    x: Float64Array.from(px),
+    x: px,
     y,
     note: 'The processed trace has different x values from the raw one; the raw trace was interpolated linearly onto them to form the residual.',
   };

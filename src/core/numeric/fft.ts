@@ -30,8 +30,21 @@ function plan(size: number): FFT {
     }
     return f;
   }
-  if (!lastBig || lastBig.size !== size) lastBig = new FFT(size);
+  if (!lastBig || lastBig.size !== size) lastBig = compact(new FFT(size));
   return lastBig;
+}
+
+/**
+ * The plan's tables as typed arrays, the same numbers: fft.js builds them as
+ * plain arrays of boxed numbers, which for 2²¹ points held about 60 MB of the
+ * worker's heap, against 40 MB as Float64Array and Int32Array (issue 16). It
+ * only reads them by index, so the transforms give the same bits.
+ */
+function compact(f: FFT): FFT {
+  const p = f as unknown as { table: ArrayLike<number>; _bitrev?: ArrayLike<number> };
+  p.table = Float64Array.from(p.table);
+  if (p._bitrev) p._bitrev = Int32Array.from(p._bitrev);
+  return f;
 }
 
 /** Power-of-two transform of interleaved complex data into a new array. */

@@ -4,6 +4,7 @@
 // test/reference/make_core_modules.py (versions in core-modules.json), and
 // transforms known in closed form (any signals text, from memory).
 import { readFileSync } from 'node:fs';
+import FFT from 'fft.js';
 import { describe, expect, it } from 'vitest';
 import { dft, nextPowerOfTwo, powerSpectrum } from '../../../src/core/numeric/fft.ts';
 import { makeRng } from '../../../src/core/numeric/random.ts';
@@ -88,6 +89,32 @@ describe('dft against the direct sum of the definition', () => {
       expect(maxDiff(back.re, re)).toBeLessThan(1e-12);
       expect(maxDiff(back.im, im)).toBeLessThan(1e-12);
     }
+  });
+});
+
+describe('big plans (tables kept as typed arrays, issue 16)', () => {
+  it('a length above 2^16 gives the same bits as fft.js with its own plain-array tables, forward and inverse', () => {
+    const n = 1 << 17;
+    const rng = makeRng(16);
+    const re = Float64Array.from({ length: n }, () => rng.normal());
+    const im = Float64Array.from({ length: n }, () => rng.normal());
+    const plain = new FFT(n);
+    const same = (a: Float64Array, b: Float64Array) => a.every((v, k) => Object.is(v, b[k]));
+    // Real input: fft.js realTransform + completeSpectrum, as the module does.
+    const realOut = new Float64Array(2 * n);
+    plain.realTransform(realOut, re);
+    plain.completeSpectrum(realOut);
+    const ours = dft(re, new Float64Array(n));
+    expect(same(ours.re, realOut.filter((_, k) => k % 2 === 0))).toBe(true);
+    expect(same(ours.im, realOut.filter((_, k) => k % 2 === 1))).toBe(true);
+    // Complex input, inverse.
+    const data = new Float64Array(2 * n);
+    for (let j = 0; j < n; j++) { data[2 * j] = re[j]; data[2 * j + 1] = im[j]; }
+    const invOut = new Float64Array(2 * n);
+    plain.inverseTransform(invOut, data);
+    const inv = dft(re, im, true);
+    expect(same(inv.re, invOut.filter((_, k) => k % 2 === 0))).toBe(true);
+    expect(same(inv.im, invOut.filter((_, k) => k % 2 === 1))).toBe(true);
   });
 });
 
