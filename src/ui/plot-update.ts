@@ -186,10 +186,11 @@ export function pointsOf(t: PlotData): Partial<PlotData> {
 export interface SteadyRule { pad: number; regrowPad: number; wholeSteps: boolean; minFill: number }
 
 /**
- * The residual's panel: 4 % on each side, out to whole steps; 20 % after the residual outgrew its range (it is
- * likely to go on growing: a window dragged wider); kept while the residual fills at least half of it.
+ * The residual's panel: 4 % on each side, out to whole steps; 40 % after the residual outgrew its range (it is
+ * likely to go on growing: a window dragged wider widens it step by step, and each new range is one whole drawing);
+ * kept while the residual fills at least 40 % of it.
  */
-export const RESIDUAL_RANGE: SteadyRule = { pad: 0.04, regrowPad: 0.2, wholeSteps: true, minFill: 0.5 };
+export const RESIDUAL_RANGE: SteadyRule = { pad: 0.04, regrowPad: 0.4, wholeSteps: true, minFill: 0.4 };
 
 /**
  * The trace's own panel: 6 % on each side (about the plot library's own 5 % and room for half a marker on a

@@ -121,13 +121,14 @@ describe('steadyRange', () => {
     expect(steadyRange([[Number.NaN], undefined])).toBeNull();
   });
 
-  it('keeps a held range while the data stay inside and fill half of it; else ranges afresh with 20 % on each side', () => {
+  it('keeps a held range while the data stay inside and fill 40 % of it; else ranges afresh with 40 % on each side', () => {
     const held: [number, number] = [-0.25, 1.25];
-    expect(steadyRange([[0.1, 0.9]], held)).toEqual(held); // 0.8 ≥ 0.75
-    // 0.3…0.9 fills 0.6 < 0.75: pad 0.12, step 0.2: 0.18 → 0, 1.02 → 1.2.
-    expect(steadyRange([[0.3, 0.9]], held)).toEqual([0, 1.2]);
-    // Outgrown: −0.5…1: pad 0.3, step 0.5: −0.8 → −1, 1.3 → 1.5.
-    expect(steadyRange([[-0.5, 1]], held)).toEqual([-1, 1.5]);
+    expect(steadyRange([[0.1, 0.9]], held)).toEqual(held); // 0.8 ≥ 0.6
+    expect(steadyRange([[0.3, 0.9]], held)).toEqual(held); // 0.6 ≥ 0.6
+    // 0…0.5 fills 0.5 < 0.6: pad 0.2, step 0.1: −0.2 → −0.2, 0.7 → 0.7.
+    expect(steadyRange([[0, 0.5]], held)).toEqual([-0.2, 0.7]);
+    // Outgrown: −0.5…1: pad 0.6, step 0.5: −1.1 → −1.5, 1.6 → 2.
+    expect(steadyRange([[-0.5, 1]], held)).toEqual([-1.5, 2]);
   });
 
   it('the trace panel: 6 % on each side with no rounding, held while the data fill 80 % of it', () => {
