@@ -18,7 +18,7 @@ import type { Signal } from '../core/steps/types.ts';
 import { farOf } from '../worker/bridge.ts';
 import { sameView, type Drawn, type FarSeries, type View } from '../worker/series.ts';
 import { PLOT_MARKERS, plotMarkers, tableTotals } from '../worker/peak-rank.ts';
-import { RESIDUAL_RANGE, steadyRange, TRACE_RANGE } from './plot-update.ts';
+import { extent, RESIDUAL_RANGE, steadyRange, TRACE_RANGE } from './plot-update.ts';
 import { getBackend } from '../state/service.ts';
 
 /** The main plotting area as last drawn: axis ranges and size in pixels (issue 17: label placement). */
@@ -274,10 +274,8 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   // Issue 16: over the whole trace, x spans exactly the trace (the library's own range would widen it by 5 % whenever a
   // marker sits near an end, so markers that move could move it), and figures can be updated in place (plot-update.ts).
   const xSpan = useMemo<[number, number] | null>(() => {
-    if (!sample) return null;
-    let lo = Infinity, hi = -Infinity;
-    for (let i = 0; i < sample.x.length; i++) { const v = sample.x[i]; if (v < lo) lo = v; if (v > hi) hi = v; }
-    return hi > lo ? [lo, hi] : null;
+    const e = sample ? extent(sample.x) : null;
+    return e && e[1] > e[0] ? e : null;
   }, [sample]);
 
   // Issue 16: both panels keep their range while the data stay about where they were (plot-update.ts), so a slider
@@ -286,9 +284,8 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const steadyY = useMemo(() => {
     const id = sample?.id ?? '';
     const held = heldRanges.current.trace === id ? heldRanges.current : { trace: id, y: null, y2: null };
-    const keep = (r: [number, number] | null, old: [number, number] | null) => (r && old && r[0] === old[0] && r[1] === old[1] ? old : r);
-    const y = keep(steadyRange(data.filter((t) => (t.yaxis ?? 'y') === 'y').map((t) => t.y), held.y, TRACE_RANGE), held.y);
-    const y2 = keep(steadyRange(data.filter((t) => t.yaxis === 'y2').map((t) => t.y), held.y2, RESIDUAL_RANGE), held.y2);
+    const y = steadyRange(data.filter((t) => (t.yaxis ?? 'y') === 'y').map((t) => t.y), held.y, TRACE_RANGE);
+    const y2 = steadyRange(data.filter((t) => t.yaxis === 'y2').map((t) => t.y), held.y2, RESIDUAL_RANGE);
     heldRanges.current = { trace: id, y, y2 };
     return { y, y2 };
   }, [data, sample]);

@@ -65,7 +65,7 @@ function differing(a: object, b: object): string[] {
 }
 
 /** Smallest and largest finite value, or null when there is none. */
-function extent(v: PlotValues | undefined): [number, number] | null {
+export function extent(v: PlotValues | undefined): [number, number] | null {
   if (!v) return null;
   let lo = Infinity, hi = -Infinity;
   for (let i = 0; i < v.length; i++) {

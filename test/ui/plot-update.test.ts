@@ -11,7 +11,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import type { PlotData, PlotLayout } from 'plotly.js-strict-dist-min';
-import { figureUpdate, pointsOf, RESIDUAL_RANGE, sameValue, steadyRange, TRACE_RANGE, type LiveFigure } from '../../src/ui/plot-update.ts';
+import { extent, figureUpdate, pointsOf, RESIDUAL_RANGE, sameValue, steadyRange, TRACE_RANGE, type LiveFigure } from '../../src/ui/plot-update.ts';
 
 const line = (name: string, y: number[], more: Partial<PlotData> = {}): PlotData =>
   ({ type: 'scatter', mode: 'lines', name, x: Float64Array.from(y, (_, i) => i), y: Float64Array.from(y), line: { color: '#111', width: 1 }, ...more });
@@ -109,6 +109,15 @@ describe('figureUpdate', () => {
   it('sends only the points of a trace', () => {
     const t = markers('m', [1], [2], { text: ['a'], hovertext: ['h'] });
     expect(pointsOf(t)).toEqual({ x: [1], y: [2], text: ['a'], hovertext: ['h'] });
+  });
+});
+
+describe('extent', () => {
+  it('smallest and largest finite value, skipping NaN, infinities and gaps; null when none', () => {
+    expect(extent(new Float64Array([3, Number.NaN, -1, Number.POSITIVE_INFINITY, 2]))).toEqual([-1, 3]);
+    expect(extent([null, 4, null])).toEqual([4, 4]);
+    expect(extent([Number.NaN])).toBeNull();
+    expect(extent(undefined)).toBeNull();
   });
 });
 
