@@ -34,7 +34,9 @@
  *   processed grid to give a profile; a constant shift of the whole trace
  *   (an asymmetric baseline settles lower on noisier data) is taken out of
  *   each series first, as a change of level, not noise. Cached per stack and
- *   noise model.
+ *   noise model. The throw-away runs restart from checkpoints: each noisy
+ *   input as processed up to the step the user is editing, so a slider drag
+ *   on the last of five steps reruns that step alone (see `simulatedRun`).
  */
 import { PipelineCache, runPipeline, type PipelineResult } from '../pipeline.ts';
 import type { Recipe, Registry } from '../method.ts';
@@ -404,29 +406,195 @@ function poolWidth(m: number, realisations: number): number {
   return Math.max(Math.ceil(256 / realisations), Math.ceil(m / 256));
 }
 
+/** Bytes of the checkpoints the simulated route keeps (see {@link simulatedRun}): at 10⁶ points, the two noisy inputs (one series, added and taken away) for the current stack and for the alternatives. */
+export const CHECKPOINT_BYTES = 32 * 1024 * 1024;
+let checkpointBytes = CHECKPOINT_BYTES;
+
+/** Set the checkpoints' byte budget (tests exercise the letting-go on short traces); returns the budget before. */
+export function setCarryCheckpointBytes(bytes: number): number {
+  const before = checkpointBytes;
+  checkpointBytes = bytes;
+  return before;
+}
+
+/**
+ * A noisy input of the simulated route as processed by the first `at` entries of the recipe (`sig` says which
+ * entries, by value), with the blank and scans as processed that far. `key` names the noisy input itself.
+ */
+interface Checkpoint {
+  readonly key: string;
+  /** The checkpoints that serve one run of the carriage (every series and sign of one stack up to `at`): kept or let go together. */
+  readonly group: string;
+  readonly at: number;
+  readonly sig: string;
+  readonly signal: Signal;
+  readonly ctx: StepContext;
+  readonly bytes: number;
+}
+
+/** Newest last. */
+const CHECKPOINTS: Checkpoint[] = [];
+
+/** Forget every checkpoint (tests; a fresh start). */
+export function clearCarryCheckpoints(): void {
+  CHECKPOINTS.length = 0;
+}
+
+/** How many checkpoints are kept and their bytes (tests, the heap bench). */
+export function carryCheckpointStats(): { count: number; bytes: number; groups: number[] } {
+  const groups = new Map<string, number>();
+  for (const c of CHECKPOINTS) groups.set(c.group, (groups.get(c.group) ?? 0) + 1);
+  return { count: CHECKPOINTS.length, bytes: CHECKPOINTS.reduce((s, c) => s + c.bytes, 0), groups: [...groups.values()] };
+}
+
+/** A number per typed array, by identity (so a checkpoint never meets other data under the same trace id). */
+const TOKENS = new WeakMap<Float64Array, number>();
+let nextToken = 1;
+function token(a: Float64Array): number {
+  let t = TOKENS.get(a);
+  if (t === undefined) { t = nextToken++; TOKENS.set(a, t); }
+  return t;
+}
+
+/** The first `at` entries of the recipe, by value (whether on, step, parameters). */
+function prefixSig(recipe: Recipe, at: number): string {
+  return JSON.stringify(recipe.steps.slice(0, at).map((s) => [s.enabled, s.step, s.params]));
+}
+
+/** The recipe's entries from `from` to `to` (a recipe of their own; nothing else of the recipe is read by the pipeline). */
+function slice(recipe: Recipe, from: number, to: number): Recipe {
+  return { ...recipe, steps: recipe.steps.slice(from, to) };
+}
+
+/**
+ * Keep `cp` as the newest. Over the byte budget, whole groups go, the least recently used first, never the
+ * group of `cp`: one series kept without its partner of the other sign would save half a run and hold the
+ * memory of a whole one (an entry-by-entry order let the alternatives' checkpoints push out one sign of the
+ * current stack's).
+ */
+function remember(cp: Checkpoint): void {
+  const same = CHECKPOINTS.findIndex((c) => c.key === cp.key && c.at === cp.at && c.sig === cp.sig);
+  if (same >= 0) CHECKPOINTS.splice(same, 1);
+  CHECKPOINTS.push(cp);
+  let held = CHECKPOINTS.reduce((s, c) => s + c.bytes, 0);
+  while (held > checkpointBytes) {
+    const oldest = CHECKPOINTS.find((c) => c.group !== cp.group);
+    if (!oldest) break;
+    for (let i = CHECKPOINTS.length - 1; i >= 0; i--) {
+      if (CHECKPOINTS[i].group === oldest.group) held -= CHECKPOINTS.splice(i, 1)[0].bytes;
+    }
+  }
+}
+
+/** Bytes a checkpoint holds beyond the arrays it shares with the raw inputs. */
+function heldBytes(signal: Signal, ctx: StepContext, raw: Signal): number {
+  const seen = new Set<ArrayBufferLike>([raw.x.buffer, raw.y.buffer]);
+  let b = 0;
+  const add = (a: Float64Array | undefined) => { if (a && !seen.has(a.buffer)) { seen.add(a.buffer); b += a.buffer.byteLength; } };
+  add(signal.x); add(signal.y);
+  add(ctx.blank?.x); add(ctx.blank?.y);
+  for (const s of ctx.scans ?? []) { add(s.x); add(s.y); }
+  return b;
+}
+
+/**
+ * Where the stack's throw-away runs on a noisy input may start again next time: the entry before the first one the
+ * sample's own run did not take from the pipeline cache (the step just edited; a slider drag edits it again), or
+ * the last entry that ran. Returns -1 when no entry ran. A split must not fall inside the part of the stack that
+ * still carries the repeated scans (up to the last averaging step, which consumes them), unless it is at the start.
+ */
+function splitPoint(run: PipelineResult, recipe: Recipe): number {
+  let firstNew = -1, lastOk = -1;
+  recipe.steps.forEach((_, i) => {
+    const r = run.runs[i];
+    if (r?.status === 'ok') { lastOk = i; if (!r.cached && firstNew < 0) firstNew = i; }
+  });
+  const k = firstNew >= 0 ? firstNew : lastOk;
+  return k > 0 && k <= lastScanUse(recipe) ? 0 : k;
+}
+
+/** Index of the last averaging step that is on (it consumes the scans; the pipeline processes them up to it), or -1. */
+function lastScanUse(recipe: Recipe): number {
+  let last = -1;
+  recipe.steps.forEach((e, i) => { if (e.enabled && e.step === 'ensemble-average') last = i; });
+  return last;
+}
+
+/**
+ * One throw-away run of the stack on a noisy input (`key` names it; `make` makes it). Runs are kept as
+ * checkpoints: the input as processed up to the split point (see {@link splitPoint}), so the next run of
+ * the same noisy input whose recipe starts with the same entries runs only the rest. Running the stack in two
+ * pieces gives the same numbers bit for bit: every step sees the same input and the same processed blank and
+ * scans (issue 16: with five steps at 10⁶ points the two full runs took about 7 s of every slider move).
+ */
+function simulatedRun(
+  key: string, groupOf: (at: number, sig: string) => string, make: () => { signal: Signal; ctx: StepContext }, raw: Signal, run: PipelineResult, recipe: Recipe, registry: Registry,
+): Float64Array {
+  const n = recipe.steps.length;
+  // A checkpoint past the start holds the scans as processed by a stack that averaged them within its part
+  // (or never): valid only when this recipe averages nothing after it either.
+  const scansTo = lastScanUse(recipe);
+  let start: { at: number; signal: Signal; ctx: StepContext } | undefined;
+  for (const c of CHECKPOINTS) {
+    if (c.key !== key || c.at > n || (c.at > 0 && c.at <= scansTo) || (start && c.at <= start.at)) continue;
+    if (c.sig === prefixSig(recipe, c.at)) start = c;
+  }
+  if (start) remember(start as Checkpoint);
+  else start = { at: 0, ...make() };
+  const k = splitPoint(run, recipe);
+  if (k >= 0 && (k > start.at || (k === 0 && start.at === 0 && !CHECKPOINTS.includes(start as Checkpoint)))) {
+    const mid = k > start.at
+      ? runPipeline(start.signal, 'noise-carry', slice(recipe, start.at, k), registry, start.ctx, undefined, undefined, COMPANIONS)
+      : null;
+    const signal = mid ? mid.final : start.signal;
+    const ctx = mid ? { blank: mid.companions.blank, scans: mid.companions.scans } : start.ctx;
+    const sig = prefixSig(recipe, k);
+    const cp: Checkpoint = { key, group: groupOf(k, sig), at: k, sig, signal, ctx, bytes: heldBytes(signal, ctx, raw) };
+    remember(cp);
+    start = cp;
+  }
+  return runPipeline(start.signal, 'noise-carry', slice(recipe, start.at, n), registry, start.ctx, undefined, undefined, COMPANIONS).final.y;
+}
+
 /**
  * Simulated route (see the file comment): R seeded series per source, the
  * stack run on raw + ε, the spread of the differences pooled in stretches.
  */
-export function carrySimulated(raw: Signal, run: PipelineResult, recipe: Recipe, registry: Registry, ctx: StepContext, noise: NoiseSources, seed = 20141): CarriedNoise {
+export function carrySimulated(
+  raw: Signal, run: PipelineResult, recipe: Recipe, registry: Registry, ctx: StepContext, noise: NoiseSources, seed = 20141,
+  /** false: run the whole stack on fresh noisy inputs, reading and keeping no checkpoint (the tests' reference). */
+  checkpoints = true,
+): CarriedNoise {
   const base = run.final;
   const m = base.y.length;
   const R = realisationsFor(raw.x.length);
   const sumSq = new Float64Array(m);
   const others = sourcesUsed(run, ctx, noise);
   const tapsSample = noiseShapingTaps(noise.sample.rho);
+  // What the noisy inputs are made of: the data (by identity), the noise models, the seeds.
+  const inputs = [
+    `x${token(raw.x)}y${token(raw.y)}:${modelKey(noise.sample)}`,
+    ...others.map((s) => `${s.label}:y${token(s.y)}:${modelKey(s.noise)}`),
+    `b${ctx.blank ? token(ctx.blank.y) : '-'}`,
+    `s${(ctx.scans ?? []).map((s) => `${s.id}:${token(s.x)}:${token(s.y)}`).join(',')}`,
+  ].join('|');
   const runWith = (sign: 1 | -1, r: number): Float64Array => {
-    const e = simulatedNoise(raw.x.length, noise.sample.profile, tapsSample, seed + r);
-    const y = new Float64Array(raw.y.length);
-    for (let i = 0; i < y.length; i++) y[i] = raw.y[i] + sign * e[i];
-    let c: StepContext = ctx;
-    others.forEach((s, k) => {
-      const es = simulatedNoise(s.y.length, constantProfile(s.y.length, s.noise.sigma), noiseShapingTaps(s.noise.rho), seed + 1000 * (k + 1) + r);
-      const ys = new Float64Array(s.y.length);
-      for (let i = 0; i < ys.length; i++) ys[i] = s.y[i] + sign * es[i];
-      c = ctxReplacing(c, s.y, ys);
-    });
-    const out = runPipeline({ x: raw.x, y }, 'noise-carry', recipe, registry, c, undefined, undefined, COMPANIONS).final.y;
+    const make = () => {
+      const e = simulatedNoise(raw.x.length, noise.sample.profile, tapsSample, seed + r);
+      const y = new Float64Array(raw.y.length);
+      for (let i = 0; i < y.length; i++) y[i] = raw.y[i] + sign * e[i];
+      let c: StepContext = ctx;
+      others.forEach((s, k) => {
+        const es = simulatedNoise(s.y.length, constantProfile(s.y.length, s.noise.sigma), noiseShapingTaps(s.noise.rho), seed + 1000 * (k + 1) + r);
+        const ys = new Float64Array(s.y.length);
+        for (let i = 0; i < ys.length; i++) ys[i] = s.y[i] + sign * es[i];
+        c = ctxReplacing(c, s.y, ys);
+      });
+      return { signal: { x: raw.x, y }, ctx: c };
+    };
+    const out = checkpoints
+      ? simulatedRun(`${inputs}|seed ${seed + r}|sign ${sign}`, (at, sig) => `${inputs}|seed ${seed}|${at}|${sig}`, make, raw, run, recipe, registry)
+      : ((m0) => runPipeline(m0.signal, 'noise-carry', recipe, registry, m0.ctx, undefined, undefined, COMPANIONS).final.y)(make());
     if (out.length !== m) throw new Error('the processed grid changed when noise was added');
     return out;
   };
