@@ -10,6 +10,7 @@ import type { Call, FromWorker, Method, ParamsOf, ProgressOf, ResultOf, ThroughP
 import { HeldTraces } from './held-traces.ts';
 import { cloneResultForTransfer, columnBuffers, toColumns, transferablesOf } from './transfer.ts';
 import { runStages } from './stager.ts';
+import { releaseBigPlan } from '../core/numeric/fft.ts';
 import { runBatch } from '../core/export/batch.ts';
 import { SeriesStore } from './series.ts';
 import { STEP_REGISTRY } from '../core/steps/registry.ts';
@@ -128,6 +129,9 @@ async function call(msg: Call): Promise<void> {
     }
   } catch (e) {
     post({ type: 'failed', jobId, message: e instanceof Error ? `${e.name}: ${e.message}` : String(e) });
+  } finally {
+    // A big FFT plan (42 MB for a frequency filter at 10⁶ points) is not kept between jobs (issue 16, heap).
+    releaseBigPlan();
   }
 }
 

@@ -19,7 +19,9 @@ let lastBig: FFT | null = null;
 /**
  * fft.js plan for a power-of-two size. Small plans are kept; of the big ones
  * (their tables take megabytes) only the latest, since a forward and an
- * inverse transform of one size usually follow each other.
+ * inverse transform of one size usually follow each other, and only until
+ * {@link releaseBigPlan} (the worker lets it go after each job: at 2²¹
+ * points, the size a 10⁶-point frequency filter needs, it holds 42 MB).
  */
 function plan(size: number): FFT {
   if (size <= 1 << 16) {
@@ -30,21 +32,62 @@ function plan(size: number): FFT {
     }
     return f;
   }
-  if (!lastBig || lastBig.size !== size) lastBig = compact(new FFT(size));
+  if (!lastBig || lastBig.size !== size) lastBig = typedPlan(size);
   return lastBig;
 }
 
+/** Let the big plan go (it is made again, in about 60 ms at 2²¹ points, when next needed). */
+export function releaseBigPlan(): void {
+  lastBig = null;
+}
+
+/** The fields of an fft.js plan (lib/fft.js 4.0.4); the transforms read nothing else. */
+interface PlanFields {
+  size: number;
+  _csize: number;
+  table: Float64Array;
+  _width: number;
+  _bitrev: Int32Array;
+  _out: null;
+  _data: null;
+  _inv: number;
+}
+
 /**
- * The plan's tables as typed arrays, the same numbers: fft.js builds them as
- * plain arrays of boxed numbers, which for 2²¹ points held about 60 MB of the
- * worker's heap, against 40 MB as Float64Array and Int32Array (issue 16). It
- * only reads them by index, so the transforms give the same bits.
+ * An fft.js plan whose tables are typed arrays, made directly with fft.js's
+ * own expressions (so the same numbers, bit for bit): its constructor builds
+ * them as plain arrays of boxed numbers, which for 2²¹ points held about
+ * 60 MB of the worker's heap against 42 MB as Float64Array and Int32Array,
+ * and took about 230 ms with the copy (issue 16). It only reads them by index.
  */
-function compact(f: FFT): FFT {
-  const p = f as unknown as { table: ArrayLike<number>; _bitrev?: ArrayLike<number> };
-  p.table = Float64Array.from(p.table);
-  if (p._bitrev) p._bitrev = Int32Array.from(p._bitrev);
-  return f;
+function typedPlan(size: number): FFT {
+  const f = Object.create(FFT.prototype) as PlanFields;
+  f.size = size | 0;
+  f._csize = size << 1;
+  const table = new Float64Array(f.size * 2);
+  for (let i = 0; i < table.length; i += 2) {
+    const angle = Math.PI * i / f.size;
+    table[i] = Math.cos(angle);
+    table[i + 1] = -Math.sin(angle);
+  }
+  f.table = table;
+  let power = 0;
+  for (let t = 1; f.size > t; t <<= 1) power++;
+  f._width = power % 2 === 0 ? power - 1 : power;
+  const bitrev = new Int32Array(1 << f._width);
+  for (let j = 0; j < bitrev.length; j++) {
+    let r = 0;
+    for (let shift = 0; shift < f._width; shift += 2) {
+      const revShift = f._width - shift - 2;
+      r |= ((j >>> shift) & 3) << revShift;
+    }
+    bitrev[j] = r;
+  }
+  f._bitrev = bitrev;
+  f._out = null;
+  f._data = null;
+  f._inv = 0;
+  return f as unknown as FFT;
 }
 
 /** Power-of-two transform of interleaved complex data into a new array. */
