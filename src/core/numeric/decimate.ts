@@ -67,3 +67,32 @@ export function decimateMinMax(
   push(end);
   return { x: ox.slice(0, m), y: oy.slice(0, m), thinned: true };
 }
+
+/**
+ * Two series on one x grid thinned together for a small figure: the first
+ * point kept as it is, the rest split into `groups` runs of consecutive
+ * points, each run giving the points where either series has its minimum or
+ * maximum (up to four, in x order), so both keep every extreme of every run
+ * and still share one x array. Returned whole when it would not shrink.
+ */
+export function thinTogether(x: Float64Array, a: Float64Array, b: Float64Array, groups: number): { x: Float64Array; a: Float64Array; b: Float64Array; thinned: boolean } {
+  const n = x.length;
+  const g = Math.max(1, Math.floor(groups));
+  if (n <= 1 + 4 * g) return { x, a, b, thinned: false };
+  const keep: number[] = [0];
+  const span = n - 1;
+  for (let c = 0; c < g; c++) {
+    const from = 1 + Math.floor((c * span) / g), to = Math.floor(((c + 1) * span) / g); // inclusive
+    if (to < from) continue;
+    let aMin = from, aMax = from, bMin = from, bMax = from;
+    for (let i = from + 1; i <= to; i++) {
+      if (a[i] < a[aMin]) aMin = i;
+      if (a[i] > a[aMax]) aMax = i;
+      if (b[i] < b[bMin]) bMin = i;
+      if (b[i] > b[bMax]) bMax = i;
+    }
+    for (const i of [...new Set([aMin, aMax, bMin, bMax])].sort((p, q) => p - q)) keep.push(i);
+  }
+  const pick = (v: Float64Array) => Float64Array.from(keep, (i) => v[i]);
+  return { x: pick(x), a: pick(a), b: pick(b), thinned: true };
+}

@@ -19,9 +19,13 @@
  */
 import { dft, nextPowerOfTwo, powerSpectrum } from '../numeric/fft.ts';
 import { meanStep } from '../numeric/interpolate.ts';
+import { thinTogether } from '../numeric/decimate.ts';
 import type { Signal, StepDefinition, StepOutput } from './types.ts';
 
 export { powerSpectrum };
+
+/** Runs of frequency bins the spectra of the step's figure are thinned to (see {@link thinTogether}). */
+export const SPECTRUM_GROUPS = 1024;
 
 /** Gain as a function of frequency (cycles per x-unit, ≥ 0). */
 export type FrequencyResponse = (f: number) => number;
@@ -249,11 +253,15 @@ export const frequencyFilterStep: StepDefinition<FrequencyFilterParams> = {
       pa += after.power[k];
     }
     notes.push('Near each end the filter treats the trace as continuing smoothly (point reflection); what it removes may leave a small decaying remnant there.');
+    // The spectra are for the step's small figure (a few hundred columns): a long trace's are kept as the
+    // extremes of 1,024 runs of bins (issue 16: 500,000 bins each held 12 MB in the cache and again on the page).
+    const shown = thinTogether(before.freq, before.power, after.power, SPECTRUM_GROUPS);
+    if (shown.thinned) notes.push(`The spectra shown keep the lowest and highest power of each of ${SPECTRUM_GROUPS.toLocaleString('en-US')} runs of frequencies (${before.freq.length.toLocaleString('en-US')} in all); the filter itself used every one.`);
     return {
       x: Float64Array.from(input.x),
       y,
       notes,
-      extra: { spectrumFreq: before.freq, spectrumBefore: before.power, spectrumAfter: after.power },
+      extra: { spectrumFreq: shown.x, spectrumBefore: shown.a, spectrumAfter: shown.b },
       figures: { varianceKeptRatio: pb > 0 ? pa / pb : 1 },
     };
   },

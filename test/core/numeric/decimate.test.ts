@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { decimateMinMax, lowerBound } from '../../../src/core/numeric/decimate.ts';
+import { decimateMinMax, lowerBound, thinTogether } from '../../../src/core/numeric/decimate.ts';
 import { makeRng } from '../../../src/core/numeric/random.ts';
 
 /** Seeded uniform numbers from the project's generator (mulberry32). */
@@ -69,5 +69,44 @@ describe('decimateMinMax', () => {
     expect(wide.thinned).toBe(true);
     expect(zoom.thinned).toBe(false);
     expect(zoom.x.length).toBe(lowerBound(x, 5005) - lowerBound(x, 5000) + 2);
+  });
+});
+
+describe('thinTogether (two spectra on one grid, for a small figure)', () => {
+  // The definition is the reference: every run of consecutive points after the first keeps the places of both
+  // series' minimum and maximum, so each series' extreme over any run is still drawn, and nothing else is made up.
+  it('keeps the first point and, in every run, both series\' minimum and maximum at their own x, in x order', () => {
+    const rng = makeRng(77);
+    for (const [n, groups] of [[100_001, 1024], [5000, 10], [4098, 1024]] as const) {
+      const x = Float64Array.from({ length: n }, (_, i) => i * 0.5);
+      const a = Float64Array.from({ length: n }, () => Math.exp(3 * rng.normal()));
+      const b = Float64Array.from({ length: n }, (_, i) => a[i] * (i % 97 === 0 ? 1e-6 : rng.uniform()));
+      const t = thinTogether(x, a, b, groups);
+      expect(t.thinned).toBe(true);
+      expect(t.x[0]).toBe(x[0]);
+      expect(t.x.length).toBeLessThanOrEqual(1 + 4 * groups);
+      for (let i = 1; i < t.x.length; i++) expect(t.x[i]).toBeGreaterThan(t.x[i - 1]);
+      // Every kept point is a point of the input, both series taken at the same index.
+      for (let i = 0; i < t.x.length; i++) { const k = t.x[i] / 0.5; expect(t.a[i]).toBe(a[k]); expect(t.b[i]).toBe(b[k]); }
+      const span = n - 1;
+      for (let c = 0; c < groups; c++) {
+        const from = 1 + Math.floor((c * span) / groups), to = Math.floor(((c + 1) * span) / groups);
+        const kept = (v: Float64Array, w: Float64Array) => { const out: number[] = []; for (let i = 0; i < t.x.length; i++) { const k = t.x[i] / 0.5; if (k >= from && k <= to) out.push(w[i]); } return out; };
+        const runA = Array.from(a.subarray(from, to + 1)), runB = Array.from(b.subarray(from, to + 1));
+        expect(Math.max(...kept(a, t.a))).toBe(Math.max(...runA));
+        expect(Math.min(...kept(a, t.a))).toBe(Math.min(...runA));
+        expect(Math.max(...kept(b, t.b))).toBe(Math.max(...runB));
+        expect(Math.min(...kept(b, t.b))).toBe(Math.min(...runB));
+      }
+    }
+  });
+
+  it('returns the arrays themselves when thinning would not shrink them', () => {
+    const x = Float64Array.from({ length: 41 }, (_, i) => i), a = x.map((v) => v * v), b = x.map((v) => -v);
+    const t = thinTogether(x, a, b, 10);
+    expect(t.thinned).toBe(false);
+    expect(t.x).toBe(x);
+    expect(t.a).toBe(a);
+    expect(t.b).toBe(b);
   });
 });

@@ -7,6 +7,7 @@ import {
   lowPassResponse,
   notchResponse,
   powerSpectrum,
+  SPECTRUM_GROUPS,
 } from '../../../src/core/steps/frequency-filter.ts';
 
 interface Reference {
@@ -163,6 +164,26 @@ describe('frequency-filter step', () => {
     expect(before?.[90]).toBeCloseTo(0.045, 3);
     // Power left at 60 Hz comes only from the end remnants: require a cut by more than 100 (20 dB).
     expect(after?.[90]).toBeLessThan(0.045 * 1e-2);
+  });
+
+  it('a long trace: the spectra for the figure are thinned (said in a note), the 60 Hz line still stands out of them, the filter and its variance figure are untouched', () => {
+    const m = 200_000;
+    const xl = Float64Array.from({ length: m }, (_, i) => i * 0.001);
+    const yl = xl.map((t) => Math.exp(-0.5 * ((t - 70) / 0.05) ** 2) + 0.3 * Math.sin(2 * Math.PI * 60 * t));
+    const p = { ...frequencyFilterStep.defaults, kind: 'notch' as const, centre: 60, width: 2 };
+    const out = frequencyFilterStep.apply({ x: xl, y: yl }, p, {});
+    const f = out.extra!.spectrumFreq, before = out.extra!.spectrumBefore, after = out.extra!.spectrumAfter;
+    expect(f.length).toBeLessThanOrEqual(1 + 4 * SPECTRUM_GROUPS);
+    expect(out.notes.some((t) => t.includes(`each of ${SPECTRUM_GROUPS.toLocaleString('en-US')} runs of frequencies (100,001 in all)`))).toBe(true);
+    // The full spectrum's 60 Hz bin (A²/2 = 0.045) is the largest away from zero frequency, so the thinned one keeps it.
+    const at60 = f.findIndex((v) => Math.abs(v - 60) < 1e-9);
+    expect(at60).toBeGreaterThan(0);
+    expect(before[at60]).toBeCloseTo(0.045, 3);
+    expect(after[at60]).toBeLessThan(0.045 * 1e-2);
+    // The filter still works on the whole spectrum: the trace keeps its length and its variance figure is the
+    // ratio of the full spectra's total power (which the 60 Hz line dominates: about 0.045 of 0.046 removed).
+    expect(out.y.length).toBe(m);
+    expect(out.figures!.varianceKeptRatio).toBeLessThan(0.1);
   });
 
   it('low-pass cutoff as a fraction of half the sampling rate equals the same cutoff in cycles per x-unit', () => {
