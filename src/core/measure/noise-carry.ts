@@ -338,8 +338,12 @@ export function carryLinear(raw: Signal, run: PipelineResult, recipe: Recipe, re
     shares.push(`${s.label} adds σ ${fmt(Math.sqrt(v), 3)} (its own σ ${fmt(s.noise.sigma, 3)} × gain ${fmt(Math.sqrt(passedVariance(gs, s.noise.rho)), 4)})`);
   }
   const values = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const sr = sigmaAt(noise.sample.profile, i);
+  // σ of the raw sample at each index: its profile's runs walked in order (what sigmaAt finds by binary search,
+  // once per point; at 10⁶ points that search was most of this function's time on every slider move).
+  const { starts, sigma: runSigma } = noise.sample.profile;
+  for (let i = 0, run = 0; i < n; i++) {
+    while (run + 1 < starts.length && starts[run + 1] <= i) run++;
+    const sr = runSigma[run];
     values[i] = Math.sqrt(sr * sr * gainSq[i] + otherVar[i]);
   }
   const profile = profileFromValues(values);

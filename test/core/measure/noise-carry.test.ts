@@ -94,6 +94,20 @@ describe('linear algebra of the carriage', () => {
     expect(r.noise!.sigma.sigma).toBeLessThan(1.55 * raw);
   });
 
+  it('a raw σ that changes along the trace is carried run by run: white noise through a 5-point average gives each run\'s σ/√5 (exact rows at the ends)', () => {
+    const n = 1000;
+    const t = traceOf(normalArray(5, n));
+    const raw = { x: t.x, y: t.y };
+    const rec = recipe(['moving-average', { window: 5 }]);
+    const run = runPipeline(raw, 't', rec, STEP_REGISTRY);
+    const profile = { points: n, starts: Int32Array.of(0, 300, 700), sigma: Float64Array.of(1, 2, 0.5) };
+    const c = carryLinear(raw, run, rec, STEP_REGISTRY, {}, { sample: { profile, sigma: 1, rho: Float64Array.of(1) } });
+    // Away from the ends, each point's σ is its own run's σ times the average's gain 1/√5 (one shared rounding).
+    for (const [i, s] of [[10, 1], [299, 1], [300, 2], [500, 2], [699, 2], [700, 0.5], [989, 0.5]] as const) {
+      expect(sigmaAt(c.profile, i)).toBeCloseTo(s / Math.sqrt(5), 12);
+    }
+  });
+
   it('every step marked linear is affine in its input: process(y + δ) − process(y) does not depend on y', () => {
     const n = 256;
     const d = normalArray(5, n);
