@@ -125,7 +125,10 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
         })
         .catch((e: unknown) => { last.current = null; fail(e); });
     };
-    queue.current = queue.current.then(() => {
+    // Issue 16: the drawing runs in a task of its own, after the one that committed this render (the worker's message,
+    // the store and React's commit of every panel), so no single task holds both; a newer render before it runs
+    // cancels it (only the newest figure is drawn).
+    queue.current = queue.current.then(nextTask).then(() => {
       try { return draw(); } catch (e) { last.current = null; fail(e); return undefined; }
     });
     return () => { cancelled = true; };
@@ -157,6 +160,18 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
       )}
     </>
   );
+}
+
+/**
+ * Resolves in a new task (a message to itself: no clamping as timers have, and unlike an animation frame it does not
+ * wait for the next frame), so the work after it is not part of the task that is running now.
+ */
+export function nextTask(): Promise<void> {
+  return new Promise((resolve) => {
+    const channel = new MessageChannel();
+    channel.port1.onmessage = () => { channel.port1.close(); resolve(); };
+    channel.port2.postMessage(null);
+  });
 }
 
 /** What the drawn figure says now (plot-update.ts): traces the user hid with the key, axes the user let the library range. */
