@@ -90,20 +90,22 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
         marked = true;
         if (drawnTag !== undefined) el.setAttribute('data-drawn', drawnTag);
         // Read by e2e/figure-update.spec.ts and e2e/timing.bench.mjs: how it was drawn, and why whole.
-        el.setAttribute('data-drawn-as', update?.kind === 'in-place' ? 'in place' : 'whole');
-        el.setAttribute('data-drawn-why', update === null ? 'first drawing' : update.kind === 'whole' ? update.why : '');
+        el.setAttribute('data-drawn-as', update?.kind === 'in-place' ? (update.ranges ? 'new range, then in place' : 'in place') : 'whole');
+        el.setAttribute('data-drawn-why', update === null ? 'first drawing' : update.kind === 'whole' ? update.why : update.ranges ? Object.keys(update.ranges).join(', ') : '');
         setFailure(null);
         drawn.current?.(null);
       };
-      let drawing: Promise<PlotlyHTMLElement>;
-      if (update?.kind === 'in-place' && update.traces.length) {
-        // The library's animation step with no transition and no redraw: the traces' points replaced, only those traces
-        // drawn again, the axes left as they are. It draws in the microtasks after its "transitioning" event and
-        // settles a frame later; the figure counts as drawn when the drawing is done.
-        const gd = el as PlotlyHTMLElement;
+      const gd = el as PlotlyHTMLElement;
+      /**
+       * The library's animation step with no transition and no redraw: the traces' points replaced, only those traces
+       * drawn again, the axes left as they are. It draws in the microtasks after its "transitioning" event and
+       * settles a frame later; the figure counts as drawn when the drawing is done.
+       */
+      const inPlace = (traces: number[]): Promise<PlotlyHTMLElement> => {
+        if (!traces.length) return Promise.resolve(gd);
         const onDrawing = () => { gd.removeListener?.('plotly_transitioning', onDrawing); queueMicrotask(markDrawn); };
         gd.on('plotly_transitioning', onDrawing);
-        drawing = Plotly.animate(el, { data: update.traces.map((i) => pointsOf(guarded.data[i])), traces: update.traces }, { mode: 'immediate', transition: { duration: 0 }, frame: { duration: 0, redraw: false } })
+        return Plotly.animate(el, { data: traces.map((i) => pointsOf(guarded.data[i])), traces }, { mode: 'immediate', transition: { duration: 0 }, frame: { duration: 0, redraw: false } })
           .finally(() => gd.removeListener?.('plotly_transitioning', onDrawing))
           // An update the library broke off (another drawing of the element interrupted it) is drawn whole instead.
           .catch(() => {
@@ -111,8 +113,18 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
             update = { kind: 'whole', why: 'an update in place was interrupted' };
             return Plotly.react(el, guarded.data, guarded.layout, config);
           });
+      };
+      let drawing: Promise<PlotlyHTMLElement>;
+      if (update?.kind === 'in-place' && update.ranges) {
+        // Issue 16: a y axis's new range (the residual outgrew its panel) is set in one task, where the library draws
+        // the axis and the traces as they were, then the changed traces are replaced in place in the next task: two
+        // shorter tasks instead of one whole drawing. Between them the figure shows the previous data under the new
+        // range, never new data under the old one. Both steps run even when a newer figure is waiting (it is drawn
+        // after them and compared with this one).
+        const { ranges, traces } = update;
+        drawing = Plotly.relayout(el, ranges).then(nextTask).then(() => inPlace(traces));
       } else if (update?.kind === 'in-place') {
-        drawing = Promise.resolve(el as PlotlyHTMLElement);
+        drawing = inPlace(update.traces);
       } else {
         drawing = Plotly.react(el, guarded.data, guarded.layout, config);
       }
