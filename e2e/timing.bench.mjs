@@ -28,7 +28,9 @@
 //                           new result (data-drawn on the figure, set once Plotly has drawn it)
 //   slider_to_peaks_ms      … → the first frame after the peak table shows it (data-result-seq)
 //   slider_to_loss_ms       … → the first frame after the loss panel shows it (data-result-seq)
-//   longest_task_ms         the longest main-thread task (longtask observer) during the moves
+//   longest_task_ms         the longest main-thread task (longtask observer) during the moves: from each
+//                           slider input until the page is idle again (the figure's drawing of the last stage
+//                           runs after the loss panel shows it)
 // Printed besides (not in the TIMING line): the figure redrawn with no analysis behind it (the raw
 // trace switched off and on), the plot library's share of every stage that changes the figure.
 //   heap_mb                 after the moves: JS heap in use plus array-buffer and external-string
@@ -257,9 +259,18 @@ async function moveSlider({ value, timeoutMs }) {
     };
     requestAnimationFrame(tick);
   });
+  // The figure may still be drawing the last stage (its drawing runs in a task after the panels' commit): the drawings
+  // and long tasks of the move are read by moveTail once the page is idle again.
+  w.__move = { t0, tasksBefore, drawings, drawnMo };
+  return { ...got, seqBefore: before.peaks, seqAfter: w.__seq(...targets.peaks) };
+}
+
+/** After a move, once the page is idle: how the figure was drawn meanwhile, and every main-thread task over 50 ms since the slider moved. */
+function moveTail() {
+  const { t0, tasksBefore, drawings, drawnMo } = window.__move;
   drawnMo.disconnect();
-  const tasks = w.__longTasks.slice(tasksBefore).filter((t) => t.start + t.duration >= t0);
-  return { ...got, drawings, longest: tasks.reduce((m, t) => Math.max(m, t.duration), 0), seqBefore: before.peaks, seqAfter: w.__seq(...targets.peaks) };
+  const tasks = window.__longTasks.slice(tasksBefore).filter((t) => t.start + t.duration >= t0).map((t) => t.duration);
+  return { drawings, tasks, longest: tasks.reduce((m, d) => Math.max(m, d), 0) };
 }
 
 // ---------------------------------------------------------------------------
@@ -433,10 +444,12 @@ async function main() {
       const idle = await page.evaluate(waitIdle, 300_000);
       const tracing = o.trace && k === Math.min(1, o.moves - 1);
       if (tracing) await browser.startTracing(page, { path: o.trace, categories: ['devtools.timeline', 'disabled-by-default-devtools.timeline', 'blink.user_timing', 'v8.execute'] });
-      const m = await page.evaluate(moveSlider, { value, timeoutMs: 300_000 });
+      const shown = await page.evaluate(moveSlider, { value, timeoutMs: 300_000 });
+      await page.evaluate(waitIdle, 300_000);
+      const m = { ...shown, ...(await page.evaluate(moveTail)) };
       if (tracing) { await browser.stopTracing(); console.log(`  trace of this move written to ${o.trace}`); }
       moves.push(m);
-      console.log(`  move to ${value} points (idle after ${idle.toFixed(0)} ms): processed ${m.processed.toFixed(0)} ms, peaks ${m.peaks.toFixed(0)} ms, loss ${m.loss.toFixed(0)} ms, longest task ${m.longest.toFixed(0)} ms, figure drawn ${m.drawings.join(' + ') || 'never'}${m.seqAfter - m.seqBefore !== 1 ? ` (${m.seqAfter - m.seqBefore} results arrived)` : ''}`);
+      console.log(`  move to ${value} points (idle after ${idle.toFixed(0)} ms): processed ${m.processed.toFixed(0)} ms, peaks ${m.peaks.toFixed(0)} ms, loss ${m.loss.toFixed(0)} ms, longest task ${m.longest.toFixed(0)} ms (tasks over 50 ms: ${m.tasks.map((d) => d.toFixed(0)).join(', ') || 'none'}), figure drawn ${m.drawings.join(' + ') || 'never'}${m.seqAfter - m.seqBefore !== 1 ? ` (${m.seqAfter - m.seqBefore} results arrived)` : ''}`);
       if (workerProfiling && k === 0) {
         // The analysis worker is the one whose profile holds the most functions (the load worker sits idle).
         const profiles = [];

@@ -90,20 +90,22 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
         marked = true;
         if (drawnTag !== undefined) el.setAttribute('data-drawn', drawnTag);
         // Read by e2e/figure-update.spec.ts and e2e/timing.bench.mjs: how it was drawn, and why whole.
-        el.setAttribute('data-drawn-as', update?.kind === 'in-place' ? 'in place' : 'whole');
-        el.setAttribute('data-drawn-why', update === null ? 'first drawing' : update.kind === 'whole' ? update.why : '');
+        el.setAttribute('data-drawn-as', update?.kind === 'in-place' ? (update.ranges ? 'new range, then in place' : 'in place') : 'whole');
+        el.setAttribute('data-drawn-why', update === null ? 'first drawing' : update.kind === 'whole' ? update.why : update.ranges ? Object.keys(update.ranges).join(', ') : '');
         setFailure(null);
         drawn.current?.(null);
       };
-      let drawing: Promise<PlotlyHTMLElement>;
-      if (update?.kind === 'in-place' && update.traces.length) {
-        // The library's animation step with no transition and no redraw: the traces' points replaced, only those traces
-        // drawn again, the axes left as they are. It draws in the microtasks after its "transitioning" event and
-        // settles a frame later; the figure counts as drawn when the drawing is done.
-        const gd = el as PlotlyHTMLElement;
+      const gd = el as PlotlyHTMLElement;
+      /**
+       * The library's animation step with no transition and no redraw: the traces' points replaced, only those traces
+       * drawn again, the axes left as they are. It draws in the microtasks after its "transitioning" event and
+       * settles a frame later; the figure counts as drawn when the drawing is done.
+       */
+      const inPlace = (traces: number[]): Promise<PlotlyHTMLElement> => {
+        if (!traces.length) return Promise.resolve(gd);
         const onDrawing = () => { gd.removeListener?.('plotly_transitioning', onDrawing); queueMicrotask(markDrawn); };
         gd.on('plotly_transitioning', onDrawing);
-        drawing = Plotly.animate(el, { data: update.traces.map((i) => pointsOf(guarded.data[i])), traces: update.traces }, { mode: 'immediate', transition: { duration: 0 }, frame: { duration: 0, redraw: false } })
+        return Plotly.animate(el, { data: traces.map((i) => pointsOf(guarded.data[i])), traces }, { mode: 'immediate', transition: { duration: 0 }, frame: { duration: 0, redraw: false } })
           .finally(() => gd.removeListener?.('plotly_transitioning', onDrawing))
           // An update the library broke off (another drawing of the element interrupted it) is drawn whole instead.
           .catch(() => {
@@ -111,8 +113,18 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
             update = { kind: 'whole', why: 'an update in place was interrupted' };
             return Plotly.react(el, guarded.data, guarded.layout, config);
           });
+      };
+      let drawing: Promise<PlotlyHTMLElement>;
+      if (update?.kind === 'in-place' && update.ranges) {
+        // Issue 16: a y axis's new range (the residual outgrew its panel) is set in one task, where the library draws
+        // the axis and the traces as they were, then the changed traces are replaced in place in the next task: two
+        // shorter tasks instead of one whole drawing. Between them the figure shows the previous data under the new
+        // range, never new data under the old one. Both steps run even when a newer figure is waiting (it is drawn
+        // after them and compared with this one).
+        const { ranges, traces } = update;
+        drawing = Plotly.relayout(el, ranges).then(nextTask).then(() => inPlace(traces));
       } else if (update?.kind === 'in-place') {
-        drawing = Promise.resolve(el as PlotlyHTMLElement);
+        drawing = inPlace(update.traces);
       } else {
         drawing = Plotly.react(el, guarded.data, guarded.layout, config);
       }
@@ -125,7 +137,10 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
         })
         .catch((e: unknown) => { last.current = null; fail(e); });
     };
-    queue.current = queue.current.then(() => {
+    // Issue 16: the drawing runs in a task of its own, after the one that committed this render (the worker's message,
+    // the store and React's commit of every panel), so no single task holds both; a newer render before it runs
+    // cancels it (only the newest figure is drawn).
+    queue.current = queue.current.then(nextTask).then(() => {
       try { return draw(); } catch (e) { last.current = null; fail(e); return undefined; }
     });
     return () => { cancelled = true; };
@@ -157,6 +172,23 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
       )}
     </>
   );
+}
+
+/**
+ * Resolves in a new task, so the work after it is not part of the task that is running now. The browser's task
+ * scheduler at "user-blocking" priority where there is one (Chromium): it runs before the worker's later messages
+ * and the page's other waiting tasks (a message to itself, the fallback, waited behind them: at 10⁵ points a figure
+ * drawing of the processed trace was still waiting when the peaks arrived 60 ms later, and was drawn only with them).
+ * Unlike an animation frame it does not wait for the next frame; unlike a timer it is not clamped.
+ */
+export function nextTask(): Promise<void> {
+  const scheduler = (globalThis as { scheduler?: { postTask?: (f: () => void, o: { priority: string }) => Promise<void> } }).scheduler;
+  if (scheduler?.postTask) return scheduler.postTask(() => undefined, { priority: 'user-blocking' });
+  return new Promise((resolve) => {
+    const channel = new MessageChannel();
+    channel.port1.onmessage = () => { channel.port1.close(); resolve(); };
+    channel.port2.postMessage(null);
+  });
 }
 
 /** What the drawn figure says now (plot-update.ts): traces the user hid with the key, axes the user let the library range. */

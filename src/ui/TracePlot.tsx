@@ -111,8 +111,6 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const belowMarkers = useRef<{ drawn: number; of: number } | null>(null);
   /** Issue 16: peaks that appear only after processing with a square, and in all (BORN_SQUARES). */
   const bornSquaresDrawn = useRef<{ drawn: number; of: number } | null>(null);
-  /** Issue 16: features some choice loses with a ring, and in all (LOST_RINGS). */
-  const lostRings = useRef<{ drawn: number; of: number } | null>(null);
   const figEl = useRef<HTMLElement | null>(null);
   const excluded = useApp((s) => s.peakSettings.excluded);
   const addPeakMode = useApp((s) => s.addPeakMode);
@@ -200,8 +198,33 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
     return traces;
   }, [peaks, peakOptions, names, geom, xRange]);
 
+  // Features detectable on the raw trace that some column loses: marked where they were found. At most LOST_RINGS of
+  // them (quantifiable first, then the highest S/N); a note under the plot says how many of how many. Issue 16: made
+  // again only when the loss check or the trace changes, not at every stage (ranking the ledger's rows and reading
+  // the trace under each ring took about 25 ms at 10⁶ points).
+  const loss = result?.loss ?? null;
+  const lostTrace = useMemo<{ trace: PlotData | null; rings: { drawn: number; of: number } | null }>(() => {
+    if (!sample || !loss) return { trace: null, rings: null };
+    const { ringed: lost, of } = lostFeatures(loss.ledger.rows);
+    const rings = lost.length < of ? { drawn: lost.length, of } : null;
+    if (!lost.length) return { trace: null, rings };
+    const lx = Float64Array.from(lost.map((r) => r.position));
+    const ly = interpolateLinear(sample.x, sample.y, lx);
+    return {
+      rings,
+      trace: {
+        type: 'scatter', mode: 'markers', name: 'features lost by some choice',
+        x: lx, y: ly,
+        text: lost.map((r) => `lost with: ${r.cells.map((c, k) => (c.found || k < r.firstFoundIn ? null : loss.ledger.alternatives[k].label)).filter(Boolean).join(', ')}`),
+        hoverinfo: 'x+text',
+        marker: { symbol: 'circle-open', size: 22, color: COLOURS.lost, line: { width: 2.5, color: COLOURS.lost } },
+        xaxis: 'x', yaxis: 'y',
+      },
+    };
+  }, [sample, loss]);
+  const lostRings = result ? lostTrace.rings : null;
+
   const data = useMemo<PlotData[]>(() => {
-    lostRings.current = null;
     if (!sample) return [];
     const { from, to, columns } = view;
     /** A series as drawn: the worker's drawing when it stayed there, else decimated here (it is short). */
@@ -229,24 +252,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
           traces.push({ type: 'scatter', mode: 'lines', name: o.label, x: d.x, y: d.y, line: { color: ALTERNATIVE_COLOURS[(i < 0 ? 0 : i) % ALTERNATIVE_COLOURS.length], width: 1.2, dash: ['dash', 'dot', 'dashdot', 'longdash', 'longdashdot', 'solid'][(i < 0 ? 0 : i) % 6] }, xaxis: 'x', yaxis: 'y' });
         });
       }
-      if (result.loss) {
-        // Features detectable on the raw trace that some column loses: marked where they were found.
-        // At most LOST_RINGS of them (quantifiable first, then the highest S/N); a note under the plot says how many of how many.
-        const { ringed: lost, of } = lostFeatures(result.loss.ledger.rows);
-        if (lost.length < of) lostRings.current = { drawn: lost.length, of };
-        if (lost.length) {
-          const lx = Float64Array.from(lost.map((r) => r.position));
-          const ly = interpolateLinear(sample.x, sample.y, lx);
-          traces.push({
-            type: 'scatter', mode: 'markers', name: 'features lost by some choice',
-            x: lx, y: ly,
-            text: lost.map((r) => `lost with: ${r.cells.map((c, k) => (c.found || k < r.firstFoundIn ? null : result.loss!.ledger.alternatives[k].label)).filter(Boolean).join(', ')}`),
-            hoverinfo: 'x+text',
-            marker: { symbol: 'circle-open', size: 22, color: COLOURS.lost, line: { width: 2.5, color: COLOURS.lost } },
-            xaxis: 'x', yaxis: 'y',
-          });
-        }
-      }
+      if (lostTrace.trace) traces.push(lostTrace.trace);
       const p = line(result.processed.x, result.processed.y, result.processed);
       traces.push({ type: 'scatter', mode: 'lines', name: 'processed', x: p.x, y: p.y, line: { color: COLOURS.processed, width: 1.8 }, xaxis: 'x', yaxis: 'y' });
       if (result.events.length) {
@@ -263,7 +269,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       traces.push({ type: 'scatter', mode: 'lines', name: 'residual (raw − processed)', x: r.x, y: r.y, line: { color: COLOURS.residual, width: 1 }, xaxis: 'x', yaxis: 'y2' });
     }
     return traces;
-  }, [sample, result, showRaw, view, rawDrawn, drawnFar, showAlt, altList, peakTraces]);
+  }, [sample, result, showRaw, view, rawDrawn, drawnFar, showAlt, altList, peakTraces, lostTrace]);
 
   const yView = useMemo(() => {
     if (!xRange || !yFits) return null;
@@ -374,9 +380,9 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   return (
     <div ref={boxRef} className="plot-box" data-labels={labelCount.current ? `${labelCount.current.shown}/${labelCount.current.of}` : undefined}>
       <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onShapeX={onShapeX} dragShapes={selectedX !== null} onReady={onReady} onDrawn={onDrawn} pictureName={`${sample.source.fileName.replace(/\.[^.]*$/, '')}-plot`} drawnTag={String(result ? resultSeq : 0)} />
-      {lostRings.current && (
+      {lostRings && (
         <p className="small muted plot-label-note" data-testid="lost-note">
-          Rings on {lostRings.current.drawn} of the {lostRings.current.of.toLocaleString('en')} features some choice loses (quantifiable first, then the highest S/N); the loss check below lists them.
+          Rings on {lostRings.drawn} of the {lostRings.of.toLocaleString('en')} features some choice loses (quantifiable first, then the highest S/N); the loss check below lists them.
         </p>
       )}
       {bornSquaresDrawn.current && (

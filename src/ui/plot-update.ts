@@ -12,7 +12,7 @@
  * would give. {@link figureUpdate} says so when:
  *
  *   * the figures have the same traces in the same order and the same layout
- *     (compared by value);
+ *     (compared by value), but for new ranges of y axes (see below);
  *   * every trace that changed is a scatter trace and changed only its points
  *     (x, y and the per-point texts, {@link POINT_KEYS}), not its style;
  *   * for each axis the library ranges by itself (autorange), no changed trace
@@ -26,7 +26,9 @@
  *     range, so the range cannot move. Axes with a range of their own (the
  *     trace's x span, zoomed, or {@link steadyRange}) need no such test.
  *
- * Anything else is drawn whole. An update in place also names one unchanged
+ * A layout that changed only the range of y axes with a range of their own
+ * (a residual that outgrew its panel) gives an update in place with those
+ * ranges, set first. Anything else is drawn whole. An update in place also names one unchanged
  * trace of each panel with no changed trace (the library would clear that
  * panel otherwise). Pure: nothing here changes its input.
  */
@@ -35,8 +37,11 @@ import type { PlotData, PlotLayout, PlotValues } from 'plotly.js-strict-dist-min
 /** The fields of a trace that hold its points: replaced in place; any other change draws the figure whole. */
 export const POINT_KEYS = ['x', 'y', 'text', 'hovertext', 'textposition'] as const;
 
-/** What to do with a figure: draw it whole, or replace these traces' points in place (none: nothing changed). */
-export type FigureUpdate = { kind: 'whole'; why: string } | { kind: 'in-place'; traces: number[] };
+/**
+ * What to do with a figure: draw it whole, or replace these traces' points in place (none: nothing changed); for an
+ * update in place, `ranges` (when given) are the y axes' new ranges, set first ("yaxis2.range": [a, b]).
+ */
+export type FigureUpdate = { kind: 'whole'; why: string } | { kind: 'in-place'; traces: number[]; ranges?: Record<string, [number, number]> };
 
 /** Equal by value: numbers by ===, NaN equal to NaN; arrays and typed arrays element by element; plain objects key by key. */
 export function sameValue(a: unknown, b: unknown): boolean {
@@ -121,7 +126,11 @@ export function figureUpdate(
 ): FigureUpdate {
   if (!prev) return { kind: 'whole', why: 'first drawing' };
   if (prev.data.length !== next.data.length) return { kind: 'whole', why: 'traces added or removed' };
-  if (!sameValue(prev.layout, next.layout)) return { kind: 'whole', why: `layout changed (${differing(prev.layout, next.layout).join(', ')})` };
+  let ranges: Record<string, [number, number]> | undefined;
+  if (!sameValue(prev.layout, next.layout)) {
+    ranges = newRangesOnly(prev.layout, next.layout, live) ?? undefined;
+    if (!ranges) return { kind: 'whole', why: `layout changed (${differing(prev.layout, next.layout).join(', ')})` };
+  }
   const changed: number[] = [];
   for (let i = 0; i < next.data.length; i++) {
     const a = prev.data[i], b = next.data[i];
@@ -159,7 +168,7 @@ export function figureUpdate(
       }
     }
   }
-  if (changed.length === 0) return { kind: 'in-place', traces: [] };
+  if (changed.length === 0) return ranges ? { kind: 'in-place', traces: [], ranges } : { kind: 'in-place', traces: [] };
   // The library's in-place step clears every panel (x and y axis pair) none of whose traces it is given (plotly.js
   // 4.1, cartesian plot: a panel's layers with no trace given are removed), so each other panel sends one trace
   // too, its points unchanged: the one with the fewest.
@@ -172,7 +181,28 @@ export function figureUpdate(
     const j = also.get(p);
     if (j === undefined || (t.x?.length ?? 0) < (next.data[j].x?.length ?? 0)) also.set(p, i);
   });
-  return { kind: 'in-place', traces: [...changed, ...also.values()].sort((a, b) => a - b) };
+  const traces = [...changed, ...also.values()].sort((a, b) => a - b);
+  return ranges ? { kind: 'in-place', traces, ranges } : { kind: 'in-place', traces };
+}
+
+/**
+ * When the only change of the layout is the range of y axes that have a range of their own before and after (the
+ * steady ranges of {@link steadyRange}: a residual that outgrew its panel), those new ranges ("yaxis2.range": [a, b]);
+ * otherwise null. Not for an axis the user let the library range (by double-click): that is drawn whole.
+ */
+function newRangesOnly(prev: PlotLayout, next: PlotLayout, live: LiveFigure): Record<string, [number, number]> | null {
+  const out: Record<string, [number, number]> = {};
+  for (const key of differing(prev, next)) {
+    if (!/^yaxis\d*$/.test(key) || live.autoRanged(key)) return null;
+    const a = (prev as Record<string, unknown>)[key], b = (next as Record<string, unknown>)[key];
+    if (a === null || b === null || typeof a !== 'object' || typeof b !== 'object') return null;
+    const ax = a as { autorange?: unknown; range?: unknown }, bx = b as { autorange?: unknown; range?: unknown };
+    if (differing(ax, bx).some((k) => k !== 'range') || ax.autorange !== false || bx.autorange !== false) return null;
+    const r = bx.range;
+    if (!Array.isArray(r) || r.length !== 2 || !r.every((v) => typeof v === 'number' && Number.isFinite(v)) || !(r[1] > r[0])) return null;
+    out[`${key}.range`] = [r[0], r[1]];
+  }
+  return Object.keys(out).length ? out : null;
 }
 
 /** The fields of trace `t` to send for an update in place: its points. */

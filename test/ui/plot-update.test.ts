@@ -106,6 +106,33 @@ describe('figureUpdate', () => {
     expect(figureUpdate({ data: a, layout: { ...auto, yaxis2: { range: [-1, 2] } } as PlotLayout }, { data: c, layout: { ...auto, yaxis2: { range: [-1, 2] } } as PlotLayout }, live())).toEqual({ kind: 'in-place', traces: [1, 2] });
   });
 
+  it('a y axis with a range of its own that only moved its range: the new range is set first, then the traces in place; any other layout change is drawn whole', () => {
+    // The residual outgrew its panel (the steady range of the residual, RESIDUAL_RANGE): only yaxis2.range differs.
+    const panels = (r: [number, number], more: Partial<PlotLayout> = {}): PlotLayout => ({ ...fixedY, yaxis2: { range: r, autorange: false }, ...more } as PlotLayout);
+    const residual = (y: number[]) => line('residual', y, { yaxis: 'y2' });
+    const a = [raw, line('processed', [0, 4, -1, 6, 1]), residual([0, 1, -1, 2, 0])];
+    const b = [raw, line('processed', [0, 3, -2, 7, 1]), residual([0, 2, -1, 1, 0])];
+    expect(figureUpdate({ data: a, layout: panels([-2, 2]) }, { data: b, layout: panels([-5, 5]) }, live()))
+      .toEqual({ kind: 'in-place', traces: [1, 2], ranges: { 'yaxis2.range': [-5, 5] } });
+    // Both y axes moved: both ranges; nothing else changed: the ranges alone.
+    expect(figureUpdate({ data: a, layout: panels([-2, 2]) }, { data: a, layout: { ...panels([-5, 5]), yaxis: { range: [-20, 20], autorange: false } } as PlotLayout }, live()))
+      .toEqual({ kind: 'in-place', traces: [], ranges: { 'yaxis.range': [-20, 20], 'yaxis2.range': [-5, 5] } });
+    // Whole: the range and anything else of the axis (its title), another part of the layout, the x axis's range, an
+    // axis the library ranged before or ranges after, an axis the user let the library range (double-click), a range
+    // that is no pair of finite ascending numbers.
+    const whole = (p: PlotLayout, n: PlotLayout, l = live()) => figureUpdate({ data: a, layout: p }, { data: b, layout: n }, l);
+    expect(whole(panels([-2, 2]), panels([-5, 5], { yaxis2: { range: [-5, 5], autorange: false, title: { text: 'residual' } } } as Partial<PlotLayout>))).toEqual({ kind: 'whole', why: 'layout changed (yaxis2)' });
+    expect(whole(panels([-2, 2]), panels([-5, 5], { height: 600 } as Partial<PlotLayout>)).kind).toBe('whole');
+    expect(whole(panels([-2, 2]), panels([-2, 2], { xaxis: { range: [1, 3], autorange: false } } as Partial<PlotLayout>)).kind).toBe('whole');
+    expect(whole(panels([-2, 2], { yaxis2: { autorange: true } } as Partial<PlotLayout>), panels([-5, 5])).kind).toBe('whole');
+    expect(whole(panels([-2, 2]), panels([-5, 5], { yaxis2: { range: [-5, 5] } } as Partial<PlotLayout>)).kind).toBe('whole');
+    expect(whole(panels([-2, 2]), panels([-5, 5]), live({ autoRanged: (k) => k === 'yaxis2' })).kind).toBe('whole');
+    expect(whole(panels([-2, 2]), panels([5, -5])).kind).toBe('whole');
+    expect(whole(panels([-2, 2]), panels([-5, Number.NaN])).kind).toBe('whole');
+    // The traces still decide: a style change is drawn whole whatever the layout did.
+    expect(figureUpdate({ data: a, layout: panels([-2, 2]) }, { data: [raw, line('processed', [0, 3, -2, 7, 1], { line: { color: '#f00', width: 1 } }), b[2]], layout: panels([-5, 5]) }, live()).kind).toBe('whole');
+  });
+
   it('sends only the points of a trace', () => {
     const t = markers('m', [1], [2], { text: ['a'], hovertext: ['h'] });
     expect(pointsOf(t)).toEqual({ x: [1], y: [2], text: ['a'], hovertext: ['h'] });
