@@ -263,7 +263,7 @@ export function runPipeline(
  */
 const ARRAY_TOKENS = new WeakMap<Float64Array, number>();
 let nextToken = 1;
-function arrayToken(a: Float64Array): number {
+export function arrayToken(a: Float64Array): number {
   let t = ARRAY_TOKENS.get(a);
   if (t === undefined) { t = nextToken++; ARRAY_TOKENS.set(a, t); }
   return t;

@@ -38,7 +38,7 @@
  *   input as processed up to the step the user is editing, so a slider drag
  *   on the last of five steps reruns that step alone (see `simulatedRun`).
  */
-import { PipelineCache, runPipeline, type PipelineResult } from '../pipeline.ts';
+import { arrayToken as token, PipelineCache, runPipeline, type PipelineResult } from '../pipeline.ts';
 import type { Recipe, Registry } from '../method.ts';
 import type { Signal, StepContext } from '../steps/types.ts';
 import type { Trace } from '../trace.ts';
@@ -451,15 +451,6 @@ export function carryCheckpointStats(): { count: number; bytes: number; groups: 
   return { count: CHECKPOINTS.length, bytes: CHECKPOINTS.reduce((s, c) => s + c.bytes, 0), groups: [...groups.values()] };
 }
 
-/** A number per typed array, by identity (so a checkpoint never meets other data under the same trace id). */
-const TOKENS = new WeakMap<Float64Array, number>();
-let nextToken = 1;
-function token(a: Float64Array): number {
-  let t = TOKENS.get(a);
-  if (t === undefined) { t = nextToken++; TOKENS.set(a, t); }
-  return t;
-}
-
 /** The first `at` entries of the recipe, by value (whether on, step, parameters). */
 function prefixSig(recipe: Recipe, at: number): string {
   return JSON.stringify(recipe.steps.slice(0, at).map((s) => [s.enabled, s.step, s.params]));
@@ -575,7 +566,8 @@ export function carrySimulated(
   const sumSq = new Float64Array(m);
   const others = sourcesUsed(run, ctx, noise);
   const tapsSample = noiseShapingTaps(noise.sample.rho);
-  // What the noisy inputs are made of: the data (by identity), the noise models, the seeds.
+  // What the noisy inputs are made of: the data (by identity: the pipeline's array numbers, so a checkpoint never
+  // meets other data under the same trace id), the noise models, the seeds.
   const inputs = [
     `x${token(raw.x)}y${token(raw.y)}:${modelKey(noise.sample)}`,
     ...others.map((s) => `${s.label}:y${token(s.y)}:${modelKey(s.noise)}`),
