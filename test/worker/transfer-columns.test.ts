@@ -38,6 +38,18 @@ describe('rows as columns', () => {
     ), { numRuns: 200 });
   });
 
+  it('rows of different shapes and key orders: fields in the order first seen, each value in its own column, and back', () => {
+    const rows: Record<string, unknown>[] = [{ a: 1, b: 'x' }, { b: 'y', a: -0 }, { c: true }, { a: 3, b: 'x', c: false }, { a: null, b: undefined }];
+    const cols = toColumns(rows);
+    expect(cols.fields).toEqual(['a', 'b', 'c']);
+    expect(cols.columns.a).toEqual({ kind: 'number', values: Float64Array.of(1, -0, 0, 3, 0), kinds: Uint8Array.of(2, 2, 0, 2, 1) });
+    expect(cols.columns.b).toEqual({ kind: 'string', dictionary: ['x', 'y'], codes: Uint32Array.of(0, 1, 0xffffffff, 0, 0xffffffff) });
+    expect(cols.columns.c).toEqual({ kind: 'boolean', values: Uint8Array.of(2, 2, 1, 0, 2) });
+    const back = fromColumns<Record<string, unknown>>(structuredClone(cols));
+    expect(Object.is(back[1].a, -0)).toBe(true);
+    expect(back).toEqual([{ a: 1, b: 'x' }, { b: 'y', a: -0 }, { c: true }, { a: 3, b: 'x', c: false }, { a: null }]);
+  });
+
   it('a real peak table: numbers as Float64Array columns, words by dictionary, and back to the same rows', () => {
     const rng = makeRng(5);
     const x = Array.from({ length: 5000 }, (_, i) => i * 0.01);
