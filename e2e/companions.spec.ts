@@ -3,7 +3,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { useBuiltCli } from './cli-fixture.ts';
-import { addStep, csvBody, download, openWithDemo, reportBody, settled } from './helpers.ts';
+import { addStep, csvBody, download, expectSameWithinRounding, openWithDemo, reportBody, settled } from './helpers.ts';
 
 // Issue 20: with the blank and the scans following the sample (a moving average before blank subtraction and
 // aligned averaging), the page's exports of the demo against the command line's --blank/--scan on the same files.
@@ -42,8 +42,10 @@ test('blank and scans follow the sample: the command line\'s --blank and --scan 
   expect(r.code, r.stderr).toBe(0);
   const mine = (f: string) => readFileSync(join(out, f), 'utf8');
   expect(csvBody(mine('demo-sample-cleaned.csv'))).toBe(csvBody(cleaned.text));
-  expect(csvBody(mine('demo-sample-peaks.csv'))).toBe(csvBody(peaks.text));
-  expect(reportBody(mine('demo-sample-report.html'))).toBe(reportBody(report.text));
+  // σ is carried through the aligned averaging by a simulation whose seeded noise goes through Math.log and
+  // Math.cos, which Chromium and Node do not round alike: the numbers it feeds agree to about 1e-16, not bit for bit.
+  expectSameWithinRounding(csvBody(mine('demo-sample-peaks.csv')), csvBody(peaks.text));
+  expectSameWithinRounding(reportBody(mine('demo-sample-report.html')), reportBody(report.text));
   // The shifts are in the report, step by step.
   expect(report.text).toContain('Each scan was aligned to the signal before averaging');
 

@@ -113,6 +113,25 @@ export const csvBody = (text: string): string => text.replace(/^\uFEFF/, '').spl
 export const reportBody = (html: string): string => html.replace(/\n<div class="confirm" data-role="confirmation">[\s\S]*?<\/ul><\/div>/, '')
   .replace(/\n<p data-role="confirmation-note">[\s\S]*?<\/p>/, '').replace(ISO, 'TIME');
 
+/**
+ * Two texts that must say the same thing with the same numbers, where the numbers may come from two JavaScript
+ * engines: the page's (Chromium) and the command line's (Node). Their Math.sin, cos, log and exp are not required
+ * to round alike, and do not: Chromium 156 gives Math.sin(2.5) = 0.5984721441039565, Node 20 0.5984721441039564
+ * (measured on this machine). Anything drawn through them (the seeded noise of a simulation) can then differ in
+ * its last bits. Every number (as written: digits, sign, point, exponent) is compared within 1e-12 relative, and
+ * the text between numbers exactly; the first difference is named.
+ */
+export function expectSameWithinRounding(actual: string, expected: string): void {
+  const NUM = /-?\d+(?:\.\d+)?(?:e[-+]?\d+)?/gi;
+  const words = (t: string) => t.split(NUM);
+  const nums = (t: string) => (t.match(NUM) ?? []).map(Number);
+  expect(words(actual)).toEqual(words(expected));
+  const a = nums(actual), b = nums(expected);
+  expect(a.length).toBe(b.length);
+  const off = a.findIndex((v, i) => !(v === b[i] || Math.abs(v - b[i]) <= 1e-12 * Math.max(Math.abs(v), Math.abs(b[i]))));
+  expect(off < 0 ? null : `number ${off}: ${a[off]} against ${b[off]}`).toBeNull();
+}
+
 /** Drag across the main plot from x = a to x = b (data units) with "Mark a range" on. */
 export async function markRange(page: Page, a: number, b: number): Promise<void> {
   await page.getByRole('button', { name: 'Mark a range' }).click();

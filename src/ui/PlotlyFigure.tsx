@@ -139,10 +139,13 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
     };
     // Issue 16: the drawing runs in a task of its own, after the one that committed this render (the worker's message,
     // the store and React's commit of every panel), so no single task holds both; a newer render before it runs
-    // cancels it (only the newest figure is drawn).
-    queue.current = queue.current.then(nextTask).then(() => {
-      try { return draw(); } catch (e) { last.current = null; fail(e); return undefined; }
-    });
+    // cancels it (only the newest figure is drawn). Not when what a drag on the figure does has changed (a mark
+    // button pressed): the press's own task draws it, so a drag that follows at once can never reach the figure in the
+    // mode it had before (seen in a spec under load: a range dragged right after "Mark a range" was taken as a zoom).
+    const modeChanged = last.current !== null
+      && (last.current.layout.dragmode !== guarded.layout.dragmode || last.current.options !== `${pictureName}|${attempt}|${dragShapes ? 1 : 0}`);
+    const run = () => { try { return draw(); } catch (e) { last.current = null; fail(e); return undefined; } };
+    queue.current = modeChanged ? queue.current.then(run) : queue.current.then(nextTask).then(run);
     return () => { cancelled = true; };
   }, [guarded, pictureName, attempt, drawnTag, dragShapes]);
 
