@@ -593,6 +593,8 @@ export interface AutosaveOptions {
   journalDelayMs?: number;
   /** Default: `window` and `document` when they exist. */
   page?: { window?: PageEvents; document?: PageEvents & { visibilityState?: string } };
+  /** Default {@link saveSession} (tests give a stand-in). */
+  save?: (state: SessionSnapshot, takenAt: number) => Promise<SaveOutcome>;
 }
 
 /**
@@ -600,7 +602,12 @@ export interface AutosaveOptions {
  * journal within `journalDelayMs` and the whole session to IndexedDB
  * `delayMs` after the last edit (at once when traces were loaded or
  * removed); one IndexedDB save at a time, and an edit during a save leads
- * to one more. When the page is hidden or closed (`pagehide`,
+ * to one more. Traces not yet in the database are never kept waiting by
+ * later small edits: while some are, every save is due at once (the
+ * journal holds only their names, so a reload loses them until they are
+ * stored; a stream of edits, each restarting the wait, kept six standards
+ * loaded during a save out of the database for as long as the user kept
+ * working). When the page is hidden or closed (`pagehide`,
  * `visibilitychange` to hidden) the journal is written at once,
  * synchronously, and a pending IndexedDB save is started.
  *
@@ -613,6 +620,9 @@ export interface AutosaveOptions {
  */
 export function startSessionAutosave(store: SessionStore, options: AutosaveOptions = {}): () => void {
   const delayMs = options.delayMs ?? 1000;
+  const save = options.save ?? saveSession;
+  /** Traces loaded or removed since the last save began: the next save is due at once. */
+  let tracesDirty = false;
   const journalDelayMs = options.journalDelayMs ?? JOURNAL_DELAY_MS;
   const win = options.page?.window ?? (typeof window !== 'undefined' ? window : undefined);
   const doc = options.page?.document ?? (typeof document !== 'undefined' ? document : undefined);
@@ -641,8 +651,11 @@ export function startSessionAutosave(store: SessionStore, options: AutosaveOptio
     if (saving) { again = true; return; }
     saving = true;
     const taken = store.getState();
-    const out = await saveSession(snapshotOf(taken), Date.now());
+    const hadTraces = tracesDirty;
+    tracesDirty = false;
+    const out = await save(snapshotOf(taken), Date.now());
     saving = false;
+    if (!out.ok && hadTraces) tracesDirty = true;
     if (stopped) return;
     if (out.ok) {
       dbProblem = null;
@@ -659,14 +672,15 @@ export function startSessionAutosave(store: SessionStore, options: AutosaveOptio
   const schedule = (wait: number) => {
     if (saveTimer !== null) clearTimeout(saveTimer);
     if (!store.getState().sessionPending) store.getState().setSessionPending(true);
-    saveTimer = setTimeout(() => { void run(); }, wait);
+    saveTimer = setTimeout(() => { void run(); }, tracesDirty ? 0 : wait);
   };
   const unsub = store.subscribe((s, prev) => {
     if (stopped) return;
     if (!SESSION_KEYS.some((k) => s[k] !== prev[k])) return;
     journalDirty = true;
     if (journalTimer === null) journalTimer = setTimeout(writeJournalNow, journalDelayMs);
-    schedule(s.traces !== prev.traces ? 0 : delayMs);
+    if (s.traces !== prev.traces) tracesDirty = true;
+    schedule(delayMs);
   });
   const flush = () => {
     if (stopped) return;
@@ -679,6 +693,7 @@ export function startSessionAutosave(store: SessionStore, options: AutosaveOptio
   // Whatever was loaded before the autosave started is kept too.
   if (store.getState().traces.length > 0) {
     journalDirty = true;
+    tracesDirty = true;
     writeJournalNow();
     schedule(0);
   }

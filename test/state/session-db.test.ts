@@ -1,11 +1,11 @@
-import { describe, expect, test } from 'vitest';
+import { describe, expect, test, vi } from 'vitest';
 import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS } from '../../src/core/analysis/index.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';
 import { createTrace } from '../../src/core/trace.ts';
 import { createAppStore } from '../../src/state/store.ts';
 import {
   JOURNAL_KEY, mergeJournal, SESSION_CHUNK, SESSION_UNDO_STEPS, sessionFromRecords, sessionJournal, sessionMeta, startSessionAutosave,
-  storageProblem, traceFromRecords, traceToRecords, type ChunkKey, type SessionSnapshot,
+  storageProblem, traceFromRecords, traceToRecords, type ChunkKey, type SaveOutcome, type SessionSnapshot,
 } from '../../src/state/session-db.ts';
 import { recipeOf } from '../core/export/helpers.ts';
 
@@ -202,6 +202,34 @@ describe('undo history, the journal and keeping every edit', () => {
       expect(listeners.size).toBe(0);
     } finally {
       (globalThis as { localStorage?: unknown }).localStorage = was;
+    }
+  });
+
+  test('traces loaded while a save runs are stored as soon as it ends, however many small edits follow, each restarting the wait', async () => {
+    vi.useFakeTimers();
+    try {
+      const store = createAppStore();
+      const saves: { at: number; traces: number }[] = [];
+      // A stand-in for the database: each save takes 50 ms and records what it held.
+      const save = (st: SessionSnapshot) => new Promise<SaveOutcome>((resolve) => {
+        setTimeout(() => { saves.push({ at: Date.now(), traces: st.traces.length }); resolve({ ok: true, generation: saves.length }); }, 50);
+      });
+      const t0 = Date.now();
+      const stop = startSessionAutosave(store, { delayMs: 1000, journalDelayMs: 60_000, page: {}, save });
+      const report = (f: string) => ({ fileName: f, sha256: 'cd'.repeat(32), format: 'test', rowsRead: 30, skipped: [], notices: [], metadata: {} });
+      store.getState().addTraces([bigTrace(30)], report('big.csv'));
+      await vi.advanceTimersByTimeAsync(10); // the first save is running
+      const late = createTrace({ id: 'late-1', name: 'late.csv: y', x: [1, 2, 3, 4, 5], y: [1, 2, 3, 4, 5], source: { fileName: 'late.csv', sha256: '00'.repeat(32), rowsRead: 5, rowsSkipped: 0 } });
+      store.getState().addTraces([late], report('late.csv'));
+      // Small edits every 300 ms for 3 s: each restarts the 1 s wait of an ordinary edit.
+      for (let k = 0; k < 10; k++) { await vi.advanceTimersByTimeAsync(300); store.getState().addStep('moving-average'); }
+      const both = saves.find((v) => v.traces === 2);
+      expect(both).toBeDefined();
+      // Right after the first save (50 ms) ended, not a second after the edits stopped.
+      expect(both!.at - t0).toBeLessThan(200);
+      stop();
+    } finally {
+      vi.useRealTimers();
     }
   });
 
