@@ -175,7 +175,8 @@ describe('frequency-filter step', () => {
     const f = out.extra!.spectrumFreq, before = out.extra!.spectrumBefore, after = out.extra!.spectrumAfter;
     expect(f.length).toBeLessThanOrEqual(1 + 4 * SPECTRUM_GROUPS);
     expect(out.notes.some((t) => t.includes(`each of ${SPECTRUM_GROUPS.toLocaleString('en-US')} runs of frequencies (100,001 in all)`))).toBe(true);
-    // The full spectrum's 60 Hz bin (A²/2 = 0.045) is the largest away from zero frequency, so the thinned one keeps it.
+    // The full spectrum's 60 Hz bin (A²/2 = 0.045: the mean power of a sinusoid of amplitude A on a bin, closed form, from
+    // memory; the same figure as the definition test above) is the largest away from zero frequency, so the thinned one keeps it.
     const at60 = f.findIndex((v) => Math.abs(v - 60) < 1e-9);
     expect(at60).toBeGreaterThan(0);
     expect(before[at60]).toBeCloseTo(0.045, 3);
