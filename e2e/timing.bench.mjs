@@ -275,28 +275,47 @@ function moveTail() {
 
 // ---------------------------------------------------------------------------
 
-/** CDP senders for every worker of the page (non-flattened sessions answer through Target messages), and a detach. */
+/**
+ * CDP senders for every worker of the page, and the workers those workers start (the second detection thread is
+ * started by the computation worker), and a detach. Sessions are not flattened: a nested worker's messages travel
+ * wrapped in Target.sendMessageToTarget / receivedMessageFromTarget once per level.
+ */
 async function workerSenders(page) {
   const session = await page.context().newCDPSession(page);
+  /** Each worker's path of session ids, outermost first. */
   const workers = [];
   const pending = new Map();
   let nextId = 1;
-  session.on('Target.attachedToTarget', (ev) => { if (ev.targetInfo.type === 'worker') workers.push(ev.sessionId); });
   const listeners = [];
-  session.on('Target.receivedMessageFromTarget', (ev) => {
-    const msg = JSON.parse(ev.message);
-    if (msg.method) { for (const l of listeners) if (l.sessionId === ev.sessionId && l.method === msg.method) l.f(msg.params); return; }
+  const sendTo = (path, method, params) => {
+    const id = nextId++;
+    let message = JSON.stringify({ id, method, params });
+    for (let i = path.length - 1; i >= 1; i--) message = JSON.stringify({ id: nextId++, method: 'Target.sendMessageToTarget', params: { sessionId: path[i], message } });
+    return { id, sent: session.send('Target.sendMessageToTarget', { sessionId: path[0], message }) };
+  };
+  const attached = (path) => {
+    workers.push(path);
+    // Its own workers too.
+    sendTo(path, 'Target.setAutoAttach', { autoAttach: true, waitForDebuggerOnStart: false, flatten: false }).sent.catch(() => {});
+  };
+  const route = (path, msg) => {
+    if (msg.method === 'Target.attachedToTarget') { if (msg.params.targetInfo.type === 'worker') attached([...path, msg.params.sessionId]); return; }
+    if (msg.method === 'Target.receivedMessageFromTarget') { route([...path, msg.params.sessionId], JSON.parse(msg.params.message)); return; }
+    const key = path.join('/');
+    if (msg.method) { for (const l of listeners) if (l.key === key && l.method === msg.method) l.f(msg.params); return; }
     const done = pending.get(msg.id);
     if (done) { pending.delete(msg.id); done(msg); }
-  });
+  };
+  session.on('Target.attachedToTarget', (ev) => { if (ev.targetInfo.type === 'worker') attached([ev.sessionId]); });
+  session.on('Target.receivedMessageFromTarget', (ev) => route([ev.sessionId], JSON.parse(ev.message)));
   await session.send('Target.setAutoAttach', { autoAttach: true, waitForDebuggerOnStart: false, flatten: false });
-  await new Promise((res) => setTimeout(res, 300));
-  const senders = workers.map((sessionId) => (method, params) => new Promise((res, rej) => {
-    const id = nextId++;
+  await new Promise((res) => setTimeout(res, 600));
+  const senders = workers.map((path) => (method, params) => new Promise((res, rej) => {
+    const { id, sent } = sendTo(path, method, params);
     pending.set(id, (msg) => (msg.error ? rej(new Error(msg.error.message)) : res(msg.result)));
-    session.send('Target.sendMessageToTarget', { sessionId, message: JSON.stringify({ id, method, params }) }).catch(rej);
+    sent.catch(rej);
   }));
-  const onWorkerEvent = (k, method, f) => listeners.push({ sessionId: workers[k], method, f });
+  const onWorkerEvent = (k, method, f) => listeners.push({ key: workers[k].join('/'), method, f });
   return { senders, detach: () => session.detach(), onWorkerEvent };
 }
 

@@ -22,6 +22,7 @@ import type { Ledger } from '../core/measure/loss-matching.ts';
 const NO_LEDGER: Ledger = { alternatives: [], rows: [], sentences: [], rule: '' };
 import { DISPLAY_CAPS } from '../state/display-caps.ts';
 import type { Peak } from '../core/measure/peak-types.ts';
+import { DetectPartnerClient } from './detect-partner-client.ts';
 
 const held = new HeldTraces();
 /** Long series of the newest analyses, kept here so they need not cross to the page (series.ts). */
@@ -31,6 +32,11 @@ const scope = self as unknown as DedicatedWorkerGlobalScope;
 let peer: MessagePort | null = null;
 /** Analyses and fits that came while traces named by the page were still on their way through the port. */
 const deferred: Call[] = [];
+/** A second thread that measures half of a long detection's candidates (started on first use; issue 16). */
+const partner = new DetectPartnerClient(
+  () => new Worker(new URL('./detect-partner.ts', import.meta.url), { type: 'module', name: 'tracewright-detect' }),
+  (message) => post({ type: 'failed', jobId: null, message }),
+);
 /** The newest analysis asked for: older ones stop between stages and at pauses inside them. */
 let latestJob = 0;
 
@@ -154,7 +160,7 @@ async function analyse(jobId: number, params: ParamsOf<'analyse'>): Promise<void
     const far = thin.far.length ? thin.far : undefined;
     const drawn = thin.far.flatMap((f) => [f.drawn.x.buffer as ArrayBuffer, f.drawn.y.buffer as ArrayBuffer]);
     post({ type: 'stage', jobId, update: { ...update, patch }, peakColumns, peakView, ledgerColumns, far }, [...transferablesOf(patch), ...(peakColumns ? columnBuffers(peakColumns) : []), ...(ledgerColumns ? ledgerBuffers(ledgerColumns) : []), ...(peakView ? [peakView.rows.buffer as ArrayBuffer, peakView.markers.buffer as ArrayBuffer] : []), ...drawn]);
-  }, () => !params.side && latestJob !== jobId);
+  }, () => !params.side && latestJob !== jobId, (share) => partner.start(share));
   reply('analyse', jobId, { outcome, ms: Date.now() - t0 });
 }
 

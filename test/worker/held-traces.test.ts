@@ -11,7 +11,7 @@ import { createHash } from 'node:crypto';
 import { describe, expect, test } from 'vitest';
 import { createTrace, type Trace } from '../../src/core/trace.ts';
 import { HeldTraces } from '../../src/worker/held-traces.ts';
-import { analyse, applyStage, type AnalyseRequest, type AnalyseResult } from '../../src/core/analysis/index.ts';
+import { analyse, applyStage, isStageUpdate, type AnalyseRequest, type AnalyseResult } from '../../src/core/analysis/index.ts';
 import { emptyRecipe, makeRecipeStep } from '../../src/core/method.ts';
 import { STEP_REGISTRY, stepDefinition } from '../../src/core/steps/registry.ts';
 import { makeRng } from '../../src/core/numeric/random.ts';
@@ -119,7 +119,7 @@ describe('analyses', () => {
     let folded: AnalyseResult | null = null;
     const order: string[] = [];
     for (const u of e.stages(req)) {
-      if (u === undefined) continue;
+      if (!isStageUpdate(u)) continue;
       order.push(u.stage);
       folded = applyStage(folded, u);
     }
@@ -155,7 +155,7 @@ describe('the pipeline cache through a drag (issue 16: the heap at 10^6 points)'
   }
   const fold = (e: HeldTraces, req: AnalyseRequest, side = false): AnalyseResult => {
     let out: AnalyseResult | null = null;
-    for (const u of e.stages(req, side)) if (u) out = applyStage(out, u);
+    for (const u of e.stages(req, side)) if (isStageUpdate(u)) out = applyStage(out, u);
     return out!;
   };
   const cacheOf = (e: HeldTraces) => (e as unknown as { cache: { size: number } }).cache;

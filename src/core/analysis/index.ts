@@ -30,6 +30,8 @@ import { meanStep } from '../numeric/interpolate.ts';
 import { combineVerdict } from '../measure/residual-tests.ts';
 import { markAppearsOnlyAfterProcessing, markSaturatedOnRaw } from '../measure/peak-table.ts';
 import { expectedNoiseBumpsStepwise } from '../measure/noise-bumps.ts';
+import type { SharedJob } from '../measure/peak-table.ts';
+import { isShareOffer, type Pause } from './pause.ts';
 import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, MAX_ALTERNATIVES, type AnalyseRequest } from './request.ts';
 import { STAGES, type AnalyseResult, type StageName, type StageUpdate } from './result.ts';
 import { AnalysisMemo, type AlternativeMeasured } from './memo.ts';
@@ -55,16 +57,23 @@ export interface AnalysisCaches {
 export function* analyseStaged(
   request: AnalyseRequest, traces: ReadonlyMap<string, Trace>, registry: Registry, caches: AnalysisCaches = {},
 ): Generator<StageUpdate, void, void> {
-  for (const u of analyseSteps(request, traces, registry, caches)) if (u) yield u;
+  // for…of answers no offer, so every stage is worked out on this thread.
+  for (const u of analyseSteps(request, traces, registry, caches)) if (isStageUpdate(u)) yield u;
+}
+
+/** True for a stage's update, false for a pause, an offer of work or a wait (pause.ts). */
+export function isStageUpdate(v: StageUpdate | Pause): v is StageUpdate {
+  return v !== undefined && !(v instanceof Promise) && !isShareOffer(v);
 }
 
 /**
- * {@link analyseStaged} with the pauses inside long stages passed on (`undefined` between updates, every few ms
- * of peak detection; pause.ts): the worker lets a newer request in there and may stop pulling.
+ * {@link analyseStaged} with the pauses inside long stages passed on (pause.ts: `undefined` between updates, every
+ * few ms of peak detection; offers of detection work to another thread, and waits for it): the worker lets a newer
+ * request in at the pauses, may stop pulling, and answers the offers when it has a second thread.
  */
 export function* analyseSteps(
   request: AnalyseRequest, traces: ReadonlyMap<string, Trace>, registry: Registry, caches: AnalysisCaches = {},
-): Generator<StageUpdate | undefined, void, void> {
+): Generator<StageUpdate | Pause, void, SharedJob | undefined> {
   const cache = caches.pipeline;
   const memo = caches.memo ?? new AnalysisMemo();
   const sample = traces.get(request.sampleId);

@@ -9,11 +9,32 @@
  * at once drains the generator.
  */
 
-/** A computation that pauses (yields undefined) now and then and returns T. */
-export type Stepwise<T> = Generator<undefined, T, void>;
+import type { CandidateShare, SharedJob } from '../measure/peak-table.ts';
 
-/** Run a stepwise computation to its end, ignoring the pauses. */
-export function drain<T>(steps: Generator<unknown, T, void>): T {
+/** Work offered to another thread (peak detection's later candidates, peak-table.ts). */
+export interface ShareOffer {
+  readonly share: CandidateShare;
+}
+
+/**
+ * What a stepwise computation yields: `undefined` for a pause; an offer of
+ * work another thread could do, which the consumer answers (the value it
+ * passes to `next`) with the job it started, or with undefined; or a promise
+ * when it waits for such a job. `drain` answers nothing and never waits, so
+ * the computation does all the work itself, with the same result.
+ */
+export type Pause = undefined | ShareOffer | Promise<void>;
+
+/** A computation that pauses now and then and returns T; `next` may answer an offer with a job. */
+export type Stepwise<T> = Generator<Pause, T, SharedJob | undefined>;
+
+/** True for an offer of work (not a pause, a promise or a stage's update). */
+export function isShareOffer(v: unknown): v is ShareOffer {
+  return typeof v === 'object' && v !== null && 'share' in v;
+}
+
+/** Run a stepwise computation to its end, ignoring the pauses (and never waiting for another thread). */
+export function drain<T>(steps: Generator<unknown, T, SharedJob | undefined>): T {
   for (;;) {
     const r = steps.next();
     if (r.done) return r.value;

@@ -20,6 +20,7 @@ import { dft } from '../numeric/fft.ts';
 import { makeRng } from '../numeric/random.ts';
 import { detectPeaksStepwise } from './peak-table.ts';
 import type { PeakOptions } from './peak-types.ts';
+import type { Stepwise } from '../analysis/pause.ts';
 
 /** The expected count of noise-only rows, with how it was obtained. */
 export interface NoiseBumpCount {
@@ -102,7 +103,7 @@ export function expectedNoiseBumps(points: number, dx: number, options: PeakOpti
  * {@link expectedNoiseBumps} in steps: it pauses inside the detection of each simulated chunk
  * (detectPeaksStepwise), so the worker can stop it for a newer request; the cache is filled only when it ends.
  */
-export function* expectedNoiseBumpsStepwise(points: number, dx: number, options: PeakOptions, correlation?: ArrayLike<number>): Generator<undefined, NoiseBumpCount, void> {
+export function* expectedNoiseBumpsStepwise(points: number, dx: number, options: PeakOptions, correlation?: ArrayLike<number>): Stepwise<NoiseBumpCount> {
   if (!(points >= 1) || !(dx > 0) || !(options.noiseSigma > 0)) {
     throw new RangeError('The expected count of noise bumps needs a trace length, a positive sample spacing and a positive noise σ.');
   }

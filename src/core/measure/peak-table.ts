@@ -17,6 +17,7 @@ import {
 } from './peak-bounds.ts';
 import { noiseModel, pharmacopoeialNoise, regionSnr, snrFlag, snrRms } from './peak-snr.ts';
 import type { Peak, PeakDecisions, PeakMark, PeakOptions } from './peak-types.ts';
+import type { Stepwise } from '../analysis/pause.ts';
 
 /** Fewer samples than this across the half-height width mark a peak as thinly sampled. */
 export const THIN_SAMPLING_POINTS = 5;
@@ -237,14 +238,94 @@ export function detectPeaks(x: Float64Array, y: Float64Array, options: PeakOptio
 export const DETECT_PAUSE_EVERY = 2048;
 
 /**
+ * Candidates another thread could measure (issue 16): the trace, the options,
+ * and each candidate's apex and half-prominence width, in order. Every
+ * candidate's measure depends on that candidate alone, so the table is the
+ * same whoever measures which.
+ */
+export interface CandidateShare {
+  x: Float64Array;
+  y: Float64Array;
+  options: PeakOptions;
+  index: Int32Array;
+  halfWidth: Float64Array;
+}
+
+/** What the other thread hands back: the kept candidates' places in the share (ascending) and their measures. */
+export interface SharedKept {
+  at: Int32Array;
+  measures: LocalMeasure[];
+}
+
+/** One share being measured elsewhere. */
+export interface SharedJob {
+  /** Settles when the result is in, or the job failed or was cancelled; never rejects. */
+  readonly settled: Promise<void>;
+  /** The result once in; undefined before, or when the job failed or was cancelled. */
+  result(): SharedKept | undefined;
+  /** Stop the job (harmless once it is over). */
+  cancel(): void;
+}
+
+/** Fewest candidates detection offers to share: below it a message costs more than it saves. */
+export const SHARE_MIN_CANDIDATES = 4096;
+
+/**
+ * Measure candidate i into m and say whether it stays: a positive height above its own baseline, its own
+ * half-height width ≥ minWidth, its S/N ≥ minSnr (an S/N that cannot be measured keeps it).
+ */
+function keepCandidate(c: MeasureContext, y: Float64Array, o: PeakOptions, i: number, firstWidth: number, m: LocalMeasure): boolean {
+  // A candidate narrower than minWidth is dropped as soon as its final width is known (the test below, the same).
+  if (!measureLocalInto(c, i, firstWidth, m, o.minWidth)) return false;
+  if (!(m.height > 0)) return false;
+  if (o.minWidth > 0 && xAt(c.x, m.rightIp) - xAt(c.x, m.leftIp) < o.minWidth) return false;
+  if (o.minSnr > 0) {
+    const snr = snrOf(c, y, m, o);
+    if (snr !== null && snr < o.minSnr) return false;
+  }
+  return true;
+}
+
+/** Measure candidates from..to−1 (apexes `index`, first widths `halfWidth`), pausing now and then; `keep` gets each one kept. */
+function* measureCandidates(c: MeasureContext, y: Float64Array, o: PeakOptions, index: Int32Array, halfWidth: Float64Array, from: number, to: number, keep: (k: number, m: LocalMeasure) => void): Stepwise<void> {
+  // Each candidate is measured into this one object (this call's own); the few kept get a copy of their own.
+  const m = blankMeasure();
+  for (let k = from; k < to; k++) {
+    if (k % DETECT_PAUSE_EVERY === DETECT_PAUSE_EVERY - 1) yield;
+    if (keepCandidate(c, y, o, index[k], halfWidth[k], m)) keep(k, copyMeasure(m));
+  }
+}
+
+/**
+ * Measure a share of candidates (on the partner thread), in steps: it pauses after every
+ * {@link DETECT_PAUSE_EVERY} candidates, so that thread can see a cancel.
+ */
+export function* measureShareStepwise(share: CandidateShare): Stepwise<SharedKept> {
+  const { x, y, options: o } = share;
+  checkOptions(x, y, o);
+  const c = context(x, detectionSignal(y, o.negative), o);
+  const at: number[] = [];
+  const measures: LocalMeasure[] = [];
+  yield* measureCandidates(c, y, o, share.index, share.halfWidth, 0, share.index.length, (k, m) => { at.push(k); measures.push(m); });
+  return { at: Int32Array.from(at), measures };
+}
+
+/**
  * {@link detectPeaks} in steps: it pauses (yields) after every
  * {@link DETECT_PAUSE_EVERY} candidates measured, so a caller can let other
  * work in between (the worker lets a newer request stop it there, issue 16)
  * or drop it; the finished generator returns the table. The state it keeps
  * across a pause is its own (no shared scratch arrays), so another detection
  * may run while it is paused.
+ *
+ * With {@link SHARE_MIN_CANDIDATES} or more candidates it offers the later
+ * half to another thread (it yields a {@link ShareOffer}); a consumer that has
+ * one answers with the job (the worker, src/worker/stager.ts), and the
+ * generator yields the job's promise when it must wait for that half. A
+ * consumer that answers nothing (`drain`), a job that fails or is cancelled,
+ * leaves the half to be measured here: the table is the same either way.
  */
-export function* detectPeaksStepwise(x: Float64Array, y: Float64Array, options: PeakOptions): Generator<undefined, Peak[], void> {
+export function* detectPeaksStepwise(x: Float64Array, y: Float64Array, options: PeakOptions): Stepwise<Peak[]> {
   checkOptions(x, y, options);
   const o = options;
   const sign = o.negative ? -1 : 1;
@@ -258,19 +339,29 @@ export function* detectPeaksStepwise(x: Float64Array, y: Float64Array, options: 
   const n = cand.count, cIdx = cand.index, cPr = cand.prominence, cLb = cand.leftBase, cRb = cand.rightBase, cW = cand.halfWidth;
 
   const kept: Candidate[] = [];
-  // Each candidate is measured into this one object (this call's own); the few kept get a copy of their own.
-  const m = blankMeasure();
-  for (let k = 0; k < n; k++) {
-    if (k % DETECT_PAUSE_EVERY === DETECT_PAUSE_EVERY - 1) yield;
-    // A candidate narrower than minWidth is dropped as soon as its final width is known (the test below, the same).
-    if (!measureLocalInto(c, cIdx[k], cW[k], m, o.minWidth)) continue;
-    if (!(m.height > 0)) continue;
-    if (o.minWidth > 0 && xAt(x, m.rightIp) - xAt(x, m.leftIp) < o.minWidth) continue;
-    if (o.minSnr > 0) {
-      const snr = snrOf(c, y, m, o);
-      if (snr !== null && snr < o.minSnr) continue;
+  const keep = (k: number, m: LocalMeasure) => { kept.push({ m, prominence: cPr[k], leftBase: cLb[k], rightBase: cRb[k], origin: 'detected' }); };
+  // The later half is offered to another thread when the work is worth a message.
+  let split = n;
+  let job: SharedJob | undefined;
+  if (n >= SHARE_MIN_CANDIDATES) {
+    const half = Math.ceil(n / 2);
+    job = yield { share: { x, y, options: o, index: cIdx.slice(half, n), halfWidth: cW.slice(half, n) } };
+    if (job) split = half;
+  }
+  try {
+    yield* measureCandidates(c, y, o, cIdx, cW, 0, split, keep);
+    if (job) {
+      if (!job.result()) yield job.settled;
+      const shared = job.result();
+      if (shared) {
+        for (let t = 0; t < shared.at.length; t++) keep(split + shared.at[t], shared.measures[t]);
+      } else {
+        job.cancel();
+        yield* measureCandidates(c, y, o, cIdx, cW, split, n, keep);
+      }
     }
-    kept.push({ m: copyMeasure(m), prominence: cPr[k], leftBase: cLb[k], rightBase: cRb[k], origin: 'detected' });
+  } finally {
+    job?.cancel();
   }
   let cands = kept;
   if (o.minSeparation > 0) {

@@ -6,7 +6,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { AnalysisMemo, analyse, analyseStaged, analyseSteps, applyStage, STAGES, type AnalyseRequest, type AnalyseResult, type StageUpdate } from '../../../src/core/analysis/index.ts';
+import { AnalysisMemo, analyse, analyseStaged, analyseSteps, applyStage, isStageUpdate, STAGES, type AnalyseRequest, type AnalyseResult, type StageUpdate } from '../../../src/core/analysis/index.ts';
 import { PipelineCache } from '../../../src/core/pipeline.ts';
 import { emptyRecipe, makeRecipeStep, type Recipe } from '../../../src/core/method.ts';
 import { STEP_REGISTRY, stepDefinition } from '../../../src/core/steps/registry.ts';
@@ -123,7 +123,7 @@ describe('staged analysis', () => {
       alternatives: [{ id: 'a', label: 'a', recipe: recipeOf([{ step: 'savitzky-golay', size: 2 }]) }],
     });
     const steps = [...analyseSteps(req(1), traces, STEP_REGISTRY)];
-    const stageAt = steps.map((u, k) => (u ? u.stage : steps.slice(k).find((v) => v)!.stage));
+    const stageAt = steps.map((u, k) => (isStageUpdate(u) ? u.stage : (steps.slice(k).find((v) => isStageUpdate(v)) as StageUpdate).stage));
     const pauses = stageAt.filter((s, k) => steps[k] === undefined);
     // The raw reference (in the peaks stage) pauses, and so may the noise-bump simulation (when not cached yet) and
     // the alternative; the stages before detection never do.
@@ -140,7 +140,7 @@ describe('staged analysis', () => {
       for (let k = 0; k <= cut; k++) gen.next();
       gen.return();
       let result: AnalyseResult | null = null;
-      for (const u of analyseSteps(req(2), traces, STEP_REGISTRY, { pipeline, memo })) if (u) result = applyStage(result, u);
+      for (const u of analyseSteps(req(2), traces, STEP_REGISTRY, { pipeline, memo })) if (isStageUpdate(u)) result = applyStage(result, u);
       expect(numbers(result)).toEqual(fresh);
     }
   });

@@ -18,7 +18,7 @@ import { createHash } from 'node:crypto';
 // @ts-expect-error a plain script without type declarations
 import { makeDemo } from '../../../scripts/make-demo.mjs';
 import { defaultPeakOptions, detectPeaks } from '../../../src/core/measure/peak-table.ts';
-import type { PeakOptions } from '../../../src/core/measure/peak-types.ts';
+import type { Peak, PeakOptions } from '../../../src/core/measure/peak-types.ts';
 import { makeBenchTrace } from '../../bench/bench-trace.ts';
 import { loadReal, MALDI_FILES } from '../../real/load-real.ts';
 import { longTrace } from './long-traces.ts';
@@ -52,15 +52,21 @@ function exactJson(v: unknown): string {
 /** The digest of one case: the detector's rows and options, or its problem. */
 export function digestOf(c: DigestCase): Digest {
   const { x, y, options } = c.make();
-  let body: string, rows = -1;
+  let outcome: Peak[] | Error;
   try {
-    const peaks = detectPeaks(x, y, options);
-    rows = peaks.length;
-    body = exactJson({ options, peaks });
+    outcome = detectPeaks(x, y, options);
   } catch (e) {
-    body = exactJson({ options, problem: e instanceof Error ? `${e.name}: ${e.message}` : String(e) });
+    outcome = e instanceof Error ? e : new Error(String(e));
   }
-  return { rows, sha256: createHash('sha256').update(body).digest('hex') };
+  return digestOfTable(options, outcome);
+}
+
+/** The digest of a table (or of the problem raised) made with `options`, however it was made. */
+export function digestOfTable(options: PeakOptions, outcome: Peak[] | Error): Digest {
+  const body = outcome instanceof Error
+    ? exactJson({ options, problem: `${outcome.name}: ${outcome.message}` })
+    : exactJson({ options, peaks: outcome });
+  return { rows: outcome instanceof Error ? -1 : outcome.length, sha256: createHash('sha256').update(body).digest('hex') };
 }
 
 interface Demo { x: number[]; files: { y: number[] }[]; truth: { x: { step: number } } }
