@@ -4,7 +4,7 @@
  * sends it shares, and hands back each share's result as a
  * {@link SharedJob}. If the thread cannot be started, fails, or does not
  * answer within {@link PARTNER_TIMEOUT_MS}, the job settles without a result
- * and detection measures that half itself (the same table, only slower); the
+ * and detection measures that share itself (the same table, only slower); the
  * reason is kept in {@link DetectPartnerClient.problem}.
  */
 import type { CandidateShare, SharedJob, SharedKept } from '../core/measure/peak-table.ts';
@@ -13,7 +13,7 @@ import type { PeakOptions } from '../core/measure/peak-types.ts';
 
 /** How many x grids the partner keeps (the sample's, and one of a resampling stack). */
 export const PARTNER_KEEPS_X = 2;
-/** A share not answered in this long is given up (its half is then measured by the worker). */
+/** A share not answered in this long is given up (its share is then measured by the worker). */
 export const PARTNER_TIMEOUT_MS = 20_000;
 
 export type ToPartner =

@@ -1,8 +1,8 @@
 /// <reference lib="webworker" />
 /**
  * The detection partner (issue 16): a second computation thread, started by
- * the computation worker, that measures the later half of a long peak
- * detection's candidates while the worker measures the first half
+ * the computation worker, that measures the later part of a long peak
+ * detection's candidates (45 %) while the worker measures the rest
  * (core/measure/peak-table.ts, `measureShareStepwise`). It keeps the last
  * few x grids it was sent, so a slider drag sends only the new y.
  * A cancel is seen at the pauses of the measuring loop.

@@ -13,7 +13,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it, vi } from 'vitest';
 import { drain, isShareOffer } from '../../../src/core/analysis/pause.ts';
 import {
-  defaultPeakOptions, detectPeaks, detectPeaksStepwise, measureShareStepwise, SHARE_MIN_CANDIDATES,
+  defaultPeakOptions, detectPeaks, detectPeaksStepwise, measureShareStepwise, SHARE_FRACTION, SHARE_MIN_CANDIDATES,
   type CandidateShare, type SharedJob, type SharedKept,
 } from '../../../src/core/measure/peak-table.ts';
 import type { Peak, PeakOptions } from '../../../src/core/measure/peak-types.ts';
@@ -90,14 +90,17 @@ describe('detection with its later candidates measured on another thread', () =>
     expect(JSON.stringify(drain(detectPeaksStepwise(t.x, t.y, o)))).toBe(alone);
   }, 60_000);
 
-  it('the offer is the later half of the candidates, in order, and is made only from SHARE_MIN_CANDIDATES on', async () => {
+  it('the offer is the later SHARE_FRACTION of the candidates, in order, and is made only from SHARE_MIN_CANDIDATES on', async () => {
     const t = makeBenchTrace(100_000);
     const o = defaultPeakOptions(t.sigma, 0.001);
     let share: CandidateShare | undefined;
     await detectWith(t.x, t.y, o, (s) => { share = s; return undefined; });
     expect(share).toBeDefined();
     expect(share!.index.length).toBe(share!.halfWidth.length);
-    expect(share!.index.length).toBeGreaterThan(SHARE_MIN_CANDIDATES / 2);
+    // The later candidates: the last SHARE_FRACTION of them (rounded down), the rest measured here.
+    const all = prominentMaxima(t.y, o.minProminence);
+    expect(share!.index.length).toBe(Math.floor(all.count * SHARE_FRACTION));
+    expect(Array.from(share!.index)).toEqual(Array.from(all.index.subarray(all.count - share!.index.length, all.count)));
     for (let k = 1; k < share!.index.length; k++) expect(share!.index[k]).toBeGreaterThan(share!.index[k - 1]);
     // The share's x and y are the call's own arrays (the worker copies what it sends).
     expect(share!.y).toBe(t.y);
