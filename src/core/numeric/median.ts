@@ -65,7 +65,79 @@ export function medianInPlace(a: Float64Array): number {
  * not be NaN (a NaN has no place in the order).
  */
 export function medianOf(values: ArrayLike<number>): number {
+  if (values.length >= BUCKET_MIN && values instanceof Float64Array) {
+    const m = medianByBuckets(values);
+    if (m !== undefined) return m;
+  }
   return medianInPlace(Float64Array.from(values));
+}
+
+/** From this many values on, {@link medianOf} counts them into buckets instead of copying and selecting. */
+export const BUCKET_MIN = 1 << 15;
+const BUCKETS = 4096;
+
+/**
+ * The median of a long array without copying it (issue 16: the residual's
+ * runs test at 10⁶ points): one pass for the range, one counting the values
+ * into {@link BUCKETS} equal-width buckets of that range, then the values of
+ * the bucket that holds the middle rank (about n/4096 of them for smooth
+ * data) are gathered and selected. A value's bucket,
+ * ⌊(v − min)·B/(max − min)⌋, never decreases as v grows (each operation
+ * rounds monotonically), so every value of a lower bucket is ≤ every value of
+ * a higher one, and the k-th value overall is the (k − below)-th of its
+ * bucket: the same value as sorting. Undefined (the caller then selects on a
+ * copy) when the range is not finite (NaN, ±Infinity), or when the middle
+ * bucket holds more than a quarter of the values (data piled on a few
+ * values), where gathering would cost as much as the copy.
+ */
+function medianByBuckets(a: Float64Array): number | undefined {
+  const n = a.length;
+  let min = Infinity, max = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const v = a[i];
+    if (v < min) min = v;
+    if (v > max) max = v;
+    if (v !== v) return undefined;
+  }
+  if (!(min <= max) || !Number.isFinite(min) || !Number.isFinite(max)) return undefined;
+  if (min === max) return min;
+  const scale = BUCKETS / (max - min);
+  if (!Number.isFinite(scale)) return undefined;
+  const last = BUCKETS - 1;
+  const counts = new Int32Array(BUCKETS);
+  for (let i = 0; i < n; i++) {
+    const b = ((a[i] - min) * scale) | 0;
+    counts[b > last ? last : b]++;
+  }
+  const hiRank = n >> 1;
+  let below = 0, hiBucket = 0;
+  while (below + counts[hiBucket] <= hiRank) below += counts[hiBucket++];
+  const size = counts[hiBucket];
+  if (size > n >> 2) return undefined;
+  const part = new Float64Array(size);
+  let m = 0;
+  for (let i = 0; i < n; i++) {
+    const v = a[i];
+    let b = ((v - min) * scale) | 0;
+    if (b > last) b = last;
+    if (b === hiBucket) part[m++] = v;
+  }
+  const r = hiRank - below;
+  const hi = selectInPlace(part, r);
+  if (n % 2 === 1) return hi;
+  // The other middle value: the largest below it in the bucket, or else the largest value of the buckets below.
+  let lo = -Infinity;
+  if (r > 0) {
+    for (let i = 0; i < r; i++) if (part[i] > lo) lo = part[i];
+  } else {
+    for (let i = 0; i < n; i++) {
+      const v = a[i];
+      let b = ((v - min) * scale) | 0;
+      if (b > last) b = last;
+      if (b < hiBucket && v > lo) lo = v;
+    }
+  }
+  return 0.5 * (lo + hi);
 }
 
 /**

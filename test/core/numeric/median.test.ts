@@ -1,7 +1,8 @@
 // src/core/numeric/median.ts: the project's one median, MAD scale and robust
 // noise estimate from differences.
 import { describe, expect, it } from 'vitest';
-import { MAD_TO_SIGMA, medianInPlace, medianMadInPlace, medianOf, robustSigmaOfDifferences } from '../../../src/core/numeric/median.ts';
+import fc from 'fast-check';
+import { BUCKET_MIN, MAD_TO_SIGMA, medianInPlace, medianMadInPlace, medianOf, robustSigmaOfDifferences } from '../../../src/core/numeric/median.ts';
 import { normalArray } from '../../../src/core/numeric/random.ts';
 
 describe('median', () => {
@@ -53,4 +54,51 @@ describe('median', () => {
     // Two differences in a hundred are hit: the MAD moves by a few per cent, the RMS by a factor of ~140.
     expect(Math.abs(robustSigmaOfDifferences(ds, Math.SQRT2) / clean - 1)).toBeLessThan(0.05);
   });
+
+  // Long arrays are counted into buckets (medianByBuckets) instead of copied and selected: the value must still be
+  // the one sorting gives, whatever the distribution.
+  const sortMedian = (c: Float64Array) => {
+    const s = Float64Array.from(c).sort();
+    const h = s.length >> 1;
+    return s.length % 2 ? s[h] : 0.5 * (s[h - 1] + s[h]);
+  };
+
+  it('on long arrays (counted into buckets) equals sorting and taking the middle: normal, outliers, ties, piles, huge and tiny ranges, odd and even counts', () => {
+    const n = BUCKET_MIN;
+    const normal = normalArray(31, n + 1);
+    const cases: Float64Array[] = [
+      normal, normal.subarray(0, n),
+      normalArray(32, 1_000_000),
+      // One huge outlier: nearly every value in one bucket, which then holds more than a quarter (the copy path).
+      Float64Array.from(normal, (v, i) => (i === 7 ? 1e12 : v)),
+      // Rounded to 3 decimals: many ties within and across buckets.
+      Float64Array.from(normal, (v) => Math.round(v * 1000) / 1000),
+      // Two piles: the middle falls between them (the other middle value in a lower bucket).
+      Float64Array.from({ length: n }, (_, i) => (i % 2 ? 5 : -3)),
+      Float64Array.from({ length: n + 2 }, (_, i) => (i < (n + 2) / 2 ? i * 1e-3 : 1e6 + i)),
+      // Ranges that overflow or underflow the scale.
+      Float64Array.from(normal, (v) => v * 1e307),
+      Float64Array.from(normal, (v) => v * 1e-310),
+      Float64Array.from({ length: n }, (_, i) => (i === 0 ? -Infinity : i)),
+      new Float64Array(n).fill(-2.5),
+    ];
+    for (const c of cases) {
+      const before = Float64Array.from(c);
+      expect(medianOf(c)).toBe(sortMedian(c));
+      expect(c).toEqual(before);
+    }
+  });
+
+  it('on long arrays equals the sorted middle for arbitrary finite values (fast-check)', () => {
+    fc.assert(fc.property(
+      fc.integer({ min: 0, max: 2 }), fc.integer({ min: 1, max: 2 ** 31 - 1 }), fc.double({ min: -1e6, max: 1e6, noNaN: true }), fc.integer({ min: 0, max: 300 }),
+      (extra, seed, shift, distinct) => {
+        const base = normalArray(seed, BUCKET_MIN + extra);
+        // Either smooth data or only `distinct` different values (piles), shifted.
+        const c = Float64Array.from(base, (v) => (distinct > 0 ? Math.round(v * distinct) / distinct : v) + shift);
+        expect(medianOf(c)).toBe(sortMedian(c));
+      },
+    ), { numRuns: 40 });
+  });
 });
+
