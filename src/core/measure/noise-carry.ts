@@ -44,7 +44,7 @@ import type { Signal, StepContext } from '../steps/types.ts';
 import type { Trace } from '../trace.ts';
 import { dft, nextPowerOfTwo } from '../numeric/fft.ts';
 import { makeRng } from '../numeric/random.ts';
-import { constantProfile, profileFromValues, profileMedian, sigmaAt, type SigmaProfile } from './noise-profile.ts';
+import { constantProfile, profileMedian, ProfileBuilder, sigmaAt, type SigmaProfile } from './noise-profile.ts';
 import { fmtNoiseNumber } from './noise-profile.ts';
 
 /** The noise of one input trace, as carried: σ (constant or along its grid) and ρ(0..L). */
@@ -314,39 +314,54 @@ export function carryLinear(raw: Signal, run: PipelineResult, recipe: Recipe, re
   const { g, c } = centreResponse(raw, run, recipe, registry, ctx);
   const gainVar = passedVariance(g, rho);
   const half = halfSupport(g, c);
-  const gainSq = new Float64Array(n).fill(gainVar);
+  // gainSq: the sample's noise gain at each index, gainVar in the interior, exact within `ends` points of each end.
+  let ends = 0;
+  let left: Float64Array | null = null, right: Float64Array | null = null;
   if (half > 0 && half <= EXACT_END_HALF_WIDTH && 4 * half + 2 * L + 8 <= n) {
-    const left = endGains(raw, recipe, registry, ctx, rho, half, false);
-    const right = endGains(raw, recipe, registry, ctx, rho, half, true);
+    left = endGains(raw, recipe, registry, ctx, rho, half, false);
+    right = endGains(raw, recipe, registry, ctx, rho, half, true);
     if (left && right) {
-      for (let r = 0; r < half; r++) { gainSq[r] = left[r]; gainSq[n - 1 - r] = right[r]; }
+      ends = half;
     } else {
       notes.push(`Within ${half} points of each end the interior gain is used (the stack could not be run on a short end piece).`);
     }
   } else if (half > 0) {
     notes.push(`The stack's impulse response is ${2 * half + 1} points wide; within ${Math.min(half, n >> 1)} points of each end the interior gain is used, not the exact one.`);
   }
+  const gainAt = (i: number): number => (i < ends ? left![i] : i >= n - ends ? right![n - 1 - i] : gainVar);
   // Other sources (blank, scans): interior share, scaled near the ends like the sample's.
   const others = sourcesUsed(run, ctx, noise);
-  const otherVar = new Float64Array(n);
+  const otherShares: number[] = [];
   const shares: string[] = [];
   for (const s of others) {
     const ks = s.y.length >> 1;
     const gs = responseTo(raw, recipe, registry, ctx, base, s.y, ks);
     const v = s.noise.sigma * s.noise.sigma * passedVariance(gs, s.noise.rho);
-    for (let i = 0; i < n; i++) otherVar[i] += gainVar > 0 ? (v * gainSq[i]) / gainVar : v;
+    otherShares.push(v);
     shares.push(`${s.label} adds σ ${fmt(Math.sqrt(v), 3)} (its own σ ${fmt(s.noise.sigma, 3)} × gain ${fmt(Math.sqrt(passedVariance(gs, s.noise.rho)), 4)})`);
   }
-  const values = new Float64Array(n);
-  // σ of the raw sample at each index: its profile's runs walked in order (what sigmaAt finds by binary search,
-  // once per point; at 10⁶ points that search was most of this function's time on every slider move).
+  // The other sources' variance at a point whose sample gain is gi (summed in the sources' order).
+  const otherAt = (gi: number): number => {
+    let o = 0;
+    for (const v of otherShares) o += gainVar > 0 ? (v * gi) / gainVar : v;
+    return o;
+  };
+  // σ at each index, √(σ_raw² × gain² + others), fed to the profile stretch by stretch: the raw profile's runs
+  // walked in order (issue 16: at 10⁶ points three arrays of every point's gain and σ were most of this function's
+  // time on every slider move); the end points one by one, the interior of each raw run as one stretch.
   const { starts, sigma: runSigma } = noise.sample.profile;
-  for (let i = 0, run = 0; i < n; i++) {
-    while (run + 1 < starts.length && starts[run + 1] <= i) run++;
+  const interiorOther = otherAt(gainVar);
+  const builder = new ProfileBuilder();
+  for (let run = 0; run < starts.length; run++) {
+    const from = Math.max(starts[run], 0), to = Math.min(run + 1 < starts.length ? starts[run + 1] : n, n);
+    if (to <= from) continue;
     const sr = runSigma[run];
-    values[i] = Math.sqrt(sr * sr * gainSq[i] + otherVar[i]);
+    const a = Math.min(Math.max(from, ends), to), b = Math.max(Math.min(to, n - ends), a);
+    for (let i = from; i < a; i++) { const gi = gainAt(i); builder.push(Math.sqrt(sr * sr * gi + otherAt(gi)), 1); }
+    builder.push(Math.sqrt(sr * sr * gainVar + interiorOther), b - a);
+    for (let i = b; i < to; i++) { const gi = gainAt(i); builder.push(Math.sqrt(sr * sr * gi + otherAt(gi)), 1); }
   }
-  const profile = profileFromValues(values);
+  const profile = builder.done();
   const sigma = profileMedian(profile);
   const gain = Math.sqrt(gainVar);
   const desc = `Carried exactly through the linear stack: the raw σ × ${fmt(gain)}, the stack's noise gain from its impulse response (${2 * half + 1} points wide) and ${L === 0 ? 'white raw noise (no correlation measured)' : `the raw noise's autocorrelation over ${L} lag${L === 1 ? '' : 's'}`}${shares.length ? `; ${shares.join('; ')}` : ''}${half > 0 ? '; exact row by row at the ends' : ''}.`;

@@ -43,16 +43,49 @@ export function sigmaAt(p: SigmaProfile, index: number): number {
  * `relTol` (relative) into one run, so a constant interior costs one entry.
  */
 export function profileFromValues(values: Float64Array, relTol = 1e-6): SigmaProfile {
-  const starts: number[] = [];
-  const sig: number[] = [];
-  let runStart = 0, runValue = values[0];
-  for (let i = 1; i <= values.length; i++) {
-    const v = i < values.length ? values[i] : NaN;
-    if (i < values.length && Math.abs(v - runValue) <= relTol * Math.max(Math.abs(runValue), Math.abs(v))) continue;
-    starts.push(runStart); sig.push(runValue);
-    runStart = i; runValue = v;
+  const b = new ProfileBuilder(relTol);
+  for (let i = 0; i < values.length; i++) b.push(values[i], 1);
+  return b.done();
+}
+
+/**
+ * {@link profileFromValues} fed with stretches of equal values (value, count)
+ * instead of one value per index: the same runs, without an array of them.
+ * Each value of a stretch compares with the run's first value as in
+ * profileFromValues, and all of a stretch's values are alike, so the first
+ * decides for the rest (a NaN or an infinity, which profileFromValues never
+ * finds close to itself, is pushed one by one).
+ */
+export class ProfileBuilder {
+  private readonly starts: number[] = [];
+  private readonly sig: number[] = [];
+  private runStart = 0;
+  private runValue = NaN;
+  private at = 0;
+
+  constructor(private readonly relTol = 1e-6) {}
+
+  push(v: number, count: number): void {
+    if (count <= 0) return;
+    if (!Number.isFinite(v) && count > 1) {
+      for (let k = 0; k < count; k++) this.push(v, 1);
+      return;
+    }
+    if (this.at === 0) {
+      this.runValue = v;
+    } else if (!(Math.abs(v - this.runValue) <= this.relTol * Math.max(Math.abs(this.runValue), Math.abs(v)))) {
+      this.starts.push(this.runStart); this.sig.push(this.runValue);
+      this.runStart = this.at; this.runValue = v;
+    }
+    this.at += count;
   }
-  return { points: values.length, starts: Int32Array.from(starts), sigma: Float64Array.from(sig) };
+
+  /** The profile of everything pushed (its points: the count pushed). */
+  done(): SigmaProfile {
+    const starts = this.starts.slice(), sig = this.sig.slice();
+    if (this.at > 0) { starts.push(this.runStart); sig.push(this.runValue); }
+    return { points: this.at, starts: Int32Array.from(starts), sigma: Float64Array.from(sig) };
+  }
 }
 
 /** The median σ over the grid's points (each run weighted by its length). */

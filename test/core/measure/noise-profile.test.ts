@@ -1,6 +1,7 @@
 /** σ profiles (src/core/measure/noise-profile.ts) and their use for each peak's S/N. */
 import { describe, expect, it } from 'vitest';
-import { constantProfile, profileFromValues, profileMedian, profileRange, sigmaAt } from '../../../src/core/measure/noise-profile.ts';
+import fc from 'fast-check';
+import { constantProfile, ProfileBuilder, profileFromValues, profileMedian, profileRange, sigmaAt, type SigmaProfile } from '../../../src/core/measure/noise-profile.ts';
 import { analyse } from '../../../src/core/analysis/index.ts';
 import { emptyRecipe } from '../../../src/core/method.ts';
 import { STEP_REGISTRY } from '../../../src/core/steps/registry.ts';
@@ -16,6 +17,35 @@ describe('σ profile', () => {
     expect(profileMedian(p)).toBe(2);
     expect(profileRange(p)).toEqual([2, 5]);
     expect(sigmaAt(constantProfile(10, 0.5), 7)).toBe(0.5);
+  });
+
+  // The merging rule written out point by point, as profileFromValues was before stretches (issue 16): a value joins
+  // the run when it is within relTol of the run's first value, relative to the larger of the two.
+  function pointByPoint(values: number[], relTol = 1e-6): SigmaProfile {
+    const starts: number[] = [], sig: number[] = [];
+    let runStart = 0, runValue = values[0];
+    for (let i = 1; i <= values.length; i++) {
+      const v = i < values.length ? values[i] : NaN;
+      if (i < values.length && Math.abs(v - runValue) <= relTol * Math.max(Math.abs(runValue), Math.abs(v))) continue;
+      starts.push(runStart); sig.push(runValue);
+      runStart = i; runValue = v;
+    }
+    return { points: values.length, starts: Int32Array.from(starts), sigma: Float64Array.from(sig) };
+  }
+
+  it('fed stretches of equal values (ProfileBuilder) it makes the runs the point-by-point rule makes: near-equal values, zeros, NaN and infinities (fast-check)', () => {
+    const value = fc.oneof(
+      fc.constantFrom(1, 1 + 5e-7, 1 + 2e-6, 1 - 9e-7, 0, -0, 2, NaN, Infinity, -Infinity),
+      fc.double({ min: 0, max: 10, noNaN: true }),
+    );
+    fc.assert(fc.property(fc.array(fc.tuple(value, fc.integer({ min: 0, max: 5 })), { maxLength: 30 }), (stretches) => {
+      const b = new ProfileBuilder();
+      const flat: number[] = [];
+      for (const [v, count] of stretches) { b.push(v, count); for (let k = 0; k < count; k++) flat.push(v); }
+      const want = pointByPoint(flat);
+      expect(b.done()).toEqual(want);
+      expect(profileFromValues(Float64Array.from(flat))).toEqual(want);
+    }), { numRuns: 500 });
   });
 });
 
