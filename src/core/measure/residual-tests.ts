@@ -85,15 +85,21 @@ export function twoSidedP(z: number): number {
  */
 export function runsTest(e: Float64Array): RunsTest {
   const med = medianOf(e);
-  let n1 = 0, n2 = 0, runs = 0, last = 0;
+  // Written without branches (issue 16: on noise the side is a coin toss, and a mispredicted branch per point was
+  // most of this loop at 10⁶ points, 7.7 → 2.7 ms): side is +1 above the median, −1 below, 0 on it; a run starts
+  // at the first point off the median and wherever the side flips (side × last < 0); last keeps the latest side
+  // off the median.
+  let n1 = 0, n2 = 0, flips = 0, last = 0;
   for (let i = 0; i < e.length; i++) {
-    const side = e[i] > med ? 1 : e[i] < med ? -1 : 0;
-    if (side === 0) continue;
-    if (side === 1) n1++; else n2++;
-    if (side !== last) runs++;
-    last = side;
+    const v = e[i];
+    const up = +(v > med), down = +(v < med);
+    n1 += up; n2 += down;
+    const side = up - down;
+    flips += +(side * last < 0);
+    last = side + (1 - side * side) * last;
   }
   const N = n1 + n2;
+  const runs = N > 0 ? flips + 1 : 0;
   const expected = N > 0 ? (2 * n1 * n2) / N + 1 : 0;
   if (n1 < 2 || n2 < 2) return { runs, expected, z: 0, p: 1 };
   const variance = (2 * n1 * n2 * (2 * n1 * n2 - N)) / (N * N * (N - 1));

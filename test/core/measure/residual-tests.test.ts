@@ -1,3 +1,4 @@
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { lag1Autocorrelation, residual, residualDiagnostics, runsTest, twoSidedP } from '../../../src/core/measure/residual-tests.ts';
 import { makeRng } from '../../../src/core/numeric/random.ts';
@@ -19,6 +20,31 @@ describe('runs test and lag-1 against outside values', () => {
     expect(r.z).toBeCloseTo(ref.runs.z, 12);
     expect(r.p).toBeCloseTo(ref.runs.p, 6);
     expect(lag1Autocorrelation(e)).toBeCloseTo(ref.runs.lag1, 12);
+  });
+
+  it('counts runs, n₁ and n₂ as the plain rule does (points on the median left out), with ties, points on the median and short arrays (fast-check)', () => {
+    // The rule written out with branches, as in the Wald–Wolfowitz definition; runsTest counts without branches.
+    const plain = (e: Float64Array, med: number) => {
+      let n1 = 0, n2 = 0, runs = 0, last = 0;
+      for (const v of e) {
+        const side = v > med ? 1 : v < med ? -1 : 0;
+        if (side === 0) continue;
+        if (side === 1) n1++; else n2++;
+        if (side !== last) runs++;
+        last = side;
+      }
+      return { runs, expected: n1 + n2 > 0 ? (2 * n1 * n2) / (n1 + n2) + 1 : 0 };
+    };
+    fc.assert(fc.property(fc.array(fc.integer({ min: -3, max: 3 }), { minLength: 0, maxLength: 60 }), (ints) => {
+      const e = Float64Array.from(ints);
+      const sorted = Array.from(e).sort((a, b) => a - b);
+      const h = sorted.length >> 1;
+      const med = sorted.length === 0 ? NaN : sorted.length % 2 ? sorted[h] : 0.5 * (sorted[h - 1] + sorted[h]);
+      const want = plain(e, med);
+      const got = runsTest(e);
+      expect(got.runs).toBe(want.runs);
+      expect(got.expected).toBe(want.expected);
+    }), { numRuns: 1000 });
   });
 
   it('two-sided normal p-values agree with scipy.stats.norm.sf within the erfc approximation (1.2e-7 relative)', () => {
