@@ -11,10 +11,17 @@
 
 import type { CandidateShare, SharedJob } from '../measure/peak-table.ts';
 
-/** Work offered to another thread (peak detection's later candidates, peak-table.ts). */
-export interface ShareOffer {
-  readonly share: CandidateShare;
+/** The residual's tests offered to another thread (stage 2, analysis/index.ts): the residual and the raw trace's largest |y|. */
+export interface ResidualShare {
+  y: Float64Array;
+  rawScale: number;
 }
+
+/** Work offered to another thread: peak detection's later candidates (peak-table.ts), or the residual's tests. */
+export type ShareOffer = { readonly share: CandidateShare } | { readonly residual: ResidualShare };
+
+/** What `next` answers an offer with: the job started elsewhere, or undefined (do it yourself). */
+export type ShareAnswer = SharedJob<unknown> | undefined;
 
 /**
  * What a stepwise computation yields: `undefined` for a pause; an offer of
@@ -26,15 +33,15 @@ export interface ShareOffer {
 export type Pause = undefined | ShareOffer | Promise<void>;
 
 /** A computation that pauses now and then and returns T; `next` may answer an offer with a job. */
-export type Stepwise<T> = Generator<Pause, T, SharedJob | undefined>;
+export type Stepwise<T> = Generator<Pause, T, ShareAnswer>;
 
 /** True for an offer of work (not a pause, a promise or a stage's update). */
 export function isShareOffer(v: unknown): v is ShareOffer {
-  return typeof v === 'object' && v !== null && 'share' in v;
+  return typeof v === 'object' && v !== null && ('share' in v || 'residual' in v);
 }
 
 /** Run a stepwise computation to its end, ignoring the pauses (and never waiting for another thread). */
-export function drain<T>(steps: Generator<unknown, T, SharedJob | undefined>): T {
+export function drain<T>(steps: Generator<unknown, T, ShareAnswer>): T {
   for (;;) {
     const r = steps.next();
     if (r.done) return r.value;
