@@ -10,8 +10,6 @@
 import type { CandidateShare, SharedJob, SharedKept } from '../core/measure/peak-table.ts';
 import type { LocalMeasure } from '../core/measure/peak-bounds.ts';
 import type { PeakOptions } from '../core/measure/peak-types.ts';
-import type { ResidualShare } from '../core/analysis/pause.ts';
-import type { ResidualDiagnostics } from '../core/measure/residual-tests.ts';
 
 /** How many x grids the partner keeps (the sample's, and one of a resampling stack). */
 export const PARTNER_KEEPS_X = 2;
@@ -20,18 +18,11 @@ export const PARTNER_TIMEOUT_MS = 20_000;
 
 export type ToPartner =
   | { type: 'share'; job: number; xId: number; x?: Float64Array; y: Float64Array; options: PeakOptions; index: Int32Array; halfWidth: Float64Array }
-  | { type: 'residual'; job: number; y: Float64Array; rawScale: number }
   | { type: 'cancel'; job: number };
 
-/**
- * 'declined': the residual's tests threw there (a value that is not a finite number); the worker works them out
- * itself and reports the problem as it always has. 'failed': the thread is broken; sharing stops.
- */
 export type FromPartner =
   | { type: 'kept'; job: number; at: Int32Array; measures: LocalMeasure[] }
-  | { type: 'residual-tests'; job: number; diagnostics: ResidualDiagnostics }
   | { type: 'cancelled'; job: number }
-  | { type: 'declined'; job: number }
   | { type: 'failed'; job: number; message: string };
 
 /** The least of a Worker this client uses (a fake one in tests). */
@@ -43,7 +34,7 @@ export interface PartnerThread {
 }
 
 interface Pending {
-  done: (value: unknown) => void;
+  done: (kept: SharedKept | undefined) => void;
   timer: ReturnType<typeof setTimeout>;
 }
 
@@ -65,47 +56,32 @@ export class DetectPartnerClient {
   /** Start measuring a share on the partner thread; undefined once sharing has stopped (see {@link problem}). */
   start(share: CandidateShare): SharedJob | undefined {
     if (this.problem) return undefined;
-    const xId = this.idOf(share.x);
-    const sendX = !this.held.some((h) => h.id === xId);
-    // Copies, handed over: the worker's arrays stay in its caches (and a view would send its whole buffer).
-    const y = share.y.slice();
-    const x = sendX ? share.x.slice() : undefined;
-    const job = this.send<SharedKept>((id) => {
-      const msg: ToPartner = { type: 'share', job: id, xId, y, options: share.options, index: share.index, halfWidth: share.halfWidth };
-      if (x) msg.x = x;
-      return msg;
-    }, [y.buffer, ...(x ? [x.buffer] : []), share.index.buffer, share.halfWidth.buffer]);
-    if (job && sendX) {
-      this.held.push({ id: xId, x: share.x });
-      while (this.held.length > PARTNER_KEEPS_X) this.held.shift();
-    }
-    return job;
-  }
-
-  /** Start the residual's tests (residualDiagnostics) on the partner thread; undefined once sharing has stopped. */
-  residual(r: ResidualShare): SharedJob<ResidualDiagnostics> | undefined {
-    if (this.problem) return undefined;
-    const y = r.y.slice();
-    return this.send<ResidualDiagnostics>((id) => ({ type: 'residual', job: id, y, rawScale: r.rawScale }), [y.buffer]);
-  }
-
-  /** Post one job's message and hand back its job; undefined when the thread cannot be had. */
-  private send<T>(message: (job: number) => ToPartner, transfer: Transferable[]): SharedJob<T> | undefined {
     const thread = this.ensure();
     if (!thread) return undefined;
     const job = this.nextJob++;
-    let result: T | undefined;
+    const xId = this.idOf(share.x);
+    const sendX = !this.held.some((h) => h.id === xId);
+    if (sendX) {
+      this.held.push({ id: xId, x: share.x });
+      while (this.held.length > PARTNER_KEEPS_X) this.held.shift();
+    }
+    // Copies, handed over: the worker's arrays stay in its caches (and a view would send its whole buffer).
+    const y = share.y.slice();
+    const x = sendX ? share.x.slice() : undefined;
+    const msg: ToPartner = { type: 'share', job, xId, y, options: share.options, index: share.index, halfWidth: share.halfWidth };
+    if (x) msg.x = x;
+    let result: SharedKept | undefined;
     let over = false;
     const settled = new Promise<void>((resolve) => {
       const timer = setTimeout(() => {
         this.stop(`The second thread for peak detection did not answer within ${PARTNER_TIMEOUT_MS / 1000} s.`);
       }, PARTNER_TIMEOUT_MS);
-      this.pending.set(job, { timer, done: (value) => { result = value as T | undefined; over = true; resolve(); } });
+      this.pending.set(job, { timer, done: (kept) => { result = kept; over = true; resolve(); } });
     });
     try {
-      thread.postMessage(message(job), transfer);
+      thread.postMessage(msg, [y.buffer, ...(x ? [x.buffer] : []), share.index.buffer, share.halfWidth.buffer]);
     } catch (e) {
-      this.stop(`A share of work could not be sent to the second thread: ${e instanceof Error ? e.message : String(e)}`);
+      this.stop(`A share of peak detection could not be sent to the second thread: ${e instanceof Error ? e.message : String(e)}`);
     }
     return {
       settled,
@@ -150,22 +126,21 @@ export class DetectPartnerClient {
 
   private receive(msg: FromPartner): void {
     if (msg.type === 'kept') this.finish(msg.job, { at: msg.at, measures: msg.measures });
-    else if (msg.type === 'residual-tests') this.finish(msg.job, msg.diagnostics);
-    else if (msg.type === 'cancelled' || msg.type === 'declined') this.finish(msg.job, undefined);
+    else if (msg.type === 'cancelled') this.finish(msg.job, undefined);
     else this.stop(`The second thread for peak detection could not measure its share: ${msg.message}`);
   }
 
-  private finish(job: number, value: unknown): void {
+  private finish(job: number, kept: SharedKept | undefined): void {
     const p = this.pending.get(job);
     if (!p) return;
     this.pending.delete(job);
     clearTimeout(p.timer);
-    p.done(value);
+    p.done(kept);
   }
 
   /** Sharing stops for good: every job settles without a result (detection measures those halves itself). */
   private stop(problem: string): void {
-    if (!this.problem) this.onProblem(`${problem} Peak detection and the residual's tests now run on one thread (the same results, only slower).`);
+    if (!this.problem) this.onProblem(`${problem} Peak detection now measures every candidate on one thread (the same table, only slower).`);
     this.problem = problem;
     for (const job of [...this.pending.keys()]) this.finish(job, undefined);
     this.thread?.terminate();

@@ -3,13 +3,11 @@
  * The detection partner (issue 16): a second computation thread, started by
  * the computation worker, that measures the later part of a long peak
  * detection's candidates (45 %) while the worker measures the rest
- * (core/measure/peak-table.ts, `measureShareStepwise`), and the residual's
- * tests while the worker measures the noise (core/analysis/index.ts, stage
- * 2). It keeps the last few x grids it was sent, so a slider drag sends only
- * the new y. A cancel is seen at the pauses of the measuring loop.
+ * (core/measure/peak-table.ts, `measureShareStepwise`). It keeps the last
+ * few x grids it was sent, so a slider drag sends only the new y.
+ * A cancel is seen at the pauses of the measuring loop.
  */
 import { measureShareStepwise } from '../core/measure/peak-table.ts';
-import { residualDiagnostics } from '../core/measure/residual-tests.ts';
 import { macrotask, PAUSE_AFTER_MS } from './stager.ts';
 import { PARTNER_KEEPS_X, type FromPartner, type ToPartner } from './detect-partner-client.ts';
 
@@ -25,15 +23,6 @@ function post(msg: FromPartner): void {
 scope.onmessage = (ev: MessageEvent<ToPartner>) => {
   const msg = ev.data;
   if (msg.type === 'cancel') { cancelled.add(msg.job); return; }
-  if (msg.type === 'residual') {
-    // The residual's tests: one synchronous call (about 30 ms at 10⁶ points), nothing to cancel inside.
-    try {
-      post({ type: 'residual-tests', job: msg.job, diagnostics: residualDiagnostics(msg.y, msg.rawScale) });
-    } catch {
-      post({ type: 'declined', job: msg.job });
-    }
-    return;
-  }
   if (msg.x) {
     grids.set(msg.xId, msg.x);
     while (grids.size > PARTNER_KEEPS_X) grids.delete(grids.keys().next().value as number);

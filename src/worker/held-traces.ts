@@ -3,7 +3,8 @@
  * in-process where no Worker exists (Node tests, very old browsers).
  */
 import { AnalysisMemo, analyse, analyseSteps, type AnalyseRequest, type AnalyseResult, type StageUpdate } from '../core/analysis/index.ts';
-import type { Pause, ShareAnswer } from '../core/analysis/pause.ts';
+import type { Pause } from '../core/analysis/pause.ts';
+import type { SharedJob } from '../core/measure/peak-table.ts';
 import { loadFileHashed } from '../core/io/load.ts';
 import type { LoadOptions, LoadResult } from '../core/io/types.ts';
 import { PipelineCache } from '../core/pipeline.ts';
@@ -74,7 +75,7 @@ export class HeldTraces {
    * A request of the page's own (not a `side` job: the standards' analyses) starts a new run of the pipeline cache, which
    * lets go of step outputs neither this run nor the one before it uses (pipeline.ts, issue 16).
    */
-  stages(request: AnalyseRequest, side = false): Generator<StageUpdate | Pause, void, ShareAnswer> {
+  stages(request: AnalyseRequest, side = false): Generator<StageUpdate | Pause, void, SharedJob | undefined> {
     if (!side) this.cache.beginRun();
     return analyseSteps(request, this.traces, STEP_REGISTRY, { pipeline: this.cache, memo: this.memo });
   }

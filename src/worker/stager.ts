@@ -8,7 +8,8 @@
  * waits for more than about that long of stale work, even inside one stage.
  */
 import type { StageUpdate } from '../core/analysis/index.ts';
-import { isShareOffer, type Pause, type ShareAnswer, type ShareOffer } from '../core/analysis/pause.ts';
+import { isShareOffer, type Pause } from '../core/analysis/pause.ts';
+import type { CandidateShare, SharedJob } from '../core/measure/peak-table.ts';
 
 /** Work (ms) between two yields to the event loop inside a stage. */
 export const PAUSE_AFTER_MS = 30;
@@ -27,18 +28,18 @@ export function macrotask(): Promise<void> {
   });
 }
 
-/** Starts offered work on another thread and answers its job, or answers undefined (then the stage does it itself). */
-export type Sharer = (offer: ShareOffer) => ShareAnswer;
+/** Starts a share of detection work on another thread, or answers undefined (then the stage does it itself). */
+export type Sharer = (share: CandidateShare) => SharedJob | undefined;
 
 /**
  * Run the stages. Offers of work (pause.ts) are answered by `sharer` (none: the stage does the work itself);
  * while a stage waits for such a job, stale() is asked every {@link PAUSE_AFTER_MS}, so a newer request
  * stops the wait too (closing the generator cancels the job).
  */
-export async function runStages(stages: Generator<StageUpdate | Pause, void, ShareAnswer>, post: (u: StageUpdate) => void, stale: () => boolean, sharer?: Sharer): Promise<'done' | 'cancelled'> {
+export async function runStages(stages: Generator<StageUpdate | Pause, void, SharedJob | undefined>, post: (u: StageUpdate) => void, stale: () => boolean, sharer?: Sharer): Promise<'done' | 'cancelled'> {
   try {
     let since = performance.now();
-    let answer: ShareAnswer;
+    let answer: SharedJob | undefined;
     for (;;) {
       if (stale()) return 'cancelled';
       const next = stages.next(answer);
@@ -49,7 +50,7 @@ export async function runStages(stages: Generator<StageUpdate | Pause, void, Sha
         // A pause inside a stage: let queued messages in only when enough work went by.
         if (performance.now() - since < PAUSE_AFTER_MS) continue;
       } else if (isShareOffer(v)) {
-        answer = sharer?.(v);
+        answer = sharer?.(v.share);
         continue;
       } else if (v instanceof Promise) {
         if (await settledOrStale(v, stale)) return 'cancelled';

@@ -160,7 +160,7 @@ async function analyse(jobId: number, params: ParamsOf<'analyse'>): Promise<void
     const far = thin.far.length ? thin.far : undefined;
     const drawn = thin.far.flatMap((f) => [f.drawn.x.buffer as ArrayBuffer, f.drawn.y.buffer as ArrayBuffer]);
     post({ type: 'stage', jobId, update: { ...update, patch }, peakColumns, peakView, ledgerColumns, far }, [...transferablesOf(patch), ...(peakColumns ? columnBuffers(peakColumns) : []), ...(ledgerColumns ? ledgerBuffers(ledgerColumns) : []), ...(peakView ? [peakView.rows.buffer as ArrayBuffer, peakView.markers.buffer as ArrayBuffer] : []), ...drawn]);
-  }, () => !params.side && latestJob !== jobId, (offer) => ('share' in offer ? partner.start(offer.share) : partner.residual(offer.residual)));
+  }, () => !params.side && latestJob !== jobId, (share) => partner.start(share));
   reply('analyse', jobId, { outcome, ms: Date.now() - t0 });
 }
 

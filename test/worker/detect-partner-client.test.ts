@@ -13,7 +13,6 @@ import { afterEach, describe, expect, test, vi } from 'vitest';
 import { drain } from '../../src/core/analysis/pause.ts';
 import { defaultPeakOptions, measureShareStepwise, type CandidateShare } from '../../src/core/measure/peak-table.ts';
 import { prominentMaxima } from '../../src/core/measure/peak-detection.ts';
-import { residualDiagnostics } from '../../src/core/measure/residual-tests.ts';
 import {
   DetectPartnerClient, PARTNER_KEEPS_X, PARTNER_TIMEOUT_MS, type FromPartner, type PartnerThread, type ToPartner,
 } from '../../src/worker/detect-partner-client.ts';
@@ -32,14 +31,6 @@ class FakeThread implements PartnerThread {
   postMessage(msg: ToPartner): void {
     const copy = structuredClone(msg);
     this.sent.push(copy);
-    if (copy.type === 'residual') {
-      setTimeout(() => {
-        let answer: FromPartner;
-        try { answer = { type: 'residual-tests', job: copy.job, diagnostics: residualDiagnostics(copy.y, copy.rawScale) }; } catch { answer = { type: 'declined', job: copy.job }; }
-        this.onmessage?.({ data: structuredClone(answer) } as MessageEvent<FromPartner>);
-      }, 0);
-      return;
-    }
     if (copy.type !== 'share') return;
     if (copy.x) { this.grids.set(copy.xId, copy.x); while (this.grids.size > PARTNER_KEEPS_X) this.grids.delete(this.grids.keys().next().value as number); }
     if (this.behave === 'silent') return;
@@ -110,24 +101,6 @@ describe('DetectPartnerClient', () => {
     expect(sentX).toEqual([...grids.map(() => true), true]);
   });
 
-  test('the residual\'s tests come back as worked out there; a declined one settles without a result and sharing goes on', async () => {
-    const thread = new FakeThread();
-    const told = vi.fn();
-    const client = new DetectPartnerClient(() => thread, told);
-    const y = makeBenchTrace(20_000).y;
-    const job = client.residual({ y, rawScale: 2 })!;
-    await job.settled;
-    expect(job.result()).toEqual(residualDiagnostics(y, 2));
-    expect(y.length).toBe(20_000);
-    const bad = y.slice(); bad[0] = Infinity;
-    const declined = client.residual({ y: bad, rawScale: 2 })!;
-    await declined.settled;
-    expect(declined.result()).toBeUndefined();
-    expect(told).not.toHaveBeenCalled();
-    expect(client.problem).toBeNull();
-    expect(client.start(shareOf(6_000))).toBeDefined();
-  });
-
   test('cancel settles the job without a result and tells the thread', async () => {
     const thread = new FakeThread('silent');
     const client = new DetectPartnerClient(() => thread);
@@ -146,7 +119,7 @@ describe('DetectPartnerClient', () => {
     await job.settled;
     expect(job.result()).toBeUndefined();
     expect(told).toHaveBeenCalledTimes(1);
-    expect(told.mock.calls[0][0]).toMatch(/could not measure its share: out of memory.*one thread \(the same results, only slower\)/);
+    expect(told.mock.calls[0][0]).toMatch(/could not measure its share: out of memory.*one thread \(the same table, only slower\)/);
     expect(thread.terminated).toBe(true);
     expect(client.start(shareOf(6_000))).toBeUndefined();
     expect(told).toHaveBeenCalledTimes(1);

@@ -5,14 +5,12 @@
  * the module's doc promises: a share is answered with the kept measures
  * detection makes alone (measureShareStepwise), x grids are kept by id (the
  * last PARTNER_KEEPS_X), a cancel is seen at a pause of the measuring loop,
- * the residual's tests are worked out (or declined when they cannot be), and
- * a share that cannot be measured is answered 'failed', never dropped.
+ * and a share that cannot be measured is answered 'failed', never dropped.
  */
 import { afterEach, beforeEach, describe, expect, test, vi } from 'vitest';
 import { drain } from '../../src/core/analysis/pause.ts';
 import { prominentMaxima } from '../../src/core/measure/peak-detection.ts';
 import { defaultPeakOptions, measureShareStepwise } from '../../src/core/measure/peak-table.ts';
-import { residualDiagnostics } from '../../src/core/measure/residual-tests.ts';
 import { PARTNER_KEEPS_X, type FromPartner, type ToPartner } from '../../src/worker/detect-partner-client.ts';
 import { makeBenchTrace } from '../bench/bench-trace.ts';
 
@@ -84,15 +82,6 @@ describe('the detection partner thread', () => {
     setTimeout(() => send({ type: 'cancel', job: 7 }), 0);
     expect(await answerTo(7)).toEqual({ type: 'cancelled', job: 7 });
   }, 60_000);
-
-  test('works out the residual\'s tests (residualDiagnostics) and declines a residual they cannot be made on', async () => {
-    const y = makeBenchTrace(20_000).y;
-    send({ type: 'residual', job: 21, y, rawScale: 3 });
-    expect(await answerTo(21)).toEqual({ type: 'residual-tests', job: 21, diagnostics: residualDiagnostics(y, 3) });
-    const bad = y.slice(); bad[7] = NaN;
-    send({ type: 'residual', job: 22, y: bad, rawScale: 3 });
-    expect(await answerTo(22)).toEqual({ type: 'declined', job: 22 });
-  });
 
   test('a share whose options cannot be measured is answered failed with the reason', async () => {
     const s = share(6_000);

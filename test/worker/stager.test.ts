@@ -9,7 +9,8 @@
 import { afterEach, describe, expect, test, vi } from 'vitest';
 import { macrotask, PAUSE_AFTER_MS, runStages } from '../../src/worker/stager.ts';
 import type { StageUpdate } from '../../src/core/analysis/index.ts';
-import type { Pause, ShareAnswer } from '../../src/core/analysis/pause.ts';
+import type { Pause } from '../../src/core/analysis/pause.ts';
+import type { SharedJob } from '../../src/core/measure/peak-table.ts';
 
 const upd = (stage: StageUpdate['stage']): StageUpdate => ({ stage, sampleId: 's', patch: {}, pending: [] });
 
@@ -18,7 +19,7 @@ afterEach(() => { vi.restoreAllMocks(); vi.unstubAllGlobals(); });
 describe('runStages', () => {
   test('posts every update in the order the stages yield them, skips the pauses, ends with done and closes the generator', async () => {
     let closed = false;
-    function* gen(): Generator<StageUpdate | Pause, void, ShareAnswer> {
+    function* gen(): Generator<StageUpdate | Pause, void, SharedJob | undefined> {
       try {
         yield upd('processed');
         yield undefined;
@@ -36,7 +37,7 @@ describe('runStages', () => {
 
   test('stale before the first stage: nothing is pulled, cancelled', async () => {
     let pulled = 0;
-    function* gen(): Generator<StageUpdate | Pause, void, ShareAnswer> { pulled++; yield upd('processed'); }
+    function* gen(): Generator<StageUpdate | Pause, void, SharedJob | undefined> { pulled++; yield upd('processed'); }
     const post = vi.fn();
     expect(await runStages(gen(), post, () => true)).toBe('cancelled');
     expect(pulled).toBe(0);
@@ -46,7 +47,7 @@ describe('runStages', () => {
   // Moved from staged.test.ts.
   test('runStages stops before the next stage once stale, and closes the generator', async () => {
     let closed = false;
-    function* gen(): Generator<StageUpdate | Pause, void, ShareAnswer> {
+    function* gen(): Generator<StageUpdate | Pause, void, SharedJob | undefined> {
       try {
         for (const stage of ['processed', 'residual', 'noise'] as const) yield { stage, sampleId: 's', patch: {}, pending: [] };
       } finally { closed = true; }
@@ -63,7 +64,7 @@ describe('runStages', () => {
   test('runStages stops inside a long stage: at a pause, once the work since the last yield passed PAUSE_AFTER_MS and a newer request came', async () => {
     let closed = false;
     let pulled = 0, firstStart = 0, lastEnd = 0;
-    function* gen(): Generator<StageUpdate | Pause, void, ShareAnswer> {
+    function* gen(): Generator<StageUpdate | Pause, void, SharedJob | undefined> {
       try {
         yield { stage: 'noise', sampleId: 's', patch: {}, pending: ['peaks'] };
         // A long stage: 200 pieces of 2 ms of work, a pause after each.
@@ -97,7 +98,7 @@ describe('runStages', () => {
     let clock = 0;
     vi.spyOn(performance, 'now').mockImplementation(() => clock);
     const log: string[] = [];
-    function* gen(): Generator<StageUpdate | Pause, void, ShareAnswer> {
+    function* gen(): Generator<StageUpdate | Pause, void, SharedJob | undefined> {
       // A message queued while the stage works (a port message: the same task source as macrotask()'s).
       const ch = new MessageChannel();
       ch.port1.onmessage = () => { ch.port1.close(); log.push('message'); };
@@ -120,7 +121,7 @@ describe('runStages', () => {
     vi.spyOn(performance, 'now').mockImplementation(() => clock);
     let stale = false;
     let pieces = 0;
-    function* gen(): Generator<StageUpdate | Pause, void, ShareAnswer> {
+    function* gen(): Generator<StageUpdate | Pause, void, SharedJob | undefined> {
       const ch = new MessageChannel();
       ch.port1.onmessage = () => { ch.port1.close(); stale = true; };
       ch.port2.postMessage(null);
@@ -134,7 +135,7 @@ describe('runStages', () => {
   });
 
   test('a throwing stage rejects runStages with its error (not swallowed, not reported as done) after the earlier updates went out', async () => {
-    function* gen(): Generator<StageUpdate | Pause, void, ShareAnswer> {
+    function* gen(): Generator<StageUpdate | Pause, void, SharedJob | undefined> {
       yield upd('processed');
       throw new RangeError('window larger than the trace');
     }
@@ -145,7 +146,7 @@ describe('runStages', () => {
 
   test('a throwing post rejects runStages too, and the generator is still closed (its finally runs)', async () => {
     let closed = false;
-    function* gen(): Generator<StageUpdate | Pause, void, ShareAnswer> {
+    function* gen(): Generator<StageUpdate | Pause, void, SharedJob | undefined> {
       try { yield upd('processed'); yield upd('residual'); } finally { closed = true; }
     }
     await expect(runStages(gen(), () => { throw new Error('could not post'); }, () => false)).rejects.toThrow('could not post');
@@ -162,7 +163,7 @@ describe('runStages with work shared to another thread (pause.ts offers and wait
     const log: string[] = [];
     let release!: () => void;
     const waited = new Promise<void>((resolve) => { release = resolve; });
-    function* gen(): Generator<StageUpdate | Pause, void, ShareAnswer> {
+    function* gen(): Generator<StageUpdate | Pause, void, SharedJob | undefined> {
       got.push(yield { share });
       setTimeout(() => { log.push('released'); release(); }, 5);
       yield waited;
@@ -171,21 +172,21 @@ describe('runStages with work shared to another thread (pause.ts offers and wait
     }
     const sharer = vi.fn(() => job);
     expect(await runStages(gen(), (u) => log.push(u.stage), () => false, sharer)).toBe('done');
-    expect(sharer).toHaveBeenCalledWith({ share });
+    expect(sharer).toHaveBeenCalledWith(share);
     expect(got).toEqual([job]);
     expect(log).toEqual(['released', 'resumed', 'peaks']);
   });
 
   test('without a sharer an offer gets undefined (the stage does the work itself)', async () => {
     const got: unknown[] = [];
-    function* gen(): Generator<StageUpdate | Pause, void, ShareAnswer> { got.push(yield { share }); }
+    function* gen(): Generator<StageUpdate | Pause, void, SharedJob | undefined> { got.push(yield { share }); }
     expect(await runStages(gen(), () => {}, () => false)).toBe('done');
     expect(got).toEqual([undefined]);
   });
 
   test('a newer request stops a wait that would not end, within about PAUSE_AFTER_MS, and closes the generator', async () => {
     let closed = false, stale = false;
-    function* gen(): Generator<StageUpdate | Pause, void, ShareAnswer> {
+    function* gen(): Generator<StageUpdate | Pause, void, SharedJob | undefined> {
       try {
         setTimeout(() => { stale = true; }, 10);
         yield new Promise<void>(() => {});

@@ -31,13 +31,12 @@ import { combineVerdict } from '../measure/residual-tests.ts';
 import { markAppearsOnlyAfterProcessing, markSaturatedOnRaw } from '../measure/peak-table.ts';
 import { expectedNoiseBumpsStepwise } from '../measure/noise-bumps.ts';
 import type { SharedJob } from '../measure/peak-table.ts';
-import type { ResidualDiagnostics } from '../measure/residual-tests.ts';
-import { isShareOffer, type Pause, type ShareAnswer } from './pause.ts';
+import { isShareOffer, type Pause } from './pause.ts';
 import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, MAX_ALTERNATIVES, type AnalyseRequest } from './request.ts';
 import { STAGES, type AnalyseResult, type StageName, type StageUpdate } from './result.ts';
 import { AnalysisMemo, type AlternativeMeasured } from './memo.ts';
 import { intermediateOf, processedSomething, processSample, runSummaries, stackOf } from './stages/process.ts';
-import { maxAbs, residualOfRun, residualTests } from './stages/residual.ts';
+import { residualOfRun, residualTests } from './stages/residual.ts';
 import { measurePeaksStepwise, noiseOn, peaksOnStepwise } from './stages/measure.ts';
 import { rawReferenceStepwise } from './stages/reference.ts';
 import { measureAlternative } from './stages/alternatives.ts';
@@ -74,7 +73,7 @@ export function isStageUpdate(v: StageUpdate | Pause): v is StageUpdate {
  */
 export function* analyseSteps(
   request: AnalyseRequest, traces: ReadonlyMap<string, Trace>, registry: Registry, caches: AnalysisCaches = {},
-): Generator<StageUpdate | Pause, void, ShareAnswer> {
+): Generator<StageUpdate | Pause, void, SharedJob | undefined> {
   const cache = caches.pipeline;
   const memo = caches.memo ?? new AnalysisMemo();
   const sample = traces.get(request.sampleId);
@@ -101,17 +100,9 @@ export function* analyseSteps(
     patch: { sampleId, processed: run.final, residual, residualNote: note, baseline: run.baseline, intermediate: intermediateOf(run, request.showUid), runs: runSummaries(run), events: run.events },
   };
 
-  // 2. The residual's tests (the verdict is provisional: the loss check may hold it back). On a long trace they are
-  //    offered to another thread, which works them out while this one measures the noise (3); they still land
-  //    first, as soon as this thread is free to hand them on.
-  const residualJob = ran && residual.y.length >= RESIDUAL_SHARE_MIN
-    ? (yield { residual: { y: residual.y, rawScale: rawScaleOf(raw.y) } }) as SharedJob<ResidualDiagnostics | null> | undefined
-    : undefined;
-  let tests: ResidualDiagnostics | null = null;
-  if (!residualJob) {
-    tests = residualTests(raw, residual, ran);
-    yield { stage: 'residual', sampleId, pending: pendingAfter('residual'), patch: { diagnostics: tests } };
-  }
+  // 2. The residual's tests (the verdict is provisional: the loss check may hold it back).
+  const tests = residualTests(raw, residual, ran);
+  yield { stage: 'residual', sampleId, pending: pendingAfter('residual'), patch: { diagnostics: tests } };
 
   // 3. Noise on the measured trace.
   const ps = request.peaks ?? DEFAULT_PEAK_SETTINGS;
@@ -119,13 +110,6 @@ export function* analyseSteps(
   const measured = ps.measureOn === 'raw' ? raw : run.final;
   const stack = stackOf(run, request.recipe, registry, ctx, sampleId);
   const noise = noiseOn(measured, raw, noiseSettings, stack);
-  if (residualJob) {
-    if (residualJob.result() === undefined) yield residualJob.settled;
-    // A job that failed or was cancelled: worked out here (an error in the residual then surfaces as before).
-    const shared = residualJob.result();
-    tests = shared === undefined ? residualTests(raw, residual, ran) : shared;
-    yield { stage: 'residual', sampleId, pending: pendingAfter('residual'), patch: { diagnostics: tests } };
-  }
   yield { stage: 'noise', sampleId, pending: pendingAfter('noise'), patch: { noise } };
 
   // 4. Peaks, marked against the raw trace's own table (which the loss check uses too, and only needs when
@@ -166,17 +150,6 @@ export function* analyseSteps(
   }
   const diagnostics = tests && loss ? combineVerdict(tests, loss.currentWeakened) : tests;
   yield { stage: 'loss', sampleId, pending: [], patch: { loss, diagnostics } };
-}
-
-/** From this many residual points on, the residual's tests are offered to another thread (about 2 ms of work at 10⁵ in Node). */
-export const RESIDUAL_SHARE_MIN = 1 << 17;
-
-/** The raw trace's largest |y|, kept per array (it is the same on every move). */
-const RAW_SCALES = new WeakMap<Float64Array, number>();
-function rawScaleOf(y: Float64Array): number {
-  let v = RAW_SCALES.get(y);
-  if (v === undefined) { v = maxAbs(y); RAW_SCALES.set(y, v); }
-  return v;
 }
 
 /** The empty result the stages fill in. */

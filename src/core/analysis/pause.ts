@@ -11,17 +11,10 @@
 
 import type { CandidateShare, SharedJob } from '../measure/peak-table.ts';
 
-/** The residual's tests offered to another thread (stage 2, analysis/index.ts): the residual and the raw trace's largest |y|. */
-export interface ResidualShare {
-  y: Float64Array;
-  rawScale: number;
+/** Work offered to another thread (peak detection's later candidates, peak-table.ts). */
+export interface ShareOffer {
+  readonly share: CandidateShare;
 }
-
-/** Work offered to another thread: peak detection's later candidates (peak-table.ts), or the residual's tests. */
-export type ShareOffer = { readonly share: CandidateShare } | { readonly residual: ResidualShare };
-
-/** What `next` answers an offer with: the job started elsewhere, or undefined (do it yourself). */
-export type ShareAnswer = SharedJob<unknown> | undefined;
 
 /**
  * What a stepwise computation yields: `undefined` for a pause; an offer of
@@ -33,15 +26,15 @@ export type ShareAnswer = SharedJob<unknown> | undefined;
 export type Pause = undefined | ShareOffer | Promise<void>;
 
 /** A computation that pauses now and then and returns T; `next` may answer an offer with a job. */
-export type Stepwise<T> = Generator<Pause, T, ShareAnswer>;
+export type Stepwise<T> = Generator<Pause, T, SharedJob | undefined>;
 
 /** True for an offer of work (not a pause, a promise or a stage's update). */
 export function isShareOffer(v: unknown): v is ShareOffer {
-  return typeof v === 'object' && v !== null && ('share' in v || 'residual' in v);
+  return typeof v === 'object' && v !== null && 'share' in v;
 }
 
 /** Run a stepwise computation to its end, ignoring the pauses (and never waiting for another thread). */
-export function drain<T>(steps: Generator<unknown, T, ShareAnswer>): T {
+export function drain<T>(steps: Generator<unknown, T, SharedJob | undefined>): T {
   for (;;) {
     const r = steps.next();
     if (r.done) return r.value;

@@ -257,12 +257,12 @@ export interface SharedKept {
   measures: LocalMeasure[];
 }
 
-/** One piece of work done elsewhere (a share of detection's candidates: T = SharedKept). */
-export interface SharedJob<T = SharedKept> {
+/** One share being measured elsewhere. */
+export interface SharedJob {
   /** Settles when the result is in, or the job failed or was cancelled; never rejects. */
   readonly settled: Promise<void>;
   /** The result once in; undefined before, or when the job failed or was cancelled. */
-  result(): T | undefined;
+  result(): SharedKept | undefined;
   /** Stop the job (harmless once it is over). */
   cancel(): void;
 }
@@ -351,7 +351,7 @@ export function* detectPeaksStepwise(x: Float64Array, y: Float64Array, options: 
   let job: SharedJob | undefined;
   if (n >= SHARE_MIN_CANDIDATES) {
     const from = n - Math.floor(n * SHARE_FRACTION);
-    job = (yield { share: { x, y, options: o, index: cIdx.slice(from, n), halfWidth: cW.slice(from, n) } }) as SharedJob | undefined;
+    job = yield { share: { x, y, options: o, index: cIdx.slice(from, n), halfWidth: cW.slice(from, n) } };
     if (job) split = from;
   }
   try {

@@ -49,7 +49,7 @@ async function detectWith(x: Float64Array, y: Float64Array, o: PeakOptions, answ
     reply = undefined;
     if (r.done) return { peaks: r.value, offers };
     const v = r.value;
-    if (isShareOffer(v) && 'share' in v) { offers++; reply = answer(v.share); } else if (v instanceof Promise) await v;
+    if (isShareOffer(v)) { offers++; reply = answer(v.share); } else if (v instanceof Promise) await v;
   }
 }
 
@@ -114,7 +114,7 @@ describe('detection with its later candidates measured on another thread', () =>
     const log = { started: 0, cancelled: 0 };
     const steps = detectPeaksStepwise(t.x, t.y, defaultPeakOptions(t.sigma, 0.001));
     let r = steps.next();
-    while (!(isShareOffer(r.value) && 'share' in r.value)) r = steps.next();
+    while (!isShareOffer(r.value)) r = steps.next();
     r = steps.next(elsewhere(r.value.share, log));
     expect(r.done).toBe(false);
     steps.return([]);
