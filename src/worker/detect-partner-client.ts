@@ -47,8 +47,8 @@ export class DetectPartnerClient {
   /** Ids of the x grids sent, by array (a trace's x keeps its identity in the worker's caches). */
   private readonly xIds = new WeakMap<Float64Array, number>();
   private nextX = 1;
-  /** The grids the partner holds, oldest first (its own list, mirrored: messages arrive in order), with an array of the same values. */
-  private readonly held: { id: number; x: Float64Array }[] = [];
+  /** The ids the partner holds, oldest first (its own list, mirrored: messages arrive in order). */
+  private readonly held: number[] = [];
 
   /** @param onProblem told once, when sharing stops (the page shows it as a notice). */
   constructor(private readonly make: () => PartnerThread, private readonly onProblem: (message: string) => void = () => {}) {}
@@ -59,10 +59,11 @@ export class DetectPartnerClient {
     const thread = this.ensure();
     if (!thread) return undefined;
     const job = this.nextJob++;
-    const xId = this.idOf(share.x);
-    const sendX = !this.held.some((h) => h.id === xId);
+    let xId = this.xIds.get(share.x);
+    if (xId === undefined) { xId = this.nextX++; this.xIds.set(share.x, xId); }
+    const sendX = !this.held.includes(xId);
     if (sendX) {
-      this.held.push({ id: xId, x: share.x });
+      this.held.push(xId);
       while (this.held.length > PARTNER_KEEPS_X) this.held.shift();
     }
     // Copies, handed over: the worker's arrays stay in its caches (and a view would send its whole buffer).
@@ -92,22 +93,6 @@ export class DetectPartnerClient {
         this.thread?.postMessage({ type: 'cancel', job }, []);
       },
     };
-  }
-
-  /**
-   * The id of a grid: by identity, else by value against the grids the partner holds (steps that copy x, such as
-   * the moving average, give a new array of the same values on every move; comparing 10⁶ values costs about a
-   * millisecond, sending them again a copy of 8 MB).
-   */
-  private idOf(x: Float64Array): number {
-    let id = this.xIds.get(x);
-    if (id !== undefined) return id;
-    const same = this.held.find((h) => sameValues(h.x, x));
-    // Keep the newest of equal arrays: the older one may have left the caches, and would be kept alive only here.
-    if (same) same.x = x;
-    id = same?.id ?? this.nextX++;
-    this.xIds.set(x, id);
-    return id;
   }
 
   private ensure(): PartnerThread | null {
@@ -146,13 +131,4 @@ export class DetectPartnerClient {
     this.thread?.terminate();
     this.thread = null;
   }
-}
-
-/** True when a and b hold the same numbers bit for bit (−0 and 0 differ, as they may in a measure). */
-function sameValues(a: Float64Array, b: Float64Array): boolean {
-  if (a === b) return true;
-  if (a.length !== b.length) return false;
-  const p = new Int32Array(a.buffer, a.byteOffset, a.length * 2), q = new Int32Array(b.buffer, b.byteOffset, b.length * 2);
-  for (let i = 0; i < p.length; i++) if (p[i] !== q[i]) return false;
-  return true;
 }

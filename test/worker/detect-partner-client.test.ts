@@ -76,26 +76,11 @@ describe('DetectPartnerClient', () => {
     expect(client.problem).toBeNull();
   });
 
-  test('a new array with the same grid bit for bit is not sent again; one differing in one value, or in the sign of a zero, is', async () => {
-    const thread = new FakeThread();
-    const client = new DetectPartnerClient(() => thread);
-    const base = shareOf(6_000);
-    const copy = base.x.slice();
-    const moved = base.x.slice(); moved[3000] += 1e-12;
-    const zeroed = base.x.slice(); zeroed[0] = -0;
-    expect(base.x[0]).toBe(0);
-    const xs = [base.x, copy, moved, zeroed];
-    for (const x of xs) await client.start({ ...base, x, index: base.index.slice(), halfWidth: base.halfWidth.slice() })!.settled;
-    const sentX = thread.sent.filter((m) => m.type === 'share').map((m) => (m as { x?: Float64Array }).x !== undefined);
-    expect(sentX).toEqual([true, false, true, true]);
-  });
-
   test('after PARTNER_KEEPS_X other grids the first grid is sent again (the client mirrors what the thread holds)', async () => {
     const thread = new FakeThread();
     const client = new DetectPartnerClient(() => thread);
     const base = shareOf(6_000);
-    // Different grids (shifted by a different offset each); the same values would be recognised and not sent.
-    const grids = Array.from({ length: PARTNER_KEEPS_X + 1 }, (_, g) => base.x.map((v) => v + g * 1e-6));
+    const grids = Array.from({ length: PARTNER_KEEPS_X + 1 }, () => base.x.slice());
     for (const x of [...grids, grids[0]]) await client.start({ ...base, x, index: base.index.slice(), halfWidth: base.halfWidth.slice() })!.settled;
     const sentX = thread.sent.filter((m) => m.type === 'share').map((m) => (m as { x?: Float64Array }).x !== undefined);
     expect(sentX).toEqual([...grids.map(() => true), true]);
