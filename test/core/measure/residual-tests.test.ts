@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { lag1Autocorrelation, residual, residualDiagnostics, runsTest, twoSidedP } from '../../../src/core/measure/residual-tests.ts';
 import { makeRng } from '../../../src/core/numeric/random.ts';
 import { ref } from '../baseline-reference.ts';
+import { plainRuns } from './runs-rule.ts';
 
 /** Two-sided 99.9 % range of a Binomial(n, p) count, normal approximation (z = 3.29). */
 function binomialRange(n: number, p: number): [number, number] {
@@ -23,24 +24,13 @@ describe('runs test and lag-1 against outside values', () => {
   });
 
   it('counts runs, n₁ and n₂ as the plain rule does (points on the median left out), with ties, points on the median and short arrays (fast-check)', () => {
-    // The rule written out with branches, as in the Wald–Wolfowitz definition; runsTest counts without branches.
-    const plain = (e: Float64Array, med: number) => {
-      let n1 = 0, n2 = 0, runs = 0, last = 0;
-      for (const v of e) {
-        const side = v > med ? 1 : v < med ? -1 : 0;
-        if (side === 0) continue;
-        if (side === 1) n1++; else n2++;
-        if (side !== last) runs++;
-        last = side;
-      }
-      return { runs, expected: n1 + n2 > 0 ? (2 * n1 * n2) / (n1 + n2) + 1 : 0 };
-    };
+    // The rule written out with branches (runs-rule.ts); runsTest counts without branches.
     fc.assert(fc.property(fc.array(fc.integer({ min: -3, max: 3 }), { minLength: 0, maxLength: 60 }), (ints) => {
       const e = Float64Array.from(ints);
       const sorted = Array.from(e).sort((a, b) => a - b);
       const h = sorted.length >> 1;
       const med = sorted.length === 0 ? NaN : sorted.length % 2 ? sorted[h] : 0.5 * (sorted[h - 1] + sorted[h]);
-      const want = plain(e, med);
+      const want = plainRuns(e, med);
       const got = runsTest(e);
       expect(got.runs).toBe(want.runs);
       expect(got.expected).toBe(want.expected);

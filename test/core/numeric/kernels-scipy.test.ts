@@ -8,6 +8,7 @@ import fc from 'fast-check';
 import { slidingMedian, type MedianEdge } from '../../../src/core/numeric/sliding-median.ts';
 import { medianInPlace, medianOf } from '../../../src/core/numeric/median.ts';
 import { runsTest } from '../../../src/core/measure/residual-tests.ts';
+import { plainRuns } from '../measure/runs-rule.ts';
 
 interface KernelsRef {
   scipy: string;
@@ -80,14 +81,7 @@ describe(`median by selection against numpy.median (NumPy ${ref.numpy}) and agai
     for (let i = 0; i < e.length; i++) { state = (Math.imul(state, 48271) >>> 0) % 2147483647; e[i] = (state / 2147483647) - 0.5 + (i % 7 === 0 ? 0 : 0.1); }
     const s = Float64Array.from(e).sort();
     const med = s[s.length >> 1];
-    let n1 = 0, n2 = 0, runs = 0, last = 0;
-    for (const v of e) {
-      const side = v > med ? 1 : v < med ? -1 : 0;
-      if (side === 0) continue;
-      if (side === 1) n1++; else n2++;
-      if (side !== last) runs++;
-      last = side;
-    }
+    const { runs, n1, n2 } = plainRuns(e, med);
     const r = runsTest(e);
     expect(r.runs).toBe(runs);
     expect(r.expected).toBe((2 * n1 * n2) / (n1 + n2) + 1);
