@@ -123,7 +123,7 @@ export class DetectPartnerClient {
     p.done(kept);
   }
 
-  /** Sharing stops for good: every job settles without a result (detection measures those halves itself). */
+  /** Sharing stops for good: every job settles without a result (detection measures those shares itself). */
   private stop(problem: string): void {
     if (!this.problem) this.onProblem(`${problem} Peak detection now measures every candidate on one thread (the same table, only slower).`);
     this.problem = problem;
