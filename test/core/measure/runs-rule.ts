@@ -1,7 +1,8 @@
 /**
  * The Wald–Wolfowitz runs count about a given median written out with
- * branches, as the definition reads (points on the median left out; a run is
- * a maximal stretch on one side): the reference that the project's
+ * branches, as the definition reads (Wald & Wolfowitz 1940, Ann. Math.
+ * Statist. 11:147, citation from memory; points on the median left out, as
+ * is common practice; a run is a maximal stretch on one side): the reference that the project's
  * branch-free count (src/core/measure/residual-tests.ts, runsTest) is held to.
  */
 export function plainRuns(e: ArrayLike<number>, med: number): { runs: number; n1: number; n2: number; expected: number } {
