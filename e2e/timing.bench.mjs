@@ -9,6 +9,7 @@
 //   node e2e/timing.bench.mjs --profile    also print the main thread's top functions during the first slider move
 //   node e2e/timing.bench.mjs --profile-out F   … and write that CPU profile to F (.cpuprofile, opens in DevTools)
 //   node e2e/timing.bench.mjs --worker-profile-out F   … a CPU profile of the analysis worker during the first slider move
+//   node e2e/timing.bench.mjs --profile-move K   profile slider move K instead of the first (the first may draw a new range)
 //   node e2e/timing.bench.mjs --trace F    also write a Chromium trace (devtools timeline) of the second slider move to F
 //   node e2e/timing.bench.mjs --steps 5 --alternatives 3   a longer stack (despike, baseline, Savitzky–Golay,
 //                                          frequency filter before the moving average; 1 = the moving average alone,
@@ -57,7 +58,7 @@ const EXTRA_STEPS = ['despike', 'baseline', 'savitzky-golay', 'frequency-filter'
 const ALTERNATIVE_PRESETS = ['3-point moving average', '5-point moving average', 'Savitzky–Golay 11 points, order 2', 'Savitzky–Golay 25 points, order 4'];
 
 function parseArgs(argv) {
-  const o = { rows: 1_000_000, moves: 7, build: false, profile: false, profileOut: null, workerProfileOut: null, trace: null, steps: 1, alternatives: 0, heapDetail: false, heapSnapshots: null };
+  const o = { rows: 1_000_000, moves: 7, build: false, profile: false, profileOut: null, profileMove: 1, workerProfileOut: null, trace: null, steps: 1, alternatives: 0, heapDetail: false, heapSnapshots: null };
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i];
     if (a === '--rows') o.rows = Number(argv[++i]);
@@ -67,6 +68,7 @@ function parseArgs(argv) {
     else if (a === '--trace') o.trace = argv[++i];
     else if (a === '--profile-out') { o.profile = true; o.profileOut = argv[++i]; }
     else if (a === '--worker-profile-out') o.workerProfileOut = argv[++i];
+    else if (a === '--profile-move') o.profileMove = Number(argv[++i]);
     else if (a === '--steps') o.steps = Number(argv[++i]);
     else if (a === '--alternatives') o.alternatives = Number(argv[++i]);
     else if (a === '--heap-detail') o.heapDetail = true;
@@ -74,6 +76,7 @@ function parseArgs(argv) {
     else throw new RangeError(`Unknown option ${a}; see the head of e2e/timing.bench.mjs.`);
   }
   if (!(Number.isInteger(o.rows) && o.rows >= 1000)) throw new RangeError('--rows must be a whole number of at least 1000.');
+  if (!(Number.isInteger(o.profileMove) && o.profileMove >= 1)) throw new RangeError('--profile-move must be a whole number of at least 1.');
   if (!(Number.isInteger(o.moves) && o.moves >= 1 && o.moves <= 40)) throw new RangeError('--moves must be from 1 to 40.');
   if (!(Number.isInteger(o.steps) && o.steps >= 1 && o.steps <= 1 + EXTRA_STEPS.length)) throw new RangeError(`--steps must be from 1 to ${1 + EXTRA_STEPS.length}.`);
   if (!(Number.isInteger(o.alternatives) && o.alternatives >= 0 && o.alternatives <= ALTERNATIVE_PRESETS.length)) throw new RangeError(`--alternatives must be from 0 to ${ALTERNATIVE_PRESETS.length}.`);
@@ -391,7 +394,7 @@ async function main() {
     if (serverExited) throw new Error(`vite preview stopped at once; is port ${port} taken?`);
     browser = await chromium.launch({
       executablePath: process.env.TRACEWRIGHT_CHROMIUM ?? '/usr/bin/chromium',
-      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--no-first-run'],
+      args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--no-first-run', ...(process.env.TRACEWRIGHT_JS_FLAGS ? [`--js-flags=${process.env.TRACEWRIGHT_JS_FLAGS}`] : [])],
     });
     const page = await browser.newPage({ viewport: { width: 1400, height: 900 } });
     const errors = [];
@@ -449,27 +452,28 @@ async function main() {
     const moves = [];
     let cdp = null;
     let workerProfiling = null;
-    if (o.workerProfileOut) {
-      workerProfiling = await workerSenders(page);
-      for (const send of workerProfiling.senders) { await send('Profiler.enable', {}); await send('Profiler.start', {}); }
-    }
-    if (o.profile) {
-      cdp = await page.context().newCDPSession(page);
-      await cdp.send('Profiler.enable');
-      await cdp.send('Profiler.start');
-    }
+    const profiled = Math.min(o.profileMove, o.moves) - 1;
     for (let k = 0; k < o.moves; k++) {
       const value = 7 + 2 * k;
       const idle = await page.evaluate(waitIdle, 300_000);
+      if (o.workerProfileOut && k === profiled) {
+        workerProfiling = await workerSenders(page);
+        for (const send of workerProfiling.senders) { await send('Profiler.enable', {}); await send('Profiler.start', {}); }
+      }
+      if (o.profile && k === profiled) {
+        cdp = await page.context().newCDPSession(page);
+        await cdp.send('Profiler.enable');
+        await cdp.send('Profiler.start');
+      }
       const tracing = o.trace && k === Math.min(1, o.moves - 1);
-      if (tracing) await browser.startTracing(page, { path: o.trace, categories: ['devtools.timeline', 'disabled-by-default-devtools.timeline', 'blink.user_timing', 'v8.execute'] });
+      if (tracing) await browser.startTracing(page, { path: o.trace, categories: ['devtools.timeline', 'disabled-by-default-devtools.timeline', 'blink.user_timing', 'v8.execute', 'disabled-by-default-v8.cpu_profiler'] });
       const shown = await page.evaluate(moveSlider, { value, timeoutMs: 300_000 });
       await page.evaluate(waitIdle, 300_000);
       const m = { ...shown, ...(await page.evaluate(moveTail)) };
       if (tracing) { await browser.stopTracing(); console.log(`  trace of this move written to ${o.trace}`); }
       moves.push(m);
       console.log(`  move to ${value} points (idle after ${idle.toFixed(0)} ms): processed ${m.processed.toFixed(0)} ms, peaks ${m.peaks.toFixed(0)} ms, loss ${m.loss.toFixed(0)} ms, longest task ${m.longest.toFixed(0)} ms (tasks over 50 ms: ${m.tasks.map((d) => d.toFixed(0)).join(', ') || 'none'}), figure drawn ${m.drawings.join(' + ') || 'never'}${m.seqAfter - m.seqBefore !== 1 ? ` (${m.seqAfter - m.seqBefore} results arrived)` : ''}`);
-      if (workerProfiling && k === 0) {
+      if (workerProfiling && k === profiled) {
         // The analysis worker is the one whose profile holds the most functions (the load worker sits idle).
         const profiles = [];
         for (const send of workerProfiling.senders) { try { profiles.push((await send('Profiler.stop', {})).profile); } catch { /* gone */ } }
@@ -478,10 +482,10 @@ async function main() {
         await workerProfiling.detach();
         workerProfiling = null;
       }
-      if (cdp && k === 0) {
+      if (cdp && k === profiled) {
         const { profile } = await cdp.send('Profiler.stop');
         if (o.profileOut) writeFileSync(o.profileOut, JSON.stringify(profile));
-        console.log('  main thread during the first slider move, top self time:');
+        console.log(`  main thread during slider move ${profiled + 1}, top self time:`);
         for (const line of topSelf(profile, 15)) console.log(line);
         cdp = null;
       }

@@ -11,7 +11,7 @@ import { MARK_TEXT } from '../core/export/peak-csv.ts';
 import { markDrawFailed, markDrawn } from './draw-health.ts';
 import { useNameOfPeak } from './calibration/derive.ts';
 import { pickNamedPeakAt } from './calibration/pick.ts';
-import { bornSquares, lostFeatures, visibleYRange } from './plot-view.ts';
+import { bornSquares, lostFeatures, replacedCrosses, visibleYRange } from './plot-view.ts';
 import { PLOT_LABELS, labelsStillClear, placeLabels, type PlotGeometry } from './plot-labels.ts';
 import type { Peak } from '../core/measure/peak-types.ts';
 import type { Signal } from '../core/steps/types.ts';
@@ -224,6 +224,11 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   }, [sample, loss]);
   const lostRings = result ? lostTrace.rings : null;
 
+  // Replaced points in view, at most REPLACED_CROSSES crosses (the largest changes first); a note says how many of how many.
+  const events = result?.events;
+  const replaced = useMemo(() => (events ? replacedCrosses(events, view.from, view.to) : { crossed: [], of: 0 }), [events, view]);
+  const crossed = replaced.crossed;
+
   const data = useMemo<PlotData[]>(() => {
     if (!sample) return [];
     const { from, to, columns } = view;
@@ -255,12 +260,12 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       if (lostTrace.trace) traces.push(lostTrace.trace);
       const p = line(result.processed.x, result.processed.y, result.processed);
       traces.push({ type: 'scatter', mode: 'lines', name: 'processed', x: p.x, y: p.y, line: { color: COLOURS.processed, width: 1.8 }, xaxis: 'x', yaxis: 'y' });
-      if (result.events.length) {
+      if (crossed.length) {
         traces.push({
           type: 'scatter', mode: 'markers', name: 'replaced points',
-          x: result.events.map((e) => e.x), y: result.events.map((e) => e.original),
+          x: crossed.map((e) => e.x), y: crossed.map((e) => e.original),
           marker: { color: COLOURS.spike, symbol: 'x', size: 10, line: { width: 2, color: COLOURS.spike } },
-          text: result.events.map((e) => `replaced ${e.original.toPrecision(5)} → ${e.replacement.toPrecision(5)}`),
+          text: crossed.map((e) => `replaced ${e.original.toPrecision(5)} → ${e.replacement.toPrecision(5)}`),
           hoverinfo: 'x+text', xaxis: 'x', yaxis: 'y',
         });
       }
@@ -269,7 +274,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       traces.push({ type: 'scatter', mode: 'lines', name: 'residual (raw − processed)', x: r.x, y: r.y, line: { color: COLOURS.residual, width: 1 }, xaxis: 'x', yaxis: 'y2' });
     }
     return traces;
-  }, [sample, result, showRaw, view, rawDrawn, drawnFar, showAlt, altList, peakTraces, lostTrace]);
+  }, [sample, result, showRaw, view, rawDrawn, drawnFar, showAlt, altList, peakTraces, lostTrace, crossed]);
 
   const yView = useMemo(() => {
     if (!xRange || !yFits) return null;
@@ -383,6 +388,11 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
       {lostRings && (
         <p className="small muted plot-label-note" data-testid="lost-note">
           Rings on {lostRings.drawn} of the {lostRings.of.toLocaleString('en')} features some choice loses (quantifiable first, then the highest S/N); the loss check below lists them.
+        </p>
+      )}
+      {result && replaced.crossed.length < replaced.of && (
+        <p className="small muted plot-label-note" data-testid="replaced-note">
+          Crosses on {replaced.crossed.length} of the {replaced.of.toLocaleString('en')} replaced points in view (the largest changes first; zoom in for more); the despiking step counts every one.
         </p>
       )}
       {bornSquaresDrawn.current && (

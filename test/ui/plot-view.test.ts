@@ -115,3 +115,39 @@ describe('bornSquares', () => {
     }
   });
 });
+
+import { replacedCrosses, REPLACED_CROSSES, type ReplacedLike } from '../../src/ui/plot-view.ts';
+
+describe('replacedCrosses', () => {
+  const ev = (x: number, original: number, replacement: number): ReplacedLike => ({ x, original, replacement });
+  it('crosses the points in view, the largest changes first, in the order given (worked by hand)', () => {
+    const events = [ev(1, 10, 0), ev(2, -3, 0), ev(3, 0, 7), ev(4, 1, 0.5), ev(9, 100, 0)];
+    // In [1, 4]: changes 10, 3, 7, 0.5; the point at x = 9 is out of view.
+    expect(replacedCrosses(events, 1, 4).of).toBe(4);
+    expect(replacedCrosses(events, 1, 4).crossed).toEqual(events.slice(0, 4));
+    // Cut to two: changes 10 and 7, kept in x order.
+    expect(replacedCrosses(events, 1, 4, 2).crossed).toEqual([events[0], events[2]]);
+    // Whole trace, cut to one: the change of 100.
+    expect(replacedCrosses(events, -Infinity, Infinity, 1)).toEqual({ crossed: [events[4]], of: 5 });
+    expect(REPLACED_CROSSES).toBeGreaterThan(0);
+  });
+
+  it('over the cap: exactly the cap, nothing left out changed more than anything kept, order kept (random lists)', () => {
+    const rng = makeRng(63);
+    for (let t = 0; t < 50; t++) {
+      const events = Array.from({ length: 20 + Math.floor(rng.uniform() * 400) }, (_, i) => ev(i, rng.uniform() * 10, rng.uniform() < 0.2 ? 5 : rng.uniform() * 10));
+      const from = rng.uniform() * 100, to = from + rng.uniform() * 400;
+      const cap = 1 + Math.floor(rng.uniform() * 80);
+      const { crossed, of } = replacedCrosses(events, from, to, cap);
+      const inView = events.filter((e) => e.x >= from && e.x <= to);
+      expect(of).toBe(inView.length);
+      expect(crossed).toHaveLength(Math.min(cap, inView.length));
+      const size = (e: ReplacedLike) => Math.abs(e.original - e.replacement);
+      const kept = new Set(crossed);
+      const least = Math.min(...crossed.map(size));
+      for (const e of inView) if (!kept.has(e)) expect(size(e)).toBeLessThanOrEqual(least);
+      const xs = crossed.map((e) => e.x);
+      expect(xs).toEqual([...xs].sort((a, b) => a - b));
+    }
+  });
+});
