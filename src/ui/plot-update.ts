@@ -205,10 +205,18 @@ function newRangesOnly(prev: PlotLayout, next: PlotLayout, live: LiveFigure): Re
   return Object.keys(out).length ? out : null;
 }
 
-/** The fields of trace `t` to send for an update in place: its points. */
+/**
+ * The fields of trace `t` to send for an update in place: its points, typed arrays as plain arrays of the same
+ * numbers. The library's in-place step (plotly.js 4.1, `expandObjectPaths` on what it is given) walks every
+ * element of a typed array as an object key and tests it against two patterns, but passes a plain array over:
+ * about 14 ms of a marker update at 10⁶ points for the 3,258-point residual sent with it (issue 16).
+ */
 export function pointsOf(t: PlotData): Partial<PlotData> {
   const out: Record<string, unknown> = {};
-  for (const k of POINT_KEYS) if (t[k] !== undefined) out[k] = t[k];
+  for (const k of POINT_KEYS) {
+    const v: unknown = t[k];
+    if (v !== undefined) out[k] = ArrayBuffer.isView(v) && !(v instanceof DataView) ? Array.from(v as Float64Array) : v;
+  }
   return out as Partial<PlotData>;
 }
 

@@ -137,6 +137,17 @@ describe('figureUpdate', () => {
     const t = markers('m', [1], [2], { text: ['a'], hovertext: ['h'] });
     expect(pointsOf(t)).toEqual({ x: [1], y: [2], text: ['a'], hovertext: ['h'] });
   });
+
+  it('sends typed arrays as plain arrays of the same numbers (bits kept), the trace itself unchanged', () => {
+    const x = Float64Array.of(0, -0, 1.5, Number.NaN, 1e-310), y = Float32Array.of(1, 2, 3, 4, 5);
+    const t = line('processed', [], {});
+    const sent = pointsOf({ ...t, x, y });
+    expect(Array.isArray(sent.x) && Array.isArray(sent.y)).toBe(true);
+    const sx = sent.x as number[];
+    expect(sx.map((v, i) => Object.is(v, x[i]))).toEqual([true, true, true, true, true]);
+    expect(sent.y).toEqual([1, 2, 3, 4, 5]);
+    expect(x).toBeInstanceOf(Float64Array);
+  });
 });
 
 describe('extent', () => {
