@@ -12,7 +12,7 @@ import { DEFAULT_NOISE_SETTINGS, DEFAULT_PEAK_SETTINGS, type AlternativeRequest,
 import { measurePeaksStepwise } from './measure.ts';
 import type { Stepwise } from '../pause.ts';
 import { processSample, stackOf } from './process.ts';
-import { maxAbs, residualOfRun } from './residual.ts';
+import { rawScaleOf, residualOfRun } from './residual.ts';
 
 /** Pauses inside detection (pause.ts); kept in the memo only when finished. */
 export function measureAlternative(
@@ -25,7 +25,7 @@ export function measureAlternative(
     const r = processSample(raw, request.sampleId, alt.recipe, registry, ctx, cache);
     const measured = yield* measurePeaksStepwise(r.final, raw, noiseSettings, ps, ctx, stackOf(r, alt.recipe, registry, ctx, request.sampleId));
     const res = residualOfRun(raw, r);
-    const diag = res.ok && r.runs.some((x) => x.status === 'ok') ? residualDiagnostics(res.residual.y, maxAbs(raw.y)) : null;
+    const diag = res.ok && r.runs.some((x) => x.status === 'ok') ? residualDiagnostics(res.residual.y, rawScaleOf(raw.y)) : null;
     return {
       measured,
       outcome: {

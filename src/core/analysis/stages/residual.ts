@@ -13,6 +13,14 @@ export function maxAbs(y: Float64Array): number {
   return m;
 }
 
+/** {@link maxAbs} of a raw trace's y, once per array (issue 16: raw-trace results are computed once and kept). */
+const rawScales = new WeakMap<Float64Array, number>();
+export function rawScaleOf(y: Float64Array): number {
+  let m = rawScales.get(y);
+  if (m === undefined) { m = maxAbs(y); rawScales.set(y, m); }
+  return m;
+}
+
 /**
  * The residual of a pipeline run. When it cannot be formed (processed x
  * outside the raw range) it is zero and `ok` is false, with the reason in the note.
@@ -35,7 +43,7 @@ export function residualOfRun(raw: Signal, run: PipelineResult): { residual: Sig
 
 /** The residual's tests, before the loss check can hold the verdict back; null when no step ran. */
 export function residualTests(raw: Signal, residual: Signal, processedSomething: boolean): ResidualDiagnostics | null {
-  return processedSomething && residual.y.length >= 3 ? residualDiagnostics(residual.y, maxAbs(raw.y)) : null;
+  return processedSomething && residual.y.length >= 3 ? residualDiagnostics(residual.y, rawScaleOf(raw.y)) : null;
 }
 
 /** Steps whose change to the trace is a deliberate removal, not a loss. */

@@ -2,7 +2,7 @@
 // minus what baseline correction and blank subtraction removed on purpose.
 // Definitions from the module, checked by hand.
 import { describe, expect, it } from 'vitest';
-import { maxAbs, residualOfRun, residualTests } from '../../../../src/core/analysis/stages/residual.ts';
+import { maxAbs, rawScaleOf, residualOfRun, residualTests } from '../../../../src/core/analysis/stages/residual.ts';
 import { processSample } from '../../../../src/core/analysis/stages/process.ts';
 import { STEP_REGISTRY } from '../../../../src/core/steps/registry.ts';
 import { recipeOf, synthetic } from '../fixture.ts';
@@ -13,6 +13,12 @@ describe('maxAbs', () => {
   it('largest absolute value; 0 for an empty array', () => {
     expect(maxAbs(Float64Array.of(1, -7, 3))).toBe(7);
     expect(maxAbs(new Float64Array(0))).toBe(0);
+  });
+  it('rawScaleOf: the same value, kept per array (two arrays of one length keep their own)', () => {
+    const a = Float64Array.of(1, -7, 3), b = Float64Array.of(2, 5, -4);
+    expect(rawScaleOf(a)).toBe(7);
+    expect(rawScaleOf(b)).toBe(5);
+    expect(rawScaleOf(a)).toBe(7);
   });
 });
 
