@@ -101,7 +101,7 @@ export interface ReplacedLike {
  * Replaced points (despiking) with x in [from, to], and of them the ones the plot crosses: at most `cap`, the
  * largest changes |original − replacement| first (ties in the order given), returned in the order given. A
  * despiking step on a long noisy trace replaces thousands of noise extremes; a cross on each (1,983 at 10⁶
- * points) cost a whole drawing of the figure about 0.3 s on the page's one thread, while the spikes a reader
+ * points) made a whole drawing of the figure take about 0.57 s of the page's one thread, while the spikes a reader
  * looks for are the largest changes. Zooming in crosses more of them.
  */
 export function replacedCrosses<E extends ReplacedLike>(events: readonly E[], from = -Infinity, to = Infinity, cap: number = REPLACED_CROSSES): { crossed: E[]; of: number } {

@@ -205,23 +205,23 @@ function indexOfKey(key: string | symbol, n: number): number {
 export function lazyRows<T>(c: Columns): T[] {
   const n = c.length;
   const target: Row[] = new Array(n);
-  const rowAt = rowReader(c);
+  const make = rowReader(c);
   return new Proxy(target, {
     get(t, key, receiver) {
       const i = indexOfKey(key, n);
       if (i < 0) return Reflect.get(t, key, receiver);
-      return t[i] ?? (t[i] = rowAt(i));
+      return t[i] ?? (t[i] = make(i));
     },
     has(t, key) {
       return indexOfKey(key, n) >= 0 || Reflect.has(t, key);
     },
     getOwnPropertyDescriptor(t, key) {
       const i = indexOfKey(key, n);
-      if (i >= 0 && t[i] === undefined) t[i] = rowAt(i);
+      if (i >= 0 && t[i] === undefined) t[i] = make(i);
       return Reflect.getOwnPropertyDescriptor(t, key);
     },
     ownKeys(t) {
-      for (let i = 0; i < n; i++) if (t[i] === undefined) t[i] = rowAt(i);
+      for (let i = 0; i < n; i++) if (t[i] === undefined) t[i] = make(i);
       return Reflect.ownKeys(t);
     },
   }) as unknown as T[];
