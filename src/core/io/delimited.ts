@@ -49,7 +49,7 @@ import { createTrace, MIN_POINTS } from '../trace.ts';
 import type { Trace } from '../trace.ts';
 import { givenSha256, MAX_Y_COLUMNS } from './types.ts';
 import type { LoadOptions, LoadProblem, LoadQuestion, LoadReport, LoadResult, SkippedRow } from './types.ts';
-import { looksNumeric, parseGroupedNumber, parseNumber, whyNotNumber } from './numbers.ts';
+import { looksNumeric, parseGroupedNumber, parseNumber, parseNumberIn, whyNotNumber } from './numbers.ts';
 import type { DecimalSign } from './numbers.ts';
 import { decodeText, overlongLineProblem } from './sniff.ts';
 import { sha256Hex } from './sha256.ts';
@@ -65,8 +65,8 @@ export interface Dialect {
   decimal: DecimalSign;
 }
 
-/** How data rows are split: our plain split, PapaParse, or chosen by content (default). */
-export type RowSplitter = 'auto' | 'fast' | 'papa';
+/** How data rows are split: our plain split, PapaParse, or chosen by content (default); "lines": the plain split cutting every row into strings (tests). */
+export type RowSplitter = 'auto' | 'fast' | 'papa' | 'lines';
 
 /** Non-blank lines looked at to decide the delimiter, decimal sign and where the table starts. */
 export const SAMPLE_LINES = 500;
@@ -692,26 +692,85 @@ function findLayout(sample: readonly SampleLine[], fileName: string, fixed?: Loa
 interface RowSink {
   /** Called for each non-blank data row with its 1-based line number, its fields and its raw text (or how to get it). */
   row(line: number, fields: string[], rawText: string | (() => string)): void;
+  /**
+   * The same row read in place: its fields are `text[starts[k], ends[k])`, k = 0 … (table width − 1).
+   * Takes the row and returns true when every cell it reads is a plain number; otherwise changes
+   * nothing and returns false, and the row goes to {@link RowSink.row}.
+   */
+  spans?(line: number, text: string, starts: Int32Array, ends: Int32Array): boolean;
 }
 
+const LF = 10, CR = 13, SPACE = 32, TAB = 9;
+
+/**
+ * Data rows by a plain split on the delimiter. With a one-character delimiter
+ * and a sink that reads spans, rows with the table's number of fields are
+ * handed over as offsets into `text` (no string per line or per cell: at 10⁶
+ * rows this is most of the parse); any other row, and any row the sink
+ * declines, is cut and split as before. Lines, line numbers, blank lines and
+ * fields are those of {@link LineReader} and `String.split`.
+ */
 function readRowsFast(
-  text: string, startOffset: number, firstLine: number, delimiter: Delimiter, sink: RowSink, progress: (f: number) => void,
+  text: string, startOffset: number, firstLine: number, delimiter: Delimiter, width: number, sink: RowSink, progress: (f: number) => void,
 ): void {
-  const reader = new LineReader(text, startOffset, firstLine);
   const total = text.length;
-  let sinceProgress = 0;
-  while (reader.next()) {
-    const line = reader.current;
-    const trimmed = trimSpaceTab(line);
-    if (trimmed !== '') {
-      const fields = delimiter === 'whitespace' ? trimmed.split(/[ \t]+/) : line.split(delimiter);
-      sink.row(reader.line, fields, line);
+  if (delimiter === 'whitespace' || !sink.spans) {
+    const reader = new LineReader(text, startOffset, firstLine);
+    let sinceProgress = 0;
+    while (reader.next()) {
+      const line = reader.current;
+      const trimmed = trimSpaceTab(line);
+      if (trimmed !== '') {
+        const fields = delimiter === 'whitespace' ? trimmed.split(/[ \t]+/) : line.split(delimiter);
+        sink.row(reader.line, fields, line);
+      }
+      if (++sinceProgress === PROGRESS_EVERY) {
+        sinceProgress = 0;
+        progress(reader.offset / total);
+      }
     }
+    return;
+  }
+  const d = delimiter.charCodeAt(0);
+  const starts = new Int32Array(width);
+  const ends = new Int32Array(width);
+  let p = startOffset;
+  let line = firstLine - 1;
+  let sinceProgress = 0;
+  while (p < total) {
+    line++;
+    let fields = 0, fieldStart = p, blank = true, i = p, c = 0;
+    for (; i < total; i++) {
+      c = text.charCodeAt(i);
+      if (c === LF || c === CR) break;
+      if (c !== SPACE && c !== TAB) blank = false;
+      if (c === d) {
+        if (fields < width) { starts[fields] = fieldStart; ends[fields] = i; }
+        fields++;
+        fieldStart = i + 1;
+      }
+    }
+    if (fields < width) { starts[fields] = fieldStart; ends[fields] = i; }
+    fields++;
+    const lineEnd = i;
+    // A line ends at LF, CR LF or a lone CR, as in LineReader.
+    const after = i >= total ? total : c === CR && i + 1 < total && text.charCodeAt(i + 1) === LF ? i + 2 : i + 1;
+    if (!blank && (fields !== width || !sink.spans(line, text, starts, ends))) {
+      const raw = text.slice(p, lineEnd);
+      sink.row(line, raw.split(delimiter), raw);
+    }
+    p = after;
     if (++sinceProgress === PROGRESS_EVERY) {
       sinceProgress = 0;
-      progress(reader.offset / total);
+      progress(p / total);
     }
   }
+}
+
+/** True when `text[from, to)` holds the character `code`. */
+function holds(text: string, from: number, to: number, code: number): boolean {
+  for (let i = from; i < to; i++) if (text.charCodeAt(i) === code) return true;
+  return false;
 }
 
 function countNewlines(s: string): number {
@@ -785,7 +844,9 @@ function readRowsPapa(
  *
  * @param splitter "auto" (default) uses the fast plain split when the data
  *   rows hold no quote mark and PapaParse otherwise; "fast" and "papa" force
- *   one, so tests can show both give the same result on plain files.
+ *   one, so tests can show both give the same result on plain files; "lines"
+ *   is the fast split with every row cut into strings (no reading in place),
+ *   for tests of the in-place reading.
  */
 export function parseDelimited(bytes: Uint8Array, fileName: string, options: LoadOptions = {}, splitter: RowSplitter = 'auto'): LoadResult {
   try {
@@ -915,6 +976,7 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
   // Data rows. A row is kept when x and at least one y are numbers; a y cell that is not a number
   // leaves a gap (NaN here) in that column only, and is counted for the column's notice.
   const decimal = dialect.decimal;
+  const decimalCode = decimal.charCodeAt(0);
   // A stated format without grouping: a sign that is not the decimal sign makes a cell not a number.
   const group = format && !format.grouping ? '\u0000' : groupSign(decimal);
   const xTally = new CellTally();
@@ -981,13 +1043,36 @@ function parseDelimitedUnsafe(bytes: Uint8Array, fileName: string, options: Load
       xs.push(x);
       for (let j = 0; j < ys.length; j++) ys[j].push(rowY[j]);
     },
+    // The common row, read in place: every cell read is a plain number (anything else goes to row()).
+    spans(line, t, starts, ends) {
+      let x = 0;
+      if (xColumn >= 0) {
+        x = parseNumberIn(t, starts[xColumn], ends[xColumn], decimal);
+        if (Number.isNaN(x)) return false;
+      }
+      const rowY = rowBuffer;
+      for (let j = 0; j < yColumns.length; j++) {
+        const c = yColumns[j];
+        const v = parseNumberIn(t, starts[c], ends[c], decimal);
+        if (Number.isNaN(v)) return false;
+        rowY[j] = v;
+      }
+      if (xColumn >= 0 && !xTally.decimalSeen && holds(t, starts[xColumn], ends[xColumn], decimalCode)) xTally.decimalSeen = true;
+      for (let j = 0; j < yColumns.length; j++) {
+        const c = yColumns[j];
+        if (!yTallies[j].decimalSeen && holds(t, starts[c], ends[c], decimalCode)) yTallies[j].decimalSeen = true;
+      }
+      xs.push(x);
+      for (let j = 0; j < ys.length; j++) ys[j].push(rowY[j]);
+      return true;
+    },
   };
   const first = sample[layout.tableIndex];
   const hasQuotes = text.indexOf('"', first.start) !== -1;
-  const useFast = splitter === 'fast' || (splitter === 'auto' && !hasQuotes);
+  const useFast = splitter === 'fast' || splitter === 'lines' || (splitter === 'auto' && !hasQuotes);
   const parseProgress = (f: number) => report(HASH_SHARE + (1 - HASH_SHARE) * f);
   let unclosed = 0;
-  if (useFast) readRowsFast(text, first.start, first.line, dialect.delimiter, sink, parseProgress);
+  if (useFast) readRowsFast(text, first.start, first.line, dialect.delimiter, K, splitter === 'lines' ? { row: sink.row } : sink, parseProgress);
   else unclosed = readRowsPapa(text, first.start, first.line, dialect.delimiter, sink, parseProgress);
   if (unclosed) {
     return problem(

@@ -44,8 +44,18 @@ function isDigit(c: number): boolean {
  *   above or overflows to ±Infinity (callers treat NaN as "skip the row").
  */
 export function parseNumber(field: string, decimal: DecimalSign = '.'): number {
-  let start = 0;
-  let end = field.length;
+  return parseNumberIn(field, 0, field.length, decimal);
+}
+
+/**
+ * {@link parseNumber} of the cell `field[from, to)`, read in place: the
+ * delimited-text loader reads data rows this way without cutting them into
+ * strings. Same grammar, same value, bit for bit (it is the one
+ * implementation; `parseNumber` calls it on the whole string).
+ */
+export function parseNumberIn(field: string, from: number, to: number, decimal: DecimalSign = '.'): number {
+  let start = from;
+  let end = to;
   while (start < end && (field.charCodeAt(start) === SPACE || field.charCodeAt(start) === TAB)) start++;
   while (end > start && (field.charCodeAt(end - 1) === SPACE || field.charCodeAt(end - 1) === TAB)) end--;
   if (end - start >= 2 && field.charCodeAt(start) === QUOTE && field.charCodeAt(end - 1) === QUOTE) {
@@ -59,13 +69,24 @@ export function parseNumber(field: string, decimal: DecimalSign = '.'): number {
   let i = start;
   let c = field.charCodeAt(i);
   if (c === PLUS || c === MINUS) i++;
-  let digits = 0;
-  while (i < end && isDigit(field.charCodeAt(i))) { i++; digits++; }
+  // One pass: the digits' integer m (exact while there are at most 15 digits) and how many follow the decimal sign.
+  let digits = 0, m = 0, fraction = 0;
+  for (; i < end; i++) {
+    const d = field.charCodeAt(i) - ZERO;
+    if (d < 0 || d > 9) break;
+    m = m * 10 + d;
+    digits++;
+  }
   let decimalAt = -1;
   if (i < end && field.charCodeAt(i) === decimalCode) {
     decimalAt = i;
-    i++;
-    while (i < end && isDigit(field.charCodeAt(i))) { i++; digits++; }
+    for (i++; i < end; i++) {
+      const d = field.charCodeAt(i) - ZERO;
+      if (d < 0 || d > 9) break;
+      m = m * 10 + d;
+      digits++;
+      fraction++;
+    }
   }
   if (digits === 0) return NaN;
   let exponent = 0;
@@ -85,27 +106,18 @@ export function parseNumber(field: string, decimal: DecimalSign = '.'): number {
   // 10^k are exact doubles, so one IEEE multiplication or division gives the correctly rounded
   // value, the same as Number(). Most instrument files take this path; the rest fall through.
   if (digits <= 15) {
-    let m = 0, fraction = 0;
-    for (let k = start; k < i; k++) {
-      const d = field.charCodeAt(k);
-      if (d === LOWER_E || d === UPPER_E) break;
-      if (d >= ZERO && d <= NINE) {
-        m = m * 10 + (d - ZERO);
-        if (decimalAt >= 0 && k > decimalAt) fraction++;
-      }
-    }
     const power = exponent - fraction;
     const negative = field.charCodeAt(start) === MINUS;
     if (power >= 0 && power <= 22) { const v = m * POW10[power]; return negative ? -v : v; }
     if (power < 0 && power >= -22) { const v = m / POW10[-power]; return negative ? -v : v; }
   }
-  let text = start === 0 && end === field.length ? field : field.slice(start, end);
+  let cell = start === 0 && end === field.length ? field : field.slice(start, end);
   if (decimalAt >= 0 && decimal === ',') {
     const at = decimalAt - start;
-    text = text.slice(0, at) + '.' + text.slice(at + 1);
+    cell = cell.slice(0, at) + '.' + cell.slice(at + 1);
   }
   // The grammar above is a subset of JavaScript's numeric literal syntax, so Number() rounds correctly.
-  const value = Number(text);
+  const value = Number(cell);
   return Number.isFinite(value) ? value : NaN;
 }
 

@@ -332,6 +332,24 @@ export function hasWideTextMark(bytes: Uint8Array): boolean {
 export function overlongLine(bytes: Uint8Array, limit: number = MAX_LINE_BYTES): { line: number; start: number; length: number } | null {
   const n = bytes.length;
   if (n <= limit) return null;
+  // First only whether there is one, a window at a time: a line that starts at pos and is at most
+  // `limit` long ends within bytes[pos … pos + limit], so every line up to the last break in that
+  // window is short enough. A window without a break starts an overlong line: only then are the
+  // lines counted one by one (below) to name it.
+  let pos = 0;
+  for (;;) {
+    if (n - pos <= limit) return null;
+    const window = bytes.subarray(pos, pos + limit + 1);
+    const last = Math.max(window.lastIndexOf(10), window.lastIndexOf(13));
+    if (last === -1) break;
+    pos += last + 1;
+  }
+  return firstOverlongLine(bytes, limit);
+}
+
+/** {@link overlongLine} by counting every line. */
+function firstOverlongLine(bytes: Uint8Array, limit: number): { line: number; start: number; length: number } | null {
+  const n = bytes.length;
   let pos = 0, line = 1;
   let nextLf = -2, nextCr = -2;
   while (pos < n) {
