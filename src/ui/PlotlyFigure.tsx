@@ -31,6 +31,12 @@ interface Props extends FigureEvents {
   dragShapes?: boolean;
   /** Set as the element's data-drawn attribute once Plotly has drawn this data (timing scripts wait for it). */
   drawnTag?: string;
+  /**
+   * Draw this data after the next frame is painted, not as soon as possible: the caller says only markers changed
+   * with panels the same task committed (issue 16: the peak table of a new value is painted before the plot library
+   * draws its markers, not after).
+   */
+  afterPaint?: boolean;
 }
 
 /**
@@ -42,7 +48,7 @@ interface Props extends FigureEvents {
  * library fails, the figure says what failed in its place and the rest of
  * the page goes on.
  */
-export function PlotlyFigure({ data, layout, className, label, onXRange, onClickPoint, onSelectX, onShapeX, dragShapes, onReady, onDrawn, testId = 'figure', pictureName = 'tracewright-plot', drawnTag }: Props) {
+export function PlotlyFigure({ data, layout, className, label, onXRange, onClickPoint, onSelectX, onShapeX, dragShapes, onReady, onDrawn, testId = 'figure', pictureName = 'tracewright-plot', drawnTag, afterPaint = false }: Props) {
   const ref = useRef<HTMLDivElement>(null);
   const handlers = useRef<FigureEvents>({});
   handlers.current = { onXRange, onClickPoint, onSelectX, onShapeX };
@@ -60,6 +66,11 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
   const last = useRef<{ data: PlotData[]; layout: PlotLayout; options: string } | null>(null);
   /** Drawings run one after another: an update in place settles a frame later, and no later drawing may overtake it. */
   const queue = useRef<Promise<unknown>>(Promise.resolve());
+  /** Read by the drawing effect, not watched by it: when to draw is not a reason to draw again. */
+  const waitForPaint = useRef(afterPaint);
+  waitForPaint.current = afterPaint;
+  /** Drawings queued and not yet done. */
+  const pending = useRef(0);
 
   useEffect(() => {
     const el = ref.current;
@@ -145,7 +156,11 @@ export function PlotlyFigure({ data, layout, className, label, onXRange, onClick
     const modeChanged = last.current !== null
       && (last.current.layout.dragmode !== guarded.layout.dragmode || last.current.options !== `${pictureName}|${attempt}|${dragShapes ? 1 : 0}`);
     const run = () => { try { return draw(); } catch (e) { last.current = null; fail(e); return undefined; } };
-    queue.current = modeChanged ? queue.current.then(run) : queue.current.then(nextTask).then(run);
+    // Only after the last drawing is done: one still waiting is cancelled by this one, whose data then hold its lines.
+    const wait = waitForPaint.current && pending.current === 0 ? afterNextPaint : nextTask;
+    pending.current++;
+    const settle = () => { pending.current--; };
+    queue.current = (modeChanged ? queue.current.then(run) : queue.current.then(wait).then(run)).then(settle, settle);
     return () => { cancelled = true; };
   }, [guarded, pictureName, attempt, drawnTag, dragShapes]);
 
@@ -191,6 +206,22 @@ export function nextTask(): Promise<void> {
     const channel = new MessageChannel();
     channel.port1.onmessage = () => { channel.port1.close(); resolve(); };
     channel.port2.postMessage(null);
+  });
+}
+
+/** Longest wait for a frame in {@link afterNextPaint}: a hidden page paints none. */
+const PAINT_WAIT_MS = 100;
+
+/**
+ * Resolves in a task after the next frame is painted ({@link nextTask} posted from that frame's animation callback),
+ * or after {@link PAINT_WAIT_MS} when no frame comes (a hidden page), whichever is first.
+ */
+export function afterNextPaint(): Promise<void> {
+  return new Promise((resolve) => {
+    let done = false;
+    const go = () => { if (!done) { done = true; resolve(); } };
+    if (typeof requestAnimationFrame === 'function') requestAnimationFrame(() => { void nextTask().then(go); });
+    setTimeout(go, PAINT_WAIT_MS);
   });
 }
 

@@ -229,6 +229,14 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   const replaced = useMemo(() => (events ? replacedCrosses(events, view.from, view.to) : { crossed: [], of: 0 }), [events, view]);
   const crossed = replaced.crossed;
 
+  // Issue 16: when the peaks or the loss check land on a processed trace already drawn, only markers, rings and
+  // labels change; the figure then waits for the frame that paints the panels committed with them (the peak
+  // table first, its markers a frame later).
+  const drawnLines = useRef<{ processed: unknown; peaks: unknown; loss: unknown } | null>(null);
+  const markersOnly = result !== null && drawnLines.current !== null && drawnLines.current.processed === result.processed
+    && (drawnLines.current.peaks !== result.peaks || drawnLines.current.loss !== result.loss);
+  useEffect(() => { drawnLines.current = result ? { processed: result.processed, peaks: result.peaks, loss: result.loss } : null; }, [result]);
+
   const data = useMemo<PlotData[]>(() => {
     if (!sample) return [];
     const { from, to, columns } = view;
@@ -384,7 +392,7 @@ export function TracePlot({ onFigure }: { onFigure?: (el: HTMLElement | null) =>
   }
   return (
     <div ref={boxRef} className="plot-box" data-labels={labelCount.current ? `${labelCount.current.shown}/${labelCount.current.of}` : undefined}>
-      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onShapeX={onShapeX} dragShapes={selectedX !== null} onReady={onReady} onDrawn={onDrawn} pictureName={`${sample.source.fileName.replace(/\.[^.]*$/, '')}-plot`} drawnTag={String(result ? resultSeq : 0)} />
+      <PlotlyFigure data={data} layout={layout} className="plot" label={`Plot of ${sample.name}: raw and processed trace with the residual below`} onXRange={onXRange} onSelectX={onSelectX} onClickPoint={onClickPoint} onShapeX={onShapeX} dragShapes={selectedX !== null} onReady={onReady} onDrawn={onDrawn} pictureName={`${sample.source.fileName.replace(/\.[^.]*$/, '')}-plot`} drawnTag={String(result ? resultSeq : 0)} afterPaint={markersOnly} />
       {lostRings && (
         <p className="small muted plot-label-note" data-testid="lost-note">
           Rings on {lostRings.drawn} of the {lostRings.of.toLocaleString('en')} features some choice loses (quantifiable first, then the highest S/N); the loss check below lists them.

@@ -15,7 +15,7 @@
  */
 import { describe, expect, it, vi } from 'vitest';
 import type { PlotData, PlotLayout } from 'plotly.js-strict-dist-min';
-import { PlotlyFigure } from '../../src/ui/PlotlyFigure.tsx';
+import { afterNextPaint, PlotlyFigure } from '../../src/ui/PlotlyFigure.tsx';
 import { html, text } from './harness.ts';
 
 const plotly = vi.hoisted(() => ({ react: vi.fn(() => Promise.resolve({ on() {} })), purge: vi.fn() }));
@@ -50,5 +50,41 @@ describe('PlotlyFigure (static)', () => {
     const t = text(h);
     expect(h).toContain('data-testid="figure-notes"');
     expect(t).toMatch(/Absorbance \(mAU\): values of magnitude up to [\d.e+]+ are too large for the plot to draw, so they are drawn divided by 1e308\. The data and every result are unchanged\./);
+  });
+});
+
+describe('afterNextPaint (issue 16: markers drawn after the frame that paints the peak table)', () => {
+  it('waits for the next animation frame and a task after it, not less', async () => {
+    const frames: (() => void)[] = [];
+    vi.stubGlobal('requestAnimationFrame', (f: () => void) => { frames.push(f); return frames.length; });
+    try {
+      let done = false;
+      const p = afterNextPaint().then(() => { done = true; });
+      await new Promise((r) => setTimeout(r, 20));
+      expect(done).toBe(false); // no frame yet: still waiting (the 100 ms fallback has not run out)
+      expect(frames).toHaveLength(1);
+      frames[0]();
+      expect(done).toBe(false); // the frame's own callback is not yet after the paint
+      await p;
+      expect(done).toBe(true);
+    } finally {
+      vi.unstubAllGlobals();
+    }
+  });
+
+  it('goes on after 100 ms when no frame comes (a hidden page paints none)', async () => {
+    vi.useFakeTimers();
+    vi.stubGlobal('requestAnimationFrame', () => 0);
+    try {
+      let done = false;
+      void afterNextPaint().then(() => { done = true; });
+      await vi.advanceTimersByTimeAsync(99);
+      expect(done).toBe(false);
+      await vi.advanceTimersByTimeAsync(1);
+      expect(done).toBe(true);
+    } finally {
+      vi.useRealTimers();
+      vi.unstubAllGlobals();
+    }
   });
 });
