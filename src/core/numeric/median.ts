@@ -92,23 +92,16 @@ const BUCKETS = 4096;
  */
 function medianByBuckets(a: Float64Array): number | undefined {
   const n = a.length;
-  let min = Infinity, max = -Infinity;
-  for (let i = 0; i < n; i++) {
-    const v = a[i];
-    if (v < min) min = v;
-    if (v > max) max = v;
-    if (v !== v) return undefined;
-  }
+  const range = new Float64Array([Infinity, -Infinity]);
+  for (let from = 0; from < n; from += PASS_CHUNK) if (!rangeChunk(a, from, Math.min(n, from + PASS_CHUNK), range)) return undefined;
+  const min = range[0], max = range[1];
   if (!(min <= max) || !Number.isFinite(min) || !Number.isFinite(max)) return undefined;
   if (min === max) return min;
   const scale = BUCKETS / (max - min);
   if (!Number.isFinite(scale)) return undefined;
   const last = BUCKETS - 1;
   const counts = new Int32Array(BUCKETS);
-  for (let i = 0; i < n; i++) {
-    const b = ((a[i] - min) * scale) | 0;
-    counts[b > last ? last : b]++;
-  }
+  for (let from = 0; from < n; from += PASS_CHUNK) countChunk(a, from, Math.min(n, from + PASS_CHUNK), min, scale, last, counts);
   const hiRank = n >> 1;
   let below = 0, hiBucket = 0;
   while (below + counts[hiBucket] <= hiRank) below += counts[hiBucket++];
@@ -116,12 +109,7 @@ function medianByBuckets(a: Float64Array): number | undefined {
   if (size > n >> 2) return undefined;
   const part = new Float64Array(size);
   let m = 0;
-  for (let i = 0; i < n; i++) {
-    const v = a[i];
-    let b = ((v - min) * scale) | 0;
-    if (b > last) b = last;
-    if (b === hiBucket) part[m++] = v;
-  }
+  for (let from = 0; from < n; from += PASS_CHUNK) m = gatherChunk(a, from, Math.min(n, from + PASS_CHUNK), min, scale, last, hiBucket, part, m);
   const r = hiRank - below;
   const hi = selectInPlace(part, r);
   if (n % 2 === 1) return hi;
@@ -138,6 +126,49 @@ function medianByBuckets(a: Float64Array): number | undefined {
     }
   }
   return 0.5 * (lo + hi);
+}
+
+/**
+ * Values handed to each call of a one-pass kernel over a long array (issue 16). A loop run once per slider
+ * move, inside a function called once per move, is compiled by the engine while it runs (on-stack
+ * replacement) and, in the analysis worker, again on every move, its later loops starting without type
+ * feedback; while that compilation waits for a core the loop runs unoptimised. Called for one chunk at a
+ * time, the kernel is called often enough to be compiled as a whole and kept. Each pass goes through the
+ * values in the same order as one loop would, so results are the same bit for bit.
+ */
+export const PASS_CHUNK = 1 << 14;
+
+/** Widen range[0] (min) and range[1] (max) by a[from, to); false at a NaN (range then unspecified). */
+function rangeChunk(a: Float64Array, from: number, to: number, range: Float64Array): boolean {
+  let min = range[0], max = range[1];
+  for (let i = from; i < to; i++) {
+    const v = a[i];
+    if (v < min) min = v;
+    if (v > max) max = v;
+    if (v !== v) return false;
+  }
+  range[0] = min;
+  range[1] = max;
+  return true;
+}
+
+/** Count a[from, to) into the buckets ⌊(v − min)·scale⌋, the top one taking what rounds past it. */
+function countChunk(a: Float64Array, from: number, to: number, min: number, scale: number, last: number, counts: Int32Array): void {
+  for (let i = from; i < to; i++) {
+    const b = ((a[i] - min) * scale) | 0;
+    counts[b > last ? last : b]++;
+  }
+}
+
+/** Copy the values of a[from, to) in bucket `bucket` to part[m …]; returns the new m. */
+function gatherChunk(a: Float64Array, from: number, to: number, min: number, scale: number, last: number, bucket: number, part: Float64Array, m: number): number {
+  for (let i = from; i < to; i++) {
+    const v = a[i];
+    let b = ((v - min) * scale) | 0;
+    if (b > last) b = last;
+    if (b === bucket) part[m++] = v;
+  }
+  return m;
 }
 
 /**

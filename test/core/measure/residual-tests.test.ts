@@ -2,6 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { lag1Autocorrelation, residual, residualDiagnostics, runsTest, twoSidedP } from '../../../src/core/measure/residual-tests.ts';
 import { makeRng } from '../../../src/core/numeric/random.ts';
+import { PASS_CHUNK } from '../../../src/core/numeric/median.ts';
 import { ref } from '../baseline-reference.ts';
 import { plainRuns } from './runs-rule.ts';
 
@@ -35,6 +36,37 @@ describe('runs test and lag-1 against outside values', () => {
       expect(got.runs).toBe(want.runs);
       expect(got.expected).toBe(want.expected);
     }), { numRuns: 1000 });
+  });
+
+  it('give the same numbers, bit for bit, as one plain loop over arrays that cross the chunks they are read in (PASS_CHUNK)', () => {
+    // The kernels read long arrays a chunk at a time (issue 16); the reference here is one loop each, as the
+    // definitions read. Lengths around one, two and several chunks; white noise, ties on a coarse grid, a drift.
+    const rng = makeRng(16);
+    for (const n of [PASS_CHUNK - 1, PASS_CHUNK, PASS_CHUNK + 1, 2 * PASS_CHUNK + 3, 5 * PASS_CHUNK + 77]) {
+      for (const kind of ['white', 'ties', 'drift'] as const) {
+        const e = Float64Array.from({ length: n }, (_, i) => {
+          const g = rng.normal();
+          return kind === 'white' ? g : kind === 'ties' ? Math.round(2 * g) / 2 : g + 1e-4 * i;
+        });
+        let mean = 0;
+        for (let i = 0; i < n; i++) mean += e[i];
+        mean /= n;
+        let num = 0, den = 0, ss = 0;
+        for (let i = 0; i < n; i++) {
+          const a = e[i] - mean;
+          den += a * a;
+          if (i + 1 < n) num += a * (e[i + 1] - mean);
+          ss += e[i] * e[i];
+        }
+        const sorted = Array.from(e).sort((a, b) => a - b);
+        const med = n % 2 ? sorted[n >> 1] : 0.5 * (sorted[(n >> 1) - 1] + sorted[n >> 1]);
+        const want = plainRuns(e, med);
+        const got = residualDiagnostics(e);
+        expect(Object.is(lag1Autocorrelation(e), den > 0 ? num / den : 0), `${kind} ${n}`).toBe(true);
+        expect(Object.is(got.rms, Math.sqrt(ss / n)), `${kind} ${n}`).toBe(true);
+        expect([got.runs.runs, got.runs.expected], `${kind} ${n}`).toEqual([want.runs, want.expected]);
+      }
+    }
   });
 
   it('two-sided normal p-values agree with scipy.stats.norm.sf within the erfc approximation (1.2e-7 relative)', () => {
