@@ -11,6 +11,8 @@
  * All passes are O(n) over typed arrays.
  */
 
+import { PASS_CHUNK } from '../numeric/median.ts';
+
 /** Output of {@link peakProminences}, one entry per peak (SciPy's prominence_data). */
 export interface ProminenceData {
   /** y-units. */
@@ -266,14 +268,53 @@ export interface ProminentMaxima {
 export function prominentMaxima(y: Float64Array, minProminence: number): ProminentMaxima {
   const n = y.length;
   const cap = Math.max(0, (n >> 1) + 1);
-  const pk = scratchI32('pmIndex', cap), leftMin = scratchF64('pmLeftMin', cap), lBase = scratchI32('pmLeftBase', cap);
-  // Valley k lies before maximum k; valley m after the last one.
-  const vMin = scratchF64('pmValleyMin', cap + 1), vFirst = scratchI32('pmValleyFirst', cap + 1);
-  const stVal = scratchF64('pmStackValue', cap), stMin = scratchF64('pmStackMin', cap), stArg = scratchI32('pmStackArg', cap);
-  let m = 0, top = -1, a = 0;
-  let i = 1;
+  const w: MaximaWork = {
+    pk: scratchI32('pmIndex', cap), leftMin: scratchF64('pmLeftMin', cap), lBase: scratchI32('pmLeftBase', cap),
+    // Valley k lies before maximum k; valley m after the last one.
+    vMin: scratchF64('pmValleyMin', cap + 1), vFirst: scratchI32('pmValleyFirst', cap + 1),
+    stVal: scratchF64('pmStackValue', cap), stMin: scratchF64('pmStackMin', cap), stArg: scratchI32('pmStackArg', cap),
+    // m (maxima so far), top (of the stack), a (where the next valley starts), i (the next sample).
+    state: new Int32Array([0, -1, 0, 1]),
+  };
+  // Each pass a chunk per call (PASS_CHUNK, median.ts: compiled whole and kept, not inside its loop on every move),
+  // through the samples and the maxima in the order one loop takes them.
   const iMax = n - 1;
-  while (i < iMax) {
+  while (w.state[3] < iMax) maximaChunk(y, Math.min(iMax, w.state[3] + PASS_CHUNK), w);
+  const m = w.state[0];
+  const { pk, leftMin, lBase, vMin, vFirst } = w;
+  if (m > 0) {
+    let vm = Infinity, first = -1;
+    for (let j = w.state[2]; j < n; j++) { const v = y[j]; if (v < vm) { vm = v; first = j; } }
+    vMin[m] = vm; vFirst[m] = first;
+  }
+  // Backward over the maxima: right minimum and prominence; the passing ones counted, then written in order.
+  // The prominence of maximum k replaces its left minimum, its right base the first sample of valley k + 1
+  // (read just before, never again).
+  const back = new Int32Array([-1, 0]); // top of the stack, count passing
+  for (let k = m - 1; k >= 0; k -= PASS_CHUNK) prominenceChunk(y, k, Math.max(-1, k - PASS_CHUNK), minProminence, w, back);
+  const count = back[1];
+  const prom = leftMin, rBase = vFirst;
+  const out: ProminentMaxima = {
+    count, index: new Int32Array(count), prominence: new Float64Array(count), leftBase: new Int32Array(count), rightBase: new Int32Array(count),
+    halfWidth: new Float64Array(count),
+  };
+  let c = 0;
+  for (let k = 0; k < m; k += PASS_CHUNK) c = passingChunk(y, k, Math.min(m, k + PASS_CHUNK), minProminence, pk, prom, lBase, rBase, out, c);
+  return out;
+}
+
+/** The working arrays of {@link prominentMaxima} and its forward state. */
+interface MaximaWork {
+  pk: Int32Array; leftMin: Float64Array; lBase: Int32Array; vMin: Float64Array; vFirst: Int32Array;
+  stVal: Float64Array; stMin: Float64Array; stArg: Int32Array; state: Int32Array;
+}
+
+/** The forward pass of {@link prominentMaxima} for samples i < iEnd: maxima, their valleys and left minima. */
+function maximaChunk(y: Float64Array, iEnd: number, w: MaximaWork): void {
+  const { pk, leftMin, lBase, vMin, vFirst, stVal, stMin, stArg, state } = w;
+  let m = state[0], top = state[1], a = state[2], i = state[3];
+  const iMax = y.length - 1;
+  while (i < iEnd) {
     if (y[i - 1] < y[i]) {
       let ahead = i + 1;
       while (ahead < iMax && y[ahead] === y[i]) ahead++;
@@ -301,18 +342,15 @@ export function prominentMaxima(y: Float64Array, minProminence: number): Promine
     }
     i++;
   }
-  if (m > 0) {
-    let vm = Infinity, first = -1;
-    for (let j = a; j < n; j++) { const v = y[j]; if (v < vm) { vm = v; first = j; } }
-    vMin[m] = vm; vFirst[m] = first;
-  }
-  // Backward over the maxima: right minimum and prominence; the passing ones counted, then written in order.
-  // The prominence of maximum k replaces its left minimum, its right base the first sample of valley k + 1
-  // (read just before, never again).
+  state[0] = m; state[1] = top; state[2] = a; state[3] = i;
+}
+
+/** The backward pass of {@link prominentMaxima} over maxima kFrom down to kTo + 1 (back: stack top, count passing). */
+function prominenceChunk(y: Float64Array, kFrom: number, kTo: number, minProminence: number, w: MaximaWork, back: Int32Array): void {
+  const { pk, leftMin, vMin, vFirst, stVal, stMin, stArg } = w;
   const prom = leftMin, rBase = vFirst;
-  let count = 0;
-  top = -1;
-  for (let k = m - 1; k >= 0; k--) {
+  let top = back[0], count = back[1];
+  for (let k = kFrom; k > kTo; k--) {
     const p = pk[k], v = y[p];
     let mn = v, arg = p;
     if (vMin[k + 1] < mn) { mn = vMin[k + 1]; arg = vFirst[k + 1]; }
@@ -326,10 +364,16 @@ export function prominentMaxima(y: Float64Array, minProminence: number): Promine
     if (pr >= minProminence) count++;
     top++; stVal[top] = v; stMin[top] = mn; stArg[top] = arg;
   }
-  const index = new Int32Array(count), prominence = new Float64Array(count), leftBase = new Int32Array(count), rightBase = new Int32Array(count);
-  const halfWidth = new Float64Array(count);
-  let c = 0;
-  for (let k = 0; k < m; k++) {
+  back[0] = top; back[1] = count;
+}
+
+/** The passing maxima among k in [kFrom, kTo), written from out[c] with their half-prominence widths; returns the new c. */
+function passingChunk(
+  y: Float64Array, kFrom: number, kTo: number, minProminence: number,
+  pk: Int32Array, prom: Float64Array, lBase: Int32Array, rBase: Int32Array, out: ProminentMaxima, c: number,
+): number {
+  const { index, prominence, leftBase, rightBase, halfWidth } = out;
+  for (let k = kFrom; k < kTo; k++) {
     const pr = prom[k];
     if (!(pr >= minProminence)) continue;
     const p = pk[k], iMin = lBase[k], iMax2 = rBase[k + 1];
@@ -347,7 +391,7 @@ export function prominentMaxima(y: Float64Array, minProminence: number): Promine
     halfWidth[c] = rip - lip;
     c++;
   }
-  return { count, index, prominence, leftBase, rightBase, halfWidth };
+  return c;
 }
 
 function sameIndices(a: ArrayLike<number>, b: Int32Array): boolean {
