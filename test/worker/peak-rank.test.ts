@@ -7,7 +7,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { PLOT_MARKERS_BELOW, peakTableRows, peakTotals, peakView, plotMarkers, rankMarkers, rankTableRows, rememberPeakView, tableTotals } from '../../src/worker/peak-rank.ts';
+import { PLOT_MARKERS_BELOW, firstByKey, peakTableRows, peakTotals, peakView, plotMarkers, rankMarkers, rankTableRows, rememberPeakView, tableTotals } from '../../src/worker/peak-rank.ts';
 import type { Peak } from '../../src/core/measure/peak-types.ts';
 import { analyse } from '../../src/core/analysis/index.ts';
 import { emptyRecipe } from '../../src/core/method.ts';
@@ -71,6 +71,38 @@ describe('the peak table ranked in the worker', () => {
         // The same objects, not copies: the page finds them in its own table.
         rows.forEach((i, k) => expect(peaks[i]).toBe(pickRowsBefore(peaks, cap)[k]));
         expect([...rankMarkers(peaks, cap, belowCap)].map((i) => peaks[i])).toEqual(markersRule(peaks, cap, belowCap));
+      },
+    ), { numRuns: 300 });
+  });
+
+  it('keeps only the first rows without sorting them all, and they are the same as after a full sort (long tables, few kept)', () => {
+    fc.assert(fc.property(
+      fc.array(fc.record({
+        snr: fc.option(fc.oneof(fc.constantFrom(3, 3, 3, 10, 0, -0, Infinity, -Infinity), fc.integer({ min: -5, max: 40 }), fc.double({ noNaN: true })), { nil: null }),
+        origin: fc.constantFrom('detected', 'detected', 'detected', 'detected', 'added-by-user'),
+        removed: fc.integer({ min: 0, max: 9 }).map((k) => k === 0),
+        flag: fc.constantFrom('quantifiable', 'detectable', 'below-detection', 'below-detection'),
+      }), { minLength: 100, maxLength: 1500 }),
+      fc.integer({ min: 0, max: 120 }),
+      fc.integer({ min: 0, max: 60 }),
+      (specs, cap, belowCap) => {
+        const peaks = specs.map((s, i) => fakePeak(i, s.snr, s.origin, s.removed, s.flag));
+        expect([...rankTableRows(peaks, cap)].map((i) => peaks[i])).toEqual(pickRowsBefore(peaks, cap));
+        expect([...rankMarkers(peaks, cap, belowCap)].map((i) => peaks[i])).toEqual(markersRule(peaks, cap, belowCap));
+      },
+    ), { numRuns: 150 });
+  });
+
+  it('the first k by key equal a full sort cut at k, −0 and +0 equal, ties in index order; a NaN key sorts all as before', () => {
+    fc.assert(fc.property(
+      fc.array(fc.oneof(fc.constantFrom(0, -0, 1, 1, 2, Infinity, -Infinity), fc.double({ noNaN: true })), { maxLength: 400 }),
+      fc.integer({ min: -2, max: 420 }),
+      fc.boolean(),
+      (keys, k, withNaN) => {
+        const key = Float64Array.from(withNaN && keys.length ? [...keys.slice(1), NaN] : keys);
+        const idx = Array.from(key, (_, i) => i).filter((i) => i % 3 !== 1);
+        const full = [...idx].sort((a, b) => key[b] - key[a] || a - b).slice(0, Math.max(0, k));
+        expect(firstByKey(idx, key, k)).toEqual(full);
       },
     ), { numRuns: 300 });
   });

@@ -82,8 +82,87 @@ describe('rows as columns', () => {
     const cols = toColumns(r.peaks as unknown as Record<string, unknown>[]);
     expect(cols.columns.x.kind).toBe('number');
     expect(cols.columns.flag.kind).toBe('string');
+    expect(cols.columns.marks.kind).toBe('words');
+    expect(cols.columns.pharmaNoise.kind).toBe('records');
+    expect(Object.values(cols.columns).filter((c) => c.kind === 'plain')).toEqual([]);
     expect(columnBuffers(cols).length).toBeGreaterThan(20);
-    expect(fromColumns(structuredClone(cols))).toEqual(r.peaks);
+    expect(fromColumns(structuredClone(cols, { transfer: columnBuffers(cols) }))).toEqual(r.peaks);
+  });
+});
+
+describe('lists of words and objects as columns', () => {
+  // The peak table's marks (lists of words) and pharmacopoeial noise windows (objects) crossed as one array and one
+  // object per row; they now cross as columns too. The round trip must still give back the same rows.
+  const anyValue = fc.oneof(fc.double(), fc.string(), fc.boolean(), fc.constant(null), fc.array(fc.string(), { maxLength: 3 }));
+  it('round-trips lists, objects (of several shapes, nested, null or absent) and their mixtures, through a transfer', () => {
+    fc.assert(fc.property(
+      fc.array(fc.record({
+        marks: fc.option(fc.array(fc.constantFrom('a', 'b', 'thinly-sampled', '')), { nil: null }),
+        words: fc.option(fc.array(fc.string(), { maxLength: 4 }), { nil: undefined }),
+        window: fc.option(fc.record({
+          h: fc.double(), points: fc.integer(), source: fc.string(), clipped: fc.boolean(),
+          inner: fc.option(fc.record({ z: fc.option(fc.double(), { nil: null }), w: fc.array(fc.constantFrom('p', 'q')) }, { requiredKeys: [] }), { nil: undefined }),
+        }, { requiredKeys: ['h'] }), { nil: null }),
+        loose: fc.option(fc.dictionary(fc.constantFrom('k', 'l', 'm'), anyValue), { nil: undefined }),
+        mixed: fc.oneof(fc.array(fc.string(), { maxLength: 2 }), fc.record({ a: fc.double() }), fc.array(fc.double(), { maxLength: 2 })),
+      }, { requiredKeys: ['marks', 'mixed'] }), { maxLength: 30 }),
+      (rows) => {
+        const cols = toColumns(rows);
+        const sent = structuredClone(cols, { transfer: columnBuffers(cols) });
+        for (const back of [fromColumns<Record<string, unknown>>(sent), lazyRows<Record<string, unknown>>(sent)]) {
+          expect(back).toEqual(rows);
+          rows.forEach((r, i) => {
+            // The row's fields (in the order first seen in the table: as before), absent ones still absent (toEqual
+            // alone ignores undefined); each value as written, nested key order included (JSON), and −0 kept.
+            expect(Object.keys(back[i]).sort()).toEqual(Object.keys(r).filter((k) => (r as Record<string, unknown>)[k] !== undefined).sort());
+            for (const [k, v] of Object.entries(r)) expect(JSON.stringify(back[i][k])).toBe(JSON.stringify(v));
+            const w = r.window, bw = back[i].window as typeof w;
+            if (w) expect(Object.is(bw!.h, w.h)).toBe(true);
+          });
+        }
+      },
+    ), { numRuns: 200 });
+  });
+
+  it('takes lists of words and plain objects apart; anything else (numbers in a list, a class instance, a typed array) stays as it is', () => {
+    const withHole: string[] = ['a'];
+    withHole[2] = 'b'; // index 1 is a hole: not a list of words
+    const rows: Record<string, unknown>[] = [
+      { marks: ['x', 'y'], w: { h: 1, s: 'a' }, nums: [1, 2], when: new Date(0), arr: Float64Array.of(1), holes: withHole },
+      { marks: [], w: null, nums: [], when: new Date(1), arr: Float64Array.of(2), holes: [] },
+      { w: { h: -0, s: 'b' }, nums: null },
+    ];
+    const cols = toColumns(rows);
+    expect(cols.columns.marks).toEqual({ kind: 'words', dictionary: ['x', 'y'], starts: Uint32Array.of(0, 2, 2, 2), codes: Uint32Array.of(0, 1), kinds: Uint8Array.of(2, 2, 0) });
+    const w = cols.columns.w;
+    expect(w.kind).toBe('records');
+    if (w.kind !== 'records') return;
+    expect(w.at).toEqual(Int32Array.of(0, -2, 1));
+    expect(w.rows.fields).toEqual(['h', 's']);
+    expect(w.rows.columns.h).toEqual({ kind: 'number', values: Float64Array.of(1, -0) });
+    for (const f of ['nums', 'when', 'arr', 'holes']) expect(cols.columns[f].kind).toBe('plain');
+    const back = fromColumns<Record<string, unknown>>(structuredClone(cols));
+    expect(back).toEqual(rows);
+    expect(Object.is((back[2].w as { h: number }).h, -0)).toBe(true);
+    expect(Object.keys(back[2].w as object)).toEqual(['h', 's']);
+    // Objects with other keys, or the same keys in another order, stay as they are (each keeps its key order).
+    for (const other of [{ s: 'b', h: 2 }, { h: 2 }, { h: 2, s: 'b', t: 1 }]) {
+      const c2 = toColumns([{ w: { h: 1, s: 'a' } }, { w: other }]);
+      expect(c2.columns.w.kind).toBe('plain');
+      expect(JSON.stringify(fromColumns(structuredClone(c2)))).toBe(JSON.stringify([{ w: { h: 1, s: 'a' } }, { w: other }]));
+    }
+    expect('marks' in back[2]).toBe(false);
+  });
+
+  it('objects nested deeper than four levels stay plain below that, and come back the same', () => {
+    const deep = (k: number): Record<string, unknown> => (k === 0 ? { v: k } : { v: k, d: deep(k - 1) });
+    const rows = [{ d: deep(6) }, { d: deep(6) }];
+    const cols = toColumns(rows);
+    let c = cols, depth = 0;
+    while (c.columns.d?.kind === 'records') { c = c.columns.d.rows; depth++; }
+    expect(depth).toBe(4);
+    expect(c.columns.d.kind).toBe('plain');
+    expect(fromColumns(structuredClone(cols))).toEqual(rows);
   });
 });
 
