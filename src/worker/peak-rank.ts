@@ -114,10 +114,11 @@ export function firstByKey(idx: ArrayLike<number>, key: Float64Array, k: number)
   const m = idx.length;
   const byKey = (i: number, j: number) => key[j] - key[i] || i - j;
   if (k <= 0) return [];
+  if (k >= m) return Array.from(idx).sort(byKey);
   const vals = new Float64Array(m);
   let nan = false;
   for (let j = 0; j < m; j++) { const v = key[idx[j]]; vals[j] = v; if (v !== v) nan = true; }
-  if (k >= m || nan) return Array.from(idx).sort(byKey).slice(0, k);
+  if (nan) return Array.from(idx).sort(byKey).slice(0, k);
   vals.sort();
   const t = vals[m - k];
   const top: number[] = [], ties: number[] = [];

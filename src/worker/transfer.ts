@@ -41,9 +41,9 @@ export function cloneResultForTransfer<T>(value: T, depth = 0): T {
  * of every list end to end and where each list starts; all plain objects
  * (or null / absent: a peak's pharmacopoeial noise window) with the same
  * keys in the same order, columns of their own, made the same way, and which
- * of them each row has (so every row keeps its own key order, nested objects
- * too, except that the top rows' fields come back in the order first seen). Anything else stays
- * a plain list. (Issue 16: the marks and the noise windows crossed as one
+ * of them each row has (each object comes back with its keys in its own
+ * order; the top rows' fields come back in the order first seen). Anything
+ * else stays a plain list. (Issue 16: the marks and the noise windows crossed as one
  * array and one object per peak, 10–40 ms of the worker's structured clone
  * for 6,000–13,000 peaks at 10⁶ points, and as long again to read back on
  * the page's thread.)
